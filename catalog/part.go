@@ -1,0 +1,195 @@
+package catalog
+
+import (
+	"errors"
+	"time"
+)
+
+// ErrNotFound is returned when a part number is not in the catalog.
+var ErrNotFound = errors.New("catalog: part not found")
+
+// Kind is the kind of an orderable part.
+type Kind string
+
+// The kinds of part the catalog holds.
+const (
+	KindResistor  Kind = "resistor"
+	KindNetwork   Kind = "network"
+	KindAmplifier Kind = "amplifier"
+)
+
+// PriceBreak is one step of a part's price list: the unit price that applies
+// when at least MinQty pieces are bought.
+type PriceBreak struct {
+	MinQty    int     `json:"min_qty" yaml:"min_qty"`
+	UnitPrice float64 `json:"unit_price" yaml:"unit_price"`
+	Currency  string  `json:"currency" yaml:"currency"`
+}
+
+// Provenance says where a catalog row came from and when.
+type Provenance struct {
+	Source     string    `json:"source" yaml:"source"`
+	ImportedAt time.Time `json:"imported_at" yaml:"imported_at"`
+}
+
+// Offer is what makes a part orderable: its price list, the minimum order
+// quantity and the stock on hand.
+type Offer struct {
+	PriceBreaks []PriceBreak `json:"price_breaks" yaml:"price_breaks"`
+	// MinOrder is the minimum order quantity; 0 or 1 means none.
+	MinOrder int `json:"min_order,omitempty" yaml:"min_order,omitempty"`
+	// Stock is the quantity available; -1 means unknown.
+	Stock int `json:"stock" yaml:"stock"`
+}
+
+// ResistorGrade holds the figures shared by every value of a resistor
+// product line at one tolerance and tempco grade.
+type ResistorGrade struct {
+	// Technology is a trade word: thick-film, thin-film, metal-film, foil,
+	// wirewound, metal-strip (for shunts).
+	Technology string `json:"technology" yaml:"technology"`
+	// Package is the case or size code, for example 0603 or 1206.
+	Package string `json:"package" yaml:"package"`
+	// Tolerance is the initial tolerance as a fraction (0.001 for ±0.1 %).
+	Tolerance float64 `json:"tolerance" yaml:"tolerance"`
+	// TCR is the temperature coefficient box, ±ppm/K about 25 °C.
+	TCR float64 `json:"tcr_ppm" yaml:"tcr_ppm"`
+	// PowerW is the rated power at the rated ambient, W.
+	PowerW float64 `json:"power_w" yaml:"power_w"`
+	// MaxVoltageV is the limiting element voltage, V (0 = unknown).
+	MaxVoltageV float64 `json:"max_voltage_v" yaml:"max_voltage_v"`
+	// ThermalResistance is the part's thermal resistance to ambient, K/W
+	// (0 = unknown).
+	ThermalResistance float64 `json:"thermal_resistance_k_per_w,omitempty" yaml:"thermal_resistance_k_per_w,omitempty"`
+	// LoadLife is the load-life stability as a fraction of value over the
+	// rated life (0 = unknown).
+	LoadLife float64 `json:"load_life,omitempty" yaml:"load_life,omitempty"`
+}
+
+// ResistorSeries is a maker's product line offering every value of one
+// E-series over a value range at one grade, with one price list and a stock
+// figure per value.
+type ResistorSeries struct {
+	ID int64 `json:"-" yaml:"-"`
+	// Part is the series' order-code stem; a value's part number is
+	// PartNumber(value).
+	Part  string `json:"part" yaml:"part"`
+	Maker string `json:"maker" yaml:"maker"`
+	Line  string `json:"line" yaml:"line"`
+	// ESeries names the IEC 60063 series offered: E24, E96, E192, ...
+	ESeries       string  `json:"e_series" yaml:"e_series"`
+	MinOhm        float64 `json:"min_ohm" yaml:"min_ohm"`
+	MaxOhm        float64 `json:"max_ohm" yaml:"max_ohm"`
+	ResistorGrade `yaml:",inline"`
+	Offer         `yaml:",inline"`
+	Provenance    `yaml:",inline"`
+}
+
+// Resistor is one orderable resistor: one part number, one value.
+type Resistor struct {
+	ID       int64   `json:"-" yaml:"-"`
+	Part     string  `json:"part" yaml:"part"`
+	Maker    string  `json:"maker" yaml:"maker"`
+	Line     string  `json:"line,omitempty" yaml:"line,omitempty"`
+	ValueOhm float64 `json:"value_ohm" yaml:"value_ohm"`
+	// SeriesPart is set when the resistor is a value of a ResistorSeries.
+	SeriesPart    string `json:"series_part,omitempty" yaml:"series_part,omitempty"`
+	ResistorGrade `yaml:",inline"`
+	Offer         `yaml:",inline"`
+	Provenance    `yaml:",inline"`
+}
+
+// Network is a set of resistors on one substrate whose ratios and tempcos
+// are matched.
+type Network struct {
+	ID    int64  `json:"-" yaml:"-"`
+	Part  string `json:"part" yaml:"part"`
+	Maker string `json:"maker" yaml:"maker"`
+	// Values are the element values in ohm, in pin order.
+	Values         []float64 `json:"values_ohm" yaml:"values_ohm"`
+	Technology     string    `json:"technology" yaml:"technology"`
+	Package        string    `json:"package" yaml:"package"`
+	Tolerance      float64   `json:"tolerance" yaml:"tolerance"`             // absolute, fraction
+	RatioTolerance float64   `json:"ratio_tolerance" yaml:"ratio_tolerance"` // any element to any other, fraction
+	TCR            float64   `json:"tcr_ppm" yaml:"tcr_ppm"`                 // absolute, ±ppm/K
+	TCRTracking    float64   `json:"tcr_tracking_ppm" yaml:"tcr_tracking_ppm"`
+	PowerW         float64   `json:"power_w" yaml:"power_w"` // per element
+	MaxVoltageV    float64   `json:"max_voltage_v" yaml:"max_voltage_v"`
+	Offer          `yaml:",inline"`
+	Provenance     `yaml:",inline"`
+}
+
+// AmplifierType tells an op-amp from an amplifier with matched resistors
+// inside (a difference or instrumentation amplifier with fixed gains).
+type AmplifierType string
+
+// Amplifier types.
+const (
+	OpAmp      AmplifierType = "opamp"
+	MatchedAmp AmplifierType = "matched"
+)
+
+// Amplifier is an op-amp or an amplifier with matched resistors inside.
+// Input and output ranges are given relative to the rails: the input
+// common-mode range runs from V- + CMNegV to V+ - CMPosV, so a negative
+// CMPosV means the inputs work above the positive rail. The output swings
+// from V- + SwingNegV to V+ - SwingPosV.
+type Amplifier struct {
+	ID       int64         `json:"-" yaml:"-"`
+	Part     string        `json:"part" yaml:"part"`
+	Maker    string        `json:"maker" yaml:"maker"`
+	Type     AmplifierType `json:"type" yaml:"type"`
+	Channels int           `json:"channels" yaml:"channels"`
+	Package  string        `json:"package" yaml:"package"`
+
+	SupplyMinV float64 `json:"supply_min_v" yaml:"supply_min_v"` // total supply span V+ - V-
+	SupplyMaxV float64 `json:"supply_max_v" yaml:"supply_max_v"`
+	CMNegV     float64 `json:"cm_neg_v" yaml:"cm_neg_v"`
+	CMPosV     float64 `json:"cm_pos_v" yaml:"cm_pos_v"`
+	SwingNegV  float64 `json:"swing_neg_v" yaml:"swing_neg_v"`
+	SwingPosV  float64 `json:"swing_pos_v" yaml:"swing_pos_v"`
+
+	VosV        float64  `json:"vos_v" yaml:"vos_v"`                         // max input offset voltage
+	VosDriftVK  float64  `json:"vos_drift_v_per_k" yaml:"vos_drift_v_per_k"` // max offset drift, V/K
+	IbA         float64  `json:"ib_a" yaml:"ib_a"`                           // max input bias current
+	IosA        float64  `json:"ios_a" yaml:"ios_a"`                         // max input offset current
+	AolVV       float64  `json:"aol_v_per_v" yaml:"aol_v_per_v"`             // min open-loop gain
+	CMRRdB      float64  `json:"cmrr_db" yaml:"cmrr_db"`                     // min CMRR
+	GBWHz       float64  `json:"gbw_hz" yaml:"gbw_hz"`
+	SlewVs      float64  `json:"slew_v_per_s" yaml:"slew_v_per_s"`
+	NoiseVHz    float64  `json:"noise_v_per_rthz" yaml:"noise_v_per_rthz"`             // voltage noise density, V/√Hz
+	NoiseAHz    float64  `json:"noise_a_per_rthz" yaml:"noise_a_per_rthz"`             // current noise density, A/√Hz
+	IqA         float64  `json:"iq_a" yaml:"iq_a"`                                     // quiescent current per channel
+	TypicalOnly []string `json:"typical_only,omitempty" yaml:"typical_only,omitempty"` // JSON names of figures given only as typical
+
+	// Matched-resistor amplifiers only.
+	Gains        []float64 `json:"gains,omitempty" yaml:"gains,omitempty"`
+	GainErrorMax float64   `json:"gain_error_max,omitempty" yaml:"gain_error_max,omitempty"` // fraction
+	GainDriftPPM float64   `json:"gain_drift_ppm,omitempty" yaml:"gain_drift_ppm,omitempty"` // ±ppm/K
+	// InNegV and InPosV bound the input voltage range relative to the
+	// rails, as CMNegV and CMPosV do for the op-amp pins.
+	InNegV float64 `json:"in_neg_v,omitempty" yaml:"in_neg_v,omitempty"`
+	InPosV float64 `json:"in_pos_v,omitempty" yaml:"in_pos_v,omitempty"`
+	// InternalOhm is the internal resistor value (for noise), ohm.
+	InternalOhm float64 `json:"internal_ohm,omitempty" yaml:"internal_ohm,omitempty"`
+
+	Offer      `yaml:",inline"`
+	Provenance `yaml:",inline"`
+}
+
+// UnitPrice returns the unit price that applies when qty pieces are bought:
+// the price of the largest break whose MinQty is at most qty. ok is false
+// when the list is empty or qty is below the first break.
+func (o Offer) UnitPrice(qty int) (price float64, currency string, ok bool) {
+	best := -1
+	for i, b := range o.PriceBreaks {
+		if b.MinQty <= qty && (best < 0 || b.MinQty > o.PriceBreaks[best].MinQty) {
+			best = i
+		}
+	}
+	if best < 0 {
+		return 0, "", false
+	}
+	b := o.PriceBreaks[best]
+	return b.UnitPrice, b.Currency, true
+}
