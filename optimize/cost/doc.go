@@ -1,0 +1,13 @@
+// Package cost prices a design for a build: how many pieces of each part
+// number are bought, at which price break, with the minimum order quantity,
+// attrition, optional assembly costs per placement and per distinct line
+// item, and the stock on hand.
+//
+// The arithmetic is common practice for a bill of materials: for each part
+// number, the pieces needed are the placements per stage times the number of
+// stages built; the pieces bought are that count times (1 + attrition),
+// rounded up, then raised to the minimum order quantity; the unit price is the
+// price of the largest break at or below the quantity bought. Buying up to a
+// higher break is chosen when it makes the line cheaper (a fact of the trade:
+// 100 pieces at 0.02 can cost less than 80 at 0.05).
+package cost
