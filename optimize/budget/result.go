@@ -1,0 +1,156 @@
+package budget
+
+// Contribution is one term of a metric's budget: a part's tolerance, a
+// tempco, an amplifier figure or the ratio quantization.
+type Contribution struct {
+	// Name says which part and which effect, e.g. "R2 tolerance", "A1 Vos".
+	Name string `json:"name"`
+	// Value is the term in the metric's unit: its worst-case size under
+	// worst case, its 3-sigma-equivalent size under RSS and Monte Carlo.
+	Value float64 `json:"value"`
+	// Share is the fraction of the total this term makes: |v|/Σ|v| under
+	// worst case, v²/Σv² under RSS and Monte Carlo.
+	Share float64 `json:"share"`
+}
+
+// Limit is one spec limit checked against the design.
+type Limit struct {
+	Name string `json:"name"`
+	// Value is the design's figure under the spec's method.
+	Value float64 `json:"value"`
+	// Limit is the spec's figure.
+	Limit float64 `json:"limit"`
+	// Max is true for a maximum (gain error), false for a minimum (CMRR).
+	Max bool `json:"is_max"`
+	// Margin is limit/value for a maximum and value/limit for a minimum,
+	// so a margin of 1 sits on the limit, above 1 passes and 2 means twice
+	// as good as needed. For dB limits it is the ratio of the linear values.
+	Margin     float64 `json:"margin"`
+	MarginText string  `json:"margin_text"`
+	Pass       bool    `json:"pass"`
+	// Unit of Value and Limit: "", "V", "V/K", "Hz", "dB", "ppm/K", "V/rtHz", "ohm".
+	Unit         string         `json:"unit"`
+	Contributors []Contribution `json:"contributors,omitempty"`
+}
+
+// Metrics are the design's scalar figures under the spec's method, in SI
+// units unless the name says otherwise.
+type Metrics struct {
+	// Gain is the nominal gain (nominal parts, finite open-loop gain).
+	Gain       float64 `json:"gain"`
+	GainTarget float64 `json:"gain_target"`
+	// GainNominalError is (Gain - GainTarget)/GainTarget: ratio quantization
+	// and open-loop gain.
+	GainNominalError float64 `json:"gain_nominal_error"`
+	// GainError is the worst |gain error| as a fraction over tolerances
+	// and the temperature range (with gain calibration: relative to the
+	// calibrated gain at the reference temperature).
+	GainError float64 `json:"gain_error"`
+	// GainErrorInitial is the worst |gain error| at the reference
+	// temperature before calibration.
+	GainErrorInitial float64 `json:"gain_error_initial"`
+	// CMRRdB is the worst common-mode rejection, resistors and amplifier.
+	CMRRdB float64 `json:"cmrr_db"`
+	// CMRRResistorsdB is the resistor-limited part (exact solve).
+	CMRRResistorsdB float64 `json:"cmrr_resistors_db"`
+	// DriftPPMPerK is the worst gain drift, ppm/K, over the worst excursion.
+	DriftPPMPerK float64 `json:"drift_ppm_per_k"`
+	// OutputOffsetV is the worst output offset error (with offset
+	// calibration: its change over temperature).
+	OutputOffsetV float64 `json:"output_offset_v"`
+	// OffsetDriftVPerK is the worst output offset drift.
+	OffsetDriftVPerK float64 `json:"offset_drift_v_per_k"`
+	// NoiseGain is the op-amp's noise gain (A1, or the first stage of an in-amp).
+	NoiseGain   float64 `json:"noise_gain"`
+	BandwidthHz float64 `json:"bandwidth_hz"`
+	// NoiseDensity is the output noise density at nominal values, V/√Hz.
+	NoiseDensity float64 `json:"noise_v_per_rthz"`
+	// NoiseRMSV is NoiseDensity over the brick-wall equivalent bandwidth
+	// (π/2 x f-3dB for a single pole).
+	NoiseRMSV float64 `json:"noise_rms_v"`
+	// InputImpedanceOhm is the lowest input resistance seen by the source.
+	InputImpedanceOhm float64 `json:"input_impedance_ohm"`
+	// HeadroomV is the least margin of any op-amp pin or output to its
+	// range over the input and common-mode corners (negative: out of range).
+	HeadroomV float64 `json:"headroom_v"`
+	// PowerRatio is the worst resistor dissipation over its derated rating.
+	PowerRatio float64 `json:"power_ratio"`
+	// VoltageRatio is the worst resistor voltage over its rated voltage.
+	VoltageRatio float64 `json:"voltage_ratio"`
+}
+
+// MCSummary is the outcome of a Monte Carlo run.
+type MCSummary struct {
+	Trials int    `json:"trials"`
+	Seed   uint64 `json:"seed"`
+	// Distribution is "uniform" or "normal" (truncated at the tolerance).
+	Distribution string `json:"distribution"`
+	// Yield is the fraction of trials that passed every limit.
+	Yield float64 `json:"yield"`
+	// YieldTarget is the spec's target (0 = none).
+	YieldTarget   float64            `json:"yield_target"`
+	PerLimitYield map[string]float64 `json:"per_limit_yield"`
+	// Percentiles maps metric name to its p0.135, p50 and p99.865 values
+	// (the ±3 sigma points of a normal distribution).
+	Percentiles map[string]Percentiles `json:"percentiles"`
+	// Samples keeps every trial's value of each metric for histograms.
+	Samples map[string][]float64 `json:"samples,omitempty"`
+}
+
+// Percentiles of one metric over the Monte Carlo trials.
+type Percentiles struct {
+	P0135  float64 `json:"p0_135"`
+	P50    float64 `json:"p50"`
+	P99865 float64 `json:"p99_865"`
+	Mean   float64 `json:"mean"`
+	StdDev float64 `json:"std_dev"`
+	Min    float64 `json:"min"`
+	Max    float64 `json:"max"`
+}
+
+// Part is one line of the design summary.
+type Part struct {
+	Position string  `json:"position"`
+	Part     string  `json:"part"`
+	Ohm      float64 `json:"ohm,omitempty"`
+	// Grade is a short description: "0.1% 25ppm/K", "network 0.05% ratio".
+	Grade string `json:"grade"`
+}
+
+// Result is a design's error budget against a spec.
+type Result struct {
+	Spec   string `json:"spec"`
+	Family string `json:"family"`
+	// Method is "worst-case", "rss" or "monte-carlo".
+	Method  string  `json:"method"`
+	Design  []Part  `json:"design"`
+	Metrics Metrics `json:"metrics"`
+	Limits  []Limit `json:"limits"`
+	// Binding is the name of the limit with the least margin.
+	Binding string `json:"binding"`
+	// Pass is true when every limit passes (and, under Monte Carlo, the
+	// yield meets its target).
+	Pass bool `json:"pass"`
+	// WorstCorner names, for the worst-case method, the tolerance corner
+	// giving the worst gain error, e.g. "R1+ R2- R3- R4+ at 85C".
+	WorstCorner string     `json:"worst_corner,omitempty"`
+	Cautions    []string   `json:"cautions"`
+	Notes       []string   `json:"notes"`
+	MonteCarlo  *MCSummary `json:"monte_carlo,omitempty"`
+}
+
+// Limit names used in Result.Limits, Score and MCSummary.
+const (
+	LimitGainError      = "gain error"
+	LimitCMRR           = "CMRR"
+	LimitGainDrift      = "gain drift"
+	LimitOutputOffset   = "output offset"
+	LimitOffsetDrift    = "offset drift"
+	LimitNoiseRMS       = "noise RMS"
+	LimitNoiseDensity   = "noise density"
+	LimitBandwidth      = "bandwidth"
+	LimitInputImpedance = "input impedance"
+	LimitHeadroom       = "amplifier headroom"
+	LimitPower          = "resistor power"
+	LimitVoltage        = "resistor voltage"
+)

@@ -1,0 +1,493 @@
+package spec
+
+import (
+	"errors"
+	"fmt"
+	"os"
+	"slices"
+	"sort"
+	"strings"
+
+	"plumb/catalog"
+)
+
+// Options are the circuit variants a design chooses (see optimize/circuit).
+type Options struct {
+	// RefDivider drives the reference of a difference amplifier through a
+	// divider Ra/Rb from vrefsrc instead of a stiff source.
+	RefDivider bool `json:"ref_divider"`
+	// Buffer puts a follower after a divider.
+	Buffer bool `json:"buffer"`
+	// OffsetToInverting feeds the level-shift offset into the inverting
+	// input instead of the non-inverting one.
+	OffsetToInverting bool `json:"offset_to_inverting"`
+}
+
+// Element is one physical resistor with its figures in SI units. For an
+// element of a network, Network names it and RatioTolerance and TCRTracking
+// hold the matching figures.
+type Element struct {
+	Part    string  `json:"part,omitempty"`
+	Network string  `json:"network,omitempty"`
+	Index   int     `json:"element,omitempty"` // 1-based element of Network
+	Ohm     float64 `json:"ohm"`
+	// Tolerance is a fraction; TCR is per K as a fraction (25e-6 for 25 ppm/K).
+	Tolerance         float64 `json:"tolerance"`
+	TCR               float64 `json:"tcr_per_k"`
+	PowerW            float64 `json:"power_w"`
+	MaxVoltageV       float64 `json:"max_voltage_v"`
+	ThermalResistance float64 `json:"thermal_resistance_k_per_w,omitempty"`
+	LoadLife          float64 `json:"load_life,omitempty"`
+	RatioTolerance    float64 `json:"ratio_tolerance,omitempty"`
+	TCRTracking       float64 `json:"tcr_tracking_per_k,omitempty"`
+	// Resolved is true once the figures are known (inline or from the catalog).
+	Resolved bool `json:"-"`
+}
+
+// Pair kinds for a position built from two resistors.
+const (
+	Single   = ""
+	Series   = "series"
+	Parallel = "parallel"
+)
+
+// Position is one resistor position of a circuit (R1, Rf, ...), filled by
+// one element or a series or parallel pair.
+type Position struct {
+	Name     string    `json:"name"`
+	Pair     string    `json:"pair,omitempty"`
+	Elements []Element `json:"elements"`
+}
+
+// Ohm is the position's nominal resistance: the element, the sum of a series
+// pair or the parallel combination.
+func (p *Position) Ohm() float64 {
+	switch {
+	case len(p.Elements) == 1:
+		return p.Elements[0].Ohm
+	case p.Pair == Series:
+		return p.Elements[0].Ohm + p.Elements[1].Ohm
+	default:
+		a, b := p.Elements[0].Ohm, p.Elements[1].Ohm
+		return a * b / (a + b)
+	}
+}
+
+// AmplifierChoice is the design's amplifier: a part number or inline
+// figures, and for a matched amplifier the chosen gain.
+type AmplifierChoice struct {
+	Part string            `json:"part,omitempty"`
+	Gain float64           `json:"gain,omitempty"`
+	Amp  catalog.Amplifier `json:"figures"`
+	// Resolved is true once the figures are known.
+	Resolved bool `json:"-"`
+}
+
+// Design is a concrete stage: a family, its options, a part at every
+// position and the amplifier.
+type Design struct {
+	Name       string          `json:"name,omitempty"`
+	Family     string          `json:"family"`
+	Options    Options         `json:"options"`
+	Positions  []Position      `json:"positions"` // sorted by name
+	Amplifier  AmplifierChoice `json:"amplifier"`
+	SourceFile string          `json:"-"`
+}
+
+// Position returns the named position or nil.
+func (d *Design) Position(name string) *Position {
+	for i := range d.Positions {
+		if d.Positions[i].Name == name {
+			return &d.Positions[i]
+		}
+	}
+	return nil
+}
+
+// The YAML layout of a design file.
+type rawDesign struct {
+	Name      string                 `yaml:"name"`
+	Family    string                 `yaml:"family"`
+	Options   Options                `yaml:"options"`
+	Positions map[string]rawPosition `yaml:"positions"`
+	Amplifier rawAmp                 `yaml:"amplifier"`
+}
+
+type rawElement struct {
+	Part              string `yaml:"part"`
+	Network           string `yaml:"network"`
+	Element           int    `yaml:"element"`
+	Value             string `yaml:"value"`
+	Tolerance         string `yaml:"tolerance"`
+	TCR               string `yaml:"tcr"`
+	Power             string `yaml:"power"`
+	MaxVoltage        string `yaml:"max_voltage"`
+	ThermalResistance string `yaml:"thermal_resistance"`
+	LoadLife          string `yaml:"load_life"`
+	RatioTolerance    string `yaml:"ratio_tolerance"`
+	TCRTracking       string `yaml:"tcr_tracking"`
+}
+
+type rawPosition struct {
+	rawElement `yaml:",inline"`
+	Series     []rawElement `yaml:"series"`
+	Parallel   []rawElement `yaml:"parallel"`
+}
+
+type rawAmp struct {
+	Part      string `yaml:"part"`
+	Type      string `yaml:"type"`
+	Gain      string `yaml:"gain"`
+	Vos       string `yaml:"vos"`
+	VosDrift  string `yaml:"vos_drift"`
+	Ib        string `yaml:"ib"`
+	Ios       string `yaml:"ios"`
+	Aol       string `yaml:"aol"`
+	CMRR      string `yaml:"cmrr"`
+	GBW       string `yaml:"gbw"`
+	Noise     string `yaml:"noise"`
+	CurNoise  string `yaml:"current_noise"`
+	CMNeg     string `yaml:"cm_neg"`
+	CMPos     string `yaml:"cm_pos"`
+	SwingNeg  string `yaml:"swing_neg"`
+	SwingPos  string `yaml:"swing_pos"`
+	SupplyMax string `yaml:"supply_max"`
+	GainError string `yaml:"gain_error"`
+	GainDrift string `yaml:"gain_drift"`
+	Internal  string `yaml:"internal_resistance"`
+	InNeg     string `yaml:"in_neg"`
+	InPos     string `yaml:"in_pos"`
+}
+
+// LoadDesign reads a design file.
+func LoadDesign(path string) (*Design, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, fmt.Errorf("design %s: %w", path, err)
+	}
+	return ParseDesign(data, path)
+}
+
+// ParseDesign reads a design from YAML; name is the file name used in errors.
+func ParseDesign(data []byte, name string) (*Design, error) {
+	var r rawDesign
+	if err := decodeStrict(data, &r, "design", name); err != nil {
+		return nil, err
+	}
+	p := &problems{kind: "design", file: name}
+	d := &Design{Name: r.Name, Family: r.Family, Options: r.Options, SourceFile: name}
+	switch {
+	case r.Family == "":
+		p.add("family", "missing; name the circuit family, one of %s", strings.Join(KnownFamilies, ", "))
+	case !slices.Contains(KnownFamilies, r.Family):
+		p.add("family", "%q is not a family; use one of %s", r.Family, strings.Join(KnownFamilies, ", "))
+	}
+	names := make([]string, 0, len(r.Positions))
+	for n := range r.Positions {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	if len(names) == 0 && r.Family != Matched {
+		p.add("positions", "missing; give a part for every resistor position of the family")
+	}
+	if len(names) > 0 && r.Family == Matched {
+		p.add("positions", "a matched amplifier has its resistors inside; remove the positions")
+	}
+	for _, n := range names {
+		d.Positions = append(d.Positions, parsePosition(p, "positions."+n, n, r.Positions[n]))
+	}
+	d.Amplifier = parseAmp(p, &r.Amplifier, r.Family == Matched)
+	if err := p.err(); err != nil {
+		return nil, err
+	}
+	return d, nil
+}
+
+func parsePosition(p *problems, path, name string, r rawPosition) Position {
+	pos := Position{Name: name}
+	single := r.rawElement != (rawElement{})
+	switch {
+	case single && (r.Series != nil || r.Parallel != nil), r.Series != nil && r.Parallel != nil:
+		p.add(path, "give one part, a series pair or a parallel pair, not several")
+	case r.Series != nil || r.Parallel != nil:
+		list, kind := r.Series, Series
+		if r.Parallel != nil {
+			list, kind = r.Parallel, Parallel
+		}
+		pos.Pair = kind
+		if len(list) != 2 {
+			p.add(path+"."+kind, "has %d parts; a pair has exactly two", len(list))
+		}
+		for i, e := range list {
+			pos.Elements = append(pos.Elements, parseElement(p, fmt.Sprintf("%s.%s[%d]", path, kind, i), e))
+		}
+	case single:
+		pos.Elements = []Element{parseElement(p, path, r.rawElement)}
+	default:
+		p.add(path, "empty; give part, network and element, or value with tolerance and tcr")
+	}
+	return pos
+}
+
+func parseElement(p *problems, path string, r rawElement) Element {
+	e := Element{Part: r.Part, Network: r.Network, Index: r.Element}
+	inline := r.Value != "" || r.Tolerance != "" || r.TCR != ""
+	switch {
+	case r.Part != "" && r.Network != "":
+		p.add(path, "names both part and network; a position holds one of them")
+	case r.Network != "" && r.Element < 1:
+		p.add(path+".element", "missing or below 1; give the 1-based element of network %s", r.Network)
+	case r.Network == "" && r.Element != 0:
+		p.add(path+".element", "given without a network")
+	case (r.Part != "" || r.Network != "") && inline:
+		p.add(path, "names a catalog part and also inline figures; give one or the other")
+	case r.Part == "" && r.Network == "" && !inline:
+		p.add(path, "empty; give part, network and element, or value with tolerance and tcr")
+	case inline:
+		e.Resolved = true
+		if r.Value == "" {
+			p.add(path+".value", "missing; give the resistance, e.g. 10k")
+		} else {
+			e.Ohm = field(p, path+".value", r.Value, uOhm)
+			if e.Ohm <= 0 {
+				p.add(path+".value", "%q must be positive", r.Value)
+			}
+		}
+		if r.Tolerance == "" {
+			p.add(path+".tolerance", "missing; give the tolerance, e.g. 0.1%%")
+		} else {
+			e.Tolerance = fractionField(p, path+".tolerance", r.Tolerance)
+		}
+		if r.TCR == "" {
+			p.add(path+".tcr", "missing; give the temperature coefficient, e.g. 25ppm/K")
+		} else {
+			e.TCR = tempcoField(p, path+".tcr", r.TCR)
+		}
+		if r.Power != "" {
+			e.PowerW = field(p, path+".power", r.Power, uWatt)
+		}
+		if r.MaxVoltage != "" {
+			e.MaxVoltageV = field(p, path+".max_voltage", r.MaxVoltage, uVolt)
+		}
+		if r.ThermalResistance != "" {
+			e.ThermalResistance = field(p, path+".thermal_resistance", r.ThermalResistance, uKPerW)
+		}
+		if r.LoadLife != "" {
+			e.LoadLife = fractionField(p, path+".load_life", r.LoadLife)
+		}
+	}
+	if !inline && (r.Power != "" || r.MaxVoltage != "" || r.ThermalResistance != "" || r.LoadLife != "") {
+		p.add(path, "rating figures belong to inline parts; a catalog part brings its own")
+	}
+	if r.RatioTolerance != "" || r.TCRTracking != "" {
+		p.add(path, "ratio_tolerance and tcr_tracking belong to a catalog network; name it with network and element")
+	}
+	if e.Tolerance < 0 || e.Tolerance >= 0.5 {
+		p.add(path+".tolerance", "%g is not a usable tolerance (0 to 50 %%)", e.Tolerance)
+	}
+	return e
+}
+
+func parseAmp(p *problems, r *rawAmp, matched bool) AmplifierChoice {
+	a := AmplifierChoice{Part: r.Part}
+	if r.Gain != "" {
+		a.Gain = field(p, "amplifier.gain", r.Gain, uGain)
+		if !matched {
+			p.add("amplifier.gain", "a chosen gain belongs to a matched amplifier; the resistors set the gain of an op-amp stage")
+		}
+	} else if matched {
+		p.add("amplifier.gain", "missing; a matched amplifier needs the chosen gain, one of its fixed gains")
+	}
+	inline := *r != (rawAmp{Part: r.Part, Gain: r.Gain})
+	switch {
+	case r.Part != "" && inline:
+		p.add("amplifier", "names part %s and also inline figures; give one or the other", r.Part)
+		return a
+	case r.Part != "":
+		return a
+	case !inline:
+		p.add("amplifier", "missing; give part or inline figures (vos, ib, aol, gbw, ...)")
+		return a
+	}
+	a.Resolved = true
+	m := &a.Amp
+	m.Part, m.Type = "inline", catalog.OpAmp
+	if matched || r.Type == string(catalog.MatchedAmp) {
+		m.Type = catalog.MatchedAmp
+	} else if r.Type != "" && r.Type != string(catalog.OpAmp) {
+		p.add("amplifier.type", "%q is not an amplifier type; use opamp or matched", r.Type)
+	}
+	q := func(path, t string, u unit, dst *float64) {
+		if t != "" {
+			*dst = field(p, "amplifier."+path, t, u)
+		}
+	}
+	q("vos", r.Vos, uVolt, &m.VosV)
+	q("vos_drift", r.VosDrift, uVPerK, &m.VosDriftVK)
+	q("ib", r.Ib, uAmp, &m.IbA)
+	q("ios", r.Ios, uAmp, &m.IosA)
+	q("cmrr", r.CMRR, uDB, &m.CMRRdB)
+	q("gbw", r.GBW, uHertz, &m.GBWHz)
+	q("noise", r.Noise, uNoise, &m.NoiseVHz)
+	q("current_noise", r.CurNoise, uCurNoise, &m.NoiseAHz)
+	q("cm_neg", r.CMNeg, uVolt, &m.CMNegV)
+	q("cm_pos", r.CMPos, uVolt, &m.CMPosV)
+	q("swing_neg", r.SwingNeg, uVolt, &m.SwingNegV)
+	q("swing_pos", r.SwingPos, uVolt, &m.SwingPosV)
+	q("supply_max", r.SupplyMax, uVolt, &m.SupplyMaxV)
+	q("internal_resistance", r.Internal, uOhm, &m.InternalOhm)
+	q("in_neg", r.InNeg, uVolt, &m.InNegV)
+	q("in_pos", r.InPos, uVolt, &m.InPosV)
+	if r.GainError != "" {
+		m.GainErrorMax = fractionField(p, "amplifier.gain_error", r.GainError)
+	}
+	if r.GainDrift != "" {
+		m.GainDriftPPM = 1e6 * tempcoField(p, "amplifier.gain_drift", r.GainDrift)
+	}
+	if r.Aol != "" {
+		// Open-loop gain in dB or V/V.
+		if v, err := parseQuantity(r.Aol, uDB); err == nil {
+			m.AolVV = dbToRatio(v)
+		} else {
+			m.AolVV = field(p, "amplifier.aol", r.Aol, uGain)
+		}
+	}
+	if m.Type == catalog.OpAmp {
+		if m.AolVV <= 0 {
+			p.add("amplifier.aol", "missing; an op-amp needs its minimum open-loop gain, e.g. 120dB")
+		}
+		if m.GBWHz <= 0 {
+			p.add("amplifier.gbw", "missing; give the gain-bandwidth product, e.g. 1MHz")
+		}
+	}
+	if a.Gain != 0 {
+		m.Gains = []float64{a.Gain}
+	}
+	return a
+}
+
+// Lookup finds a part by part number, returning its kind and the part
+// (catalog.Resistor, catalog.Network or catalog.Amplifier, by value or
+// pointer), or an error wrapping catalog.ErrNotFound.
+type Lookup func(part string) (catalog.Kind, any, error)
+
+// Resolve fills every catalog-referenced element and the amplifier from
+// lookup. All problems are reported together and nothing is changed unless
+// every reference resolves.
+func (d *Design) Resolve(lookup Lookup) error {
+	p := &problems{kind: "design", file: d.SourceFile}
+	positions := slices.Clone(d.Positions)
+	for i := range positions {
+		pos := &positions[i]
+		pos.Elements = slices.Clone(pos.Elements)
+		for j := range pos.Elements {
+			path := "positions." + pos.Name
+			if len(pos.Elements) > 1 {
+				path = fmt.Sprintf("%s.%s[%d]", path, pos.Pair, j)
+			}
+			resolveElement(p, path, &pos.Elements[j], lookup)
+		}
+	}
+	amp := d.Amplifier
+	if !amp.Resolved {
+		kind, v, err := lookup(amp.Part)
+		switch {
+		case err != nil:
+			p.add("amplifier.part", "%s: %v", amp.Part, err)
+		case kind != catalog.KindAmplifier:
+			p.add("amplifier.part", "%s is a %s, not an amplifier", amp.Part, kind)
+		default:
+			amp.Amp = deref[catalog.Amplifier](v)
+			amp.Resolved = true
+		}
+	}
+	if amp.Resolved && amp.Amp.Type == catalog.MatchedAmp && d.Family == Matched {
+		if len(amp.Amp.Gains) > 0 && !slices.Contains(amp.Amp.Gains, amp.Gain) {
+			p.add("amplifier.gain", "%g is not one of the gains of %s (%v)", amp.Gain, amp.Part, amp.Amp.Gains)
+		}
+	} else if amp.Resolved && d.Family == Matched {
+		p.add("amplifier.part", "%s is an op-amp; family matched needs an amplifier with matched resistors inside", amp.Part)
+	} else if amp.Resolved && amp.Amp.Type == catalog.MatchedAmp {
+		p.add("amplifier.part", "%s has matched resistors inside; use family matched for it", amp.Part)
+	}
+	if err := p.err(); err != nil {
+		return err
+	}
+	d.Positions, d.Amplifier = positions, amp
+	return nil
+}
+
+func resolveElement(p *problems, path string, e *Element, lookup Lookup) {
+	if e.Resolved {
+		return
+	}
+	ref := e.Part
+	if e.Network != "" {
+		ref = e.Network
+	}
+	kind, v, err := lookup(ref)
+	if err != nil {
+		p.add(path, "%s: %v", ref, err)
+		return
+	}
+	switch kind {
+	case catalog.KindResistor:
+		if e.Network != "" {
+			p.add(path+".network", "%s is a single resistor, not a network; name it with part", ref)
+			return
+		}
+		r := deref[catalog.Resistor](v)
+		g := r.ResistorGrade
+		*e = Element{Part: r.Part, Ohm: r.ValueOhm, Tolerance: g.Tolerance, TCR: g.TCR * 1e-6, PowerW: g.PowerW,
+			MaxVoltageV: g.MaxVoltageV, ThermalResistance: g.ThermalResistance, LoadLife: g.LoadLife, Resolved: true}
+	case catalog.KindNetwork:
+		n := deref[catalog.Network](v)
+		if e.Network == "" {
+			p.add(path+".part", "%s is a network; name it with network and element", ref)
+			return
+		}
+		if e.Index > len(n.Values) {
+			p.add(path+".element", "%d is beyond the %d elements of network %s", e.Index, len(n.Values), ref)
+			return
+		}
+		*e = Element{Network: n.Part, Index: e.Index, Ohm: n.Values[e.Index-1], Tolerance: n.Tolerance, TCR: n.TCR * 1e-6,
+			PowerW: n.PowerW, MaxVoltageV: n.MaxVoltageV, RatioTolerance: n.RatioTolerance, TCRTracking: n.TCRTracking * 1e-6, Resolved: true}
+	default:
+		p.add(path, "%s is a %s, not a resistor", ref, kind)
+	}
+}
+
+// deref accepts a T or a *T from a lookup.
+func deref[T any](v any) T {
+	switch x := v.(type) {
+	case T:
+		return x
+	case *T:
+		return *x
+	}
+	var zero T
+	panic(fmt.Sprintf("spec: lookup returned %T, want %T", v, zero))
+}
+
+// ErrUnresolved is returned by Check when a design still has parts without figures.
+var ErrUnresolved = errors.New("spec: design has unresolved catalog parts")
+
+// Unresolved lists the references still waiting for catalog figures.
+func (d *Design) Unresolved() []string {
+	var out []string
+	for _, pos := range d.Positions {
+		for _, e := range pos.Elements {
+			if !e.Resolved {
+				out = append(out, pos.Name+": "+e.Part+e.Network)
+			}
+		}
+	}
+	if !d.Amplifier.Resolved {
+		out = append(out, "amplifier: "+d.Amplifier.Part)
+	}
+	return out
+}
+
+func dbToRatio(db float64) float64 {
+	return pow10(db / 20)
+}

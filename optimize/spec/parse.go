@@ -1,0 +1,556 @@
+package spec
+
+import (
+	"fmt"
+	"math"
+	"slices"
+	"strconv"
+	"strings"
+)
+
+// The YAML layout of a spec file. Every quantity is read as text so that
+// its unit can be checked; see data/examples/README.md for the layout.
+type rawSpec struct {
+	Name            string      `yaml:"name"`
+	About           string      `yaml:"about"`
+	Family          string      `yaml:"family"`
+	Families        []string    `yaml:"families"`
+	Gain            string      `yaml:"gain"`
+	Input           rawInput    `yaml:"input"`
+	Output          string      `yaml:"output"`
+	Supply          string      `yaml:"supply"`
+	Reference       *rawRef     `yaml:"reference"`
+	SourceImpedance string      `yaml:"source_impedance"`
+	Load            rawLoad     `yaml:"load"`
+	Temperature     rawTemp     `yaml:"temperature"`
+	Limits          rawLimits   `yaml:"limits"`
+	Analysis        rawAnalysis `yaml:"analysis"`
+	Calibration     rawCal      `yaml:"calibration"`
+	Impedance       rawWindow   `yaml:"impedance"`
+	Build           rawBuild    `yaml:"build"`
+	Combos          []string    `yaml:"combos"`
+	Derating        string      `yaml:"derating"`
+}
+
+type rawInput struct {
+	Differential string `yaml:"differential"`
+	SingleEnded  string `yaml:"single_ended"`
+	Current      string `yaml:"current"`
+	CommonMode   string `yaml:"common_mode"`
+}
+
+type rawRef struct {
+	Voltage   string `yaml:"voltage"`
+	Tolerance string `yaml:"tolerance"`
+	Drift     string `yaml:"drift"`
+	Impedance string `yaml:"impedance"`
+}
+
+type rawLoad struct {
+	Resistance string `yaml:"resistance"`
+	Leakage    string `yaml:"leakage"`
+}
+
+type rawTemp struct {
+	Range     string `yaml:"range"`
+	Reference string `yaml:"reference"`
+}
+
+type rawLimits struct {
+	GainError      string `yaml:"gain_error"`
+	CMRR           string `yaml:"cmrr"`
+	GainDrift      string `yaml:"gain_drift"`
+	OutputOffset   string `yaml:"output_offset"`
+	OffsetDrift    string `yaml:"offset_drift"`
+	NoiseRMS       string `yaml:"noise_rms"`
+	NoiseDensity   string `yaml:"noise_density"`
+	Bandwidth      string `yaml:"bandwidth"`
+	InputImpedance string `yaml:"input_impedance"`
+}
+
+type rawAnalysis struct {
+	Method       string `yaml:"method"`
+	Trials       string `yaml:"trials"`
+	Seed         string `yaml:"seed"`
+	Distribution string `yaml:"distribution"`
+	Sigmas       string `yaml:"sigmas"`
+	Yield        string `yaml:"yield"`
+}
+
+type rawCal struct {
+	Gain   bool `yaml:"gain"`
+	Offset bool `yaml:"offset"`
+}
+
+type rawWindow struct {
+	Min string `yaml:"min"`
+	Max string `yaml:"max"`
+}
+
+type rawBuild struct {
+	Quantity      string `yaml:"quantity"`
+	Attrition     string `yaml:"attrition"`
+	PlacementCost string `yaml:"placement_cost"`
+	LineItemCost  string `yaml:"line_item_cost"`
+	Currency      string `yaml:"currency"`
+	Stock         string `yaml:"stock"`
+}
+
+// Defaults applied when a spec leaves a field out.
+const (
+	DefaultTempRef  = 25.0  // °C, domain notes §3
+	DefaultDerating = 0.5   // of rated power, domain notes §5
+	DefaultSigmas   = 3.0   // a tolerance is 3 sigma, domain notes §4
+	DefaultTrials   = 10000 // Monte Carlo trials
+	DefaultSeed     = 1
+)
+
+// Parse reads a spec from YAML. name is the file name used in errors. Every
+// problem found is reported, each naming the file and the field path.
+func Parse(data []byte, name string) (*Spec, error) {
+	var r rawSpec
+	if err := decodeStrict(data, &r, "spec", name); err != nil {
+		return nil, err
+	}
+	p := &problems{kind: "spec", file: name}
+	s := &Spec{SourceFile: name, Name: strings.TrimSpace(r.Name), About: strings.TrimSpace(r.About)}
+	if s.Name == "" {
+		p.add("name", "missing; give the spec a short name")
+	}
+	if s.About == "" {
+		p.add("about", "missing; say in one line what the spec is for")
+	} else if strings.Contains(s.About, "\n") {
+		p.add("about", "must be one line")
+	}
+	parseFamilies(p, &r, s)
+	parseSignal(p, &r, s)
+	parseEnvironment(p, &r, s)
+	parseLimits(p, &r.Limits, &s.Limits)
+	parseAnalysis(p, &r, s)
+	parseBuild(p, &r, s)
+	if len(p.errs) == 0 {
+		checkConsistency(p, s)
+	}
+	if err := p.err(); err != nil {
+		return nil, err
+	}
+	return s, nil
+}
+
+func parseFamilies(p *problems, r *rawSpec, s *Spec) {
+	switch {
+	case r.Family != "" && len(r.Families) > 0:
+		p.add("family", "given together with families; use one of them")
+		return
+	case r.Family != "":
+		s.Families = []string{strings.TrimSpace(r.Family)}
+	case len(r.Families) > 0:
+		s.Families = r.Families
+	default:
+		p.add("family", "missing; name one of %s, or list several under families", strings.Join(KnownFamilies, ", "))
+		return
+	}
+	for i, f := range s.Families {
+		field := "family"
+		if len(r.Families) > 0 {
+			field = fmt.Sprintf("families[%d]", i)
+		}
+		if !slices.Contains(KnownFamilies, f) {
+			p.add(field, "%q is not a family; use one of %s", f, strings.Join(KnownFamilies, ", "))
+		} else if slices.Index(s.Families, f) != i {
+			p.add(field, "%q is listed twice", f)
+		}
+	}
+}
+
+// differentialFamily reports whether a family takes a differential input.
+func differentialFamily(f string) bool {
+	return f == Difference || f == InAmp || f == Matched || f == CurrentSense
+}
+
+func parseSignal(p *problems, r *rawSpec, s *Spec) {
+	in := r.Input
+	given := 0
+	for _, v := range []string{in.Differential, in.SingleEnded, in.Current} {
+		if v != "" {
+			given++
+		}
+	}
+	if given > 1 {
+		p.add("input", "give one of differential, single_ended or current, not several")
+	}
+	cs := slices.Contains(s.Families, CurrentSense)
+	switch {
+	case in.Current != "":
+		if !cs || len(s.Families) > 1 {
+			p.add("input.current", "a current input needs family current-sense alone")
+		}
+		s.Input = rangeField(p, "input.current", in.Current, uAmp)
+	case in.Differential != "":
+		s.Differential = true
+		s.Input = rangeField(p, "input.differential", in.Differential, uVolt)
+	case in.SingleEnded != "":
+		s.Input = rangeField(p, "input.single_ended", in.SingleEnded, uVolt)
+	default:
+		p.add("input", "missing; give differential, single_ended or current with its range, e.g. ±10V")
+	}
+	if cs && in.Current == "" && given == 1 {
+		p.add("input", "family current-sense takes input.current (the shunt current), e.g. 0..5A")
+	}
+	if in.Differential != "" || in.SingleEnded != "" {
+		for _, f := range s.Families {
+			if f != CurrentSense && differentialFamily(f) != s.Differential {
+				want := "single_ended"
+				if differentialFamily(f) {
+					want = "differential"
+				}
+				p.add("input", "family %s takes input.%s", f, want)
+			}
+		}
+	}
+	if in.CommonMode != "" {
+		s.CommonMode = rangeField(p, "input.common_mode", in.CommonMode, uVolt)
+	}
+	if s.Input.Min == s.Input.Max && given == 1 {
+		p.add("input", "range is a single value; give the span the stage must handle, e.g. -10..10V")
+	}
+
+	ls := slices.Contains(s.Families, LevelShift)
+	if ls && len(s.Families) > 1 {
+		p.add("families", "level-shift derives its gain from the ranges; list it alone")
+	}
+	if r.Output != "" {
+		if !ls {
+			p.add("output", "only a level-shift spec gives an output range; others give gain")
+		}
+		s.Output = rangeField(p, "output", r.Output, uVolt)
+	}
+	switch {
+	case ls && r.Gain != "":
+		p.add("gain", "a level-shift gain follows from input and output; remove gain or the output range")
+	case ls && r.Output == "":
+		p.add("output", "missing; a level-shift spec maps the input range onto an output range, e.g. 0..2.5V")
+	case ls:
+		if s.Input.Span() > 0 {
+			s.Gain = s.Output.Span() / s.Input.Span()
+			s.Offset = s.Output.Min - s.Gain*s.Input.Min
+		}
+	case r.Gain == "":
+		p.add("gain", "missing; give the target gain, e.g. 10 or -2")
+	default:
+		u := uGain
+		if cs {
+			u = uTransR
+		}
+		n := len(p.errs)
+		s.Gain = field(p, "gain", r.Gain, u)
+		if s.Gain == 0 && len(p.errs) == n {
+			p.add("gain", "is zero; a stage needs a non-zero gain")
+		}
+	}
+	for _, f := range s.Families {
+		if msg := gainSignProblem(f, s.Gain); msg != "" && s.Gain != 0 {
+			p.add("gain", "%g does not suit family %s: %s", s.Gain, f, msg)
+		}
+	}
+}
+
+// gainSignProblem says why gain g cannot be made by family f ("" if it can).
+func gainSignProblem(f string, g float64) string {
+	switch f {
+	case Inverting:
+		if g >= 0 {
+			return "an inverting amplifier has a negative gain (-Rf/Rg)"
+		}
+	case NonInverting:
+		if g < 1 {
+			return "a non-inverting amplifier has gain 1 + Rf/Rg, at least 1"
+		}
+	case Divider:
+		if g <= 0 || g >= 1 {
+			return "a divider's gain R2/(R1+R2) lies between 0 and 1"
+		}
+	case InAmp:
+		if g < 1 {
+			return "an instrumentation amplifier's gain is at least 1"
+		}
+	case Difference, Matched, CurrentSense, LevelShift:
+		if g <= 0 {
+			return "give a positive gain; swap the inputs for a negative one"
+		}
+	}
+	return ""
+}
+
+func parseEnvironment(p *problems, r *rawSpec, s *Spec) {
+	if r.Supply == "" {
+		p.add("supply", "missing; give the rails, e.g. ±15V or 0..5V")
+	} else {
+		s.Supply = rangeField(p, "supply", r.Supply, uVolt)
+		if s.Supply.Min == s.Supply.Max {
+			if s.Supply.Max > 0 {
+				s.Supply.Min = 0 // "5V" is a single supply against ground
+			} else {
+				p.add("supply", "%q gives no supply span; write e.g. ±15V or 0..5V", r.Supply)
+			}
+		}
+		if s.Supply.Min > 0 || s.Supply.Max < 0 {
+			p.add("supply", "%q does not include ground (0 V) between its rails", r.Supply)
+		}
+	}
+	if ref := r.Reference; ref != nil {
+		s.Reference = &Reference{}
+		if ref.Voltage == "" {
+			p.add("reference.voltage", "missing; give the reference voltage, e.g. 2.5V")
+		} else {
+			s.Reference.V = field(p, "reference.voltage", ref.Voltage, uVolt)
+		}
+		if ref.Tolerance != "" {
+			s.Reference.Tolerance = fractionField(p, "reference.tolerance", ref.Tolerance)
+		}
+		if ref.Drift != "" {
+			s.Reference.Drift = tempcoField(p, "reference.drift", ref.Drift)
+		}
+		if ref.Impedance != "" {
+			s.Reference.SourceOhm = field(p, "reference.impedance", ref.Impedance, uOhm)
+		}
+	} else if slices.Contains(s.Families, LevelShift) {
+		p.add("reference", "missing; a level shift takes its offset from a reference: give reference.voltage (and its tolerance and drift)")
+	}
+	if r.SourceImpedance != "" {
+		s.SourceOhm = field(p, "source_impedance", r.SourceImpedance, uOhm)
+	}
+	if r.Load.Resistance != "" {
+		s.LoadOhm = field(p, "load.resistance", r.Load.Resistance, uOhm)
+		if s.LoadOhm <= 0 {
+			p.add("load.resistance", "must be positive; leave it out for an unloaded output")
+		}
+	}
+	if r.Load.Leakage != "" {
+		s.LeakageA = field(p, "load.leakage", r.Load.Leakage, uAmp)
+	}
+	s.TempRef = DefaultTempRef
+	if r.Temperature.Reference != "" {
+		s.TempRef = field(p, "temperature.reference", r.Temperature.Reference, uCelsius)
+	}
+	if r.Temperature.Range == "" {
+		p.add("temperature.range", "missing; give the operating range, e.g. -40..85C")
+	} else {
+		s.Temp = rangeField(p, "temperature.range", r.Temperature.Range, uCelsius)
+		if s.Temp.Min < -273.15 {
+			p.add("temperature.range", "goes below absolute zero")
+		}
+		if s.TempRef < s.Temp.Min || s.TempRef > s.Temp.Max {
+			p.add("temperature.reference", "%g C lies outside the range %g..%g C", s.TempRef, s.Temp.Min, s.Temp.Max)
+		}
+	}
+	if r.Impedance.Min != "" {
+		s.Impedance.Min = field(p, "impedance.min", r.Impedance.Min, uOhm)
+	}
+	if r.Impedance.Max != "" {
+		s.Impedance.Max = field(p, "impedance.max", r.Impedance.Max, uOhm)
+	}
+	if s.Impedance.Min < 0 || (s.Impedance.Max > 0 && s.Impedance.Min > s.Impedance.Max) {
+		p.add("impedance", "min %g ohm is above max %g ohm (or negative)", s.Impedance.Min, s.Impedance.Max)
+	}
+	s.Derating = DefaultDerating
+	if r.Derating != "" {
+		s.Derating = fractionField(p, "derating", r.Derating)
+		if s.Derating <= 0 || s.Derating > 1 {
+			p.add("derating", "%q must lie between 0 %% and 100 %% of rated power", r.Derating)
+		}
+	}
+	for i, c := range r.Combos {
+		if c != "series" && c != "parallel" {
+			p.add(fmt.Sprintf("combos[%d]", i), "%q is not a combination; use series or parallel", c)
+		}
+	}
+	s.Combos = r.Combos
+}
+
+func parseLimits(p *problems, r *rawLimits, l *Limits) {
+	given := false
+	opt := func(path, text string, parse func(string) float64) float64 {
+		if text == "" {
+			return 0
+		}
+		given = true
+		n := len(p.errs)
+		v := parse(text)
+		if len(p.errs) == n && v <= 0 {
+			p.add(path, "%q must be positive; leave the limit out to have none", text)
+		}
+		return v
+	}
+	q := func(path string, u unit) func(string) float64 {
+		return func(t string) float64 { return field(p, path, t, u) }
+	}
+	l.GainError = opt("limits.gain_error", r.GainError, func(t string) float64 { return fractionField(p, "limits.gain_error", t) })
+	l.CMRRdB = opt("limits.cmrr", r.CMRR, q("limits.cmrr", uDB))
+	l.GainDrift = opt("limits.gain_drift", r.GainDrift, func(t string) float64 { return tempcoField(p, "limits.gain_drift", t) })
+	l.OutputOffsetV = opt("limits.output_offset", r.OutputOffset, q("limits.output_offset", uVolt))
+	l.OffsetDriftVK = opt("limits.offset_drift", r.OffsetDrift, q("limits.offset_drift", uVPerK))
+	l.NoiseRMSV = opt("limits.noise_rms", r.NoiseRMS, q("limits.noise_rms", uVolt))
+	l.NoiseDensity = opt("limits.noise_density", r.NoiseDensity, q("limits.noise_density", uNoise))
+	l.BandwidthHz = opt("limits.bandwidth", r.Bandwidth, q("limits.bandwidth", uHertz))
+	l.InputImpedance = opt("limits.input_impedance", r.InputImpedance, q("limits.input_impedance", uOhm))
+	if !given {
+		p.add("limits", "none given; a spec needs at least one limit, e.g. gain_error: 0.1%%")
+	}
+}
+
+func parseAnalysis(p *problems, r *rawSpec, s *Spec) {
+	a := &s.Analysis
+	a.Method = WorstCase
+	if r.Analysis.Method != "" {
+		a.Method = r.Analysis.Method
+	}
+	if a.Method != WorstCase && a.Method != RSS && a.Method != MonteCarlo {
+		p.add("analysis.method", "%q is not a method; use worst-case, rss or monte-carlo", a.Method)
+	}
+	a.Trials, a.Seed, a.Distribution, a.Sigmas = DefaultTrials, DefaultSeed, Normal, DefaultSigmas
+	if r.Analysis.Trials != "" {
+		n, err := strconv.Atoi(r.Analysis.Trials)
+		if err != nil || n < 100 {
+			p.add("analysis.trials", "%q must be a whole number of at least 100", r.Analysis.Trials)
+		}
+		a.Trials = n
+	}
+	if r.Analysis.Seed != "" {
+		n, err := strconv.ParseUint(r.Analysis.Seed, 10, 64)
+		if err != nil {
+			p.add("analysis.seed", "%q must be a non-negative whole number", r.Analysis.Seed)
+		}
+		a.Seed = n
+	}
+	if r.Analysis.Distribution != "" {
+		a.Distribution = r.Analysis.Distribution
+		if a.Distribution != Uniform && a.Distribution != Normal {
+			p.add("analysis.distribution", "%q is not a distribution; use uniform or normal", a.Distribution)
+		}
+	}
+	if r.Analysis.Sigmas != "" {
+		a.Sigmas = field(p, "analysis.sigmas", r.Analysis.Sigmas, uPlain)
+		if a.Sigmas < 1 || a.Sigmas > 6 {
+			p.add("analysis.sigmas", "%q must lie between 1 and 6 (a tolerance stands for this many standard deviations)", r.Analysis.Sigmas)
+		}
+	}
+	if r.Analysis.Yield != "" {
+		a.Yield = fractionField(p, "analysis.yield", r.Analysis.Yield)
+		if a.Yield <= 0 || a.Yield >= 1 {
+			p.add("analysis.yield", "%q must lie between 0%% and 100%%, e.g. 99%%", r.Analysis.Yield)
+		}
+		if a.Method != MonteCarlo {
+			p.add("analysis.yield", "a yield target needs method monte-carlo")
+		}
+	}
+	s.Calibrate = Calibration(r.Calibration)
+	if s.Calibrate.Gain && r.Limits.GainError == "" && r.Limits.GainDrift == "" {
+		p.add("calibration.gain", "set, but limits give neither gain_error nor gain_drift, so it changes nothing; add a gain limit or remove it")
+	}
+	if s.Calibrate.Offset && r.Limits.OutputOffset == "" && r.Limits.OffsetDrift == "" {
+		p.add("calibration.offset", "set, but limits give neither output_offset nor offset_drift; add an offset limit or remove it")
+	}
+}
+
+func parseBuild(p *problems, r *rawSpec, s *Spec) {
+	b := &s.Build
+	b.Quantity, b.Stock, b.Currency = 1, "flag", strings.TrimSpace(r.Build.Currency)
+	if r.Build.Quantity != "" {
+		n, err := strconv.Atoi(r.Build.Quantity)
+		if err != nil || n < 1 {
+			p.add("build.quantity", "%q must be a whole number of boards, at least 1", r.Build.Quantity)
+		}
+		b.Quantity = n
+	}
+	if r.Build.Attrition != "" {
+		b.Attrition = fractionField(p, "build.attrition", r.Build.Attrition)
+		if b.Attrition < 0 || b.Attrition >= 1 {
+			p.add("build.attrition", "%q must lie between 0%% and 100%%", r.Build.Attrition)
+		}
+	}
+	money := func(path, t string) float64 {
+		if t == "" {
+			return 0
+		}
+		v, err := strconv.ParseFloat(strings.TrimSpace(t), 64)
+		if err != nil || v < 0 || math.IsInf(v, 0) {
+			p.add(path, "%q must be a non-negative amount in the build currency, e.g. 0.02", t)
+		}
+		return v
+	}
+	b.PlacementCost = money("build.placement_cost", r.Build.PlacementCost)
+	b.LineItemCost = money("build.line_item_cost", r.Build.LineItemCost)
+	if r.Build.Stock != "" {
+		b.Stock = r.Build.Stock
+		if b.Stock != "exclude" && b.Stock != "flag" {
+			p.add("build.stock", "%q is not a stock policy; use exclude or flag", b.Stock)
+		}
+	}
+}
+
+// checkConsistency finds contradictions between fields that each parsed.
+func checkConsistency(p *problems, s *Spec) {
+	if s.Differential || slices.Contains(s.Families, CurrentSense) {
+		// Each input pin of a differential stage sees Vcm ± Vdiff/2.
+	} else if s.CommonMode != (Range{}) {
+		p.add("input.common_mode", "given for a single-ended stage; common mode belongs to differential and current-sense inputs")
+	}
+	out := s.OutputSwing()
+	if out.Max > s.Supply.Max || out.Min < s.Supply.Min {
+		p.add("supply", "the output must reach %.4g..%.4g V (gain %g over the input range) but the rails are %g..%g V; widen the supply or lower the gain",
+			out.Min, out.Max, s.Gain, s.Supply.Min, s.Supply.Max)
+	}
+	if slices.Contains(s.Families, NonInverting) && (s.Input.Max > s.Supply.Max || s.Input.Min < s.Supply.Min) {
+		p.add("input.single_ended", "%g..%g V reaches beyond the rails %g..%g V, and a non-inverting amplifier's input pin sees it directly",
+			s.Input.Min, s.Input.Max, s.Supply.Min, s.Supply.Max)
+	}
+	if s.Reference != nil && (s.Reference.V > s.Supply.Max || s.Reference.V < s.Supply.Min) {
+		p.add("reference.voltage", "%g V lies outside the rails %g..%g V", s.Reference.V, s.Supply.Min, s.Supply.Max)
+	}
+}
+
+// OutputSwing is the ideal output range: gain times the input range plus the
+// offset (level-shift) or the reference voltage (other stages with a
+// reference).
+func (s *Spec) OutputSwing() Range {
+	off := s.Offset
+	if s.Reference != nil && !slices.Contains(s.Families, LevelShift) {
+		off = s.Reference.V
+	}
+	a, b := s.Gain*s.Input.Min+off, s.Gain*s.Input.Max+off
+	return Range{Min: math.Min(a, b), Max: math.Max(a, b)}
+}
+
+// field reads one quantity, recording a problem under path on failure.
+func field(p *problems, path, text string, u unit) float64 {
+	v, err := parseQuantity(text, u)
+	if err != nil {
+		p.add(path, "%v", err)
+	}
+	return v
+}
+
+func rangeField(p *problems, path, text string, u unit) Range {
+	lo, hi, err := parseRange(text, u)
+	if err != nil {
+		p.add(path, "%v", err)
+	}
+	return Range{Min: lo, Max: hi}
+}
+
+func fractionField(p *problems, path, text string) float64 {
+	v, err := parseFraction(text)
+	if err != nil {
+		p.add(path, "%v", err)
+	}
+	return v
+}
+
+func tempcoField(p *problems, path, text string) float64 {
+	v, err := parsePPMPerK(text)
+	if err != nil {
+		p.add(path, "%v", err)
+	}
+	return v
+}
