@@ -1,0 +1,157 @@
+package importers
+
+import "plumb/catalog"
+
+// Field names a catalog figure a column can hold. The names are the keys
+// of a mapping file.
+type Field string
+
+// Fields common to every kind.
+const (
+	FieldPart        Field = "part"
+	FieldMaker       Field = "maker"
+	FieldPackage     Field = "package"
+	FieldStock       Field = "stock"
+	FieldPrice       Field = "price" // one unit price, or a packed list of breaks
+	FieldMinOrder    Field = "min_order"
+	FieldCurrency    Field = "currency"
+	FieldDescription Field = "description"
+	FieldLine        Field = "line"
+	FieldTechnology  Field = "technology"
+	// fieldIgnore holds columns that look like a part number but are not
+	// the maker's (a distributor's own order code), so they are never
+	// taken for one.
+	fieldIgnore Field = "-"
+)
+
+// Resistor and network fields.
+const (
+	FieldResistance     Field = "resistance"
+	FieldTolerance      Field = "tolerance"
+	FieldTCR            Field = "tcr"
+	FieldPower          Field = "power"
+	FieldMaxVoltage     Field = "max_voltage"
+	FieldElements       Field = "elements"
+	FieldRatioTolerance Field = "ratio_tolerance"
+	FieldTCRTracking    Field = "tcr_tracking"
+)
+
+// Amplifier fields.
+const (
+	FieldChannels   Field = "channels"
+	FieldSupplyMin  Field = "supply_min"
+	FieldSupplyMax  Field = "supply_max"
+	FieldVos        Field = "vos"
+	FieldVosDrift   Field = "vos_drift"
+	FieldIb         Field = "ib"
+	FieldIos        Field = "ios"
+	FieldGBW        Field = "gbw"
+	FieldSlew       Field = "slew"
+	FieldNoiseV     Field = "noise_v"
+	FieldNoiseI     Field = "noise_i"
+	FieldCMRR       Field = "cmrr"
+	FieldAol        Field = "aol"
+	FieldRailToRail Field = "rail_to_rail"
+	FieldIq         Field = "iq"
+)
+
+// fieldInfo holds the trade words for a field and the kinds it belongs to.
+type fieldInfo struct {
+	field    Field
+	kinds    []catalog.Kind // nil: every kind
+	synonyms []string
+}
+
+var (
+	res  = []catalog.Kind{catalog.KindResistor}
+	rn   = []catalog.Kind{catalog.KindResistor, catalog.KindNetwork}
+	net  = []catalog.Kind{catalog.KindNetwork}
+	amp  = []catalog.Kind{catalog.KindAmplifier}
+	part = []catalog.Kind{catalog.KindResistor, catalog.KindNetwork, catalog.KindAmplifier}
+)
+
+// fieldTable lists the usual header words of distributor exports and
+// approved-parts lists (common practice), already normalised: lower case,
+// punctuation as spaces.
+var fieldTable = []fieldInfo{
+	{FieldPart, part, []string{"part number", "mpn", "mfr part number", "mfr part", "mfr pn", "mfg part number",
+		"manufacturer part number", "manufacturer part no", "manufacturer part", "part no", "part", "pn",
+		"order code", "mfr part no", "manufacturer pn", "model", "part num"}},
+	{fieldIgnore, part, []string{"supplier part number", "distributor part number", "vendor part number",
+		"internal part number", "stock code", "order number", "sku", "supplier part", "distributor part",
+		"customer part number", "cpn", "datasheet", "url", "link", "image", "rohs", "lead free", "status", "part status"}},
+	{FieldMaker, part, []string{"manufacturer", "mfr", "mfg", "brand", "maker", "make", "manufacturer name", "mfr name"}},
+	{FieldPackage, part, []string{"package", "case", "size", "package case", "case size", "footprint", "case code",
+		"package type", "size code", "case package", "supplier device package", "package size"}},
+	{FieldStock, part, []string{"stock", "quantity available", "qty on hand", "qty available", "available", "in stock",
+		"stock qty", "on hand", "inventory", "availability", "quantity in stock", "stock quantity", "available quantity"}},
+	{FieldPrice, part, []string{"unit price", "price", "pricing", "price breaks", "cost", "unit cost", "price list", "prices"}},
+	{FieldMinOrder, part, []string{"minimum order quantity", "moq", "min order", "minimum quantity", "min qty",
+		"min order qty", "minimum order"}},
+	{FieldCurrency, part, []string{"currency", "curr", "currency code"}},
+	{FieldDescription, part, []string{"description", "desc", "product description", "detailed description",
+		"item description", "part description"}},
+	{FieldLine, rn, []string{"series", "product line", "family", "product series", "line", "product family"}},
+	{FieldTechnology, rn, []string{"technology", "composition", "resistor type", "film type", "construction",
+		"material", "type", "resistor technology"}},
+
+	{FieldResistance, rn, []string{"resistance", "value", "ohms", "resistance value", "nominal resistance",
+		"resistance ohms", "r", "resistor value", "resistance per element", "element value"}},
+	{FieldTolerance, rn, []string{"tolerance", "tol", "resistance tolerance", "absolute tolerance", "initial tolerance"}},
+	{FieldTCR, rn, []string{"temperature coefficient", "tcr", "tempco", "temp coefficient", "temp co", "tc",
+		"temperature coefficient of resistance", "absolute tcr"}},
+	{FieldPower, rn, []string{"power", "wattage", "power rating", "rated power", "power watts",
+		"power per element", "power element"}},
+	{FieldMaxVoltage, rn, []string{"voltage rating", "max working voltage", "working voltage",
+		"maximum working voltage", "rated voltage", "max voltage", "limiting element voltage", "voltage"}},
+	{FieldElements, net, []string{"number of resistors", "resistors", "elements", "number of elements",
+		"no of resistors", "resistor count", "element count", "resistors per package"}},
+	{FieldRatioTolerance, net, []string{"ratio tolerance", "matching", "ratio match", "tolerance matching",
+		"ratio tol", "resistance ratio tolerance", "ratio matching", "matching tolerance"}},
+	{FieldTCRTracking, net, []string{"tcr tracking", "tracking", "tempco tracking", "temperature coefficient tracking",
+		"ratio tempco", "tcr ratio", "ratio tcr", "tracking tcr"}},
+
+	{FieldChannels, amp, []string{"channels", "number of channels", "amplifiers", "number of circuits", "circuits",
+		"amps per package", "channel count"}},
+	{FieldSupplyMin, amp, []string{"supply voltage min", "min supply voltage", "vs min", "supply min",
+		"minimum supply voltage", "voltage supply span min", "supply voltage span min", "supply span min"}},
+	{FieldSupplyMax, amp, []string{"supply voltage max", "max supply voltage", "vs max", "supply max",
+		"maximum supply voltage", "voltage supply span max", "supply voltage span max", "supply span max"}},
+	{FieldVos, amp, []string{"input offset voltage", "vos", "offset voltage", "voltage input offset", "vio",
+		"input offset", "offset"}},
+	{FieldVosDrift, amp, []string{"offset drift", "vos drift", "input offset voltage drift", "offset voltage drift",
+		"tcvos", "drift", "vos tc", "offset voltage tempco"}},
+	{FieldIb, amp, []string{"input bias current", "ib", "bias current", "current input bias", "iib"}},
+	{FieldIos, amp, []string{"input offset current", "ios", "offset current", "iio"}},
+	{FieldGBW, amp, []string{"gbw", "gain bandwidth product", "gain bandwidth", "gbp", "gbwp", "gain bandwidth prod"}},
+	{FieldSlew, amp, []string{"slew rate", "sr", "slew"}},
+	{FieldNoiseV, amp, []string{"voltage noise density", "voltage noise", "en", "noise density",
+		"input voltage noise density", "input voltage noise", "e n", "noise"}},
+	{FieldNoiseI, amp, []string{"current noise density", "current noise", "input current noise density",
+		"input current noise", "i n"}},
+	{FieldCMRR, amp, []string{"cmrr", "common mode rejection ratio", "common mode rejection"}},
+	{FieldAol, amp, []string{"open loop gain", "aol", "avol", "large signal voltage gain", "open loop voltage gain",
+		"gain open loop", "avo"}},
+	{FieldRailToRail, amp, []string{"rail to rail", "rrio", "rail to rail io", "output type", "rail rail", "rail to rail type"}},
+	{FieldIq, amp, []string{"quiescent current", "iq", "supply current", "supply current per channel", "current supply",
+		"quiescent current per channel", "iq per channel"}},
+}
+
+// kindFields lists the fields that tell one kind from another.
+var kindFields = map[catalog.Kind][]Field{
+	catalog.KindResistor:  {FieldResistance, FieldPower, FieldTolerance, FieldTCR},
+	catalog.KindNetwork:   {FieldElements, FieldRatioTolerance, FieldTCRTracking},
+	catalog.KindAmplifier: {FieldVos, FieldVosDrift, FieldIb, FieldGBW, FieldSlew, FieldCMRR, FieldAol, FieldSupplyMax, FieldIq, FieldNoiseV},
+}
+
+func (fi fieldInfo) has(k catalog.Kind) bool {
+	if fi.kinds == nil {
+		return true
+	}
+	for _, x := range fi.kinds {
+		if x == k {
+			return true
+		}
+	}
+	return false
+}

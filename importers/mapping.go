@@ -1,0 +1,550 @@
+package importers
+
+import (
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+	"regexp"
+	"sort"
+	"strconv"
+	"strings"
+	"unicode"
+
+	"go.yaml.in/yaml/v3"
+
+	"plumb/catalog"
+)
+
+// Mapping tells which column holds which catalog field. It is guessed from
+// the header (GuessMapping) or loaded from a YAML file of our own shape:
+//
+//	kind: resistor            # resistor | network | amplifier; blank = guess
+//	columns:                  # field: header text (case and punctuation ignored)
+//	  part: Order Code
+//	  resistance: Value
+//	price_breaks:             # one column per price break
+//	  - column: Price 1000+
+//	    min_qty: 1000
+//	fixed:                    # values for fields no column holds
+//	  currency: EUR
+//	  technology: thin-film
+//	decimal_comma: true       # blank = sniffed from the file
+type Mapping struct {
+	Kind         catalog.Kind     `yaml:"kind,omitempty"`
+	Columns      map[Field]string `yaml:"columns"`
+	PriceBreaks  []BreakColumn    `yaml:"price_breaks,omitempty"`
+	Fixed        map[Field]string `yaml:"fixed,omitempty"`
+	DecimalComma *bool            `yaml:"decimal_comma,omitempty"`
+	// Guesses says, for a guessed mapping, how sure each column choice is.
+	Guesses []Guess `yaml:"-"`
+}
+
+// BreakColumn is a column holding the unit price from MinQty pieces on.
+type BreakColumn struct {
+	Column string `yaml:"column"`
+	MinQty int    `yaml:"min_qty"`
+}
+
+// Confidence grades a header guess.
+type Confidence float64
+
+// Confidence levels of a guess.
+const (
+	// ConfExact: the header is one of the field's trade words.
+	ConfExact Confidence = 1.0
+	// ConfPhrase: the header contains a trade word as a whole phrase.
+	ConfPhrase Confidence = 0.8
+	// ConfOverlap: the header shares words with a trade word.
+	ConfOverlap Confidence = 0.5
+	// confFloor is the least score taken as a match.
+	confFloor = 0.4
+)
+
+// Guess is one column choice of a guessed mapping.
+type Guess struct {
+	Field      Field
+	Column     string
+	Index      int
+	Confidence Confidence
+	// How says why: "exact", "phrase", "words in common", "price break", "mapping".
+	How string
+}
+
+// headerInfo is what a header cell says besides its words.
+type headerInfo struct {
+	text    string
+	tokens  []string
+	unit    string // unit hint in brackets: "mV", "%", "ppm/°C"
+	curr    string // currency code from the header: "EUR"
+	typical bool   // "typ", "typical"
+	breakQ  int    // >0: a price-break column for this quantity
+}
+
+var qualifierTokens = map[string]bool{"typ": true, "typical": true, "max": true, "maximum": true,
+	"min": true, "minimum": true, "nom": true, "nominal": false}
+
+var (
+	bracketRE   = regexp.MustCompile(`[(\[{]([^)\]}]*)[)\]}]`)
+	breakNumRE  = regexp.MustCompile(`(\d[\d,.' ]*)\s*(k)?\b`)
+	qtyOnlyRE   = regexp.MustCompile(`^\s*(?:qty\s*)?(\d[\d,.']*)\s*(k)?\s*(\+|-\s*\d[\d,.']*|and up|or more)\s*$`)
+	currencyMap = map[string]string{"$": "USD", "€": "EUR", "£": "GBP", "¥": "JPY",
+		"usd": "USD", "eur": "EUR", "gbp": "GBP", "chf": "CHF", "jpy": "JPY", "cad": "CAD",
+		"aud": "AUD", "sek": "SEK", "dkk": "DKK", "nok": "NOK", "pln": "PLN", "cny": "CNY", "inr": "INR"}
+)
+
+// analyseHeader splits a header cell into words, unit and currency hints.
+func analyseHeader(h string) headerInfo {
+	hi := headerInfo{text: h}
+	rest := bracketRE.ReplaceAllStringFunc(h, func(m string) string {
+		inner := strings.TrimSpace(m[1 : len(m)-1])
+		toks := words(inner)
+		allQual := len(toks) > 0
+		for _, t := range toks {
+			if _, q := qualifierTokens[t]; !q {
+				allQual = false
+			}
+		}
+		switch {
+		case allQual:
+			return " " + inner + " "
+		case currencyOf(inner) != "":
+			hi.curr = currencyOf(inner)
+		case hasDigit(inner) && !strings.ContainsAny(inner, "/"):
+			// "Unit Price (1,000)": a quantity, kept for break detection.
+			return " " + inner + " "
+		default:
+			hi.unit = unitWord(inner)
+		}
+		return " "
+	})
+	rest = strings.ToLower(rest)
+	hi.tokens = words(rest)
+	for i, t := range hi.tokens {
+		if c, ok := currencyMap[t]; ok && len(t) == 3 {
+			hi.curr = c
+			hi.tokens = append(hi.tokens[:i:i], hi.tokens[i+1:]...)
+			break
+		}
+	}
+	for _, s := range []string{"$", "€", "£", "¥"} {
+		if strings.Contains(rest, s) {
+			hi.curr = currencyMap[s]
+		}
+	}
+	for _, t := range hi.tokens {
+		if t == "typ" || t == "typical" {
+			hi.typical = true
+		}
+	}
+	hi.breakQ = breakQty(rest, hi.tokens)
+	return hi
+}
+
+// breakQty reads the quantity of a per-break price column: "Price @ 1000",
+// "1000+", "Unit Price (1,000)", "Price 100-999", "Price for 1k". 0 when
+// the header is not one.
+func breakQty(low string, toks []string) int {
+	if m := qtyOnlyRE.FindStringSubmatch(low); m != nil {
+		return qtyNumber(m[1], m[2])
+	}
+	priceWord := false
+	for _, t := range toks {
+		switch t {
+		case "price", "prices", "cost", "break", "pricing", "preis", "prix", "precio":
+			priceWord = true
+		}
+	}
+	if !priceWord {
+		return 0
+	}
+	m := breakNumRE.FindStringSubmatch(low)
+	if m == nil {
+		return 0
+	}
+	return qtyNumber(m[1], m[2])
+}
+
+func qtyNumber(num, k string) int {
+	num = strings.TrimSpace(num)
+	clean := strings.NewReplacer(",", "", ".", "", "'", "", " ", "").Replace(num)
+	n, err := strconv.Atoi(clean)
+	if err != nil || n <= 0 {
+		return 0
+	}
+	if k != "" {
+		n *= 1000
+	}
+	return n
+}
+
+// unitWord turns a unit written as a word in a header ("Ohms", "Watts")
+// into its symbol, for appending to bare numbers.
+func unitWord(u string) string {
+	switch strings.ToLower(u) {
+	case "ohm", "ohms":
+		return "Ω"
+	case "watt", "watts":
+		return "W"
+	case "volt", "volts":
+		return "V"
+	case "percent", "pct":
+		return "%"
+	case "amp", "amps", "ampere", "amperes":
+		return "A"
+	}
+	return u
+}
+
+func currencyOf(s string) string {
+	s = strings.TrimSpace(strings.ToLower(s))
+	if c, ok := currencyMap[s]; ok {
+		return c
+	}
+	return ""
+}
+
+func hasDigit(s string) bool { return strings.IndexFunc(s, unicode.IsDigit) >= 0 }
+
+// words lower-cases s and splits it at everything but letters and digits;
+// "#" reads as "number" ("Mfr Part #").
+func words(s string) []string {
+	s = strings.ReplaceAll(strings.ToLower(s), "#", " number ")
+	return strings.FieldsFunc(s, func(r rune) bool { return !unicode.IsLetter(r) && !unicode.IsDigit(r) })
+}
+
+// score grades how well header words h match the synonym words s.
+func score(h, s []string) (Confidence, string) {
+	inS := map[string]bool{}
+	for _, t := range s {
+		inS[t] = true
+	}
+	var hs []string
+	for _, t := range h {
+		if _, q := qualifierTokens[t]; q && !inS[t] {
+			continue
+		}
+		hs = append(hs, t)
+	}
+	if len(hs) == 0 {
+		return 0, ""
+	}
+	if strings.Join(hs, " ") == strings.Join(s, " ") {
+		return ConfExact, "exact"
+	}
+	if i := indexSeq(hs, s); i >= 0 {
+		return ConfPhrase - 0.2*Confidence(len(hs)-len(s))/Confidence(len(hs)), "phrase"
+	}
+	common := 0
+	for _, t := range hs {
+		if inS[t] {
+			common++
+		}
+	}
+	if common == 0 || common < len(s) && len(s) > 1 && common*2 < len(s)+1 {
+		return 0, ""
+	}
+	union := len(hs) + len(s) - common
+	return ConfOverlap * Confidence(common) / Confidence(union) * 1.6, "words in common"
+}
+
+func indexSeq(h, s []string) int {
+	for i := 0; i+len(s) <= len(h); i++ {
+		ok := true
+		for j := range s {
+			if h[i+j] != s[j] {
+				ok = false
+				break
+			}
+		}
+		if ok {
+			return i
+		}
+	}
+	return -1
+}
+
+type candidate struct {
+	field Field
+	col   int
+	conf  Confidence
+	how   string
+}
+
+// GuessMapping guesses the kind (unless kind is set) and the column of each
+// field from the header words. Price-break columns are found by their
+// quantity. Each column serves at most one field; the best-scored pairs
+// are taken first.
+func GuessMapping(header []string, kind catalog.Kind) (*Mapping, error) {
+	infos := make([]headerInfo, len(header))
+	for i, h := range header {
+		infos[i] = analyseHeader(h)
+	}
+	all := candidates(infos, "")
+	if kind == "" || kind == "auto" {
+		kind = guessKind(all)
+		if kind == "" {
+			return nil, fmt.Errorf("%w: no column reads as resistance, network matching or op-amp figures (header: %s); pass the kind or a mapping",
+				ErrUnknownKind, strings.Join(header, ", "))
+		}
+	}
+	m := &Mapping{Kind: kind, Columns: map[Field]string{}}
+	used := map[int]bool{}
+	for i, hi := range infos {
+		if hi.breakQ > 0 {
+			m.PriceBreaks = append(m.PriceBreaks, BreakColumn{Column: header[i], MinQty: hi.breakQ})
+			m.Guesses = append(m.Guesses, Guess{Field: FieldPrice, Column: header[i], Index: i,
+				Confidence: ConfPhrase, How: fmt.Sprintf("price break from %d", hi.breakQ)})
+			used[i] = true
+		}
+	}
+	cands := candidates(infos, kind)
+	sort.SliceStable(cands, func(a, b int) bool { return cands[a].conf > cands[b].conf })
+	for _, c := range cands {
+		if used[c.col] {
+			continue
+		}
+		if _, done := m.Columns[c.field]; done {
+			continue
+		}
+		used[c.col] = true
+		if c.field == fieldIgnore {
+			continue
+		}
+		m.Columns[c.field] = header[c.col]
+		m.Guesses = append(m.Guesses, Guess{Field: c.field, Column: header[c.col], Index: c.col, Confidence: c.conf, How: c.how})
+	}
+	sort.SliceStable(m.Guesses, func(a, b int) bool { return m.Guesses[a].Index < m.Guesses[b].Index })
+	return m, nil
+}
+
+// candidates scores every (field, column) pair above the floor, for one
+// kind or ("") for all.
+func candidates(infos []headerInfo, kind catalog.Kind) []candidate {
+	var out []candidate
+	for col, hi := range infos {
+		if hi.breakQ > 0 || len(hi.tokens) == 0 {
+			continue
+		}
+		for _, fi := range fieldTable {
+			if kind != "" && !fi.has(kind) {
+				continue
+			}
+			var best Confidence
+			var how string
+			for _, syn := range fi.synonyms {
+				if c, h := score(hi.tokens, strings.Fields(syn)); c > best {
+					best, how = c, h
+				}
+			}
+			if best >= confFloor {
+				out = append(out, candidate{fi.field, col, best, how})
+			}
+		}
+	}
+	return out
+}
+
+// guessKind weighs the columns that only one kind has.
+func guessKind(c []candidate) catalog.Kind {
+	seen := map[Field]Confidence{}
+	for _, x := range c {
+		if x.conf > seen[x.field] {
+			seen[x.field] = x.conf
+		}
+	}
+	sum := func(k catalog.Kind) Confidence {
+		var s Confidence
+		for _, f := range kindFields[k] {
+			if seen[f] >= ConfPhrase-0.2 {
+				s += seen[f]
+			}
+		}
+		return s
+	}
+	ampScore, netScore, resScore := sum(catalog.KindAmplifier), sum(catalog.KindNetwork), sum(catalog.KindResistor)
+	switch {
+	case ampScore >= 2 && ampScore > resScore:
+		return catalog.KindAmplifier
+	case netScore >= ConfPhrase && seen[FieldResistance] > 0:
+		return catalog.KindNetwork
+	case seen[FieldResistance] > 0:
+		return catalog.KindResistor
+	}
+	return ""
+}
+
+// resolve turns a mapping's header texts into column indexes for header.
+// Header texts compare by their words, so case and punctuation do not
+// matter.
+func (m *Mapping) resolve(file string, header []string) (map[Field]int, []breakCol, error) {
+	key := func(s string) string { return strings.Join(words(s), " ") }
+	idx := map[string]int{}
+	for i, h := range header {
+		if _, dup := idx[key(h)]; !dup {
+			idx[key(h)] = i
+		}
+	}
+	cols := map[Field]int{}
+	for f, h := range m.Columns {
+		if !knownField(f) {
+			return nil, nil, &ParseError{File: file, Err: fmt.Errorf("%w: unknown field %q (known: %s)", ErrMapping, f, knownFields())}
+		}
+		i, ok := idx[key(h)]
+		if !ok {
+			return nil, nil, &ParseError{File: file, Column: h, Err: fmt.Errorf("%w: the mapping puts %s in column %q, which the header does not have (header: %s)",
+				ErrMapping, f, h, strings.Join(header, ", "))}
+		}
+		cols[f] = i
+	}
+	var breaks []breakCol
+	for _, b := range m.PriceBreaks {
+		i, ok := idx[key(b.Column)]
+		if !ok {
+			return nil, nil, &ParseError{File: file, Column: b.Column, Err: fmt.Errorf("%w: price-break column %q is not in the header", ErrMapping, b.Column)}
+		}
+		if b.MinQty <= 0 {
+			return nil, nil, &ParseError{File: file, Column: b.Column, Err: fmt.Errorf("%w: price-break column %q needs min_qty of 1 or more", ErrMapping, b.Column)}
+		}
+		breaks = append(breaks, breakCol{col: i, minQty: b.MinQty, curr: analyseHeader(header[i]).curr})
+	}
+	sort.Slice(breaks, func(a, b int) bool { return breaks[a].minQty < breaks[b].minQty })
+	return cols, breaks, nil
+}
+
+type breakCol struct {
+	col    int
+	minQty int
+	curr   string
+}
+
+func knownField(f Field) bool {
+	for _, fi := range fieldTable {
+		if fi.field == f && f != fieldIgnore {
+			return true
+		}
+	}
+	return false
+}
+
+func knownFields() string {
+	var s []string
+	for _, fi := range fieldTable {
+		if fi.field != fieldIgnore {
+			s = append(s, string(fi.field))
+		}
+	}
+	return strings.Join(s, ", ")
+}
+
+// validate checks a loaded mapping.
+func (m *Mapping) validate(src string) error {
+	switch m.Kind {
+	case "", catalog.KindResistor, catalog.KindNetwork, catalog.KindAmplifier:
+	default:
+		return fmt.Errorf("%s: %w: kind %q (use resistor, network or amplifier)", src, ErrMapping, m.Kind)
+	}
+	for f := range m.Columns {
+		if !knownField(f) {
+			return fmt.Errorf("%s: %w: unknown field %q under columns (known: %s)", src, ErrMapping, f, knownFields())
+		}
+	}
+	for f := range m.Fixed {
+		if !knownField(f) {
+			return fmt.Errorf("%s: %w: unknown field %q under fixed (known: %s)", src, ErrMapping, f, knownFields())
+		}
+	}
+	return nil
+}
+
+// MappingDir is the directory saved mappings live in when Options or the
+// caller give none: plumb/mappings under the user's configuration
+// directory.
+func MappingDir() (string, error) {
+	d, err := os.UserConfigDir()
+	if err != nil {
+		return "", fmt.Errorf("importers: no configuration directory for saved mappings: %w", err)
+	}
+	return filepath.Join(d, "plumb", "mappings"), nil
+}
+
+var mappingNameRE = regexp.MustCompile(`^[A-Za-z0-9][A-Za-z0-9._-]{0,63}$`)
+
+// LoadMapping reads a mapping by name (a file NAME.yaml in dir, or in
+// MappingDir when dir is "") or, when nameOrFile has a path separator or a
+// .yaml/.yml suffix, from that file.
+func LoadMapping(dir, nameOrFile string) (*Mapping, error) {
+	path := nameOrFile
+	if !strings.ContainsAny(nameOrFile, `/\`) && !strings.HasSuffix(nameOrFile, ".yaml") && !strings.HasSuffix(nameOrFile, ".yml") {
+		if !mappingNameRE.MatchString(nameOrFile) {
+			return nil, fmt.Errorf("%w: mapping name %q: use letters, digits, '.', '_' or '-'", ErrMapping, nameOrFile)
+		}
+		if dir == "" {
+			var err error
+			if dir, err = MappingDir(); err != nil {
+				return nil, err
+			}
+		}
+		path = filepath.Join(dir, nameOrFile+".yaml")
+	}
+	b, err := os.ReadFile(path)
+	if errors.Is(err, os.ErrNotExist) {
+		return nil, fmt.Errorf("%w: no mapping %q (looked for %s); save one with --save-mapping or give a file", ErrMapping, nameOrFile, path)
+	}
+	if err != nil {
+		return nil, fmt.Errorf("importers: reading mapping: %w", err)
+	}
+	var m Mapping
+	dec := yaml.NewDecoder(strings.NewReader(string(b)))
+	dec.KnownFields(true)
+	if err := dec.Decode(&m); err != nil {
+		return nil, fmt.Errorf("%s: %w: %v", path, ErrMapping, err)
+	}
+	if err := m.validate(path); err != nil {
+		return nil, err
+	}
+	return &m, nil
+}
+
+// SaveMapping writes m as NAME.yaml in dir (MappingDir when ""), replacing
+// an older one atomically, and returns the path written.
+func SaveMapping(dir, name string, m *Mapping) (string, error) {
+	if !mappingNameRE.MatchString(name) {
+		return "", fmt.Errorf("%w: mapping name %q: use letters, digits, '.', '_' or '-'", ErrMapping, name)
+	}
+	if dir == "" {
+		var err error
+		if dir, err = MappingDir(); err != nil {
+			return "", err
+		}
+	}
+	if err := m.validate(name); err != nil {
+		return "", err
+	}
+	b, err := yaml.Marshal(m)
+	if err != nil {
+		return "", fmt.Errorf("importers: encoding mapping %q: %w", name, err)
+	}
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return "", fmt.Errorf("importers: saving mapping %q: %w", name, err)
+	}
+	path := filepath.Join(dir, name+".yaml")
+	tmp, err := os.CreateTemp(dir, "."+name+"-*.yaml")
+	if err != nil {
+		return "", fmt.Errorf("importers: saving mapping %q: %w", name, err)
+	}
+	if _, err := tmp.Write(b); err != nil {
+		tmp.Close()
+		os.Remove(tmp.Name())
+		return "", fmt.Errorf("importers: saving mapping %q: %w", name, err)
+	}
+	if err := tmp.Close(); err != nil {
+		os.Remove(tmp.Name())
+		return "", fmt.Errorf("importers: saving mapping %q: %w", name, err)
+	}
+	if err := os.Rename(tmp.Name(), path); err != nil {
+		os.Remove(tmp.Name())
+		return "", fmt.Errorf("importers: saving mapping %q: %w", name, err)
+	}
+	return path, nil
+}

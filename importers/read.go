@@ -1,0 +1,254 @@
+package importers
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+	"time"
+
+	"plumb/catalog"
+)
+
+// Options steer an import. The zero value guesses everything and writes.
+type Options struct {
+	// Kind is the kind of part in the files; "" or "auto" guesses it from
+	// each file's header.
+	Kind catalog.Kind
+	// Mapping, when set, is used instead of guessing the columns.
+	Mapping *Mapping
+	// DryRun reads, checks and compares with the catalog but writes
+	// nothing.
+	DryRun bool
+	// Source labels where the rows came from; "" uses each file's base
+	// name.
+	Source string
+	// Now is the import time stamped on each row; zero means time.Now().
+	Now time.Time
+	// Progress, when set, is called with the number of rows read so far,
+	// every ProgressEvery rows and at the end of each file.
+	Progress func(rows int)
+	// Preview is how many parsed rows per file the report keeps (default
+	// 5; negative keeps none).
+	Preview int
+}
+
+// ProgressEvery is how often Options.Progress is called, in rows.
+const ProgressEvery = 1000
+
+// Batch is what the files held, ready for the store.
+type Batch struct {
+	Series     []catalog.ResistorSeries
+	Resistors  []catalog.Resistor
+	Networks   []catalog.Network
+	Amplifiers []catalog.Amplifier
+}
+
+// Len is the number of parts in the batch (series not counted).
+func (b *Batch) Len() int { return len(b.Resistors) + len(b.Networks) + len(b.Amplifiers) }
+
+// Read reads and checks the files without touching a catalog: the parts,
+// and the report of every row skipped or in doubt. It fails, for all files,
+// only on a file it cannot read at all (missing, binary, empty, no column
+// for the part number...); a bad row is skipped and reported.
+func Read(ctx context.Context, files []string, opt Options) (*Batch, *Report, error) {
+	if len(files) == 0 {
+		return nil, nil, errors.New("importers: no file to import")
+	}
+	if opt.Now.IsZero() {
+		opt.Now = time.Now().UTC()
+	}
+	if opt.Preview == 0 {
+		opt.Preview = 5
+	}
+	b := &Batch{}
+	rep := &Report{}
+	seen := map[string]string{} // kind|part -> file:line of first sight
+	rows := 0
+	for _, name := range files {
+		if err := readFile(ctx, name, opt, b, rep, seen, &rows); err != nil {
+			return nil, nil, err
+		}
+	}
+	rep.Summary.Rows = rows
+	rep.Summary.Parts = b.Len()
+	rep.Summary.Series = len(b.Series)
+	for _, p := range rep.Problems {
+		if p.Severity == Skip && p.Line > 0 {
+			rep.Summary.Skipped++
+		}
+	}
+	return b, rep, nil
+}
+
+func readFile(ctx context.Context, name string, opt Options, b *Batch, rep *Report, seen map[string]string, rows *int) error {
+	f, err := os.Open(name)
+	if err != nil {
+		return &ParseError{File: name, Err: fmt.Errorf("opening: %w", err)}
+	}
+	defer f.Close()
+	rd, err := NewReader(name, f)
+	if err != nil {
+		return err
+	}
+	m := opt.Mapping
+	kind := opt.Kind
+	if kind == "auto" {
+		kind = ""
+	}
+	if m != nil && m.Kind != "" && kind == "" {
+		kind = m.Kind
+	}
+	if m == nil {
+		if m, err = GuessMapping(rd.Header(), kind); err != nil {
+			return &ParseError{File: name, Line: 1, Err: err}
+		}
+	}
+	if kind == "" {
+		kind = m.Kind
+	}
+	if kind == "" {
+		return &ParseError{File: name, Line: 1, Err: fmt.Errorf("%w: the mapping names no kind; pass --kind", ErrUnknownKind)}
+	}
+	cols, breaks, err := m.resolve(name, rd.Header())
+	if err != nil {
+		return err
+	}
+	if _, ok := cols[FieldPart]; !ok && m.Fixed[FieldPart] == "" {
+		return &ParseError{File: name, Line: 1, Err: fmt.Errorf("%w: no column reads as the part number (header: %s); name it in a mapping under columns: part",
+			ErrMissingColumn, strings.Join(rd.Header(), ", "))}
+	}
+	if kind != catalog.KindAmplifier {
+		if _, ok := cols[FieldResistance]; !ok && m.Fixed[FieldResistance] == "" {
+			if _, d := cols[FieldDescription]; !d || kind == catalog.KindNetwork {
+				return &ParseError{File: name, Line: 1, Err: fmt.Errorf("%w: no column reads as the resistance (header: %s); name it in a mapping under columns: resistance",
+					ErrMissingColumn, strings.Join(rd.Header(), ", "))}
+			}
+		}
+	}
+	shape := rd.Shape()
+	if m.DecimalComma != nil {
+		shape.DecimalComma = *m.DecimalComma
+	}
+	source := opt.Source
+	if source == "" {
+		source = filepath.Base(name)
+	}
+	rr := &rowReader{file: name, header: rd.Header(), kind: kind, cols: cols, breaks: breaks, fixed: m.Fixed,
+		decimalComma: shape.DecimalComma, prov: catalog.Provenance{Source: source, ImportedAt: opt.Now}}
+	rr.info = make([]headerInfo, len(rr.header))
+	for i, h := range rr.header {
+		rr.info[i] = analyseHeader(h)
+	}
+	if c := currencyOf(m.Fixed[FieldCurrency]); c != "" {
+		rr.currency = c
+	} else if c := m.Fixed[FieldCurrency]; len(c) == 3 {
+		rr.currency = strings.ToUpper(c)
+	}
+	fr := FileReport{File: name, Kind: kind, Shape: shape, Mapping: m}
+	if shape.Encoding == "Windows-1252" {
+		rep.Problems = append(rep.Problems, newProblem(Info, &ParseError{File: name,
+			Err: errors.New("the file is not UTF-8: read as Windows-1252, the usual spreadsheet encoding; check the ± ° µ Ω signs")}, ""))
+	}
+	var res []parsed
+	fileRows := 0
+	for {
+		rec, line, err := rd.Read()
+		if errors.Is(err, io.EOF) {
+			break
+		}
+		var pe *ParseError
+		if errors.As(err, &pe) {
+			if errors.Is(err, ErrRecordTooLong) || errors.Is(err, ErrTooManyColumns) {
+				return err
+			}
+			rep.Problems = append(rep.Problems, newProblem(Skip, pe, ""))
+			fileRows++
+			*rows++
+			continue
+		}
+		if err != nil {
+			return &ParseError{File: name, Line: line, Err: err}
+		}
+		if blankRecord(rec) {
+			continue
+		}
+		fileRows++
+		*rows++
+		if *rows%ProgressEvery == 0 {
+			if err := ctx.Err(); err != nil {
+				return fmt.Errorf("importers: %s: %w", name, err)
+			}
+			if opt.Progress != nil {
+				opt.Progress(*rows)
+			}
+		}
+		p, err := rr.read(rec, line)
+		rep.Problems = append(rep.Problems, rr.problems...)
+		rr.problems = rr.problems[:0]
+		if err != nil {
+			continue
+		}
+		key := string(kind) + "|" + p.key()
+		if first, dup := seen[key]; dup {
+			rep.Problems = append(rep.Problems, newProblem(Skip, &ParseError{File: name, Line: line, Column: rr.header[cols[FieldPart]],
+				Raw: p.key(), Err: fmt.Errorf("%w: already read at %s; this row is left out", ErrDuplicate, first)}, p.key()))
+			continue
+		}
+		seen[key] = fmt.Sprintf("%s:%d", name, line)
+		if len(fr.Preview) < opt.Preview {
+			fr.Preview = append(fr.Preview, previewOf(p))
+		}
+		switch kind {
+		case catalog.KindResistor:
+			res = append(res, p)
+		case catalog.KindNetwork:
+			b.Networks = append(b.Networks, *p.network)
+		default:
+			b.Amplifiers = append(b.Amplifiers, *p.amplifier)
+		}
+	}
+	if opt.Progress != nil {
+		opt.Progress(*rows)
+	}
+	if fileRows == 0 {
+		return &ParseError{File: name, Err: fmt.Errorf("%w: export the table again with its rows", ErrNoRows)}
+	}
+	if len(res) > 0 {
+		series, groups := groupSeries(name, res)
+		b.Series = append(b.Series, series...)
+		fr.Groups = groups
+		for _, g := range groups {
+			rep.Problems = append(rep.Problems, newProblem(Info, &ParseError{File: name, Line: g.FirstLine,
+				Err: fmt.Errorf("lines %d-%d grouped as series %s: %s, %d values from %g to %g ohm", g.FirstLine, g.LastLine, g.Series, g.ESeries, g.Values, g.MinOhm, g.MaxOhm)}, g.Series))
+		}
+		for _, p := range res {
+			b.Resistors = append(b.Resistors, *p.resistor)
+		}
+	}
+	fr.Rows = fileRows
+	rep.Files = append(rep.Files, fr)
+	return nil
+}
+
+func blankRecord(rec []string) bool {
+	for _, c := range rec {
+		if strings.TrimSpace(c) != "" {
+			return false
+		}
+	}
+	return true
+}
+
+func previewOf(p parsed) any {
+	switch {
+	case p.resistor != nil:
+		return *p.resistor
+	case p.network != nil:
+		return *p.network
+	}
+	return *p.amplifier
+}

@@ -1,0 +1,364 @@
+package importers
+
+import (
+	"bufio"
+	"bytes"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"unicode/utf8"
+
+	"golang.org/x/text/encoding/charmap"
+	"golang.org/x/text/encoding/unicode"
+	"golang.org/x/text/transform"
+)
+
+// Limits against hostile or broken files. A real export has a few dozen
+// columns and records of a few hundred bytes (common practice).
+const (
+	// MaxColumns caps the fields of one record.
+	MaxColumns = 4096
+	// MaxRecordBytes caps the bytes of one record, quoted newlines
+	// included.
+	MaxRecordBytes = 1 << 20
+	// sniffBytes is how much of the file is looked at to tell its shape.
+	sniffBytes = 64 << 10
+	// sniffLines is how many records the separator and decimal-comma
+	// guesses look at.
+	sniffLines = 50
+)
+
+// Shape is what the reader found out about a file before reading it.
+type Shape struct {
+	// Separator is the field separator: ',', ';', '\t' or '|'.
+	Separator rune
+	// DecimalComma is true when numbers are written 0,125 (common with ';'
+	// files from decimal-comma locales).
+	DecimalComma bool
+	// Encoding is "UTF-8", "UTF-8 with BOM", "UTF-16" or "Windows-1252".
+	Encoding string
+}
+
+// Reader streams the records of one export file. It is not safe for
+// concurrent use.
+type Reader struct {
+	name   string
+	shape  Shape
+	csv    *csv.Reader
+	guard  *recordGuard
+	header []string
+	line   int
+}
+
+// NewReader sniffs the shape of r (named name in errors) and reads its
+// header. Errors are *ParseError wrapping ErrNotCSV, ErrEmpty,
+// ErrTooManyColumns or ErrRecordTooLong.
+func NewReader(name string, r io.Reader) (*Reader, error) {
+	fail := func(line int, err error) error { return &ParseError{File: name, Line: line, Err: err} }
+	br := bufio.NewReaderSize(r, sniffBytes)
+	head, err := br.Peek(sniffBytes)
+	if err != nil && !errors.Is(err, io.EOF) && !errors.Is(err, bufio.ErrBufferFull) {
+		return nil, fail(0, fmt.Errorf("reading: %w", err))
+	}
+	var text io.Reader = br
+	enc := "UTF-8"
+	switch {
+	case bytes.HasPrefix(head, []byte{0xEF, 0xBB, 0xBF}):
+		_, _ = br.Discard(3)
+		head = head[3:]
+		enc = "UTF-8 with BOM"
+	case bytes.HasPrefix(head, []byte{0xFF, 0xFE}), bytes.HasPrefix(head, []byte{0xFE, 0xFF}):
+		// Spreadsheet "Unicode text" exports are UTF-16 with a BOM.
+		dec := unicode.UTF16(unicode.LittleEndian, unicode.ExpectBOM).NewDecoder()
+		text = transform.NewReader(br, unicode.BOMOverride(dec))
+		enc = "UTF-16"
+		head, _ = dec.Bytes(head[:len(head)&^1])
+	}
+	if len(bytes.TrimSpace(head)) == 0 {
+		return nil, fail(0, fmt.Errorf("%w: nothing but blank space; export the table again", ErrEmpty))
+	}
+	if why := notText(head); why != "" {
+		return nil, fail(0, fmt.Errorf("%w: %s; export the table as CSV (comma, semicolon or tab separated text)", ErrNotCSV, why))
+	}
+	if enc == "UTF-8" && !validUTF8Prefix(head) {
+		// Not UTF-8 and not binary: the usual other encoding of spreadsheet
+		// exports (the ± ° µ signs of a tolerance column).
+		text = transform.NewReader(br, charmap.Windows1252.NewDecoder())
+		head, _ = charmap.Windows1252.NewDecoder().Bytes(head)
+		enc = "Windows-1252"
+	}
+	shape := sniff(head)
+	shape.Encoding = enc
+
+	guard := &recordGuard{r: text, sep: byte(shape.Separator)}
+	cr := csv.NewReader(guard)
+	cr.Comma = shape.Separator
+	cr.FieldsPerRecord = -1
+	cr.ReuseRecord = true
+	rd := &Reader{name: name, shape: shape, csv: cr, guard: guard}
+	hdr, line, err := rd.next()
+	if errors.Is(err, io.EOF) {
+		return nil, fail(0, fmt.Errorf("%w: no header line found", ErrEmpty))
+	}
+	if err != nil {
+		return nil, err
+	}
+	rd.header = append([]string(nil), hdr...)
+	for i := range rd.header {
+		rd.header[i] = cleanCell(rd.header[i])
+	}
+	rd.line = line
+	return rd, nil
+}
+
+// Name is the file name used in errors.
+func (r *Reader) Name() string { return r.name }
+
+// Shape is the sniffed shape of the file.
+func (r *Reader) Shape() Shape { return r.shape }
+
+// Header is the header record, cells trimmed.
+func (r *Reader) Header() []string { return r.header }
+
+// Read returns the next record and the line it starts on. The slice is
+// reused by the next call. Ragged rows are returned as read (compare with
+// len(Header())). At the end it returns io.EOF. A malformed record is
+// returned as a *ParseError wrapping the csv error, and reading can go on;
+// a record over the limits ends the file with a *ParseError.
+func (r *Reader) Read() ([]string, int, error) {
+	return r.next()
+}
+
+func (r *Reader) next() ([]string, int, error) {
+	if r.guard.err != nil {
+		return nil, 0, io.EOF
+	}
+	rec, err := r.csv.Read()
+	line, _ := r.csv.FieldPos(0)
+	if r.guard.err != nil {
+		return nil, line, &ParseError{File: r.name, Line: r.guard.line, Err: r.guard.err}
+	}
+	if err != nil {
+		if errors.Is(err, io.EOF) {
+			return nil, 0, io.EOF
+		}
+		var ce *csv.ParseError
+		if errors.As(err, &ce) {
+			return nil, ce.StartLine, &ParseError{File: r.name, Line: ce.StartLine, Err: fmt.Errorf("%w (check the quotes in this row)", ce.Err)}
+		}
+		return nil, line, &ParseError{File: r.name, Line: line, Err: err}
+	}
+	if len(rec) > MaxColumns {
+		r.guard.err = fmt.Errorf("%w: %d fields, at most %d are read", ErrTooManyColumns, len(rec), MaxColumns)
+		return nil, line, &ParseError{File: r.name, Line: line, Err: r.guard.err}
+	}
+	return rec, line, nil
+}
+
+// recordGuard passes bytes through while following CSV quoting just enough
+// to know where records end, and fails once one record exceeds
+// MaxRecordBytes or MaxColumns separators, before encoding/csv has buffered
+// it all.
+type recordGuard struct {
+	r       io.Reader
+	sep     byte
+	inQuote bool
+	atStart bool // at the start of a field
+	pending bool // a quote seen inside a quoted field: closing or escaped
+	n       int  // bytes of the current record
+	fields  int
+	line    int
+	err     error
+}
+
+func (g *recordGuard) Read(p []byte) (int, error) {
+	if g.err != nil {
+		return 0, g.err
+	}
+	if g.line == 0 {
+		g.line, g.atStart = 1, true
+	}
+	n, err := g.r.Read(p)
+	for i := 0; i < n; i++ {
+		c := p[i]
+		g.n++
+		if g.pending {
+			g.pending = false
+			if c == '"' { // escaped quote
+				continue
+			}
+			g.inQuote = false
+		}
+		switch {
+		case g.inQuote:
+			if c == '"' {
+				g.pending = true
+			} else if c == '\n' {
+				g.line++
+			}
+		case c == '"' && g.atStart:
+			g.inQuote = true
+		case c == g.sep:
+			g.fields++
+			g.atStart = true
+			if g.fields >= MaxColumns {
+				g.err = fmt.Errorf("%w: more than %d fields in one record", ErrTooManyColumns, MaxColumns)
+				return i, g.err
+			}
+			continue
+		case c == '\n':
+			g.line++
+			g.n, g.fields = 0, 0
+			g.atStart = true
+			continue
+		}
+		if c != ' ' {
+			g.atStart = false
+		}
+		if g.n > MaxRecordBytes {
+			g.err = fmt.Errorf("%w: one record runs past %d bytes (an unclosed quote?)", ErrRecordTooLong, MaxRecordBytes)
+			return i, g.err
+		}
+	}
+	return n, err
+}
+
+// notText says why head does not look like delimited text, or "".
+func notText(head []byte) string {
+	ctrl := 0
+	for _, c := range head {
+		switch {
+		case c == 0:
+			return "it contains NUL bytes (a binary file, or a spreadsheet workbook rather than CSV)"
+		case c < 0x20 && c != '\t' && c != '\n' && c != '\r' && c != '\f':
+			ctrl++
+		}
+	}
+	if ctrl*100 > len(head) {
+		return "it is full of control characters"
+	}
+	return ""
+}
+
+// validUTF8Prefix reports whether b is UTF-8, allowing a rune cut at the end.
+func validUTF8Prefix(b []byte) bool {
+	for len(b) > 0 {
+		r, size := utf8.DecodeRune(b)
+		if r == utf8.RuneError && size <= 1 {
+			return len(b) < utf8.UTFMax && !utf8.FullRune(b)
+		}
+		b = b[size:]
+	}
+	return true
+}
+
+// sniff picks the separator that splits the first records into the same
+// number of fields (quote-aware), and tells whether numbers use a decimal
+// comma.
+func sniff(head []byte) Shape {
+	lines := splitRecords(head, sniffLines)
+	best, bestScore := rune(','), -1
+	for _, sep := range []rune{',', ';', '\t', '|'} {
+		if len(lines) == 0 {
+			break
+		}
+		n0 := countFields(lines[0], byte(sep))
+		if n0 < 2 {
+			continue
+		}
+		same := 0
+		for _, l := range lines[1:] {
+			if countFields(l, byte(sep)) == n0 {
+				same++
+			}
+		}
+		// Consistency first, then the number of columns.
+		score := same*MaxColumns + n0
+		if score > bestScore {
+			best, bestScore = sep, score
+		}
+	}
+	sh := Shape{Separator: best}
+	if best != ',' {
+		comma, dot := 0, 0
+		for _, l := range lines[1:] {
+			for _, f := range splitFields(l, byte(best)) {
+				c, d := decimalMarks(f)
+				comma += c
+				dot += d
+			}
+		}
+		sh.DecimalComma = comma > dot
+	}
+	return sh
+}
+
+// decimalMarks counts "digit,digit" and "digit.digit" in a cell, where the
+// digit run after the mark is not exactly three long (which could be a
+// thousands separator).
+func decimalMarks(f string) (comma, dot int) {
+	for i := 1; i+1 < len(f); i++ {
+		if (f[i] != ',' && f[i] != '.') || !isDigit(f[i-1]) || !isDigit(f[i+1]) {
+			continue
+		}
+		j := i + 1
+		for j < len(f) && isDigit(f[j]) {
+			j++
+		}
+		if j-i-1 == 3 {
+			continue
+		}
+		if f[i] == ',' {
+			comma++
+		} else {
+			dot++
+		}
+	}
+	return comma, dot
+}
+
+func isDigit(c byte) bool { return c >= '0' && c <= '9' }
+
+// splitRecords cuts head into at most n records, honouring quotes; the last,
+// possibly cut, record is dropped when head was cut.
+func splitRecords(head []byte, n int) [][]byte {
+	var out [][]byte
+	in, start := false, 0
+	for i, c := range head {
+		switch {
+		case c == '"':
+			in = !in
+		case c == '\n' && !in:
+			rec := bytes.TrimRight(head[start:i], "\r")
+			if len(bytes.TrimSpace(rec)) > 0 {
+				out = append(out, rec)
+			}
+			start = i + 1
+			if len(out) == n {
+				return out
+			}
+		}
+	}
+	if start < len(head) && (len(out) == 0 || len(head) < sniffBytes) {
+		out = append(out, head[start:])
+	}
+	return out
+}
+
+func countFields(rec []byte, sep byte) int { return len(splitFields(rec, sep)) }
+
+func splitFields(rec []byte, sep byte) []string {
+	var out []string
+	in, start := false, 0
+	for i, c := range rec {
+		switch {
+		case c == '"':
+			in = !in
+		case c == sep && !in:
+			out = append(out, string(rec[start:i]))
+			start = i + 1
+		}
+	}
+	return append(out, string(rec[start:]))
+}

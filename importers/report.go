@@ -1,0 +1,79 @@
+package importers
+
+import (
+	"encoding/csv"
+	"fmt"
+	"io"
+	"strconv"
+
+	"plumb/catalog"
+)
+
+// Report is what an import did: a summary, one entry per file, and one
+// Problem per row skipped or in doubt (and notes worth knowing).
+type Report struct {
+	Summary  Summary
+	Files    []FileReport
+	Problems []Problem
+}
+
+// Summary counts the rows and parts of an import.
+type Summary struct {
+	Rows        int // data rows read
+	Parts       int // rows that became parts
+	Series      int // resistor series grouped from runs of rows
+	Skipped     int // rows left out
+	Imported    int // parts written (or that would be, in a dry run)
+	Added       int
+	Updated     int // prices or stock changed
+	Unchanged   int
+	SpecChanged int // figures differ from the catalog's: reported, never silently overwritten
+	DryRun      bool
+}
+
+// FileReport is what was found in one file.
+type FileReport struct {
+	File    string
+	Kind    catalog.Kind
+	Shape   Shape
+	Rows    int
+	Mapping *Mapping
+	Groups  []Group
+	// Preview holds the first parts as parsed (catalog.Resistor, Network
+	// or Amplifier values), for a dry run to show.
+	Preview []any
+}
+
+// Count returns the number of problems of one severity.
+func (r *Report) Count(s Severity) int {
+	n := 0
+	for _, p := range r.Problems {
+		if p.Severity == s {
+			n++
+		}
+	}
+	return n
+}
+
+// WriteCSV writes the row report: one line per problem with file, line,
+// column, part, severity, raw text and reason, after a header line.
+func (r *Report) WriteCSV(w io.Writer) error {
+	cw := csv.NewWriter(w)
+	if err := cw.Write([]string{"file", "line", "column", "part", "severity", "raw", "reason"}); err != nil {
+		return fmt.Errorf("importers: writing report: %w", err)
+	}
+	for _, p := range r.Problems {
+		line := ""
+		if p.Line > 0 {
+			line = strconv.Itoa(p.Line)
+		}
+		if err := cw.Write([]string{p.File, line, p.Column, p.Part, string(p.Severity), p.Raw, p.Reason}); err != nil {
+			return fmt.Errorf("importers: writing report: %w", err)
+		}
+	}
+	cw.Flush()
+	if err := cw.Error(); err != nil {
+		return fmt.Errorf("importers: writing report: %w", err)
+	}
+	return nil
+}

@@ -1,0 +1,518 @@
+package importers
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"strings"
+
+	"plumb/catalog"
+	"plumb/catalog/units"
+)
+
+// rowReader turns the records of one file into parts, by a resolved
+// mapping.
+type rowReader struct {
+	file         string
+	header       []string
+	info         []headerInfo
+	kind         catalog.Kind
+	cols         map[Field]int
+	breaks       []breakCol
+	fixed        map[Field]string
+	decimalComma bool
+	currency     string // from the mapping, the header, or ""
+	prov         catalog.Provenance
+
+	rec      []string
+	line     int
+	problems []Problem
+	part     string
+}
+
+// parsed is one row read into a part of the file's kind.
+type parsed struct {
+	line      int
+	resistor  *catalog.Resistor
+	network   *catalog.Network
+	amplifier *catalog.Amplifier
+}
+
+func (p parsed) key() string {
+	switch {
+	case p.resistor != nil:
+		return p.resistor.Part
+	case p.network != nil:
+		return p.network.Part
+	}
+	return p.amplifier.Part
+}
+
+// errSkip ends the reading of a row; the problem has been recorded.
+var errSkip = errors.New("importers: row skipped")
+
+func (r *rowReader) note(sev Severity, f Field, raw string, err error) {
+	col := ""
+	if i, ok := r.cols[f]; ok {
+		col = r.header[i]
+	} else if f != "" {
+		col = string(f)
+	}
+	r.problems = append(r.problems, newProblem(sev, &ParseError{File: r.file, Line: r.line, Column: col, Raw: raw, Err: err}, r.part))
+}
+
+// skip records a reason to drop the row and returns errSkip.
+func (r *rowReader) skip(f Field, raw string, err error) error {
+	r.note(Skip, f, raw, err)
+	return errSkip
+}
+
+// raw returns the cell for f, or the mapping's fixed value, and whether
+// either is there and not blank.
+func (r *rowReader) raw(f Field) (string, bool) {
+	if i, ok := r.cols[f]; ok && i < len(r.rec) {
+		s := cleanCell(r.rec[i])
+		if !isBlank(s) {
+			return s, true
+		}
+		if v, ok := r.fixed[f]; ok {
+			return v, true
+		}
+		return s, false
+	}
+	v, ok := r.fixed[f]
+	return v, ok && !isBlank(v)
+}
+
+func (r *rowReader) unitHint(f Field) string {
+	if i, ok := r.cols[f]; ok {
+		return r.info[i].unit
+	}
+	return ""
+}
+
+// value reads a figure. ok is false when it is blank; a bad value skips the
+// row. typ is set when the header or cell marks it typical.
+func (r *rowReader) value(f Field, q quantity) (v float64, ok, typ bool, err error) {
+	s, present := r.raw(f)
+	if !present {
+		return 0, false, false, nil
+	}
+	v, typ, err = readValue(s, r.unitHint(f), r.decimalComma, q)
+	if errors.Is(err, units.ErrBlank) {
+		return 0, false, false, nil
+	}
+	if err != nil {
+		return 0, false, false, r.skip(f, s, fmt.Errorf("%w: %s", ErrBadValue, unitErr(err)))
+	}
+	if i, ok := r.cols[f]; ok && r.info[i].typical {
+		typ = true
+	}
+	return v, true, typ, nil
+}
+
+// need reads a figure the kind cannot do without.
+func (r *rowReader) need(f Field, q quantity, what string) (float64, error) {
+	v, ok, _, err := r.value(f, q)
+	if err != nil {
+		return 0, err
+	}
+	if !ok {
+		s, _ := r.raw(f)
+		return 0, r.skip(f, s, fmt.Errorf("%w: no %s; fill the column or set a fixed value in the mapping", ErrMissingValue, what))
+	}
+	return v, nil
+}
+
+func (r *rowReader) text(f Field) string {
+	s, _ := r.raw(f)
+	if isBlank(s) {
+		return ""
+	}
+	return s
+}
+
+// read turns one record into a part.
+func (r *rowReader) read(rec []string, line int) (parsed, error) {
+	r.rec, r.line, r.part = rec, line, ""
+	if err := r.checkWidth(); err != nil {
+		return parsed{}, err
+	}
+	part := r.text(FieldPart)
+	if part == "" {
+		return parsed{}, r.skip(FieldPart, "", fmt.Errorf("%w: no part number", ErrMissingValue))
+	}
+	r.part = part
+	offer, err := r.offer()
+	if err != nil {
+		return parsed{}, err
+	}
+	switch r.kind {
+	case catalog.KindResistor:
+		res, err := r.resistor(part, offer)
+		return parsed{line: line, resistor: res}, err
+	case catalog.KindNetwork:
+		n, err := r.network(part, offer)
+		return parsed{line: line, network: n}, err
+	default:
+		a, err := r.amplifier(part, offer)
+		return parsed{line: line, amplifier: a}, err
+	}
+}
+
+// checkWidth skips a row with fewer fields than the header, or with extra
+// fields that hold text (an unquoted comma shifts every later column:
+// "0.125W, 1/8W" unquoted).
+func (r *rowReader) checkWidth() error {
+	n, want := len(r.rec), len(r.header)
+	if n == want {
+		return nil
+	}
+	if n > want {
+		extra := strings.Join(r.rec[want:], "")
+		if strings.TrimSpace(extra) == "" {
+			return nil
+		}
+	}
+	return r.skip("", strings.Join(r.rec, string(',')), fmt.Errorf("%w: %d fields, the header has %d (an unquoted separator inside a value?)", ErrRagged, n, want))
+}
+
+// offer reads stock, minimum order and prices.
+func (r *rowReader) offer() (catalog.Offer, error) {
+	o := catalog.Offer{Stock: -1}
+	if v, ok, _, err := r.value(FieldStock, parseCount); err != nil {
+		return o, err
+	} else if ok {
+		o.Stock = int(v)
+	}
+	if v, ok, _, err := r.value(FieldMinOrder, parseCount); err != nil {
+		return o, err
+	} else if ok {
+		o.MinOrder = int(v)
+	}
+	first := max(o.MinOrder, 1)
+	cur := r.currency
+	if c, ok := r.raw(FieldCurrency); ok {
+		if cc := currencyOf(c); cc != "" {
+			cur = cc
+		} else if len(c) == 3 {
+			cur = strings.ToUpper(c)
+		}
+	}
+	var breaks []catalog.PriceBreak
+	if s, ok := r.raw(FieldPrice); ok {
+		hcur := cur
+		if i, ok := r.cols[FieldPrice]; ok && r.info[i].curr != "" {
+			hcur = r.info[i].curr
+		}
+		b, err := parsePrices(s, r.decimalComma, first, hcur)
+		if err != nil {
+			return o, r.skip(FieldPrice, s, err)
+		}
+		breaks = append(breaks, b...)
+	}
+	for _, bc := range r.breaks {
+		if bc.col >= len(r.rec) || isBlank(r.rec[bc.col]) {
+			continue
+		}
+		s := cleanCell(r.rec[bc.col])
+		p, c, err := parseMoney(s, r.decimalComma)
+		if err != nil {
+			r.problems = append(r.problems, newProblem(Skip, &ParseError{File: r.file, Line: r.line, Column: r.header[bc.col], Raw: s,
+				Err: fmt.Errorf("%w: price %s", ErrBadValue, err)}, r.part))
+			return o, errSkip
+		}
+		if c == "" {
+			c = bc.curr
+		}
+		if c == "" {
+			c = cur
+		}
+		breaks = append(breaks, catalog.PriceBreak{MinQty: bc.minQty, UnitPrice: p, Currency: c})
+	}
+	if len(breaks) > 0 {
+		b, err := normaliseBreaks(breaks)
+		if err != nil {
+			return o, r.skip(FieldPrice, "", err)
+		}
+		for _, pb := range b {
+			if pb.Currency == "" {
+				r.note(Doubt, FieldPrice, "", errors.New("no currency in the cell, the header or the mapping: prices kept without one; set fixed currency in a mapping"))
+				break
+			}
+		}
+		o.PriceBreaks = b
+	} else {
+		r.note(Doubt, FieldPrice, "", errors.New("no price: the part is kept but cannot be costed"))
+	}
+	return o, nil
+}
+
+// grade reads the figures resistors and networks share, taking a missing
+// resistance, tolerance, tempco, power or size from the description and
+// saying so, and flagging a description that disagrees with a column.
+func (r *rowReader) grade() (g catalog.ResistorGrade, ohm float64, err error) {
+	desc := r.text(FieldDescription)
+	d := describe(desc, r.decimalComma)
+	pick := func(f Field, q quantity, fromDesc float64, what string, need bool) (float64, error) {
+		v, ok, _, err := r.value(f, q)
+		if err != nil {
+			return 0, err
+		}
+		words, inDesc := d.has[f]
+		switch {
+		case ok && inDesc && !closeTo(v, fromDesc):
+			r.note(Doubt, f, desc, fmt.Errorf("the description says %q, the column says %g: the column is used; check the part", words, v))
+		case !ok && inDesc:
+			r.note(Info, f, desc, fmt.Errorf("%s taken from the description (%q)", what, words))
+			return fromDesc, nil
+		case !ok && need:
+			s, _ := r.raw(f)
+			return 0, r.skip(f, s, fmt.Errorf("%w: no %s in its column or the description; fill it or set a fixed value in the mapping", ErrMissingValue, what))
+		}
+		return v, nil
+	}
+	if r.kind == catalog.KindResistor {
+		if ohm, err = pick(FieldResistance, units.ParseResistance, d.resistance, "resistance", true); err != nil {
+			return g, 0, err
+		}
+		if ohm <= 0 {
+			s, _ := r.raw(FieldResistance)
+			return g, 0, r.skip(FieldResistance, s, fmt.Errorf("%w: resistance must be above zero (a 0 Ω jumper is not a resistor for a budget)", ErrBadValue))
+		}
+	}
+	if g.Tolerance, err = pick(FieldTolerance, units.ParsePercent, d.tolerance, "tolerance", true); err != nil {
+		return g, 0, err
+	}
+	if g.TCR, err = pick(FieldTCR, units.ParsePPM, d.tcr, "temperature coefficient", true); err != nil {
+		return g, 0, err
+	}
+	if g.PowerW, err = pick(FieldPower, units.ParsePower, d.power, "power rating", false); err != nil {
+		return g, 0, err
+	}
+	if g.Tolerance <= 0 || g.Tolerance >= 0.5 {
+		s, _ := r.raw(FieldTolerance)
+		return g, 0, r.skip(FieldTolerance, s, fmt.Errorf("%w: tolerance %g %% is outside (0, 50) %%", ErrBadValue, g.Tolerance*100))
+	}
+	if g.TCR < 0 {
+		g.TCR = -g.TCR
+	}
+	if g.MaxVoltageV, _, _, err = r.value(FieldMaxVoltage, units.ParseVoltage); err != nil {
+		return g, 0, err
+	}
+	g.Package = r.text(FieldPackage)
+	if g.Package == "" && d.pkg != "" {
+		g.Package = d.pkg
+		r.note(Info, FieldPackage, desc, fmt.Errorf("size %s taken from the description", d.pkg))
+	}
+	g.Technology = normaliseTechnology(r.text(FieldTechnology))
+	return g, ohm, nil
+}
+
+// closeTo compares a column value with the description's, allowing for the
+// description's rounding (three figures).
+func closeTo(a, b float64) bool {
+	if a == b {
+		return true
+	}
+	return math.Abs(a-b) <= 5e-3*math.Max(math.Abs(a), math.Abs(b))
+}
+
+func (r *rowReader) resistor(part string, o catalog.Offer) (*catalog.Resistor, error) {
+	g, ohm, err := r.grade()
+	if err != nil {
+		return nil, err
+	}
+	return &catalog.Resistor{Part: part, Maker: r.text(FieldMaker), Line: r.text(FieldLine), ValueOhm: ohm,
+		ResistorGrade: g, Offer: o, Provenance: r.prov}, nil
+}
+
+func (r *rowReader) network(part string, o catalog.Offer) (*catalog.Network, error) {
+	g, _, err := r.grade()
+	if err != nil {
+		return nil, err
+	}
+	s, ok := r.raw(FieldResistance)
+	if !ok {
+		return nil, r.skip(FieldResistance, s, fmt.Errorf("%w: no element values", ErrMissingValue))
+	}
+	vals, err := r.networkValues(s)
+	if err != nil {
+		return nil, r.skip(FieldResistance, s, err)
+	}
+	n := &catalog.Network{Part: part, Maker: r.text(FieldMaker), Values: vals, Technology: g.Technology, Package: g.Package,
+		Tolerance: g.Tolerance, TCR: g.TCR, PowerW: g.PowerW, MaxVoltageV: g.MaxVoltageV, Offer: o, Provenance: r.prov}
+	if n.RatioTolerance, err = r.need(FieldRatioTolerance, units.ParsePercent, "ratio tolerance"); err != nil {
+		return nil, err
+	}
+	v, ok, _, err := r.value(FieldTCRTracking, units.ParsePPM)
+	if err != nil {
+		return nil, err
+	}
+	if ok {
+		n.TCRTracking = math.Abs(v)
+	} else {
+		// Two elements at opposite corners of the ±TCR box move their ratio
+		// by 2·TCR (domain notes §6, common practice arithmetic).
+		n.TCRTracking = 2 * n.TCR
+		r.note(Doubt, FieldTCRTracking, "", fmt.Errorf("no TCR tracking: taken as 2 × TCR = %g ppm/K, the worst case of two independent elements", n.TCRTracking))
+	}
+	return n, nil
+}
+
+// networkValues reads "10k", "10k/10k/1k/1k", "4 x 10k" or "2x10k + 2x1k",
+// with the element count column to repeat a single value.
+func (r *rowReader) networkValues(s string) ([]float64, error) {
+	if r.decimalComma {
+		s = withDecimalComma(s)
+	}
+	var vals []float64
+	for _, group := range strings.FieldsFunc(s, func(c rune) bool { return c == '/' || c == '+' || c == ';' || c == ',' || c == '|' }) {
+		group = strings.TrimSpace(group)
+		count := 1
+		if i := strings.IndexAny(group, "x×*"); i > 0 {
+			if c, err := parseCount(group[:i]); err == nil && c >= 1 && c <= 64 {
+				count, group = int(c), strings.TrimSpace(group[i+len(string([]rune(group[i:])[0])):])
+			}
+		}
+		v, _, err := readValue(group, r.unitHint(FieldResistance), false, units.ParseResistance)
+		if err != nil {
+			return nil, fmt.Errorf("%w: %s", ErrBadValue, unitErr(err))
+		}
+		if v <= 0 {
+			return nil, fmt.Errorf("%w: element value must be above zero", ErrBadValue)
+		}
+		for range count {
+			vals = append(vals, v)
+		}
+	}
+	nv, ok, _, err := r.value(FieldElements, parseElements)
+	if err != nil {
+		return nil, errSkip
+	}
+	switch {
+	case ok && len(vals) == 1 && nv >= 2 && nv <= 64:
+		for len(vals) < int(nv) {
+			vals = append(vals, vals[0])
+		}
+	case ok && int(nv) != len(vals):
+		return nil, fmt.Errorf("%w: %d values given but %g elements", ErrBadValue, len(vals), nv)
+	}
+	if len(vals) < 2 {
+		return nil, fmt.Errorf("%w: a network needs at least two elements (give the count or the values)", ErrMissingValue)
+	}
+	return vals, nil
+}
+
+// normaliseTechnology maps the usual words to the catalog's trade words.
+func normaliseTechnology(s string) string {
+	t := strings.ToLower(s)
+	switch {
+	case t == "":
+		return ""
+	case strings.Contains(t, "thin"):
+		return "thin-film"
+	case strings.Contains(t, "thick"):
+		return "thick-film"
+	case strings.Contains(t, "foil"):
+		return "foil"
+	case strings.Contains(t, "wire"):
+		return "wirewound"
+	case strings.Contains(t, "strip") || strings.Contains(t, "shunt"):
+		return "metal-strip"
+	case strings.Contains(t, "metal"):
+		return "metal-film"
+	case strings.Contains(t, "carbon"):
+		return "carbon-film"
+	}
+	return t
+}
+
+// ampFigure reads one op-amp figure; missing ones are reported, since a
+// zero would make the budget optimistic.
+type ampFigure struct {
+	field Field
+	q     quantity
+	dst   *float64
+	json  string
+	what  string
+	need  bool
+}
+
+// Headroom assumed for the input common-mode range and output swing of an
+// amplifier whose export says it is not rail-to-rail and gives no figures:
+// 1.5 V from each rail (common practice for classic bipolar parts; the
+// report says so, and the datasheet decides).
+const defaultHeadroomV = 1.5
+
+func (r *rowReader) amplifier(part string, o catalog.Offer) (*catalog.Amplifier, error) {
+	a := &catalog.Amplifier{Part: part, Maker: r.text(FieldMaker), Type: catalog.OpAmp, Channels: 1,
+		Package: r.text(FieldPackage), Offer: o, Provenance: r.prov}
+	figs := []ampFigure{
+		{FieldSupplyMin, parseSupply, &a.SupplyMinV, "supply_min_v", "minimum supply", false},
+		{FieldSupplyMax, parseSupply, &a.SupplyMaxV, "supply_max_v", "maximum supply", true},
+		{FieldVos, units.ParseVoltage, &a.VosV, "vos_v", "input offset voltage", true},
+		{FieldVosDrift, parseDrift, &a.VosDriftVK, "vos_drift_v_per_k", "offset drift", false},
+		{FieldIb, units.ParseCurrent, &a.IbA, "ib_a", "input bias current", false},
+		{FieldIos, units.ParseCurrent, &a.IosA, "ios_a", "input offset current", false},
+		{FieldAol, parseGain, &a.AolVV, "aol_v_per_v", "open-loop gain", false},
+		{FieldCMRR, units.ParseDB, &a.CMRRdB, "cmrr_db", "CMRR", false},
+		{FieldGBW, units.ParseFrequency, &a.GBWHz, "gbw_hz", "gain-bandwidth product", false},
+		{FieldSlew, parseSlew, &a.SlewVs, "slew_v_per_s", "slew rate", false},
+		{FieldNoiseV, units.ParseVoltageNoise, &a.NoiseVHz, "noise_v_per_rthz", "voltage noise density", false},
+		{FieldNoiseI, units.ParseCurrentNoise, &a.NoiseAHz, "noise_a_per_rthz", "current noise density", false},
+		{FieldIq, units.ParseCurrent, &a.IqA, "iq_a", "quiescent current", false},
+	}
+	var missing []string
+	for _, f := range figs {
+		v, ok, typ, err := r.value(f.field, f.q)
+		if err != nil {
+			return nil, err
+		}
+		if !ok {
+			if f.need {
+				s, _ := r.raw(f.field)
+				return nil, r.skip(f.field, s, fmt.Errorf("%w: no %s; fill the column or set a fixed value in the mapping", ErrMissingValue, f.what))
+			}
+			missing = append(missing, f.what)
+			continue
+		}
+		*f.dst = math.Abs(v)
+		if typ {
+			a.TypicalOnly = append(a.TypicalOnly, f.json)
+		}
+	}
+	if len(missing) > 0 {
+		r.note(Doubt, "", "", fmt.Errorf("not given, stored as 0 (the budget leaves them out): %s", strings.Join(missing, ", ")))
+	}
+	if len(a.TypicalOnly) > 0 {
+		r.note(Doubt, "", "", fmt.Errorf("typical figures only for %s: a worst-case budget needs maximums", strings.Join(a.TypicalOnly, ", ")))
+	}
+	if a.SupplyMinV > a.SupplyMaxV {
+		return nil, r.skip(FieldSupplyMin, "", fmt.Errorf("%w: minimum supply %g V above maximum %g V", ErrBadValue, a.SupplyMinV, a.SupplyMaxV))
+	}
+	if v, ok, _, err := r.value(FieldChannels, parseCount); err != nil {
+		return nil, err
+	} else if ok {
+		if v < 1 || v > 16 {
+			return nil, r.skip(FieldChannels, "", fmt.Errorf("%w: %g channels", ErrBadValue, v))
+		}
+		a.Channels = int(v)
+	}
+	in, out := false, false
+	if s, ok := r.raw(FieldRailToRail); ok {
+		var err error
+		if in, out, err = railToRail(s); err != nil {
+			return nil, r.skip(FieldRailToRail, s, err)
+		}
+	} else {
+		r.note(Doubt, FieldRailToRail, "", fmt.Errorf("rail-to-rail not stated: input range and output swing taken as %g V from each rail; check the datasheet", defaultHeadroomV))
+	}
+	if !in {
+		a.CMNegV, a.CMPosV = defaultHeadroomV, defaultHeadroomV
+	}
+	if !out {
+		a.SwingNegV, a.SwingPosV = defaultHeadroomV, defaultHeadroomV
+	}
+	return a, nil
+}
