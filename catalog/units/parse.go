@@ -5,7 +5,7 @@ import (
 	"strings"
 )
 
-var ohmSymbols = []symbol{{"Ω", 0}, {"Ω", 0}, {"ohm", 0}, {"ohms", 0}, {"R", 0}}
+var ohmSymbols = []symbol{{"\u03a9", 0}, {"\u2126", 0}, {"ohm", 0}, {"ohms", 0}, {"R", 0}} // Greek omega, ohm sign
 
 var kelvinRefusal = []refusal{
 	{"K", "kelvin is not accepted here: give the temperature in °C"},

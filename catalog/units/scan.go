@@ -153,6 +153,9 @@ func readNumber(t string) (n number, rest string, reason string) {
 			return n, t, "expected a number"
 		}
 		if i < len(t) && (t[i] == '.' || t[i] == ',') && i+1 < len(t) && isDigit(t[i+1]) {
+			if t[i] != sep {
+				return n, t, "a comma and a dot together: write the number without thousands separators"
+			}
 			return n, t, "more than one decimal separator"
 		}
 		if sep == ',' {
