@@ -15,12 +15,12 @@ import (
 type Options struct {
 	// RefDivider drives the reference of a difference amplifier through a
 	// divider Ra/Rb from vrefsrc instead of a stiff source.
-	RefDivider bool `json:"ref_divider"`
+	RefDivider bool `json:"ref_divider" yaml:"ref_divider"`
 	// Buffer puts a follower after a divider.
-	Buffer bool `json:"buffer"`
+	Buffer bool `json:"buffer" yaml:"buffer"`
 	// OffsetToInverting feeds the level-shift offset into the inverting
 	// input instead of the non-inverting one.
-	OffsetToInverting bool `json:"offset_to_inverting"`
+	OffsetToInverting bool `json:"offset_to_inverting" yaml:"offset_to_inverting"`
 }
 
 // Element is one physical resistor with its figures in SI units. For an

@@ -161,8 +161,28 @@ type problems struct {
 }
 
 func (p *problems) add(field, format string, args ...any) {
-	p.errs = append(p.errs, fmt.Errorf("%s %s: %s: %s: %w", p.kind, p.file, field, fmt.Sprintf(format, args...), ErrInvalid))
+	p.errs = append(p.errs, &FieldError{Kind: p.kind, File: p.file, Field: field, Msg: fmt.Sprintf(format, args...)})
 }
+
+// FieldError is one problem in a spec or design file. It matches ErrInvalid
+// under errors.Is.
+type FieldError struct {
+	Kind  string // "spec" or "design"
+	File  string
+	Field string // path such as limits.cmrr or positions.R1.tolerance
+	Msg   string
+}
+
+// Error returns "spec FILE: FIELD: MESSAGE".
+func (e *FieldError) Error() string {
+	if e.Field == "" {
+		return fmt.Sprintf("%s %s: %s", e.Kind, e.File, e.Msg)
+	}
+	return fmt.Sprintf("%s %s: %s: %s", e.Kind, e.File, e.Field, e.Msg)
+}
+
+// Is reports true for ErrInvalid.
+func (e *FieldError) Is(target error) bool { return target == ErrInvalid }
 
 func (p *problems) err() error {
 	if len(p.errs) == 0 {
@@ -176,7 +196,7 @@ func decodeStrict(data []byte, v any, kind, file string) error {
 	dec := yaml.NewDecoder(strings.NewReader(string(data)))
 	dec.KnownFields(true)
 	if err := dec.Decode(v); err != nil {
-		return fmt.Errorf("%s %s: %w: %w", kind, file, ErrInvalid, cleanYAMLError(err))
+		return &FieldError{Kind: kind, File: file, Msg: cleanYAMLError(err).Error()}
 	}
 	return nil
 }
@@ -192,9 +212,11 @@ func cleanYAMLError(err error) error {
 			if i := strings.Index(l, " not found in type"); i >= 0 {
 				l = l[:i] + " is not a known field (check the spelling against the README of the examples)"
 			}
-			lines = append(lines, strings.TrimPrefix(l, "yaml: unmarshal errors:"))
+			if l = strings.TrimPrefix(l, "yaml: unmarshal errors:"); l != "" {
+				lines = append(lines, l)
+			}
 		}
-		return errors.New(strings.TrimSpace(strings.Join(lines, "; ")))
+		return errors.New(strings.Join(lines, "; "))
 	}
 	if err.Error() == "EOF" {
 		return errors.New("file is empty")

@@ -1,0 +1,234 @@
+package spec
+
+import (
+	"errors"
+	"math"
+	"os"
+	"strings"
+	"testing"
+)
+
+func TestParseGood(t *testing.T) {
+	data, err := os.ReadFile("testdata/good.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, err := Parse(data, "good.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	checks := []struct {
+		name      string
+		got, want float64
+	}{
+		{"gain", s.Gain, 0.4},
+		{"input min", s.Input.Min, -10},
+		{"cm max", s.CommonMode.Max, 5},
+		{"supply neg", s.Supply.Min, -15},
+		{"ref tolerance", s.Reference.Tolerance, 0.001},
+		{"ref drift", s.Reference.Drift, 10e-6},
+		{"load", s.LoadOhm, 10e3},
+		{"leakage", s.LeakageA, 1e-6},
+		{"temp min", s.Temp.Min, -40},
+		{"gain error", s.Limits.GainError, 0.001},
+		{"cmrr", s.Limits.CMRRdB, 80},
+		{"drift", s.Limits.GainDrift, 5e-6},
+		{"offset", s.Limits.OutputOffsetV, 1e-3},
+		{"offset drift", s.Limits.OffsetDriftVK, 10e-6},
+		{"noise rms", s.Limits.NoiseRMSV, 100e-6},
+		{"noise density", s.Limits.NoiseDensity, 200e-9},
+		{"bandwidth", s.Limits.BandwidthHz, 10e3},
+		{"yield", s.Analysis.Yield, 0.99},
+		{"attrition", s.Build.Attrition, 0.02},
+		{"impedance max", s.Impedance.Max, 1e6},
+		{"derating", s.Derating, 0.5},
+		// Worst excursion max(|85-25|, |-40-25|) = 65 K (domain notes §3).
+		{"excursion", s.WorstExcursion(), 65},
+	}
+	for _, c := range checks {
+		if math.Abs(c.got-c.want) > 1e-12*math.Max(1, math.Abs(c.want)) {
+			t.Errorf("%s = %g, want %g", c.name, c.got, c.want)
+		}
+	}
+	if !s.Differential || !s.Calibrate.Gain || s.Analysis.Seed != 7 || s.Analysis.Trials != 2000 || s.Build.Stock != "exclude" {
+		t.Errorf("flags wrong: %+v", s)
+	}
+}
+
+func TestLevelShiftDerivesGainAndOffset(t *testing.T) {
+	src := `name: ls
+about: level shift
+family: level-shift
+input: {single_ended: ±5V}
+output: 0..2.5V
+supply: 0..5V
+reference: {voltage: 2.5V, tolerance: 0.05%, drift: 10ppm/K}
+temperature: {range: 0..70C}
+limits: {gain_error: 0.1%}
+`
+	s, err := Parse([]byte(src), "ls.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Mapping [-5, 5] onto [0, 2.5]: gain 2.5/10 = 0.25, offset 0 - 0.25*(-5) = 1.25 V.
+	if s.Gain != 0.25 || s.Offset != 1.25 {
+		t.Errorf("gain %g offset %g, want 0.25 and 1.25", s.Gain, s.Offset)
+	}
+}
+
+// base is a valid spec the error cases edit.
+const base = `name: t
+about: test
+family: difference
+gain: 1
+input: {differential: ±1V, common_mode: -5..5V}
+supply: ±15V
+temperature: {range: -40..85C}
+limits: {cmrr: 60dB}
+`
+
+func TestParseErrors(t *testing.T) {
+	cases := []struct {
+		name string
+		edit func(string) string
+		want string // a fragment of the error
+	}{
+		{"cmrr without unit", rep("cmrr: 60dB", "cmrr: 60"), `limits.cmrr: "60" has no unit; write it like 80dB`},
+		{"unknown field", add("colour: red\n"), "colour"},
+		{"unknown nested field", rep("limits: {cmrr: 60dB}", "limits: {cmrr: 60dB, cmr: 3dB}"), "cmr"},
+		{"missing name", rep("name: t\n", ""), "name: missing"},
+		{"missing about", rep("about: test\n", ""), "about: missing"},
+		{"no family", rep("family: difference\n", ""), "family: missing"},
+		{"bad family", rep("family: difference", "family: diff"), `"diff" is not a family`},
+		{"family and families", add("families: [inamp]\n"), "given together with families"},
+		{"duplicate family", rep("family: difference", "families: [difference, difference]"), "listed twice"},
+		{"missing gain", rep("gain: 1\n", ""), "gain: missing"},
+		{"gain zero", rep("gain: 1", "gain: 0"), "gain: is zero"},
+		{"gain sign vs inverting", func(s string) string {
+			return rep("input: {differential: ±1V, common_mode: -5..5V}", "input: {single_ended: ±1V}")(rep("family: difference", "family: inverting")(s))
+		}, "does not suit family inverting"},
+		{"gain below one non-inverting", func(s string) string {
+			return rep("input: {differential: ±1V, common_mode: -5..5V}", "input: {single_ended: ±1V}")(rep("family: difference", "family: noninverting")(rep("gain: 1", "gain: 0.5")(s)))
+		}, "at least 1"},
+		{"single-ended to difference", rep("differential: ±1V", "single_ended: ±1V"), "takes input.differential"},
+		{"two inputs", rep("differential: ±1V", "differential: ±1V, single_ended: ±1V"), "not several"},
+		{"no input", rep("input: {differential: ±1V, common_mode: -5..5V}", "input: {common_mode: -5..5V}"), "input: missing"},
+		{"input single value", rep("±1V", "1V"), "single value"},
+		{"range high to low", rep("-5..5V", "5..-5V"), "runs from high to low"},
+		{"input without unit", rep("±1V", "±1"), "input.differential"},
+		{"no supply", rep("supply: ±15V\n", ""), "supply: missing"},
+		{"supply too small for output", rep("gain: 1", "gain: 20"), "the output must reach -20..20 V"},
+		{"no temperature", rep("temperature: {range: -40..85C}\n", ""), "temperature.range: missing"},
+		{"reference temperature outside", rep("{range: -40..85C}", "{range: -40..85C, reference: 100C}"), "outside the range"},
+		{"no limits", rep("limits: {cmrr: 60dB}", "limits: {}"), "limits: none given"},
+		{"negative limit", rep("cmrr: 60dB", "cmrr: -3dB"), "must be positive"},
+		{"fraction without unit", rep("cmrr: 60dB", "gain_error: 0.1"), `limits.gain_error: "0.1" has no unit`},
+		{"tempco without unit", rep("cmrr: 60dB", "gain_drift: 5"), `limits.gain_drift: "5" has no unit`},
+		{"bad method", add("analysis: {method: guess}\n"), "analysis.method"},
+		{"few trials", add("analysis: {method: monte-carlo, trials: 5}\n"), "at least 100"},
+		{"yield without monte carlo", add("analysis: {yield: 99%}\n"), "needs method monte-carlo"},
+		{"bad distribution", add("analysis: {distribution: flat}\n"), "analysis.distribution"},
+		{"calibration with no gain limit", add("calibration: {gain: true}\n"), "calibration.gain: set, but limits give neither"},
+		{"impedance min above max", add("impedance: {min: 1M, max: 1k}\n"), "impedance: min"},
+		{"bad combo", add("combos: [triple]\n"), "combos[0]"},
+		{"derating above one", add("derating: 150%\n"), "derating"},
+		{"bad stock", add("build: {stock: maybe}\n"), "build.stock"},
+		{"quantity zero", add("build: {quantity: 0}\n"), "build.quantity"},
+		{"level shift without output", func(s string) string {
+			return rep("family: difference\ngain: 1\ninput: {differential: ±1V, common_mode: -5..5V}", "family: level-shift\ninput: {single_ended: ±1V}\nreference: {voltage: 2.5V}")(s)
+		}, "output: missing"},
+		{"level shift with gain", func(s string) string {
+			return rep("family: difference\n", "family: level-shift\noutput: 0..2V\nreference: {voltage: 2.5V}\n")(rep("differential: ±1V, common_mode: -5..5V", "single_ended: ±1V")(s))
+		}, "a level-shift gain follows from input and output"},
+		{"level shift without reference", func(s string) string {
+			return rep("family: difference\ngain: 1\ninput: {differential: ±1V, common_mode: -5..5V}", "family: level-shift\noutput: 0..2V\ninput: {single_ended: ±1V}")(s)
+		}, "reference: missing"},
+		{"current sense without current", rep("family: difference", "family: current-sense"), "takes input.current"},
+		{"common mode on single-ended", func(s string) string {
+			return rep("family: difference", "family: noninverting")(rep("differential: ±1V", "single_ended: ±1V")(s))
+		}, "given for a single-ended stage"},
+		{"empty file", func(string) string { return "" }, "file is empty"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			src := c.edit(base)
+			_, err := Parse([]byte(src), "x.yaml")
+			if err == nil {
+				t.Fatalf("no error for\n%s", src)
+			}
+			if !errors.Is(err, ErrInvalid) {
+				t.Errorf("error does not wrap ErrInvalid: %v", err)
+			}
+			if !strings.Contains(err.Error(), c.want) || !strings.Contains(err.Error(), "x.yaml") {
+				t.Errorf("error %q does not name the file and say %q", err, c.want)
+			}
+		})
+	}
+}
+
+func TestBaseParses(t *testing.T) {
+	if _, err := Parse([]byte(base), "base.yaml"); err != nil {
+		t.Fatal(err)
+	}
+}
+
+func rep(old, new string) func(string) string {
+	return func(s string) string {
+		if !strings.Contains(s, old) {
+			panic("test edit does not apply: " + old)
+		}
+		return strings.Replace(s, old, new, 1)
+	}
+}
+
+func add(line string) func(string) string {
+	return func(s string) string { return s + line }
+}
+
+func TestQuantities(t *testing.T) {
+	cases := []struct {
+		name string
+		in   string
+		u    unit
+		want float64
+	}{
+		{"kilo-ohm bare", "10k", uOhm, 10e3},
+		{"ohm sign", "4.99kΩ", uOhm, 4990},
+		{"millivolt", "500mV", uVolt, 0.5},
+		{"microamp", "1uA", uAmp, 1e-6},
+		{"micro sign", "2µA", uAmp, 2e-6},
+		{"kilohertz", "10kHz", uHertz, 10e3},
+		{"decibel", "80dB", uDB, 80},
+		{"noise", "20nV/rtHz", uNoise, 20e-9},
+		{"drift", "10uV/K", uVPerK, 10e-6},
+		{"exponent", "1e3", uOhm, 1000},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			got, err := parseQuantity(c.in, c.u)
+			if err != nil || math.Abs(got-c.want) > 1e-12*math.Abs(c.want) {
+				t.Errorf("parseQuantity(%q) = %g, %v; want %g", c.in, got, err, c.want)
+			}
+		})
+	}
+	lo, hi, err := parseRange("-10..10V", uVolt)
+	if err != nil || lo != -10 || hi != 10 {
+		t.Errorf("range: %g %g %v", lo, hi, err)
+	}
+	if f, err := parseFraction("±0.05%"); err != nil || math.Abs(f-5e-4) > 1e-15 {
+		t.Errorf("fraction: %g %v", f, err)
+	}
+}
+
+// FuzzParse checks that no input panics and that accepted specs are sane.
+func FuzzParse(f *testing.F) {
+	f.Add([]byte(base))
+	data, _ := os.ReadFile("testdata/good.yaml")
+	f.Add(data)
+	f.Fuzz(func(t *testing.T, b []byte) {
+		s, err := Parse(b, "fuzz.yaml")
+		if err == nil && (s.Gain == 0 || s.Temp.Min > s.Temp.Max || len(s.Families) == 0) {
+			t.Errorf("accepted an inconsistent spec: %+v", s)
+		}
+	})
+}
