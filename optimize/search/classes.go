@@ -1,0 +1,367 @@
+package search
+
+import (
+	"fmt"
+	"math"
+	"sort"
+
+	"plumb/catalog"
+	"plumb/optimize/cost"
+)
+
+// space is the prepared search space of one problem: resistor groups,
+// amplifiers that pass the hard limits, and resistor configurations (a
+// grade group per position, or a network) with their value options.
+type space struct {
+	p       *Problem
+	rss     bool
+	k, w    float64 // target ratio Rf/Rg and quantization window
+	dT      float64
+	vG, vF  float64 // largest voltage across an Rg and an Rf position
+	perPos  int     // placements per stage of each of Rg and Rf (2 or 1)
+	combos  bool
+	groups  []*group
+	amps    []amp // op-amps
+	matched []amp
+	cfgs    []config
+	why     hardReason
+	nets    []*catalog.Network
+}
+
+// config is a resistor configuration: the grade groups at the Rg and Rf
+// positions (discrete) or one network with the element values used.
+type config struct {
+	fam    Family
+	ga, gb int // groups at Rg and Rf (discrete)
+	net    int // index into space.nets (network)
+	na, nb float64
+	g      grades
+	costLB float64 // cheapest completion: the least resistor cost of any option
+	opts   []option
+	built  bool
+}
+
+// option is one choice of values in a configuration, with its exact
+// resistor cost for the build (parts and assembly).
+type option struct {
+	k0, rp      float64
+	rg, rf, rf2 int32 // value indexes in the groups; rf2 = -1 without a combination
+	cost        float64
+	short       bool
+}
+
+func newSpace(parts *Parts, p *Problem, combos bool) (*space, error) {
+	s := &space{p: p, rss: p.Method != WorstCase, k: p.ratio(), w: p.window(), dT: p.deltaT(), combos: combos, perPos: 1}
+	if p.Circuit == Difference {
+		s.perPos = 2
+	}
+	fams := map[Family]bool{}
+	for _, f := range p.families() {
+		fams[f] = true
+	}
+	if len(fams) == 0 {
+		return nil, fmt.Errorf("%w: no family in %v can build a %s stage", ErrProblem, p.Families, p.Circuit)
+	}
+	s.ratingVoltages()
+	var err error
+	if fams[DiscreteDifference] || fams[DiscreteNonInverting] || fams[DiscreteInverting] {
+		if s.groups, err = buildGroups(parts, p); err != nil {
+			return nil, err
+		}
+	}
+	s.amps, s.matched, s.why = buildAmps(parts, p, fams)
+	if err := s.checkCurrency(parts); err != nil {
+		return nil, err
+	}
+	disc := fams[DiscreteDifference] || fams[DiscreteNonInverting] || fams[DiscreteInverting]
+	famDisc := map[Circuit]Family{Difference: DiscreteDifference, NonInverting: DiscreteNonInverting, Inverting: DiscreteInverting}[p.Circuit]
+	if disc {
+		for a, ga := range s.groups {
+			for b, gb := range s.groups {
+				c := config{fam: famDisc, ga: a, gb: b, net: -1,
+					g: discreteGrades(ga.grade.Tolerance, ga.grade.TCR, gb.grade.Tolerance, gb.grade.TCR)}
+				if c.costLB = s.discreteLB(ga, gb, a == b); !math.IsNaN(c.costLB) {
+					s.cfgs = append(s.cfgs, c)
+				}
+			}
+		}
+	}
+	if fams[NetworkDifference] && p.Circuit == Difference {
+		s.networkConfigs(parts)
+	}
+	return s, nil
+}
+
+// checkCurrency refuses a catalog whose usable parts are priced in more
+// than one currency when the build names none.
+func (s *space) checkCurrency(parts *Parts) error {
+	if s.p.Build.Currency != "" {
+		return nil
+	}
+	first, firstPart := "", ""
+	see := func(part string, o *catalog.Offer) error {
+		for _, b := range o.PriceBreaks {
+			if first == "" {
+				first, firstPart = b.Currency, part
+			} else if b.Currency != first {
+				return fmt.Errorf("%w: %s is priced in %q and %s in %q; set the build currency or keep one currency in the catalog", cost.ErrMixedCurrency, firstPart, first, part, b.Currency)
+			}
+		}
+		return nil
+	}
+	for _, g := range s.groups {
+		if err := see(g.parts[0], &g.offer); err != nil {
+			return err
+		}
+	}
+	for _, lst := range [][]amp{s.amps, s.matched} {
+		for i := range lst {
+			if err := see(lst[i].a.Part, &lst[i].a.Offer); err != nil {
+				return err
+			}
+		}
+	}
+	for i := range parts.Networks {
+		if err := see(parts.Networks[i].Part, &parts.Networks[i].Offer); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// ratingVoltages finds the largest voltage across the Rg and Rf positions
+// over the corners of the input and common-mode ranges, at the target ratio.
+func (s *space) ratingVoltages() {
+	p, k := s.p, s.k
+	for _, vcm := range []float64{p.CMMin, p.CMMax} {
+		for _, vd := range []float64{p.InMin, p.InMax} {
+			var vg, vf float64
+			switch p.Circuit {
+			case Difference:
+				vm, vp := vcm-vd/2, vcm+vd/2
+				pin := vp*k/(1+k) + p.Ref/(1+k)
+				out := k*vd + p.Ref
+				vg = math.Max(math.Abs(vm-pin), math.Abs(vp-pin))
+				vf = math.Max(math.Abs(pin-out), math.Abs(pin-p.Ref))
+			case NonInverting:
+				out := (1+k)*vd - k*p.Ref
+				vg, vf = math.Abs(vd-p.Ref), math.Abs(out-vd)
+			case Inverting:
+				out := p.Ref - k*(vd-p.Ref)
+				vg, vf = math.Abs(vd-p.Ref), math.Abs(out-p.Ref)
+			}
+			s.vG, s.vF = math.Max(s.vG, vg), math.Max(s.vF, vf)
+		}
+	}
+}
+
+// ratingOK checks a resistor of value r against voltage v: dissipation
+// v²/r within the derated power, and v within the rated voltage
+// U = sqrt(P·R), capped by the limiting element voltage (IEC 60115-1, from
+// memory). Unknown ratings (0) are not checked.
+func (s *space) ratingOK(powerW, maxV, r, v float64) bool {
+	if powerW > 0 {
+		if v*v/r > s.p.Derating*powerW {
+			return false
+		}
+		u := math.Sqrt(powerW * r)
+		if maxV > 0 {
+			u = math.Min(u, maxV)
+		}
+		return v <= u
+	}
+	return maxV == 0 || v <= maxV
+}
+
+func (s *space) zinOK(rg, rf float64) bool {
+	z := s.p.ZinMinOhm
+	switch s.p.Circuit {
+	case Difference:
+		return rg >= z && rg+rf >= z
+	case Inverting:
+		return rg >= z
+	}
+	return true
+}
+
+// assembly is the placement and line-item cost of a resistor set.
+func (s *space) assembly(placements, lines int) float64 {
+	b := &s.p.Build
+	return float64(placements*b.Quantity)*b.PerPlacement + float64(lines)*b.PerLineItem
+}
+
+// discreteLB is the least resistor cost any value option of (ga, gb) can
+// have: one line per position, or one shared line when both positions use
+// one group. Extra combination parts only add to it; NaN if unpriced.
+func (s *space) discreteLB(ga, gb *group, same bool) float64 {
+	n := s.perPos
+	lb := ga.extFrom(n) + gb.extFrom(n) + s.assembly(2*n, 2)
+	if same {
+		lb = math.Min(lb, ga.extFrom(2*n)+s.assembly(2*n, 1))
+	}
+	return lb
+}
+
+// extFrom is the least extended price of a line placed p or more times per
+// stage: with exact quantities a larger line can be cheaper (it reaches a
+// price break), so a lower bound must look at every larger count.
+func (g *group) extFrom(p int) float64 {
+	m := math.NaN()
+	for q := p; q <= maxPlace; q++ {
+		if e := g.ext[q]; !math.IsNaN(e) && (math.IsNaN(m) || e < m) {
+			m = e
+		}
+	}
+	return m
+}
+
+// networkConfigs adds one configuration per network and pair of element
+// values (two elements of each for the difference amplifier) whose ratio is
+// within the window of the target.
+func (s *space) networkConfigs(parts *Parts) {
+	p := s.p
+	for i := range parts.Networks {
+		n := &parts.Networks[i]
+		if p.Build.Currency != "" && !offerIn(&n.Offer, p.Build.Currency) {
+			continue
+		}
+		ext, _, short, err := p.Build.LineCost(&n.Offer, 1)
+		if err != nil {
+			continue
+		}
+		count := map[float64]int{}
+		for _, v := range n.Values {
+			count[v]++
+		}
+		var vs []float64
+		for v := range count {
+			vs = append(vs, v)
+		}
+		sort.Float64s(vs)
+		added := false
+		for _, a := range vs {
+			for _, b := range vs {
+				if (a == b && count[a] < 4) || count[a] < 2 || count[b] < 2 {
+					continue
+				}
+				k0 := b / a
+				if math.Abs(k0/s.k-1) > s.w || !s.zinOK(a, b) ||
+					!s.ratingOK(n.PowerW, n.MaxVoltageV, a, s.vG) || !s.ratingOK(n.PowerW, n.MaxVoltageV, b, s.vF) {
+					continue
+				}
+				if !added {
+					s.nets = append(s.nets, n)
+					added = true
+				}
+				c := config{fam: NetworkDifference, ga: -1, gb: -1, net: len(s.nets) - 1, na: a, nb: b,
+					g: networkGrades(n.RatioTolerance, n.TCRTracking)}
+				c.costLB = ext + s.assembly(1, 1)
+				c.opts = []option{{k0: k0, rp: a * b / (a + b), rg: -1, rf: -1, rf2: -1, cost: c.costLB, short: short}}
+				c.built = true
+				s.cfgs = append(s.cfgs, c)
+			}
+		}
+	}
+}
+
+// options returns the value options of a configuration, building them on
+// first use. For each Rg value of group ga, Rf is the value of gb just
+// below or above k·Rg; with combinations, also the series pair x + y of gb
+// values (x the largest value below the target, y the nearest to the rest)
+// when it is nearer the target than either single value. Options outside
+// the window, the impedance limit or the resistor ratings are dropped
+// before any error is computed.
+func (s *space) options(c *config) []option {
+	if c.built {
+		return c.opts
+	}
+	c.built = true
+	ga, gb := s.groups[c.ga], s.groups[c.gb]
+	for i, rg := range ga.values {
+		if !s.ratingOK(ga.grade.PowerW, ga.grade.MaxVoltageV, rg, s.vG) {
+			continue
+		}
+		target := s.k * rg
+		j := sort.SearchFloat64s(gb.values, target)
+		bestErr := math.Inf(1)
+		for _, jj := range [2]int{j - 1, j} {
+			if jj < 0 || jj >= len(gb.values) {
+				continue
+			}
+			rf := gb.values[jj]
+			e := math.Abs(rf/target - 1)
+			bestErr = math.Min(bestErr, e)
+			if e > s.w || !s.zinOK(rg, rf) || !s.ratingOK(gb.grade.PowerW, gb.grade.MaxVoltageV, rf, s.vF) {
+				continue
+			}
+			s.addOption(c, ga, gb, i, jj, -1, rg, rf)
+		}
+		if !s.combos || j == 0 || bestErr == 0 {
+			continue
+		}
+		x := gb.values[j-1]
+		rest := target - x
+		m := sort.SearchFloat64s(gb.values, rest)
+		for _, mm := range [2]int{m - 1, m} {
+			if mm < 0 || mm >= len(gb.values) {
+				continue
+			}
+			y := gb.values[mm]
+			rf := x + y
+			e := math.Abs(rf/target - 1)
+			if e >= bestErr || e > s.w || !s.zinOK(rg, rf) ||
+				!s.ratingOK(gb.grade.PowerW, gb.grade.MaxVoltageV, x, s.vF*x/rf) ||
+				!s.ratingOK(gb.grade.PowerW, gb.grade.MaxVoltageV, y, s.vF*y/rf) {
+				continue
+			}
+			s.addOption(c, ga, gb, i, j-1, mm, rg, rf)
+		}
+	}
+	sort.SliceStable(c.opts, func(i, j int) bool { return c.opts[i].cost < c.opts[j].cost })
+	return c.opts
+}
+
+// addOption prices a value choice, merging positions that use one part
+// number into one line, and appends it unless stock excludes it.
+func (s *space) addOption(c *config, ga, gb *group, i, j, j2 int, rg, rf float64) {
+	type line struct {
+		g     *group
+		idx   int
+		place int
+	}
+	var lines [3]line
+	n := 0
+	put := func(g *group, idx int) {
+		for k := 0; k < n; k++ {
+			if lines[k].g == g && lines[k].idx == idx {
+				lines[k].place += s.perPos
+				return
+			}
+		}
+		lines[n] = line{g, idx, s.perPos}
+		n++
+	}
+	put(ga, i)
+	put(gb, j)
+	if j2 >= 0 {
+		put(gb, j2)
+	}
+	o := option{k0: rf / rg, rp: rg * rf / (rg + rf), rg: int32(i), rf: int32(j), rf2: int32(j2)}
+	place := 0
+	for k := 0; k < n; k++ {
+		ln := lines[k]
+		o.cost += ln.g.ext[ln.place]
+		place += ln.place
+		if st := ln.g.stock[ln.idx]; st >= 0 && st < ln.g.qty[ln.place] && s.p.Build.Stock != cost.StockIgnore {
+			if s.p.Build.Stock == cost.StockExclude {
+				return
+			}
+			o.short = true
+		}
+	}
+	if math.IsNaN(o.cost) {
+		return
+	}
+	o.cost += s.assembly(place, n)
+	c.opts = append(c.opts, o)
+}

@@ -1,0 +1,31 @@
+// Package search finds the lowest-cost designs in a catalog that meet every
+// limit of a spec, ranks them, explains the ranking and lists near misses.
+//
+// The search space is a set of design classes (a circuit family, a resistor
+// grade group or a network per position, and an amplifier); within a class
+// only resistor values vary. Hard limits (supply span, pin headroom, output
+// swing, bandwidth, resistor ratings) remove candidates before any error
+// budget is computed. Solve walks the classes in order of a cost lower bound
+// (the cheapest completion of the class) and skips a class when a lower
+// bound on its errors, from the grades' tolerance and tempco alone, already
+// breaks a limit; it stops when the next lower bound exceeds the N-th best
+// cost found. Exhaustive walks every class and every value and is kept as the
+// oracle: both return the same designs.
+//
+// Error model used to screen (approximations from the domain notes and
+// S. Franco, "Design with Operational Amplifiers and Analog Integrated
+// Circuits", difference-amplifier chapter):
+//
+//	ratio k = Rf/Rg, each resistor within ±t: k in k0·[(1-tf)/(1+tg), (1+tf)/(1-tg)]
+//	difference amplifier: Acm = (k2-k1)/(1+k2), Adm = (k2(1+k1)/(1+k2)+k1)/2,
+//	  CMRR = Adm/|Acm| ≈ (1+G)/(4t) for four resistors of tolerance t,
+//	  (1+G)/(2r) on a network with ratio tolerance r;
+//	  1/CMRR_total = 1/CMRR_resistors + 1/CMRR_amplifier (worst case)
+//	finite open-loop gain: G/(1+NG/A)
+//	drift: ratio drift ≤ TCRf + TCRg (or the network's tracking), ppm/K
+//	output offset: NG·(Vos + Ios·Rf∥Rg + Ib·Rf∥Rg·2t) + NG·dVos/dT·ΔT
+//
+// Under root-sum-square, independent tolerances add in quadrature (a
+// tolerance is 3 sigma) and systematic terms (ratio quantization, NG/A) add
+// linearly. Monte Carlo specs are screened with the RSS figures.
+package search

@@ -1,0 +1,245 @@
+package search
+
+import (
+	"math"
+)
+
+// metrics are the screening figures of one design under the problem's
+// method (see the package comment for the equations).
+type metrics struct {
+	gain     float64 // closed-loop gain, V/V (negative for inverting)
+	gainErr  float64 // |gain error| at the reference temperature, fraction
+	totalErr float64 // |gain error| over the temperature range, fraction
+	drift    float64 // gain drift, ppm/K
+	cmrrDB   float64
+	offset   float64 // output offset over temperature, V
+	bw       float64 // closed-loop bandwidth, Hz
+}
+
+// grades holds the ratio figures of the resistors of a design class.
+type grades struct {
+	hi, lo   float64 // worst ratio multipliers: k in k0·[lo, hi]
+	sr       float64 // RSS ratio spread (3 sigma), fraction
+	cmRSS    float64 // RSS spread of the difference of the two ratios
+	drift    float64 // worst ratio drift, ppm/K
+	driftRSS float64
+	tmax     float64 // largest tolerance (bias-current mismatch)
+}
+
+// discreteGrades returns the ratio figures of Rf/Rg from two discrete
+// grades: each ratio lies within (1±tf)/(1∓tg), its drift within
+// TCRf + TCRg (two resistors of opposite sign, domain notes §6).
+func discreteGrades(tg, cg, tf, cf float64) grades {
+	return grades{
+		hi: (1 + tf) / (1 - tg), lo: (1 - tf) / (1 + tg),
+		sr: math.Hypot(tf, tg), cmRSS: math.Sqrt(2 * (tf*tf + tg*tg)),
+		drift: cf + cg, driftRSS: math.Hypot(cf, cg), tmax: math.Max(tf, tg),
+	}
+}
+
+// networkGrades returns the ratio figures of a matched network whose
+// element ratios hold within r and track within tr ppm/K.
+func networkGrades(r, tr float64) grades {
+	return grades{hi: 1 + r, lo: 1 - r, sr: r, cmRSS: math.Sqrt2 * r, drift: tr, driftRSS: tr, tmax: r}
+}
+
+// cmWorst returns the worst |Acm/Adm| of a difference amplifier whose two
+// ratios k1 = R2/R1 and k2 = R4/R3 each lie in k0·[lo, hi]:
+// Acm = (k2-k1)/(1+k2), Adm = (k2(1+k1)/(1+k2) + k1)/2 (domain notes §2).
+func cmWorst(k0, hi, lo float64) float64 {
+	f := func(k1, k2 float64) float64 {
+		acm := math.Abs(k2-k1) / (1 + k2)
+		adm := (k2*(1+k1)/(1+k2) + k1) / 2
+		return acm / adm
+	}
+	return math.Max(f(k0*lo, k0*hi), f(k0*hi, k0*lo))
+}
+
+// noiseFloorDB caps the CMRR of an ideal design, dB.
+const noiseFloorDB = 300
+
+func toDB(inv float64) float64 {
+	if inv <= 0 {
+		return noiseFloorDB
+	}
+	return math.Min(noiseFloorDB, -20*math.Log10(inv))
+}
+
+// gainSens is the sensitivity of the gain to the ratio: 1 for the
+// difference and inverting amplifiers, k/(1+k) for the non-inverting one.
+func (s *space) gainSens(k0 float64) float64 {
+	if s.p.Circuit == NonInverting {
+		return k0 / (1 + k0)
+	}
+	return 1
+}
+
+// eval computes the metrics of a design with ratio k0 = Rf/Rg, Rf∥Rg = rp,
+// resistor figures g and amplifier a.
+func (s *space) eval(g *grades, k0, rp float64, a *amp, m *metrics) {
+	p := s.p
+	am := a.a
+	ng := 1 + k0
+	f := 1.0
+	if am.AolVV > 0 {
+		f = 1 / (1 + ng/am.AolVV)
+	}
+	sg, ideal := s.gainSens(k0), k0
+	if p.Circuit == NonInverting {
+		ideal = 1 + k0
+	}
+	rho := ideal / p.Gain
+	dT := s.dT
+	sys := rho*f - 1
+	if s.rss {
+		m.drift = sg * g.driftRSS
+	} else {
+		m.drift = sg * g.drift
+	}
+	dr := m.drift * 1e-6 * dT
+	switch {
+	case p.CalGain:
+		m.gainErr = 0
+		m.totalErr = dr
+	case s.rss:
+		m.gainErr = math.Abs(sys) + sg*g.sr
+		m.totalErr = math.Abs(sys) + math.Hypot(sg*g.sr, dr)
+	default:
+		hiG := rho * (1 + sg*(g.hi-1)) * f
+		loG := rho * (1 + sg*(g.lo-1)) * f
+		m.gainErr = math.Max(math.Abs(hiG-1), math.Abs(loG-1))
+		m.totalErr = m.gainErr + dr
+	}
+	inv := a.ainv
+	if p.Circuit == Difference {
+		if s.rss {
+			inv += g.cmRSS / (1 + k0)
+		} else {
+			inv += cmWorst(k0, g.hi, g.lo)
+		}
+	}
+	m.cmrrDB = toDB(inv)
+	var bias float64
+	if p.Circuit == Difference {
+		bias = am.IosA*rp + am.IbA*rp*2*g.tmax
+	} else {
+		bias = am.IbA * rp
+	}
+	s.offset(m, ng, am.VosV, bias, am.VosDriftVK)
+	m.gain = ideal * f
+	if p.Circuit == Inverting {
+		m.gain = -m.gain
+	}
+	m.bw = am.GBWHz / ng
+}
+
+// offset fills the output offset: NG·(Vos + bias) initially plus
+// NG·dVos/dT·ΔT, added linearly (worst case) or in quadrature (RSS).
+func (s *space) offset(m *metrics, ng, vos, bias, vdrift float64) {
+	init := ng * (vos + bias)
+	if s.p.CalOffset {
+		init = 0
+	}
+	d := ng * vdrift * s.dT
+	if s.rss {
+		m.offset = math.Hypot(init, d)
+	} else {
+		m.offset = init + d
+	}
+}
+
+// evalMatched computes the metrics of an amplifier with matched resistors
+// inside at its gain a.k0: the maker's gain error and drift limits, its CMRR
+// and its offset at noise gain 1 + G.
+func (s *space) evalMatched(a *amp, m *metrics) {
+	p := s.p
+	am := a.a
+	ng := 1 + a.k0
+	rho := a.k0 / p.Gain
+	m.drift = am.GainDriftPPM
+	dr := m.drift * 1e-6 * s.dT
+	switch {
+	case p.CalGain:
+		m.gainErr, m.totalErr = 0, dr
+	case s.rss:
+		m.gainErr = math.Abs(rho-1) + am.GainErrorMax
+		m.totalErr = math.Abs(rho-1) + math.Hypot(am.GainErrorMax, dr)
+	default:
+		m.gainErr = math.Abs(rho-1) + am.GainErrorMax
+		m.totalErr = m.gainErr + dr
+	}
+	m.cmrrDB = toDB(a.ainv)
+	s.offset(m, ng, am.VosV, am.IosA*am.InternalOhm/2, am.VosDriftVK)
+	m.gain = a.k0
+	m.bw = am.GBWHz / ng
+}
+
+// pass reports whether metrics m meet every limit.
+func (s *space) pass(m *metrics) bool {
+	l := &s.p.Limits
+	return (l.GainError == 0 || m.gainErr <= l.GainError) &&
+		(l.TotalGainError == 0 || m.totalErr <= l.TotalGainError) &&
+		(l.DriftPPM == 0 || m.drift <= l.DriftPPM) &&
+		(l.CMRRdB == 0 || m.cmrrDB >= l.CMRRdB) &&
+		(l.OffsetV == 0 || m.offset <= l.OffsetV)
+}
+
+// boundSafety shrinks a lower bound by a few parts in 10^12 so that
+// rounding in the bound's arithmetic never prunes a design that passes.
+const boundSafety = 1 - 1e-12
+
+// bound fills m with optimistic metrics for every design of a class with
+// resistor figures g (nil: ideal resistors) and amplifier a (nil: ideal
+// amplifier), over every ratio k0 in k·[1-w, 1+w]:
+//
+//	gain error ≥ min over ρ of max|ρ·H - 1|, |ρ·L - 1| = (H-L)/(H+L),
+//	  H = 1 + s(hi-1), L = 1 + s(lo-1)  (exact minimum over the quantization)
+//	CMRR ≤ its value at the largest k0 (it rises with the gain)
+//	offset ≥ the amplifier's terms at the smallest noise gain
+//
+// so pass(bound) false proves that no design of the class passes.
+func (s *space) bound(g *grades, a *amp, m *metrics) {
+	p := s.p
+	kmin, kmax := s.k*(1-s.w), s.k*(1+s.w)
+	sg := s.gainSens(kmin)
+	var ge, sr, drift float64
+	if g != nil {
+		H, L := 1+sg*(g.hi-1), 1+sg*(g.lo-1)
+		ge = (H - L) / (H + L)
+		sr = sg * g.sr
+		drift = sg * g.drift
+		if s.rss {
+			ge, drift = sr, sg*g.driftRSS
+		}
+	}
+	dr := drift * 1e-6 * s.dT
+	switch {
+	case p.CalGain:
+		m.gainErr, m.totalErr = 0, dr
+	case s.rss:
+		m.gainErr, m.totalErr = ge, math.Hypot(sr, dr)
+	default:
+		m.gainErr, m.totalErr = ge, ge+dr
+	}
+	m.drift = drift
+	inv := 0.0
+	if a != nil {
+		inv = a.ainv
+	}
+	if g != nil && p.Circuit == Difference {
+		if s.rss {
+			inv += g.cmRSS / (1 + kmax)
+		} else {
+			inv += cmWorst(kmax, g.hi, g.lo)
+		}
+	}
+	m.cmrrDB = toDB(inv * boundSafety)
+	m.offset = 0
+	if a != nil {
+		s.offset(m, 1+kmin, a.a.VosV, 0, a.a.VosDriftVK)
+	}
+	m.gainErr *= boundSafety
+	m.totalErr *= boundSafety
+	m.drift *= boundSafety
+	m.offset *= boundSafety
+}
