@@ -76,14 +76,14 @@ func FormatOhms(v float64) string {
 	return sign(v) + place(d, e-3*p+1) + ohmPrefixes[p]
 }
 
-// siPrefixes are the prefixes Format uses, from 1e-12 by thousands.
-var siPrefixes = [...]string{"p", "n", "µ", "m", "", "k", "M", "G"}
+// siPrefixes are the prefixes Format uses, from 1e-15 by thousands.
+var siPrefixes = [...]string{"f", "p", "n", "µ", "m", "", "k", "M", "G"}
 
-// Format writes v in engineering notation with an SI prefix (p to G) and
+// Format writes v in engineering notation with an SI prefix (f to G) and
 // the unit, up to four significant figures without trailing zeros:
 // Format(2.5e-9, "V/√Hz") is "2.5 nV/√Hz", Format(1e-3, "V") is "1 mV".
 // With unit "" no space is written ("4.7k"). Values outside the prefix
-// range use an exponent ("1.5e-15 A").
+// range use an exponent ("1.5e-18 A").
 func Format(v float64, unit string) string {
 	sp := " "
 	if unit == "" {
@@ -96,11 +96,11 @@ func Format(v float64, unit string) string {
 		return strconv.FormatFloat(v, 'g', -1, 64) + sp + unit
 	}
 	d, e := digits(v, 4)
-	if e < -12 || e >= 12 {
+	if e < -15 || e >= 12 {
 		return sign(v) + place(d, 1) + "e" + strconv.Itoa(e) + sp + unit
 	}
 	p := floorDiv(e, 3)
-	return sign(v) + place(d, e-3*p+1) + sp + siPrefixes[p+4] + unit
+	return sign(v) + place(d, e-3*p+1) + sp + siPrefixes[p+5] + unit
 }
 
 func floorDiv(a, b int) int {

@@ -39,7 +39,7 @@ var (
 	}
 	powerKind = kind{
 		name: qPower, symbols: []symbol{{"W", 0}},
-		bare: true, prefixes: pMicro | pMilli | pKilo,
+		bare: true, prefixes: pGeneral,
 	}
 	voltageKind = kind{
 		name: qVoltage, symbols: []symbol{{"V", 0}},
@@ -47,7 +47,7 @@ var (
 	}
 	currentKind = kind{
 		name: qCurrent, symbols: []symbol{{"A", 0}},
-		prefixes: pFemto | pGeneral, negative: true, needUnit: "A, mA, µA, nA, pA",
+		prefixes: pGeneral, negative: true, needUnit: "A, mA, µA, nA, pA",
 	}
 	frequencyKind = kind{
 		name: qFrequency, symbols: []symbol{{"Hz", 0}},
@@ -59,7 +59,7 @@ var (
 	}
 	currentNoiseKind = kind{
 		name: qCurrentNoise, symbols: noiseSymbols("A"),
-		prefixes: pFemto | pGeneral, needUnit: "pA/√Hz or fA/√Hz",
+		prefixes: pGeneral, needUnit: "pA/√Hz or fA/√Hz",
 	}
 	dbKind = kind{
 		name: qDB, symbols: []symbol{{"dB", 0}},
@@ -387,7 +387,7 @@ func ParseSymmetric(s string, unit string) (lo, hi float64, err error) {
 	return -v, v, nil
 }
 
-// ParseQuantity reads a number with an optional SI prefix (p n u µ m k M G)
+// ParseQuantity reads a number with an optional SI prefix (f p n u µ m k M G)
 // and the unit symbol given (matched without regard to ASCII case and
 // spaces), or no unit: ParseQuantity("2.2 mA", "A") is 0.0022. With unit ""
 // only a number and an optional prefix are read.

@@ -244,7 +244,7 @@ const (
 	pMega
 	pGiga
 
-	pGeneral = pPico | pNano | pMicro | pMilli | pKilo | pMega | pGiga
+	pGeneral = pFemto | pPico | pNano | pMicro | pMilli | pKilo | pMega | pGiga
 )
 
 // readPrefix returns the decimal exponent and byte length of an accepted SI
