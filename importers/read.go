@@ -31,6 +31,9 @@ type Options struct {
 	// Progress, when set, is called with the number of rows read so far,
 	// every ProgressEvery rows and at the end of each file.
 	Progress func(rows int)
+	// BeforeWrite, when set, is called by Import with the number of parts
+	// once the files are read, just before the one write transaction.
+	BeforeWrite func(parts int)
 	// Preview is how many parsed rows per file the report keeps (default
 	// 5; negative keeps none).
 	Preview int
@@ -45,6 +48,13 @@ type Batch struct {
 	Resistors  []catalog.Resistor
 	Networks   []catalog.Network
 	Amplifiers []catalog.Amplifier
+
+	origin map[string]origin // kind|part -> where it was read
+}
+
+type origin struct {
+	file string
+	line int
 }
 
 // Len is the number of parts in the batch (series not counted).
@@ -64,15 +74,15 @@ func Read(ctx context.Context, files []string, opt Options) (*Batch, *Report, er
 	if opt.Preview == 0 {
 		opt.Preview = 5
 	}
-	b := &Batch{}
+	b := &Batch{origin: map[string]origin{}}
 	rep := &Report{}
-	seen := map[string]string{} // kind|part -> file:line of first sight
 	rows := 0
 	for _, name := range files {
-		if err := readFile(ctx, name, opt, b, rep, seen, &rows); err != nil {
+		if err := readFile(ctx, name, opt, b, rep, &rows); err != nil {
 			return nil, nil, err
 		}
 	}
+	sortProblems(rep.Problems)
 	rep.Summary.Rows = rows
 	rep.Summary.Parts = b.Len()
 	rep.Summary.Series = len(b.Series)
@@ -84,7 +94,7 @@ func Read(ctx context.Context, files []string, opt Options) (*Batch, *Report, er
 	return b, rep, nil
 }
 
-func readFile(ctx context.Context, name string, opt Options, b *Batch, rep *Report, seen map[string]string, rows *int) error {
+func readFile(ctx context.Context, name string, opt Options, b *Batch, rep *Report, rows *int) error {
 	f, err := os.Open(name)
 	if err != nil {
 		return &ParseError{File: name, Err: fmt.Errorf("opening: %w", err)}
@@ -117,7 +127,7 @@ func readFile(ctx context.Context, name string, opt Options, b *Batch, rep *Repo
 	if err != nil {
 		return err
 	}
-	if _, ok := cols[FieldPart]; !ok && m.Fixed[FieldPart] == "" {
+	if _, ok := cols[FieldPart]; !ok {
 		return &ParseError{File: name, Line: 1, Err: fmt.Errorf("%w: no column reads as the part number (header: %s); name it in a mapping under columns: part",
 			ErrMissingColumn, strings.Join(rd.Header(), ", "))}
 	}
@@ -193,12 +203,12 @@ func readFile(ctx context.Context, name string, opt Options, b *Batch, rep *Repo
 			continue
 		}
 		key := string(kind) + "|" + p.key()
-		if first, dup := seen[key]; dup {
+		if first, dup := b.origin[key]; dup {
 			rep.Problems = append(rep.Problems, newProblem(Skip, &ParseError{File: name, Line: line, Column: rr.header[cols[FieldPart]],
-				Raw: p.key(), Err: fmt.Errorf("%w: already read at %s; this row is left out", ErrDuplicate, first)}, p.key()))
+				Raw: p.key(), Err: fmt.Errorf("%w: already read at %s:%d; this row is left out", ErrDuplicate, first.file, first.line)}, p.key()))
 			continue
 		}
-		seen[key] = fmt.Sprintf("%s:%d", name, line)
+		b.origin[key] = origin{name, line}
 		if len(fr.Preview) < opt.Preview {
 			fr.Preview = append(fr.Preview, previewOf(p))
 		}

@@ -15,6 +15,8 @@ type Report struct {
 	Summary  Summary
 	Files    []FileReport
 	Problems []Problem
+	// Results are the store's per-part outcomes (empty for Read).
+	Results []catalog.UpsertResult
 }
 
 // Summary counts the rows and parts of an import.

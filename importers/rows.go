@@ -505,14 +505,19 @@ func (r *rowReader) amplifier(part string, o catalog.Offer) (*catalog.Amplifier,
 		if in, out, err = railToRail(s); err != nil {
 			return nil, r.skip(FieldRailToRail, s, err)
 		}
-	} else {
-		r.note(Doubt, FieldRailToRail, "", fmt.Errorf("rail-to-rail not stated: input range and output swing taken as %g V from each rail; check the datasheet", defaultHeadroomV))
 	}
+	var assumed []string
 	if !in {
 		a.CMNegV, a.CMPosV = defaultHeadroomV, defaultHeadroomV
+		assumed = append(assumed, "input common-mode range")
 	}
 	if !out {
 		a.SwingNegV, a.SwingPosV = defaultHeadroomV, defaultHeadroomV
+		assumed = append(assumed, "output swing")
+	}
+	if len(assumed) > 0 {
+		s, _ := r.raw(FieldRailToRail)
+		r.note(Doubt, FieldRailToRail, s, fmt.Errorf("not rail-to-rail or not stated: %s taken as %g V inside each rail; check the datasheet", strings.Join(assumed, " and "), defaultHeadroomV))
 	}
 	return a, nil
 }
