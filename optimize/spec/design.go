@@ -196,7 +196,12 @@ func ParseDesign(data []byte, name string) (*Design, error) {
 	for _, n := range names {
 		d.Positions = append(d.Positions, parsePosition(p, "positions."+n, n, r.Positions[n]))
 	}
-	d.Amplifier = parseAmp(p, &r.Amplifier, r.Family == Matched)
+	if r.Amplifier == (rawAmp{}) && r.Family == Divider && !r.Options.Buffer {
+		d.Amplifier.Resolved = true // an unbuffered divider has no amplifier
+		d.Amplifier.Amp.Part = ""
+	} else {
+		d.Amplifier = parseAmp(p, &r.Amplifier, r.Family == Matched)
+	}
 	if err := p.err(); err != nil {
 		return nil, err
 	}
@@ -389,7 +394,7 @@ func (d *Design) Resolve(lookup Lookup) error {
 		}
 	}
 	amp := d.Amplifier
-	if !amp.Resolved {
+	if !amp.Resolved && amp.Part != "" {
 		kind, v, err := lookup(amp.Part)
 		switch {
 		case err != nil:
