@@ -86,7 +86,7 @@ func noiseSymbols(u string) []symbol {
 // ParseResistance reads a resistance in ohm. It accepts a plain number
 // ("470", "0.05"), an SI prefix with or without a unit ("4.99k", "2.2 MOhm",
 // "10 kΩ", "10 kOhms", "50 mΩ"), the trade's letter-for-decimal-point form
-// ("4k99", "4K99", "10R", "0R1", "1M5") and a decimal comma where it is
+// ("4k99", "4K99", "10R", "0R1", "R47", "1M5") and a decimal comma where it is
 // unambiguous ("1,5k").
 //
 // Case of the prefix matters as in SI: "1m" and "1 mohm" are 1e-3 Ω,
@@ -101,8 +101,9 @@ func ParseResistance(s string) (float64, error) {
 	return resistanceKind.parse(s)
 }
 
-// readInfix reads the letter-for-decimal-point form "4k99", "0R1", "1M5"
-// (digits, one of R r m k K M G, digits, then optionally an ohm symbol).
+// readInfix reads the letter-for-decimal-point form "4k99", "0R1", "R47",
+// "1M5" (digits, one of R r m k K M G, digits, then optionally an ohm
+// symbol; the leading digits may be left out before R).
 // ok is false when s is not of that form.
 func readInfix(s string) (v float64, reason string, ok bool) {
 	t := trimSpaces(s)
@@ -115,7 +116,7 @@ func readInfix(s string) (v float64, reason string, ok bool) {
 	for i < len(t) && isDigit(t[i]) {
 		i++
 	}
-	if i == 0 || i+1 >= len(t) || !isDigit(t[i+1]) {
+	if i+1 >= len(t) || !isDigit(t[i+1]) || (i == 0 && t[0] != 'R' && t[0] != 'r') {
 		return 0, "", false
 	}
 	var exp int
