@@ -17,6 +17,7 @@ type space struct {
 	rss     bool
 	k, w    float64 // target ratio Rf/Rg and quantization window
 	dT      float64
+	tempK   float64 // hottest ambient, K (resistor noise)
 	vG, vF  float64 // largest voltage across an Rg and an Rf position
 	perPos  int     // placements per stage of each of Rg and Rf (2 or 1)
 	combos  bool
@@ -51,7 +52,7 @@ type option struct {
 }
 
 func newSpace(parts *Parts, p *Problem, combos bool) (*space, error) {
-	s := &space{p: p, rss: p.Method != WorstCase, k: p.ratio(), w: p.window(), dT: p.deltaT(), combos: combos, perPos: 1}
+	s := &space{p: p, rss: p.Method != WorstCase, k: p.ratio(), w: p.window(), dT: p.deltaT(), tempK: p.TMax + 273.15, combos: combos, perPos: 1}
 	if p.Circuit == Difference {
 		s.perPos = 2
 	}

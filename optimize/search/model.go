@@ -13,7 +13,21 @@ type metrics struct {
 	drift    float64 // gain drift, ppm/K
 	cmrrDB   float64
 	offset   float64 // output offset over temperature, V
+	offDrift float64 // output offset drift, V/K
+	noise    float64 // output noise density, V/√Hz
 	bw       float64 // closed-loop bandwidth, Hz
+}
+
+// boltzmann is k in J/K, exact since the 2019 SI.
+const boltzmann = 1.380649e-23
+
+// noiseDensity is the output noise density of a stage whose op-amp sees
+// Thevenin resistance rp at each of nIn inputs: NG·sqrt(en² + nIn·(4kT·rp +
+// (in·rp)²)). The resistor term 4kT·Rf∥Rg·NG² is exactly the output noise
+// of Rf and Rg (4kT·Rg·(Rf/Rg)² + 4kT·Rf).
+func noiseDensity(ng, en, in, rp, tempK float64, nIn int) float64 {
+	r := 4*boltzmann*tempK*rp + in*in*rp*rp
+	return ng * math.Sqrt(en*en+float64(nIn)*r)
 }
 
 // grades holds the ratio figures of the resistors of a design class.
@@ -126,6 +140,11 @@ func (s *space) eval(g *grades, k0, rp float64, a *amp, m *metrics) {
 		bias = am.IbA * rp
 	}
 	s.offset(m, ng, am.VosV, bias, am.VosDriftVK)
+	nIn := 1
+	if p.Circuit == Difference {
+		nIn = 2
+	}
+	m.noise = noiseDensity(ng, am.NoiseVHz, am.NoiseAHz, rp, s.tempK, nIn)
 	m.gain = ideal * f
 	if p.Circuit == Inverting {
 		m.gain = -m.gain
@@ -141,6 +160,7 @@ func (s *space) offset(m *metrics, ng, vos, bias, vdrift float64) {
 		init = 0
 	}
 	d := ng * vdrift * s.dT
+	m.offDrift = ng * vdrift
 	if s.rss {
 		m.offset = math.Hypot(init, d)
 	} else {
@@ -170,6 +190,7 @@ func (s *space) evalMatched(a *amp, m *metrics) {
 	}
 	m.cmrrDB = toDB(a.ainv)
 	s.offset(m, ng, am.VosV, am.IosA*am.InternalOhm/2, am.VosDriftVK)
+	m.noise = noiseDensity(ng, am.NoiseVHz, am.NoiseAHz, am.InternalOhm/2, s.tempK, 2)
 	m.gain = a.k0
 	m.bw = am.GBWHz / ng
 }
@@ -181,7 +202,9 @@ func (s *space) pass(m *metrics) bool {
 		(l.TotalGainError == 0 || m.totalErr <= l.TotalGainError) &&
 		(l.DriftPPM == 0 || m.drift <= l.DriftPPM) &&
 		(l.CMRRdB == 0 || m.cmrrDB >= l.CMRRdB) &&
-		(l.OffsetV == 0 || m.offset <= l.OffsetV)
+		(l.OffsetV == 0 || m.offset <= l.OffsetV) &&
+		(l.OffsetDriftVK == 0 || m.offDrift <= l.OffsetDriftVK) &&
+		(l.NoiseDensity == 0 || m.noise <= l.NoiseDensity)
 }
 
 // boundSafety shrinks a lower bound by a few parts in 10^12 so that
@@ -234,12 +257,15 @@ func (s *space) bound(g *grades, a *amp, m *metrics) {
 		}
 	}
 	m.cmrrDB = toDB(inv * boundSafety)
-	m.offset = 0
+	m.offset, m.offDrift, m.noise = 0, 0, 0
 	if a != nil {
 		s.offset(m, 1+kmin, a.a.VosV, 0, a.a.VosDriftVK)
+		m.noise = (1 + kmin) * a.a.NoiseVHz
 	}
 	m.gainErr *= boundSafety
 	m.totalErr *= boundSafety
 	m.drift *= boundSafety
 	m.offset *= boundSafety
+	m.offDrift *= boundSafety
+	m.noise *= boundSafety
 }

@@ -69,6 +69,10 @@ type Limits struct {
 	CMRRdB float64
 	// OffsetV is the largest output offset over temperature, V.
 	OffsetV float64
+	// OffsetDriftVK is the largest output offset drift, V/K.
+	OffsetDriftVK float64
+	// NoiseDensity is the largest output noise density, V/√Hz.
+	NoiseDensity float64
 }
 
 // Problem is the requirement the search works on: what the stage must do,

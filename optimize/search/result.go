@@ -1,0 +1,342 @@
+package search
+
+import (
+	"fmt"
+	"math"
+
+	"plumb/catalog"
+	"plumb/optimize/cost"
+	"plumb/optimize/spec"
+)
+
+// Options tune a search. The zero value is usable: five designs, no value
+// combinations, no progress reports.
+type Options struct {
+	// Top is the number of ranked designs (default 5).
+	Top int
+	// Combos allows two values in series at a feedback position where that
+	// brings the ratio nearer the target.
+	Combos bool
+	// Progress, when set, is called now and then with the classes visited
+	// and the classes in the search space.
+	Progress func(done, total int)
+}
+
+const defaultTop = 5
+
+// Result is the outcome of a search: the ranked designs and the near
+// misses, and when nothing passes, why. Its JSON field names are a
+// contract documented in the README.
+type Result struct {
+	Designs    []Design    `json:"designs"`
+	NearMisses []NearMiss  `json:"near_misses"`
+	Infeasible *Infeasible `json:"infeasible,omitempty"`
+	Method     string      `json:"method"`
+	Cautions   []string    `json:"cautions,omitempty"`
+	Notes      []string    `json:"notes,omitempty"`
+	Search     Stats       `json:"search"`
+
+	spec    *spec.Spec
+	designs []*spec.Design
+}
+
+// Stats count the work of the search.
+type Stats struct {
+	Classes     int `json:"classes"`      // design classes in the search space
+	Visited     int `json:"visited"`      // classes looked at
+	BoundPruned int `json:"bound_pruned"` // skipped by their error lower bound
+	Evaluated   int `json:"evaluated"`    // classes whose values were evaluated
+}
+
+// Design is one ranked design.
+type Design struct {
+	Rank      int     `json:"rank"`
+	Family    string  `json:"family"`
+	TotalCost float64 `json:"total_cost"` // the whole build
+	UnitCost  float64 `json:"unit_cost"`  // per stage built
+	Currency  string  `json:"currency"`
+	Parts     []Part  `json:"parts"`
+	Metrics   Metrics `json:"metrics"`
+	Limits    []Limit `json:"limits"`
+	// Binding is the limit with the least margin.
+	Binding string   `json:"binding"`
+	Reasons []string `json:"reasons"`
+	// ValueVariants counts the value choices of this class that pass.
+	ValueVariants int      `json:"value_variants"`
+	ShortStock    []string `json:"short_stock,omitempty"`
+}
+
+// Part is one position of a design.
+type Part struct {
+	Position string `json:"position"`
+	// Kind is resistor, network or amplifier.
+	Kind string `json:"kind"`
+	Part string `json:"part"`
+	// Quantity is the pieces per stage at this position.
+	Quantity int `json:"quantity"`
+	// Bought is the pieces of this part number bought for the build.
+	Bought    int     `json:"bought"`
+	UnitPrice float64 `json:"unit_price"`
+	ValueOhm  float64 `json:"value_ohm,omitempty"`
+	Tolerance float64 `json:"tolerance,omitempty"` // fraction
+	TCRppm    float64 `json:"tcr_ppm,omitempty"`
+	// Network elements only.
+	RatioTolerance float64 `json:"ratio_tolerance,omitempty"`
+	TCRTracking    float64 `json:"tcr_tracking_ppm,omitempty"`
+}
+
+// Metrics are a design's figures under the spec's method.
+type Metrics struct {
+	Gain float64 `json:"gain"`
+	// GainError is the worst |gain error| over tolerances and temperature.
+	GainError        float64 `json:"gain_error"`
+	GainErrorInitial float64 `json:"gain_error_initial"`
+	CMRRdB           float64 `json:"cmrr_db"`
+	DriftPPMPerK     float64 `json:"drift_ppm_per_k"`
+	OutputOffsetV    float64 `json:"output_offset_v"`
+	OffsetDriftVPerK float64 `json:"offset_drift_v_per_k"`
+	NoiseDensity     float64 `json:"noise_v_per_rthz"`
+	BandwidthHz      float64 `json:"bandwidth_hz"`
+}
+
+// Limit is one spec limit checked against a design. Margin is limit/value
+// for a maximum and value/limit for a minimum (linear ratio for dB), so
+// above 1 passes.
+type Limit struct {
+	Name   string  `json:"name"`
+	Value  float64 `json:"value"`
+	Limit  float64 `json:"limit"`
+	Margin float64 `json:"margin"`
+	Pass   bool    `json:"pass"`
+}
+
+// NearMiss is a design cheaper than the first rank that fails, with what
+// it fails and the cheapest single change that makes it pass.
+type NearMiss struct {
+	Design
+	Fails []Failure `json:"fails"`
+	Fix   *Fix      `json:"fix"`
+}
+
+// Failure is one limit a near miss breaks.
+type Failure struct {
+	Name  string  `json:"name"`
+	Value float64 `json:"value"`
+	Limit float64 `json:"limit"`
+	// By is how far past the limit, as a fraction of the limit (dB limits:
+	// in dB).
+	By   float64 `json:"by"`
+	Text string  `json:"text"`
+}
+
+// Fix is the cheapest single change that turns a near miss into a passing
+// design.
+type Fix struct {
+	// Kind is grade, part, network or amplifier.
+	Kind      string  `json:"kind"`
+	Change    string  `json:"change"`
+	Part      string  `json:"part"`
+	TotalCost float64 `json:"total_cost"`
+	ExtraCost float64 `json:"extra_cost"` // per stage
+}
+
+// Infeasible explains a spec no design meets.
+type Infeasible struct {
+	Message string            `json:"message"`
+	Limits  []InfeasibleLimit `json:"limits"`
+	// HardLimits counts the amplifiers removed per hard limit.
+	HardLimits map[string]int `json:"hard_limits,omitempty"`
+}
+
+// InfeasibleLimit is a limit no combination meets, the best value any
+// class could reach (an optimistic bound) and the class of part needed.
+type InfeasibleLimit struct {
+	Name   string  `json:"name"`
+	Limit  float64 `json:"limit"`
+	Best   float64 `json:"best"`
+	Needed string  `json:"needed"`
+}
+
+// Limit names, shared with package budget's result.
+const (
+	limGain        = "gain error"
+	limGainInitial = "gain error initial"
+	limCMRR        = "CMRR"
+	limDrift       = "gain drift"
+	limOffset      = "output offset"
+	limOffDrift    = "offset drift"
+	limNoise       = "noise density"
+	limBandwidth   = "bandwidth"
+)
+
+// limitSet checks metrics against the problem's limits.
+func (s *space) limitSet(m *metrics) []Limit {
+	l := &s.p.Limits
+	var out []Limit
+	max := func(name string, v, lim float64) {
+		if lim > 0 {
+			mg := math.Inf(1)
+			if v > 0 {
+				mg = lim / v
+			}
+			out = append(out, Limit{name, v, lim, mg, v <= lim})
+		}
+	}
+	max(limGain, m.totalErr, l.TotalGainError)
+	max(limGainInitial, m.gainErr, l.GainError)
+	if l.CMRRdB > 0 {
+		out = append(out, Limit{limCMRR, m.cmrrDB, l.CMRRdB, math.Pow(10, (m.cmrrDB-l.CMRRdB)/20), m.cmrrDB >= l.CMRRdB})
+	}
+	max(limDrift, m.drift, l.DriftPPM)
+	max(limOffset, m.offset, l.OffsetV)
+	max(limOffDrift, m.offDrift, l.OffsetDriftVK)
+	max(limNoise, m.noise, l.NoiseDensity)
+	if s.p.BandwidthHz > 0 {
+		out = append(out, Limit{limBandwidth, m.bw, s.p.BandwidthHz, m.bw / s.p.BandwidthHz, m.bw >= s.p.BandwidthHz})
+	}
+	return out
+}
+
+func binding(ls []Limit) (Limit, bool) {
+	best, ok := Limit{}, false
+	for _, l := range ls {
+		if !ok || l.Margin < best.Margin {
+			best, ok = l, true
+		}
+	}
+	return best, ok
+}
+
+func toMetrics(m *metrics) Metrics {
+	return Metrics{Gain: m.gain, GainError: m.totalErr, GainErrorInitial: m.gainErr, CMRRdB: m.cmrrDB,
+		DriftPPMPerK: m.drift, OutputOffsetV: m.offset, OffsetDriftVPerK: m.offDrift, NoiseDensity: m.noise, BandwidthHz: m.bw}
+}
+
+// famName is the spec family a search family builds.
+func famName(f Family) string {
+	switch f {
+	case MatchedDifference:
+		return spec.Matched
+	case DiscreteNonInverting:
+		return spec.NonInverting
+	case DiscreteInverting:
+		return spec.Inverting
+	}
+	return spec.Difference
+}
+
+// positions names the Rg and Rf positions of the circuit.
+func (s *space) positions() (rg, rf []string) {
+	if s.p.Circuit == Difference {
+		return []string{"R1", "R3"}, []string{"R2", "R4"}
+	}
+	return []string{"Rg"}, []string{"Rf"}
+}
+
+// describe builds the parts, the priced BOM and the spec design of a class
+// best.
+func (s *space) describe(b *classBest) (Design, *spec.Design, error) {
+	var uses []cost.Use
+	var parts []Part
+	sd := &spec.Design{}
+	var a *catalog.Amplifier
+	fam := MatchedDifference
+	if b.cfg >= 0 {
+		c := &s.cfgs[b.cfg]
+		fam = c.fam
+		a = s.amps[b.amp].a
+		rgPos, rfPos := s.positions()
+		switch c.fam {
+		case NetworkDifference:
+			n := s.nets[c.net]
+			uses = append(uses, cost.Use{Part: n.Part, Offer: &n.Offer, Placements: 1})
+			ia, ib := elementIndexes(n.Values, c.na), elementIndexes(n.Values, c.nb)
+			if c.na == c.nb {
+				ib = ia[2:]
+			}
+			names := []string{"R1", "R2", "R3", "R4"}
+			idx := []int{ia[0], ib[0], ia[1], ib[1]}
+			for i, name := range names {
+				v := n.Values[idx[i]]
+				parts = append(parts, Part{Position: name, Kind: string(catalog.KindNetwork), Part: n.Part, Quantity: 1, ValueOhm: v,
+					Tolerance: n.Tolerance, TCRppm: n.TCR, RatioTolerance: n.RatioTolerance, TCRTracking: n.TCRTracking})
+				sd.Positions = append(sd.Positions, spec.Position{Name: name, Elements: []spec.Element{{Network: n.Part, Index: idx[i] + 1, Ohm: v,
+					Tolerance: n.Tolerance, TCR: n.TCR * 1e-6, PowerW: n.PowerW, MaxVoltageV: n.MaxVoltageV,
+					RatioTolerance: n.RatioTolerance, TCRTracking: n.TCRTracking * 1e-6, Resolved: true}}})
+			}
+		default:
+			o := c.opts[b.opt]
+			ga, gb := s.groups[c.ga], s.groups[c.gb]
+			add := func(pos string, g *group, i int32) spec.Element {
+				gr := g.grade
+				uses = append(uses, cost.Use{Part: g.parts[i], Offer: s.offerWithStock(g, int(i)), Placements: 1})
+				parts = append(parts, Part{Position: pos, Kind: string(catalog.KindResistor), Part: g.parts[i], Quantity: 1,
+					ValueOhm: g.values[i], Tolerance: gr.Tolerance, TCRppm: gr.TCR})
+				return spec.Element{Part: g.parts[i], Ohm: g.values[i], Tolerance: gr.Tolerance, TCR: gr.TCR * 1e-6,
+					PowerW: gr.PowerW, MaxVoltageV: gr.MaxVoltageV, ThermalResistance: gr.ThermalResistance, LoadLife: gr.LoadLife, Resolved: true}
+			}
+			for _, pos := range rgPos {
+				sd.Positions = append(sd.Positions, spec.Position{Name: pos, Elements: []spec.Element{add(pos, ga, o.rg)}})
+			}
+			for _, pos := range rfPos {
+				if o.rf2 >= 0 {
+					e1, e2 := add(pos+".a", gb, o.rf), add(pos+".b", gb, o.rf2)
+					sd.Positions = append(sd.Positions, spec.Position{Name: pos, Pair: spec.Series, Elements: []spec.Element{e1, e2}})
+				} else {
+					sd.Positions = append(sd.Positions, spec.Position{Name: pos, Elements: []spec.Element{add(pos, gb, o.rf)}})
+				}
+			}
+		}
+	} else {
+		a = s.matched[b.amp].a
+		sd.Amplifier.Gain = s.matched[b.amp].k0
+	}
+	sortPositions(sd.Positions)
+	sd.Family = famName(fam)
+	sd.Amplifier.Part, sd.Amplifier.Amp, sd.Amplifier.Resolved = a.Part, *a, true
+	sd.Name = fmt.Sprintf("%s with %s", sd.Family, a.Part)
+	uses = append(uses, cost.Use{Part: a.Part, Offer: &a.Offer, Placements: 1})
+	parts = append(parts, Part{Position: "U1", Kind: string(catalog.KindAmplifier), Part: a.Part, Quantity: 1})
+	bd, err := cost.Price(s.p.Build, uses)
+	if err != nil {
+		return Design{}, nil, err
+	}
+	for i := range parts {
+		for _, ln := range bd.Lines {
+			if ln.Part == parts[i].Part {
+				parts[i].Bought, parts[i].UnitPrice = ln.Bought, ln.UnitPrice
+			}
+		}
+	}
+	d := Design{Family: string(fam), TotalCost: bd.Total, UnitCost: bd.PerUnit, Currency: bd.Currency, Parts: parts,
+		Metrics: toMetrics(&b.m), Limits: s.limitSet(&b.m), ShortStock: bd.Short}
+	if bl, ok := binding(d.Limits); ok {
+		d.Binding = bl.Name
+	}
+	return d, sd, nil
+}
+
+// offerWithStock is a group's price list with the stock of one value.
+func (s *space) offerWithStock(g *group, i int) *catalog.Offer {
+	o := g.offer
+	o.Stock = g.stock[i]
+	return &o
+}
+
+func elementIndexes(vs []float64, v float64) []int {
+	var out []int
+	for i, x := range vs {
+		if x == v {
+			out = append(out, i)
+		}
+	}
+	return out
+}
+
+func sortPositions(ps []spec.Position) {
+	for i := 1; i < len(ps); i++ {
+		for j := i; j > 0 && ps[j].Name < ps[j-1].Name; j-- {
+			ps[j], ps[j-1] = ps[j-1], ps[j]
+		}
+	}
+}

@@ -1,0 +1,551 @@
+package search
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+
+	"plumb/catalog"
+	"plumb/optimize/cost"
+	"plumb/optimize/spec"
+)
+
+// hazardCaution is printed when a spec's voltages reach hazardous levels.
+const hazardCaution = "voltages above 60 V DC (or 30 V rms) are treated as hazardous by IEC 61010-1 and IEC 62368-1: " +
+	"creepage, clearance, insulation and resistor voltage ratings must be checked against the applicable standard " +
+	"and local codes by a qualified, licensed person; this search is a selection aid, not a safety approval"
+
+// Solve finds the lowest-cost designs in snap that meet every limit of s
+// under its analysis method. When none does it returns a Result that says
+// why, together with an error wrapping ErrInfeasible.
+func Solve(ctx context.Context, snap *catalog.Snapshot, s *spec.Spec, opt Options) (*Result, error) {
+	p, err := FromSpec(s)
+	if err != nil {
+		return nil, err
+	}
+	for _, c := range s.Combos {
+		if c == spec.Series {
+			opt.Combos = true
+		}
+	}
+	parts := &Parts{Series: snap.ResistorSeries, Resistors: snap.Resistors, Networks: snap.Networks, Amplifiers: snap.Amplifiers}
+	r, err := SolveProblem(ctx, parts, p, opt)
+	if r != nil {
+		r.spec = s
+	}
+	return r, err
+}
+
+// FromSpec turns a spec into the search's requirement. Families the search
+// does not build yet are refused with a message naming them.
+func FromSpec(s *spec.Spec) (Problem, error) {
+	p := Problem{Gain: math.Abs(s.Gain), SupplyNeg: s.Supply.Min, SupplyPos: s.Supply.Max,
+		InMin: s.Input.Min, InMax: s.Input.Max, CMMin: s.CommonMode.Min, CMMax: s.CommonMode.Max,
+		TMin: s.Temp.Min, TMax: s.Temp.Max, TRef: s.TempRef, BandwidthHz: s.Limits.BandwidthHz,
+		ZinMinOhm: s.Limits.InputImpedance, RMinOhm: s.Impedance.Min, RMaxOhm: s.Impedance.Max,
+		Derating: s.Derating, Method: Method(s.Analysis.Method), CalGain: s.Calibrate.Gain, CalOffset: s.Calibrate.Offset,
+		Limits: Limits{TotalGainError: s.Limits.GainError, DriftPPM: s.Limits.GainDrift * 1e6, CMRRdB: s.Limits.CMRRdB,
+			OffsetV: s.Limits.OutputOffsetV, OffsetDriftVK: s.Limits.OffsetDriftVK, NoiseDensity: s.Limits.NoiseDensity},
+		Build: cost.Build{Quantity: s.Build.Quantity, Attrition: s.Build.Attrition, PerPlacement: s.Build.PlacementCost,
+			PerLineItem: s.Build.LineItemCost, Currency: s.Build.Currency}}
+	if s.Reference != nil {
+		p.Ref = s.Reference.V
+	}
+	switch s.Build.Stock {
+	case "exclude":
+		p.Build.Stock = cost.StockExclude
+	case "", "flag":
+		p.Build.Stock = cost.StockFlag
+	default:
+		return p, fmt.Errorf("%w: build.stock %q: use exclude or flag", ErrProblem, s.Build.Stock)
+	}
+	var unsupported []string
+	for _, f := range s.Families {
+		switch f {
+		case spec.Difference:
+			p.Circuit = Difference
+			p.Families = append(p.Families, DiscreteDifference, NetworkDifference)
+		case spec.Matched:
+			p.Circuit = Difference
+			p.Families = append(p.Families, MatchedDifference)
+		case spec.NonInverting:
+			p.Circuit, p.Families = NonInverting, append(p.Families, DiscreteNonInverting)
+		case spec.Inverting:
+			p.Circuit, p.Families = Inverting, append(p.Families, DiscreteInverting)
+		default:
+			unsupported = append(unsupported, f)
+		}
+	}
+	if len(unsupported) > 0 || len(p.Families) == 0 {
+		return p, fmt.Errorf("%w: families %v: the search builds %s, %s (alone or with %s), %s and %s stages; keep one circuit per spec",
+			ErrProblem, s.Families, spec.Difference, spec.Matched, spec.Difference, spec.NonInverting, spec.Inverting)
+	}
+	if p.Circuit == NonInverting || p.Circuit == Inverting {
+		if len(s.Families) > 1 {
+			return p, fmt.Errorf("%w: families %v: an inverting or non-inverting stage is searched alone", ErrProblem, s.Families)
+		}
+	}
+	return p, nil
+}
+
+// SolveProblem is Solve on a requirement and catalog parts already in the
+// search's terms.
+func SolveProblem(ctx context.Context, parts *Parts, p Problem, opt Options) (*Result, error) {
+	if err := p.normalize(); err != nil {
+		return nil, err
+	}
+	if opt.Top <= 0 {
+		opt.Top = defaultTop
+	}
+	sp, err := newSpace(parts, &p, opt.Combos)
+	if err != nil {
+		return nil, err
+	}
+	top, st, err := sp.branchAndBound(ctx, opt.Top, opt.Progress)
+	if err != nil {
+		return nil, fmt.Errorf("search: %w", err)
+	}
+	if opt.Progress != nil {
+		opt.Progress(st.classes, st.classes)
+	}
+	res := &Result{Method: string(p.Method), Designs: []Design{}, NearMisses: []NearMiss{},
+		Search: Stats{Classes: st.classes, Visited: st.visited, BoundPruned: st.boundPruned, Evaluated: st.evaluated}}
+	if p.hazardous() {
+		res.Cautions = append(res.Cautions, hazardCaution)
+	}
+	if p.Method == MonteCarlo {
+		res.Notes = append(res.Notes, "the search screens Monte Carlo specs with root-sum-square figures; run the budget of a design for its yield")
+	}
+	for i := range top {
+		d, sd, err := sp.describe(&top[i])
+		if err != nil {
+			return nil, err
+		}
+		d.Rank = i + 1
+		d.ValueVariants = sp.variants(&top[i])
+		d.Reasons = sp.reasons(&top[i], &d, res.Designs)
+		res.Designs = append(res.Designs, d)
+		res.designs = append(res.designs, sd)
+	}
+	limit := math.Inf(1)
+	if len(top) > 0 {
+		limit = top[0].cost
+	}
+	sort.SliceStable(st.failed, func(i, j int) bool { return st.failed[i].less(&st.failed[j]) })
+	for _, f := range st.failed {
+		if f.cost >= limit || len(res.NearMisses) >= maxNearMisses {
+			break
+		}
+		nm, err := sp.nearMiss(&f)
+		if err != nil {
+			return nil, err
+		}
+		res.NearMisses = append(res.NearMisses, nm)
+	}
+	if len(top) == 0 {
+		res.Infeasible = sp.infeasible()
+		return res, ErrInfeasible
+	}
+	return res, nil
+}
+
+// maxNearMisses is the number of near misses reported.
+const maxNearMisses = 3
+
+// DesignN returns design n (1-based) as a spec design, with every figure
+// filled in, for the full budget.
+func (r *Result) DesignN(n int) (*spec.Design, error) {
+	if n < 1 || n > len(r.designs) {
+		return nil, fmt.Errorf("%w: design %d: the result holds designs 1 to %d", ErrProblem, n, len(r.designs))
+	}
+	return r.designs[n-1], nil
+}
+
+// limitText formats a limit's value with its unit.
+func limitText(l Limit) string {
+	switch l.Name {
+	case limGain, limGainInitial:
+		return fmt.Sprintf("%.3g %%", 100*l.Value)
+	case limCMRR:
+		return fmt.Sprintf("%.1f dB", l.Value)
+	case limDrift:
+		return fmt.Sprintf("%.3g ppm/K", l.Value)
+	case limOffset:
+		return fmt.Sprintf("%.3g V", l.Value)
+	case limOffDrift:
+		return fmt.Sprintf("%.3g V/K", l.Value)
+	case limNoise:
+		return fmt.Sprintf("%.3g V/√Hz", l.Value)
+	case limBandwidth:
+		return fmt.Sprintf("%.3g Hz", l.Value)
+	}
+	return fmt.Sprintf("%g", l.Value)
+}
+
+func findLimit(ls []Limit, name string) (Limit, bool) {
+	for _, l := range ls {
+		if l.Name == name {
+			return l, true
+		}
+	}
+	return Limit{}, false
+}
+
+// reasons explains a ranked design: its limits, the binding limit and its
+// dominant contributor, and why it ranks below the design above.
+func (s *space) reasons(b *classBest, d *Design, above []Design) []string {
+	var out []string
+	var sum []string
+	for _, l := range d.Limits {
+		sum = append(sum, fmt.Sprintf("%s %s (limit %s, margin %.2fx)", l.Name, limitText(l), limitText(Limit{Name: l.Name, Value: l.Limit}), l.Margin))
+	}
+	if len(sum) > 0 {
+		out = append(out, "meets every limit: "+strings.Join(sum, "; "))
+	} else {
+		out = append(out, "the spec sets no error limit; only the hard limits apply")
+	}
+	if bl, ok := binding(d.Limits); ok {
+		name, share := s.dominant(b, bl.Name)
+		out = append(out, fmt.Sprintf("binding limit: %s at margin %.2fx, dominated by %s (%.0f %% of it)", bl.Name, bl.Margin, name, 100*share))
+	}
+	if len(above) == 0 {
+		out = append(out, fmt.Sprintf("cheapest passing design of the %d classes in the search space", s.classCount()))
+	} else {
+		prev := above[len(above)-1]
+		diff := d.UnitCost - prev.UnitCost
+		txt := fmt.Sprintf("costs %.4g more per stage than rank %d", diff, prev.Rank)
+		if diff == 0 {
+			txt = fmt.Sprintf("costs the same as rank %d and follows it in catalog order", prev.Rank)
+		}
+		if bl, ok := findLimit(d.Limits, prev.Binding); ok {
+			if pl, ok := findLimit(prev.Limits, prev.Binding); ok {
+				txt += fmt.Sprintf("; %s margin %.2fx instead of %.2fx", bl.Name, bl.Margin, pl.Margin)
+			}
+		}
+		out = append(out, txt+"; "+s.difference(&prev, d))
+	}
+	if d.ValueVariants > 1 {
+		out = append(out, fmt.Sprintf("%d value variants of this grade also pass", d.ValueVariants-1))
+	}
+	if len(d.ShortStock) > 0 {
+		out = append(out, "stock is short for "+strings.Join(d.ShortStock, ", "))
+	}
+	return out
+}
+
+func (s *space) classCount() int { return len(s.cfgs)*len(s.amps) + len(s.matched) }
+
+// difference says in words how design d differs from design prev.
+func (s *space) difference(prev, d *Design) string {
+	if prev.Family != d.Family {
+		return fmt.Sprintf("%s instead of %s", d.Family, prev.Family)
+	}
+	var ch []string
+	pp := map[string]Part{}
+	for _, p := range prev.Parts {
+		pp[p.Position] = p
+	}
+	for _, p := range d.Parts {
+		q, ok := pp[p.Position]
+		switch {
+		case !ok:
+			ch = append(ch, p.Position+" added")
+		case p.Kind == string(catalog.KindAmplifier) && p.Part != q.Part:
+			ch = append(ch, fmt.Sprintf("amplifier %s instead of %s", p.Part, q.Part))
+		case p.Kind != string(catalog.KindAmplifier) && (p.Tolerance != q.Tolerance || p.TCRppm != q.TCRppm || p.RatioTolerance != q.RatioTolerance):
+			ch = append(ch, fmt.Sprintf("%s %s instead of %s", p.Position, gradeText(p), gradeText(q)))
+		case p.Kind != string(catalog.KindAmplifier) && p.Part != q.Part && p.ValueOhm == q.ValueOhm:
+			ch = append(ch, fmt.Sprintf("%s from %s (same grade, other price list)", p.Position, p.Part))
+		}
+	}
+	if len(ch) == 0 {
+		return "same grades, other price list"
+	}
+	return strings.Join(ch, ", ")
+}
+
+func gradeText(p Part) string {
+	if p.Kind == string(catalog.KindNetwork) {
+		return fmt.Sprintf("network %.3g %% ratio %.3g ppm/K tracking", 100*p.RatioTolerance, p.TCRTracking)
+	}
+	return fmt.Sprintf("%.3g %% %.3g ppm/K", 100*p.Tolerance, p.TCRppm)
+}
+
+// dominant returns the largest contributor to a limit and its share of the
+// sum of contributors (worst case: |v|/Σ|v|; RSS: v²/Σv²).
+func (s *space) dominant(b *classBest, limit string) (string, float64) {
+	type term struct {
+		name string
+		v    float64
+	}
+	var ts []term
+	p := s.p
+	if b.cfg < 0 {
+		a := s.matched[b.amp]
+		am := a.a
+		switch limit {
+		case limGain, limGainInitial, limDrift:
+			ts = []term{{"the amplifier's gain error", am.GainErrorMax}, {"the amplifier's gain drift", am.GainDriftPPM * 1e-6 * s.dT}, {"gain quantization", math.Abs(a.k0/p.Gain - 1)}}
+			if limit == limDrift {
+				ts = ts[1:2]
+			}
+		case limCMRR:
+			ts = []term{{"the amplifier's CMRR", a.ainv}}
+		default:
+			ts = []term{{"the amplifier", 1}}
+		}
+	} else {
+		c := &s.cfgs[b.cfg]
+		a := &s.amps[b.amp]
+		o := c.opts[b.opt]
+		sg := s.gainSens(o.k0)
+		ng := 1 + o.k0
+		var rg, rf string
+		if c.fam != NetworkDifference {
+			ga, gb := s.groups[c.ga].grade, s.groups[c.gb].grade
+			rg, rf = fmt.Sprintf("Rg tolerance %.3g %%", 100*ga.Tolerance), fmt.Sprintf("Rf tolerance %.3g %%", 100*gb.Tolerance)
+		}
+		switch limit {
+		case limGain, limGainInitial:
+			q := math.Abs(s.idealGain(o.k0)/p.Gain - 1)
+			aol := 0.0
+			if a.a.AolVV > 0 {
+				aol = ng / a.a.AolVV
+			}
+			ts = []term{{"ratio quantization", q}, {"open-loop gain", aol}}
+			if c.fam == NetworkDifference {
+				ts = append(ts, term{"the network's ratio tolerance", sg * c.g.sr})
+			} else {
+				ts = append(ts, term{rg, sg * s.groups[c.ga].grade.Tolerance}, term{rf, sg * s.groups[c.gb].grade.Tolerance})
+			}
+			if limit == limGain {
+				ts = append(ts, term{"resistor tempco over temperature", c.g.drift * sg * 1e-6 * s.dT})
+			}
+			if p.CalGain {
+				ts = []term{{"resistor tempco over temperature", c.g.drift * sg * 1e-6 * s.dT}}
+			}
+		case limDrift:
+			if c.fam == NetworkDifference {
+				ts = []term{{"the network's tracking tempco", c.g.drift}}
+			} else {
+				ts = []term{{"Rg tempco", s.groups[c.ga].grade.TCR}, {"Rf tempco", s.groups[c.gb].grade.TCR}}
+			}
+		case limCMRR:
+			cm := cmWorst(o.k0, c.g.hi, c.g.lo)
+			if s.rss {
+				cm = c.g.cmRSS / (1 + o.k0)
+			}
+			ts = []term{{"resistor matching", cm}, {"the amplifier's CMRR", a.ainv}}
+		case limOffset, limOffDrift:
+			ts = []term{{"amplifier offset voltage", ng * a.a.VosV}, {"amplifier offset drift", ng * a.a.VosDriftVK * s.dT},
+				{"bias and offset currents in the resistors", ng * (a.a.IosA + a.a.IbA) * o.rp}}
+			if limit == limOffDrift {
+				ts = ts[1:2]
+			}
+		case limNoise:
+			ts = []term{{"amplifier voltage noise", a.a.NoiseVHz * a.a.NoiseVHz}, {"resistor thermal noise", 4 * boltzmann * s.tempK * o.rp},
+				{"amplifier current noise in the resistors", math.Pow(a.a.NoiseAHz*o.rp, 2)}}
+		default:
+			ts = []term{{"the amplifier's gain-bandwidth", 1}}
+		}
+	}
+	var sum float64
+	best := term{"", -1}
+	for _, t := range ts {
+		v := math.Abs(t.v)
+		if s.rss && limit != limNoise {
+			v *= v
+		}
+		sum += v
+		if v > best.v {
+			best = term{t.name, v}
+		}
+	}
+	if sum == 0 {
+		return best.name, 1
+	}
+	return best.name, best.v / sum
+}
+
+func (s *space) idealGain(k0 float64) float64 {
+	if s.p.Circuit == NonInverting {
+		return 1 + k0
+	}
+	return k0
+}
+
+// nearMiss describes a failing class and searches for the cheapest single
+// change that makes it pass: another amplifier, another grade group at the
+// Rg or the Rf positions, or another network.
+func (s *space) nearMiss(f *classBest) (NearMiss, error) {
+	d, _, err := s.describe(f)
+	if err != nil {
+		return NearMiss{}, err
+	}
+	nm := NearMiss{Design: d}
+	for _, l := range d.Limits {
+		if l.Pass {
+			continue
+		}
+		by := l.Value/l.Limit - 1
+		if l.Name == limCMRR {
+			by = l.Limit - l.Value
+		} else if l.Name == limBandwidth {
+			by = 1 - l.Value/l.Limit
+		}
+		txt := fmt.Sprintf("%s %s against a limit of %s", l.Name, limitText(l), limitText(Limit{Name: l.Name, Value: l.Limit}))
+		nm.Fails = append(nm.Fails, Failure{Name: l.Name, Value: l.Value, Limit: l.Limit, By: by, Text: txt})
+	}
+	nm.Reasons = []string{fmt.Sprintf("cheaper than rank 1 but fails %d limit(s)", len(nm.Fails))}
+	best := classBest{cost: math.Inf(1)}
+	kind, change, part := "", "", ""
+	try := func(b classBest, ok bool, k, ch, pt string) {
+		if ok && b.pass && b.less(&best) {
+			best, kind, change, part = b, k, ch, pt
+		}
+	}
+	if f.cfg < 0 {
+		for mi := range s.matched {
+			if mi != f.amp {
+				a := s.matched[mi].a
+				try(s.evalMatchedClass(mi), true, "amplifier", "matched amplifier "+a.Part+" instead of "+s.matched[f.amp].a.Part, a.Part)
+			}
+		}
+	} else {
+		c := &s.cfgs[f.cfg]
+		for ai := range s.amps {
+			if ai != f.amp {
+				b, ok := s.evalClass(f.cfg, ai)
+				try(b, ok, "amplifier", "amplifier "+s.amps[ai].a.Part+" instead of "+s.amps[f.amp].a.Part, s.amps[ai].a.Part)
+			}
+		}
+		rgPos, rfPos := s.positions()
+		for ci := range s.cfgs {
+			o := &s.cfgs[ci]
+			if ci == f.cfg || o.fam != c.fam {
+				continue
+			}
+			switch {
+			case c.fam == NetworkDifference:
+				b, ok := s.evalClass(ci, f.amp)
+				try(b, ok, "network", "network "+s.nets[o.net].Part+" instead of "+s.nets[c.net].Part, s.nets[o.net].Part)
+			case o.gb == c.gb:
+				b, ok := s.evalClass(ci, f.amp)
+				try(b, ok, "grade", fmt.Sprintf("%s: %s instead of %s", strings.Join(rgPos, ", "), groupText(s.groups[o.ga]), groupText(s.groups[c.ga])), "")
+			case o.ga == c.ga:
+				b, ok := s.evalClass(ci, f.amp)
+				try(b, ok, "grade", fmt.Sprintf("%s: %s instead of %s", strings.Join(rfPos, ", "), groupText(s.groups[o.gb]), groupText(s.groups[c.gb])), "")
+			}
+		}
+	}
+	if kind != "" {
+		bd, _, err := s.describe(&best)
+		if err != nil {
+			return NearMiss{}, err
+		}
+		if part == "" {
+			for _, p := range bd.Parts {
+				if p.Kind == string(catalog.KindResistor) {
+					part = p.Part
+				}
+			}
+		}
+		nm.Fix = &Fix{Kind: kind, Change: change, Part: part, TotalCost: bd.TotalCost, ExtraCost: bd.UnitCost - d.UnitCost}
+		nm.Reasons = append(nm.Reasons, fmt.Sprintf("cheapest single change that passes: %s (%.4g more per stage)", change, nm.Fix.ExtraCost))
+	} else {
+		nm.Reasons = append(nm.Reasons, "no single change of grade, part or amplifier makes it pass")
+	}
+	return nm, nil
+}
+
+func groupText(g *group) string {
+	return fmt.Sprintf("%s %s %.3g %% %.3g ppm/K", g.grade.Technology, g.grade.Package, 100*g.grade.Tolerance, g.grade.TCR)
+}
+
+// infeasible says which limits no class can meet, the best value any
+// class could reach (optimistic bounds, best resistors with the best
+// amplifier for that limit) and the class of part that would be needed.
+func (s *space) infeasible() *Infeasible {
+	inf := &Infeasible{Message: ErrInfeasible.Error()}
+	if len(s.why) > 0 {
+		inf.HardLimits = map[string]int(s.why)
+	}
+	if len(s.amps)+len(s.matched) == 0 {
+		inf.Message += "; no amplifier in the catalog passes the hard limits (supply, headroom, swing, bandwidth)"
+		return inf
+	}
+	if len(s.cfgs) == 0 && len(s.matched) == 0 {
+		inf.Message += "; no resistor values or network in the catalog give the ratio inside the impedance window and ratings"
+		return inf
+	}
+	best := worstMetrics()
+	var m metrics
+	take := func(m *metrics) { merge(&best, m) }
+	// Per metric, the best resistors and the best amplifier for it.
+	var bestAmp, bestCfg metrics = worstMetrics(), worstMetrics()
+	for ai := range s.amps {
+		s.bound(nil, &s.amps[ai], &m)
+		merge(&bestAmp, &m)
+	}
+	for ci := range s.cfgs {
+		s.bound(&s.cfgs[ci].g, nil, &m)
+		merge(&bestCfg, &m)
+	}
+	if len(s.amps) > 0 && len(s.cfgs) > 0 {
+		combined := metrics{gainErr: bestCfg.gainErr, totalErr: bestCfg.totalErr, drift: bestCfg.drift,
+			cmrrDB: toDB(dbInv(bestCfg.cmrrDB) + dbInv(bestAmp.cmrrDB)), offset: bestAmp.offset, offDrift: bestAmp.offDrift, noise: bestAmp.noise}
+		take(&combined)
+	}
+	for mi := range s.matched {
+		s.evalMatched(&s.matched[mi], &m)
+		take(&m)
+	}
+	l := &s.p.Limits
+	G := s.p.Gain
+	add := func(name string, lim, bestV float64, fails bool, needed string) {
+		if lim > 0 && fails {
+			inf.Limits = append(inf.Limits, InfeasibleLimit{Name: name, Limit: lim, Best: bestV, Needed: needed})
+		}
+	}
+	dT := math.Max(s.dT, 1)
+	add(limGain, l.TotalGainError, best.totalErr, best.totalErr > l.TotalGainError,
+		fmt.Sprintf("resistors of tolerance <= %.3g %% with tempco <= %.3g ppm/K, or gain calibration", 100*l.TotalGainError/4, 1e6*l.TotalGainError/(4*dT)))
+	add(limGainInitial, l.GainError, best.gainErr, best.gainErr > l.GainError,
+		fmt.Sprintf("resistors of tolerance <= %.3g %%, or gain calibration", 100*l.GainError/2))
+	cmNeed := (1 + G) * dbInv(l.CMRRdB)
+	add(limCMRR, l.CMRRdB, best.cmrrDB, best.cmrrDB < l.CMRRdB,
+		fmt.Sprintf("a network with ratio tolerance <= %.3g %% (or four resistors of tolerance <= %.3g %%) and an amplifier with CMRR above %.0f dB", 100*cmNeed/2, 100*cmNeed/4, l.CMRRdB))
+	add(limDrift, l.DriftPPM, best.drift, best.drift > l.DriftPPM,
+		fmt.Sprintf("resistors with tempco <= %.3g ppm/K each, or a network with tracking <= %.3g ppm/K", l.DriftPPM/2, l.DriftPPM))
+	ng := 1 + s.k*(1-s.w)
+	add(limOffset, l.OffsetV, best.offset, best.offset > l.OffsetV,
+		fmt.Sprintf("an amplifier with offset <= %.3g V and offset drift <= %.3g V/K, or offset calibration", l.OffsetV/ng/2, l.OffsetV/ng/2/dT))
+	add(limOffDrift, l.OffsetDriftVK, best.offDrift, best.offDrift > l.OffsetDriftVK,
+		fmt.Sprintf("an amplifier with offset drift <= %.3g V/K", l.OffsetDriftVK/ng))
+	add(limNoise, l.NoiseDensity, best.noise, best.noise > l.NoiseDensity,
+		fmt.Sprintf("an amplifier with voltage noise <= %.3g V/√Hz and lower resistor values", l.NoiseDensity/ng))
+	if len(inf.Limits) == 0 {
+		inf.Message += "; each limit can be met by some part, but no single design meets them all at once"
+	}
+	return inf
+}
+
+func worstMetrics() metrics {
+	return metrics{gainErr: math.Inf(1), totalErr: math.Inf(1), drift: math.Inf(1), cmrrDB: math.Inf(-1), offset: math.Inf(1), offDrift: math.Inf(1), noise: math.Inf(1)}
+}
+
+func merge(b, m *metrics) {
+	b.gainErr = math.Min(b.gainErr, m.gainErr)
+	b.totalErr = math.Min(b.totalErr, m.totalErr)
+	b.drift = math.Min(b.drift, m.drift)
+	b.cmrrDB = math.Max(b.cmrrDB, m.cmrrDB)
+	b.offset = math.Min(b.offset, m.offset)
+	b.offDrift = math.Min(b.offDrift, m.offDrift)
+	b.noise = math.Min(b.noise, m.noise)
+}
+
+// IsInfeasible reports whether err says that no design meets the spec.
+func IsInfeasible(err error) bool { return errors.Is(err, ErrInfeasible) }
