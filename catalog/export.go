@@ -1,0 +1,98 @@
+package catalog
+
+import (
+	"context"
+	"encoding/csv"
+	"fmt"
+	"io"
+	"reflect"
+	"strconv"
+	"strings"
+)
+
+// writeCSV writes the parts of one kind: a header of the JSON field names,
+// then one row per part in part-number order. Figures are SI (ohm, fraction,
+// ppm/K, W, V, A, Hz); a network's values and an amplifier's gains are
+// joined with ";"; price breaks are packed as FormatBreaks writes them.
+func (s *Store) writeCSV(ctx context.Context, w io.Writer, kind Kind) error {
+	var t *table
+	for _, tt := range allTables {
+		if tt.kind == kind {
+			t = tt
+		}
+	}
+	if t == nil {
+		return fmt.Errorf("catalog: CSV export of %s: unknown kind %q: use series, resistor, network or amplifier", s.name(), kind)
+	}
+	snap, err := s.load(ctx, Filter{Kind: kind})
+	if err != nil {
+		return err
+	}
+	var parts reflect.Value
+	switch kind {
+	case KindSeries:
+		parts = reflect.ValueOf(snap.ResistorSeries)
+	case KindResistor:
+		parts = reflect.ValueOf(snap.Resistors)
+	case KindNetwork:
+		parts = reflect.ValueOf(snap.Networks)
+	default:
+		parts = reflect.ValueOf(snap.Amplifiers)
+	}
+	cw := csv.NewWriter(w)
+	header := make([]string, 0, len(t.cols)+2)
+	for _, c := range t.cols {
+		header = append(header, c.name)
+	}
+	if t.child != nil {
+		header = append(header, t.child.name)
+	}
+	header = append(header, "price_breaks")
+	if err := cw.Write(header); err != nil {
+		return fmt.Errorf("catalog: CSV export: %w", err)
+	}
+	record := make([]string, len(header))
+	for i := range parts.Len() {
+		v := parts.Index(i)
+		for j := range t.cols {
+			c := &t.cols[j]
+			switch x := columnValue(c, v).(type) {
+			case float64:
+				record[j] = formatFloat(x)
+			case int64:
+				record[j] = strconv.FormatInt(x, 10)
+			case string:
+				record[j] = x
+			}
+		}
+		k := len(t.cols)
+		if t.child != nil {
+			xs := v.FieldByIndex(t.child.field).Interface().([]float64)
+			s := make([]string, len(xs))
+			for n, x := range xs {
+				s[n] = formatFloat(x)
+			}
+			record[k] = strings.Join(s, ";")
+			k++
+		}
+		record[k] = FormatBreaks(v.FieldByIndex(t.breaks).Interface().([]PriceBreak))
+		if err := cw.Write(record); err != nil {
+			return fmt.Errorf("catalog: CSV export: %w", err)
+		}
+	}
+	cw.Flush()
+	if err := cw.Error(); err != nil {
+		return fmt.Errorf("catalog: CSV export: %w", err)
+	}
+	return nil
+}
+
+// writeJSON writes the whole catalog as snapshot JSON, parts ordered by
+// part number within each kind.
+func (s *Store) writeJSON(ctx context.Context, w io.Writer) error {
+	snap, err := s.Snapshot(ctx)
+	if err != nil {
+		return err
+	}
+	return WriteSnapshotJSON(w, snap)
+}

@@ -1,0 +1,176 @@
+package catalog
+
+// ApplicationID is the SQLite application_id (PRAGMA application_id) that
+// marks a file as a plumb catalog: the ASCII bytes "PLMB" as a big-endian
+// 32-bit integer.
+const ApplicationID = 0x504C4D42
+
+// migrations are the forward schema steps; step i (0-based) takes a catalog
+// from user_version i to i+1 and runs in one transaction with the
+// user_version bump. Never edit a released step: append a new one.
+//
+// Units: every figure is SI. Ohm for resistance, a fraction for
+// tolerances (0.001 = 0.1 %), ppm/K for tempcos, W, V, A, Hz, V/√Hz, A/√Hz,
+// K/W; times are RFC 3339 text in UTC.
+var migrations = []string{
+	// 1: the first schema.
+	`
+-- A resistor series: one product line offering every value of an IEC 60063
+-- series over [min_ohm, max_ohm] at one grade and one price list.
+CREATE TABLE resistor_series (
+	id            INTEGER PRIMARY KEY,
+	part          TEXT NOT NULL UNIQUE,  -- order-code stem; value part = part || '-' || value code
+	maker         TEXT NOT NULL,
+	line          TEXT NOT NULL DEFAULT '',
+	e_series      TEXT NOT NULL,         -- E24, E96, E192 ...
+	min_ohm       REAL NOT NULL,         -- ohm
+	max_ohm       REAL NOT NULL,         -- ohm
+	technology    TEXT NOT NULL,         -- thick-film, thin-film, foil, ...
+	package       TEXT NOT NULL,         -- case code, e.g. 0603
+	tolerance     REAL NOT NULL,         -- fraction (0.001 = 0.1 %)
+	tcr_ppm       REAL NOT NULL,         -- ±ppm/K about 25 °C
+	power_w       REAL NOT NULL,         -- W at rated ambient
+	max_voltage_v REAL NOT NULL,         -- V, limiting element voltage (0 = unknown)
+	thermal_resistance_k_per_w REAL NOT NULL DEFAULT 0, -- K/W to ambient (0 = unknown)
+	load_life     REAL NOT NULL DEFAULT 0, -- fraction over rated life (0 = unknown)
+	min_order     INTEGER NOT NULL DEFAULT 0, -- pieces (0 or 1 = none)
+	stock         INTEGER NOT NULL DEFAULT -1, -- pieces per value (-1 = unknown)
+	source        TEXT NOT NULL DEFAULT '',
+	imported_at   TEXT NOT NULL DEFAULT '' -- RFC 3339, UTC
+);
+
+-- An individual resistor: one part number, one value.
+CREATE TABLE resistors (
+	id            INTEGER PRIMARY KEY,
+	part          TEXT NOT NULL UNIQUE,
+	maker         TEXT NOT NULL,
+	line          TEXT NOT NULL DEFAULT '',
+	value_ohm     REAL NOT NULL,         -- ohm
+	series_part   TEXT NOT NULL DEFAULT '', -- stem of the series it belongs to, if any
+	technology    TEXT NOT NULL,
+	package       TEXT NOT NULL,
+	tolerance     REAL NOT NULL,         -- fraction
+	tcr_ppm       REAL NOT NULL,         -- ±ppm/K
+	power_w       REAL NOT NULL,         -- W
+	max_voltage_v REAL NOT NULL,         -- V (0 = unknown)
+	thermal_resistance_k_per_w REAL NOT NULL DEFAULT 0, -- K/W (0 = unknown)
+	load_life     REAL NOT NULL DEFAULT 0, -- fraction (0 = unknown)
+	min_order     INTEGER NOT NULL DEFAULT 0, -- pieces
+	stock         INTEGER NOT NULL DEFAULT -1, -- pieces (-1 = unknown)
+	source        TEXT NOT NULL DEFAULT '',
+	imported_at   TEXT NOT NULL DEFAULT ''
+);
+CREATE INDEX resistors_value ON resistors(value_ohm);
+
+-- A matched resistor network; its element values are in network_elements.
+CREATE TABLE networks (
+	id               INTEGER PRIMARY KEY,
+	part             TEXT NOT NULL UNIQUE,
+	maker            TEXT NOT NULL,
+	technology       TEXT NOT NULL,
+	package          TEXT NOT NULL,
+	tolerance        REAL NOT NULL,      -- absolute, fraction
+	ratio_tolerance  REAL NOT NULL,      -- any element to any other, fraction
+	tcr_ppm          REAL NOT NULL,      -- absolute, ±ppm/K
+	tcr_tracking_ppm REAL NOT NULL,      -- ratio drift, ±ppm/K
+	power_w          REAL NOT NULL,      -- W per element
+	max_voltage_v    REAL NOT NULL,      -- V per element (0 = unknown)
+	min_order        INTEGER NOT NULL DEFAULT 0, -- pieces
+	stock            INTEGER NOT NULL DEFAULT -1, -- pieces (-1 = unknown)
+	source           TEXT NOT NULL DEFAULT '',
+	imported_at      TEXT NOT NULL DEFAULT ''
+);
+
+CREATE TABLE network_elements (
+	network_id INTEGER NOT NULL REFERENCES networks(id) ON DELETE CASCADE,
+	position   INTEGER NOT NULL,         -- pin order, from 0
+	value_ohm  REAL NOT NULL,            -- ohm
+	PRIMARY KEY (network_id, position)
+) WITHOUT ROWID;
+
+-- Op-amps and amplifiers with matched resistors inside. Ranges are relative
+-- to the rails: inputs from V- + cm_neg_v to V+ - cm_pos_v (negative
+-- cm_pos_v = inputs work above V+), output from V- + swing_neg_v to
+-- V+ - swing_pos_v.
+CREATE TABLE amplifiers (
+	id                INTEGER PRIMARY KEY,
+	part              TEXT NOT NULL UNIQUE,
+	maker             TEXT NOT NULL,
+	type              TEXT NOT NULL CHECK (type IN ('opamp', 'matched')),
+	channels          INTEGER NOT NULL,
+	package           TEXT NOT NULL,
+	supply_min_v      REAL NOT NULL,     -- V, total span V+ - V-
+	supply_max_v      REAL NOT NULL,     -- V, total span
+	cm_neg_v          REAL NOT NULL,     -- V above V-
+	cm_pos_v          REAL NOT NULL,     -- V below V+ (negative = above V+)
+	swing_neg_v       REAL NOT NULL,     -- V above V-
+	swing_pos_v       REAL NOT NULL,     -- V below V+
+	vos_v             REAL NOT NULL,     -- V, max input offset
+	vos_drift_v_per_k REAL NOT NULL,     -- V/K, max offset drift
+	ib_a              REAL NOT NULL,     -- A, max input bias current
+	ios_a             REAL NOT NULL,     -- A, max input offset current
+	aol_v_per_v       REAL NOT NULL,     -- V/V, min open-loop gain
+	cmrr_db           REAL NOT NULL,     -- dB, min CMRR
+	gbw_hz            REAL NOT NULL,     -- Hz
+	slew_v_per_s      REAL NOT NULL,     -- V/s
+	noise_v_per_rthz  REAL NOT NULL,     -- V/√Hz
+	noise_a_per_rthz  REAL NOT NULL,     -- A/√Hz
+	iq_a              REAL NOT NULL,     -- A per channel
+	typical_only      TEXT NOT NULL DEFAULT '', -- comma-separated JSON names of typical-only figures
+	gain_error_max    REAL NOT NULL DEFAULT 0, -- fraction (matched only)
+	gain_drift_ppm    REAL NOT NULL DEFAULT 0, -- ±ppm/K (matched only)
+	in_neg_v          REAL NOT NULL DEFAULT 0, -- V above V- (matched only; negative = below V-)
+	in_pos_v          REAL NOT NULL DEFAULT 0, -- V below V+ (matched only; negative = above V+)
+	internal_ohm      REAL NOT NULL DEFAULT 0, -- ohm (matched only)
+	min_order         INTEGER NOT NULL DEFAULT 0, -- pieces
+	stock             INTEGER NOT NULL DEFAULT -1, -- pieces (-1 = unknown)
+	source            TEXT NOT NULL DEFAULT '',
+	imported_at       TEXT NOT NULL DEFAULT ''
+);
+
+-- The fixed gains of a matched amplifier, in the maker's order.
+CREATE TABLE amplifier_gains (
+	amplifier_id INTEGER NOT NULL REFERENCES amplifiers(id) ON DELETE CASCADE,
+	position     INTEGER NOT NULL,       -- from 0
+	gain         REAL NOT NULL,          -- V/V
+	PRIMARY KEY (amplifier_id, position)
+) WITHOUT ROWID;
+
+-- Price lists. part_id is the id in the table of the kind
+-- ('series' -> resistor_series, 'resistor', 'network', 'amplifier').
+CREATE TABLE price_breaks (
+	kind       TEXT NOT NULL CHECK (kind IN ('series', 'resistor', 'network', 'amplifier')),
+	part_id    INTEGER NOT NULL,
+	min_qty    INTEGER NOT NULL CHECK (min_qty >= 1), -- pieces
+	unit_price REAL NOT NULL CHECK (unit_price >= 0), -- currency units per piece
+	currency   TEXT NOT NULL,            -- ISO 4217 code
+	PRIMARY KEY (kind, part_id, min_qty)
+) WITHOUT ROWID;
+
+CREATE TRIGGER resistor_series_breaks AFTER DELETE ON resistor_series
+	BEGIN DELETE FROM price_breaks WHERE kind = 'series' AND part_id = OLD.id; END;
+CREATE TRIGGER resistors_breaks AFTER DELETE ON resistors
+	BEGIN DELETE FROM price_breaks WHERE kind = 'resistor' AND part_id = OLD.id; END;
+CREATE TRIGGER networks_breaks AFTER DELETE ON networks
+	BEGIN DELETE FROM price_breaks WHERE kind = 'network' AND part_id = OLD.id; END;
+CREATE TRIGGER amplifiers_breaks AFTER DELETE ON amplifiers
+	BEGIN DELETE FROM price_breaks WHERE kind = 'amplifier' AND part_id = OLD.id; END;
+
+-- Where each part's figures came from: one row per import that added,
+-- updated or disagreed with a part.
+CREATE TABLE part_history (
+	id          INTEGER PRIMARY KEY,
+	part        TEXT NOT NULL,
+	kind        TEXT NOT NULL,
+	source      TEXT NOT NULL,
+	imported_at TEXT NOT NULL,           -- RFC 3339, UTC
+	outcome     TEXT NOT NULL,           -- added, updated, spec-changed
+	figures     TEXT NOT NULL,           -- the part as imported, snapshot JSON
+	changes     TEXT NOT NULL DEFAULT '' -- newline-separated "field old -> new"
+);
+CREATE INDEX part_history_part ON part_history(part, kind);
+`,
+}
+
+// SchemaVersionCurrent is the schema version this code writes and knows.
+var SchemaVersionCurrent = len(migrations)

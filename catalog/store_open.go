@@ -1,0 +1,235 @@
+package catalog
+
+import (
+	"bytes"
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/jmoiron/sqlx"
+	_ "modernc.org/sqlite" // registers the "sqlite" driver
+)
+
+// BusyTimeout is how long a writer waits for another writer's lock before
+// giving up with "database is locked".
+const BusyTimeout = 10 * time.Second
+
+// maxFileConns bounds the connection pool of a file catalog; SQLite allows
+// one writer at a time, readers run beside it in WAL mode.
+const maxFileConns = 4
+
+// sqliteMagic starts every SQLite 3 database file.
+var sqliteMagic = []byte("SQLite format 3\x00")
+
+// dsn returns the modernc.org/sqlite data source name for path: writes in
+// BEGIN IMMEDIATE transactions (so concurrent writers queue on the busy
+// timeout instead of failing on lock upgrade), foreign keys on.
+func dsn(path string) string {
+	return path + "?_pragma=busy_timeout(" + strconv.Itoa(int(BusyTimeout/time.Millisecond)) + ")" +
+		"&_pragma=foreign_keys(1)&_pragma=synchronous(NORMAL)&_txlock=immediate"
+}
+
+func checkPath(path string) error {
+	if path == "" {
+		return errors.New("catalog: empty catalog path: give a file name such as parts.db")
+	}
+	if strings.ContainsAny(path, "?#") {
+		return fmt.Errorf("catalog: path %q contains ? or #: choose a file name without them", path)
+	}
+	return nil
+}
+
+func create(path string, force bool) (*Store, error) {
+	if err := checkPath(path); err != nil {
+		return nil, err
+	}
+	if fi, err := os.Stat(path); err == nil {
+		if fi.IsDir() {
+			return nil, fmt.Errorf("%w: %s is a directory: give a file name for the catalog", ErrExists, path)
+		}
+		if !force {
+			return nil, fmt.Errorf("%w: %s already exists: open it, or use --force to replace it with an empty catalog", ErrExists, path)
+		}
+	}
+	// Build the new catalog beside the target and rename it into place, so
+	// a failure leaves any existing file untouched.
+	tmp := fmt.Sprintf("%s.new-%d-%d", path, os.Getpid(), time.Now().UnixNano())
+	f, err := os.OpenFile(tmp, os.O_CREATE|os.O_EXCL|os.O_WRONLY, 0o644)
+	if err != nil {
+		return nil, fmt.Errorf("catalog: cannot create catalog %s: %w: check that directory %s exists and is writable",
+			path, err, filepath.Dir(path))
+	}
+	f.Close()
+	cleanup := func() {
+		for _, p := range []string{tmp, tmp + "-wal", tmp + "-shm", tmp + "-journal"} {
+			os.Remove(p)
+		}
+	}
+	db, err := sqlx.Open("sqlite", dsn(tmp))
+	if err != nil {
+		cleanup()
+		return nil, fmt.Errorf("catalog: create %s: %w", path, err)
+	}
+	err = initSchema(db, path)
+	if cerr := db.Close(); err == nil && cerr != nil {
+		err = fmt.Errorf("catalog: create %s: %w", path, cerr)
+	}
+	if err != nil {
+		cleanup()
+		return nil, err
+	}
+	for _, p := range []string{path + "-wal", path + "-shm"} {
+		os.Remove(p)
+	}
+	if err := os.Rename(tmp, path); err != nil {
+		cleanup()
+		return nil, fmt.Errorf("catalog: cannot create catalog %s: %w: check that the directory is writable", path, err)
+	}
+	return open(path)
+}
+
+// initSchema marks a new, empty database as a plumb catalog and applies
+// every migration.
+func initSchema(db *sqlx.DB, path string) error {
+	ctx := context.Background()
+	if _, err := db.ExecContext(ctx, "PRAGMA journal_mode=WAL"); err != nil {
+		return fmt.Errorf("catalog: create %s: set WAL mode: %w", path, err)
+	}
+	if _, err := db.ExecContext(ctx, "PRAGMA application_id="+strconv.Itoa(ApplicationID)); err != nil {
+		return fmt.Errorf("catalog: create %s: %w", path, err)
+	}
+	return migrate(ctx, db, path, 0)
+}
+
+func open(path string) (*Store, error) {
+	if err := checkPath(path); err != nil {
+		return nil, err
+	}
+	fi, err := os.Stat(path)
+	if errors.Is(err, os.ErrNotExist) {
+		return nil, fmt.Errorf("%w: %s does not exist: run plumb catalog init %s to create it", ErrMissing, path, path)
+	}
+	if err != nil {
+		return nil, fmt.Errorf("catalog: open %s: %w", path, err)
+	}
+	if fi.IsDir() {
+		return nil, fmt.Errorf("%w: %s is a directory: give the catalog file", ErrNotCatalog, path)
+	}
+	if err := checkMagic(path); err != nil {
+		return nil, err
+	}
+	db, err := sqlx.Open("sqlite", dsn(path))
+	if err != nil {
+		return nil, fmt.Errorf("catalog: open %s: %w", path, err)
+	}
+	db.SetMaxOpenConns(maxFileConns)
+	version, err := checkCatalog(db, path)
+	if err != nil {
+		db.Close()
+		return nil, err
+	}
+	return &Store{db: db, path: path, version: version}, nil
+}
+
+// checkMagic refuses a file that is not SQLite before the driver touches it.
+func checkMagic(path string) error {
+	f, err := os.Open(path)
+	if err != nil {
+		return fmt.Errorf("catalog: open %s: %w", path, err)
+	}
+	defer f.Close()
+	head := make([]byte, len(sqliteMagic))
+	if _, err := io.ReadFull(f, head); err != nil || !bytes.Equal(head, sqliteMagic) {
+		return fmt.Errorf("%w: %s is not a plumb catalog (not an SQLite file): check the path, or run plumb catalog init PATH for a new one", ErrNotCatalog, path)
+	}
+	return nil
+}
+
+// checkCatalog checks the application_id and schema version, migrating an
+// older catalog forward, and returns the version.
+func checkCatalog(db *sqlx.DB, path string) (int, error) {
+	ctx := context.Background()
+	var appID, version int
+	if err := db.GetContext(ctx, &appID, "PRAGMA application_id"); err != nil {
+		return 0, fmt.Errorf("%w: %s is not a plumb catalog (%v)", ErrNotCatalog, path, err)
+	}
+	if appID != ApplicationID {
+		return 0, fmt.Errorf("%w: %s is not a plumb catalog (an SQLite file of another program): check the path", ErrNotCatalog, path)
+	}
+	if err := db.GetContext(ctx, &version, "PRAGMA user_version"); err != nil {
+		return 0, fmt.Errorf("catalog: open %s: read schema version: %w", path, err)
+	}
+	if version > SchemaVersionCurrent {
+		return 0, fmt.Errorf("%w: catalog %s has schema version %d, this plumb knows up to %d: upgrade plumb",
+			ErrNewerSchema, path, version, SchemaVersionCurrent)
+	}
+	if version < SchemaVersionCurrent {
+		if err := migrate(ctx, db, path, version); err != nil {
+			return 0, err
+		}
+	}
+	return SchemaVersionCurrent, nil
+}
+
+// migrate applies migrations[from:], each step in its own BEGIN IMMEDIATE
+// transaction with the user_version bump. The version is re-read inside the
+// transaction, so two processes opening an old catalog at once apply each
+// step once.
+func migrate(ctx context.Context, db *sqlx.DB, path string, from int) error {
+	for step := from; step < len(migrations); step++ {
+		tx, err := db.BeginTxx(ctx, nil)
+		if err != nil {
+			return fmt.Errorf("catalog: migrate %s to schema %d: %w", path, step+1, err)
+		}
+		var v int
+		if err := tx.GetContext(ctx, &v, "PRAGMA user_version"); err != nil {
+			tx.Rollback()
+			return fmt.Errorf("catalog: migrate %s: read schema version: %w", path, err)
+		}
+		if v > step {
+			tx.Rollback()
+			step = v - 1
+			continue
+		}
+		if _, err := tx.ExecContext(ctx, migrations[step]); err != nil {
+			tx.Rollback()
+			return fmt.Errorf("catalog: migrate %s to schema %d: %w", path, step+1, err)
+		}
+		if _, err := tx.ExecContext(ctx, "PRAGMA user_version="+strconv.Itoa(step+1)); err != nil {
+			tx.Rollback()
+			return fmt.Errorf("catalog: migrate %s to schema %d: %w", path, step+1, err)
+		}
+		if err := tx.Commit(); err != nil {
+			return fmt.Errorf("catalog: migrate %s to schema %d: %w", path, step+1, err)
+		}
+	}
+	return nil
+}
+
+func openMemory() (*Store, error) {
+	db, err := sqlx.Open("sqlite", ":memory:?_pragma=foreign_keys(1)&_txlock=immediate")
+	if err != nil {
+		return nil, fmt.Errorf("catalog: in-memory catalog: %w", err)
+	}
+	// Every connection to :memory: is a separate database: keep exactly one.
+	db.SetMaxOpenConns(1)
+	db.SetMaxIdleConns(1)
+	db.SetConnMaxLifetime(0)
+	db.SetConnMaxIdleTime(0)
+	ctx := context.Background()
+	if _, err := db.ExecContext(ctx, "PRAGMA application_id="+strconv.Itoa(ApplicationID)); err != nil {
+		db.Close()
+		return nil, fmt.Errorf("catalog: in-memory catalog: %w", err)
+	}
+	if err := migrate(ctx, db, ":memory:", 0); err != nil {
+		db.Close()
+		return nil, err
+	}
+	return &Store{db: db, version: SchemaVersionCurrent}, nil
+}

@@ -1,0 +1,409 @@
+package catalog
+
+import (
+	"context"
+	"database/sql"
+	"encoding/json"
+	"fmt"
+	"reflect"
+	"slices"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/jmoiron/sqlx"
+)
+
+// maxBulkArgs bounds the parameters of one multi-row INSERT, well below
+// SQLite's limit of 32766 host parameters.
+const maxBulkArgs = 8000
+
+// bulk inserts rows into one table with multi-row INSERT statements: far
+// fewer statement executions than one INSERT per row, which is what makes a
+// batch of 100,000 parts with their price breaks and history fast.
+type bulk struct {
+	ctx   context.Context
+	tx    *sqlx.Tx
+	head  string // "INSERT INTO t (a, b) VALUES "
+	row   string // "(?, ?)"
+	width int
+	chunk int // rows per full statement
+	n     int // rows pending
+	args  []any
+	full  *sql.Stmt
+}
+
+func newBulk(ctx context.Context, tx *sqlx.Tx, table string, cols []string) *bulk {
+	return &bulk{
+		ctx: ctx, tx: tx,
+		head:  "INSERT INTO " + table + " (" + strings.Join(cols, ", ") + ") VALUES ",
+		row:   "(" + strings.TrimSuffix(strings.Repeat("?, ", len(cols)), ", ") + ")",
+		width: len(cols),
+		chunk: max(1, maxBulkArgs/len(cols)),
+	}
+}
+
+func (b *bulk) statement(rows int) string {
+	var sb strings.Builder
+	sb.Grow(len(b.head) + rows*(len(b.row)+2))
+	sb.WriteString(b.head)
+	for i := range rows {
+		if i > 0 {
+			sb.WriteString(", ")
+		}
+		sb.WriteString(b.row)
+	}
+	return sb.String()
+}
+
+// done marks the values appended to b.args since the last call as one row,
+// and writes a full chunk.
+func (b *bulk) done() error {
+	b.n++
+	if b.n < b.chunk {
+		return nil
+	}
+	if b.full == nil {
+		st, err := b.tx.PrepareContext(b.ctx, b.statement(b.chunk))
+		if err != nil {
+			return err
+		}
+		b.full = st
+	}
+	if _, err := b.full.ExecContext(b.ctx, b.args...); err != nil {
+		return err
+	}
+	b.n, b.args = 0, b.args[:0]
+	return nil
+}
+
+// flush writes the pending rows.
+func (b *bulk) flush() error {
+	if b.n > 0 {
+		if _, err := b.tx.ExecContext(b.ctx, b.statement(b.n), b.args...); err != nil {
+			return err
+		}
+	}
+	b.n, b.args = 0, b.args[:0]
+	return nil
+}
+
+func (b *bulk) close() {
+	if b.full != nil {
+		b.full.Close()
+	}
+}
+
+// upsertRun is the state of one Upsert transaction.
+type upsertRun struct {
+	ctx     context.Context
+	tx      *sqlx.Tx
+	opt     UpsertOptions
+	now     time.Time
+	breaks  *bulk
+	history *bulk
+	results []UpsertResult
+}
+
+func (s *Store) upsert(ctx context.Context, b *Batch, opt UpsertOptions) (_ []UpsertResult, err error) {
+	where := "catalog " + s.name()
+	if b == nil {
+		return nil, nil
+	}
+	if err := b.Validate(); err != nil {
+		return nil, fmt.Errorf("upsert into %s: %w: nothing was written; fix the part and import again", where, err)
+	}
+	u := &upsertRun{ctx: ctx, opt: opt, now: opt.Now.UTC()}
+	if opt.Now.IsZero() {
+		u.now = time.Now().UTC()
+	}
+	u.tx, err = s.db.BeginTxx(ctx, nil)
+	if err != nil {
+		return nil, fmt.Errorf("catalog: upsert into %s: begin: %w", where, err)
+	}
+	defer func() {
+		if err != nil {
+			u.tx.Rollback()
+			err = fmt.Errorf("catalog: upsert into %s: %w: nothing was written", where, err)
+		}
+	}()
+	// Child rows may be flushed before their parents' chunk: check the
+	// foreign keys at commit.
+	if _, err := u.tx.ExecContext(ctx, "PRAGMA defer_foreign_keys = ON"); err != nil {
+		return nil, err
+	}
+	u.breaks = newBulk(ctx, u.tx, "price_breaks", []string{"kind", "part_id", "min_qty", "unit_price", "currency"})
+	u.history = newBulk(ctx, u.tx, "part_history", []string{"part", "kind", "source", "imported_at", "outcome", "figures", "changes"})
+	defer u.breaks.close()
+	defer u.history.close()
+	u.results = make([]UpsertResult, 0, b.Len())
+	if err := upsertKind(u, seriesTable, b.ResistorSeries); err != nil {
+		return nil, err
+	}
+	if err := upsertKind(u, resistorTable, b.Resistors); err != nil {
+		return nil, err
+	}
+	if err := upsertKind(u, networkTable, b.Networks); err != nil {
+		return nil, err
+	}
+	if err := upsertKind(u, amplifierTable, b.Amplifiers); err != nil {
+		return nil, err
+	}
+	if err := u.breaks.flush(); err != nil {
+		return nil, fmt.Errorf("write price breaks: %w", err)
+	}
+	if err := u.history.flush(); err != nil {
+		return nil, fmt.Errorf("write history: %w", err)
+	}
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	if opt.DryRun {
+		u.tx.Rollback()
+		return u.results, nil
+	}
+	if err := u.tx.Commit(); err != nil {
+		return nil, fmt.Errorf("commit: %w", err)
+	}
+	return u.results, nil
+}
+
+func (s *Store) name() string {
+	if s.path == "" {
+		return "(in memory)"
+	}
+	return s.path
+}
+
+// provenance fills in the import's source and time where the part has none.
+func (u *upsertRun) provenance(p *Provenance) {
+	if p.Source == "" {
+		p.Source = u.opt.Source
+	}
+	if p.ImportedAt.IsZero() {
+		p.ImportedAt = u.now
+	} else {
+		p.ImportedAt = p.ImportedAt.UTC()
+	}
+}
+
+func upsertKind[T any](u *upsertRun, t *table, parts []T) error {
+	if len(parts) == 0 {
+		return nil
+	}
+	names := make([]string, len(parts))
+	for i := range parts {
+		names[i] = reflect.ValueOf(&parts[i]).Elem().FieldByIndex(t.part).String()
+	}
+	list, err := json.Marshal(names)
+	if err != nil {
+		return err
+	}
+	existing, err := loadRows[T](u.ctx, u.tx, t, "part IN (SELECT value FROM json_each(?))", string(list))
+	if err != nil {
+		return err
+	}
+	byPart := make(map[string]reflect.Value, len(existing))
+	for i := range existing {
+		v := reflect.ValueOf(&existing[i]).Elem()
+		byPart[v.FieldByIndex(t.part).String()] = v
+	}
+	var lastID int64
+	if err := u.tx.GetContext(u.ctx, &lastID, "SELECT COALESCE(MAX(id), 0) FROM "+t.name); err != nil {
+		return err
+	}
+	rows := newBulk(u.ctx, u.tx, t.name, strings.Split(t.columnList(), ", "))
+	defer rows.close()
+	var kids *bulk
+	if t.child != nil {
+		kids = newBulk(u.ctx, u.tx, t.child.table, []string{t.child.fk, "position", t.child.col})
+		defer kids.close()
+	}
+	var update *sql.Stmt
+	for i := range parts {
+		if i%256 == 0 {
+			if err := u.ctx.Err(); err != nil {
+				return fmt.Errorf("stopped at %s row %d: %w", t.kind, i+1, err)
+			}
+		}
+		p := parts[i]
+		v := reflect.ValueOf(&p).Elem()
+		u.provenance(v.FieldByIndex(t.prov).Addr().Interface().(*Provenance))
+		res := UpsertResult{Part: names[i], Kind: t.kind}
+		old, found := byPart[names[i]]
+		var id int64
+		switch {
+		case !found:
+			lastID++
+			id = lastID
+			res.Outcome = Added
+			rows.args = t.appendArgs(rows.args, id, v)
+			if err := rows.done(); err != nil {
+				return fmt.Errorf("write %s: %w", t.name, err)
+			}
+			if t.child != nil {
+				for pos, x := range v.FieldByIndex(t.child.field).Interface().([]float64) {
+					kids.args = append(kids.args, id, pos, x)
+					if err := kids.done(); err != nil {
+						return fmt.Errorf("write %s: %w", t.child.table, err)
+					}
+				}
+			}
+		default:
+			id = old.FieldByIndex(t.id).Int()
+			if res.Changes = diffFigures(t, old, v); len(res.Changes) > 0 {
+				res.Outcome = SpecChanged
+				break
+			}
+			if res.Changes = diffOffer(t, old, v); len(res.Changes) == 0 {
+				res.Outcome = Unchanged
+				break
+			}
+			res.Outcome = Updated
+			if update == nil {
+				if update, err = u.tx.PrepareContext(u.ctx, t.updateOffer()); err != nil {
+					return fmt.Errorf("update %s: %w", t.name, err)
+				}
+				defer update.Close()
+			}
+			args := t.offerArgs(v, id)
+			if _, err := update.ExecContext(u.ctx, args...); err != nil {
+				return fmt.Errorf("update %s %s: %w", t.kind, names[i], err)
+			}
+			if _, err := u.tx.ExecContext(u.ctx, "DELETE FROM price_breaks WHERE kind = ? AND part_id = ?", string(t.kind), id); err != nil {
+				return fmt.Errorf("update price breaks of %s %s: %w", t.kind, names[i], err)
+			}
+		}
+		u.results = append(u.results, res)
+		if res.Outcome == Unchanged {
+			continue
+		}
+		if res.Outcome != SpecChanged {
+			for _, b := range v.FieldByIndex(t.breaks).Interface().([]PriceBreak) {
+				u.breaks.args = append(u.breaks.args, string(t.kind), id, b.MinQty, b.UnitPrice, b.Currency)
+				if err := u.breaks.done(); err != nil {
+					return fmt.Errorf("write price breaks: %w", err)
+				}
+			}
+		}
+		figures, err := json.Marshal(v.Addr().Interface())
+		if err != nil {
+			return fmt.Errorf("record history of %s: %w", names[i], err)
+		}
+		prov := v.FieldByIndex(t.prov).Interface().(Provenance)
+		u.history.args = append(u.history.args, names[i], string(t.kind), prov.Source, formatTime(prov.ImportedAt),
+			string(res.Outcome), string(figures), strings.Join(res.Changes, "\n"))
+		if err := u.history.done(); err != nil {
+			return fmt.Errorf("write history: %w", err)
+		}
+	}
+	if err := rows.flush(); err != nil {
+		return fmt.Errorf("write %s: %w", t.name, err)
+	}
+	if kids != nil {
+		if err := kids.flush(); err != nil {
+			return fmt.Errorf("write %s: %w", t.child.table, err)
+		}
+	}
+	return nil
+}
+
+// updateOffer is the UPDATE of a part's offer and provenance columns.
+func (t *table) updateOffer() string {
+	var set []string
+	for _, c := range t.cols {
+		if !c.figure {
+			set = append(set, c.name+" = ?")
+		}
+	}
+	return "UPDATE " + t.name + " SET " + strings.Join(set, ", ") + " WHERE id = ?"
+}
+
+func (t *table) offerArgs(v reflect.Value, id int64) []any {
+	var args []any
+	for i := range t.cols {
+		if !t.cols[i].figure {
+			args = append(args, columnValue(&t.cols[i], v))
+		}
+	}
+	return append(args, id)
+}
+
+// diffFigures lists the figures of new that differ from old, as
+// "name old -> new".
+func diffFigures(t *table, old, new reflect.Value) []string {
+	var out []string
+	for i := range t.cols {
+		c := &t.cols[i]
+		if !c.figure {
+			continue
+		}
+		a, b := columnValue(c, old), columnValue(c, new)
+		if a != b {
+			out = append(out, c.name+" "+show(a)+" -> "+show(b))
+		}
+	}
+	if t.child != nil {
+		a := old.FieldByIndex(t.child.field).Interface().([]float64)
+		b := new.FieldByIndex(t.child.field).Interface().([]float64)
+		if !slices.Equal(a, b) {
+			out = append(out, t.child.name+" "+showFloats(a)+" -> "+showFloats(b))
+		}
+	}
+	return out
+}
+
+// diffOffer lists the offer and source changes; a new import time alone is
+// not a change.
+func diffOffer(t *table, old, new reflect.Value) []string {
+	var out []string
+	for i := range t.cols {
+		c := &t.cols[i]
+		if c.figure || c.kind == colTime {
+			continue
+		}
+		a, b := columnValue(c, old), columnValue(c, new)
+		if a != b {
+			out = append(out, c.name+" "+show(a)+" -> "+show(b))
+		}
+	}
+	a := old.FieldByIndex(t.breaks).Interface().([]PriceBreak)
+	b := new.FieldByIndex(t.breaks).Interface().([]PriceBreak)
+	if !slices.Equal(a, b) {
+		out = append(out, "price_breaks "+FormatBreaks(a)+" -> "+FormatBreaks(b))
+	}
+	return out
+}
+
+func show(v any) string {
+	switch x := v.(type) {
+	case float64:
+		return formatFloat(x)
+	case int64:
+		return strconv.FormatInt(x, 10)
+	case string:
+		if x == "" {
+			return `""`
+		}
+		return x
+	}
+	return fmt.Sprint(v)
+}
+
+func showFloats(xs []float64) string {
+	s := make([]string, len(xs))
+	for i, x := range xs {
+		s[i] = formatFloat(x)
+	}
+	return "[" + strings.Join(s, " ") + "]"
+}
+
+// FormatBreaks writes a price list as "1=0.1 USD; 10=0.08 USD", the packed
+// form used in change reports and the CSV export.
+func FormatBreaks(bs []PriceBreak) string {
+	s := make([]string, len(bs))
+	for i, b := range bs {
+		s[i] = strconv.Itoa(b.MinQty) + "=" + formatFloat(b.UnitPrice) + " " + b.Currency
+	}
+	return strings.Join(s, "; ")
+}
