@@ -176,55 +176,23 @@ func (h *pairHeap) Pop() any {
 // stats counts the work of one search.
 type stats struct {
 	classes, visited, boundPruned, evaluated int
-	failed                                   []classBest // cheapest failing classes seen, for near misses
 }
 
-// maxFailedKept bounds the failing classes kept for near misses.
-const maxFailedKept = 8
-
-// branchAndBound returns the same n best classes as exhaustive. It keeps
-// only configurations and op-amps whose error bound can pass on its own,
-// walks (configuration, op-amp) pairs in order of the sum of their cost
-// lower bounds (a heap over the two sorted lists), skips a pair whose joint
-// error bound fails, and stops when the next lower bound is above the n-th
-// best cost found.
-func (s *space) branchAndBound(ctx context.Context, n int, progress func(done, total int)) ([]classBest, stats, error) {
-	st := stats{classes: len(s.cfgs)*len(s.amps) + len(s.matched)}
-	t := topN{n: n}
-	for mi := range s.matched {
-		b := s.evalMatchedClass(mi)
-		st.visited++
-		if b.pass {
-			t.add(b)
-		} else {
-			st.keepFailed(b)
-		}
-	}
-	var m metrics
-	var cfgs, amps []int32
-	for ci := range s.cfgs {
-		s.bound(&s.cfgs[ci].g, nil, &m)
-		if s.pass(&m) {
-			cfgs = append(cfgs, int32(ci))
-		}
-	}
-	for ai := range s.amps {
-		s.bound(nil, &s.amps[ai], &m)
-		if s.pass(&m) {
-			amps = append(amps, int32(ai))
-		}
-	}
-	sort.SliceStable(cfgs, func(a, b int) bool { return s.cfgs[cfgs[a]].costLB < s.cfgs[cfgs[b]].costLB })
-	// s.amps is already sorted by cost.
+// walkPairs visits (configuration, op-amp) pairs in nondecreasing order of
+// costLB(configuration) + cost(op-amp), given both index lists sorted by
+// those costs, until visit returns true. A heap holds the frontier: after
+// (i, j) come (i, j+1) and, from the first column, (i+1, 0), so every pair
+// is visited once.
+func (s *space) walkPairs(cfgs, amps []int32, visit func(ci, ai int, lb float64) (stop bool)) {
 	if len(cfgs) == 0 || len(amps) == 0 {
-		return t.list, st, nil
+		return
 	}
 	lb := func(i, j int32) float64 { return s.cfgs[cfgs[i]].costLB + s.amps[amps[j]].cost }
 	h := pairHeap{{lb(0, 0), 0, 0}}
 	for h.Len() > 0 {
 		pr := heap.Pop(&h).(pair)
-		if t.full() && pr.lb > t.threshold() {
-			break
+		if visit(int(cfgs[pr.i]), int(amps[pr.j]), pr.lb) {
+			return
 		}
 		if int(pr.j)+1 < len(amps) {
 			heap.Push(&h, pair{lb(pr.i, pr.j+1), pr.i, pr.j + 1})
@@ -232,40 +200,104 @@ func (s *space) branchAndBound(ctx context.Context, n int, progress func(done, t
 		if pr.j == 0 && int(pr.i)+1 < len(cfgs) {
 			heap.Push(&h, pair{lb(pr.i+1, 0), pr.i + 1, 0})
 		}
+	}
+}
+
+// sortedConfigs returns the indexes of the configurations that keep(ci)
+// accepts, sorted by cost lower bound.
+func (s *space) sortedConfigs(keep func(ci int) bool) []int32 {
+	var out []int32
+	for ci := range s.cfgs {
+		if keep(ci) {
+			out = append(out, int32(ci))
+		}
+	}
+	sort.SliceStable(out, func(a, b int) bool { return s.cfgs[out[a]].costLB < s.cfgs[out[b]].costLB })
+	return out
+}
+
+// sortedAmps returns the indexes of the op-amps keep(ai) accepts; s.amps is
+// sorted by cost already.
+func (s *space) sortedAmps(keep func(ai int) bool) []int32 {
+	var out []int32
+	for ai := range s.amps {
+		if keep(ai) {
+			out = append(out, int32(ai))
+		}
+	}
+	return out
+}
+
+// branchAndBound returns the same n best classes as exhaustive. It keeps
+// only configurations and op-amps whose error bound can pass on its own,
+// walks (configuration, op-amp) pairs in order of the sum of their cost
+// lower bounds, skips a pair whose joint error bound fails, and stops when
+// the next lower bound is above the n-th best cost found.
+func (s *space) branchAndBound(ctx context.Context, n int, progress func(done, total int)) ([]classBest, stats, error) {
+	st := stats{classes: s.classCount()}
+	t := topN{n: n}
+	for mi := range s.matched {
+		st.visited++
+		if b := s.evalMatchedClass(mi); b.pass {
+			t.add(b)
+		}
+	}
+	var m metrics
+	cfgs := s.sortedConfigs(func(ci int) bool { s.bound(&s.cfgs[ci].g, nil, &m); return s.pass(&m) })
+	amps := s.sortedAmps(func(ai int) bool { s.bound(nil, &s.amps[ai], &m); return s.pass(&m) })
+	var err error
+	s.walkPairs(cfgs, amps, func(ci, ai int, lb float64) bool {
+		if t.full() && lb > t.threshold() {
+			return true
+		}
 		st.visited++
 		if st.visited%4096 == 0 {
-			if err := ctx.Err(); err != nil {
-				return nil, st, err
+			if err = ctx.Err(); err != nil {
+				return true
 			}
 			if progress != nil {
 				progress(st.visited, st.classes)
 			}
 		}
-		ci, ai := int(cfgs[pr.i]), int(amps[pr.j])
 		s.bound(&s.cfgs[ci].g, &s.amps[ai], &m)
 		if !s.pass(&m) {
 			st.boundPruned++
-			if len(st.failed) < maxFailedKept {
-				if b, ok := s.cheapestClass(ci, ai); ok {
-					st.keepFailed(b)
-				}
-			}
-			continue
+			return false
 		}
 		st.evaluated++
 		if b, ok := s.evalClass(ci, ai); ok {
 			t.add(b)
-		} else if len(st.failed) < maxFailedKept {
-			if b, ok := s.cheapestClass(ci, ai); ok {
-				st.keepFailed(b)
-			}
 		}
-	}
-	return t.list, st, nil
+		return false
+	})
+	return t.list, st, err
 }
 
-func (st *stats) keepFailed(b classBest) {
-	if len(st.failed) < maxFailedKept {
-		st.failed = append(st.failed, b)
+// nearCandidates returns the cheapest failing classes below cost limit:
+// matched amplifiers and (configuration, op-amp) pairs in cost order, at
+// most maxNearLook pairs looked at.
+func (s *space) nearCandidates(limit float64) []classBest {
+	var out []classBest
+	for mi := range s.matched {
+		if b := s.evalMatchedClass(mi); !b.pass && b.cost < limit {
+			out = append(out, b)
+		}
 	}
+	all := func(int) bool { return true }
+	looked := 0
+	s.walkPairs(s.sortedConfigs(all), s.sortedAmps(all), func(ci, ai int, lb float64) bool {
+		looked++
+		if lb >= limit || looked > maxNearLook {
+			return true
+		}
+		if b, ok := s.cheapestClass(ci, ai); ok && !b.pass && b.cost < limit {
+			out = append(out, b)
+		}
+		return false
+	})
+	sort.SliceStable(out, func(i, j int) bool { return out[i].less(&out[j]) })
+	return out
 }
+
+// maxNearLook bounds the classes looked at for near misses.
+const maxNearLook = 256

@@ -111,8 +111,8 @@ type Problem struct {
 	// CalGain and CalOffset remove the initial gain or offset error from
 	// the budget (a one-time calibration at TRef); drift and CMRR remain.
 	CalGain, CalOffset bool
-	Limits     Limits
-	Build      cost.Build
+	Limits             Limits
+	Build              cost.Build
 }
 
 // Defaults for a zero Problem field.

@@ -134,16 +134,26 @@ func SolveProblem(ctx context.Context, parts *Parts, p Problem, opt Options) (*R
 	if len(top) > 0 {
 		limit = top[0].cost
 	}
-	sort.SliceStable(st.failed, func(i, j int) bool { return st.failed[i].less(&st.failed[j]) })
-	for _, f := range st.failed {
-		if f.cost >= limit || len(res.NearMisses) >= maxNearMisses {
+	var fixless []NearMiss
+	for _, f := range sp.nearCandidates(limit) {
+		if len(res.NearMisses) >= maxNearMisses {
 			break
 		}
 		nm, err := sp.nearMiss(&f)
 		if err != nil {
 			return nil, err
 		}
-		res.NearMisses = append(res.NearMisses, nm)
+		if nm.Fix != nil {
+			res.NearMisses = append(res.NearMisses, nm)
+		} else if len(fixless) < maxNearMisses {
+			fixless = append(fixless, nm)
+		}
+	}
+	// Near misses with a single fix come first; fill up with the others.
+	for _, nm := range fixless {
+		if len(res.NearMisses) < maxNearMisses {
+			res.NearMisses = append(res.NearMisses, nm)
+		}
 	}
 	if len(top) == 0 {
 		res.Infeasible = sp.infeasible()
@@ -400,47 +410,7 @@ func (s *space) nearMiss(f *classBest) (NearMiss, error) {
 		nm.Fails = append(nm.Fails, Failure{Name: l.Name, Value: l.Value, Limit: l.Limit, By: by, Text: txt})
 	}
 	nm.Reasons = []string{fmt.Sprintf("cheaper than rank 1 but fails %d limit(s)", len(nm.Fails))}
-	best := classBest{cost: math.Inf(1)}
-	kind, change, part := "", "", ""
-	try := func(b classBest, ok bool, k, ch, pt string) {
-		if ok && b.pass && b.less(&best) {
-			best, kind, change, part = b, k, ch, pt
-		}
-	}
-	if f.cfg < 0 {
-		for mi := range s.matched {
-			if mi != f.amp {
-				a := s.matched[mi].a
-				try(s.evalMatchedClass(mi), true, "amplifier", "matched amplifier "+a.Part+" instead of "+s.matched[f.amp].a.Part, a.Part)
-			}
-		}
-	} else {
-		c := &s.cfgs[f.cfg]
-		for ai := range s.amps {
-			if ai != f.amp {
-				b, ok := s.evalClass(f.cfg, ai)
-				try(b, ok, "amplifier", "amplifier "+s.amps[ai].a.Part+" instead of "+s.amps[f.amp].a.Part, s.amps[ai].a.Part)
-			}
-		}
-		rgPos, rfPos := s.positions()
-		for ci := range s.cfgs {
-			o := &s.cfgs[ci]
-			if ci == f.cfg || o.fam != c.fam {
-				continue
-			}
-			switch {
-			case c.fam == NetworkDifference:
-				b, ok := s.evalClass(ci, f.amp)
-				try(b, ok, "network", "network "+s.nets[o.net].Part+" instead of "+s.nets[c.net].Part, s.nets[o.net].Part)
-			case o.gb == c.gb:
-				b, ok := s.evalClass(ci, f.amp)
-				try(b, ok, "grade", fmt.Sprintf("%s: %s instead of %s", strings.Join(rgPos, ", "), groupText(s.groups[o.ga]), groupText(s.groups[c.ga])), "")
-			case o.ga == c.ga:
-				b, ok := s.evalClass(ci, f.amp)
-				try(b, ok, "grade", fmt.Sprintf("%s: %s instead of %s", strings.Join(rfPos, ", "), groupText(s.groups[o.gb]), groupText(s.groups[c.gb])), "")
-			}
-		}
-	}
+	best, kind, change, part := s.cheapestFix(f)
 	if kind != "" {
 		bd, _, err := s.describe(&best)
 		if err != nil {
@@ -459,6 +429,96 @@ func (s *space) nearMiss(f *classBest) (NearMiss, error) {
 		nm.Reasons = append(nm.Reasons, "no single change of grade, part or amplifier makes it pass")
 	}
 	return nm, nil
+}
+
+// fixCand is one single change to a failing class.
+type fixCand struct {
+	ci, ai int // the changed class (ci < 0: matched amplifier ai)
+	lb     float64
+	kind   string
+}
+
+// cheapestFix searches the single changes of a failing class in order of
+// their cost lower bound, skipping those whose error bound fails, and
+// returns the cheapest that passes with its kind, a description and the
+// part it brings in ("" kind when none passes).
+func (s *space) cheapestFix(f *classBest) (best classBest, kind, change, part string) {
+	best = classBest{cost: math.Inf(1)}
+	var cands []fixCand
+	if f.cfg < 0 {
+		for mi := range s.matched {
+			if mi != f.amp {
+				cands = append(cands, fixCand{-1, mi, s.matched[mi].cost, "amplifier"})
+			}
+		}
+	} else {
+		c := &s.cfgs[f.cfg]
+		for ai := range s.amps {
+			if ai != f.amp {
+				cands = append(cands, fixCand{f.cfg, ai, c.costLB + s.amps[ai].cost, "amplifier"})
+			}
+		}
+		for ci := range s.cfgs {
+			o := &s.cfgs[ci]
+			if ci == f.cfg || o.fam != c.fam {
+				continue
+			}
+			lb := o.costLB + s.amps[f.amp].cost
+			switch {
+			case c.fam == NetworkDifference:
+				cands = append(cands, fixCand{ci, f.amp, lb, "network"})
+			case o.gb == c.gb || o.ga == c.ga || (c.ga == c.gb && o.ga == o.gb):
+				// One grade at one set of positions, or one grade for all.
+				cands = append(cands, fixCand{ci, f.amp, lb, "grade"})
+			}
+		}
+	}
+	sort.SliceStable(cands, func(i, j int) bool { return cands[i].lb < cands[j].lb })
+	var m metrics
+	var won fixCand
+	for _, cd := range cands {
+		if cd.lb > best.cost {
+			break
+		}
+		var b classBest
+		ok := false
+		if cd.ci < 0 {
+			b, ok = s.evalMatchedClass(cd.ai), true
+		} else {
+			s.bound(&s.cfgs[cd.ci].g, &s.amps[cd.ai], &m)
+			if !s.pass(&m) {
+				continue
+			}
+			b, ok = s.evalClass(cd.ci, cd.ai)
+		}
+		if ok && b.pass && b.less(&best) {
+			best, won = b, cd
+		}
+	}
+	if math.IsInf(best.cost, 1) {
+		return best, "", "", ""
+	}
+	rgPos, rfPos := s.positions()
+	switch {
+	case won.ci < 0:
+		a := s.matched[won.ai].a
+		return best, won.kind, "matched amplifier " + a.Part + " instead of " + s.matched[f.amp].a.Part, a.Part
+	case won.kind == "amplifier":
+		a := s.amps[won.ai].a
+		return best, won.kind, "amplifier " + a.Part + " instead of " + s.amps[f.amp].a.Part, a.Part
+	case won.kind == "network":
+		n := s.nets[s.cfgs[won.ci].net]
+		return best, won.kind, "network " + n.Part + " instead of " + s.nets[s.cfgs[f.cfg].net].Part, n.Part
+	}
+	c, o := &s.cfgs[f.cfg], &s.cfgs[won.ci]
+	if o.ga != c.ga && o.gb != c.gb {
+		all := strings.Join(append(append([]string{}, rgPos...), rfPos...), ", ")
+		return best, won.kind, fmt.Sprintf("%s: %s instead of %s", all, groupText(s.groups[o.ga]), groupText(s.groups[c.ga])), ""
+	}
+	if o.ga != c.ga {
+		return best, won.kind, fmt.Sprintf("%s: %s instead of %s", strings.Join(rgPos, ", "), groupText(s.groups[o.ga]), groupText(s.groups[c.ga])), ""
+	}
+	return best, won.kind, fmt.Sprintf("%s: %s instead of %s", strings.Join(rfPos, ", "), groupText(s.groups[o.gb]), groupText(s.groups[c.gb])), ""
 }
 
 func groupText(g *group) string {

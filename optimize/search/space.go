@@ -46,7 +46,7 @@ func gradeKey(g catalog.ResistorGrade, o catalog.Offer) string {
 // seriesPart is the order code of one value of a series: the stem and the
 // value in ohm.
 func seriesPart(rs *catalog.ResistorSeries, v float64) string {
-	return rs.Part + "-" + strconv.FormatFloat(v, 'g', 4, 64)
+	return rs.Part + "-" + strconv.FormatFloat(v, 'f', -1, 64)
 }
 
 // resistorRow is one orderable resistor value, from a row or a series.

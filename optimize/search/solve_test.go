@@ -1,0 +1,251 @@
+package search
+
+import (
+	"context"
+	"encoding/json"
+	"errors"
+	"math"
+	"os"
+	"strings"
+	"testing"
+
+	"plumb/catalog"
+	"plumb/optimize/spec"
+)
+
+func loadFixture(t testing.TB, specFile string) (*catalog.Snapshot, *spec.Spec) {
+	t.Helper()
+	data, err := os.ReadFile("testdata/catalog_small.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var snap catalog.Snapshot
+	if err := json.Unmarshal(data, &snap); err != nil {
+		t.Fatal(err)
+	}
+	s, err := spec.Load("testdata/" + specFile)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return &snap, s
+}
+
+func within(a, b, rel float64) bool { return math.Abs(a-b) <= rel*math.Abs(b) }
+
+// TestSolveHandWorked checks the search on a small invented catalog whose
+// answer was worked by hand (common practice arithmetic with the
+// domain-notes equations):
+//
+//	Only the 0.1 %, 10 ppm/K series meets 20 ppm/K drift (10 + 10); the
+//	1 % series breaks the 0.5 % gain error, the 25 ppm/K one the drift.
+//	OPQ-1's 5 mV offset x NG 11 = 55 mV breaks 10 mV; OPQ-5 cannot take
+//	±15 V. Rank 1: 2 x 200 resistors at 0.06 + 100 OPQ-2 at 0.45 = 69.00.
+//	Worst-case gain error: ratio (1.001/0.999) - 1 = 0.2002 %, less NG/A =
+//	11 ppm on the low corner: 0.2009 %; plus 20 ppm/K x 65 K (the worst
+//	excursion of -40..85 °C from 25 °C) = 0.13 %: 0.3309 %. Offset
+//	11 x (200 uV + 1 nA x 909 ohm) + 11 x 2 uV/K x 65 K = 3.64 mV. Rank 2: network 100 x 1.20 + 45 = 165; rank 3: matched
+//	amplifier 100 x 3.50 = 350. E96 values from 1 k to 100 k: 193 variants.
+func TestSolveHandWorked(t *testing.T) {
+	snap, s := loadFixture(t, "diff_g10.yaml")
+	res, err := Solve(context.Background(), snap, s, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(res.Designs) != 3 {
+		t.Fatalf("%d designs, want 3: %+v", len(res.Designs), res.Designs)
+	}
+	tests := []struct {
+		name   string
+		family Family
+		total  float64
+	}{
+		{"rank 1 discrete", DiscreteDifference, 69},
+		{"rank 2 network", NetworkDifference, 165},
+		{"rank 3 matched amplifier", MatchedDifference, 350},
+	}
+	for i, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			d := res.Designs[i]
+			if d.Family != string(tc.family) || !within(d.TotalCost, tc.total, 1e-9) || d.Rank != i+1 {
+				t.Errorf("rank %d: %s %.4f, want %s %.2f", d.Rank, d.Family, d.TotalCost, tc.family, tc.total)
+			}
+			if !within(d.UnitCost, tc.total/100, 1e-9) || d.Currency != "EUR" {
+				t.Errorf("unit cost %.4f %s, want %.4f EUR", d.UnitCost, d.Currency, tc.total/100)
+			}
+		})
+	}
+	d := res.Designs[0]
+	want := map[string]string{"R1": "TC10-1000", "R3": "TC10-1000", "R2": "TC10-10000", "R4": "TC10-10000", "U1": "OPQ-2"}
+	for _, p := range d.Parts {
+		if want[p.Position] != p.Part {
+			t.Errorf("%s is %s, want %s", p.Position, p.Part, want[p.Position])
+		}
+	}
+	if !within(d.Metrics.GainError, 0.003309, 1e-3) || !within(d.Metrics.OutputOffsetV, 3.64e-3, 2e-3) || !within(d.Metrics.DriftPPMPerK, 20, 1e-9) {
+		t.Errorf("metrics %+v", d.Metrics)
+	}
+	// (1+G)/(4t) = 2750 from the resistors (Franco), with 100 dB amplifier CMRR: 1/(1/2750 + 1e-5).
+	if !within(d.Metrics.CMRRdB, -20*math.Log10(1/2750.0+1e-5), 2e-3) {
+		t.Errorf("CMRR %.2f dB", d.Metrics.CMRRdB)
+	}
+	if d.Binding != limDrift || d.ValueVariants != 193 {
+		t.Errorf("binding %q, variants %d; want %q, 193", d.Binding, d.ValueVariants, limDrift)
+	}
+	if !strings.Contains(strings.Join(d.Reasons, "\n"), "192 value variants of this grade also pass") {
+		t.Errorf("reasons lack the fold note: %q", d.Reasons)
+	}
+	if r := strings.Join(res.Designs[1].Reasons, "\n"); !strings.Contains(r, "costs 0.96 more per stage than rank 1") {
+		t.Errorf("rank 2 reasons: %q", r)
+	}
+	// Near misses: cheaper than 69 and each with a single fix.
+	if len(res.NearMisses) == 0 {
+		t.Fatal("no near misses")
+	}
+	found := false
+	for _, nm := range res.NearMisses {
+		if nm.TotalCost >= 69 || len(nm.Fails) == 0 {
+			t.Errorf("near miss %+v is not cheaper and failing", nm.Design)
+		}
+		if nm.Fix == nil {
+			t.Errorf("near miss at %.2f has no fix", nm.TotalCost)
+			continue
+		}
+		if nm.Fix.Kind == "amplifier" && nm.Fix.Part == "OPQ-2" && nm.Fails[0].Name == limOffset {
+			found = true
+			// 54.00 with OPQ-1 -> 69.00 with OPQ-2: 0.15 per stage.
+			if !within(nm.Fix.ExtraCost, 0.15, 1e-9) {
+				t.Errorf("fix extra cost %.4f, want 0.15", nm.Fix.ExtraCost)
+			}
+		}
+	}
+	if !found {
+		t.Errorf("no near miss fixed by OPQ-2: %+v", res.NearMisses)
+	}
+}
+
+func TestSolveInfeasible(t *testing.T) {
+	snap, s := loadFixture(t, "diff_g10.yaml")
+	s.Limits.CMRRdB = 120
+	s.Limits.GainDrift = 0.1e-6
+	res, err := Solve(context.Background(), snap, s, Options{})
+	if !errors.Is(err, ErrInfeasible) {
+		t.Fatalf("error %v, want ErrInfeasible", err)
+	}
+	if res == nil || res.Infeasible == nil || len(res.Designs) != 0 {
+		t.Fatalf("result %+v", res)
+	}
+	names := map[string]InfeasibleLimit{}
+	for _, l := range res.Infeasible.Limits {
+		names[l.Name] = l
+	}
+	cm, ok := names[limCMRR]
+	if !ok || !strings.Contains(cm.Needed, "network with ratio tolerance") {
+		t.Errorf("CMRR entry %+v", cm)
+	}
+	// Best drift in the catalog: the matched amplifier's 1 ppm/K.
+	if dr, ok := names[limDrift]; !ok || dr.Best != 1 {
+		t.Errorf("drift entry %+v", dr)
+	}
+}
+
+func TestSolveHazardCaution(t *testing.T) {
+	snap, s := loadFixture(t, "diff_g10.yaml")
+	s.CommonMode = spec.Range{Min: -80, Max: 80}
+	res, err := Solve(context.Background(), snap, s, Options{})
+	if res == nil {
+		t.Fatalf("no result: %v", err)
+	}
+	if len(res.Cautions) == 0 || !strings.Contains(res.Cautions[0], "IEC 61010-1") {
+		t.Errorf("cautions %q", res.Cautions)
+	}
+}
+
+// TestResultContract marshals a result and checks the field names other
+// tools read (documented in the README).
+func TestResultContract(t *testing.T) {
+	snap, s := loadFixture(t, "diff_g10.yaml")
+	res, err := Solve(context.Background(), snap, s, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	data, err := json.Marshal(res)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var top map[string]json.RawMessage
+	if err := json.Unmarshal(data, &top); err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range []string{"designs", "near_misses"} {
+		if _, ok := top[k]; !ok {
+			t.Errorf("result lacks %q", k)
+		}
+	}
+	var raw struct {
+		Designs    []map[string]json.RawMessage `json:"designs"`
+		NearMisses []map[string]json.RawMessage `json:"near_misses"`
+	}
+	if err := json.Unmarshal(data, &raw); err != nil {
+		t.Fatal(err)
+	}
+	designKeys := []string{"rank", "family", "total_cost", "unit_cost", "currency", "parts", "metrics", "limits", "binding", "reasons"}
+	check := func(what string, obj map[string]json.RawMessage, keys []string) {
+		for _, k := range keys {
+			if _, ok := obj[k]; !ok {
+				t.Errorf("%s lacks %q", what, k)
+			}
+		}
+	}
+	check("design", raw.Designs[0], designKeys)
+	check("near miss", raw.NearMisses[0], append(designKeys, "fails", "fix"))
+	var parts []map[string]any
+	json.Unmarshal(raw.Designs[0]["parts"], &parts)
+	check2 := func(p map[string]any, keys ...string) {
+		for _, k := range keys {
+			if _, ok := p[k]; !ok {
+				t.Errorf("part %v lacks %q", p["position"], k)
+			}
+		}
+	}
+	for _, p := range parts {
+		check2(p, "position", "kind", "part", "quantity", "unit_price")
+		if p["kind"] == "resistor" {
+			check2(p, "value_ohm", "tolerance", "tcr_ppm")
+		}
+	}
+	json.Unmarshal(raw.Designs[1]["parts"], &parts)
+	for _, p := range parts {
+		if p["kind"] == "network" {
+			check2(p, "value_ohm", "ratio_tolerance", "tcr_tracking_ppm")
+		}
+	}
+	var m map[string]any
+	json.Unmarshal(raw.Designs[0]["metrics"], &m)
+	check2(m, "gain", "gain_error", "cmrr_db", "drift_ppm_per_k", "output_offset_v")
+	var ls []map[string]any
+	json.Unmarshal(raw.Designs[0]["limits"], &ls)
+	for _, l := range ls {
+		check2(l, "name", "value", "limit", "margin", "pass")
+	}
+}
+
+func TestDesignNForBudget(t *testing.T) {
+	snap, s := loadFixture(t, "diff_g10.yaml")
+	res, err := Solve(context.Background(), snap, s, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	d, err := res.DesignN(1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d.Family != spec.Difference || len(d.Positions) != 4 || d.Position("R2").Ohm() != 10000 || !d.Amplifier.Resolved {
+		t.Errorf("design %+v", d)
+	}
+	if len(d.Unresolved()) != 0 {
+		t.Errorf("unresolved %v", d.Unresolved())
+	}
+	if _, err := res.DesignN(4); !errors.Is(err, ErrProblem) {
+		t.Errorf("DesignN(4) error %v", err)
+	}
+}
