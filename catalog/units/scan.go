@@ -28,13 +28,7 @@ func spaceLen(s string, i int) int {
 
 // trimSpaces removes leading and trailing spaces (as spaceLen knows them).
 func trimSpaces(s string) string {
-	for len(s) > 0 {
-		n := spaceLen(s, 0)
-		if n == 0 {
-			break
-		}
-		s = s[n:]
-	}
+	s = skipSpaces(s)
 	for len(s) > 0 {
 		_, size := utf8.DecodeLastRuneInString(s)
 		if spaceLen(s, len(s)-size) == 0 {
