@@ -322,6 +322,16 @@ func (s *space) options(c *config) []option {
 	return c.opts
 }
 
+// resetOptions forgets the value options of the discrete configurations
+// (benchmarks measure a fresh search with it).
+func (s *space) resetOptions() {
+	for i := range s.cfgs {
+		if s.cfgs[i].fam != NetworkDifference {
+			s.cfgs[i].opts, s.cfgs[i].built = s.cfgs[i].opts[:0], false
+		}
+	}
+}
+
 // addOption prices a value choice, merging positions that use one part
 // number into one line, and appends it unless stock excludes it.
 func (s *space) addOption(c *config, ga, gb *group, i, j, j2 int, rg, rf float64) {

@@ -35,12 +35,26 @@ type group struct {
 	qty [maxPlace + 1]int
 }
 
-func gradeKey(g catalog.ResistorGrade, o catalog.Offer) string {
-	k := fmt.Sprintf("%s|%s|%g|%g|%g|%g|%d", g.Technology, g.Package, g.Tolerance, g.TCR, g.PowerW, g.MaxVoltageV, o.MinOrder)
-	for _, b := range o.PriceBreaks {
-		k += fmt.Sprintf("|%d:%g%s", b.MinQty, b.UnitPrice, b.Currency)
+// appendGradeKey appends the key that groups resistors: every grade
+// figure, the minimum order and the whole price list.
+func appendGradeKey(b []byte, g *catalog.ResistorGrade, o *catalog.Offer) []byte {
+	b = append(b, g.Technology...)
+	b = append(b, '|')
+	b = append(b, g.Package...)
+	for _, x := range [...]float64{g.Tolerance, g.TCR, g.PowerW, g.MaxVoltageV, g.ThermalResistance, g.LoadLife} {
+		b = append(b, '|')
+		b = strconv.AppendFloat(b, x, 'g', -1, 64)
 	}
-	return k
+	b = append(b, '|')
+	b = strconv.AppendInt(b, int64(o.MinOrder), 10)
+	for _, pb := range o.PriceBreaks {
+		b = append(b, '|')
+		b = strconv.AppendInt(b, int64(pb.MinQty), 10)
+		b = append(b, ':')
+		b = strconv.AppendFloat(b, pb.UnitPrice, 'g', -1, 64)
+		b = append(b, pb.Currency...)
+	}
+	return b
 }
 
 // seriesPart is the order code of one value of a series: the stem and the
@@ -68,8 +82,20 @@ func buildGroups(parts *Parts, p *Problem) ([]*group, error) {
 		part  string
 		stock int
 	}
-	vals := map[string]map[float64]entry{}
-	add := func(r resistorRow) {
+	vals := map[*group]map[float64]entry{}
+	var kb []byte
+	// groupOf finds or makes the group of a grade and price list.
+	groupOf := func(gr *catalog.ResistorGrade, o *catalog.Offer) *group {
+		kb = appendGradeKey(kb[:0], gr, o)
+		if g, ok := byKey[string(kb)]; ok {
+			return g
+		}
+		g := &group{key: string(kb), grade: *gr, offer: catalog.Offer{PriceBreaks: o.PriceBreaks, MinOrder: o.MinOrder, Stock: -1}}
+		byKey[g.key] = g
+		vals[g] = map[float64]entry{}
+		return g
+	}
+	add := func(g *group, r resistorRow) {
 		if r.value < p.RMinOhm || r.value > p.RMaxOhm || !(r.grade.Tolerance >= 0 && r.grade.Tolerance < 0.5) {
 			return
 		}
@@ -79,22 +105,18 @@ func buildGroups(parts *Parts, p *Problem) ([]*group, error) {
 		if p.Build.Stock == cost.StockExclude && r.offer.Stock == 0 {
 			return
 		}
-		k := gradeKey(r.grade, *r.offer)
-		g := byKey[k]
 		if g == nil {
-			g = &group{key: k, grade: r.grade, offer: catalog.Offer{PriceBreaks: r.offer.PriceBreaks, MinOrder: r.offer.MinOrder, Stock: -1}}
-			byKey[k] = g
-			vals[k] = map[float64]entry{}
+			g = groupOf(&r.grade, r.offer)
 		}
-		e, ok := vals[k][r.value]
+		e, ok := vals[g][r.value]
 		better := !ok || stockRank(r.stock) > stockRank(e.stock) || (stockRank(r.stock) == stockRank(e.stock) && r.part < e.part)
 		if better {
-			vals[k][r.value] = entry{r.part, r.stock}
+			vals[g][r.value] = entry{r.part, r.stock}
 		}
 	}
 	for i := range parts.Resistors {
 		r := &parts.Resistors[i]
-		add(resistorRow{r.Part, r.ValueOhm, r.Stock, r.ResistorGrade, &r.Offer})
+		add(nil, resistorRow{r.Part, r.ValueOhm, r.Stock, r.ResistorGrade, &r.Offer})
 	}
 	for i := range parts.Series {
 		rs := &parts.Series[i]
@@ -106,8 +128,13 @@ func buildGroups(parts *Parts, p *Problem) ([]*group, error) {
 		if lo > hi {
 			continue
 		}
+		var g *group
 		for _, v := range es.Values(lo, hi) {
-			add(resistorRow{seriesPart(rs, v), v, rs.Stock, rs.ResistorGrade, &rs.Offer})
+			r := resistorRow{seriesPart(rs, v), v, rs.Stock, rs.ResistorGrade, &rs.Offer}
+			if g == nil {
+				g = groupOf(&r.grade, r.offer)
+			}
+			add(g, r)
 		}
 	}
 	keys := make([]string, 0, len(byKey))
@@ -118,14 +145,14 @@ func buildGroups(parts *Parts, p *Problem) ([]*group, error) {
 	out := make([]*group, 0, len(keys))
 	for _, k := range keys {
 		g := byKey[k]
-		vs := make([]float64, 0, len(vals[k]))
-		for v := range vals[k] {
+		vs := make([]float64, 0, len(vals[g]))
+		for v := range vals[g] {
 			vs = append(vs, v)
 		}
 		sort.Float64s(vs)
 		g.values = vs
 		for _, v := range vs {
-			e := vals[k][v]
+			e := vals[g][v]
 			g.parts = append(g.parts, e.part)
 			g.stock = append(g.stock, e.stock)
 		}
@@ -140,7 +167,7 @@ func buildGroups(parts *Parts, p *Problem) ([]*group, error) {
 			g.ext[pl], g.qty[pl] = float64(q)*unit, q
 			priced = true
 		}
-		if priced {
+		if priced && len(vs) > 0 {
 			out = append(out, g)
 		}
 	}
