@@ -1,0 +1,217 @@
+package main
+
+import (
+	"fmt"
+	"strconv"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"plumb/catalog"
+	"plumb/catalog/units"
+)
+
+type catalogShowOptions struct {
+	IO      *IOStreams
+	Catalog catalogOpener
+	Part    string
+	Format  string
+}
+
+func newCatalogShowCmd(f *Factory, runF func(*catalogShowOptions) error) *cobra.Command {
+	opts := &catalogShowOptions{IO: f.IO, Catalog: f.OpenCatalog}
+	cmd := &cobra.Command{
+		Use:   "show PART",
+		Short: "Show every figure of one part",
+		Long: `Show every figure of one catalog part: a resistor (a single part, or one value
+of a series by its full part number), a series, a network or an amplifier,
+with its price breaks, stock and where it came from.`,
+		Example: `  plumb catalog list --kind amplifier
+  plumb catalog show PART --format json`,
+		Args: exactArgs("PART"),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			opts.Part = args[0]
+			var err error
+			if opts.Format, err = chooseFormat(cmd, f, opts.Format); err != nil {
+				return err
+			}
+			if runF != nil {
+				return runF(opts)
+			}
+			return runCatalogShow(cmd, opts)
+		},
+	}
+	addFormatFlag(cmd, &opts.Format)
+	return cmd
+}
+
+// field is one line of a part's description.
+type field struct{ Name, Value string }
+
+func runCatalogShow(cmd *cobra.Command, opts *catalogShowOptions) error {
+	ctx := cmd.Context()
+	st, err := opts.Catalog(ctx)
+	if err != nil {
+		return err
+	}
+	defer st.Close()
+	kind, v, err := st.Find(ctx, opts.Part)
+	if err != nil {
+		return fmt.Errorf("%w: list the parts with `plumb catalog list --part %s`", err, opts.Part)
+	}
+	if opts.Format == "json" {
+		return writeJSON(opts.IO.Out, v)
+	}
+	fields := partFields(kind, v)
+	if opts.Format == "csv" {
+		rows := make([][]string, len(fields))
+		for i, f := range fields {
+			rows[i] = []string{f.Name, f.Value}
+		}
+		return writeCSV(opts.IO.Out, []string{"field", "value"}, rows)
+	}
+	t := newTable(opts.IO, "FIELD", "VALUE")
+	for _, f := range fields {
+		t.row(f.Name, f.Value)
+	}
+	return t.render(opts.IO.Out)
+}
+
+// partFields describes a part found in the catalog, figures in engineering
+// notation.
+func partFields(kind catalog.Kind, v any) []field {
+	var fs []field
+	add := func(name, value string) {
+		if value != "" {
+			fs = append(fs, field{name, value})
+		}
+	}
+	grade := func(g catalog.ResistorGrade) {
+		add("technology", g.Technology)
+		add("package", g.Package)
+		add("tolerance", "±"+units.FormatPercent(g.Tolerance))
+		add("tcr", "±"+units.FormatPPM(g.TCR))
+		add("power", formatPower(g.PowerW))
+		if g.MaxVoltageV > 0 {
+			add("max voltage", units.Format(g.MaxVoltageV, "V"))
+		}
+		if g.ThermalResistance > 0 {
+			add("thermal resistance", strconv.FormatFloat(g.ThermalResistance, 'g', 4, 64)+" K/W")
+		}
+		if g.LoadLife > 0 {
+			add("load life", units.FormatPercent(g.LoadLife))
+		}
+	}
+	offer := func(o catalog.Offer, p catalog.Provenance) {
+		for _, b := range o.PriceBreaks {
+			add(fmt.Sprintf("price from %d", b.MinQty), formatMoney(b.UnitPrice, b.Currency))
+		}
+		if o.MinOrder > 1 {
+			add("minimum order", strconv.Itoa(o.MinOrder))
+		}
+		add("stock", formatStock(o.Stock))
+		add("source", p.Source)
+		if !p.ImportedAt.IsZero() {
+			add("imported", p.ImportedAt.UTC().Format("2006-01-02 15:04 UTC"))
+		}
+	}
+	add("kind", string(kind))
+	switch p := v.(type) {
+	case *catalog.ResistorSeries:
+		add("part", p.Part)
+		add("maker", p.Maker)
+		add("line", p.Line)
+		add("series", p.ESeries)
+		add("range", units.FormatOhms(p.MinOhm)+" to "+units.FormatOhms(p.MaxOhm)+" ohm")
+		grade(p.ResistorGrade)
+		offer(p.Offer, p.Provenance)
+	case *catalog.Resistor:
+		add("part", p.Part)
+		add("maker", p.Maker)
+		add("line", p.Line)
+		add("value", units.FormatOhms(p.ValueOhm)+" ohm")
+		add("series part", p.SeriesPart)
+		grade(p.ResistorGrade)
+		offer(p.Offer, p.Provenance)
+	case *catalog.Network:
+		add("part", p.Part)
+		add("maker", p.Maker)
+		vals := make([]string, len(p.Values))
+		for i, x := range p.Values {
+			vals[i] = units.FormatOhms(x)
+		}
+		add("values", strings.Join(vals, ", ")+" ohm")
+		add("technology", p.Technology)
+		add("package", p.Package)
+		add("tolerance", "±"+units.FormatPercent(p.Tolerance))
+		add("ratio tolerance", "±"+units.FormatPercent(p.RatioTolerance))
+		add("tcr", "±"+units.FormatPPM(p.TCR))
+		add("tcr tracking", "±"+units.FormatPPM(p.TCRTracking))
+		add("power per element", formatPower(p.PowerW))
+		if p.MaxVoltageV > 0 {
+			add("max voltage", units.Format(p.MaxVoltageV, "V"))
+		}
+		offer(p.Offer, p.Provenance)
+	case *catalog.Amplifier:
+		amplifierFields(add, p)
+		offer(p.Offer, p.Provenance)
+	default:
+		add("figures", fmt.Sprintf("%+v", v))
+	}
+	return fs
+}
+
+func amplifierFields(add func(string, string), a *catalog.Amplifier) {
+	typical := map[string]bool{}
+	for _, t := range a.TypicalOnly {
+		typical[t] = true
+	}
+	num := func(name, jsonName string, v float64, unit string) {
+		if v == 0 {
+			return
+		}
+		s := units.Format(v, unit)
+		if typical[jsonName] {
+			s += " (typical only)"
+		}
+		add(name, s)
+	}
+	add("part", a.Part)
+	add("maker", a.Maker)
+	add("type", string(a.Type))
+	add("channels", strconv.Itoa(a.Channels))
+	add("package", a.Package)
+	add("supply span", units.Format(a.SupplyMinV, "V")+" to "+units.Format(a.SupplyMaxV, "V"))
+	add("input common mode", fmt.Sprintf("V- %+g V to V+ %+g V", a.CMNegV, -a.CMPosV))
+	add("output swing", fmt.Sprintf("V- %+g V to V+ %+g V", a.SwingNegV, -a.SwingPosV))
+	num("offset voltage", "vos_v", a.VosV, "V")
+	num("offset drift", "vos_drift_v_per_k", a.VosDriftVK, "V/K")
+	num("bias current", "ib_a", a.IbA, "A")
+	num("offset current", "ios_a", a.IosA, "A")
+	num("open-loop gain", "aol_v_per_v", a.AolVV, "V/V")
+	if a.CMRRdB != 0 {
+		add("CMRR", strconv.FormatFloat(a.CMRRdB, 'g', 4, 64)+" dB")
+	}
+	num("gain-bandwidth", "gbw_hz", a.GBWHz, "Hz")
+	num("slew rate", "slew_v_per_s", a.SlewVs, "V/s")
+	num("voltage noise", "noise_v_per_rthz", a.NoiseVHz, "V/√Hz")
+	num("current noise", "noise_a_per_rthz", a.NoiseAHz, "A/√Hz")
+	num("quiescent current", "iq_a", a.IqA, "A")
+	if a.Type == catalog.MatchedAmp {
+		gains := make([]string, len(a.Gains))
+		for i, g := range a.Gains {
+			gains[i] = strconv.FormatFloat(g, 'g', 6, 64)
+		}
+		add("gains", strings.Join(gains, ", "))
+		if a.GainErrorMax > 0 {
+			add("gain error", "±"+units.FormatPercent(a.GainErrorMax))
+		}
+		if a.GainDriftPPM > 0 {
+			add("gain drift", "±"+units.FormatPPM(a.GainDriftPPM))
+		}
+		add("input range", fmt.Sprintf("V- %+g V to V+ %+g V", a.InNegV, -a.InPosV))
+		if a.InternalOhm > 0 {
+			add("internal resistors", units.FormatOhms(a.InternalOhm)+" ohm")
+		}
+	}
+}

@@ -1,0 +1,89 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"os"
+	"os/signal"
+	"strings"
+
+	"plumb/optimize/search"
+)
+
+// Exit codes, documented in `plumb --help`.
+const (
+	exitOK         = 0
+	exitError      = 1
+	exitUsage      = 2
+	exitInfeasible = 3
+)
+
+// usageError marks a command line that cannot be run as written: an unknown
+// command or flag, a bad flag value, the wrong number of arguments.
+type usageError struct{ err error }
+
+func (e *usageError) Error() string { return e.err.Error() }
+func (e *usageError) Unwrap() error { return e.err }
+
+// usagef returns a usage error.
+func usagef(format string, a ...any) error {
+	return &usageError{fmt.Errorf(format, a...)}
+}
+
+// infeasibleErrors are the sentinels meaning "no design meets the spec";
+// they map to exitInfeasible.
+var infeasibleErrors = []error{search.ErrInfeasible}
+
+// Main runs plumb with the process's arguments and streams and returns the
+// exit code. It is the only place where errors are printed.
+func Main() int {
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
+	defer stop()
+	ios := SystemIO()
+	f := newFactory(ios)
+	root := newRootCmd(f)
+	root.SetArgs(os.Args[1:])
+	err := root.ExecuteContext(ctx)
+	return reportError(ios, err)
+}
+
+// reportError prints err (if any) on stderr and returns its exit code.
+func reportError(ios *IOStreams, err error) int {
+	if err == nil {
+		return exitOK
+	}
+	code := exitCode(err)
+	prefix := "plumb: "
+	if ios.IsStderrTTY() && ios.ColorEnabled() {
+		prefix = sgrRed + "plumb:" + sgrReset + " "
+	}
+	msg := err.Error()
+	if code == exitUsage && !strings.Contains(msg, "--help") {
+		msg += "\nrun `plumb --help` for usage"
+	}
+	fmt.Fprintln(ios.ErrOut, prefix+msg)
+	return code
+}
+
+// exitCode maps an error to the exit code documented in `plumb --help`.
+func exitCode(err error) int {
+	if err == nil {
+		return exitOK
+	}
+	for _, s := range infeasibleErrors {
+		if errors.Is(err, s) {
+			return exitInfeasible
+		}
+	}
+	var ue *usageError
+	if errors.As(err, &ue) {
+		return exitUsage
+	}
+	// cobra reports an unknown subcommand of the root with this text and
+	// no error type.
+	if strings.HasPrefix(err.Error(), "unknown command ") {
+		return exitUsage
+	}
+	return exitError
+}

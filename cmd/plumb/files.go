@@ -1,0 +1,51 @@
+package main
+
+import (
+	"bufio"
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"os"
+	"path/filepath"
+)
+
+// errFileExists is returned when an output file exists and --force is not
+// given.
+var errFileExists = errors.New("plumb: output file exists")
+
+// writeFileAtomic writes path through write, all or nothing: the content
+// goes to a temporary file beside path which is renamed over it only when
+// write succeeds. An existing path is refused unless force is set.
+func writeFileAtomic(path string, force bool, write func(io.Writer) error) error {
+	if _, err := os.Stat(path); err == nil && !force {
+		return fmt.Errorf("%w: %s: choose another name or add --force to replace it", errFileExists, path)
+	} else if err != nil && !errors.Is(err, fs.ErrNotExist) {
+		return fmt.Errorf("output file %s: %w", path, err)
+	}
+	dir := filepath.Dir(path)
+	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".*.tmp")
+	if err != nil {
+		return fmt.Errorf("output file %s: %w: check that the directory exists and is writable", path, err)
+	}
+	defer os.Remove(tmp.Name()) // no-op once renamed
+	bw := bufio.NewWriter(tmp)
+	if err := write(bw); err != nil {
+		tmp.Close()
+		return fmt.Errorf("writing %s: %w (nothing was written)", path, err)
+	}
+	if err := bw.Flush(); err != nil {
+		tmp.Close()
+		return fmt.Errorf("writing %s: %w (nothing was written)", path, err)
+	}
+	if err := tmp.Close(); err != nil {
+		return fmt.Errorf("writing %s: %w (nothing was written)", path, err)
+	}
+	if err := os.Chmod(tmp.Name(), 0o644); err != nil {
+		return fmt.Errorf("writing %s: %w", path, err)
+	}
+	if err := os.Rename(tmp.Name(), path); err != nil {
+		return fmt.Errorf("writing %s: %w (nothing was written)", path, err)
+	}
+	return nil
+}

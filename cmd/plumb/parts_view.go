@@ -1,0 +1,177 @@
+package main
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+
+	"plumb/catalog"
+	"plumb/catalog/units"
+)
+
+// partRow is one catalog part as `plumb catalog list` prints it.
+type partRow struct {
+	Kind       catalog.Kind
+	Part       string
+	Maker      string
+	Value      string // resistance, range or amplifier type
+	ValueOhm   float64
+	Tolerance  float64 // fraction; 0 = not applicable
+	TCR        float64 // ppm/K; 0 = not applicable
+	Package    string
+	Technology string
+	Offer      catalog.Offer
+	Detail     string
+}
+
+var partCSVHeader = []string{"kind", "part", "maker", "value", "value_ohm", "tolerance", "tcr_ppm", "package", "technology", "unit_price", "currency", "min_qty", "stock", "detail"}
+
+// partRows flattens a snapshot into rows in the snapshot's order: series,
+// resistors, networks, amplifiers.
+func partRows(s *catalog.Snapshot) []partRow {
+	var rows []partRow
+	for _, r := range s.ResistorSeries {
+		rows = append(rows, partRow{
+			Kind: catalog.KindSeries, Part: r.Part, Maker: r.Maker,
+			Value:     units.FormatOhms(r.MinOhm) + ".." + units.FormatOhms(r.MaxOhm),
+			Tolerance: r.Tolerance, TCR: r.TCR, Package: r.Package, Technology: r.Technology,
+			Offer:  r.Offer,
+			Detail: joinNonEmpty(r.ESeries, r.Technology, formatPower(r.PowerW), r.Line),
+		})
+	}
+	for _, r := range s.Resistors {
+		rows = append(rows, partRow{
+			Kind: catalog.KindResistor, Part: r.Part, Maker: r.Maker,
+			Value: units.FormatOhms(r.ValueOhm), ValueOhm: r.ValueOhm,
+			Tolerance: r.Tolerance, TCR: r.TCR, Package: r.Package, Technology: r.Technology,
+			Offer:  r.Offer,
+			Detail: joinNonEmpty(r.Technology, formatPower(r.PowerW), r.Line),
+		})
+	}
+	for _, n := range s.Networks {
+		vals := make([]string, len(n.Values))
+		for i, v := range n.Values {
+			vals[i] = units.FormatOhms(v)
+		}
+		rows = append(rows, partRow{
+			Kind: catalog.KindNetwork, Part: n.Part, Maker: n.Maker,
+			Value:     strings.Join(vals, "/"),
+			Tolerance: n.Tolerance, TCR: n.TCR, Package: n.Package, Technology: n.Technology,
+			Offer: n.Offer,
+			Detail: joinNonEmpty(n.Technology, "ratio "+units.FormatPercent(n.RatioTolerance),
+				"tracking "+units.FormatPPM(n.TCRTracking)),
+		})
+	}
+	for _, a := range s.Amplifiers {
+		rows = append(rows, amplifierRow(a))
+	}
+	return rows
+}
+
+func amplifierRow(a catalog.Amplifier) partRow {
+	r := partRow{Kind: catalog.KindAmplifier, Part: a.Part, Maker: a.Maker, Value: string(a.Type), Package: a.Package, Offer: a.Offer}
+	detail := []string{
+		fmt.Sprintf("%d ch", a.Channels),
+		"supply " + units.Format(a.SupplyMinV, "") + "-" + units.Format(a.SupplyMaxV, "V"),
+		"Vos " + units.Format(a.VosV, "V"),
+		"GBW " + units.Format(a.GBWHz, "Hz"),
+	}
+	if a.Type == catalog.MatchedAmp {
+		r.Tolerance, r.TCR = a.GainErrorMax, a.GainDriftPPM
+		gains := make([]string, len(a.Gains))
+		for i, g := range a.Gains {
+			gains[i] = strconv.FormatFloat(g, 'g', 4, 64)
+		}
+		detail = append([]string{"gain " + strings.Join(gains, ", ")}, detail...)
+	}
+	r.Detail = strings.Join(detail, ", ")
+	return r
+}
+
+// firstBreak returns the price break with the smallest quantity.
+func firstBreak(o catalog.Offer) (catalog.PriceBreak, bool) {
+	if len(o.PriceBreaks) == 0 {
+		return catalog.PriceBreak{}, false
+	}
+	b := o.PriceBreaks[0]
+	for _, x := range o.PriceBreaks[1:] {
+		if x.MinQty < b.MinQty {
+			b = x
+		}
+	}
+	return b, true
+}
+
+func (r partRow) table() []string {
+	price := "-"
+	if b, ok := firstBreak(r.Offer); ok {
+		price = formatMoney(b.UnitPrice, b.Currency)
+	}
+	return []string{string(r.Kind), r.Part, r.Maker, r.Value, optPercent(r.Tolerance), optPPM(r.TCR), r.Package, price, formatStock(r.Offer.Stock), r.Detail}
+}
+
+func (r partRow) csv() []string {
+	var price, cur, qty string
+	if b, ok := firstBreak(r.Offer); ok {
+		price, cur, qty = strconv.FormatFloat(b.UnitPrice, 'g', -1, 64), b.Currency, strconv.Itoa(b.MinQty)
+	}
+	valueOhm := ""
+	if r.ValueOhm > 0 {
+		valueOhm = strconv.FormatFloat(r.ValueOhm, 'g', -1, 64)
+	}
+	return []string{string(r.Kind), r.Part, r.Maker, r.Value, valueOhm,
+		strconv.FormatFloat(r.Tolerance, 'g', -1, 64), strconv.FormatFloat(r.TCR, 'g', -1, 64),
+		r.Package, r.Technology, price, cur, qty, strconv.Itoa(r.Offer.Stock), r.Detail}
+}
+
+func optPercent(f float64) string {
+	if f == 0 {
+		return "-"
+	}
+	return units.FormatPercent(f)
+}
+
+func optPPM(p float64) string {
+	if p == 0 {
+		return "-"
+	}
+	return strconv.FormatFloat(p, 'g', 4, 64) + " ppm/K"
+}
+
+func formatPower(w float64) string {
+	if w == 0 {
+		return ""
+	}
+	return units.Format(w, "W")
+}
+
+// formatMoney prints a price with two decimals, and up to four for
+// sub-unit prices so that a 0.0023 resistor does not read as 0.00.
+func formatMoney(v float64, currency string) string {
+	s := strconv.FormatFloat(v, 'f', 2, 64)
+	if math.Abs(v) < 1 {
+		s = strings.TrimRight(strconv.FormatFloat(v, 'f', 4, 64), "0")
+		if dot := strings.IndexByte(s, '.'); len(s)-dot-1 < 2 {
+			s = strconv.FormatFloat(v, 'f', 2, 64)
+		}
+	}
+	return strings.TrimSpace(s + " " + currency)
+}
+
+func formatStock(n int) string {
+	if n < 0 {
+		return "?"
+	}
+	return strconv.Itoa(n)
+}
+
+func joinNonEmpty(parts ...string) string {
+	var out []string
+	for _, p := range parts {
+		if p != "" {
+			out = append(out, p)
+		}
+	}
+	return strings.Join(out, ", ")
+}

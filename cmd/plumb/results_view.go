@@ -1,0 +1,189 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"maps"
+	"slices"
+	"strconv"
+	"strings"
+
+	"plumb/catalog/units"
+	"plumb/optimize/search"
+)
+
+// formatLimitValue prints a limit figure in the unit the limit is named
+// for: fractions as percent, drift in ppm/K, CMRR in dB, volts, hertz.
+func formatLimitValue(name string, v float64) string {
+	switch name {
+	case "gain error", "gain error initial":
+		return units.FormatPercent(v)
+	case "CMRR":
+		return strconv.FormatFloat(v, 'f', 1, 64) + " dB"
+	case "gain drift":
+		return strconv.FormatFloat(v, 'g', 3, 64) + " ppm/K"
+	case "output offset":
+		return units.Format(v, "V")
+	case "offset drift":
+		return units.Format(v, "V/K")
+	case "noise density":
+		return units.Format(v, "V/√Hz")
+	case "bandwidth":
+		return units.Format(v, "Hz")
+	}
+	return strconv.FormatFloat(v, 'g', 4, 64)
+}
+
+// formatMargin prints a margin ratio (above 1 passes).
+func formatMargin(m float64) string {
+	if m > 1e6 {
+		return "large"
+	}
+	return strconv.FormatFloat(m, 'f', 2, 64) + "x"
+}
+
+// printCautions prints safety cautions first and prominently.
+func printCautions(w io.Writer, ios *IOStreams, cautions []string) {
+	for _, c := range cautions {
+		fmt.Fprintln(w, ios.Bold(ios.Yellow("CAUTION:"))+" "+c)
+	}
+	if len(cautions) > 0 {
+		fmt.Fprintln(w)
+	}
+}
+
+// writeDesignParts prints a design's positions and parts.
+func writeDesignParts(w io.Writer, ios *IOStreams, d *search.Design) error {
+	t := newTable(ios, "POSITION", "KIND", "PART", "QTY", "VALUE", "TOL", "TCR", "UNIT PRICE").alignRight(3, 4, 5, 6, 7)
+	for _, p := range d.Parts {
+		value := "-"
+		if p.ValueOhm > 0 {
+			value = units.FormatOhms(p.ValueOhm)
+		}
+		tol := optPercent(p.Tolerance)
+		if p.RatioTolerance > 0 {
+			tol += " (ratio " + units.FormatPercent(p.RatioTolerance) + ")"
+		}
+		tcr := optPPM(p.TCRppm)
+		if p.TCRTracking > 0 {
+			tcr += " (track " + strconv.FormatFloat(p.TCRTracking, 'g', 3, 64) + ")"
+		}
+		t.row(p.Position, p.Kind, p.Part, strconv.Itoa(p.Quantity), value, tol, tcr, formatMoney(p.UnitPrice, d.Currency))
+	}
+	return t.render(w)
+}
+
+// writeLimits prints the limits a design is checked against.
+func writeLimits(w io.Writer, ios *IOStreams, ls []search.Limit) error {
+	t := newTable(ios, "LIMIT", "VALUE", "LIMIT", "MARGIN", "RESULT").alignRight(1, 2, 3)
+	for _, l := range ls {
+		res := ios.Green("pass")
+		if !l.Pass {
+			res = ios.Red("FAIL")
+		}
+		t.row(l.Name, formatLimitValue(l.Name, l.Value), formatLimitValue(l.Name, l.Limit), formatMargin(l.Margin), res)
+	}
+	return t.render(w)
+}
+
+// writeSolveTable prints a search result for a terminal or a pipe.
+func writeSolveTable(w io.Writer, ios *IOStreams, title string, r *search.Result, explain int) error {
+	printCautions(w, ios, r.Cautions)
+	fmt.Fprintf(w, "%s\n", ios.Bold(title))
+	fmt.Fprintf(w, "method %s; %d design classes, %d evaluated, %d skipped by bound\n\n",
+		r.Method, r.Search.Classes, r.Search.Evaluated, r.Search.BoundPruned)
+	if r.Infeasible != nil {
+		writeInfeasible(w, ios, r.Infeasible)
+	}
+	if len(r.Designs) > 0 {
+		t := newTable(ios, "RANK", "FAMILY", "PER STAGE", "BUILD", "BINDING", "MARGIN").alignRight(0, 2, 3, 5)
+		for _, d := range r.Designs {
+			margin := ""
+			for _, l := range d.Limits {
+				if l.Name == d.Binding {
+					margin = formatMargin(l.Margin)
+				}
+			}
+			t.row(strconv.Itoa(d.Rank), d.Family, formatMoney(d.UnitCost, d.Currency), formatMoney(d.TotalCost, d.Currency), d.Binding, margin)
+		}
+		if err := t.render(w); err != nil {
+			return err
+		}
+	}
+	for i := range r.Designs {
+		d := &r.Designs[i]
+		if explain > 0 && d.Rank != explain {
+			continue
+		}
+		fmt.Fprintf(w, "\n%s %s, %s per stage, %s for the build\n", ios.Bold("#"+strconv.Itoa(d.Rank)), d.Family,
+			formatMoney(d.UnitCost, d.Currency), formatMoney(d.TotalCost, d.Currency))
+		if err := writeDesignParts(w, ios, d); err != nil {
+			return err
+		}
+		if explain > 0 {
+			fmt.Fprintln(w)
+			if err := writeLimits(w, ios, d.Limits); err != nil {
+				return err
+			}
+		}
+		for _, why := range d.Reasons {
+			fmt.Fprintf(w, "  - %s\n", why)
+		}
+		if len(d.ShortStock) > 0 {
+			fmt.Fprintf(w, "  %s short of stock for the build: %s\n", ios.Yellow("!"), strings.Join(d.ShortStock, ", "))
+		}
+	}
+	if len(r.NearMisses) > 0 {
+		fmt.Fprintf(w, "\n%s\n", ios.Bold("Near misses (cheaper than rank 1, but failing):"))
+		t := newTable(ios, "FAMILY", "PER STAGE", "FAILS", "FIX").alignRight(1)
+		for _, nm := range r.NearMisses {
+			var fails []string
+			for _, f := range nm.Fails {
+				fails = append(fails, f.Text)
+			}
+			fix := "no single change found"
+			if nm.Fix != nil {
+				fix = fmt.Sprintf("%s (+%s per stage)", nm.Fix.Change, formatMoney(nm.Fix.ExtraCost, nm.Currency))
+			}
+			t.row(nm.Family, formatMoney(nm.UnitCost, nm.Currency), strings.Join(fails, "; "), fix)
+		}
+		if err := t.render(w); err != nil {
+			return err
+		}
+	}
+	for _, n := range r.Notes {
+		fmt.Fprintf(w, "\nnote: %s\n", n)
+	}
+	return nil
+}
+
+func writeInfeasible(w io.Writer, ios *IOStreams, inf *search.Infeasible) {
+	fmt.Fprintf(w, "%s %s\n", ios.Red("No design meets the spec:"), inf.Message)
+	if len(inf.Limits) > 0 {
+		t := newTable(ios, "LIMIT", "LIMIT VALUE", "BEST REACHABLE", "NEEDED").alignRight(1, 2)
+		for _, l := range inf.Limits {
+			t.row(l.Name, formatLimitValue(l.Name, l.Limit), formatLimitValue(l.Name, l.Best), l.Needed)
+		}
+		_ = t.render(w)
+	}
+	for _, name := range slices.Sorted(maps.Keys(inf.HardLimits)) {
+		fmt.Fprintf(w, "  %d amplifier(s) removed by %s\n", inf.HardLimits[name], name)
+	}
+	fmt.Fprintln(w)
+}
+
+// solveCSVHeader is the CSV form of a search result: one row per part of
+// each ranked design.
+var solveCSVHeader = []string{"rank", "family", "unit_cost", "total_cost", "currency", "binding", "position", "kind", "part", "quantity", "value_ohm", "tolerance", "tcr_ppm", "unit_price"}
+
+func solveCSVRows(r *search.Result) [][]string {
+	var rows [][]string
+	g := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+	for _, d := range r.Designs {
+		for _, p := range d.Parts {
+			rows = append(rows, []string{strconv.Itoa(d.Rank), d.Family, g(d.UnitCost), g(d.TotalCost), d.Currency, d.Binding,
+				p.Position, p.Kind, p.Part, strconv.Itoa(p.Quantity), g(p.ValueOhm), g(p.Tolerance), g(p.TCRppm), g(p.UnitPrice)})
+		}
+	}
+	return rows
+}

@@ -1,0 +1,170 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"time"
+
+	"github.com/spf13/cobra"
+
+	"plumb/catalog"
+	"plumb/optimize/search"
+	"plumb/optimize/spec"
+)
+
+type solveOptions struct {
+	IO      *IOStreams
+	Catalog catalogOpener
+	Now     func() time.Time
+	Spec    string
+	Top     int
+	Combos  bool
+	Format  string
+	Explain int
+	BOM     string
+	Force   bool
+	Quiet   bool
+}
+
+func newSolveCmd(f *Factory, runF func(*solveOptions) error) *cobra.Command {
+	opts := &solveOptions{IO: f.IO, Catalog: f.OpenCatalog, Now: f.Now}
+	cmd := &cobra.Command{
+		Use:   "solve SPEC",
+		Short: "Find the cheapest designs that meet every limit of a spec",
+		Long: `Search the catalog for the lowest-cost designs that meet every limit of the
+spec SPEC (a YAML file, or the name of an embedded example such as
+logger-channel) under its analysis method, and rank them: parts, cost per
+stage and for the build, the binding limit and why each design ranks where
+it does. Near misses (cheaper designs that fail) are listed with what they
+fail and the cheapest single change that fixes them.
+
+When no design meets the spec, plumb says which limits no part in the
+catalog can reach and exits with code 3.`,
+		Example: `  plumb solve logger-channel
+  plumb solve logger-channel --top 3 --explain 1
+  plumb solve logger-channel --format json
+  plumb solve logger-channel --bom logger-bom.csv`,
+		Args: exactArgs("SPEC"),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			opts.Spec = args[0]
+			var err error
+			if opts.Format, err = chooseFormat(cmd, f, opts.Format); err != nil {
+				return err
+			}
+			if !cmd.Flags().Changed(keyTop) {
+				opts.Top = f.Settings().Top
+			}
+			if opts.Top < 1 {
+				return usagef("--top %d: show at least 1 design", opts.Top)
+			}
+			if opts.Explain < 0 || opts.Explain > opts.Top {
+				return usagef("--explain %d: choose a rank from 1 to --top (%d)", opts.Explain, opts.Top)
+			}
+			opts.Quiet = f.Quiet
+			if runF != nil {
+				return runF(opts)
+			}
+			return runSolve(cmd, opts)
+		},
+	}
+	fl := cmd.Flags()
+	fl.IntVar(&opts.Top, keyTop, 5, "number of ranked designs (default: the configured top)")
+	fl.BoolVar(&opts.Combos, "combos", false, "allow two resistors in series at a position to close a ratio gap")
+	fl.IntVar(&opts.Explain, "explain", 0, "show the limits and reasons of design `N` only")
+	fl.StringVar(&opts.BOM, "bom", "", "write the purchasing list of design 1 (or --explain N) to `FILE`.csv")
+	fl.BoolVar(&opts.Force, "force", false, "replace an existing --bom file")
+	addFormatFlag(cmd, &opts.Format)
+	return cmd
+}
+
+func runSolve(cmd *cobra.Command, opts *solveOptions) error {
+	ctx := cmd.Context()
+	sp, err := loadSpecArg(opts.Spec)
+	if err != nil {
+		return err
+	}
+	st, err := opts.Catalog(ctx)
+	if err != nil {
+		return err
+	}
+	defer st.Close()
+	snap, err := st.Snapshot(ctx)
+	if err != nil {
+		return fmt.Errorf("reading the catalog: %w", err)
+	}
+	res, err := solveSpec(cmd, opts.IO, opts.Quiet, opts.Now, snap, sp, search.Options{Top: opts.Top, Combos: opts.Combos})
+	if res == nil {
+		return err
+	}
+	infeasible := errors.Is(err, search.ErrInfeasible)
+	if err != nil && !infeasible {
+		return err
+	}
+	switch opts.Format {
+	case "json":
+		if werr := writeJSON(opts.IO.Out, res); werr != nil {
+			return werr
+		}
+	case "csv":
+		if werr := writeCSV(opts.IO.Out, solveCSVHeader, solveCSVRows(res)); werr != nil {
+			return werr
+		}
+	default:
+		if werr := writeSolveTable(opts.IO.Out, opts.IO, solveTitle(sp), res, opts.Explain); werr != nil {
+			return werr
+		}
+	}
+	if infeasible {
+		return infeasibleError(sp, res)
+	}
+	if opts.BOM != "" {
+		rank := max(opts.Explain, 1)
+		if rank > len(res.Designs) {
+			return fmt.Errorf("--bom: the search found %d design(s), not %d", len(res.Designs), rank)
+		}
+		if err := writeSearchBOM(ctx, st, sp, res, rank, opts.BOM, opts.Force); err != nil {
+			return err
+		}
+		if !opts.Quiet {
+			fmt.Fprintf(opts.IO.ErrOut, "wrote the purchasing list of design %d to %s\n", rank, opts.BOM)
+		}
+	}
+	return nil
+}
+
+// solveSpec runs the search with a progress bar on a terminal.
+func solveSpec(cmd *cobra.Command, ios *IOStreams, quiet bool, now func() time.Time, snap *catalog.Snapshot, sp *spec.Spec, o search.Options) (*search.Result, error) {
+	pr := newProgress(ios, quiet, now)
+	o.Progress = pr.update
+	res, err := search.Solve(cmd.Context(), snap, sp, o)
+	pr.finish()
+	if err != nil && !errors.Is(err, search.ErrInfeasible) {
+		return nil, fmt.Errorf("solving %s: %w", specName(sp), err)
+	}
+	return res, err
+}
+
+func specName(sp *spec.Spec) string {
+	if sp.Name != "" {
+		return sp.Name
+	}
+	return sp.SourceFile
+}
+
+func solveTitle(sp *spec.Spec) string {
+	t := "Designs for " + specName(sp)
+	if sp.About != "" {
+		t += ": " + sp.About
+	}
+	return fmt.Sprintf("%s (%d stages)", t, max(sp.Build.Quantity, 1))
+}
+
+// infeasibleError is the error of an infeasible spec; it maps to exit
+// code 3.
+func infeasibleError(sp *spec.Spec, res *search.Result) error {
+	msg := "relax the limits the table names or add the parts it says are needed"
+	if res.Infeasible != nil && res.Infeasible.Message != "" {
+		msg = res.Infeasible.Message + ": " + msg
+	}
+	return fmt.Errorf("spec %s: %w: %s", specName(sp), search.ErrInfeasible, msg)
+}

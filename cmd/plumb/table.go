@@ -1,0 +1,206 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"strings"
+	"unicode/utf8"
+)
+
+// table prints rows as aligned columns. On a terminal the table is fitted to
+// the stream's width by wrapping the widest columns at spaces; elsewhere it
+// keeps every cell on one line so that scripts can read it.
+type table struct {
+	header []string
+	rows   [][]string
+	right  map[int]bool
+	width  int // 0: no limit
+}
+
+// columnGap is the space between two columns.
+const columnGap = 2
+
+// minWrapWidth is the narrowest a column is wrapped to.
+const minWrapWidth = 8
+
+func newTable(io *IOStreams, header ...string) *table {
+	t := &table{header: header, right: map[int]bool{}}
+	if io.IsStdoutTTY() {
+		t.width = io.width
+	}
+	return t
+}
+
+// alignRight right-aligns the given columns (numbers).
+func (t *table) alignRight(cols ...int) *table {
+	for _, c := range cols {
+		t.right[c] = true
+	}
+	return t
+}
+
+// row adds a row; missing cells are blank, extra cells are a programming
+// error.
+func (t *table) row(cells ...string) {
+	if len(cells) > len(t.header) {
+		panic(fmt.Sprintf("plumb: table row has %d cells for %d columns", len(cells), len(t.header)))
+	}
+	r := make([]string, len(t.header))
+	copy(r, cells)
+	t.rows = append(t.rows, r)
+}
+
+// render writes the table.
+func (t *table) render(w io.Writer) error {
+	n := len(t.header)
+	widths := make([]int, n)
+	for i, h := range t.header {
+		widths[i] = textWidth(h)
+	}
+	for _, r := range t.rows {
+		for i, c := range r {
+			widths[i] = max(widths[i], textWidth(c))
+		}
+	}
+	if t.width > 0 {
+		fitWidths(widths, t.header, t.width)
+	}
+	var b strings.Builder
+	t.writeRow(&b, t.header, widths)
+	for _, r := range t.rows {
+		t.writeRow(&b, r, widths)
+	}
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+// fitWidths narrows the widest columns until the table fits in limit
+// columns, never below the header's longest word or minWrapWidth.
+func fitWidths(widths []int, header []string, limit int) {
+	floor := make([]int, len(widths))
+	for i, h := range header {
+		floor[i] = minWrapWidth
+		for _, word := range strings.Fields(h) {
+			floor[i] = max(floor[i], textWidth(word))
+		}
+		floor[i] = min(floor[i], widths[i])
+	}
+	for {
+		total := columnGap * (len(widths) - 1)
+		for _, w := range widths {
+			total += w
+		}
+		if total <= limit {
+			return
+		}
+		widest := -1
+		for i, w := range widths {
+			if w > floor[i] && (widest < 0 || w > widths[widest]) {
+				widest = i
+			}
+		}
+		if widest < 0 {
+			return
+		}
+		widths[widest] -= min(total-limit, widths[widest]-floor[widest])
+	}
+}
+
+func (t *table) writeRow(b *strings.Builder, cells []string, widths []int) {
+	wrapped := make([][]string, len(cells))
+	lines := 1
+	for i, c := range cells {
+		wrapped[i] = wrapText(c, widths[i])
+		lines = max(lines, len(wrapped[i]))
+	}
+	for l := 0; l < lines; l++ {
+		var line strings.Builder
+		for i := range cells {
+			text := ""
+			if l < len(wrapped[i]) {
+				text = wrapped[i][l]
+			}
+			pad := widths[i] - textWidth(text)
+			if i > 0 {
+				line.WriteString(strings.Repeat(" ", columnGap))
+			}
+			if t.right[i] {
+				line.WriteString(strings.Repeat(" ", max(pad, 0)))
+				line.WriteString(text)
+			} else {
+				line.WriteString(text)
+				if i < len(cells)-1 {
+					line.WriteString(strings.Repeat(" ", max(pad, 0)))
+				}
+			}
+		}
+		b.WriteString(strings.TrimRight(line.String(), " "))
+		b.WriteByte('\n')
+	}
+}
+
+// wrapText breaks s into lines of at most width display columns, at spaces
+// where it can and inside a word only when the word alone is too long.
+func wrapText(s string, width int) []string {
+	if textWidth(s) <= width || width <= 0 {
+		return []string{s}
+	}
+	var lines []string
+	cur := ""
+	for _, word := range strings.Fields(s) {
+		for textWidth(word) > width {
+			if cur != "" {
+				lines = append(lines, cur)
+				cur = ""
+			}
+			head, tail := splitAtWidth(word, width)
+			lines = append(lines, head)
+			word = tail
+		}
+		switch {
+		case cur == "":
+			cur = word
+		case textWidth(cur)+1+textWidth(word) <= width:
+			cur += " " + word
+		default:
+			lines = append(lines, cur)
+			cur = word
+		}
+	}
+	if cur != "" {
+		lines = append(lines, cur)
+	}
+	return lines
+}
+
+func splitAtWidth(s string, width int) (string, string) {
+	n := 0
+	for i := range s {
+		if n == width {
+			return s[:i], s[i:]
+		}
+		n++
+	}
+	return s, ""
+}
+
+// textWidth is the number of display columns of s: runes, not counting ANSI
+// escape sequences. Every character plumb prints (Ω, ±, µ, °) is one column
+// wide.
+func textWidth(s string) int {
+	n := 0
+	for i := 0; i < len(s); {
+		if s[i] == 0x1b && i+1 < len(s) && s[i+1] == '[' {
+			j := i + 2
+			for j < len(s) && (s[j] < 0x40 || s[j] > 0x7e) {
+				j++
+			}
+			i = j + 1
+			continue
+		}
+		_, size := utf8.DecodeRuneInString(s[i:])
+		i += size
+		n++
+	}
+	return n
+}
