@@ -164,8 +164,22 @@ func genProblem(r *rand.Rand) Problem {
 	if r.IntN(3) == 0 {
 		p.Limits.TotalGainError = []float64{0.002, 0.01}[r.IntN(2)]
 	}
-	if r.IntN(5) == 0 {
-		p.CalGain = true
+	if r.IntN(4) == 0 {
+		p.Limits.OffsetDriftVK = []float64{1e-5, 1e-4}[r.IntN(2)]
 	}
+	if r.IntN(4) == 0 {
+		p.Limits.NoiseDensity = []float64{100e-9, 1e-6}[r.IntN(2)]
+	}
+	if r.IntN(4) == 0 {
+		p.ZinMinOhm = []float64{1e3, 20e3}[r.IntN(2)]
+	}
+	if r.IntN(4) == 0 {
+		p.BandwidthHz = []float64{1e3, 50e3}[r.IntN(2)]
+	}
+	if r.IntN(3) == 0 {
+		p.RMinOhm, p.RMaxOhm = 1e3, 200e3
+	}
+	p.CalGain = r.IntN(5) == 0
+	p.CalOffset = r.IntN(5) == 0
 	return p
 }

@@ -21,7 +21,7 @@ func TestBranchAndBoundMatchesExhaustive(t *testing.T) {
 	for i := range uint64(cases) {
 		seeds = append(seeds, 1000+i)
 	}
-	feasible := 0
+	feasible, classes, visited := 0, 0, 0
 	for _, seed := range seeds {
 		r := rand.New(rand.NewPCG(seed, 1))
 		parts := genParts(r, r.IntN(4), r.IntN(120), 1+r.IntN(5), r.IntN(6), 1+r.IntN(12))
@@ -39,7 +39,9 @@ func TestBranchAndBoundMatchesExhaustive(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		got, _, err := s.branchAndBound(context.Background(), n, nil)
+		got, st, err := s.branchAndBound(context.Background(), n, nil)
+		classes += st.classes
+		visited += st.visited
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -61,7 +63,7 @@ func TestBranchAndBoundMatchesExhaustive(t *testing.T) {
 	if feasible < len(seeds)/4 {
 		t.Errorf("only %d of %d random cases are feasible; the generator is too strict", feasible, len(seeds))
 	}
-	t.Logf("%d cases, %d feasible", len(seeds), feasible)
+	t.Logf("%d cases, %d feasible; the search visited %d of %d classes", len(seeds), feasible, visited, classes)
 }
 
 // regressions are random cases that once made the search and the
