@@ -3,6 +3,7 @@ package search
 import (
 	"fmt"
 	"math"
+	"sort"
 
 	"plumb/catalog"
 	"plumb/optimize/cost"
@@ -292,6 +293,7 @@ func (s *space) describe(b *classBest) (Design, *spec.Design, error) {
 		sd.Amplifier.Gain = s.matched[b.amp].k0
 	}
 	sortPositions(sd.Positions)
+	sort.SliceStable(parts, func(i, j int) bool { return parts[i].Position < parts[j].Position })
 	sd.Family = famName(fam)
 	sd.Amplifier.Part, sd.Amplifier.Amp, sd.Amplifier.Resolved = a.Part, *a, true
 	sd.Name = fmt.Sprintf("%s with %s", sd.Family, a.Part)
