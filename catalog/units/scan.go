@@ -11,17 +11,26 @@ import (
 // spaces U+2000..U+200A (thin space U+2009 among them), the narrow no-break
 // space U+202F, U+205F and the ideographic space U+3000.
 func spaceLen(s string, i int) int {
-	c := s[i]
-	switch {
-	case c == ' ' || c == '\t':
+	// Compare UTF-8 bytes directly: decoding every non-ASCII rune (Ω, µ, °)
+	// would dominate the cost of a parse.
+	switch s[i] {
+	case ' ', '\t':
 		return 1
-	case c < utf8.RuneSelf:
-		return 0
-	}
-	r, n := utf8.DecodeRuneInString(s[i:])
-	switch {
-	case r == 0x00A0, r >= 0x2000 && r <= 0x200A, r == 0x202F, r == 0x205F, r == 0x3000:
-		return n
+	case 0xC2: // U+00A0 is C2 A0
+		if i+1 < len(s) && s[i+1] == 0xA0 {
+			return 2
+		}
+	case 0xE2: // U+2000..U+200A, U+202F, U+205F are E2 80 80..8A, E2 80 AF, E2 81 9F
+		if i+2 < len(s) {
+			b1, b2 := s[i+1], s[i+2]
+			if b1 == 0x80 && (b2 <= 0x8A || b2 == 0xAF) && b2 >= 0x80 || b1 == 0x81 && b2 == 0x9F {
+				return 3
+			}
+		}
+	case 0xE3: // U+3000 is E3 80 80
+		if i+2 < len(s) && s[i+1] == 0x80 && s[i+2] == 0x80 {
+			return 3
+		}
 	}
 	return 0
 }
@@ -94,6 +103,9 @@ func foldEq(input, sym string) bool {
 // cutPlusMinus removes a leading "±", "+/-", "+-" or "+−" and reports
 // whether one was there.
 func cutPlusMinus(t string) (string, bool) {
+	if t == "" || (t[0] != '+' && t[0] != '-' && t[0] != 0xC2 && t[0] != 0xE2) {
+		return t, false
+	}
 	for _, p := range [...]string{"±", "+/-", "+-", "+−", "-/+", "∓"} {
 		if strings.HasPrefix(t, p) {
 			return skipSpaces(t[len(p):]), true
