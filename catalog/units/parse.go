@@ -21,7 +21,7 @@ var (
 	}
 	fractionKind = kind{
 		name: qFraction, symbols: []symbol{{"%", -2}, {"ppm", -6}},
-		bare: true, negative: true, pm: true, needUnit: "%",
+		bare: true, negative: true, pm: true,
 	}
 	percentKind = kind{
 		name: qPercent, symbols: []symbol{{"%", -2}, {"ppm", -6}},
@@ -140,7 +140,7 @@ func readInfix(s string) (v float64, reason string, ok bool) {
 	}
 	if rest := skipSpaces(t[j:]); rest != "" {
 		matched := false
-		for _, sym := range ohmSymbols[:4] {
+		for _, sym := range ohmSymbols[:4] { // not "R": "4k7R" names the point twice
 			if foldEq(rest, sym.text) {
 				matched = true
 			}
