@@ -1,29 +1,42 @@
 package main
 
 import (
+	"errors"
 	"fmt"
+	"time"
 
 	"github.com/spf13/cobra"
+
+	"plumb/data"
+	"plumb/optimize/search"
 )
 
-// demoSpec is the example spec `plumb demo` solves.
-const demoSpec = "logger-channel.yaml"
+// demoSpec is the embedded example spec `plumb demo` solves.
+const demoSpec = "logger-channel"
+
+// demoTop is the number of designs the demo shows.
+const demoTop = 3
 
 type demoOptions struct {
-	IO      *IOStreams
-	Catalog catalogOpener
-	Format  string
+	IO     *IOStreams
+	Now    func() time.Time
+	Format string
+	Quiet  bool
 }
 
 func newDemoCmd(f *Factory, runF func(*demoOptions) error) *cobra.Command {
-	opts := &demoOptions{IO: f.IO, Catalog: f.OpenCatalog}
+	opts := &demoOptions{IO: f.IO, Now: f.Now}
 	cmd := &cobra.Command{
 		Use:   "demo",
 		Short: "Run the whole job on the demo catalog and an example spec",
 		Long: `Run plumb end to end on the embedded demo catalog and the example spec
 ` + demoSpec + ` (a data-logger input channel): load the spec, search the
 catalog for the cheapest designs that meet every limit, and print the ranked
-result. The demo catalog and its parts are invented.`,
+designs with their parts, costs, binding limits and near misses.
+
+The demo always uses the embedded catalog, whatever --catalog says; its
+makers, parts and prices are invented. Run the same search on your own
+catalog with ` + "`plumb solve " + demoSpec + "`" + `.`,
 		Example: `  plumb demo
   plumb demo --format json`,
 		Args: noArgs,
@@ -32,6 +45,7 @@ result. The demo catalog and its parts are invented.`,
 			if opts.Format, err = chooseFormat(cmd, f, opts.Format); err != nil {
 				return err
 			}
+			opts.Quiet = f.Quiet
 			if runF != nil {
 				return runF(opts)
 			}
@@ -44,20 +58,42 @@ result. The demo catalog and its parts are invented.`,
 
 func runDemo(cmd *cobra.Command, opts *demoOptions) error {
 	ctx := cmd.Context()
-	st, err := opts.Catalog(ctx)
+	sp, err := loadSpecArg(demoSpec)
 	if err != nil {
 		return err
 	}
-	defer st.Close()
-	s, err := st.Stats(ctx)
+	st, err := data.Demo()
 	if err != nil {
-		return fmt.Errorf("counting the catalog: %w", err)
+		return fmt.Errorf("opening the embedded demo catalog: %w", err)
 	}
-	if opts.Format == "json" {
-		return writeJSON(opts.IO.Out, s)
+	defer st.Close()
+	snap, err := st.Snapshot(ctx)
+	if err != nil {
+		return fmt.Errorf("reading the embedded demo catalog: %w", err)
 	}
-	fmt.Fprintf(opts.IO.Out, "catalog: %d series (%d values), %d resistors, %d networks, %d amplifiers\n",
-		s.Series, s.SeriesValues, s.Resistors, s.Networks, s.Amplifiers)
-	fmt.Fprintln(opts.IO.Out, "the search is not built yet: this demo will solve "+demoSpec+" once it is")
+	res, err := solveSpec(cmd, opts.IO, opts.Quiet, opts.Now, snap, sp, search.Options{Top: demoTop})
+	if res == nil {
+		return err
+	}
+	infeasible := errors.Is(err, search.ErrInfeasible)
+	switch opts.Format {
+	case "json":
+		err = writeJSON(opts.IO.Out, res)
+	case "csv":
+		err = writeCSV(opts.IO.Out, solveCSVHeader, solveCSVRows(res))
+	default:
+		fmt.Fprintf(opts.IO.Out, "plumb demo: the example spec %s solved on the embedded demo catalog (%d series, %d resistors, %d networks, %d amplifiers; invented parts)\n\n",
+			demoSpec, len(snap.ResistorSeries), len(snap.Resistors), len(snap.Networks), len(snap.Amplifiers))
+		err = writeSolveTable(opts.IO.Out, opts.IO, solveTitle(sp), res, 0)
+		if err == nil && !infeasible {
+			fmt.Fprintf(opts.IO.Out, "\nnext: `plumb solve %s --explain 1` for the limits of design 1, `plumb solve %s --bom bom.csv` for its purchasing list\n", demoSpec, demoSpec)
+		}
+	}
+	if err != nil {
+		return err
+	}
+	if infeasible {
+		return infeasibleError(sp, res)
+	}
 	return nil
 }

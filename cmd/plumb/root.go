@@ -69,6 +69,7 @@ func newRootCmd(f *Factory) *cobra.Command {
 		newDemoCmd(f, nil),
 		newSolveCmd(f, nil),
 		newBOMCmd(f, nil),
+		newImportCmd(f, nil),
 		newCompletionCmd(f, nil),
 		newManCmd(f, nil),
 	)

@@ -3,6 +3,7 @@ package main
 import (
 	"errors"
 	"fmt"
+	"strings"
 	"time"
 
 	"github.com/spf13/cobra"
@@ -162,9 +163,13 @@ func solveTitle(sp *spec.Spec) string {
 // infeasibleError is the error of an infeasible spec; it maps to exit
 // code 3.
 func infeasibleError(sp *spec.Spec, res *search.Result) error {
-	msg := "relax the limits the table names or add the parts it says are needed"
-	if res.Infeasible != nil && res.Infeasible.Message != "" {
-		msg = res.Infeasible.Message + ": " + msg
+	why := ""
+	if res.Infeasible != nil {
+		why = strings.TrimPrefix(res.Infeasible.Message, search.ErrInfeasible.Error())
+		why = strings.TrimLeft(why, ";: ")
 	}
-	return fmt.Errorf("spec %s: %w: %s", specName(sp), search.ErrInfeasible, msg)
+	if why != "" {
+		why += "; "
+	}
+	return fmt.Errorf("spec %s: %w: %srelax the limits named above or add the parts they need", specName(sp), search.ErrInfeasible, why)
 }

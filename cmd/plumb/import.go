@@ -1,0 +1,249 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"path/filepath"
+	"slices"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/spf13/cobra"
+
+	"plumb/catalog"
+	"plumb/importers"
+)
+
+var importKinds = []string{"auto", string(catalog.KindResistor), string(catalog.KindNetwork), string(catalog.KindAmplifier)}
+
+type importOptions struct {
+	IO          *IOStreams
+	Catalog     catalogOpener
+	CatalogPath string // "" when the demo catalog is configured
+	MappingDir  string
+	Now         func() time.Time
+	Files       []string
+	Kind        catalog.Kind
+	Mapping     string
+	SaveMapping string
+	DryRun      bool
+	Source      string
+	Report      string
+	Force       bool
+	Format      string
+	Quiet       bool
+}
+
+func newImportCmd(f *Factory, runF func(*importOptions) error) *cobra.Command {
+	opts := &importOptions{IO: f.IO, Catalog: f.OpenCatalog, Now: f.Now}
+	var kind string
+	cmd := &cobra.Command{
+		Use:   "import FILE...",
+		Short: "Import distributor exports or approved-parts lists into the catalog",
+		Long: `Read CSV exports (any separator, decimal comma, BOM, UTF-16 or Windows-1252
+text), guess which column holds which field from the header (or use a saved
+mapping), parse every value and write the parts to the catalog in one
+transaction: all of the files' parts or none. Rows that cannot be used, or
+whose reading is in doubt, are reported with file, line and column.
+
+A part whose figures differ from the catalog's is reported as spec-changed
+and its catalog figures are kept. --dry-run reads and compares without
+writing, and works on the demo catalog too.`,
+		Example: `  plumb catalog init parts.db
+  plumb --catalog parts.db import export.csv --dry-run
+  plumb --catalog parts.db import export.csv --save-mapping mydist --report rows.csv
+  plumb --catalog parts.db import other.csv --mapping mydist --source "approved list 2026"`,
+		Args: func(cmd *cobra.Command, args []string) error {
+			if len(args) == 0 {
+				return usagef("%s needs at least one FILE", cmd.CommandPath())
+			}
+			return nil
+		},
+		RunE: func(cmd *cobra.Command, args []string) error {
+			opts.Files = args
+			k := strings.ToLower(strings.TrimSpace(kind))
+			if !slices.Contains(importKinds, k) {
+				return usagef("--kind %q: use one of %s", kind, strings.Join(importKinds, ", "))
+			}
+			if k != "auto" {
+				opts.Kind = catalog.Kind(k)
+			}
+			var err error
+			if opts.Format, err = chooseFormat(cmd, f, opts.Format); err != nil {
+				return err
+			}
+			opts.CatalogPath = f.Settings().Catalog
+			if dir, err := f.ConfigDir(); err == nil {
+				opts.MappingDir = filepath.Join(dir, "plumb", "mappings")
+			}
+			opts.Quiet = f.Quiet
+			if runF != nil {
+				return runF(opts)
+			}
+			return runImport(cmd.Context(), opts)
+		},
+	}
+	fl := cmd.Flags()
+	fl.StringVar(&kind, "kind", "auto", "kind of part in the files: "+strings.Join(importKinds, ", "))
+	fl.StringVar(&opts.Mapping, "mapping", "", "use the saved mapping `NAME`, or a mapping FILE.yaml, instead of guessing columns")
+	fl.StringVar(&opts.SaveMapping, "save-mapping", "", "save the mapping used as `NAME` for later imports")
+	fl.BoolVar(&opts.DryRun, "dry-run", false, "read, check and compare with the catalog, write nothing")
+	fl.StringVar(&opts.Source, "source", "", "provenance `LABEL` for the rows (default: each file's name)")
+	fl.StringVar(&opts.Report, "report", "", "write the row report (every skipped or doubtful row) to `FILE`.csv")
+	fl.BoolVar(&opts.Force, "force", false, "replace an existing --report file")
+	addFormatFlag(cmd, &opts.Format)
+	return cmd
+}
+
+func runImport(ctx context.Context, opts *importOptions) error {
+	if opts.CatalogPath == "" && !opts.DryRun {
+		return fmt.Errorf("import writes to a catalog file, and none is configured (the demo catalog is read-only): create one with `plumb catalog init parts.db` and import with `plumb --catalog parts.db import ...`, or add --dry-run")
+	}
+	io := importers.Options{Kind: opts.Kind, DryRun: opts.DryRun, Source: opts.Source, Now: opts.Now()}
+	if opts.Mapping != "" {
+		m, err := importers.LoadMapping(opts.MappingDir, opts.Mapping)
+		if err != nil {
+			return err
+		}
+		io.Mapping = m
+	}
+	st, err := opts.Catalog(ctx)
+	if err != nil {
+		return err
+	}
+	defer st.Close()
+	rep, err := importers.Import(ctx, st, opts.Files, io)
+	if err != nil {
+		return err
+	}
+	if opts.Report != "" {
+		if err := writeFileAtomic(opts.Report, opts.Force, rep.WriteCSV); err != nil {
+			return err
+		}
+		if !opts.Quiet {
+			fmt.Fprintf(opts.IO.ErrOut, "wrote the row report to %s\n", opts.Report)
+		}
+	}
+	if opts.SaveMapping != "" {
+		if err := saveImportMapping(opts, rep); err != nil {
+			return err
+		}
+	}
+	switch opts.Format {
+	case "json":
+		return writeJSON(opts.IO.Out, importView(rep))
+	case "csv":
+		return rep.WriteCSV(opts.IO.Out)
+	}
+	return writeImportTable(opts.IO.Out, opts.IO, rep)
+}
+
+func saveImportMapping(opts *importOptions, rep *importers.Report) error {
+	var m *importers.Mapping
+	for _, fr := range rep.Files {
+		if fr.Mapping != nil {
+			m = fr.Mapping
+			break
+		}
+	}
+	if m == nil {
+		return fmt.Errorf("--save-mapping %s: no file had a mapping to save", opts.SaveMapping)
+	}
+	path, err := importers.SaveMapping(opts.MappingDir, opts.SaveMapping, m)
+	if err != nil {
+		return fmt.Errorf("--save-mapping: %w", err)
+	}
+	if !opts.Quiet {
+		fmt.Fprintf(opts.IO.ErrOut, "saved the mapping of %s as %q (%s): reuse it with --mapping %s\n", rep.Files[0].File, opts.SaveMapping, path, opts.SaveMapping)
+	}
+	return nil
+}
+
+// importJSON is the JSON form of an import report, snake_case like the
+// catalog's own JSON.
+type importJSON struct {
+	DryRun      bool                   `json:"dry_run"`
+	Rows        int                    `json:"rows"`
+	Parts       int                    `json:"parts"`
+	Series      int                    `json:"series"`
+	Skipped     int                    `json:"skipped"`
+	Imported    int                    `json:"imported"`
+	Added       int                    `json:"added"`
+	Updated     int                    `json:"updated"`
+	Unchanged   int                    `json:"unchanged"`
+	SpecChanged int                    `json:"spec_changed"`
+	Files       []importFileJSON       `json:"files"`
+	Problems    []importProblemJSON    `json:"problems"`
+	Results     []catalog.UpsertResult `json:"results"`
+}
+
+type importFileJSON struct {
+	File     string       `json:"file"`
+	Kind     catalog.Kind `json:"kind"`
+	Rows     int          `json:"rows"`
+	Encoding string       `json:"encoding"`
+}
+
+type importProblemJSON struct {
+	File     string `json:"file"`
+	Line     int    `json:"line"`
+	Column   string `json:"column,omitempty"`
+	Part     string `json:"part,omitempty"`
+	Severity string `json:"severity"`
+	Raw      string `json:"raw,omitempty"`
+	Reason   string `json:"reason"`
+}
+
+func importView(rep *importers.Report) importJSON {
+	s := rep.Summary
+	v := importJSON{DryRun: s.DryRun, Rows: s.Rows, Parts: s.Parts, Series: s.Series, Skipped: s.Skipped, Imported: s.Imported,
+		Added: s.Added, Updated: s.Updated, Unchanged: s.Unchanged, SpecChanged: s.SpecChanged,
+		Files: []importFileJSON{}, Problems: []importProblemJSON{}, Results: rep.Results}
+	for _, f := range rep.Files {
+		v.Files = append(v.Files, importFileJSON{File: f.File, Kind: f.Kind, Rows: f.Rows, Encoding: f.Shape.Encoding})
+	}
+	for _, p := range rep.Problems {
+		v.Problems = append(v.Problems, importProblemJSON{File: p.File, Line: p.Line, Column: p.Column, Part: p.Part, Severity: string(p.Severity), Raw: p.Raw, Reason: p.Reason})
+	}
+	if v.Results == nil {
+		v.Results = []catalog.UpsertResult{}
+	}
+	return v
+}
+
+func writeImportTable(w io.Writer, ios *IOStreams, rep *importers.Report) error {
+	s := rep.Summary
+	verb := "imported"
+	if s.DryRun {
+		verb = "would import (dry run, nothing written)"
+	}
+	fmt.Fprintf(w, "%s %d part(s) from %d row(s): %d added, %d updated, %d unchanged, %d spec-changed; %d row(s) skipped\n",
+		verb, s.Imported, s.Rows, s.Added, s.Updated, s.Unchanged, s.SpecChanged, s.Skipped)
+	if s.Series > 0 {
+		fmt.Fprintf(w, "%d resistor series grouped from runs of rows\n", s.Series)
+	}
+	for _, f := range rep.Files {
+		fmt.Fprintf(w, "  %s: %d row(s) of %s, %s\n", f.File, f.Rows, f.Kind, f.Shape.Encoding)
+	}
+	if len(rep.Problems) == 0 {
+		return nil
+	}
+	fmt.Fprintf(w, "\n%s\n", ios.Bold("Rows to look at:"))
+	t := newTable(ios, "WHERE", "COLUMN", "PART", "SEVERITY", "REASON")
+	for _, p := range rep.Problems {
+		where := p.File
+		if p.Line > 0 {
+			where += ":" + strconv.Itoa(p.Line)
+		}
+		sev := string(p.Severity)
+		if p.Severity == importers.Skip {
+			sev = ios.Red(sev)
+		} else if p.Severity == importers.Doubt {
+			sev = ios.Yellow(sev)
+		}
+		t.row(where, p.Column, p.Part, sev, p.Reason)
+	}
+	return t.render(w)
+}
