@@ -13,20 +13,20 @@ import (
 // amplifiers that pass the hard limits, and resistor configurations (a
 // grade group per position, or a network) with their value options.
 type space struct {
-	p       *Problem
-	rss     bool
-	k, w    float64 // target ratio Rf/Rg and quantization window
-	dT      float64
-	tempK   float64 // hottest ambient, K (resistor noise)
-	vG, vF  float64 // largest voltage across an Rg and an Rf position
-	perPos  int     // placements per stage of each of Rg and Rf (2 or 1)
-	combos  bool
-	groups  []*group
-	amps    []amp // op-amps
-	matched []amp
-	cfgs    []config
-	why     hardReason
-	nets    []*catalog.Network
+	p                *Problem
+	rss              bool
+	k, w             float64 // target ratio Rf/Rg and quantization window
+	dT               float64
+	tempK            float64 // hottest ambient, K (resistor noise)
+	vG, vF           float64 // largest voltage across an Rg and an Rf position
+	perPos           int     // placements per stage of each of Rg and Rf (2 or 1)
+	series, parallel bool    // two values at a feedback position
+	groups           []*group
+	amps             []amp // op-amps
+	matched          []amp
+	cfgs             []config
+	why              hardReason
+	nets             []*catalog.Network
 }
 
 // config is a resistor configuration: the grade groups at the Rg and Rf
@@ -47,12 +47,13 @@ type config struct {
 type option struct {
 	k0, rp      float64
 	rg, rf, rf2 int32 // value indexes in the groups; rf2 = -1 without a combination
+	par         bool  // rf and rf2 in parallel (else in series)
 	cost        float64
 	short       bool
 }
 
 func newSpace(parts *Parts, p *Problem, combos bool) (*space, error) {
-	s := &space{p: p, rss: p.Method != WorstCase, k: p.ratio(), w: p.window(), dT: p.deltaT(), tempK: p.TMax + 273.15, combos: combos, perPos: 1}
+	s := &space{p: p, rss: p.Method != WorstCase, k: p.ratio(), w: p.window(), dT: p.deltaT(), tempK: p.TMax + 273.15, series: combos || p.SeriesPairs, parallel: combos || p.ParallelPairs, perPos: 1}
 	if p.Circuit == Difference {
 		s.perPos = 2
 	}
@@ -297,29 +298,49 @@ func (s *space) options(c *config) []option {
 			}
 			s.addOption(c, ga, gb, i, jj, -1, rg, rf)
 		}
-		if !s.combos || j == 0 || bestErr == 0 {
+		if bestErr == 0 {
 			continue
 		}
-		x := gb.values[j-1]
-		rest := target - x
-		m := sort.SearchFloat64s(gb.values, rest)
-		for _, mm := range [2]int{m - 1, m} {
-			if mm < 0 || mm >= len(gb.values) {
-				continue
-			}
-			y := gb.values[mm]
-			rf := x + y
-			e := math.Abs(rf/target - 1)
-			if e >= bestErr || e > s.w || !s.zinOK(rg, rf) ||
-				!s.ratingOK(gb.grade.PowerW, gb.grade.MaxVoltageV, x, s.vF*x/rf) ||
-				!s.ratingOK(gb.grade.PowerW, gb.grade.MaxVoltageV, y, s.vF*y/rf) {
-				continue
-			}
-			s.addOption(c, ga, gb, i, j-1, mm, rg, rf)
+		if s.series && j > 0 {
+			// x the largest value below the target, y nearest the rest.
+			x := gb.values[j-1]
+			s.pairOptions(c, ga, gb, i, j-1, rg, target, target-x, bestErr, false)
+		}
+		if s.parallel && j < len(gb.values) {
+			// x the smallest value above the target, y with x∥y = target.
+			x := gb.values[j]
+			s.pairOptions(c, ga, gb, i, j, rg, target, x*target/(x-target), bestErr, true)
 		}
 	}
 	sort.SliceStable(c.opts, func(i, j int) bool { return c.opts[i].cost < c.opts[j].cost })
 	return c.opts
+}
+
+// pairOptions adds the options with gb value x (index jx) and the gb
+// values just below and above want, in series or in parallel, when the pair
+// is nearer the target than the best single value.
+func (s *space) pairOptions(c *config, ga, gb *group, i, jx int, rg, target, want, bestErr float64, par bool) {
+	x := gb.values[jx]
+	m := sort.SearchFloat64s(gb.values, want)
+	for _, mm := range [2]int{m - 1, m} {
+		if mm < 0 || mm >= len(gb.values) {
+			continue
+		}
+		y := gb.values[mm]
+		rf, vx, vy := x+y, s.vF*x/(x+y), s.vF*y/(x+y)
+		if par {
+			rf, vx, vy = x*y/(x+y), s.vF, s.vF
+		}
+		e := math.Abs(rf/target - 1)
+		if e >= bestErr || e > s.w || !s.zinOK(rg, rf) ||
+			!s.ratingOK(gb.grade.PowerW, gb.grade.MaxVoltageV, x, vx) ||
+			!s.ratingOK(gb.grade.PowerW, gb.grade.MaxVoltageV, y, vy) {
+			continue
+		}
+		if n := len(c.opts); s.addOption(c, ga, gb, i, jx, mm, rg, rf) && par {
+			c.opts[n].par = true
+		}
+	}
 }
 
 // resetOptions forgets the value options of the discrete configurations
@@ -334,7 +355,7 @@ func (s *space) resetOptions() {
 
 // addOption prices a value choice, merging positions that use one part
 // number into one line, and appends it unless stock excludes it.
-func (s *space) addOption(c *config, ga, gb *group, i, j, j2 int, rg, rf float64) {
+func (s *space) addOption(c *config, ga, gb *group, i, j, j2 int, rg, rf float64) bool {
 	type line struct {
 		g     *group
 		idx   int
@@ -365,14 +386,15 @@ func (s *space) addOption(c *config, ga, gb *group, i, j, j2 int, rg, rf float64
 		place += ln.place
 		if st := ln.g.stock[ln.idx]; st >= 0 && st < ln.g.qty[ln.place] && s.p.Build.Stock != cost.StockIgnore {
 			if s.p.Build.Stock == cost.StockExclude {
-				return
+				return false
 			}
 			o.short = true
 		}
 	}
 	if math.IsNaN(o.cost) {
-		return
+		return false
 	}
 	o.cost += s.assembly(place, n)
 	c.opts = append(c.opts, o)
+	return true
 }

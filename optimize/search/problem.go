@@ -113,6 +113,9 @@ type Problem struct {
 	CalGain, CalOffset bool
 	Limits             Limits
 	Build              cost.Build
+	// SeriesPairs and ParallelPairs allow two values in series or in
+	// parallel at a feedback position (Options.Combos allows both).
+	SeriesPairs, ParallelPairs bool
 }
 
 // Defaults for a zero Problem field.

@@ -15,8 +15,9 @@ import (
 type Options struct {
 	// Top is the number of ranked designs (default 5).
 	Top int
-	// Combos allows two values in series at a feedback position where that
-	// brings the ratio nearer the target.
+	// Combos allows two values in series or in parallel at a feedback
+	// position where that brings the ratio nearer the target than any
+	// single value of the grade.
 	Combos bool
 	// Progress, when set, is called now and then with the classes visited
 	// and the classes in the search space.
@@ -282,7 +283,11 @@ func (s *space) describe(b *classBest) (Design, *spec.Design, error) {
 			for _, pos := range rfPos {
 				if o.rf2 >= 0 {
 					e1, e2 := add(pos+".a", gb, o.rf), add(pos+".b", gb, o.rf2)
-					sd.Positions = append(sd.Positions, spec.Position{Name: pos, Pair: spec.Series, Elements: []spec.Element{e1, e2}})
+					pair := spec.Series
+					if o.par {
+						pair = spec.Parallel
+					}
+					sd.Positions = append(sd.Positions, spec.Position{Name: pos, Pair: pair, Elements: []spec.Element{e1, e2}})
 				} else {
 					sd.Positions = append(sd.Positions, spec.Position{Name: pos, Elements: []spec.Element{add(pos, gb, o.rf)}})
 				}

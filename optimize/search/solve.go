@@ -26,11 +26,6 @@ func Solve(ctx context.Context, snap *catalog.Snapshot, s *spec.Spec, opt Option
 	if err != nil {
 		return nil, err
 	}
-	for _, c := range s.Combos {
-		if c == spec.Series {
-			opt.Combos = true
-		}
-	}
 	parts := &Parts{Series: snap.ResistorSeries, Resistors: snap.Resistors, Networks: snap.Networks, Amplifiers: snap.Amplifiers}
 	r, err := SolveProblem(ctx, parts, p, opt)
 	if r != nil {
@@ -53,6 +48,10 @@ func FromSpec(s *spec.Spec) (Problem, error) {
 			PerLineItem: s.Build.LineItemCost, Currency: s.Build.Currency}}
 	if s.Reference != nil {
 		p.Ref = s.Reference.V
+	}
+	for _, c := range s.Combos {
+		p.SeriesPairs = p.SeriesPairs || c == spec.Series
+		p.ParallelPairs = p.ParallelPairs || c == spec.Parallel
 	}
 	switch s.Build.Stock {
 	case "exclude":
