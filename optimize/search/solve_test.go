@@ -75,7 +75,7 @@ func TestSolveHandWorked(t *testing.T) {
 		})
 	}
 	d := res.Designs[0]
-	want := map[string]string{"R1": "TC10-1000", "R3": "TC10-1000", "R2": "TC10-10000", "R4": "TC10-10000", "U1": "OPQ-2"}
+	want := map[string]string{"R1": "TC10-1K00", "R3": "TC10-1K00", "R2": "TC10-10K0", "R4": "TC10-10K0", "U1": "OPQ-2"}
 	for _, p := range d.Parts {
 		if want[p.Position] != p.Part {
 			t.Errorf("%s is %s, want %s", p.Position, p.Part, want[p.Position])

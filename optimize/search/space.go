@@ -57,11 +57,6 @@ func appendGradeKey(b []byte, g *catalog.ResistorGrade, o *catalog.Offer) []byte
 	return b
 }
 
-// seriesPart is the order code of one value of a series: the stem and the
-// value in ohm.
-func seriesPart(rs *catalog.ResistorSeries, v float64) string {
-	return rs.Part + "-" + strconv.FormatFloat(v, 'f', -1, 64)
-}
 
 // resistorRow is one orderable resistor value, from a row or a series.
 type resistorRow struct {
@@ -130,7 +125,7 @@ func buildGroups(parts *Parts, p *Problem) ([]*group, error) {
 		}
 		var g *group
 		for _, v := range es.Values(lo, hi) {
-			r := resistorRow{seriesPart(rs, v), v, rs.Stock, rs.ResistorGrade, &rs.Offer}
+			r := resistorRow{rs.PartNumber(v), v, rs.Stock, rs.ResistorGrade, &rs.Offer}
 			if g == nil {
 				g = groupOf(&r.grade, r.offer)
 			}
