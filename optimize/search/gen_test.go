@@ -170,6 +170,9 @@ func genProblem(r *rand.Rand) Problem {
 	if r.IntN(4) == 0 {
 		p.Limits.NoiseDensity = []float64{100e-9, 1e-6}[r.IntN(2)]
 	}
+	if r.IntN(5) == 0 {
+		p.Limits.NoiseRMS = []float64{50e-6, 500e-6}[r.IntN(2)]
+	}
 	if r.IntN(4) == 0 {
 		p.ZinMinOhm = []float64{1e3, 20e3}[r.IntN(2)]
 	}

@@ -15,6 +15,7 @@ type metrics struct {
 	offset   float64 // output offset over temperature, V
 	offDrift float64 // output offset drift, V/K
 	noise    float64 // output noise density, V/√Hz
+	noiseRMS float64 // output noise over π/2 x the closed-loop bandwidth, V
 	bw       float64 // closed-loop bandwidth, Hz
 }
 
@@ -150,6 +151,13 @@ func (s *space) eval(g *grades, k0, rp float64, a *amp, m *metrics) {
 		m.gain = -m.gain
 	}
 	m.bw = am.GBWHz / ng
+	m.noiseRMS = rmsNoise(m.noise, m.bw)
+}
+
+// rmsNoise integrates a white density over the noise bandwidth of a
+// single pole, π/2 x f-3dB (common practice).
+func rmsNoise(density, bw float64) float64 {
+	return density * math.Sqrt(math.Pi/2*bw)
 }
 
 // offset fills the output offset: NG·(Vos + bias) initially plus
@@ -193,6 +201,7 @@ func (s *space) evalMatched(a *amp, m *metrics) {
 	m.noise = noiseDensity(ng, am.NoiseVHz, am.NoiseAHz, am.InternalOhm/2, s.tempK, 2)
 	m.gain = a.k0
 	m.bw = am.GBWHz / ng
+	m.noiseRMS = rmsNoise(m.noise, m.bw)
 }
 
 // pass reports whether metrics m meet every limit.
@@ -204,7 +213,8 @@ func (s *space) pass(m *metrics) bool {
 		(l.CMRRdB == 0 || m.cmrrDB >= l.CMRRdB) &&
 		(l.OffsetV == 0 || m.offset <= l.OffsetV) &&
 		(l.OffsetDriftVK == 0 || m.offDrift <= l.OffsetDriftVK) &&
-		(l.NoiseDensity == 0 || m.noise <= l.NoiseDensity)
+		(l.NoiseDensity == 0 || m.noise <= l.NoiseDensity) &&
+		(l.NoiseRMS == 0 || m.noiseRMS <= l.NoiseRMS)
 }
 
 // boundSafety shrinks a lower bound by a few parts in 10^12 so that
@@ -257,10 +267,11 @@ func (s *space) bound(g *grades, a *amp, m *metrics) {
 		}
 	}
 	m.cmrrDB = toDB(inv * boundSafety)
-	m.offset, m.offDrift, m.noise = 0, 0, 0
+	m.offset, m.offDrift, m.noise, m.noiseRMS = 0, 0, 0, 0
 	if a != nil {
 		s.offset(m, 1+kmin, a.a.VosV, 0, a.a.VosDriftVK)
 		m.noise = (1 + kmin) * a.a.NoiseVHz
+		m.noiseRMS = rmsNoise(m.noise, a.a.GBWHz/(1+kmax))
 	}
 	m.gainErr *= boundSafety
 	m.totalErr *= boundSafety
@@ -268,4 +279,5 @@ func (s *space) bound(g *grades, a *amp, m *metrics) {
 	m.offset *= boundSafety
 	m.offDrift *= boundSafety
 	m.noise *= boundSafety
+	m.noiseRMS *= boundSafety
 }

@@ -73,6 +73,9 @@ type Limits struct {
 	OffsetDriftVK float64
 	// NoiseDensity is the largest output noise density, V/√Hz.
 	NoiseDensity float64
+	// NoiseRMS is the largest output noise over the closed-loop noise
+	// bandwidth, V.
+	NoiseRMS float64
 }
 
 // Problem is the requirement the search works on: what the stage must do,

@@ -98,6 +98,7 @@ type Metrics struct {
 	OutputOffsetV    float64 `json:"output_offset_v"`
 	OffsetDriftVPerK float64 `json:"offset_drift_v_per_k"`
 	NoiseDensity     float64 `json:"noise_v_per_rthz"`
+	NoiseRMSV        float64 `json:"noise_rms_v"`
 	BandwidthHz      float64 `json:"bandwidth_hz"`
 }
 
@@ -168,6 +169,7 @@ const (
 	limOffset      = "output offset"
 	limOffDrift    = "offset drift"
 	limNoise       = "noise density"
+	limNoiseRMS    = "noise RMS"
 	limBandwidth   = "bandwidth"
 )
 
@@ -193,6 +195,7 @@ func (s *space) limitSet(m *metrics) []Limit {
 	max(limOffset, m.offset, l.OffsetV)
 	max(limOffDrift, m.offDrift, l.OffsetDriftVK)
 	max(limNoise, m.noise, l.NoiseDensity)
+	max(limNoiseRMS, m.noiseRMS, l.NoiseRMS)
 	if s.p.BandwidthHz > 0 {
 		out = append(out, Limit{limBandwidth, m.bw, s.p.BandwidthHz, m.bw / s.p.BandwidthHz, m.bw >= s.p.BandwidthHz})
 	}
@@ -211,7 +214,7 @@ func binding(ls []Limit) (Limit, bool) {
 
 func toMetrics(m *metrics) Metrics {
 	return Metrics{Gain: m.gain, GainError: m.totalErr, GainErrorInitial: m.gainErr, CMRRdB: m.cmrrDB,
-		DriftPPMPerK: m.drift, OutputOffsetV: m.offset, OffsetDriftVPerK: m.offDrift, NoiseDensity: m.noise, BandwidthHz: m.bw}
+		DriftPPMPerK: m.drift, OutputOffsetV: m.offset, OffsetDriftVPerK: m.offDrift, NoiseDensity: m.noise, NoiseRMSV: m.noiseRMS, BandwidthHz: m.bw}
 }
 
 // famName is the spec family a search family builds.

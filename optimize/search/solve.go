@@ -43,7 +43,7 @@ func FromSpec(s *spec.Spec) (Problem, error) {
 		ZinMinOhm: s.Limits.InputImpedance, RMinOhm: s.Impedance.Min, RMaxOhm: s.Impedance.Max,
 		Derating: s.Derating, Method: Method(s.Analysis.Method), CalGain: s.Calibrate.Gain, CalOffset: s.Calibrate.Offset,
 		Limits: Limits{TotalGainError: s.Limits.GainError, DriftPPM: s.Limits.GainDrift * 1e6, CMRRdB: s.Limits.CMRRdB,
-			OffsetV: s.Limits.OutputOffsetV, OffsetDriftVK: s.Limits.OffsetDriftVK, NoiseDensity: s.Limits.NoiseDensity},
+			OffsetV: s.Limits.OutputOffsetV, OffsetDriftVK: s.Limits.OffsetDriftVK, NoiseDensity: s.Limits.NoiseDensity, NoiseRMS: s.Limits.NoiseRMSV},
 		Build: cost.Build{Quantity: s.Build.Quantity, Attrition: s.Build.Attrition, PerPlacement: s.Build.PlacementCost,
 			PerLineItem: s.Build.LineItemCost, Currency: s.Build.Currency}}
 	if s.Reference != nil {
@@ -188,6 +188,8 @@ func limitText(l Limit) string {
 		return fmt.Sprintf("%.3g V/K", l.Value)
 	case limNoise:
 		return fmt.Sprintf("%.3g V/√Hz", l.Value)
+	case limNoiseRMS:
+		return fmt.Sprintf("%.3g V", l.Value)
 	case limBandwidth:
 		return fmt.Sprintf("%.3g Hz", l.Value)
 	}
@@ -354,7 +356,7 @@ func (s *space) dominant(b *classBest, limit string) (string, float64) {
 			if limit == limOffDrift {
 				ts = ts[1:2]
 			}
-		case limNoise:
+		case limNoise, limNoiseRMS:
 			ts = []term{{"amplifier voltage noise", a.a.NoiseVHz * a.a.NoiseVHz}, {"resistor thermal noise", 4 * boltzmann * s.tempK * o.rp},
 				{"amplifier current noise in the resistors", math.Pow(a.a.NoiseAHz*o.rp, 2)}}
 		default:
@@ -365,7 +367,7 @@ func (s *space) dominant(b *classBest, limit string) (string, float64) {
 	best := term{"", -1}
 	for _, t := range ts {
 		v := math.Abs(t.v)
-		if s.rss && limit != limNoise {
+		if s.rss && limit != limNoise && limit != limNoiseRMS {
 			v *= v
 		}
 		sum += v
@@ -555,7 +557,7 @@ func (s *space) infeasible() *Infeasible {
 	}
 	if len(s.amps) > 0 && len(s.cfgs) > 0 {
 		combined := metrics{gainErr: bestCfg.gainErr, totalErr: bestCfg.totalErr, drift: bestCfg.drift,
-			cmrrDB: toDB(dbInv(bestCfg.cmrrDB) + dbInv(bestAmp.cmrrDB)), offset: bestAmp.offset, offDrift: bestAmp.offDrift, noise: bestAmp.noise}
+			cmrrDB: toDB(dbInv(bestCfg.cmrrDB) + dbInv(bestAmp.cmrrDB)), offset: bestAmp.offset, offDrift: bestAmp.offDrift, noise: bestAmp.noise, noiseRMS: bestAmp.noiseRMS}
 		take(&combined)
 	}
 	for mi := range s.matched {
@@ -586,6 +588,8 @@ func (s *space) infeasible() *Infeasible {
 		fmt.Sprintf("an amplifier with offset drift <= %.3g V/K", l.OffsetDriftVK/ng))
 	add(limNoise, l.NoiseDensity, best.noise, best.noise > l.NoiseDensity,
 		fmt.Sprintf("an amplifier with voltage noise <= %.3g V/√Hz and lower resistor values", l.NoiseDensity/ng))
+	add(limNoiseRMS, l.NoiseRMS, best.noiseRMS, best.noiseRMS > l.NoiseRMS,
+		"an amplifier with lower voltage noise or less gain-bandwidth, and lower resistor values")
 	if len(inf.Limits) == 0 {
 		inf.Message += "; each limit can be met by some part, but no single design meets them all at once"
 	}
@@ -593,7 +597,7 @@ func (s *space) infeasible() *Infeasible {
 }
 
 func worstMetrics() metrics {
-	return metrics{gainErr: math.Inf(1), totalErr: math.Inf(1), drift: math.Inf(1), cmrrDB: math.Inf(-1), offset: math.Inf(1), offDrift: math.Inf(1), noise: math.Inf(1)}
+	return metrics{gainErr: math.Inf(1), totalErr: math.Inf(1), drift: math.Inf(1), cmrrDB: math.Inf(-1), offset: math.Inf(1), offDrift: math.Inf(1), noise: math.Inf(1), noiseRMS: math.Inf(1)}
 }
 
 func merge(b, m *metrics) {
@@ -604,6 +608,7 @@ func merge(b, m *metrics) {
 	b.offset = math.Min(b.offset, m.offset)
 	b.offDrift = math.Min(b.offDrift, m.offDrift)
 	b.noise = math.Min(b.noise, m.noise)
+	b.noiseRMS = math.Min(b.noiseRMS, m.noiseRMS)
 }
 
 // IsInfeasible reports whether err says that no design meets the spec.

@@ -57,7 +57,6 @@ func appendGradeKey(b []byte, g *catalog.ResistorGrade, o *catalog.Offer) []byte
 	return b
 }
 
-
 // resistorRow is one orderable resistor value, from a row or a series.
 type resistorRow struct {
 	part  string
