@@ -94,14 +94,66 @@ func (b *bulk) close() {
 	}
 }
 
+// maxJSONBulk bounds the JSON text of one json_each insert, bytes.
+const maxJSONBulk = 1 << 20
+
+// jsonBulk inserts rows given as one JSON array of arrays, expanded in
+// SQLite by json_each: one bound parameter per statement instead of one per
+// value, which is most of the per-row cost of the driver.
+type jsonBulk struct {
+	ctx   context.Context
+	tx    *sqlx.Tx
+	query string // INSERT ... SELECT ... FROM json_each(?)
+	buf   []byte
+	rows  int
+}
+
+// newJSONBulk prepares an insert of the given columns of table from JSON
+// rows whose elements are the columns in order.
+func newJSONBulk(ctx context.Context, tx *sqlx.Tx, table string, cols []string) *jsonBulk {
+	sel := make([]string, len(cols))
+	for i := range cols {
+		sel[i] = "value->>" + strconv.Itoa(i)
+	}
+	return &jsonBulk{ctx: ctx, tx: tx, buf: []byte{'['},
+		query: "INSERT INTO " + table + " (" + strings.Join(cols, ", ") + ") SELECT " + strings.Join(sel, ", ") + " FROM json_each(?)"}
+}
+
+// row starts a row and returns the buffer to append its elements to,
+// comma-separated, without brackets; end closes it.
+func (j *jsonBulk) row() []byte {
+	if j.rows > 0 {
+		j.buf = append(j.buf, ',')
+	}
+	return append(j.buf, '[')
+}
+
+func (j *jsonBulk) end(buf []byte) error {
+	j.buf = append(buf, ']')
+	j.rows++
+	if len(j.buf) >= maxJSONBulk {
+		return j.flush()
+	}
+	return nil
+}
+
+func (j *jsonBulk) flush() error {
+	if j.rows == 0 {
+		return nil
+	}
+	j.buf = append(j.buf, ']')
+	_, err := j.tx.ExecContext(j.ctx, j.query, string(j.buf))
+	j.buf, j.rows = append(j.buf[:0], '['), 0
+	return err
+}
+
 // upsertRun is the state of one Upsert transaction.
 type upsertRun struct {
 	ctx     context.Context
 	tx      *sqlx.Tx
 	opt     UpsertOptions
 	now     time.Time
-	breaks  *bulk
-	history *bulk
+	history *jsonBulk
 	results []UpsertResult
 }
 
@@ -132,10 +184,7 @@ func (s *Store) upsert(ctx context.Context, b *Batch, opt UpsertOptions) (_ []Up
 	if _, err := u.tx.ExecContext(ctx, "PRAGMA defer_foreign_keys = ON"); err != nil {
 		return nil, err
 	}
-	u.breaks = newBulk(ctx, u.tx, "price_breaks", []string{"kind", "part_id", "min_qty", "unit_price", "currency"})
-	u.history = newBulk(ctx, u.tx, "part_history", []string{"part", "kind", "source", "imported_at", "outcome", "figures", "changes"})
-	defer u.breaks.close()
-	defer u.history.close()
+	u.history = newJSONBulk(ctx, u.tx, "part_history", []string{"part", "kind", "source", "imported_at", "outcome", "figures", "changes"})
 	u.results = make([]UpsertResult, 0, b.Len())
 	if err := upsertKind(u, seriesTable, b.ResistorSeries); err != nil {
 		return nil, err
@@ -148,9 +197,6 @@ func (s *Store) upsert(ctx context.Context, b *Batch, opt UpsertOptions) (_ []Up
 	}
 	if err := upsertKind(u, amplifierTable, b.Amplifiers); err != nil {
 		return nil, err
-	}
-	if err := u.breaks.flush(); err != nil {
-		return nil, fmt.Errorf("write price breaks: %w", err)
 	}
 	if err := u.history.flush(); err != nil {
 		return nil, fmt.Errorf("write history: %w", err)
@@ -219,7 +265,14 @@ func upsertKind[T any](u *upsertRun, t *table, parts []T) error {
 		kids = newBulk(u.ctx, u.tx, t.child.table, []string{t.child.fk, "position", t.child.col})
 		defer kids.close()
 	}
+	breaks := newBulk(u.ctx, u.tx, "price_breaks", []string{"kind", "part_id", "min_qty", "unit_price", "currency"})
+	// The kind is the same on every row: a literal, not a parameter.
+	breaks.row = "('" + string(t.kind) + "', ?, ?, ?, ?)"
+	breaks.chunk = maxBulkArgs / 4
+	defer breaks.close()
+	kindJSON := appendJSONString(nil, string(t.kind))
 	var update *sql.Stmt
+	var figures []byte
 	for i := range parts {
 		if i%256 == 0 {
 			if err := u.ctx.Err(); err != nil {
@@ -280,25 +333,35 @@ func upsertKind[T any](u *upsertRun, t *table, parts []T) error {
 		}
 		if res.Outcome != SpecChanged {
 			for _, b := range v.FieldByIndex(t.breaks).Interface().([]PriceBreak) {
-				u.breaks.args = append(u.breaks.args, string(t.kind), id, b.MinQty, b.UnitPrice, b.Currency)
-				if err := u.breaks.done(); err != nil {
+				breaks.args = append(breaks.args, id, b.MinQty, b.UnitPrice, b.Currency)
+				if err := breaks.done(); err != nil {
 					return fmt.Errorf("write price breaks: %w", err)
 				}
 			}
 		}
-		figures, err := json.Marshal(v.Addr().Interface())
-		if err != nil {
-			return fmt.Errorf("record history of %s: %w", names[i], err)
+		// An added part's figures are its row's, which are never
+		// overwritten: the history row does not repeat them.
+		figures = figures[:0]
+		if res.Outcome != Added {
+			figures = t.appendFigures(figures, v)
 		}
 		prov := v.FieldByIndex(t.prov).Interface().(Provenance)
-		u.history.args = append(u.history.args, names[i], string(t.kind), prov.Source, formatTime(prov.ImportedAt),
-			string(res.Outcome), string(figures), strings.Join(res.Changes, "\n"))
-		if err := u.history.done(); err != nil {
+		r := appendJSONString(u.history.row(), names[i])
+		r = append(append(r, ','), kindJSON...)
+		r = appendJSONString(append(r, ','), prov.Source)
+		r = appendJSONString(append(r, ','), formatTime(prov.ImportedAt))
+		r = appendJSONString(append(r, ','), string(res.Outcome))
+		r = appendJSONString(append(r, ','), string(figures))
+		r = appendJSONString(append(r, ','), strings.Join(res.Changes, "\n"))
+		if err := u.history.end(r); err != nil {
 			return fmt.Errorf("write history: %w", err)
 		}
 	}
 	if err := rows.flush(); err != nil {
 		return fmt.Errorf("write %s: %w", t.name, err)
+	}
+	if err := breaks.flush(); err != nil {
+		return fmt.Errorf("write price breaks: %w", err)
 	}
 	if kids != nil {
 		if err := kids.flush(); err != nil {
