@@ -29,7 +29,7 @@ type bomOptions struct {
 }
 
 func newBOMCmd(f *Factory, runF func(*bomOptions) error) *cobra.Command {
-	opts := &bomOptions{IO: f.IO, Catalog: f.OpenCatalog}
+	opts := &bomOptions{IO: f.IO, Catalog: f.Catalog}
 	cmd := &cobra.Command{
 		Use:   "bom DESIGN",
 		Short: "Print the purchasing list of a design",

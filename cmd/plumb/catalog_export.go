@@ -22,7 +22,7 @@ type catalogExportOptions struct {
 }
 
 func newCatalogExportCmd(f *Factory, runF func(*catalogExportOptions) error) *cobra.Command {
-	opts := &catalogExportOptions{IO: f.IO, Catalog: f.OpenCatalog}
+	opts := &catalogExportOptions{IO: f.IO, Catalog: f.Catalog}
 	var kind string
 	cmd := &cobra.Command{
 		Use:   "export",

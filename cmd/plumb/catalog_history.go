@@ -15,7 +15,7 @@ type catalogHistoryOptions struct {
 }
 
 func newCatalogHistoryCmd(f *Factory, runF func(*catalogHistoryOptions) error) *cobra.Command {
-	opts := &catalogHistoryOptions{IO: f.IO, Catalog: f.OpenCatalog}
+	opts := &catalogHistoryOptions{IO: f.IO, Catalog: f.Catalog}
 	cmd := &cobra.Command{
 		Use:   "history PART",
 		Short: "Show where a part's figures came from, import by import",

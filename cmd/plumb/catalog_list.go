@@ -29,14 +29,15 @@ type listFlags struct {
 }
 
 func newCatalogListCmd(f *Factory, runF func(*catalogListOptions) error) *cobra.Command {
-	opts := &catalogListOptions{IO: f.IO, Catalog: f.OpenCatalog}
+	opts := &catalogListOptions{IO: f.IO, Catalog: f.Catalog}
 	var lf listFlags
 	cmd := &cobra.Command{
 		Use:   "list",
 		Short: "List catalog parts, optionally filtered",
 		Long: `List the parts of the catalog: resistor series (one line per product line),
 single resistors, networks and amplifiers, with value, tolerance, tempco,
-package, the price at the smallest break and the stock.
+the price at the smallest price break and the stock; maker, package and
+other figures are in DETAIL.
 
 Resistive filters (--min, --max, --max-tolerance, --max-tcr, --technology)
 leave amplifiers out. --max-tolerance takes a percentage ("0.1" or "0.1%");
@@ -137,7 +138,7 @@ func runCatalogList(cmd *cobra.Command, opts *catalogListOptions) error {
 		fmt.Fprintln(opts.IO.ErrOut, "no part matches the filters: loosen them or run `plumb catalog stats` to see what the catalog holds")
 		return nil
 	}
-	t := newTable(opts.IO, "KIND", "PART", "MAKER", "VALUE", "TOL", "TCR", "PACKAGE", "PRICE", "STOCK", "DETAIL").alignRight(3, 4, 5, 7, 8)
+	t := newTable(opts.IO, partTableHeader...).alignRight(2, 3, 4, 5, 6)
 	for _, r := range rows {
 		t.row(r.table()...)
 	}

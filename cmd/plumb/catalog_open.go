@@ -11,10 +11,10 @@ import (
 	"plumb/data"
 )
 
-// OpenCatalog opens the configured catalog: the file named by --catalog,
+// openConfigured opens the configured catalog: the file named by --catalog,
 // PLUMB_CATALOG or the config file, or the embedded demo catalog when none
 // is configured. The caller closes the store.
-func (f *Factory) OpenCatalog(ctx context.Context) (*catalog.Store, error) {
+func (f *Factory) openConfigured(ctx context.Context) (*catalog.Store, error) {
 	s := f.Settings()
 	if s.Catalog == "" {
 		st, err := data.Demo()

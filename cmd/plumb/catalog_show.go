@@ -19,7 +19,7 @@ type catalogShowOptions struct {
 }
 
 func newCatalogShowCmd(f *Factory, runF func(*catalogShowOptions) error) *cobra.Command {
-	opts := &catalogShowOptions{IO: f.IO, Catalog: f.OpenCatalog}
+	opts := &catalogShowOptions{IO: f.IO, Catalog: f.Catalog}
 	cmd := &cobra.Command{
 		Use:   "show PART",
 		Short: "Show every figure of one part",

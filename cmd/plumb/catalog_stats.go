@@ -16,7 +16,7 @@ type catalogStatsOptions struct {
 }
 
 func newCatalogStatsCmd(f *Factory, runF func(*catalogStatsOptions) error) *cobra.Command {
-	opts := &catalogStatsOptions{IO: f.IO, Catalog: f.OpenCatalog}
+	opts := &catalogStatsOptions{IO: f.IO, Catalog: f.Catalog}
 	cmd := &cobra.Command{
 		Use:     "stats",
 		Short:   "Count what the catalog holds",

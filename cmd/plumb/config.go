@@ -184,22 +184,32 @@ func resolveSettings(v *viper.Viper, flags *pflag.FlagSet, file string) (*Settin
 	return s, nil
 }
 
+// invalid reports a setting plumb cannot use; a bad flag value is a usage
+// error.
+func (s *Settings) invalid(key, format string, a ...any) error {
+	msg := fmt.Sprintf("%s %q (from %s) ", key, s.values[key], s.sources[key]) + fmt.Sprintf(format, a...)
+	if strings.HasPrefix(s.sources[key], "flag ") {
+		return usagef("%s", msg)
+	}
+	return errors.New(msg)
+}
+
 // validate fills the typed fields and rejects values plumb cannot use,
 // naming where the value came from.
 func (s *Settings) validate() error {
 	s.Catalog = s.values[keyCatalog]
 	s.Format = strings.ToLower(s.values[keyFormat])
 	if !slices.Contains(formats, s.Format) {
-		return fmt.Errorf("format %q (from %s) is not one of %s", s.values[keyFormat], s.sources[keyFormat], strings.Join(formats, ", "))
+		return s.invalid(keyFormat, "is not one of %s", strings.Join(formats, ", "))
 	}
 	top, err := strconv.Atoi(strings.TrimSpace(s.values[keyTop]))
 	if err != nil || top < 1 {
-		return fmt.Errorf("top %q (from %s) must be a whole number of at least 1", s.values[keyTop], s.sources[keyTop])
+		return s.invalid(keyTop, "must be a whole number of at least 1")
 	}
 	s.Top = top
 	s.Color = strings.ToLower(s.values[keyColor])
 	if !slices.Contains(colorModes, s.Color) {
-		return fmt.Errorf("color %q (from %s) is not one of %s", s.values[keyColor], s.sources[keyColor], strings.Join(colorModes, ", "))
+		return s.invalid(keyColor, "is not one of %s", strings.Join(colorModes, ", "))
 	}
 	return nil
 }

@@ -20,6 +20,9 @@ type Factory struct {
 	DataDir func() (string, error)
 	// Now is the clock (injected for tests).
 	Now func() time.Time
+	// Catalog opens the catalog commands work on: by default the
+	// configured file or the embedded demo catalog (openConfigured).
+	Catalog catalogOpener
 
 	// Quiet and Verbose are the global flags.
 	Quiet, Verbose bool
@@ -30,12 +33,14 @@ type Factory struct {
 }
 
 func newFactory(ios *IOStreams) *Factory {
-	return &Factory{
+	f := &Factory{
 		IO:        ios,
 		ConfigDir: os.UserConfigDir,
 		DataDir:   userDataDir,
 		Now:       time.Now,
 	}
+	f.Catalog = f.openConfigured
+	return f
 }
 
 // Settings returns the effective configuration: what the root command

@@ -16,6 +16,9 @@ import (
 // command would parse them, and returns the error.
 func parseOnly(t *testing.T, cmd *cobra.Command, args []string) error {
 	t.Helper()
+	if args == nil {
+		args = []string{} // cobra reads os.Args for nil
+	}
 	cmd.SetArgs(args)
 	cmd.SetOut(io.Discard)
 	cmd.SetErr(io.Discard)

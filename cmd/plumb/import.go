@@ -37,7 +37,7 @@ type importOptions struct {
 }
 
 func newImportCmd(f *Factory, runF func(*importOptions) error) *cobra.Command {
-	opts := &importOptions{IO: f.IO, Catalog: f.OpenCatalog, Now: f.Now}
+	opts := &importOptions{IO: f.IO, Catalog: f.Catalog, Now: f.Now}
 	var kind string
 	cmd := &cobra.Command{
 		Use:   "import FILE...",

@@ -25,6 +25,10 @@ type partRow struct {
 	Detail     string
 }
 
+// partTableHeader is the header of `plumb catalog list`; maker and package
+// are in DETAIL so that the table fits a terminal.
+var partTableHeader = []string{"PART", "KIND", "VALUE", "TOL", "TCR PPM/K", "PRICE", "STOCK", "DETAIL"}
+
 var partCSVHeader = []string{"kind", "part", "maker", "value", "value_ohm", "tolerance", "tcr_ppm", "package", "technology", "unit_price", "currency", "min_qty", "stock", "detail"}
 
 // partRows flattens a snapshot into rows in the snapshot's order: series,
@@ -37,7 +41,7 @@ func partRows(s *catalog.Snapshot) []partRow {
 			Value:     units.FormatOhms(r.MinOhm) + ".." + units.FormatOhms(r.MaxOhm),
 			Tolerance: r.Tolerance, TCR: r.TCR, Package: r.Package, Technology: r.Technology,
 			Offer:  r.Offer,
-			Detail: joinNonEmpty(r.ESeries, r.Technology, formatPower(r.PowerW), r.Line),
+			Detail: joinNonEmpty(r.Maker, r.Package, r.ESeries, r.Technology, formatPower(r.PowerW)),
 		})
 	}
 	for _, r := range s.Resistors {
@@ -46,7 +50,7 @@ func partRows(s *catalog.Snapshot) []partRow {
 			Value: units.FormatOhms(r.ValueOhm), ValueOhm: r.ValueOhm,
 			Tolerance: r.Tolerance, TCR: r.TCR, Package: r.Package, Technology: r.Technology,
 			Offer:  r.Offer,
-			Detail: joinNonEmpty(r.Technology, formatPower(r.PowerW), r.Line),
+			Detail: joinNonEmpty(r.Maker, r.Package, r.Technology, formatPower(r.PowerW)),
 		})
 	}
 	for _, n := range s.Networks {
@@ -59,7 +63,7 @@ func partRows(s *catalog.Snapshot) []partRow {
 			Value:     strings.Join(vals, "/"),
 			Tolerance: n.Tolerance, TCR: n.TCR, Package: n.Package, Technology: n.Technology,
 			Offer: n.Offer,
-			Detail: joinNonEmpty(n.Technology, "ratio "+units.FormatPercent(n.RatioTolerance),
+			Detail: joinNonEmpty(n.Maker, n.Package, n.Technology, "ratio "+units.FormatPercent(n.RatioTolerance),
 				"tracking "+units.FormatPPM(n.TCRTracking)),
 		})
 	}
@@ -72,6 +76,7 @@ func partRows(s *catalog.Snapshot) []partRow {
 func amplifierRow(a catalog.Amplifier) partRow {
 	r := partRow{Kind: catalog.KindAmplifier, Part: a.Part, Maker: a.Maker, Value: string(a.Type), Package: a.Package, Offer: a.Offer}
 	detail := []string{
+		a.Maker, a.Package,
 		fmt.Sprintf("%d ch", a.Channels),
 		"supply " + units.Format(a.SupplyMinV, "") + "-" + units.Format(a.SupplyMaxV, "V"),
 		"Vos " + units.Format(a.VosV, "V"),
@@ -83,7 +88,7 @@ func amplifierRow(a catalog.Amplifier) partRow {
 		for i, g := range a.Gains {
 			gains[i] = strconv.FormatFloat(g, 'g', 4, 64)
 		}
-		detail = append([]string{"gain " + strings.Join(gains, ", ")}, detail...)
+		detail = append(detail[:2:2], append([]string{"gain " + strings.Join(gains, "/")}, detail[2:]...)...)
 	}
 	r.Detail = strings.Join(detail, ", ")
 	return r
@@ -108,7 +113,11 @@ func (r partRow) table() []string {
 	if b, ok := firstBreak(r.Offer); ok {
 		price = formatMoney(b.UnitPrice, b.Currency)
 	}
-	return []string{string(r.Kind), r.Part, r.Maker, r.Value, optPercent(r.Tolerance), optPPM(r.TCR), r.Package, price, formatStock(r.Offer.Stock), r.Detail}
+	tcr := "-"
+	if r.TCR != 0 {
+		tcr = strconv.FormatFloat(r.TCR, 'g', 4, 64)
+	}
+	return []string{r.Part, string(r.Kind), r.Value, optPercent(r.Tolerance), tcr, price, formatStock(r.Offer.Stock), r.Detail}
 }
 
 func (r partRow) csv() []string {

@@ -127,7 +127,7 @@ func writeSolveTable(w io.Writer, ios *IOStreams, title string, r *search.Result
 			}
 		}
 		for _, why := range d.Reasons {
-			fmt.Fprintf(w, "  - %s\n", why)
+			writeBullet(w, ios, why)
 		}
 		if len(d.ShortStock) > 0 {
 			fmt.Fprintf(w, "  %s short of stock for the build: %s\n", ios.Yellow("!"), strings.Join(d.ShortStock, ", "))
@@ -135,7 +135,7 @@ func writeSolveTable(w io.Writer, ios *IOStreams, title string, r *search.Result
 	}
 	if len(r.NearMisses) > 0 {
 		fmt.Fprintf(w, "\n%s\n", ios.Bold("Near misses (cheaper than rank 1, but failing):"))
-		t := newTable(ios, "FAMILY", "PER STAGE", "FAILS", "FIX").alignRight(1)
+		t := newTable(ios, "FAMILY", "PER STAGE", "FAILS", "FIX").alignRight(1).wrapColumns(2, 3)
 		for _, nm := range r.NearMisses {
 			var fails []string
 			for _, f := range nm.Fails {
@@ -155,6 +155,22 @@ func writeSolveTable(w io.Writer, ios *IOStreams, title string, r *search.Result
 		fmt.Fprintf(w, "\nnote: %s\n", n)
 	}
 	return nil
+}
+
+// writeBullet writes "  - text", wrapped to the terminal width on a
+// terminal.
+func writeBullet(w io.Writer, ios *IOStreams, text string) {
+	lines := []string{text}
+	if ios.IsStdoutTTY() {
+		lines = wrapText(text, ios.width-4)
+	}
+	for i, l := range lines {
+		lead := "  - "
+		if i > 0 {
+			lead = "    "
+		}
+		fmt.Fprintln(w, lead+l)
+	}
 }
 
 func writeInfeasible(w io.Writer, ios *IOStreams, inf *search.Infeasible) {

@@ -28,7 +28,7 @@ type solveOptions struct {
 }
 
 func newSolveCmd(f *Factory, runF func(*solveOptions) error) *cobra.Command {
-	opts := &solveOptions{IO: f.IO, Catalog: f.OpenCatalog, Now: f.Now}
+	opts := &solveOptions{IO: f.IO, Catalog: f.Catalog, Now: f.Now}
 	cmd := &cobra.Command{
 		Use:   "solve SPEC",
 		Short: "Find the cheapest designs that meet every limit of a spec",

@@ -14,7 +14,10 @@ type table struct {
 	header []string
 	rows   [][]string
 	right  map[int]bool
-	width  int // 0: no limit
+	// wrap lists the columns narrowed first to fit the width (default:
+	// the last column, which holds free text).
+	wrap  []int
+	width int // 0: no limit
 }
 
 // columnGap is the space between two columns.
@@ -23,11 +26,21 @@ const columnGap = 2
 // minWrapWidth is the narrowest a column is wrapped to.
 const minWrapWidth = 8
 
+// minTextWidth is the narrowest a free-text column is wrapped to before
+// other columns are narrowed.
+const minTextWidth = 20
+
 func newTable(io *IOStreams, header ...string) *table {
 	t := &table{header: header, right: map[int]bool{}}
 	if io.IsStdoutTTY() {
 		t.width = io.width
 	}
+	return t
+}
+
+// wrapColumns names the columns to narrow first when the table is too wide.
+func (t *table) wrapColumns(cols ...int) *table {
+	t.wrap = cols
 	return t
 }
 
@@ -63,7 +76,11 @@ func (t *table) render(w io.Writer) error {
 		}
 	}
 	if t.width > 0 {
-		fitWidths(widths, t.header, t.width)
+		wrap := t.wrap
+		if wrap == nil {
+			wrap = []int{n - 1}
+		}
+		fitWidths(widths, t.header, t.width, wrap)
 	}
 	var b strings.Builder
 	t.writeRow(&b, t.header, widths)
@@ -74,9 +91,10 @@ func (t *table) render(w io.Writer) error {
 	return err
 }
 
-// fitWidths narrows the widest columns until the table fits in limit
-// columns, never below the header's longest word or minWrapWidth.
-func fitWidths(widths []int, header []string, limit int) {
+// fitWidths narrows columns until the table fits in limit columns: first
+// the widest of the wrap columns down to minTextWidth, then the widest of
+// any column down to its header's longest word or minWrapWidth.
+func fitWidths(widths []int, header []string, limit int, wrap []int) {
 	floor := make([]int, len(widths))
 	for i, h := range header {
 		floor[i] = minWrapWidth
@@ -85,6 +103,17 @@ func fitWidths(widths []int, header []string, limit int) {
 		}
 		floor[i] = min(floor[i], widths[i])
 	}
+	textFloor := make([]int, len(widths))
+	copy(textFloor, widths)
+	for _, c := range wrap {
+		textFloor[c] = min(widths[c], max(floor[c], minTextWidth))
+	}
+	shrink(widths, textFloor, limit)
+	shrink(widths, floor, limit)
+}
+
+// shrink narrows the widest column above its floor until the total fits.
+func shrink(widths, floor []int, limit int) {
 	for {
 		total := columnGap * (len(widths) - 1)
 		for _, w := range widths {
@@ -102,7 +131,21 @@ func fitWidths(widths []int, header []string, limit int) {
 		if widest < 0 {
 			return
 		}
-		widths[widest] -= min(total-limit, widths[widest]-floor[widest])
+		// Narrow the widest column no further than the next widest, so
+		// that the shrinking is shared.
+		next := 0
+		for i, w := range widths {
+			if i != widest && w > floor[i] {
+				next = max(next, w)
+			}
+		}
+		step := min(total-limit, widths[widest]-floor[widest])
+		if next > 0 && widths[widest]-next > 0 {
+			step = min(step, widths[widest]-next)
+		} else if next > 0 {
+			step = 1
+		}
+		widths[widest] -= step
 	}
 }
 
