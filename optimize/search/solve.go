@@ -133,17 +133,27 @@ func SolveProblem(ctx context.Context, parts *Parts, p Problem, opt Options) (*R
 	if len(top) > 0 {
 		limit = top[0].cost
 	}
+	// At most one near miss per resistor configuration, so they show
+	// different grades rather than one grade with several amplifiers; at
+	// most maxFixTries fix searches.
 	var fixless []NearMiss
+	seen := map[int]bool{}
+	tries := 0
 	for _, f := range sp.nearCandidates(limit) {
-		if len(res.NearMisses) >= maxNearMisses {
+		if len(res.NearMisses) >= maxNearMisses || tries >= maxFixTries {
 			break
 		}
+		if f.cfg >= 0 && seen[f.cfg] {
+			continue
+		}
+		tries++
 		nm, err := sp.nearMiss(&f)
 		if err != nil {
 			return nil, err
 		}
 		if nm.Fix != nil {
 			res.NearMisses = append(res.NearMisses, nm)
+			seen[f.cfg] = true
 		} else if len(fixless) < maxNearMisses {
 			fixless = append(fixless, nm)
 		}
@@ -161,8 +171,12 @@ func SolveProblem(ctx context.Context, parts *Parts, p Problem, opt Options) (*R
 	return res, nil
 }
 
-// maxNearMisses is the number of near misses reported.
-const maxNearMisses = 3
+// maxNearMisses is the number of near misses reported; maxFixTries bounds
+// the failing classes searched for a single fix.
+const (
+	maxNearMisses = 3
+	maxFixTries   = 12
+)
 
 // DesignN returns design n (1-based) as a spec design, with every figure
 // filled in, for the full budget.
@@ -259,17 +273,25 @@ func (s *space) difference(prev, d *Design) string {
 	for _, p := range prev.Parts {
 		pp[p.Position] = p
 	}
+	seen := map[string]bool{}
 	for _, p := range d.Parts {
 		q, ok := pp[p.Position]
+		var c string
 		switch {
 		case !ok:
-			ch = append(ch, p.Position+" added")
+			c = p.Position + " added"
 		case p.Kind == string(catalog.KindAmplifier) && p.Part != q.Part:
-			ch = append(ch, fmt.Sprintf("amplifier %s instead of %s", p.Part, q.Part))
-		case p.Kind != string(catalog.KindAmplifier) && (p.Tolerance != q.Tolerance || p.TCRppm != q.TCRppm || p.RatioTolerance != q.RatioTolerance):
-			ch = append(ch, fmt.Sprintf("%s %s instead of %s", p.Position, gradeText(p), gradeText(q)))
-		case p.Kind != string(catalog.KindAmplifier) && p.Part != q.Part && p.ValueOhm == q.ValueOhm:
-			ch = append(ch, fmt.Sprintf("%s from %s (same grade, other price list)", p.Position, p.Part))
+			c = fmt.Sprintf("amplifier %s instead of %s", p.Part, q.Part)
+		case p.Kind == string(catalog.KindNetwork) && p.Part != q.Part:
+			c = fmt.Sprintf("network %s (%s) instead of %s (%s)", p.Part, gradeText(p), q.Part, gradeText(q))
+		case p.Kind == string(catalog.KindResistor) && (p.Tolerance != q.Tolerance || p.TCRppm != q.TCRppm):
+			c = fmt.Sprintf("%s %s instead of %s", p.Position, gradeText(p), gradeText(q))
+		case p.Kind == string(catalog.KindResistor) && p.Part != q.Part && p.ValueOhm == q.ValueOhm:
+			c = fmt.Sprintf("%s from %s (same grade, other price list)", p.Position, p.Part)
+		}
+		if c != "" && !seen[c] {
+			seen[c] = true
+			ch = append(ch, c)
 		}
 	}
 	if len(ch) == 0 {
