@@ -4,6 +4,7 @@ import (
 	"context"
 	"database/sql"
 	"fmt"
+	"reflect"
 	"slices"
 	"strings"
 	"unicode/utf8"
@@ -309,6 +310,22 @@ func (s *Store) history(ctx context.Context, part string) ([]HistoryEntry, error
 	}
 	if err := rows.Err(); err != nil {
 		return nil, fmt.Errorf("catalog: history of %s in %s: %w", part, s.name(), err)
+	}
+	// An "added" row does not repeat the figures: they are the part's
+	// own, never overwritten. Fill them in from the part.
+	for i := range out {
+		if out[i].Figures != "" {
+			continue
+		}
+		kind, v, err := s.find(ctx, out[i].Part)
+		if err != nil {
+			return nil, fmt.Errorf("catalog: history of %s in %s: %w", part, s.name(), err)
+		}
+		for _, t := range allTables {
+			if t.kind == kind {
+				out[i].Figures = string(t.appendFigures(nil, reflect.ValueOf(v).Elem()))
+			}
+		}
 	}
 	if len(out) == 0 {
 		if _, _, err := s.find(ctx, part); err != nil {
