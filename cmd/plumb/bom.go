@@ -97,16 +97,7 @@ func runBOM(ctx context.Context, opts *bomOptions) error {
 		}
 		return b.writeTable(w, opts.IO)
 	}
-	if opts.Output == "" || opts.Output == "-" {
-		return write(opts.IO.Out)
-	}
-	if err := writeFileAtomic(opts.Output, opts.Force, write); err != nil {
-		return err
-	}
-	if !opts.Quiet {
-		fmt.Fprintf(opts.IO.ErrOut, "wrote %s\n", opts.Output)
-	}
-	return nil
+	return writeOutput(opts.IO, opts.Output, opts.Force, opts.Quiet, write)
 }
 
 // specBuild is the build section of a spec in package cost's terms.

@@ -1,9 +1,7 @@
 package main
 
 import (
-	"fmt"
 	"io"
-	"slices"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -40,12 +38,8 @@ breaks packed in one column. An existing file is not replaced without
 			if opts.Format, err = chooseFormat(cmd, f, opts.Format, "json", "csv"); err != nil {
 				return err
 			}
-			if kind != "" {
-				k := strings.ToLower(strings.TrimSpace(kind))
-				if !slices.Contains(catalogKinds, k) {
-					return usagef("--kind %q: use one of %s", kind, strings.Join(catalogKinds, ", "))
-				}
-				opts.Kind = catalog.Kind(k)
+			if opts.Kind, err = parseKind(kind, catalogKinds); err != nil {
+				return err
 			}
 			if opts.Format == "csv" && opts.Kind == "" {
 				return usagef("a CSV export holds one kind of part: add --kind (%s), or use --format json for the whole catalog", strings.Join(catalogKinds, ", "))
@@ -80,14 +74,5 @@ func runCatalogExport(cmd *cobra.Command, opts *catalogExportOptions) error {
 		}
 		return st.WriteJSON(ctx, w)
 	}
-	if opts.Output == "" || opts.Output == "-" {
-		return write(opts.IO.Out)
-	}
-	if err := writeFileAtomic(opts.Output, opts.Force, write); err != nil {
-		return err
-	}
-	if !opts.Quiet {
-		fmt.Fprintf(opts.IO.ErrOut, "wrote %s\n", opts.Output)
-	}
-	return nil
+	return writeOutput(opts.IO, opts.Output, opts.Force, opts.Quiet, write)
 }

@@ -78,14 +78,10 @@ leave amplifiers out. --max-tolerance takes a percentage ("0.1" or "0.1%");
 // parse turns the text flags into a filter.
 func (lf listFlags) parse() (catalog.Filter, error) {
 	f := catalog.Filter{Technology: lf.technology, Package: lf.pkg, Maker: lf.maker, PartLike: lf.partLike}
-	if lf.kind != "" {
-		k := strings.ToLower(strings.TrimSpace(lf.kind))
-		if !slices.Contains(catalogKinds, k) {
-			return f, usagef("--kind %q: use one of %s", lf.kind, strings.Join(catalogKinds, ", "))
-		}
-		f.Kind = catalog.Kind(k)
-	}
 	var err error
+	if f.Kind, err = parseKind(lf.kind, catalogKinds); err != nil {
+		return f, err
+	}
 	parse := func(flag, text string, p *float64, read func(string) (float64, error)) {
 		if err != nil || text == "" {
 			return
@@ -143,4 +139,16 @@ func runCatalogList(cmd *cobra.Command, opts *catalogListOptions) error {
 		t.row(r.table()...)
 	}
 	return t.render(opts.IO.Out)
+}
+
+// parseKind reads a --kind value ("" for none) from the allowed words.
+func parseKind(text string, allowed []string) (catalog.Kind, error) {
+	if text == "" {
+		return "", nil
+	}
+	k := strings.ToLower(strings.TrimSpace(text))
+	if !slices.Contains(allowed, k) {
+		return "", usagef("--kind %q: use one of %s", text, strings.Join(allowed, ", "))
+	}
+	return catalog.Kind(k), nil
 }

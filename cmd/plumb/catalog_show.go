@@ -62,19 +62,23 @@ func runCatalogShow(cmd *cobra.Command, opts *catalogShowOptions) error {
 	if opts.Format == "json" {
 		return writeJSON(opts.IO.Out, v)
 	}
-	fields := partFields(kind, v)
-	if opts.Format == "csv" {
+	return writeFields(opts.IO, opts.Format, "FIELD", "VALUE", partFields(kind, v))
+}
+
+// writeFields prints name/value pairs as CSV or as a two-column table.
+func writeFields(ios *IOStreams, format, nameHeader, valueHeader string, fields []field) error {
+	if format == "csv" {
 		rows := make([][]string, len(fields))
 		for i, f := range fields {
 			rows[i] = []string{f.Name, f.Value}
 		}
-		return writeCSV(opts.IO.Out, []string{"field", "value"}, rows)
+		return writeCSV(ios.Out, []string{strings.ToLower(nameHeader), strings.ToLower(valueHeader)}, rows)
 	}
-	t := newTable(opts.IO, "FIELD", "VALUE")
+	t := newTable(ios, nameHeader, valueHeader)
 	for _, f := range fields {
 		t.row(f.Name, f.Value)
 	}
-	return t.render(opts.IO.Out)
+	return t.render(ios.Out)
 }
 
 // partFields describes a part found in the catalog, figures in engineering

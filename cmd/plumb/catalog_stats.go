@@ -65,11 +65,7 @@ func runCatalogStats(cmd *cobra.Command, opts *catalogStatsOptions) error {
 		{"sources", strings.Join(s.Sources, ", ")},
 	}
 	if opts.Format == "csv" {
-		rows := make([][]string, len(fields))
-		for i, f := range fields {
-			rows[i] = []string{f.Name, f.Value}
-		}
-		return writeCSV(opts.IO.Out, []string{"field", "value"}, rows)
+		return writeFields(opts.IO, "csv", "FIELD", "VALUE", fields)
 	}
 	fmt.Fprintf(opts.IO.Out, "%s\n\n", opts.IO.Bold("Catalog: "+opts.Name))
 	t := newTable(opts.IO, "HOLDS", "COUNT").alignRight(1)

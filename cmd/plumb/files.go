@@ -49,3 +49,18 @@ func writeFileAtomic(path string, force bool, write func(io.Writer) error) error
 	}
 	return nil
 }
+
+// writeOutput writes through write to stdout, or, when path is set (and
+// not "-"), to that file all or nothing, with a note on stderr.
+func writeOutput(ios *IOStreams, path string, force, quiet bool, write func(io.Writer) error) error {
+	if path == "" || path == "-" {
+		return write(ios.Out)
+	}
+	if err := writeFileAtomic(path, force, write); err != nil {
+		return err
+	}
+	if !quiet {
+		fmt.Fprintf(ios.ErrOut, "wrote %s\n", path)
+	}
+	return nil
+}

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
-	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -63,14 +62,13 @@ writing, and works on the demo catalog too.`,
 		},
 		RunE: func(cmd *cobra.Command, args []string) error {
 			opts.Files = args
-			k := strings.ToLower(strings.TrimSpace(kind))
-			if !slices.Contains(importKinds, k) {
-				return usagef("--kind %q: use one of %s", kind, strings.Join(importKinds, ", "))
+			k, err := parseKind(kind, importKinds)
+			if err != nil {
+				return err
 			}
 			if k != "auto" {
-				opts.Kind = catalog.Kind(k)
+				opts.Kind = k
 			}
-			var err error
 			if opts.Format, err = chooseFormat(cmd, f, opts.Format); err != nil {
 				return err
 			}

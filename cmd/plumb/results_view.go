@@ -12,26 +12,39 @@ import (
 	"plumb/optimize/search"
 )
 
-// formatLimitValue prints a limit figure in the unit the limit is named
-// for: fractions as percent, drift in ppm/K, CMRR in dB, volts, hertz.
+// searchLimitUnits gives the unit of each of the search's limit names, in
+// package budget's unit words ("" is a fraction).
+var searchLimitUnits = map[string]string{
+	"gain error": "", "gain error initial": "", "CMRR": "dB", "gain drift": "ppm/K",
+	"output offset": "V", "offset drift": "V/K", "noise density": "V/rtHz", "bandwidth": "Hz",
+}
+
+// formatLimitValue prints a search limit figure in the unit its name
+// implies.
 func formatLimitValue(name string, v float64) string {
-	switch name {
-	case "gain error", "gain error initial":
-		return units.FormatPercent(v)
-	case "CMRR":
-		return strconv.FormatFloat(v, 'f', 1, 64) + " dB"
-	case "gain drift":
-		return strconv.FormatFloat(v, 'g', 3, 64) + " ppm/K"
-	case "output offset":
-		return units.Format(v, "V")
-	case "offset drift":
-		return units.Format(v, "V/K")
-	case "noise density":
-		return units.Format(v, "V/√Hz")
-	case "bandwidth":
-		return units.Format(v, "Hz")
+	unit, ok := searchLimitUnits[name]
+	if !ok {
+		return strconv.FormatFloat(v, 'g', 4, 64)
 	}
-	return strconv.FormatFloat(v, 'g', 4, 64)
+	return formatBudgetValue(v, unit)
+}
+
+// formatBudgetValue prints a budget figure in its unit ("" is a fraction,
+// printed as percent).
+func formatBudgetValue(v float64, unit string) string {
+	switch unit {
+	case "":
+		return units.FormatPercent(v)
+	case "dB":
+		return strconv.FormatFloat(v, 'f', 1, 64) + " dB"
+	case "ppm/K":
+		return strconv.FormatFloat(v, 'g', 3, 64) + " ppm/K"
+	case "V/rtHz":
+		return units.Format(v, "V/√Hz")
+	case "ohm":
+		return units.FormatOhms(v) + " ohm"
+	}
+	return units.Format(v, unit)
 }
 
 // formatMargin prints a margin ratio (above 1 passes).

@@ -68,6 +68,7 @@ func newRootCmd(f *Factory) *cobra.Command {
 		newConfigCmd(f),
 		newDemoCmd(f, nil),
 		newSolveCmd(f, nil),
+		// newCheckCmd(f, nil), // wired once optimize/budget.Evaluate lands
 		newBOMCmd(f, nil),
 		newImportCmd(f, nil),
 		newCompletionCmd(f, nil),

@@ -18,46 +18,34 @@ import (
 // "logger-channel.yaml"), so that every example in the help works without
 // files.
 func loadSpecArg(name string) (*spec.Spec, error) {
-	if _, err := os.Stat(name); err == nil {
-		s, err := spec.Load(name)
-		if err != nil {
-			return nil, fmt.Errorf("%w: fix the file and run again", err)
-		}
-		return s, nil
-	} else if !errors.Is(err, fs.ErrNotExist) {
-		return nil, fmt.Errorf("spec %s: %w", name, err)
-	}
-	b, file, err := readExample(name)
-	if err != nil {
-		return nil, err
-	}
-	s, err := spec.Parse(b, "example "+file)
-	if err != nil {
-		return nil, fmt.Errorf("embedded example %s: %w", file, err)
-	}
-	return s, nil
+	return loadArg(name, "spec", spec.Load, spec.Parse)
 }
 
 // loadDesignArg reads a design from a file or an embedded example.
 func loadDesignArg(name string) (*spec.Design, error) {
+	return loadArg(name, "design", spec.LoadDesign, spec.ParseDesign)
+}
+
+func loadArg[T any](name, what string, load func(string) (T, error), parse func([]byte, string) (T, error)) (T, error) {
+	var zero T
 	if _, err := os.Stat(name); err == nil {
-		d, err := spec.LoadDesign(name)
+		v, err := load(name)
 		if err != nil {
-			return nil, fmt.Errorf("%w: fix the file and run again", err)
+			return zero, fmt.Errorf("%w: fix the file and run again", err)
 		}
-		return d, nil
+		return v, nil
 	} else if !errors.Is(err, fs.ErrNotExist) {
-		return nil, fmt.Errorf("design %s: %w", name, err)
+		return zero, fmt.Errorf("%s %s: %w", what, name, err)
 	}
 	b, file, err := readExample(name)
 	if err != nil {
-		return nil, err
+		return zero, err
 	}
-	d, err := spec.ParseDesign(b, "example "+file)
+	v, err := parse(b, "example "+file)
 	if err != nil {
-		return nil, fmt.Errorf("embedded example %s: %w", file, err)
+		return zero, fmt.Errorf("embedded example %s: %w", file, err)
 	}
-	return d, nil
+	return v, nil
 }
 
 // readExample returns an embedded example file by name, with or without
