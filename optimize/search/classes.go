@@ -66,7 +66,8 @@ func newSpace(parts *Parts, p *Problem, combos bool) (*space, error) {
 	}
 	s.ratingVoltages()
 	var err error
-	if fams[DiscreteDifference] || fams[DiscreteNonInverting] || fams[DiscreteInverting] {
+	disc := fams[DiscreteDifference] || fams[DiscreteNonInverting] || fams[DiscreteInverting] || fams[DiscreteDivider]
+	if disc {
 		if s.groups, err = buildGroups(parts, p); err != nil {
 			return nil, err
 		}
@@ -75,8 +76,8 @@ func newSpace(parts *Parts, p *Problem, combos bool) (*space, error) {
 	if err := s.checkCurrency(parts); err != nil {
 		return nil, err
 	}
-	disc := fams[DiscreteDifference] || fams[DiscreteNonInverting] || fams[DiscreteInverting]
-	famDisc := map[Circuit]Family{Difference: DiscreteDifference, NonInverting: DiscreteNonInverting, Inverting: DiscreteInverting}[p.Circuit]
+	famDisc := map[Circuit]Family{Difference: DiscreteDifference, NonInverting: DiscreteNonInverting,
+		Inverting: DiscreteInverting, Divider: DiscreteDivider}[p.Circuit]
 	if disc {
 		for a, ga := range s.groups {
 			for b, gb := range s.groups {
@@ -151,6 +152,9 @@ func (s *space) ratingVoltages() {
 			case Inverting:
 				out := p.Ref - k*(vd-p.Ref)
 				vg, vf = math.Abs(vd-p.Ref), math.Abs(out-p.Ref)
+			case Divider:
+				out := vd / (1 + k)
+				vg, vf = math.Abs(out), math.Abs(vd-out)
 			}
 			s.vG, s.vF = math.Max(s.vG, vg), math.Max(s.vF, vf)
 		}
@@ -182,6 +186,8 @@ func (s *space) zinOK(rg, rf float64) bool {
 		return rg >= z && rg+rf >= z
 	case Inverting:
 		return rg >= z
+	case Divider:
+		return rg+rf >= z
 	}
 	return true
 }

@@ -136,7 +136,7 @@ func genParts(r *rand.Rand, nSeries, nRes, nGrades, nNet, nAmp int) *Parts {
 // requirement with limits loose enough that some designs pass.
 func genProblem(r *rand.Rand) Problem {
 	p := Problem{
-		Circuit:   []Circuit{Difference, Difference, NonInverting, Inverting}[r.IntN(4)],
+		Circuit:   []Circuit{Difference, Difference, NonInverting, Inverting, Divider}[r.IntN(5)],
 		Gain:      []float64{1, 2, 5, 10, 20}[r.IntN(5)],
 		SupplyNeg: []float64{0, -5, -15}[r.IntN(3)], SupplyPos: []float64{5, 15}[r.IntN(2)],
 		TMin: -40, TMax: 85, TRef: 25,
@@ -146,13 +146,21 @@ func genProblem(r *rand.Rand) Problem {
 	if p.Circuit == NonInverting && p.Gain == 1 {
 		p.Gain = 2
 	}
+	if p.Circuit == Divider {
+		p.Gain = 1 / (1 + p.Gain)
+		p.LeakageA = []float64{0, 1e-7, 1e-5}[r.IntN(3)]
+	}
 	span := p.SupplyPos - p.SupplyNeg
 	mid := (p.SupplyPos + p.SupplyNeg) / 2
 	p.Ref = mid
 	p.InMin, p.InMax = -0.1*span/(2*p.Gain), 0.1*span/(2*p.Gain)
-	if p.Circuit == Difference {
+	switch p.Circuit {
+	case Difference:
 		p.CMMin, p.CMMax = mid-0.1*span, mid+0.1*span
-	} else {
+	case Divider:
+		p.Ref = 0
+		p.InMin, p.InMax = 0, 0.9*p.SupplyPos/p.Gain
+	default:
 		p.InMin, p.InMax = mid+p.InMin, mid+p.InMax
 	}
 	p.Limits = Limits{

@@ -80,13 +80,36 @@ func toDB(inv float64) float64 {
 	return math.Min(noiseFloorDB, -20*math.Log10(inv))
 }
 
-// gainSens is the sensitivity of the gain to the ratio: 1 for the
-// difference and inverting amplifiers, k/(1+k) for the non-inverting one.
+// gainSens is the magnitude of the gain's sensitivity to the ratio: 1 for
+// the difference and inverting amplifiers, k/(1+k) for the non-inverting
+// amplifier and the divider.
 func (s *space) gainSens(k0 float64) float64 {
-	if s.p.Circuit == NonInverting {
+	if s.p.Circuit == NonInverting || s.p.Circuit == Divider {
 		return k0 / (1 + k0)
 	}
 	return 1
+}
+
+// noiseGain is 1 + Rf/Rg, the gain the amplifier's offset and noise see
+// (1 for the unbuffered divider, whose leakage error is not amplified).
+func (s *space) noiseGain(k0 float64) float64 {
+	if s.p.Circuit == Divider {
+		return 1
+	}
+	return 1 + k0
+}
+
+// gainMult is the exact factor by which the ideal gain moves when the
+// ratio k0 is multiplied by m: m (difference, inverting),
+// (1+k0·m)/(1+k0) (non-inverting), (1+k0)/(1+k0·m) (divider).
+func (s *space) gainMult(k0, m float64) float64 {
+	switch s.p.Circuit {
+	case NonInverting:
+		return (1 + k0*m) / (1 + k0)
+	case Divider:
+		return (1 + k0) / (1 + k0*m)
+	}
+	return m
 }
 
 // eval computes the metrics of a design with ratio k0 = Rf/Rg, Rf∥Rg = rp,
@@ -94,15 +117,12 @@ func (s *space) gainSens(k0 float64) float64 {
 func (s *space) eval(g *grades, k0, rp float64, a *amp, m *metrics) {
 	p := s.p
 	am := a.a
-	ng := 1 + k0
+	ng := s.noiseGain(k0)
 	f := 1.0
 	if am.AolVV > 0 {
 		f = 1 / (1 + ng/am.AolVV)
 	}
-	sg, ideal := s.gainSens(k0), k0
-	if p.Circuit == NonInverting {
-		ideal = 1 + k0
-	}
+	sg, ideal := s.gainSens(k0), s.idealGain(k0)
 	rho := ideal / p.Gain
 	dT := s.dT
 	sys := rho*f - 1
@@ -120,8 +140,8 @@ func (s *space) eval(g *grades, k0, rp float64, a *amp, m *metrics) {
 		m.gainErr = math.Abs(sys) + sg*g.sr
 		m.totalErr = math.Abs(sys) + math.Hypot(sg*g.sr, dr)
 	default:
-		hiG := rho * (1 + sg*(g.hi-1)) * f
-		loG := rho * (1 + sg*(g.lo-1)) * f
+		hiG := rho * s.gainMult(k0, g.hi) * f
+		loG := rho * s.gainMult(k0, g.lo) * f
 		m.gainErr = math.Max(math.Abs(hiG-1), math.Abs(loG-1))
 		m.totalErr = m.gainErr + dr
 	}
@@ -152,6 +172,11 @@ func (s *space) eval(g *grades, k0, rp float64, a *amp, m *metrics) {
 	}
 	m.bw = am.GBWHz / ng
 	m.noiseRMS = rmsNoise(m.noise, m.bw)
+	if p.Circuit == Divider {
+		// No amplifier limits the bandwidth: the source and the load's
+		// capacitance do, which the catalog does not hold.
+		m.bw, m.noiseRMS = math.Inf(1), 0
+	}
 }
 
 // rmsNoise integrates a white density over the noise bandwidth of a
@@ -269,9 +294,13 @@ func (s *space) bound(g *grades, a *amp, m *metrics) {
 	m.cmrrDB = toDB(inv * boundSafety)
 	m.offset, m.offDrift, m.noise, m.noiseRMS = 0, 0, 0, 0
 	if a != nil {
-		s.offset(m, 1+kmin, a.a.VosV, 0, a.a.VosDriftVK)
-		m.noise = (1 + kmin) * a.a.NoiseVHz
-		m.noiseRMS = rmsNoise(m.noise, a.a.GBWHz/(1+kmax))
+		ng := s.noiseGain(kmin)
+		s.offset(m, ng, a.a.VosV, 0, a.a.VosDriftVK)
+		m.noise = ng * a.a.NoiseVHz
+		m.noiseRMS = rmsNoise(m.noise, a.a.GBWHz/s.noiseGain(kmax))
+		if p.Circuit == Divider {
+			m.noiseRMS = 0
+		}
 	}
 	m.gainErr *= boundSafety
 	m.totalErr *= boundSafety

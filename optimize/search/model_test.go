@@ -83,6 +83,30 @@ func TestEvalCheckValues(t *testing.T) {
 	}
 }
 
+func TestDividerCheckValues(t *testing.T) {
+	s := testSpace(Divider, 0.125, WorstCase)
+	var m metrics
+	// 210 k over 30 k is exactly 0.125 (common practice arithmetic).
+	s.eval(&grades{hi: 1, lo: 1}, 210e3/30e3, 210e3*30e3/240e3, &amp{a: &catalog.Amplifier{}}, &m)
+	if math.Abs(m.gain-0.125) > 1e-15 || m.gainErr > 1e-15 {
+		t.Errorf("gain %.17g, error %g; want 0.125 exactly", m.gain, m.gainErr)
+	}
+	// Two 100 ppm/K resistors of opposite sign move the ratio 200 ppm/K;
+	// the divider's gain moves k/(1+k) of that, 7/8 x 200 = 175 ppm/K
+	// (first-order sensitivity of 1/(1+k), common practice).
+	s.eval(&grades{hi: 1, lo: 1, drift: 200}, 7, 26.25e3, &amp{a: &catalog.Amplifier{}}, &m)
+	if math.Abs(m.drift-175) > 1e-9 {
+		t.Errorf("drift %.6g, want 175 ppm/K", m.drift)
+	}
+	// 1 % resistors: exact worst gain 1/(1 + 7 x 0.99/1.01) = 0.12719..., +1.75 %.
+	g := discreteGrades(0.01, 0, 0.01, 0)
+	s.eval(&g, 7, 26.25e3, &amp{a: &catalog.Amplifier{}}, &m)
+	want := (1/(1+7*0.99/1.01))/0.125 - 1
+	if math.Abs(m.gainErr-want) > 1e-12 {
+		t.Errorf("worst gain error %.6g, want %.6g", m.gainErr, want)
+	}
+}
+
 // TestBoundIsLowerBound checks on random classes that the error bound the
 // search prunes with is never worse than any design of the class (the
 // property the exactness of the search rests on).
@@ -90,8 +114,11 @@ func TestBoundIsLowerBound(t *testing.T) {
 	r := rand.New(rand.NewPCG(3, 3))
 	tols := []float64{0.0001, 0.001, 0.01, 0.05}
 	for i := 0; i < 5000; i++ {
-		c := []Circuit{Difference, NonInverting, Inverting}[r.IntN(3)]
+		c := []Circuit{Difference, NonInverting, Inverting, Divider}[r.IntN(4)]
 		gain := 1.5 + 30*r.Float64()
+		if c == Divider {
+			gain = 1 / gain
+		}
 		s := testSpace(c, gain, []Method{WorstCase, RSS}[r.IntN(2)])
 		s.p.CalGain, s.p.CalOffset = r.IntN(4) == 0, r.IntN(4) == 0
 		var g grades

@@ -34,6 +34,8 @@ const (
 	DiscreteNonInverting Family = "noninverting-discrete"
 	// DiscreteInverting is an inverting amplifier, G = -Rf/Rg.
 	DiscreteInverting Family = "inverting-discrete"
+	// DiscreteDivider is an unbuffered divider, G = Rbot/(Rtop + Rbot).
+	DiscreteDivider Family = "divider-discrete"
 )
 
 // Circuit names the stage topology of a Problem.
@@ -44,6 +46,7 @@ const (
 	Difference   Circuit = "difference"
 	NonInverting Circuit = "noninverting"
 	Inverting    Circuit = "inverting"
+	Divider      Circuit = "divider"
 )
 
 // Method is the analysis method the limits are judged under.
@@ -103,6 +106,8 @@ type Problem struct {
 	BandwidthHz float64
 	// ZinMinOhm is the smallest input impedance.
 	ZinMinOhm float64
+	// LeakageA is the current the load draws from a divider's output, A.
+	LeakageA float64
 	// RMinOhm and RMaxOhm bound every resistor value (default 100 Ω to
 	// 1 MΩ: below, dissipation and loading; above, bias-current error and
 	// noise).
@@ -146,12 +151,14 @@ func (p *Problem) normalize() error {
 		p.Method = WorstCase
 	}
 	switch {
-	case p.Circuit != Difference && p.Circuit != NonInverting && p.Circuit != Inverting:
-		return fmt.Errorf("%w: circuit %q: use %q, %q or %q", ErrProblem, p.Circuit, Difference, NonInverting, Inverting)
+	case p.Circuit != Difference && p.Circuit != NonInverting && p.Circuit != Inverting && p.Circuit != Divider:
+		return fmt.Errorf("%w: circuit %q: use %q, %q, %q or %q", ErrProblem, p.Circuit, Difference, NonInverting, Inverting, Divider)
 	case !(p.Gain > 0) || math.IsInf(p.Gain, 0):
 		return fmt.Errorf("%w: gain %g: give a positive gain magnitude", ErrProblem, p.Gain)
 	case p.Circuit == NonInverting && p.Gain <= 1:
 		return fmt.Errorf("%w: gain %g: a non-inverting stage with resistors needs gain above 1", ErrProblem, p.Gain)
+	case p.Circuit == Divider && p.Gain >= 1:
+		return fmt.Errorf("%w: gain %g: a divider attenuates; give a gain below 1", ErrProblem, p.Gain)
 	case !(p.SupplyPos > p.SupplyNeg):
 		return fmt.Errorf("%w: supply %g V to %g V: the positive rail must be above the negative", ErrProblem, p.SupplyNeg, p.SupplyPos)
 	case p.TMax < p.TMin:
@@ -170,10 +177,14 @@ func (p *Problem) normalize() error {
 	return nil
 }
 
-// ratio is the resistor ratio Rf/Rg that gives the target gain.
+// ratio is the resistor ratio Rf/Rg that gives the target gain (for the
+// divider Rtop/Rbot = (1-G)/G).
 func (p *Problem) ratio() float64 {
-	if p.Circuit == NonInverting {
+	switch p.Circuit {
+	case NonInverting:
 		return p.Gain - 1
+	case Divider:
+		return (1 - p.Gain) / p.Gain
 	}
 	return p.Gain
 }
@@ -194,6 +205,8 @@ func (p *Problem) families() []Family {
 		all = []Family{DiscreteNonInverting}
 	case Inverting:
 		all = []Family{DiscreteInverting}
+	case Divider:
+		all = []Family{DiscreteDivider}
 	}
 	if len(p.Families) == 0 {
 		return all

@@ -226,14 +226,19 @@ func famName(f Family) string {
 		return spec.NonInverting
 	case DiscreteInverting:
 		return spec.Inverting
+	case DiscreteDivider:
+		return spec.Divider
 	}
 	return spec.Difference
 }
 
 // positions names the Rg and Rf positions of the circuit.
 func (s *space) positions() (rg, rf []string) {
-	if s.p.Circuit == Difference {
+	switch s.p.Circuit {
+	case Difference:
 		return []string{"R1", "R3"}, []string{"R2", "R4"}
+	case Divider:
+		return []string{"Rbot"}, []string{"Rtop"}
 	}
 	return []string{"Rg"}, []string{"Rf"}
 }
@@ -303,10 +308,13 @@ func (s *space) describe(b *classBest) (Design, *spec.Design, error) {
 	sortPositions(sd.Positions)
 	sort.SliceStable(parts, func(i, j int) bool { return parts[i].Position < parts[j].Position })
 	sd.Family = famName(fam)
-	sd.Amplifier.Part, sd.Amplifier.Amp, sd.Amplifier.Resolved = a.Part, *a, true
-	sd.Name = fmt.Sprintf("%s with %s", sd.Family, a.Part)
-	uses = append(uses, cost.Use{Part: a.Part, Offer: &a.Offer, Placements: 1})
-	parts = append(parts, Part{Position: "U1", Kind: string(catalog.KindAmplifier), Part: a.Part, Quantity: 1})
+	sd.Name = sd.Family
+	if a.Part != "" { // an unbuffered divider has none
+		sd.Amplifier.Part, sd.Amplifier.Amp, sd.Amplifier.Resolved = a.Part, *a, true
+		sd.Name = fmt.Sprintf("%s with %s", sd.Family, a.Part)
+		uses = append(uses, cost.Use{Part: a.Part, Offer: &a.Offer, Placements: 1})
+		parts = append(parts, Part{Position: "U1", Kind: string(catalog.KindAmplifier), Part: a.Part, Quantity: 1})
+	}
 	bd, err := cost.Price(s.p.Build, uses)
 	if err != nil {
 		return Design{}, nil, err

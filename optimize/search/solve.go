@@ -41,7 +41,7 @@ func FromSpec(s *spec.Spec) (Problem, error) {
 		InMin: s.Input.Min, InMax: s.Input.Max, CMMin: s.CommonMode.Min, CMMax: s.CommonMode.Max,
 		TMin: s.Temp.Min, TMax: s.Temp.Max, TRef: s.TempRef, BandwidthHz: s.Limits.BandwidthHz,
 		ZinMinOhm: s.Limits.InputImpedance, RMinOhm: s.Impedance.Min, RMaxOhm: s.Impedance.Max,
-		Derating: s.Derating, Method: Method(s.Analysis.Method), CalGain: s.Calibrate.Gain, CalOffset: s.Calibrate.Offset,
+		LeakageA: s.LeakageA, Derating: s.Derating, Method: Method(s.Analysis.Method), CalGain: s.Calibrate.Gain, CalOffset: s.Calibrate.Offset,
 		Limits: Limits{TotalGainError: s.Limits.GainError, DriftPPM: s.Limits.GainDrift * 1e6, CMRRdB: s.Limits.CMRRdB,
 			OffsetV: s.Limits.OutputOffsetV, OffsetDriftVK: s.Limits.OffsetDriftVK, NoiseDensity: s.Limits.NoiseDensity, NoiseRMS: s.Limits.NoiseRMSV},
 		Build: cost.Build{Quantity: s.Build.Quantity, Attrition: s.Build.Attrition, PerPlacement: s.Build.PlacementCost,
@@ -74,17 +74,19 @@ func FromSpec(s *spec.Spec) (Problem, error) {
 			p.Circuit, p.Families = NonInverting, append(p.Families, DiscreteNonInverting)
 		case spec.Inverting:
 			p.Circuit, p.Families = Inverting, append(p.Families, DiscreteInverting)
+		case spec.Divider:
+			p.Circuit, p.Families = Divider, append(p.Families, DiscreteDivider)
 		default:
 			unsupported = append(unsupported, f)
 		}
 	}
 	if len(unsupported) > 0 || len(p.Families) == 0 {
-		return p, fmt.Errorf("%w: families %v: the search builds %s, %s (alone or with %s), %s and %s stages; keep one circuit per spec",
-			ErrProblem, s.Families, spec.Difference, spec.Matched, spec.Difference, spec.NonInverting, spec.Inverting)
+		return p, fmt.Errorf("%w: families %v: the search builds %s, %s (alone or with %s), %s, %s and %s stages; keep one circuit per spec",
+			ErrProblem, s.Families, spec.Difference, spec.Matched, spec.Difference, spec.NonInverting, spec.Inverting, spec.Divider)
 	}
-	if p.Circuit == NonInverting || p.Circuit == Inverting {
+	if p.Circuit == NonInverting || p.Circuit == Inverting || p.Circuit == Divider {
 		if len(s.Families) > 1 {
-			return p, fmt.Errorf("%w: families %v: an inverting or non-inverting stage is searched alone", ErrProblem, s.Families)
+			return p, fmt.Errorf("%w: families %v: an inverting, non-inverting or divider stage is searched alone", ErrProblem, s.Families)
 		}
 	}
 	return p, nil
@@ -403,9 +405,13 @@ func (s *space) dominant(b *classBest, limit string) (string, float64) {
 	return best.name, best.v / sum
 }
 
+// idealGain is the gain magnitude of ratio k0 with an ideal amplifier.
 func (s *space) idealGain(k0 float64) float64 {
-	if s.p.Circuit == NonInverting {
+	switch s.p.Circuit {
+	case NonInverting:
 		return 1 + k0
+	case Divider:
+		return 1 / (1 + k0)
 	}
 	return k0
 }

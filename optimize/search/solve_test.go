@@ -257,3 +257,47 @@ func TestDesignNForBudget(t *testing.T) {
 		t.Errorf("DesignN(4) error %v", err)
 	}
 }
+
+// TestSolveDivider: gain 1/8 means Rtop/Rbot = 7 and a gain sensitivity of
+// 7/8 to the ratio. The 1 % 100 ppm/K grade drifts 7/8 x 200 = 175 ppm/K
+// (fails 50); the 0.1 % 25 ppm/K grade drifts 43.75 ppm/K and passes, so
+// rank 1 is two lines of 5000 at 0.04 = 400.00; mixing in the 10 ppm/K grade
+// costs 500.00, using it for both 600.00 (common practice arithmetic).
+func TestSolveDivider(t *testing.T) {
+	snap, s := loadFixture(t, "divider.yaml")
+	res, err := Solve(context.Background(), snap, s, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	wantCost := []float64{400, 500, 500, 600}
+	if len(res.Designs) != len(wantCost) {
+		t.Fatalf("%d designs, want %d", len(res.Designs), len(wantCost))
+	}
+	for i, d := range res.Designs {
+		if !within(d.TotalCost, wantCost[i], 1e-9) || d.Family != string(DiscreteDivider) {
+			t.Errorf("rank %d: %s %.2f, want divider %.2f", i+1, d.Family, d.TotalCost, wantCost[i])
+		}
+		if d.Metrics.GainError > 0.01 || d.Metrics.DriftPPMPerK > 50 {
+			t.Errorf("rank %d fails: %+v", i+1, d.Metrics)
+		}
+	}
+	d := res.Designs[0]
+	var top, bot float64
+	for _, p := range d.Parts {
+		switch {
+		case p.Position == "Rtop" && strings.HasPrefix(p.Part, "TB25-"):
+			top = p.ValueOhm
+		case p.Position == "Rbot" && strings.HasPrefix(p.Part, "TB25-"):
+			bot = p.ValueOhm
+		default:
+			t.Errorf("unexpected part %+v", p)
+		}
+	}
+	if top+bot < 100e3 || math.Abs(top/bot/7-1) > 0.01 {
+		t.Errorf("Rtop %g, Rbot %g: want a ratio of 7 and at least 100 k in all", top, bot)
+	}
+	// 43.75 ppm/K at exactly 7; the E96 ratio is within 1 % of it.
+	if !within(d.Metrics.DriftPPMPerK, 43.75, 2e-3) {
+		t.Errorf("drift %g, want about 43.75 ppm/K", d.Metrics.DriftPPMPerK)
+	}
+}

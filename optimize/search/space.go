@@ -236,12 +236,25 @@ func pinRange(p *Problem, k float64) (lo, hi float64) {
 
 // outRange returns the output voltages the stage must swing to.
 func outRange(p *Problem) (lo, hi float64) {
-	a := p.Gain*p.InMin + p.Ref
-	b := p.Gain*p.InMax + p.Ref
-	if p.Circuit == Inverting {
+	var a, b float64
+	switch p.Circuit {
+	case Inverting:
 		a, b = p.Ref-p.Gain*(p.InMin-p.Ref), p.Ref-p.Gain*(p.InMax-p.Ref)
+	case NonInverting:
+		// Rg returns to the reference: Vout = G·Vin - (G-1)·Vref.
+		a, b = p.Gain*p.InMin-(p.Gain-1)*p.Ref, p.Gain*p.InMax-(p.Gain-1)*p.Ref
+	case Divider:
+		a, b = p.Gain*p.InMin, p.Gain*p.InMax
+	default:
+		a, b = p.Gain*p.InMin+p.Ref, p.Gain*p.InMax+p.Ref
 	}
 	return math.Min(a, b), math.Max(a, b)
+}
+
+// noAmp stands in for the amplifier of an unbuffered divider: no cost, no
+// offset, and the load's leakage current as its bias current.
+func noAmp(p *Problem) amp {
+	return amp{a: &catalog.Amplifier{IbA: p.LeakageA}, k0: p.ratio()}
 }
 
 // hardAmp applies the hard limits to an amplifier at nominal ratio k:
@@ -285,6 +298,13 @@ func hardAmp(p *Problem, a *catalog.Amplifier, k float64) string {
 func buildAmps(parts *Parts, p *Problem, fams map[Family]bool) (op, matched []amp, why hardReason) {
 	why = hardReason{}
 	k := p.ratio()
+	if p.Circuit == Divider {
+		if lo, hi := outRange(p); lo < p.SupplyNeg || hi > p.SupplyPos {
+			why["output outside the supply"]++
+			return nil, nil, why
+		}
+		return []amp{noAmp(p)}, nil, why
+	}
 	w := p.window()
 	for i := range parts.Amplifiers {
 		a := &parts.Amplifiers[i]
