@@ -101,6 +101,9 @@ func SolveProblem(ctx context.Context, parts *Parts, p Problem, opt Options) (*R
 	if opt.Top <= 0 {
 		opt.Top = defaultTop
 	}
+	if err := ctx.Err(); err != nil {
+		return nil, fmt.Errorf("search: %w", err)
+	}
 	sp, err := newSpace(parts, &p, opt.Combos)
 	if err != nil {
 		return nil, err
