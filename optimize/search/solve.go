@@ -192,25 +192,20 @@ func (r *Result) DesignN(n int) (*spec.Design, error) {
 	return r.designs[n-1], nil
 }
 
+// limitFormats gives the scale and format each limit is printed with.
+var limitFormats = map[string]struct {
+	scale  float64
+	format string
+}{
+	limGain: {100, "%.3g %%"}, limGainInitial: {100, "%.3g %%"}, limCMRR: {1, "%.1f dB"},
+	limDrift: {1, "%.3g ppm/K"}, limOffset: {1, "%.3g V"}, limOffDrift: {1, "%.3g V/K"},
+	limNoise: {1, "%.3g V/√Hz"}, limNoiseRMS: {1, "%.3g V"}, limBandwidth: {1, "%.3g Hz"},
+}
+
 // limitText formats a limit's value with its unit.
 func limitText(l Limit) string {
-	switch l.Name {
-	case limGain, limGainInitial:
-		return fmt.Sprintf("%.3g %%", 100*l.Value)
-	case limCMRR:
-		return fmt.Sprintf("%.1f dB", l.Value)
-	case limDrift:
-		return fmt.Sprintf("%.3g ppm/K", l.Value)
-	case limOffset:
-		return fmt.Sprintf("%.3g V", l.Value)
-	case limOffDrift:
-		return fmt.Sprintf("%.3g V/K", l.Value)
-	case limNoise:
-		return fmt.Sprintf("%.3g V/√Hz", l.Value)
-	case limNoiseRMS:
-		return fmt.Sprintf("%.3g V", l.Value)
-	case limBandwidth:
-		return fmt.Sprintf("%.3g Hz", l.Value)
+	if f, ok := limitFormats[l.Name]; ok {
+		return fmt.Sprintf(f.format, f.scale*l.Value)
 	}
 	return fmt.Sprintf("%g", l.Value)
 }
