@@ -1,0 +1,193 @@
+package data
+
+import (
+	"context"
+	"io/fs"
+	"slices"
+	"strings"
+	"testing"
+
+	"plumb/catalog"
+)
+
+func demo(t *testing.T) (*catalog.Store, *catalog.Snapshot) {
+	t.Helper()
+	st, err := Demo()
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { st.Close() })
+	snap, err := st.Snapshot(context.Background())
+	if err != nil {
+		t.Fatal(err)
+	}
+	return st, snap
+}
+
+func TestDemoLoads(t *testing.T) {
+	st, snap := demo(t)
+	want := map[string]int{"series": 7, "resistors": 9, "networks": 3, "amplifiers": 10}
+	got := map[string]int{"series": len(snap.ResistorSeries), "resistors": len(snap.Resistors),
+		"networks": len(snap.Networks), "amplifiers": len(snap.Amplifiers)}
+	for k, n := range want {
+		if got[k] != n {
+			t.Errorf("%d %s, want %d", got[k], k, n)
+		}
+	}
+	stats, err := st.Stats(context.Background())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.Equal(stats.Currencies, []string{"USD"}) || !slices.Equal(stats.Sources, []string{DemoSource}) {
+		t.Errorf("currencies %q sources %q", stats.Currencies, stats.Sources)
+	}
+	if stats.PriceBreaks != 5*(7+9+3+10) {
+		t.Errorf("%d price breaks, want five per part", stats.PriceBreaks)
+	}
+}
+
+// offers returns every part's offer by part number.
+func offers(snap *catalog.Snapshot) map[string]catalog.Offer {
+	out := map[string]catalog.Offer{}
+	for _, p := range snap.ResistorSeries {
+		out[p.Part] = p.Offer
+	}
+	for _, p := range snap.Resistors {
+		out[p.Part] = p.Offer
+	}
+	for _, p := range snap.Networks {
+		out[p.Part] = p.Offer
+	}
+	for _, p := range snap.Amplifiers {
+		out[p.Part] = p.Offer
+	}
+	return out
+}
+
+func TestDemoPriceBreaks(t *testing.T) {
+	_, snap := demo(t)
+	lowStock := 0
+	for part, o := range offers(snap) {
+		var qty []int
+		for i, b := range o.PriceBreaks {
+			qty = append(qty, b.MinQty)
+			// Common practice: unit prices fall as the quantity rises.
+			if i > 0 && !(b.UnitPrice < o.PriceBreaks[i-1].UnitPrice) {
+				t.Errorf("%s: %g at %d is not below %g at %d", part, b.UnitPrice, b.MinQty,
+					o.PriceBreaks[i-1].UnitPrice, o.PriceBreaks[i-1].MinQty)
+			}
+			if b.Currency != "USD" {
+				t.Errorf("%s: currency %s", part, b.Currency)
+			}
+		}
+		if !slices.Equal(qty, []int{1, 10, 100, 1000, 5000}) {
+			t.Errorf("%s: breaks at %v, want 1, 10, 100, 1000, 5000", part, qty)
+		}
+		if o.Stock < 100 {
+			lowStock++
+		}
+	}
+	if lowStock < 2 {
+		t.Errorf("%d parts with low stock, want a few to exercise stock checks", lowStock)
+	}
+}
+
+func TestDemoGrades(t *testing.T) {
+	_, snap := demo(t)
+	// The series span the grades from 1 %/100 ppm thick film to
+	// 0.01 %/2 ppm foil.
+	var tols, tcrs []float64
+	for _, s := range snap.ResistorSeries {
+		tols = append(tols, s.Tolerance)
+		tcrs = append(tcrs, s.TCR)
+		if _, err := catalog.ExpandSeries(s); err != nil {
+			t.Errorf("%s: %v", s.Part, err)
+		}
+	}
+	if slices.Max(tols) != 0.01 || slices.Min(tols) != 0.0001 || slices.Max(tcrs) != 100 || slices.Min(tcrs) != 2 {
+		t.Errorf("tolerances %v tempcos %v", tols, tcrs)
+	}
+	for _, n := range snap.Networks {
+		// A network's point is matching: its ratio figures beat its
+		// absolute ones (common practice for thin-film and foil arrays).
+		if !(n.RatioTolerance < n.Tolerance) || !(n.TCRTracking < n.TCR) {
+			t.Errorf("%s: ratio %g / tracking %g not better than absolute %g / %g", n.Part,
+				n.RatioTolerance, n.TCRTracking, n.Tolerance, n.TCR)
+		}
+	}
+}
+
+func TestDemoAmplifiers(t *testing.T) {
+	_, snap := demo(t)
+	var aboveRail, matched, wideInput, typical, highVoltage int
+	for _, a := range snap.Amplifiers {
+		if a.CMPosV < 0 {
+			aboveRail++
+		}
+		if a.Type == catalog.MatchedAmp {
+			matched++
+			if a.InNegV < 0 && a.InPosV < 0 {
+				wideInput++
+			}
+		}
+		if len(a.TypicalOnly) > 0 {
+			typical++
+		}
+		if a.SupplyMaxV >= 36 {
+			highVoltage++
+		}
+	}
+	if aboveRail < 1 || matched != 2 || wideInput < 1 || typical < 1 || highVoltage < 1 {
+		t.Errorf("above-rail inputs %d, matched %d (wide input %d), typical-only %d, 36 V %d", aboveRail, matched, wideInput, typical, highVoltage)
+	}
+}
+
+func TestDemoIsInvented(t *testing.T) {
+	_, snap := demo(t)
+	makers := map[string]bool{}
+	for _, p := range snap.ResistorSeries {
+		makers[p.Maker] = true
+	}
+	for _, p := range snap.Resistors {
+		makers[p.Maker] = true
+	}
+	for _, p := range snap.Networks {
+		makers[p.Maker] = true
+	}
+	for _, p := range snap.Amplifiers {
+		makers[p.Maker] = true
+	}
+	invented := []string{"Fenwright Passives", "Amberlode Resistive", "Tollbridge Foilworks", "Kestrelmoor Analog", "Ivelwood Microsystems"}
+	for m := range makers {
+		if !slices.Contains(invented, m) {
+			t.Errorf("maker %q is not one of the invented demo makers", m)
+		}
+	}
+}
+
+func TestExamples(t *testing.T) {
+	names, err := fs.Glob(Examples(), "*.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(names) == 0 {
+		t.Skip("no example files yet")
+	}
+	for _, n := range names {
+		b, err := fs.ReadFile(Examples(), n)
+		if err != nil || !strings.Contains(string(b), ":") {
+			t.Errorf("%s: %v", n, err)
+		}
+	}
+}
+
+func BenchmarkDemo(b *testing.B) {
+	b.ReportAllocs()
+	for b.Loop() {
+		st, err := Demo()
+		if err != nil {
+			b.Fatal(err)
+		}
+		st.Close()
+	}
+}
