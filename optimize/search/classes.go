@@ -252,7 +252,7 @@ func (s *space) networkConfigs(parts *Parts) {
 				if (a == b && count[a] < 4) || count[a] < 2 || count[b] < 2 {
 					continue
 				}
-				k0 := b / a
+				k0, rp := s.effective(a, b)
 				if math.Abs(k0/s.k-1) > s.w || !s.zinOK(a, b) ||
 					!s.ratingOK(n.PowerW, n.MaxVoltageV, a, s.vG) || !s.ratingOK(n.PowerW, n.MaxVoltageV, b, s.vF) {
 					continue
@@ -264,7 +264,7 @@ func (s *space) networkConfigs(parts *Parts) {
 				c := config{fam: NetworkDifference, ga: -1, gb: -1, net: len(s.nets) - 1, na: a, nb: b,
 					g: networkGrades(n.RatioTolerance, n.TCRTracking)}
 				c.costLB = ext + s.assembly(1, 1)
-				c.opts = []option{{k0: k0, rp: a * b / (a + b), rg: -1, rf: -1, rf2: -1, cost: c.costLB, short: short}}
+				c.opts = []option{{k0: k0, rp: rp, rg: -1, rf: -1, rf2: -1, cost: c.costLB, short: short}}
 				c.built = true
 				s.cfgs = append(s.cfgs, c)
 			}
@@ -289,7 +289,7 @@ func (s *space) options(c *config) []option {
 		if !s.ratingOK(ga.grade.PowerW, ga.grade.MaxVoltageV, rg, s.vG) {
 			continue
 		}
-		target := s.k * rg
+		target := s.target(rg)
 		j := sort.SearchFloat64s(gb.values, target)
 		bestErr := math.Inf(1)
 		for _, jj := range [2]int{j - 1, j} {
@@ -297,7 +297,7 @@ func (s *space) options(c *config) []option {
 				continue
 			}
 			rf := gb.values[jj]
-			e := math.Abs(rf/target - 1)
+			e := s.quant(rg, rf)
 			bestErr = math.Min(bestErr, e)
 			if e > s.w || !s.zinOK(rg, rf) || !s.ratingOK(gb.grade.PowerW, gb.grade.MaxVoltageV, rf, s.vF) {
 				continue
@@ -310,12 +310,12 @@ func (s *space) options(c *config) []option {
 		if s.series && j > 0 {
 			// x the largest value below the target, y nearest the rest.
 			x := gb.values[j-1]
-			s.pairOptions(c, ga, gb, i, j-1, rg, target, target-x, bestErr, false)
+			s.pairOptions(c, ga, gb, i, j-1, rg, target-x, bestErr, false)
 		}
 		if s.parallel && j < len(gb.values) {
 			// x the smallest value above the target, y with x∥y = target.
 			x := gb.values[j]
-			s.pairOptions(c, ga, gb, i, j, rg, target, x*target/(x-target), bestErr, true)
+			s.pairOptions(c, ga, gb, i, j, rg, x*target/(x-target), bestErr, true)
 		}
 	}
 	sort.SliceStable(c.opts, func(i, j int) bool { return c.opts[i].cost < c.opts[j].cost })
@@ -325,7 +325,7 @@ func (s *space) options(c *config) []option {
 // pairOptions adds the options with gb value x (index jx) and the gb
 // values just below and above want, in series or in parallel, when the pair
 // is nearer the target than the best single value.
-func (s *space) pairOptions(c *config, ga, gb *group, i, jx int, rg, target, want, bestErr float64, par bool) {
+func (s *space) pairOptions(c *config, ga, gb *group, i, jx int, rg, want, bestErr float64, par bool) {
 	x := gb.values[jx]
 	m := sort.SearchFloat64s(gb.values, want)
 	for _, mm := range [2]int{m - 1, m} {
@@ -337,7 +337,7 @@ func (s *space) pairOptions(c *config, ga, gb *group, i, jx int, rg, target, wan
 		if par {
 			rf, vx, vy = x*y/(x+y), s.vF, s.vF
 		}
-		e := math.Abs(rf/target - 1)
+		e := s.quant(rg, rf)
 		if e >= bestErr || e > s.w || !s.zinOK(rg, rf) ||
 			!s.ratingOK(gb.grade.PowerW, gb.grade.MaxVoltageV, x, vx) ||
 			!s.ratingOK(gb.grade.PowerW, gb.grade.MaxVoltageV, y, vy) {
@@ -347,6 +347,46 @@ func (s *space) pairOptions(c *config, ga, gb *group, i, jx int, rg, target, wan
 			c.opts[n].par = true
 		}
 	}
+}
+
+// effective returns the ratio k0 and the resistance rp the amplifier's
+// inverting input sees for values rg and rf, with the source resistance in
+// series with the input resistors (difference, inverting: Rg + Rs; divider:
+// Rtop + Rs) and a divider's load in parallel with Rbot.
+func (s *space) effective(rg, rf float64) (k0, rp float64) {
+	p := s.p
+	switch p.Circuit {
+	case Difference, Inverting:
+		rg += p.SourceOhm
+	case Divider:
+		rf += p.SourceOhm
+		if p.LoadOhm > 0 {
+			rg = rg * p.LoadOhm / (rg + p.LoadOhm)
+		}
+	}
+	return rf / rg, rg * rf / (rg + rf)
+}
+
+// target is the Rf (divider: Rtop) value that gives the target ratio with
+// Rg = rg, the inverse of effective.
+func (s *space) target(rg float64) float64 {
+	p := s.p
+	switch p.Circuit {
+	case Difference, Inverting:
+		return s.k * (rg + p.SourceOhm)
+	case Divider:
+		if p.LoadOhm > 0 {
+			rg = rg * p.LoadOhm / (rg + p.LoadOhm)
+		}
+		return math.Max(s.k*rg-p.SourceOhm, 0)
+	}
+	return s.k * rg
+}
+
+// quant is the ratio quantization |k0/k - 1| of values rg and rf.
+func (s *space) quant(rg, rf float64) float64 {
+	k0, _ := s.effective(rg, rf)
+	return math.Abs(k0/s.k - 1)
 }
 
 // resetOptions forgets the value options of the discrete configurations
@@ -384,7 +424,8 @@ func (s *space) addOption(c *config, ga, gb *group, i, j, j2 int, rg, rf float64
 	if j2 >= 0 {
 		put(gb, j2)
 	}
-	o := option{k0: rf / rg, rp: rg * rf / (rg + rf), rg: int32(i), rf: int32(j), rf2: int32(j2)}
+	k0, rp := s.effective(rg, rf)
+	o := option{k0: k0, rp: rp, rg: int32(i), rf: int32(j), rf2: int32(j2)}
 	place := 0
 	for k := 0; k < n; k++ {
 		ln := lines[k]

@@ -190,6 +190,12 @@ func genProblem(r *rand.Rand) Problem {
 	if r.IntN(3) == 0 {
 		p.RMinOhm, p.RMaxOhm = 1e3, 200e3
 	}
+	if r.IntN(3) == 0 {
+		p.SourceOhm = []float64{50, 1e3}[r.IntN(2)]
+	}
+	if p.Circuit == Divider && r.IntN(2) == 0 {
+		p.LoadOhm = []float64{1e6, 100e3}[r.IntN(2)]
+	}
 	p.CalGain = r.IntN(5) == 0
 	p.CalOffset = r.IntN(5) == 0
 	return p

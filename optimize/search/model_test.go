@@ -107,6 +107,36 @@ func TestDividerCheckValues(t *testing.T) {
 	}
 }
 
+func TestEffectiveRatio(t *testing.T) {
+	tests := []struct {
+		name            string
+		c               Circuit
+		gain, src, load float64
+		rg, rf          float64
+		k0              float64
+	}{
+		// 50 ohm of source in series with 1 k: 10 k / 1.05 k (common practice arithmetic).
+		{"difference with source", Difference, 10, 50, 0, 1e3, 10e3, 10e3 / 1050},
+		{"non-inverting ignores source", NonInverting, 11, 50, 0, 1e3, 10e3, 10},
+		// Rbot 30 k in parallel with a 300 k load is 27.27 k; Rtop 210 k + 1 k of source.
+		{"loaded divider", Divider, 0.125, 1e3, 300e3, 30e3, 210e3, 211e3 / (30e3 * 300e3 / 330e3)},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			s := testSpace(tc.c, tc.gain, WorstCase)
+			s.p.SourceOhm, s.p.LoadOhm = tc.src, tc.load
+			k0, _ := s.effective(tc.rg, tc.rf)
+			if math.Abs(k0/tc.k0-1) > 1e-12 {
+				t.Errorf("k0 %.9g, want %.9g", k0, tc.k0)
+			}
+			// target inverts effective: at Rf = target(Rg) the ratio is exact.
+			if k, _ := s.effective(tc.rg, s.target(tc.rg)); math.Abs(k/s.k-1) > 1e-12 {
+				t.Errorf("target gives ratio %.9g, want %.9g", k, s.k)
+			}
+		})
+	}
+}
+
 // TestBoundIsLowerBound checks on random classes that the error bound the
 // search prunes with is never worse than any design of the class (the
 // property the exactness of the search rests on).

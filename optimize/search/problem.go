@@ -108,6 +108,10 @@ type Problem struct {
 	ZinMinOhm float64
 	// LeakageA is the current the load draws from a divider's output, A.
 	LeakageA float64
+	// SourceOhm is the source resistance in series with each input, ohm.
+	SourceOhm float64
+	// LoadOhm loads a divider's output (0: none), ohm.
+	LoadOhm float64
 	// RMinOhm and RMaxOhm bound every resistor value (default 100 Ω to
 	// 1 MΩ: below, dissipation and loading; above, bias-current error and
 	// noise).

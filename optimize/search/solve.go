@@ -41,7 +41,7 @@ func FromSpec(s *spec.Spec) (Problem, error) {
 		InMin: s.Input.Min, InMax: s.Input.Max, CMMin: s.CommonMode.Min, CMMax: s.CommonMode.Max,
 		TMin: s.Temp.Min, TMax: s.Temp.Max, TRef: s.TempRef, BandwidthHz: s.Limits.BandwidthHz,
 		ZinMinOhm: s.Limits.InputImpedance, RMinOhm: s.Impedance.Min, RMaxOhm: s.Impedance.Max,
-		LeakageA: s.LeakageA, Derating: s.Derating, Method: Method(s.Analysis.Method), CalGain: s.Calibrate.Gain, CalOffset: s.Calibrate.Offset,
+		LeakageA: s.LeakageA, SourceOhm: s.SourceOhm, LoadOhm: s.LoadOhm, Derating: s.Derating, Method: Method(s.Analysis.Method), CalGain: s.Calibrate.Gain, CalOffset: s.Calibrate.Offset,
 		Limits: Limits{TotalGainError: s.Limits.GainError, DriftPPM: s.Limits.GainDrift * 1e6, CMRRdB: s.Limits.CMRRdB,
 			OffsetV: s.Limits.OutputOffsetV, OffsetDriftVK: s.Limits.OffsetDriftVK, NoiseDensity: s.Limits.NoiseDensity, NoiseRMS: s.Limits.NoiseRMSV},
 		Build: cost.Build{Quantity: s.Build.Quantity, Attrition: s.Build.Attrition, PerPlacement: s.Build.PlacementCost,
