@@ -51,11 +51,7 @@ func runConfigShow(opts *configShowOptions) error {
 	s := opts.Settings()
 	rows := make([]settingJSON, len(configKeys))
 	for i, k := range configKeys {
-		v := s.Value(k)
-		if k == keyCatalog && v == "" {
-			v = "(embedded demo catalog)"
-		}
-		rows[i] = settingJSON{Key: k, Value: v, Source: s.Source(k)}
+		rows[i] = settingJSON{Key: k, Value: s.Value(k), Source: s.Source(k)}
 	}
 	switch opts.Format {
 	case "json":
@@ -69,6 +65,9 @@ func runConfigShow(opts *configShowOptions) error {
 	}
 	t := newTable(opts.IO, "SETTING", "VALUE", "SOURCE")
 	for _, r := range rows {
+		if r.Key == keyCatalog && r.Value == "" {
+			r.Value = "(embedded demo catalog)"
+		}
 		t.row(r.Key, r.Value, r.Source)
 	}
 	return t.render(opts.IO.Out)

@@ -12,7 +12,7 @@ import (
 
 // errFileExists is returned when an output file exists and --force is not
 // given.
-var errFileExists = errors.New("plumb: output file exists")
+var errFileExists = errors.New("output file exists")
 
 // writeFileAtomic writes path through write, all or nothing: the content
 // goes to a temporary file beside path which is renamed over it only when

@@ -48,6 +48,13 @@ func newRootCmd(f *Factory) *cobra.Command {
 			if f.Quiet && f.Verbose {
 				return usagef("--quiet and --verbose cannot be used together")
 			}
+			if f.Verbose {
+				file := s.File
+				if file == "" {
+					file = "none"
+				}
+				fmt.Fprintf(f.IO.ErrOut, "catalog: %s (from %s); config file: %s\n", f.CatalogName(), s.Source(keyCatalog), file)
+			}
 			return nil
 		},
 	}
@@ -68,7 +75,7 @@ func newRootCmd(f *Factory) *cobra.Command {
 		newConfigCmd(f),
 		newDemoCmd(f, nil),
 		newSolveCmd(f, nil),
-		// newCheckCmd(f, nil), // wired once optimize/budget.Evaluate lands
+		newCheckCmd(f, nil),
 		newBOMCmd(f, nil),
 		newImportCmd(f, nil),
 		newCompletionCmd(f, nil),

@@ -25,6 +25,7 @@ type solveOptions struct {
 	BOM     string
 	Force   bool
 	Quiet   bool
+	Verbose bool
 }
 
 func newSolveCmd(f *Factory, runF func(*solveOptions) error) *cobra.Command {
@@ -61,7 +62,7 @@ catalog can reach and exits with code 3.`,
 			if opts.Explain < 0 || opts.Explain > opts.Top {
 				return usagef("--explain %d: choose a rank from 1 to --top (%d)", opts.Explain, opts.Top)
 			}
-			opts.Quiet = f.Quiet
+			opts.Quiet, opts.Verbose = f.Quiet, f.Verbose
 			if runF != nil {
 				return runF(opts)
 			}
@@ -93,9 +94,14 @@ func runSolve(cmd *cobra.Command, opts *solveOptions) error {
 	if err != nil {
 		return fmt.Errorf("reading the catalog: %w", err)
 	}
+	start := opts.Now()
 	res, err := solveSpec(cmd, opts.IO, opts.Quiet, opts.Now, snap, sp, search.Options{Top: opts.Top, Combos: opts.Combos})
 	if res == nil {
 		return err
+	}
+	if opts.Verbose {
+		fmt.Fprintf(opts.IO.ErrOut, "searched %d design classes (%d evaluated, %d skipped by bound) in %s\n",
+			res.Search.Classes, res.Search.Evaluated, res.Search.BoundPruned, opts.Now().Sub(start).Round(time.Millisecond))
 	}
 	infeasible := errors.Is(err, search.ErrInfeasible)
 	if err != nil && !infeasible {

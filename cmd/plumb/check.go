@@ -1,0 +1,201 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"strconv"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"plumb/catalog"
+	"plumb/catalog/units"
+	"plumb/optimize/budget"
+	"plumb/optimize/spec"
+)
+
+// errCheckFailed is returned when a checked design breaks a limit.
+var errCheckFailed = errors.New("design fails the spec")
+
+type checkOptions struct {
+	IO      *IOStreams
+	Catalog catalogOpener
+	Spec    string
+	Design  string
+	Format  string
+}
+
+func newCheckCmd(f *Factory, runF func(*checkOptions) error) *cobra.Command {
+	opts := &checkOptions{IO: f.IO, Catalog: f.Catalog}
+	cmd := &cobra.Command{
+		Use:   "check SPEC --design DESIGN",
+		Short: "Compute the error budget of a design against a spec",
+		Long: `Compute the full error budget of the design DESIGN against the spec SPEC
+under the spec's analysis method (worst case over every tolerance corner,
+RSS, or Monte Carlo): one line per limit with the design's value, the limit,
+the margin and pass or fail, then each limit's contributors from largest to
+smallest, then cautions and notes. Parts named in the design are looked up
+in the catalog. SPEC and DESIGN are files or names of embedded examples.
+
+A design that fails a limit makes plumb exit with code 1 after printing the
+budget.`,
+		Example: `  plumb check logger-channel --design logger-design
+  plumb check attenuator --design attenuator-design --format json`,
+		Args: exactArgs("SPEC"),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			opts.Spec = args[0]
+			if opts.Design == "" {
+				return usagef("%s needs --design DESIGN (a design file or example name)", cmd.CommandPath())
+			}
+			var err error
+			if opts.Format, err = chooseFormat(cmd, f, opts.Format); err != nil {
+				return err
+			}
+			if runF != nil {
+				return runF(opts)
+			}
+			return runCheck(cmd.Context(), opts)
+		},
+	}
+	cmd.Flags().StringVar(&opts.Design, "design", "", "design `DESIGN` to check (file or example name)")
+	addFormatFlag(cmd, &opts.Format)
+	return cmd
+}
+
+func runCheck(ctx context.Context, opts *checkOptions) error {
+	sp, err := loadSpecArg(opts.Spec)
+	if err != nil {
+		return err
+	}
+	d, err := loadDesignArg(opts.Design)
+	if err != nil {
+		return err
+	}
+	if len(d.Unresolved()) > 0 {
+		st, err := opts.Catalog(ctx)
+		if err != nil {
+			return err
+		}
+		defer st.Close()
+		lookup := func(part string) (catalog.Kind, any, error) { return st.Find(ctx, part) }
+		if err := d.Resolve(lookup); err != nil {
+			return fmt.Errorf("%w: check the part numbers with `plumb catalog list --part PATTERN`", err)
+		}
+	}
+	res, err := budget.Evaluate(sp, d)
+	if err != nil {
+		return fmt.Errorf("budget of %s against %s: %w", opts.Design, specName(sp), err)
+	}
+	switch opts.Format {
+	case "json":
+		err = writeJSON(opts.IO.Out, res)
+	case "csv":
+		err = writeCSV(opts.IO.Out, checkCSVHeader, checkCSVRows(res))
+	default:
+		err = writeCheckTable(opts.IO.Out, opts.IO, sp, res)
+	}
+	if err != nil {
+		return err
+	}
+	if !res.Pass {
+		var fails []string
+		for _, l := range res.Limits {
+			if !l.Pass {
+				fails = append(fails, l.Name)
+			}
+		}
+		if len(fails) == 0 {
+			fails = append(fails, "the Monte Carlo yield target")
+		}
+		return fmt.Errorf("%w: %s breaks %s: change the parts named in its contributors, or run `plumb solve %s` for designs that pass",
+			errCheckFailed, opts.Design, strings.Join(fails, ", "), opts.Spec)
+	}
+	return nil
+}
+
+func writeCheckTable(w io.Writer, ios *IOStreams, sp *spec.Spec, r *budget.Result) error {
+	printCautions(w, ios, r.Cautions)
+	verdict := ios.Green("PASS")
+	if !r.Pass {
+		verdict = ios.Red("FAIL")
+	}
+	fmt.Fprintf(w, "%s %s against %s (%s): %s\n", ios.Bold("Budget of"), r.Family, specName(sp), r.Method, verdict)
+	for _, p := range r.Design {
+		value := ""
+		if p.Ohm > 0 {
+			value = " " + units.FormatOhms(p.Ohm)
+		}
+		fmt.Fprintf(w, "  %s: %s%s %s\n", p.Position, p.Part, value, p.Grade)
+	}
+	fmt.Fprintln(w)
+	t := newTable(ios, "LIMIT", "VALUE", "LIMIT", "MARGIN", "RESULT").alignRight(1, 2, 3)
+	for _, l := range r.Limits {
+		res := ios.Green("pass")
+		if !l.Pass {
+			res = ios.Red("FAIL")
+		}
+		margin := l.MarginText
+		if margin == "" {
+			margin = formatMargin(l.Margin)
+		}
+		t.row(l.Name, formatBudgetValue(l.Value, l.Unit), formatBudgetValue(l.Limit, l.Unit), margin, res)
+	}
+	if err := t.render(w); err != nil {
+		return err
+	}
+	if r.Binding != "" {
+		fmt.Fprintf(w, "binding limit: %s\n", r.Binding)
+	}
+	if r.WorstCorner != "" {
+		fmt.Fprintf(w, "worst corner: %s\n", r.WorstCorner)
+	}
+	for _, l := range r.Limits {
+		if len(l.Contributors) == 0 {
+			continue
+		}
+		fmt.Fprintf(w, "\n%s\n", ios.Bold("Contributors to "+l.Name+":"))
+		ct := newTable(ios, "CONTRIBUTOR", "SIZE", "SHARE").alignRight(1, 2)
+		for _, c := range l.Contributors {
+			size := formatBudgetValue(c.Value, l.Unit)
+			if l.Unit == "dB" {
+				// A dB figure does not split into terms; the share says it.
+				size = strconv.FormatFloat(c.Value, 'g', 3, 64)
+			}
+			ct.row(c.Name, size, strconv.FormatFloat(100*c.Share, 'f', 1, 64)+" %")
+		}
+		if err := ct.render(w); err != nil {
+			return err
+		}
+	}
+	if mc := r.MonteCarlo; mc != nil {
+		fmt.Fprintf(w, "\nMonte Carlo: %d trials (seed %d, %s), yield %s", mc.Trials, mc.Seed, mc.Distribution, units.FormatPercent(mc.Yield))
+		if mc.YieldTarget > 0 {
+			fmt.Fprintf(w, " against a target of %s", units.FormatPercent(mc.YieldTarget))
+		}
+		fmt.Fprintln(w)
+	}
+	if len(r.Notes) > 0 {
+		fmt.Fprintln(w)
+	}
+	for _, n := range r.Notes {
+		writeBullet(w, ios, "note: "+n)
+	}
+	return nil
+}
+
+var checkCSVHeader = []string{"limit", "value", "limit_value", "unit", "margin", "pass", "contributor", "contribution", "share"}
+
+// checkCSVRows lists each limit, then its contributors on their own rows.
+func checkCSVRows(r *budget.Result) [][]string {
+	g := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+	var rows [][]string
+	for _, l := range r.Limits {
+		rows = append(rows, []string{l.Name, g(l.Value), g(l.Limit), l.Unit, g(l.Margin), strconv.FormatBool(l.Pass), "", "", ""})
+		for _, c := range l.Contributors {
+			rows = append(rows, []string{l.Name, "", "", l.Unit, "", "", c.Name, g(c.Value), g(c.Share)})
+		}
+	}
+	return rows
+}
