@@ -1,0 +1,176 @@
+package budget
+
+import (
+	"fmt"
+	"math"
+)
+
+// Thresholds for cautions (domain notes §5; IEC 61010-1 and IEC 62368-1
+// give the exact limits, from memory).
+const (
+	// HazardDCV is the DC level above which a voltage is treated as
+	// hazardous.
+	HazardDCV = 60.0
+	// HazardRMSV is the rms level above which an AC voltage is treated as
+	// hazardous; a bipolar input is taken as a sine whose peak is its
+	// range end, so the threshold is HazardRMSV x √2 peak.
+	HazardRMSV = 30.0
+	// NearRating is the fraction of a derated power or rated voltage above
+	// which a resistor is flagged (common practice).
+	NearRating = 0.8
+	// NearPinV is how close an amplifier pin may come to its range before
+	// it is flagged.
+	NearPinV = 0.1
+)
+
+// hazardCaution is the text printed for specs at hazardous voltages.
+const hazardCaution = "HAZARDOUS VOLTAGE: %s reaches %.4g V, above %g V DC or %g V rms. " +
+	"Creepage, clearance, insulation and every resistor's voltage rating must be checked against the applicable standard " +
+	"(IEC 61010-1 for measurement equipment, IEC 62368-1 for ICT and AV equipment) and local codes by a qualified, licensed person. " +
+	"plumb is a selection aid, not a safety approval."
+
+// cautions adds hazardous-voltage and near-rating cautions to res.
+func (e *Evaluator) cautions(res *Result) {
+	s := e.s
+	worst, what := 0.0, ""
+	consider := func(v float64, name string) {
+		if math.Abs(v) > worst {
+			worst, what = math.Abs(v), name
+		}
+	}
+	if e.sigCur < 0 && e.family != "current-sense" {
+		if e.differential {
+			for _, cm := range [2]float64{s.CommonMode.Min, s.CommonMode.Max} {
+				for _, d := range [2]float64{s.Input.Min, s.Input.Max} {
+					consider(cm+d/2, "an input pin (common mode plus half the differential input)")
+				}
+			}
+		} else {
+			consider(s.Input.Min, "the input")
+			consider(s.Input.Max, "the input")
+		}
+	}
+	consider(s.CommonMode.Min, "the common-mode input")
+	consider(s.CommonMode.Max, "the common-mode input")
+	consider(s.Supply.Min, "a supply rail")
+	consider(s.Supply.Max, "a supply rail")
+	consider(s.Supply.Span(), "the supply span")
+	bipolarPeak := math.Min(math.Abs(s.Input.Min), math.Abs(s.Input.Max))
+	hazard := worst > HazardDCV || (s.Input.Min < 0 && s.Input.Max > 0 && e.sigCur < 0 && bipolarPeak > HazardRMSV*math.Sqrt2)
+	if hazard {
+		res.Cautions = append(res.Cautions, fmt.Sprintf(hazardCaution, what, worst, HazardDCV, HazardRMSV))
+	}
+	m := &res.Metrics
+	pr, pAt, vr, vAt := e.ratings()
+	if pAt >= 0 && pr > NearRating {
+		res.Cautions = append(res.Cautions, fmt.Sprintf("%s dissipates %.0f %% of its derated power (derating %.0f %%): near or above its rating; choose a larger part or higher values",
+			e.positions[pAt], 100*pr, 100*s.Derating))
+	}
+	if vAt >= 0 && vr > NearRating {
+		res.Cautions = append(res.Cautions, fmt.Sprintf("%s sees %.0f %% of its rated voltage min(sqrt(P R), limiting element voltage): near or above its rating",
+			e.positions[vAt], 100*vr))
+	}
+	if (e.matched || len(e.amps) > 0) && m.HeadroomV < NearPinV {
+		state := "within"
+		if m.HeadroomV < 0 {
+			state = "beyond"
+		}
+		res.Cautions = append(res.Cautions, fmt.Sprintf("%s comes %s %.0f mV of its range (%.3g V headroom) at an input or common-mode corner",
+			e.headWhere, state, 1e3*NearPinV, m.HeadroomV))
+	}
+	if a := e.c.Amp; a != nil && a.SupplyMaxV > 0 && s.Supply.Span() > a.SupplyMaxV {
+		res.Cautions = append(res.Cautions, fmt.Sprintf("the supply span %.3g V exceeds %s's maximum supply %.3g V", s.Supply.Span(), a.Part, a.SupplyMaxV))
+	}
+	if a := e.c.Amp; a != nil && a.SupplyMinV > 0 && s.Supply.Span() < a.SupplyMinV {
+		res.Cautions = append(res.Cautions, fmt.Sprintf("the supply span %.3g V is below %s's minimum supply %.3g V", s.Supply.Span(), a.Part, a.SupplyMinV))
+	}
+}
+
+// commonNotes states the modelling assumptions every result rests on.
+func (e *Evaluator) commonNotes(res *Result) {
+	s := e.s
+	res.Notes = append(res.Notes,
+		fmt.Sprintf("temperature points %g C (reference) and the range ends %g..%g C; worst excursion %g K", s.TempRef, s.Temp.Min, s.Temp.Max, s.WorstExcursion()),
+		"open-loop gain at its datasheet minimum; bias currents taken as constant over temperature",
+		fmt.Sprintf("noise: white densities at %g C, RMS over the brick-wall bandwidth π/2 x f-3dB of a single pole (1/f noise not modelled)", s.Temp.Max))
+	if s.Calibrate.Gain {
+		res.Notes = append(res.Notes, "gain calibrated once at the reference temperature: the initial gain error drops out; drift, load life and CMRR remain")
+	}
+	if s.Calibrate.Offset {
+		res.Notes = append(res.Notes, "offset calibrated once at the reference temperature: the initial offset drops out; its drift remains")
+	}
+	for _, t := range e.c.Figs {
+		if t.ThermalResistance > 0 {
+			res.Notes = append(res.Notes, "self-heating included: each resistor runs P x thermal resistance above ambient at the worst input corner")
+			break
+		}
+	}
+}
+
+// TempCurve is a design's gain error over the spec's temperature range for
+// the report plot: the nominal parts and the worst-case envelope.
+type TempCurve struct {
+	TempC   []float64 `json:"temp_c"`
+	Nominal []float64 `json:"nominal"` // fraction
+	Low     []float64 `json:"low"`     // fraction, worst low
+	High    []float64 `json:"high"`    // fraction, worst high
+}
+
+// GainErrorVsTemperature solves the gain error at n temperatures across the
+// spec's range: nominal parts, and the two corners where every parameter
+// sits at the end that raises (lowers) the gain at that temperature. With
+// gain calibration the error is relative to the gain at the reference
+// temperature.
+func (e *Evaluator) GainErrorVsTemperature(c *Candidate, n int) (*TempCurve, error) {
+	if err := e.SetCandidate(c); err != nil {
+		return nil, err
+	}
+	if n < 2 {
+		n = 2
+	}
+	s := e.s
+	tc := &TempCurve{}
+	var p, ref point
+	refGain := s.Gain
+	// errAt is the gain error at t of the parts at x: against the target,
+	// or with calibration against the same parts' gain at Tref.
+	errAt := func(t float64) (float64, error) {
+		if err := e.eval(e.x, t, false, &p); err != nil {
+			return 0, err
+		}
+		g := p.gain
+		if !s.Calibrate.Gain {
+			return g/refGain - 1, nil
+		}
+		if err := e.eval(e.x, s.TempRef, false, &ref); err != nil {
+			return 0, err
+		}
+		return g/ref.gain - 1, nil
+	}
+	for i := 0; i < n; i++ {
+		t := s.Temp.Min + (s.Temp.Max-s.Temp.Min)*float64(i)/float64(n-1)
+		nom, err := errAt(t)
+		if err != nil {
+			return nil, err
+		}
+		// Linear envelope: each parameter's excursion adds at its worst sign.
+		spread := 0.0
+		for j := range e.params {
+			if e.params[j].kind.amplifierTerm() {
+				continue
+			}
+			e.x[j] = 1
+			q, err := errAt(t)
+			e.x[j] = 0
+			if err != nil {
+				return nil, err
+			}
+			spread += math.Abs(q - nom)
+		}
+		tc.TempC = append(tc.TempC, t)
+		tc.Nominal = append(tc.Nominal, nom)
+		tc.Low = append(tc.Low, nom-spread)
+		tc.High = append(tc.High, nom+spread)
+	}
+	return tc, nil
+}

@@ -1,0 +1,614 @@
+package budget
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"math/bits"
+	"slices"
+
+	"plumb/catalog"
+	"plumb/optimize/circuit"
+	"plumb/optimize/spec"
+)
+
+// Sentinel errors.
+var (
+	// ErrCandidate is returned for a candidate that does not fit the
+	// evaluator: wrong number of positions, a non-positive value, a missing
+	// amplifier.
+	ErrCandidate = errors.New("budget: candidate does not fit the stage")
+	// ErrFamily is returned for a family the spec does not allow.
+	ErrFamily = errors.New("budget: family not allowed by the spec")
+)
+
+// maxAmps is the largest number of op-amps in a family (the in-amp's three).
+const maxAmps = 3
+
+// Solve-quality guard: a transfer below this is treated as zero when a
+// ratio of two transfers is formed (CMRR of a perfectly matched stage).
+const tinyTransfer = 1e-300
+
+// openLoopIdeal stands for the ideal amplifier when ratio quantization is
+// separated from the open-loop gain error.
+var openLoopIdeal = math.Inf(1)
+
+// paramKind says what one varying parameter moves.
+type paramKind uint8
+
+const (
+	pDev      paramKind = iota // resistor value, x * scale of nominal
+	pTC                        // resistor tempco, x * scale per K
+	pLife                      // resistor load-life shift
+	pRefTol                    // reference initial tolerance
+	pRefDrift                  // reference drift per K
+	pMGain                     // matched amplifier gain error
+	pMDrift                    // matched amplifier gain drift per K
+	// Amplifier terms below are linear in the output and handled in closed
+	// form by the worst-case and RSS methods; Monte Carlo draws them.
+	pVos
+	pVosDrift
+	pIb
+	pIos
+	pCMRR
+)
+
+func (k paramKind) amplifierTerm() bool { return k >= pVos }
+
+// param is one parameter that varies within x ∈ [-1, 1].
+type param struct {
+	kind  paramKind
+	mask  uint64 // positions moved (pDev, pTC, pLife)
+	scale float64
+	amp   int // op-amp index for amplifier terms
+	pos   int // position for naming (-1: a whole network)
+	group int // network number for naming
+}
+
+// point is what one exact solve at one parameter point and one temperature
+// yields.
+type point struct {
+	gain   float64 // signal transfer (V/V, or V/A for current sense)
+	adm    float64 // differential transfer in V/V (gain, or gain/Rs)
+	acm    float64 // common-mode transfer, V/V (resistor-limited, solved)
+	pinCM  [maxAmps]float64
+	base   float64 // output at zero signal with the reference applied
+	tvos   [maxAmps]float64
+	tibp   [maxAmps]float64
+	tibm   [maxAmps]float64
+	ng     [maxAmps]float64 // own-loop noise gain of each op-amp
+	refOut float64          // part of base that comes from the reference
+}
+
+// Evaluator scores designs of one family against one spec. It owns a
+// netlist and solver, so it is not safe for concurrent use; make one per
+// goroutine. After NewEvaluator, SetCandidate and the scoring methods do not
+// allocate.
+type Evaluator struct {
+	s      *spec.Spec
+	family string
+	opts   spec.Options
+
+	net       *circuit.Netlist
+	sol       *circuit.Solver
+	v         []float64
+	positions []string
+	resIdx    []int // netlist resistor per position
+	fixedOhm  []float64
+	fixedIdx  []int
+	noiseIdx  []int // current source across each netlist resistor
+
+	sigSrc, sigNeg int // signal voltage source(s): single-ended vin, or vp and vn
+	sigCur         int // signal current source (current sense)
+	cmSrcs         [2]int
+	refSrc         int
+	shunt          int // position index of the shunt, -1
+	leak           int // current source of the load's leakage, -1
+	amps           []int
+	matched        bool
+	differential   bool
+	cmBase         float64
+	target         float64 // target output at zero signal
+	temps          [3]float64
+	ntemps         int
+
+	// Per-candidate state.
+	c       Candidate
+	amp     catalog.Amplifier
+	aol     float64
+	cmrrAmp float64 // linear
+	params  []param
+	nom     []float64
+	dev     []float64
+	tc      []float64
+	life    []float64
+	heat    []float64
+	x       []float64
+	hasLife bool
+	ampIdx  [maxAmps][5]int // parameter index of Vos, Vos drift, Ib, Ios, CMRR
+
+	// Stress at the range corners, nominal values (see stress).
+	pmax, vmax []float64
+	headroom   float64
+	headWhere  string
+	sens       []sensRow
+}
+
+// NewEvaluator prepares an evaluator for designs of family (one of the
+// spec's families) with the given circuit options.
+func NewEvaluator(s *spec.Spec, family string, opts spec.Options) (*Evaluator, error) {
+	if !s.HasFamily(family) {
+		return nil, fmt.Errorf("%w: %s (spec %s allows %v)", ErrFamily, family, s.Name, s.Families)
+	}
+	e := &Evaluator{s: s, family: family, opts: opts, shunt: -1, leak: -1, sigSrc: -1, sigNeg: -1, sigCur: -1, refSrc: -1, cmSrcs: [2]int{-1, -1}}
+	e.differential = s.Differential || family == spec.CurrentSense
+	e.temps[0], e.ntemps = s.TempRef, 1
+	for _, t := range []float64{s.Temp.Min, s.Temp.Max} {
+		if t != s.TempRef && (e.ntemps == 1 || t != e.temps[1]) {
+			e.temps[e.ntemps] = t
+			e.ntemps++
+		}
+	}
+	e.cmBase = math.Max(s.CommonMode.Min, math.Min(s.CommonMode.Max, 0))
+	switch {
+	case family == spec.LevelShift:
+		e.target = s.Offset
+	case s.Reference != nil && family != spec.Inverting && family != spec.NonInverting && family != spec.Divider:
+		e.target = s.Reference.V
+	}
+	if family == spec.Matched {
+		e.matched = true
+		e.positions = nil
+	} else if err := e.buildNetlist(); err != nil {
+		return nil, err
+	}
+	n := len(e.positions)
+	e.nom, e.dev, e.tc, e.life, e.heat = make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
+	e.params = make([]param, 0, 6*n+5*maxAmps+4)
+	e.x = make([]float64, 0, cap(e.params))
+	e.c.Figs = make([]Fig, n)
+	e.pmax, e.vmax = make([]float64, n), make([]float64, n)
+	e.sens = make([]sensRow, cap(e.params))
+	return e, nil
+}
+
+// Positions lists the resistor positions a candidate fills, in order.
+func (e *Evaluator) Positions() []string { return slices.Clone(e.positions) }
+
+// Family returns the evaluator's family.
+func (e *Evaluator) Family() string { return e.family }
+
+func (e *Evaluator) buildNetlist() error {
+	net, err := circuit.New(circuit.Family(e.family), e.circuitOptions())
+	if err != nil {
+		return fmt.Errorf("budget: %s: %w", e.family, err)
+	}
+	// A current source across every resistor carries its thermal noise.
+	for _, r := range net.Resistors {
+		net.Currents = append(net.Currents, circuit.CurrentSource{Name: "noise " + r.Name, From: r.A, To: r.B})
+	}
+	e.net = net
+	for i, r := range net.Resistors {
+		if e.specResistor(r.Name) {
+			ohm := e.s.SourceOhm
+			if r.Name == "Rload" {
+				ohm = e.s.LoadOhm
+			}
+			e.fixedIdx = append(e.fixedIdx, i)
+			e.fixedOhm = append(e.fixedOhm, ohm)
+			continue
+		}
+		e.positions = append(e.positions, r.Name)
+		e.resIdx = append(e.resIdx, i)
+		if r.Name == "Rs" && e.family == spec.CurrentSense {
+			e.shunt = len(e.positions) - 1
+		}
+	}
+	if len(e.positions) > 64 {
+		return fmt.Errorf("budget: %s has %d positions, more than 64", e.family, len(e.positions))
+	}
+	for i := range net.Resistors {
+		e.noiseIdx = append(e.noiseIdx, net.CurrentIndex("noise "+net.Resistors[i].Name))
+	}
+	for i := range net.OpAmps {
+		e.amps = append(e.amps, i)
+	}
+	if len(e.amps) > maxAmps {
+		return fmt.Errorf("budget: %s has %d op-amps, more than %d", e.family, len(e.amps), maxAmps)
+	}
+	switch {
+	case e.family == spec.CurrentSense:
+		e.sigCur = net.CurrentIndex("isense")
+		e.cmSrcs[0] = net.SourceIndex("vbus")
+	case net.SourceIndex("vp") >= 0:
+		e.sigSrc, e.sigNeg = net.SourceIndex("vp"), net.SourceIndex("vn")
+		e.cmSrcs = [2]int{e.sigSrc, e.sigNeg}
+	default:
+		e.sigSrc = net.SourceIndex("vin")
+	}
+	// The spec's reference drives the reference input of the stages that
+	// pass it to the output (difference, current sense, in-amp) or shift by
+	// it (level shift); inverting and non-inverting stages keep theirs at 0.
+	switch e.family {
+	case spec.Difference, spec.CurrentSense, spec.InAmp, spec.LevelShift:
+		e.refSrc = net.SourceIndex("vref")
+		if e.opts.RefDivider {
+			e.refSrc = net.SourceIndex("vrefsrc")
+		}
+	}
+	e.leak = net.CurrentIndex("iload")
+	if e.sigSrc < 0 && e.sigCur < 0 {
+		return fmt.Errorf("budget: %s netlist has no signal source", e.family)
+	}
+	e.sol = circuit.NewSolver(net)
+	e.v = make([]float64, len(net.Nodes))
+	return nil
+}
+
+// Amplifier index helpers.
+func (e *Evaluator) nAmps() int {
+	if e.matched {
+		return 1
+	}
+	return len(e.amps)
+}
+
+// SetCandidate loads a candidate: its figures, its varying parameters and
+// its self-heating. It does not allocate once the evaluator has seen a
+// candidate of the same size.
+func (e *Evaluator) SetCandidate(c *Candidate) error {
+	if len(c.Figs) != len(e.positions) {
+		return fmt.Errorf("%w: %d figures for %d positions %v", ErrCandidate, len(c.Figs), len(e.positions), e.positions)
+	}
+	if c.Amp == nil && (e.matched || len(e.amps) > 0) {
+		return fmt.Errorf("%w: no amplifier", ErrCandidate)
+	}
+	for k, f := range c.Figs {
+		if !(f.Ohm > 0) || math.IsInf(f.Ohm, 0) || f.Tolerance < 0 || f.TCR < 0 {
+			return fmt.Errorf("%w: %s: value %g ohm, tolerance %g, TCR %g", ErrCandidate, e.positions[k], f.Ohm, f.Tolerance, f.TCR)
+		}
+	}
+	copy(e.c.Figs, c.Figs)
+	e.c.Amp, e.c.MatchedGain = c.Amp, c.MatchedGain
+	if c.Amp != nil {
+		e.amp = *c.Amp
+	} else {
+		e.amp = catalog.Amplifier{}
+	}
+	e.aol = e.amp.AolVV
+	if !(e.aol > 0) {
+		e.aol = openLoopIdeal
+	}
+	e.cmrrAmp = math.Inf(1)
+	if e.amp.CMRRdB > 0 {
+		e.cmrrAmp = math.Pow(10, e.amp.CMRRdB/20)
+	}
+	if e.matched && !(c.MatchedGain > 0) {
+		return fmt.Errorf("%w: matched amplifier without a chosen gain", ErrCandidate)
+	}
+	e.buildParams()
+	for k := range e.nom {
+		e.nom[k] = e.c.Figs[k].Ohm
+		e.heat[k] = 0
+	}
+	return e.stress()
+}
+
+func (e *Evaluator) addParam(p param) {
+	if p.scale != 0 {
+		e.params = append(e.params, p)
+	}
+}
+
+// buildParams lists the varying parameters of the loaded candidate.
+func (e *Evaluator) buildParams() {
+	e.params = e.params[:0]
+	e.hasLife = false
+	figs := e.c.Figs
+	var seen uint64
+	for k, f := range figs {
+		if f.Network == 0 {
+			e.addParam(param{kind: pDev, mask: 1 << k, scale: f.Tolerance, pos: k})
+			e.addParam(param{kind: pTC, mask: 1 << k, scale: f.TCR, pos: k})
+		} else if seen&(1<<k) == 0 {
+			// One common shift per network, drawn once for all its elements.
+			var mask uint64
+			for j := k; j < len(figs); j++ {
+				if figs[j].Network == f.Network {
+					mask |= 1 << j
+				}
+			}
+			seen |= mask
+			e.addParam(param{kind: pDev, mask: mask, scale: math.Max(f.Tolerance-f.RatioTolerance/2, 0), pos: -1, group: f.Network})
+			e.addParam(param{kind: pTC, mask: mask, scale: math.Max(f.TCR-f.TCRTracking/2, 0), pos: -1, group: f.Network})
+		}
+		if f.Network != 0 {
+			e.addParam(param{kind: pDev, mask: 1 << k, scale: f.RatioTolerance / 2, pos: k})
+			e.addParam(param{kind: pTC, mask: 1 << k, scale: f.TCRTracking / 2, pos: k})
+		}
+		if f.LoadLife > 0 {
+			e.addParam(param{kind: pLife, mask: 1 << k, scale: f.LoadLife, pos: k})
+			e.hasLife = true
+		}
+	}
+	if r := e.s.Reference; r != nil && e.refSrc >= 0 {
+		e.addParam(param{kind: pRefTol, scale: r.Tolerance, pos: -1})
+		e.addParam(param{kind: pRefDrift, scale: r.Drift, pos: -1})
+	}
+	if e.matched {
+		e.addParam(param{kind: pMGain, scale: e.amp.GainErrorMax, pos: -1})
+		e.addParam(param{kind: pMDrift, scale: e.amp.GainDriftPPM * 1e-6, pos: -1})
+	}
+	for i := 0; i < e.nAmps(); i++ {
+		e.addParam(param{kind: pVos, scale: e.amp.VosV, amp: i, pos: -1})
+		e.addParam(param{kind: pVosDrift, scale: e.amp.VosDriftVK, amp: i, pos: -1})
+		e.addParam(param{kind: pIb, scale: e.amp.IbA, amp: i, pos: -1})
+		e.addParam(param{kind: pIos, scale: e.amp.IosA / 2, amp: i, pos: -1})
+		if e.differential {
+			e.addParam(param{kind: pCMRR, scale: 1 / e.cmrrAmp, amp: i, pos: -1})
+		}
+	}
+	e.x = e.x[:len(e.params)]
+	clear(e.x)
+	for i := range e.ampIdx {
+		for k, kind := range ampKinds {
+			e.ampIdx[i][k] = e.ampX(i, kind)
+		}
+	}
+}
+
+// paramName names parameter j for budgets ("R2 tolerance"); it allocates
+// and is used only when results are built.
+func (e *Evaluator) paramName(j int) string {
+	p := e.params[j]
+	who := "network"
+	if p.pos >= 0 {
+		who = e.positions[p.pos]
+	} else if p.group > 0 {
+		who = fmt.Sprintf("network %d (%s)", p.group, e.groupMembers(p.mask))
+	}
+	ampName := func() string {
+		if e.matched {
+			return "amplifier"
+		}
+		return e.net.OpAmps[e.amps[p.amp]].Name
+	}
+	ratio := p.pos >= 0 && e.c.Figs[p.pos].Network != 0
+	switch p.kind {
+	case pDev:
+		if ratio {
+			return who + " ratio tolerance"
+		}
+		if p.pos < 0 {
+			return who + " absolute tolerance"
+		}
+		return who + " tolerance"
+	case pTC:
+		if ratio {
+			return who + " TCR tracking"
+		}
+		if p.pos < 0 {
+			return who + " absolute TCR"
+		}
+		return who + " TCR"
+	case pLife:
+		return who + " load life"
+	case pRefTol:
+		return "reference tolerance"
+	case pRefDrift:
+		return "reference drift"
+	case pMGain:
+		return "amplifier gain error"
+	case pMDrift:
+		return "amplifier gain drift"
+	case pVos:
+		return ampName() + " Vos"
+	case pVosDrift:
+		return ampName() + " Vos drift"
+	case pIb:
+		return ampName() + " Ib"
+	case pIos:
+		return ampName() + " Ios"
+	case pCMRR:
+		return ampName() + " CMRR"
+	}
+	return "?"
+}
+
+func (e *Evaluator) groupMembers(mask uint64) string {
+	s := ""
+	for m := mask; m != 0; m &= m - 1 {
+		if s != "" {
+			s += ","
+		}
+		s += e.positions[bits.TrailingZeros64(m)]
+	}
+	return s
+}
+
+// setValues writes every resistor's value at parameter point x and
+// temperature t (°C) into the netlist: R = Rnom (1 + δ + life)(1 + α (t -
+// Tref + ΔT_self)), and returns the reference scale factor.
+func (e *Evaluator) setValues(x []float64, t float64, life bool) float64 {
+	clear(e.dev)
+	clear(e.tc)
+	clear(e.life)
+	ref := 1.0
+	dt := t - e.s.TempRef
+	for j := range e.params {
+		xv := x[j]
+		if xv == 0 {
+			continue
+		}
+		p := &e.params[j]
+		switch p.kind {
+		case pDev, pTC, pLife:
+			dst := e.dev
+			if p.kind == pTC {
+				dst = e.tc
+			} else if p.kind == pLife {
+				if !life {
+					continue
+				}
+				dst = e.life
+			}
+			for m := p.mask; m != 0; m &= m - 1 {
+				dst[bits.TrailingZeros64(m)] += xv * p.scale
+			}
+		case pRefTol:
+			ref *= 1 + xv*p.scale
+		case pRefDrift:
+			ref *= 1 + xv*p.scale*dt
+		}
+	}
+	if e.net != nil {
+		for k, idx := range e.resIdx {
+			e.net.Resistors[idx].Ohm = e.nom[k] * (1 + e.dev[k] + e.life[k]) * (1 + e.tc[k]*(dt+e.heat[k]))
+		}
+		for i, idx := range e.fixedIdx {
+			e.net.Resistors[idx].Ohm = e.fixedOhm[i]
+		}
+	}
+	return ref
+}
+
+// quiet sets every source, current and amplifier error source to zero.
+func (e *Evaluator) quiet() {
+	n := e.net
+	for i := range n.Sources {
+		n.Sources[i].V = 0
+	}
+	for i := range n.Currents {
+		n.Currents[i].A = 0
+	}
+	for i := range n.OpAmps {
+		n.OpAmps[i].Vos, n.OpAmps[i].IbPlus, n.OpAmps[i].IbMinus = 0, 0, 0
+	}
+}
+
+// driveSignal applies a unit signal: 1 V single-ended, ±0.5 V
+// differential, or 1 A through the shunt.
+func (e *Evaluator) driveSignal(scale float64) {
+	switch {
+	case e.sigCur >= 0:
+		e.net.Currents[e.sigCur].A = scale
+	case e.sigNeg >= 0:
+		e.net.Sources[e.sigSrc].V += scale / 2
+		e.net.Sources[e.sigNeg].V -= scale / 2
+	default:
+		e.net.Sources[e.sigSrc].V += scale
+	}
+}
+
+// driveCM applies common-mode voltage vcm to the inputs (or the shunt).
+func (e *Evaluator) driveCM(vcm float64) {
+	for _, i := range e.cmSrcs {
+		if i >= 0 {
+			e.net.Sources[i].V += vcm
+		}
+	}
+}
+
+func (e *Evaluator) solve() float64 {
+	e.sol.Solve(e.v)
+	return e.v[e.net.Out]
+}
+
+// eval solves the stage at parameter point x and temperature t. full adds
+// the amplifier transfers (offset, noise gain); the gain, common-mode and
+// base solves are always done.
+func (e *Evaluator) eval(x []float64, t float64, life bool, p *point) error {
+	ref := e.setValues(x, t, life)
+	if e.matched {
+		e.evalMatched(x, t, ref, p)
+		return nil
+	}
+	n := e.net
+	for _, i := range e.amps {
+		n.OpAmps[i].Gain = e.aol
+	}
+	if err := e.sol.Factor(); err != nil {
+		return fmt.Errorf("budget: %s: %w", e.family, err)
+	}
+	e.quiet()
+	e.driveSignal(1)
+	p.gain = e.solve()
+	p.adm = p.gain
+	if e.shunt >= 0 {
+		p.adm = p.gain / n.Resistors[e.resIdx[e.shunt]].Ohm
+	}
+	if e.differential {
+		e.quiet()
+		e.driveCM(1)
+		p.acm = e.solve()
+		for a, i := range e.amps {
+			op := &n.OpAmps[i]
+			p.pinCM[a] = (e.v[op.Plus] + e.v[op.Minus]) / 2
+		}
+	}
+	e.quiet()
+	e.driveCM(e.cmBase)
+	if e.refSrc >= 0 && e.s.Reference != nil {
+		n.Sources[e.refSrc].V = e.s.Reference.V * ref
+	}
+	if e.leak >= 0 {
+		n.Currents[e.leak].A = e.s.LeakageA
+	}
+	p.base = e.solve()
+	for a, i := range e.amps {
+		op := &n.OpAmps[i]
+		e.quiet()
+		op.Vos = 1
+		p.tvos[a] = e.solve()
+		p.ng[a] = math.Abs(e.v[op.Out])
+		op.Vos = 0
+		op.IbPlus = 1
+		p.tibp[a] = e.solve()
+		op.IbPlus, op.IbMinus = 0, 1
+		p.tibm[a] = e.solve()
+	}
+	return nil
+}
+
+// evalMatched models an amplifier with matched resistors inside from its
+// datasheet figures: gain G (1 + x ε)(1 + x' α ΔT); the offset referred to
+// the output through the noise gain 1 + G; CMRR from the datasheet.
+func (e *Evaluator) evalMatched(x []float64, t float64, ref float64, p *point) {
+	g := e.c.MatchedGain
+	for j := range e.params {
+		switch e.params[j].kind {
+		case pMGain:
+			g *= 1 + x[j]*e.params[j].scale
+		case pMDrift:
+			g *= 1 + x[j]*e.params[j].scale*(t-e.s.TempRef)
+		}
+	}
+	p.gain, p.adm, p.acm = g, g, 0
+	p.pinCM[0] = e.c.MatchedGain / (1 + e.c.MatchedGain)
+	p.base = 0
+	if e.s.Reference != nil {
+		p.base = e.s.Reference.V * ref
+	}
+	p.tvos[0], p.ng[0] = 1+e.c.MatchedGain, 1+e.c.MatchedGain
+	p.tibp[0], p.tibm[0] = 0, 0
+}
+
+// ampKinds orders the amplifier terms of ampIdx.
+var ampKinds = [5]paramKind{pVos, pVosDrift, pIb, pIos, pCMRR}
+
+// circuitOptions maps the design's options and the spec's source and load
+// onto the netlist's options.
+func (e *Evaluator) circuitOptions() circuit.Options {
+	return circuit.Options{RefDivider: e.opts.RefDivider, Buffer: e.opts.Buffer, OffsetToInverting: e.opts.OffsetToInverting,
+		Load: e.s.LoadOhm > 0, SourceImpedance: e.s.SourceOhm > 0 && e.family != spec.CurrentSense}
+}
+
+// specResistor reports whether a netlist resistor stands for something the
+// spec fixes (source impedance, load) rather than a position to fill.
+func (e *Evaluator) specResistor(name string) bool {
+	switch name {
+	case "Rload", "Rsrc", "Rsrcp", "Rsrcn":
+		return true
+	}
+	return false
+}

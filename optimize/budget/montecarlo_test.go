@@ -1,0 +1,118 @@
+package budget
+
+import (
+	"math"
+	"testing"
+
+	"plumb/optimize/spec"
+)
+
+// TestMonteCarloInsideWorstCase: for metrics monotonic in every parameter
+// no Monte Carlo trial may lie beyond the worst-case corners (a property
+// of extreme value analysis, ECSS-Q-HB-30-01A, from memory).
+func TestMonteCarloInsideWorstCase(t *testing.T) {
+	for _, dist := range []string{"uniform", "normal"} {
+		t.Run(dist, func(t *testing.T) {
+			s := mustSpec(t, diffSpec(2, "monte-carlo"))
+			s.Analysis.Distribution, s.Analysis.Trials, s.Analysis.Seed = dist, 5000, 3
+			d := mustDesign(t, diffDesign(2, "1%"))
+			mc, err := Evaluate(s, d)
+			if err != nil {
+				t.Fatal(err)
+			}
+			s.Analysis.Method = spec.WorstCase
+			wc, err := Evaluate(s, d)
+			if err != nil {
+				t.Fatal(err)
+			}
+			p := mc.MonteCarlo.Percentiles[MetricGainError]
+			if m := math.Max(-p.Min, p.Max); m > wc.Metrics.GainError*(1+1e-12) {
+				t.Errorf("Monte Carlo gain error %.6g beyond the worst case %.6g", m, wc.Metrics.GainError)
+			}
+			if c := mc.MonteCarlo.Percentiles[MetricCMRR].Min; c < wc.Metrics.CMRRdB-1e-9 {
+				t.Errorf("Monte Carlo CMRR %.6g dB below the worst case %.6g dB", c, wc.Metrics.CMRRdB)
+			}
+			if len(mc.MonteCarlo.Samples[MetricGainError]) != 5000 {
+				t.Errorf("kept %d samples, want 5000", len(mc.MonteCarlo.Samples[MetricGainError]))
+			}
+		})
+	}
+}
+
+// TestMonteCarloAgreesWithRSS: for many small independent tolerances the
+// Monte Carlo standard deviation of the gain agrees with the RSS figure /
+// sigmas, and the yield against a limit set at the RSS 2-sigma point is
+// 95.45 % within the binomial band (central limit theorem; the normal
+// table's 95.45 % for ±2 sigma, from memory). Four 0.1 % parts of a
+// unity-gain difference amplifier, each normal truncated at 3 sigma (which
+// narrows the spread by about 1.3 %).
+func TestMonteCarloAgreesWithRSS(t *testing.T) {
+	const trials = 40000
+	src := diffSpec(1, "rss")
+	s := mustSpec(t, src)
+	d := mustDesign(t, diffDesign(1, "0.1%"))
+	rss, err := Evaluate(s, d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sigma := rss.Metrics.GainError / s.Analysis.Sigmas // nominal error is zero here
+	s.Analysis.Method, s.Analysis.Trials, s.Analysis.Distribution = spec.MonteCarlo, trials, spec.Normal
+	s.Limits = spec.Limits{GainError: 2 * sigma}
+	mc, err := Evaluate(s, d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sd := mc.MonteCarlo.Percentiles[MetricGainError].StdDev
+	if math.Abs(sd/sigma-1) > 0.03 {
+		t.Errorf("Monte Carlo sigma %.5g vs RSS sigma %.5g", sd, sigma)
+	}
+	y := mc.MonteCarlo.PerLimitYield[LimitGainError]
+	band := 4 * math.Sqrt(0.9545*(1-0.9545)/trials)
+	// Truncation at 3 sigma narrows the distribution: allow its shift too.
+	if y < 0.9545-band || y > 0.9545+band+0.004 {
+		t.Errorf("yield at the RSS 2-sigma limit %.4f, want 0.9545 ± %.4f", y, band)
+	}
+}
+
+func TestMonteCarloReproducible(t *testing.T) {
+	s := mustSpec(t, diffSpec(1, "monte-carlo"))
+	s.Analysis.Trials = 500
+	d := mustDesign(t, diffDesign(1, "1%"))
+	a, err := Evaluate(s, d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := Evaluate(s, d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a.MonteCarlo.Percentiles[MetricGainError] != b.MonteCarlo.Percentiles[MetricGainError] {
+		t.Error("same seed gave different results")
+	}
+}
+
+// TestNetworkCorrelation: a network's elements share their absolute shift,
+// so a difference amplifier on one network has a far better CMRR than on
+// discrete parts of the same absolute tolerance; the worst case follows
+// (1+G)/(2r) for ratio tolerance r (domain notes §2).
+func TestNetworkCorrelation(t *testing.T) {
+	s := mustSpec(t, diffSpec(1, "worst-case"))
+	e, err := NewEvaluator(s, spec.Difference, spec.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	amp := idealAmpFigures()
+	net := func() Fig {
+		return Fig{Label: "NET", Ohm: 10e3, Tolerance: 0.001, Network: 1, RatioTolerance: 0.0002}
+	}
+	c := &Candidate{Figs: []Fig{net(), net(), net(), net()}, Amp: &amp}
+	res, err := e.Evaluate(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// (1+1)/(2 x 0.0002) = 5000, 74 dB.
+	got := math.Pow(10, res.Metrics.CMRRdB/20)
+	if math.Abs(got/5000-1) > 0.01 {
+		t.Errorf("network CMRR %.5g, want about 5000 ((1+G)/(2r))", got)
+	}
+}

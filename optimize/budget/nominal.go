@@ -1,0 +1,250 @@
+package budget
+
+import (
+	"math"
+)
+
+// corners lists the signal and common-mode extremes the stress and
+// headroom checks solve at.
+func (e *Evaluator) corners(buf *[4][2]float64) [][2]float64 {
+	c := buf[:0]
+	cms := [2]float64{e.cmBase, e.cmBase}
+	if e.differential {
+		cms = [2]float64{e.s.CommonMode.Min, e.s.CommonMode.Max}
+	}
+	for _, sig := range [2]float64{e.s.Input.Min, e.s.Input.Max} {
+		for i, cm := range cms {
+			if i == 1 && cms[0] == cms[1] {
+				break
+			}
+			c = append(c, [2]float64{sig, cm})
+		}
+	}
+	return c
+}
+
+// stress solves the stage at nominal values at every input and
+// common-mode corner and records each resistor's worst voltage and
+// dissipation and the least headroom of any amplifier pin or output:
+// inputs against V- + CMNeg .. V+ - CMPos, outputs against V- + SwingNeg ..
+// V+ - SwingPos (catalog.Amplifier). It then sets each resistor's
+// self-heating rise ΔT = P θ (domain notes §3).
+func (e *Evaluator) stress() error {
+	clear(e.pmax)
+	clear(e.vmax)
+	clear(e.heat)
+	e.headroom, e.headWhere = math.Inf(1), ""
+	var buf [4][2]float64
+	corners := e.corners(&buf)
+	vneg, vpos := e.s.Supply.Min, e.s.Supply.Max
+	a := &e.amp
+	check := func(v, lo, hi float64, where string) {
+		m := math.Min(v-lo, hi-v)
+		if m < e.headroom {
+			e.headroom, e.headWhere = m, where
+		}
+	}
+	if e.matched {
+		g := e.c.MatchedGain
+		ref := 0.0
+		if e.s.Reference != nil {
+			ref = e.s.Reference.V
+		}
+		for _, c := range corners {
+			for _, vin := range [2]float64{c[1] + c[0]/2, c[1] - c[0]/2} {
+				check(vin, vneg+a.InNegV, vpos-a.InPosV, "amplifier input")
+			}
+			check(c[1]*g/(1+g)+ref/(1+g), vneg+a.CMNegV, vpos-a.CMPosV, "amplifier internal input")
+			check(g*c[0]+ref, vneg+a.SwingNegV, vpos-a.SwingPosV, "amplifier output")
+		}
+		return nil
+	}
+	e.setValues(e.x, e.s.TempRef, false)
+	n := e.net
+	for _, i := range e.amps {
+		n.OpAmps[i].Gain = e.aol
+	}
+	if err := e.sol.Factor(); err != nil {
+		return err
+	}
+	for _, c := range corners {
+		e.quiet()
+		e.driveSignal(c[0])
+		e.driveCM(c[1])
+		if e.refSrc >= 0 && e.s.Reference != nil {
+			n.Sources[e.refSrc].V = e.s.Reference.V
+		}
+		if e.leak >= 0 {
+			n.Currents[e.leak].A = e.s.LeakageA
+		}
+		e.solve()
+		for k, idx := range e.resIdx {
+			r := &n.Resistors[idx]
+			v := math.Abs(e.v[r.A] - e.v[r.B])
+			e.vmax[k] = math.Max(e.vmax[k], v)
+			e.pmax[k] = math.Max(e.pmax[k], v*v/r.Ohm)
+		}
+		for _, i := range e.amps {
+			op := &n.OpAmps[i]
+			check(e.v[op.Plus], vneg+a.CMNegV, vpos-a.CMPosV, op.Name+" + input")
+			check(e.v[op.Minus], vneg+a.CMNegV, vpos-a.CMPosV, op.Name+" - input")
+			check(e.v[op.Out], vneg+a.SwingNegV, vpos-a.SwingPosV, op.Name+" output")
+		}
+	}
+	for k := range e.heat {
+		e.heat[k] = e.pmax[k] * e.c.Figs[k].ThermalResistance
+	}
+	return nil
+}
+
+// ratings returns the worst resistor dissipation over its derated power
+// and the worst voltage over its rated voltage min(sqrt(P R), limiting
+// element voltage) (IEC 60115-1, from memory), with the positions.
+func (e *Evaluator) ratings() (pr float64, pAt int, vr float64, vAt int) {
+	pAt, vAt = -1, -1
+	for k, f := range e.c.Figs {
+		if f.PowerW > 0 {
+			if r := e.pmax[k] / (e.s.Derating * f.PowerW); r > pr {
+				pr, pAt = r, k
+			}
+			rated := math.Sqrt(f.PowerW * f.Ohm)
+			if f.MaxVoltageV > 0 {
+				rated = math.Min(rated, f.MaxVoltageV)
+			}
+			if r := e.vmax[k] / rated; r > vr {
+				vr, vAt = r, k
+			}
+		} else if f.MaxVoltageV > 0 {
+			if r := e.vmax[k] / f.MaxVoltageV; r > vr {
+				vr, vAt = r, k
+			}
+		}
+	}
+	return pr, pAt, vr, vAt
+}
+
+// noiseTerm is one source of output noise density, V/√Hz at the output.
+type noiseTerm struct {
+	res  int // netlist resistor, or -1
+	amp  int // amplifier index for amplifier terms
+	kind int // 0 resistor, 1 voltage noise, 2 current noise
+	v    float64
+}
+
+// nominal computes the figures that do not vary with tolerances: noise
+// gain, bandwidth GBW/NG, output noise density and RMS, input impedance,
+// headroom and ratings. terms, when not nil, receives the noise terms.
+//
+// Noise: each resistor's thermal current sqrt(4kT/R) is injected across it
+// and carried to the output by the solved transfer; the amplifier's
+// voltage noise goes through the Vos transfer and its current noise through
+// the two bias-current transfers; all add in power. T is the top of the
+// temperature range (the worst case for thermal noise). RMS is the density
+// over the brick-wall equivalent bandwidth π/2 x f-3dB of a single pole
+// (white noise assumed; 1/f noise is not modelled).
+func (e *Evaluator) nominal(m *Metrics, terms *[]noiseTerm) error {
+	kelvin := e.s.Temp.Max + 273.15
+	pr, _, vr, _ := e.ratings()
+	m.PowerRatio, m.VoltageRatio = pr, vr
+	m.HeadroomV = e.headroom
+	if math.IsInf(m.HeadroomV, 1) {
+		m.HeadroomV = 0
+	}
+	a := &e.amp
+	if e.matched {
+		g := e.c.MatchedGain
+		m.NoiseGain = 1 + g
+		m.BandwidthHz = a.GBWHz / m.NoiseGain
+		// Internal resistors R (inputs) and G R (feedback and reference): the
+		// thermal noise of R || GR at each input, through the noise gain.
+		rpar := a.InternalOhm * g / (1 + g)
+		en2 := a.NoiseVHz * a.NoiseVHz * m.NoiseGain * m.NoiseGain
+		rn2 := 2 * 4 * Boltzmann * kelvin * rpar * m.NoiseGain * m.NoiseGain
+		m.NoiseDensity = math.Sqrt(en2 + rn2)
+		if terms != nil {
+			*terms = append(*terms, noiseTerm{res: -1, kind: 1, v: math.Sqrt(en2)}, noiseTerm{res: -2, v: math.Sqrt(rn2)})
+		}
+		m.NoiseRMSV = m.NoiseDensity * math.Sqrt(NoiseBandwidthFactor*m.BandwidthHz)
+		m.InputImpedanceOhm = a.InternalOhm
+		return nil
+	}
+	e.setValues(e.x, e.s.TempRef, false)
+	n := e.net
+	for _, i := range e.amps {
+		n.OpAmps[i].Gain = e.aol
+	}
+	if err := e.sol.Factor(); err != nil {
+		return err
+	}
+	var d2 float64
+	for i := range n.Resistors {
+		e.quiet()
+		n.Currents[e.noiseIdx[i]].A = 1
+		t := e.solve() * math.Sqrt(4*Boltzmann*kelvin/n.Resistors[i].Ohm)
+		d2 += t * t
+		if terms != nil {
+			*terms = append(*terms, noiseTerm{res: i, v: math.Abs(t)})
+		}
+	}
+	m.BandwidthHz = 0
+	for ai, i := range e.amps {
+		op := &n.OpAmps[i]
+		e.quiet()
+		op.Vos = 1
+		tv := e.solve()
+		ng := math.Abs(e.v[op.Out])
+		if ai == 0 {
+			m.NoiseGain = ng
+		}
+		if bw := a.GBWHz / ng; a.GBWHz > 0 && (m.BandwidthHz == 0 || bw < m.BandwidthHz) {
+			m.BandwidthHz = bw
+		}
+		op.Vos, op.IbPlus = 0, 1
+		tp := e.solve()
+		op.IbPlus, op.IbMinus = 0, 1
+		tm := e.solve()
+		vn := a.NoiseVHz * tv
+		in2 := a.NoiseAHz * a.NoiseAHz * (tp*tp + tm*tm)
+		d2 += vn*vn + in2
+		if terms != nil {
+			*terms = append(*terms, noiseTerm{res: -1, amp: ai, kind: 1, v: math.Abs(vn)}, noiseTerm{res: -1, amp: ai, kind: 2, v: math.Sqrt(in2)})
+		}
+	}
+	m.NoiseDensity = math.Sqrt(d2)
+	m.NoiseRMSV = m.NoiseDensity * math.Sqrt(NoiseBandwidthFactor*m.BandwidthHz)
+	m.InputImpedanceOhm = e.inputImpedance()
+	return nil
+}
+
+// inputImpedance drives the unit signal at nominal values and returns the
+// smallest V/I seen at a signal source node (the current found from the
+// resistors meeting the node), capped at zinCap.
+func (e *Evaluator) inputImpedance() float64 {
+	if e.sigSrc < 0 {
+		return 0 // current input: the shunt is the impedance, not a limit
+	}
+	n := e.net
+	e.quiet()
+	e.driveSignal(1)
+	e.solve()
+	z := zinCap
+	for _, si := range [2]int{e.sigSrc, e.sigNeg} {
+		if si < 0 {
+			continue
+		}
+		node := n.Sources[si].Node
+		cur := 0.0
+		for _, r := range n.Resistors {
+			switch node {
+			case r.A:
+				cur += (e.v[r.A] - e.v[r.B]) / r.Ohm
+			case r.B:
+				cur += (e.v[r.B] - e.v[r.A]) / r.Ohm
+			}
+		}
+		if cur != 0 {
+			z = math.Min(z, math.Abs(e.v[node]/cur))
+		}
+	}
+	return z
+}
