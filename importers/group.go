@@ -1,6 +1,7 @@
 package importers
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"slices"
@@ -21,6 +22,9 @@ type Group struct {
 	Values    int
 	MinOhm    float64
 	MaxOhm    float64
+	// StockMin and StockMax span the values' stock (-1 = unknown); the
+	// series keeps StockMin.
+	StockMin, StockMax int
 }
 
 // groupKey is what every row of a series shares: maker, line, grade and
@@ -36,38 +40,60 @@ func groupKey(r *catalog.Resistor) string {
 }
 
 // groupSeries folds runs of consecutive rows that share maker, line, grade
-// and price list, and whose values are exactly the values of one IEC 60063
+// and price list, whose values are exactly the values of one IEC 60063
 // series between the smallest and the largest (at least one decade's worth
-// of them), into ResistorSeries. The rows stay as Resistors, each naming
-// its series in SeriesPart, since they carry their own part number and
-// stock.
-func groupSeries(file string, rows []parsed) ([]catalog.ResistorSeries, []Group) {
-	var series []catalog.ResistorSeries
-	var groups []Group
+// of them), and whose part numbers are the catalog's series part numbers
+// (stem-VALUECODE, see catalog.ResistorSeries.PartNumber), into
+// ResistorSeries. Other rows stay single Resistors. notes says what was
+// grouped, and which runs could not be.
+func groupSeries(file string, rows []parsed) (series []catalog.ResistorSeries, singles []catalog.Resistor, groups []Group, notes []Problem) {
 	for start := 0; start < len(rows); {
 		end := start + 1
 		key := groupKey(rows[start].resistor)
 		for end < len(rows) && groupKey(rows[end].resistor) == key {
 			end++
 		}
-		if s, g, ok := asSeries(file, rows[start:end]); ok {
-			series = append(series, s)
-			groups = append(groups, g)
-		}
+		run := rows[start:end]
 		start = end
+		es := seriesOf(run)
+		if es == nil {
+			for _, p := range run {
+				singles = append(singles, *p.resistor)
+			}
+			continue
+		}
+		s, g, why := asSeries(file, run, es)
+		if why != "" {
+			notes = append(notes, newProblem(Info, &ParseError{File: file, Line: run[0].line,
+				Err: fmt.Errorf("lines %d-%d cover %s from %g to %g ohm at one grade and price, but %s: kept as single resistors",
+					run[0].line, run[len(run)-1].line, es.Name, run[0].resistor.ValueOhm, run[len(run)-1].resistor.ValueOhm, why)}, ""))
+			for _, p := range run {
+				singles = append(singles, *p.resistor)
+			}
+			continue
+		}
+		series = append(series, s)
+		groups = append(groups, g)
+		msg := fmt.Sprintf("lines %d-%d grouped as series %s: %s, %d values from %g to %g ohm", g.FirstLine, g.LastLine, g.Series, g.ESeries, g.Values, g.MinOhm, g.MaxOhm)
+		if g.StockMin != g.StockMax {
+			msg += fmt.Sprintf("; stock per value runs from %d to %d, the series keeps the least", g.StockMin, g.StockMax)
+		}
+		notes = append(notes, newProblem(Info, &ParseError{File: file, Line: g.FirstLine, Err: errors.New(msg)}, g.Series))
 	}
-	return series, groups
+	return series, singles, groups, notes
 }
 
-func asSeries(file string, run []parsed) (catalog.ResistorSeries, Group, bool) {
+// seriesOf returns the coarsest E-series whose values between the run's
+// smallest and largest are exactly the run's values, or nil.
+func seriesOf(run []parsed) *eseries.Series {
 	vals := make([]float64, len(run))
 	for i, p := range run {
 		vals[i] = p.resistor.ValueOhm
 	}
 	sort.Float64s(vals)
-	vals = slices.CompactFunc(vals, func(a, b float64) bool { return closeTo(a, b) && math.Abs(a-b) <= 1e-9*a })
+	vals = slices.CompactFunc(vals, func(a, b float64) bool { return math.Abs(a-b) <= 1e-9*a })
 	if len(vals) != len(run) || len(vals) < 3 {
-		return catalog.ResistorSeries{}, Group{}, false
+		return nil
 	}
 	lo, hi := vals[0], vals[len(vals)-1]
 	for _, es := range eseries.All() {
@@ -85,55 +111,35 @@ func asSeries(file string, run []parsed) (catalog.ResistorSeries, Group, bool) {
 				break
 			}
 		}
-		if !match {
-			continue
+		if match {
+			return es
 		}
-		r0 := run[0].resistor
-		stem := partStem(run)
-		s := catalog.ResistorSeries{Part: stem, Maker: r0.Maker, Line: r0.Line, ESeries: es.Name, MinOhm: lo, MaxOhm: hi,
-			ResistorGrade: r0.ResistorGrade, Offer: catalog.Offer{PriceBreaks: r0.PriceBreaks, MinOrder: r0.MinOrder, Stock: -1},
-			Provenance: r0.Provenance}
-		for _, p := range run {
-			p.resistor.SeriesPart = stem
+	}
+	return nil
+}
+
+// asSeries builds the series of a run, or says why the run cannot be one.
+func asSeries(file string, run []parsed, es *eseries.Series) (catalog.ResistorSeries, Group, string) {
+	r0 := run[0].resistor
+	stem := ""
+	for _, p := range run {
+		code := "-" + catalog.ValueCode(p.resistor.ValueOhm)
+		st, ok := strings.CutSuffix(p.resistor.Part, code)
+		if !ok || code == "-" || st == "" || stem != "" && st != stem {
+			return catalog.ResistorSeries{}, Group{}, fmt.Sprintf("part number %s is not the series stem followed by -%s", p.resistor.Part, catalog.ValueCode(p.resistor.ValueOhm))
 		}
-		g := Group{File: file, FirstLine: run[0].line, LastLine: run[len(run)-1].line, Series: stem, ESeries: es.Name,
-			Values: len(vals), MinOhm: lo, MaxOhm: hi}
-		return s, g, true
+		stem = st
 	}
-	return catalog.ResistorSeries{}, Group{}, false
-}
-
-// partStem names a series by what its part numbers share: the common
-// prefix and suffix around the value code, "TF0603-*-B25". When they share
-// little, maker, line and grade name it.
-func partStem(run []parsed) string {
-	pre, suf := run[0].resistor.Part, run[0].resistor.Part
-	for _, p := range run[1:] {
-		pre = commonPrefix(pre, p.resistor.Part)
-		suf = commonSuffix(suf, p.resistor.Part)
+	lo, hi := math.Inf(1), math.Inf(-1)
+	stockMin, stockMax := math.MaxInt, -1
+	for _, p := range run {
+		lo, hi = math.Min(lo, p.resistor.ValueOhm), math.Max(hi, p.resistor.ValueOhm)
+		stockMin, stockMax = min(stockMin, p.resistor.Stock), max(stockMax, p.resistor.Stock)
 	}
-	if len(pre)+len(suf) >= len(run[0].resistor.Part) {
-		suf = ""
-	}
-	if len(pre) >= 3 {
-		return pre + "*" + suf
-	}
-	r := run[0].resistor
-	return fmt.Sprintf("%s %s %s %g%% %gppm", r.Maker, r.Line, r.Package, r.Tolerance*100, r.TCR)
-}
-
-func commonPrefix(a, b string) string {
-	n := 0
-	for n < len(a) && n < len(b) && a[n] == b[n] {
-		n++
-	}
-	return a[:n]
-}
-
-func commonSuffix(a, b string) string {
-	n := 0
-	for n < len(a) && n < len(b) && a[len(a)-1-n] == b[len(b)-1-n] {
-		n++
-	}
-	return a[len(a)-n:]
+	s := catalog.ResistorSeries{Part: stem, Maker: r0.Maker, Line: r0.Line, ESeries: es.Name, MinOhm: lo, MaxOhm: hi,
+		ResistorGrade: r0.ResistorGrade, Offer: catalog.Offer{PriceBreaks: r0.PriceBreaks, MinOrder: r0.MinOrder, Stock: stockMin},
+		Provenance: r0.Provenance}
+	g := Group{File: file, FirstLine: run[0].line, LastLine: run[len(run)-1].line, Series: stem, ESeries: es.Name,
+		Values: len(run), MinOhm: lo, MaxOhm: hi, StockMin: stockMin, StockMax: stockMax}
+	return s, g, ""
 }

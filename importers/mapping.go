@@ -57,6 +57,8 @@ const (
 	ConfPhrase Confidence = 0.8
 	// ConfOverlap: the header shares words with a trade word.
 	ConfOverlap Confidence = 0.5
+	// typicalPenalty ranks a "typ" column below a "max" one for a field.
+	typicalPenalty = 0.05
 	// confFloor is the least score taken as a match.
 	confFloor = 0.4
 )
@@ -336,6 +338,10 @@ func candidates(infos []headerInfo, kind catalog.Kind) []candidate {
 				if c, h := score(hi.tokens, strings.Fields(syn)); c > best {
 					best, how = c, h
 				}
+			}
+			if hi.typical {
+				// A maximum beats a typical figure for the same field.
+				best -= typicalPenalty
 			}
 			if best >= confFloor {
 				out = append(out, candidate{fi.field, col, best, how})

@@ -84,7 +84,7 @@ func Read(ctx context.Context, files []string, opt Options) (*Batch, *Report, er
 	}
 	sortProblems(rep.Problems)
 	rep.Summary.Rows = rows
-	rep.Summary.Parts = b.Len()
+	rep.Summary.Parts = b.Len() + len(b.Series)
 	rep.Summary.Series = len(b.Series)
 	for _, p := range rep.Problems {
 		if p.Severity == Skip && p.Line > 0 {
@@ -100,7 +100,11 @@ func readFile(ctx context.Context, name string, opt Options, b *Batch, rep *Repo
 		return &ParseError{File: name, Err: fmt.Errorf("opening: %w", err)}
 	}
 	defer f.Close()
-	rd, err := NewReader(name, f)
+	return readStream(ctx, name, f, opt, b, rep, rows)
+}
+
+func readStream(ctx context.Context, name string, in io.Reader, opt Options, b *Batch, rep *Report, rows *int) error {
+	rd, err := NewReader(name, in)
 	if err != nil {
 		return err
 	}
@@ -228,15 +232,13 @@ func readFile(ctx context.Context, name string, opt Options, b *Batch, rep *Repo
 		return &ParseError{File: name, Err: fmt.Errorf("%w: export the table again with its rows", ErrNoRows)}
 	}
 	if len(res) > 0 {
-		series, groups := groupSeries(name, res)
+		series, singles, groups, notes := groupSeries(name, res)
 		b.Series = append(b.Series, series...)
+		b.Resistors = append(b.Resistors, singles...)
 		fr.Groups = groups
-		for _, g := range groups {
-			rep.Problems = append(rep.Problems, newProblem(Info, &ParseError{File: name, Line: g.FirstLine,
-				Err: fmt.Errorf("lines %d-%d grouped as series %s: %s, %d values from %g to %g ohm", g.FirstLine, g.LastLine, g.Series, g.ESeries, g.Values, g.MinOhm, g.MaxOhm)}, g.Series))
-		}
-		for _, p := range res {
-			b.Resistors = append(b.Resistors, *p.resistor)
+		rep.Problems = append(rep.Problems, notes...)
+		for _, s := range series {
+			b.origin[string(catalog.KindSeries)+"|"+s.Part] = origin{name, 0}
 		}
 	}
 	fr.Rows = fileRows

@@ -41,8 +41,9 @@ func mustRead(t *testing.T, files ...string) (*Batch, *Report) {
 
 func TestFourShapesGiveTheSameParts(t *testing.T) {
 	want, _ := mustRead(t, fourShapes[0])
-	if len(want.Resistors) != 17 {
-		t.Fatalf("%s: %d resistors, want 17", fourShapes[0], len(want.Resistors))
+	// 12 rows of one E12 decade fold into a series; 5 stay single.
+	if len(want.Resistors) != 5 || len(want.Series) != 1 {
+		t.Fatalf("%s: %d resistors and %d series, want 5 and 1", fourShapes[0], len(want.Resistors), len(want.Series))
 	}
 	for _, f := range fourShapes[1:] {
 		t.Run(filepath.Base(f), func(t *testing.T) {
@@ -128,17 +129,43 @@ func TestSeriesGrouping(t *testing.T) {
 	if got := eseries.E12.Values(s.MinOhm, s.MaxOhm); len(got) != 12 {
 		t.Errorf("E12 from 1k to 8.2k has %d values, want 12", len(got))
 	}
-	grouped := 0
+	// The series part numbers are the rows' own: stem + "-" + value code.
+	if s.Part != "TFA0603B25" || s.PartNumber(4700) != "TFA0603B25-4K70" {
+		t.Errorf("series part %q, value part %q", s.Part, s.PartNumber(4700))
+	}
+	// Stock runs 1000, 1037, ... 1407 over the 12 values; a series holds
+	// one figure per value, so it keeps the least.
+	if s.Stock != 1000 {
+		t.Errorf("series stock %d, want 1000", s.Stock)
+	}
+	text := problemText(rep)
+	if !strings.Contains(text, "grouped as series TFA0603B25") || !strings.Contains(text, "from 1000 to 1407") {
+		t.Errorf("the report does not say what was grouped: %s", text)
+	}
 	for _, r := range b.Resistors {
-		if r.SeriesPart == s.Part {
-			grouped++
+		if strings.HasPrefix(r.Part, "TFA0603B25-") {
+			t.Errorf("grouped row %s also kept as a single resistor", r.Part)
 		}
 	}
-	if grouped != 12 {
-		t.Errorf("%d resistors name the series, want 12", grouped)
+}
+
+func TestNoSeriesWithoutSeriesPartNumbers(t *testing.T) {
+	dir := t.TempDir()
+	f := filepath.Join(dir, "e6.csv")
+	var sb strings.Builder
+	sb.WriteString("Part Number,Resistance,Tolerance,TCR,Price\n")
+	for _, v := range []string{"10", "15", "22", "33", "47", "68"} {
+		sb.WriteString("ODD" + v + "X," + v + "R,1%,100ppm,$0.01\n")
 	}
-	if !strings.Contains(problemText(rep), "grouped as series") {
-		t.Errorf("the report does not say what was grouped: %s", problemText(rep))
+	if err := os.WriteFile(f, []byte(sb.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	b, rep := mustRead(t, f)
+	if len(b.Series) != 0 || len(b.Resistors) != 6 {
+		t.Errorf("%d series, %d resistors; want 0 and 6", len(b.Series), len(b.Resistors))
+	}
+	if !strings.Contains(problemText(rep), "kept as single resistors") {
+		t.Errorf("report does not say why no series: %s", problemText(rep))
 	}
 }
 
@@ -150,13 +177,14 @@ func problemText(rep *Report) string {
 
 func TestValuesFromTheDescription(t *testing.T) {
 	b, rep := mustRead(t, "testdata/resistors_d.csv")
-	r := findResistor(t, b, "TFA0603-1K80-B25")
-	if r.ValueOhm != 1800 {
-		t.Errorf("resistance from the description %q: %g, want 1800", "RES 1K8 OHM ...", r.ValueOhm)
+	// Line 5 has no resistance; its description says 1K8. Only with 1800 Ω
+	// read does the E12 decade stay whole and fold into one series.
+	if len(b.Series) != 1 || len(rep.Files[0].Groups) != 1 || rep.Files[0].Groups[0].Values != 12 {
+		t.Fatalf("series %+v", rep.Files[0].Groups)
 	}
 	var found bool
 	for _, p := range rep.Problems {
-		if p.Part == "TFA0603-1K80-B25" && p.Severity == Info && p.Line == 5 && p.Column == "Ohms" && strings.Contains(p.Reason, "description") {
+		if p.Part == "TFA0603B25-1K80" && p.Severity == Info && p.Line == 5 && p.Column == "Ohms" && strings.Contains(p.Reason, "description") {
 			found = true
 		}
 	}

@@ -54,7 +54,11 @@ type Reader struct {
 // NewReader sniffs the shape of r (named name in errors) and reads its
 // header. Errors are *ParseError wrapping ErrNotCSV, ErrEmpty,
 // ErrTooManyColumns or ErrRecordTooLong.
-func NewReader(name string, r io.Reader) (*Reader, error) {
+func NewReader(name string, r io.Reader) (*Reader, error) { return newReader(name, r, 0) }
+
+// newReader is NewReader with the separator given (sep != 0) instead of
+// sniffed.
+func newReader(name string, r io.Reader, sep rune) (*Reader, error) {
 	fail := func(line int, err error) error { return &ParseError{File: name, Line: line, Err: err} }
 	br := bufio.NewReaderSize(r, sniffBytes)
 	head, err := br.Peek(sniffBytes)
@@ -81,7 +85,7 @@ func NewReader(name string, r io.Reader) (*Reader, error) {
 	if why := notText(head); why != "" {
 		return nil, fail(0, fmt.Errorf("%w: %s; export the table as CSV (comma, semicolon or tab separated text)", ErrNotCSV, why))
 	}
-	if enc == "UTF-8" && !validUTF8Prefix(head) {
+	if enc == "UTF-8" && !validUTF8Prefix(head, len(head) == sniffBytes) {
 		// Not UTF-8 and not binary: the usual other encoding of spreadsheet
 		// exports (the ± ° µ signs of a tolerance column).
 		text = transform.NewReader(br, charmap.Windows1252.NewDecoder())
@@ -89,6 +93,9 @@ func NewReader(name string, r io.Reader) (*Reader, error) {
 		enc = "Windows-1252"
 	}
 	shape := sniff(head)
+	if sep != 0 {
+		shape.Separator = sep
+	}
 	shape.Encoding = enc
 
 	guard := &recordGuard{r: text, sep: byte(shape.Separator)}
@@ -135,7 +142,10 @@ func (r *Reader) next() ([]string, int, error) {
 		return nil, 0, io.EOF
 	}
 	rec, err := r.csv.Read()
-	line, _ := r.csv.FieldPos(0)
+	line := r.guard.line
+	if err == nil && len(rec) > 0 {
+		line, _ = r.csv.FieldPos(0)
+	}
 	if r.guard.err != nil {
 		return nil, line, &ParseError{File: r.name, Line: r.guard.line, Err: r.guard.err}
 	}
@@ -241,12 +251,13 @@ func notText(head []byte) string {
 	return ""
 }
 
-// validUTF8Prefix reports whether b is UTF-8, allowing a rune cut at the end.
-func validUTF8Prefix(b []byte) bool {
+// validUTF8Prefix reports whether b is UTF-8, allowing a rune cut at the
+// end when b was cut from a longer file.
+func validUTF8Prefix(b []byte, cut bool) bool {
 	for len(b) > 0 {
 		r, size := utf8.DecodeRune(b)
 		if r == utf8.RuneError && size <= 1 {
-			return len(b) < utf8.UTFMax && !utf8.FullRune(b)
+			return cut && len(b) < utf8.UTFMax && !utf8.FullRune(b)
 		}
 		b = b[size:]
 	}
