@@ -11,7 +11,7 @@ import (
 // resistor, as distributors write it: "RES 4.99K OHM 0.1% 1/10W 25PPM 0603".
 type fromDescription struct {
 	resistance, tolerance, tcr, power float64
-	pkg                               string
+	pkg, tech                         string
 	has                               map[Field]string // field -> the words it was read from
 }
 
@@ -26,6 +26,14 @@ var (
 // bare number is never read as ohms.
 func describe(desc string, decimalComma bool) fromDescription {
 	d := fromDescription{has: map[Field]string{}}
+	low := strings.ToLower(desc)
+	for _, w := range []string{"thin film", "thin-film", "thick film", "thick-film", "metal film", "metal-film", "metal foil", "foil",
+		"wirewound", "wire wound", "metal strip", "metal-strip", "carbon film"} {
+		if strings.Contains(low, w) {
+			d.tech, d.has[FieldTechnology] = normaliseTechnology(w), w
+			break
+		}
+	}
 	toks := strings.FieldsFunc(desc, func(r rune) bool { return r == ' ' || r == ',' && !decimalComma || r == ';' || r == '\t' || r == '\n' })
 	for i := 0; i < len(toks); i++ {
 		t := toks[i]

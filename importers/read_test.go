@@ -153,9 +153,9 @@ func TestNoSeriesWithoutSeriesPartNumbers(t *testing.T) {
 	dir := t.TempDir()
 	f := filepath.Join(dir, "e6.csv")
 	var sb strings.Builder
-	sb.WriteString("Part Number,Resistance,Tolerance,TCR,Price\n")
+	sb.WriteString("Part Number,Manufacturer,Resistance,Tolerance,TCR,Power,Package,Technology,Price\n")
 	for _, v := range []string{"10", "15", "22", "33", "47", "68"} {
-		sb.WriteString("ODD" + v + "X," + v + "R,1%,100ppm,$0.01\n")
+		sb.WriteString("ODD" + v + "X,Orrin Resistive," + v + "R,1%,100ppm,1/4W,1206,thick film,$0.01\n")
 	}
 	if err := os.WriteFile(f, []byte(sb.String()), 0o644); err != nil {
 		t.Fatal(err)
@@ -221,8 +221,8 @@ func TestDescribe(t *testing.T) {
 func TestDescriptionDisagreesWithColumn(t *testing.T) {
 	dir := t.TempDir()
 	f := filepath.Join(dir, "mixed.csv")
-	csv := "Part Number,Description,Resistance,Tolerance,TCR,Price\n" +
-		"X-1,RES 4K99 1% 100PPM 0603,4.99k,0.1%,100ppm,$0.10\n"
+	csv := "Part Number,Manufacturer,Description,Resistance,Tolerance,TCR,Price\n" +
+		"X-1,Orrin Resistive,RES 4K99 1% 100PPM 1/10W 0603 thick film,4.99k,0.1%,100ppm,$0.10\n"
 	if err := os.WriteFile(f, []byte(csv), 0o644); err != nil {
 		t.Fatal(err)
 	}
@@ -416,9 +416,9 @@ func TestEncodings(t *testing.T) {
 	dir := t.TempDir()
 	// "±" and "°" in Windows-1252 are 0xB1 and 0xB0 (the code page's
 	// published table, from memory).
-	cp := []byte("Part Number,Resistance,Tolerance,TCR,Price\nW-1,10k,\xb10.1%,\xb125ppm/\xb0C,$0.10\n")
+	cp := []byte("Part Number,Manufacturer,Description,Resistance,Tolerance,TCR,Price\nW-1,Orrin Resistive,thin film 0603 0.1W,10k,\xb10.1%,\xb125ppm/\xb0C,$0.10\n")
 	u16 := []byte{0xFF, 0xFE}
-	for _, r := range "Part Number\tResistance\tTolerance\tTCR\tPrice\r\nW-1\t10k\t±0.1%\t25ppm/K\t$0.10\r\n" {
+	for _, r := range "Part Number\tManufacturer\tDescription\tResistance\tTolerance\tTCR\tPrice\r\nW-1\tOrrin Resistive\tthin film 0603 0.1W\t10k\t±0.1%\t25ppm/K\t$0.10\r\n" {
 		u16 = append(u16, byte(r), byte(r>>8))
 	}
 	tests := []struct {

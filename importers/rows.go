@@ -4,7 +4,9 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"regexp"
 	"strings"
+	"unicode"
 
 	"plumb/catalog"
 	"plumb/catalog/units"
@@ -23,6 +25,8 @@ type rowReader struct {
 	decimalComma bool
 	currency     string // from the mapping, the header, or ""
 	prov         catalog.Provenance
+
+	check    catalog.Snapshot // one-part batch for the store's validation
 
 	rec      []string
 	line     int
@@ -147,18 +151,46 @@ func (r *rowReader) read(rec []string, line int) (parsed, error) {
 	if err != nil {
 		return parsed{}, err
 	}
+	if strings.IndexFunc(part, unicode.IsSpace) >= 0 || strings.Contains(part, ",") {
+		return parsed{}, r.skip(FieldPart, part, fmt.Errorf("%w: part number %q contains a space or comma, which no order code has; check the column", ErrBadValue, part))
+	}
+	if r.text(FieldMaker) == "" {
+		return parsed{}, r.skip(FieldMaker, "", fmt.Errorf("%w: no maker; fill the column or set fixed maker in a mapping", ErrMissingValue))
+	}
+	p := parsed{line: line}
+	snap := &r.check
+	snap.Resistors, snap.Networks, snap.Amplifiers = snap.Resistors[:0], snap.Networks[:0], snap.Amplifiers[:0]
 	switch r.kind {
 	case catalog.KindResistor:
-		res, err := r.resistor(part, offer)
-		return parsed{line: line, resistor: res}, err
+		p.resistor, err = r.resistor(part, offer)
+		if err == nil {
+			snap.Resistors = append(snap.Resistors, *p.resistor)
+		}
 	case catalog.KindNetwork:
-		n, err := r.network(part, offer)
-		return parsed{line: line, network: n}, err
+		p.network, err = r.network(part, offer)
+		if err == nil {
+			snap.Networks = append(snap.Networks, *p.network)
+		}
 	default:
-		a, err := r.amplifier(part, offer)
-		return parsed{line: line, amplifier: a}, err
+		p.amplifier, err = r.amplifier(part, offer)
+		if err == nil {
+			snap.Amplifiers = append(snap.Amplifiers, *p.amplifier)
+		}
 	}
+	if err != nil {
+		return parsed{}, err
+	}
+	// The store refuses a whole batch for one invalid part; its own rules,
+	// applied here row by row, turn that into one skipped row.
+	if err := snap.Validate(); err != nil {
+		return parsed{}, r.skip("", "", fmt.Errorf("the catalog refuses it: %s", rowRefRE.ReplaceAllString(err.Error(), "")))
+	}
+	return p, nil
 }
+
+// rowRefRE cuts the store's "(resistor row 1)", which would point at the
+// one-part batch a row is checked in, not at the file.
+var rowRefRE = regexp.MustCompile(` \([a-z]+ row \d+\)`)
 
 // checkWidth skips a row with fewer fields than the header, or with extra
 // fields that hold text (an unquoted comma shifts every later column:
@@ -306,6 +338,19 @@ func (r *rowReader) grade() (g catalog.ResistorGrade, ohm float64, err error) {
 		r.note(Info, FieldPackage, desc, fmt.Errorf("size %s taken from the description", d.pkg))
 	}
 	g.Technology = normaliseTechnology(r.text(FieldTechnology))
+	if g.Technology == "" && d.tech != "" {
+		g.Technology = d.tech
+		r.note(Info, FieldTechnology, desc, fmt.Errorf("technology %s taken from the description", d.tech))
+	}
+	if g.Technology == "" {
+		return g, 0, r.skip(FieldTechnology, "", fmt.Errorf("%w: no technology (thin-film, thick-film, ...) in a column or the description; set fixed technology in a mapping", ErrMissingValue))
+	}
+	if g.Package == "" {
+		return g, 0, r.skip(FieldPackage, "", fmt.Errorf("%w: no package or size code in a column or the description; set fixed package in a mapping", ErrMissingValue))
+	}
+	if g.PowerW <= 0 {
+		return g, 0, r.skip(FieldPower, "", fmt.Errorf("%w: no power rating in its column or the description; set fixed power in a mapping", ErrMissingValue))
+	}
 	return g, ohm, nil
 }
 
@@ -449,16 +494,16 @@ func (r *rowReader) amplifier(part string, o catalog.Offer) (*catalog.Amplifier,
 	a := &catalog.Amplifier{Part: part, Maker: r.text(FieldMaker), Type: catalog.OpAmp, Channels: 1,
 		Package: r.text(FieldPackage), Offer: o, Provenance: r.prov}
 	figs := []ampFigure{
-		{FieldSupplyMin, parseSupply, &a.SupplyMinV, "supply_min_v", "minimum supply", false},
+		{FieldSupplyMin, parseSupply, &a.SupplyMinV, "supply_min_v", "minimum supply", true},
 		{FieldSupplyMax, parseSupply, &a.SupplyMaxV, "supply_max_v", "maximum supply", true},
 		{FieldVos, units.ParseVoltage, &a.VosV, "vos_v", "input offset voltage", true},
 		{FieldVosDrift, parseDrift, &a.VosDriftVK, "vos_drift_v_per_k", "offset drift", false},
 		{FieldIb, units.ParseCurrent, &a.IbA, "ib_a", "input bias current", false},
 		{FieldIos, units.ParseCurrent, &a.IosA, "ios_a", "input offset current", false},
-		{FieldAol, parseGain, &a.AolVV, "aol_v_per_v", "open-loop gain", false},
-		{FieldCMRR, units.ParseDB, &a.CMRRdB, "cmrr_db", "CMRR", false},
-		{FieldGBW, units.ParseFrequency, &a.GBWHz, "gbw_hz", "gain-bandwidth product", false},
-		{FieldSlew, parseSlew, &a.SlewVs, "slew_v_per_s", "slew rate", false},
+		{FieldAol, parseGain, &a.AolVV, "aol_v_per_v", "open-loop gain", true},
+		{FieldCMRR, units.ParseDB, &a.CMRRdB, "cmrr_db", "CMRR", true},
+		{FieldGBW, units.ParseFrequency, &a.GBWHz, "gbw_hz", "gain-bandwidth product", true},
+		{FieldSlew, parseSlew, &a.SlewVs, "slew_v_per_s", "slew rate", true},
 		{FieldNoiseV, units.ParseVoltageNoise, &a.NoiseVHz, "noise_v_per_rthz", "voltage noise density", false},
 		{FieldNoiseI, units.ParseCurrentNoise, &a.NoiseAHz, "noise_a_per_rthz", "current noise density", false},
 		{FieldIq, units.ParseCurrent, &a.IqA, "iq_a", "quiescent current", false},
