@@ -129,7 +129,7 @@ func TestMappingSaveLoadAndUse(t *testing.T) {
 	}
 	m := &Mapping{Kind: catalog.KindResistor,
 		Columns: map[Field]string{FieldPart: "code", FieldResistance: "OHMIC VALUE", FieldTolerance: "Grade", FieldTCR: "Drift", FieldStock: "Lager"},
-		Fixed:   map[Field]string{FieldMaker: "Orrin Resistive", FieldTechnology: "thin film", FieldCurrency: "EUR", FieldPrice: "0.30",
+		Fixed: map[Field]string{FieldMaker: "Orrin Resistive", FieldTechnology: "thin film", FieldCurrency: "EUR", FieldPrice: "0.30",
 			FieldPackage: "0603", FieldPower: "0.1W"},
 	}
 	path, err := SaveMapping(dir, "odd-export", m)

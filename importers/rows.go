@@ -26,7 +26,7 @@ type rowReader struct {
 	currency     string // from the mapping, the header, or ""
 	prov         catalog.Provenance
 
-	check    catalog.Snapshot // one-part batch for the store's validation
+	check catalog.Snapshot // one-part batch for the store's validation
 
 	rec      []string
 	line     int
