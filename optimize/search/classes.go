@@ -82,7 +82,7 @@ func newSpace(parts *Parts, p *Problem, combos bool) (*space, error) {
 		for a, ga := range s.groups {
 			for b, gb := range s.groups {
 				c := config{fam: famDisc, ga: a, gb: b, net: -1,
-					g: discreteGrades(ga.grade.Tolerance, ga.grade.TCR, gb.grade.Tolerance, gb.grade.TCR)}
+					g: discreteGrades(ga.grade.Tolerance, ga.grade.TCR, gb.grade.Tolerance, gb.grade.TCR, s.dT)}
 				if c.costLB = s.discreteLB(ga, gb, a == b); !math.IsNaN(c.costLB) {
 					s.cfgs = append(s.cfgs, c)
 				}
@@ -262,7 +262,7 @@ func (s *space) networkConfigs(parts *Parts) {
 					added = true
 				}
 				c := config{fam: NetworkDifference, ga: -1, gb: -1, net: len(s.nets) - 1, na: a, nb: b,
-					g: networkGrades(n.RatioTolerance, n.TCRTracking)}
+					g: networkGrades(n.RatioTolerance, n.TCRTracking, s.dT)}
 				c.costLB = ext + s.assembly(1, 1)
 				c.opts = []option{{k0: k0, rp: rp, rg: -1, rf: -1, rf2: -1, cost: c.costLB, short: short}}
 				c.built = true

@@ -33,29 +33,43 @@ func noiseDensity(ng, en, in, rp, tempK float64, nIn int) float64 {
 
 // grades holds the ratio figures of the resistors of a design class.
 type grades struct {
-	hi, lo   float64 // worst ratio multipliers: k in k0·[lo, hi]
+	hi, lo   float64 // worst ratio multipliers at the reference temperature: k in k0·[lo, hi]
+	hiT, loT float64 // the same with the tempcos at the worst excursion (CMRR)
 	sr       float64 // RSS ratio spread (3 sigma), fraction
-	cmRSS    float64 // RSS spread of the difference of the two ratios
+	cmRSS    float64 // RSS spread of the difference of the two ratios, over temperature
 	drift    float64 // worst ratio drift, ppm/K
 	driftRSS float64
 	tmax     float64 // largest tolerance (bias-current mismatch)
 }
 
 // discreteGrades returns the ratio figures of Rf/Rg from two discrete
-// grades: each ratio lies within (1±tf)/(1∓tg), its drift within
-// TCRf + TCRg (two resistors of opposite sign, domain notes §6).
-func discreteGrades(tg, cg, tf, cf float64) grades {
-	return grades{
+// grades over a worst excursion of dT kelvin: each ratio lies within
+// (1±tf)/(1∓tg) at the reference temperature and within
+// (1±tf)(1±cf·dT)/((1∓tg)(1∓cg·dT)) over temperature; its drift is at most
+// ((1+cf·dT)/(1-cg·dT) - 1)/dT, which is TCRf + TCRg to first order (two
+// resistors of opposite sign, domain notes §6).
+func discreteGrades(tg, cg, tf, cf, dT float64) grades {
+	ag, af := cg*1e-6*dT, cf*1e-6*dT
+	g := grades{
 		hi: (1 + tf) / (1 - tg), lo: (1 - tf) / (1 + tg),
-		sr: math.Hypot(tf, tg), cmRSS: math.Sqrt(2 * (tf*tf + tg*tg)),
+		hiT: (1 + tf) * (1 + af) / ((1 - tg) * (1 - ag)), loT: (1 - tf) * (1 - af) / ((1 + tg) * (1 + ag)),
+		sr: math.Hypot(tf, tg), cmRSS: math.Sqrt(2 * (tf*tf + tg*tg + af*af + ag*ag)),
 		drift: cf + cg, driftRSS: math.Hypot(cf, cg), tmax: math.Max(tf, tg),
 	}
+	if dT > 0 {
+		g.drift = ((1+af)/(1-ag) - 1) / (1e-6 * dT)
+	}
+	return g
 }
 
 // networkGrades returns the ratio figures of a matched network whose
-// element ratios hold within r and track within tr ppm/K.
-func networkGrades(r, tr float64) grades {
-	return grades{hi: 1 + r, lo: 1 - r, sr: r, cmRSS: math.Sqrt2 * r, drift: tr, driftRSS: tr, tmax: r}
+// element ratios hold within r and track within tr ppm/K, over a worst
+// excursion of dT kelvin.
+func networkGrades(r, tr, dT float64) grades {
+	a := tr * 1e-6 * dT
+	// Tracking is the drift of the ratio itself.
+	return grades{hi: 1 + r, lo: 1 - r, hiT: (1 + r) * (1 + a), loT: (1 - r) * (1 - a), sr: r,
+		cmRSS: math.Sqrt2 * math.Hypot(r, a), drift: tr, driftRSS: tr, tmax: r}
 }
 
 // cmWorst returns the worst |Acm/Adm| of a difference amplifier whose two
@@ -143,14 +157,14 @@ func (s *space) eval(g *grades, k0, rp float64, a *amp, m *metrics) {
 		hiG := rho * s.gainMult(k0, g.hi) * f
 		loG := rho * s.gainMult(k0, g.lo) * f
 		m.gainErr = math.Max(math.Abs(hiG-1), math.Abs(loG-1))
-		m.totalErr = m.gainErr + dr
+		m.totalErr = (1+m.gainErr)*(1+dr) - 1
 	}
 	inv := a.ainv
 	if p.Circuit == Difference {
 		if s.rss {
 			inv += g.cmRSS / (1 + k0)
 		} else {
-			inv += cmWorst(k0, g.hi, g.lo)
+			inv += cmWorst(k0, g.hiT, g.loT)
 		}
 	}
 	m.cmrrDB = toDB(inv)
@@ -277,7 +291,7 @@ func (s *space) bound(g *grades, a *amp, m *metrics) {
 	case s.rss:
 		m.gainErr, m.totalErr = ge, math.Hypot(sr, dr)
 	default:
-		m.gainErr, m.totalErr = ge, ge+dr
+		m.gainErr, m.totalErr = ge, (1+ge)*(1+dr)-1
 	}
 	m.drift = drift
 	inv := 0.0
@@ -288,7 +302,7 @@ func (s *space) bound(g *grades, a *amp, m *metrics) {
 		if s.rss {
 			inv += g.cmRSS / (1 + kmax)
 		} else {
-			inv += cmWorst(kmax, g.hi, g.lo)
+			inv += cmWorst(kmax, g.hiT, g.loT)
 		}
 	}
 	m.cmrrDB = toDB(inv * boundSafety)

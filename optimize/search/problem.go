@@ -15,6 +15,9 @@ var (
 	ErrInfeasible = errors.New("search: no design in the catalog meets the spec")
 	// ErrProblem is returned for a requirement the search cannot work on.
 	ErrProblem = errors.New("search: invalid requirement")
+	// ErrNoSpec is returned by ExplainN for a result of SolveProblem, which
+	// has no spec to run the budget against.
+	ErrNoSpec = errors.New("search: the result has no spec; use Solve to explain a design")
 )
 
 // Family is a way of building the stage.

@@ -309,7 +309,8 @@ func (s *space) describe(b *classBest) (Design, *spec.Design, error) {
 	sort.SliceStable(parts, func(i, j int) bool { return parts[i].Position < parts[j].Position })
 	sd.Family = famName(fam)
 	sd.Name = sd.Family
-	if a.Part != "" { // an unbuffered divider has none
+	sd.Amplifier.Resolved = true // an unbuffered divider has none
+	if a.Part != "" {
 		sd.Amplifier.Part, sd.Amplifier.Amp, sd.Amplifier.Resolved = a.Part, *a, true
 		sd.Name = fmt.Sprintf("%s with %s", sd.Family, a.Part)
 		uses = append(uses, cost.Use{Part: a.Part, Offer: &a.Offer, Placements: 1})

@@ -367,7 +367,7 @@ func (s *space) dominant(b *classBest, limit string) (string, float64) {
 				ts = []term{{"Rg tempco", s.groups[c.ga].grade.TCR}, {"Rf tempco", s.groups[c.gb].grade.TCR}}
 			}
 		case limCMRR:
-			cm := cmWorst(o.k0, c.g.hi, c.g.lo)
+			cm := cmWorst(o.k0, c.g.hiT, c.g.loT)
 			if s.rss {
 				cm = c.g.cmRSS / (1 + o.k0)
 			}

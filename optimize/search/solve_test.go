@@ -36,13 +36,16 @@ func within(a, b, rel float64) bool { return math.Abs(a-b) <= rel*math.Abs(b) }
 // answer was worked by hand (common practice arithmetic with the
 // domain-notes equations):
 //
-//	Only the 0.1 %, 10 ppm/K series meets 20 ppm/K drift (10 + 10); the
-//	1 % series breaks the 0.5 % gain error, the 25 ppm/K one the drift.
+//	Only the 0.1 %, 10 ppm/K series meets 21 ppm/K drift: the ratio moves
+//	(1 + 10 ppm/K x 65 K)/(1 - 10 ppm/K x 65 K) - 1 over the worst 65 K
+//	excursion, 20.013 ppm/K (10 + 10 to first order); the 1 % series breaks
+//	the 0.5 % gain error, the 25 ppm/K one the drift.
 //	OPQ-1's 5 mV offset x NG 11 = 55 mV breaks 10 mV; OPQ-5 cannot take
 //	±15 V. Rank 1: 2 x 200 resistors at 0.06 + 100 OPQ-2 at 0.45 = 69.00.
 //	Worst-case gain error: ratio (1.001/0.999) - 1 = 0.2002 %, less NG/A =
-//	11 ppm on the low corner: 0.2009 %; plus 20 ppm/K x 65 K (the worst
-//	excursion of -40..85 °C from 25 °C) = 0.13 %: 0.3309 %. Offset
+//	11 ppm on the low corner: 0.2009 %; with the ratio's 0.1301 % move over
+//	the worst excursion of -40..85 °C from 25 °C: 1.002009 x 1.001301 - 1 =
+//	0.3312 %. Offset
 //	11 x (200 uV + 1 nA x 909 ohm) + 11 x 2 uV/K x 65 K = 3.64 mV. Rank 2: network 100 x 1.20 + 45 = 165; rank 3: matched
 //	amplifier 100 x 3.50 = 350. E96 values from 1 k to 100 k: 193 variants.
 func TestSolveHandWorked(t *testing.T) {
@@ -81,11 +84,13 @@ func TestSolveHandWorked(t *testing.T) {
 			t.Errorf("%s is %s, want %s", p.Position, p.Part, want[p.Position])
 		}
 	}
-	if !within(d.Metrics.GainError, 0.003309, 1e-3) || !within(d.Metrics.OutputOffsetV, 3.64e-3, 2e-3) || !within(d.Metrics.DriftPPMPerK, 20, 1e-9) {
+	if !within(d.Metrics.GainError, 0.003312, 1e-3) || !within(d.Metrics.OutputOffsetV, 3.64e-3, 2e-3) || !within(d.Metrics.DriftPPMPerK, 20.013, 1e-4) {
 		t.Errorf("metrics %+v", d.Metrics)
 	}
-	// (1+G)/(4t) = 2750 from the resistors (Franco), with 100 dB amplifier CMRR: 1/(1/2750 + 1e-5).
-	if !within(d.Metrics.CMRRdB, -20*math.Log10(1/2750.0+1e-5), 2e-3) {
+	// (1+G)/(4t) from the resistors (Franco), t = 0.1 % + 10 ppm/K x 65 K
+	// at the worst temperature: 11/(4 x 0.00165) = 1667; with the
+	// amplifier's 100 dB: 1/(1/1667 + 1e-5), 64.3 dB.
+	if !within(d.Metrics.CMRRdB, -20*math.Log10(4*0.00165/11+1e-5), 3e-3) {
 		t.Errorf("CMRR %.2f dB", d.Metrics.CMRRdB)
 	}
 	if d.Binding != limDrift || d.ValueVariants != 193 {
