@@ -5,15 +5,19 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"strconv"
 	"strings"
 )
 
 // SPICEInfGain is the VCVS gain WriteSPICE writes for an ideal op-amp
 // (Gain = +Inf), because SPICE has no infinite gain. Its effect is a
-// relative gain error of about NG/SPICEInfGain (1e-10 at a noise gain of
-// 100) and an input difference of V(Out)/SPICEInfGain, far below the
-// 1e-6 agreement the cross-checks ask for.
-const SPICEInfGain = 1e12
+// relative closed-loop gain error of about NG/SPICEInfGain (1e-6 at a noise
+// gain of 100; Franco ch. 1, from memory). It is not larger because
+// ngspice's own rounding grows with the gain, to about 2e-16 x gain x the
+// node voltages (measured here: at 1e9 the deck differs from the exact
+// finite-gain solution by 1e-5 relative on offset outputs, at 1e12 by 1e-2);
+// 1e8 keeps both effects near 1e-6.
+const SPICEInfGain = 1e8
 
 // WriteSPICE writes an ngspice deck of exactly this netlist: each resistor
 // as an R element, each source as a V element to ground, each current
@@ -23,13 +27,20 @@ const SPICEInfGain = 1e12
 // (Plus + Vos, Minus) where Vos is a V element in series with the
 // non-inverting input and the bias currents are I elements from the input
 // nodes to ground. The control block runs a DC operating point (.op) and
-// prints every node voltage with 15 digits as lines "name = value". An
+// prints every node voltage with 15 digits as lines "name = value",
+// then quits with exit status 0 (ngspice -b otherwise exits 1 because the
+// deck has no .print line). An
 // op-amp node named a1_vos is introduced for each op-amp. Element names are
 // the netlist names, prefixed by the SPICE type letter when they do not
 // start with it.
 func (n *Netlist) WriteSPICE(w io.Writer) error {
 	bw := bufio.NewWriter(w)
 	fmt.Fprintf(bw, "* plumb circuit %s\n", n.Family)
+	for _, r := range n.Resistors {
+		if math.IsInf(r.Ohm, 1) {
+			fmt.Fprintf(bw, "* %s is open, written as %g ohm\n", r.Name, SPICEOpenOhm)
+		}
+	}
 	nodes := n.spiceNodes()
 	for _, r := range n.Resistors {
 		fmt.Fprintf(bw, "%s %s %s %s\n", spiceName('R', r.Name), nodes[r.A], nodes[r.B], spiceNum(r.Ohm))
@@ -52,7 +63,7 @@ func (n *Netlist) WriteSPICE(w io.Writer) error {
 		fmt.Fprintf(bw, "IBP_%s %s 0 DC %s\n", id, nodes[a.Plus], spiceNum(a.IbPlus))
 		fmt.Fprintf(bw, "IBM_%s %s 0 DC %s\n", id, nodes[a.Minus], spiceNum(a.IbMinus))
 	}
-	bw.WriteString(".control\nset numdgt=15\nop\nprint all\n.endc\n.end\n")
+	bw.WriteString(".control\nset numdgt=15\nop\nprint all\nquit 0\n.endc\n.end\n")
 	return bw.Flush()
 }
 
@@ -75,7 +86,15 @@ func spiceName(letter byte, name string) string {
 	return string(letter) + "_" + name
 }
 
-// spiceNum formats v with full float64 precision.
+// SPICEOpenOhm is the resistance WriteSPICE writes for an open resistor
+// (Ohm = +Inf), which SPICE cannot parse.
+const SPICEOpenOhm = 1e30
+
+// spiceNum formats v with full float64 precision; +Inf (an open resistor)
+// becomes SPICEOpenOhm.
 func spiceNum(v float64) string {
-	return fmt.Sprintf("%.17g", v)
+	if math.IsInf(v, 1) {
+		v = SPICEOpenOhm
+	}
+	return strconv.FormatFloat(v, 'g', 17, 64)
 }
