@@ -41,8 +41,9 @@ break used, the extended price and where the part's figures came from.
 
 The build (quantity, attrition, assembly costs) comes from --spec; without
 it one stage is priced.`,
-		Example: `  plumb bom logger-design --spec logger-channel
-  plumb bom logger-design --spec logger-channel --format csv -o bom.csv`,
+		Example: `  plumb solve logger-channel --top 1 --bom bom.csv
+  plumb bom logger-design --spec logger-channel
+  plumb bom logger-design --format csv -o bom-list.csv`,
 		Args: exactArgs("DESIGN"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			opts.Design = args[0]

@@ -17,5 +17,7 @@ func newCatalogCmd(f *Factory) *cobra.Command {
 resistors, matched networks and amplifiers with their price breaks and stock.
 Without --catalog (or PLUMB_CATALOG, or catalog: in the config file) the
 commands read the embedded demo catalog of invented parts.`
+	cmd.Example = `  plumb catalog stats
+  plumb catalog list --kind amplifier`
 	return cmd
 }

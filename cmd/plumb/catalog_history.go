@@ -23,7 +23,8 @@ func newCatalogHistoryCmd(f *Factory, runF func(*catalogHistoryOptions) error) *
 source, the outcome (added, updated, unchanged, spec-changed) and what
 changed. A spec-changed entry means a later export gave different figures;
 the catalog kept the earlier ones.`,
-		Example: `  plumb catalog history PART --format json`,
+		Example: `  plumb catalog history IM-JH36
+  plumb catalog history AR-TP1 --format json`,
 		Args:    exactArgs("PART"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			opts.Part = args[0]

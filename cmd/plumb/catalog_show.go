@@ -26,8 +26,9 @@ func newCatalogShowCmd(f *Factory, runF func(*catalogShowOptions) error) *cobra.
 		Long: `Show every figure of one catalog part: a resistor (a single part, or one value
 of a series by its full part number), a series, a network or an amplifier,
 with its price breaks, stock and where it came from.`,
-		Example: `  plumb catalog list --kind amplifier
-  plumb catalog show PART --format json`,
+		Example: `  plumb catalog show IM-JH36
+  plumb catalog show AR-TP1-54K9 --format json
+  plumb catalog show AR-TP1`,
 		Args: exactArgs("PART"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			opts.Part = args[0]

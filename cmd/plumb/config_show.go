@@ -5,7 +5,9 @@ import (
 )
 
 func newConfigCmd(f *Factory) *cobra.Command {
-	return groupCmd("config", "Show plumb's configuration", newConfigShowCmd(f, nil))
+	cmd := groupCmd("config", "Show plumb's configuration", newConfigShowCmd(f, nil))
+	cmd.Example = `  plumb config show`
+	return cmd
 }
 
 type configShowOptions struct {

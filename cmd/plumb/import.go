@@ -50,10 +50,11 @@ whose reading is in doubt, are reported with file, line and column.
 A part whose figures differ from the catalog's is reported as spec-changed
 and its catalog figures are kept. --dry-run reads and compares without
 writing, and works on the demo catalog too.`,
-		Example: `  plumb catalog init parts.db
+		Example: `  plumb catalog export --format csv --kind resistor -o export.csv
+  plumb catalog init parts.db
   plumb --catalog parts.db import export.csv --dry-run
   plumb --catalog parts.db import export.csv --save-mapping mydist --report rows.csv
-  plumb --catalog parts.db import other.csv --mapping mydist --source "approved list 2026"`,
+  plumb --catalog parts.db import export.csv --mapping mydist --source approved-list-2026`,
 		Args: func(cmd *cobra.Command, args []string) error {
 			if len(args) == 0 {
 				return usagef("%s needs at least one FILE", cmd.CommandPath())

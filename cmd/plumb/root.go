@@ -29,9 +29,13 @@ Exit codes:
 func newRootCmd(f *Factory) *cobra.Command {
 	var color string
 	cmd := &cobra.Command{
-		Use:           "plumb",
-		Short:         "Choose and prove parts for analog signal-conditioning stages",
-		Long:          rootLong,
+		Use:   "plumb",
+		Short: "Choose and prove parts for analog signal-conditioning stages",
+		Long:  rootLong,
+		Example: `  plumb demo
+  plumb solve logger-channel --top 3
+  plumb catalog list --kind series --max-tolerance 0.1
+  plumb series E96 --from 1k --to 2k`,
 		SilenceErrors: true,
 		SilenceUsage:  true,
 		Args:          noArgs,

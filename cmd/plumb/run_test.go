@@ -13,6 +13,8 @@ import (
 	"testing"
 	"time"
 
+	"github.com/spf13/cobra"
+
 	"plumb/catalog"
 	"plumb/optimize/search"
 )
@@ -623,5 +625,54 @@ func TestCheck(t *testing.T) {
 	f = fixtureFactory(t)
 	if _, errOut, code = runPlumb(t, f, "check testdata/diff-g10.yaml"); code != exitUsage || !strings.Contains(errOut, "--design") {
 		t.Errorf("check without --design: exit %d, %q", code, errOut)
+	}
+}
+
+// TestHelpExamples runs every line of every command's Example against the
+// embedded demo catalog, in a scratch directory, in order (later lines may
+// use files earlier lines wrote). Each must exit 0.
+func TestHelpExamples(t *testing.T) {
+	clearPlumbEnv(t)
+	f, _, _ := testFactory(t)
+	root := newRootCmd(f)
+	var walk func(c *cobra.Command)
+	var cmds []*cobra.Command
+	walk = func(c *cobra.Command) {
+		cmds = append(cmds, c)
+		for _, sub := range c.Commands() {
+			walk(sub)
+		}
+	}
+	walk(root)
+	for _, c := range cmds {
+		if !c.Runnable() || c.Name() == "help" {
+			continue
+		}
+		t.Run(c.CommandPath(), func(t *testing.T) {
+			if c.Example == "" && c.HasParent() {
+				t.Fatalf("%s has no Example", c.CommandPath())
+			}
+			dir := t.TempDir()
+			t.Chdir(dir)
+			for _, line := range strings.Split(c.Example, "\n") {
+				// Shell redirection is the shell's business, not plumb's.
+				cmdline, _, _ := strings.Cut(line, ">")
+				fields := strings.Fields(cmdline)
+				for len(fields) > 0 && strings.Contains(fields[0], "=") {
+					k, v, _ := strings.Cut(fields[0], "=")
+					t.Setenv(k, v)
+					fields = fields[1:]
+				}
+				if len(fields) == 0 || fields[0] != "plumb" {
+					continue
+				}
+				f, _, _ := testFactory(t)
+				f.ConfigDir = func() (string, error) { return dir, nil }
+				_, errOut, code := runPlumb(t, f, strings.Join(fields[1:], " "))
+				if code != exitOK {
+					t.Errorf("%s: exit %d: %s", line, code, errOut)
+				}
+			}
+		})
 	}
 }
