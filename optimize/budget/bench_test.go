@@ -6,7 +6,7 @@ import (
 	"plumb/optimize/spec"
 )
 
-func benchEvaluator(b *testing.B, method string) *Evaluator {
+func benchEvaluator(b testing.TB, method string) *Evaluator {
 	s := mustSpec(b, diffSpec(1, method))
 	e, err := NewEvaluator(s, spec.Difference, spec.Options{})
 	if err != nil {

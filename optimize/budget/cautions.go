@@ -76,7 +76,7 @@ func (e *Evaluator) cautions(res *Result) {
 			state = "beyond"
 		}
 		res.Cautions = append(res.Cautions, fmt.Sprintf("%s comes %s %.0f mV of its range (%.3g V headroom) at an input or common-mode corner",
-			e.headWhere, state, 1e3*NearPinV, m.HeadroomV))
+			e.headWhere(), state, 1e3*NearPinV, m.HeadroomV))
 	}
 	if a := e.c.Amp; a != nil && a.SupplyMaxV > 0 && s.Supply.Span() > a.SupplyMaxV {
 		res.Cautions = append(res.Cautions, fmt.Sprintf("the supply span %.3g V exceeds %s's maximum supply %.3g V", s.Supply.Span(), a.Part, a.SupplyMaxV))

@@ -130,8 +130,10 @@ type Evaluator struct {
 	// Stress at the range corners, nominal values (see stress).
 	pmax, vmax []float64
 	headroom   float64
-	headWhere  string
+	headAmp    int // amplifier and pin of the least headroom
+	headPin    int
 	sens       []sensRow
+	ampT       point // amplifier transfers at nominal values
 }
 
 // NewEvaluator prepares an evaluator for designs of family (one of the
@@ -291,7 +293,10 @@ func (e *Evaluator) SetCandidate(c *Candidate) error {
 		e.nom[k] = e.c.Figs[k].Ohm
 		e.heat[k] = 0
 	}
-	return e.stress()
+	if err := e.stress(); err != nil {
+		return err
+	}
+	return e.ampTransfers()
 }
 
 func (e *Evaluator) addParam(p param) {
@@ -514,9 +519,13 @@ func (e *Evaluator) solve() float64 {
 	return e.v[e.net.Out]
 }
 
-// eval solves the stage at parameter point x and temperature t. full adds
-// the amplifier transfers (offset, noise gain); the gain, common-mode and
-// base solves are always done.
+// eval solves the stage at parameter point x and temperature t: the
+// signal transfer, the common-mode transfer and the base output with the
+// reference applied, each exactly. The amplifier transfers (Vos and bias
+// currents to the output, pin common mode) are solved once per candidate
+// at nominal values (see ampTransfers) and reused: they move with the
+// resistor tolerances only by the tolerance fraction itself, a
+// second-order change of terms that are already small.
 func (e *Evaluator) eval(x []float64, t float64, life bool, p *point) error {
 	ref := e.setValues(x, t, life)
 	if e.matched {
@@ -532,21 +541,17 @@ func (e *Evaluator) eval(x []float64, t float64, life bool, p *point) error {
 	}
 	e.quiet()
 	e.driveSignal(1)
-	p.gain = e.solve()
+	p.gain = e.sol.SolveOut()
 	p.adm = p.gain
 	if e.shunt >= 0 {
 		p.adm = p.gain / n.Resistors[e.resIdx[e.shunt]].Ohm
 	}
+	e.driveSignal(-1)
 	if e.differential {
-		e.quiet()
 		e.driveCM(1)
-		p.acm = e.solve()
-		for a, i := range e.amps {
-			op := &n.OpAmps[i]
-			p.pinCM[a] = (e.v[op.Plus] + e.v[op.Minus]) / 2
-		}
+		p.acm = e.sol.SolveOut()
+		e.driveCM(-1)
 	}
-	e.quiet()
 	e.driveCM(e.cmBase)
 	if e.refSrc >= 0 && e.s.Reference != nil {
 		n.Sources[e.refSrc].V = e.s.Reference.V * ref
@@ -554,7 +559,38 @@ func (e *Evaluator) eval(x []float64, t float64, life bool, p *point) error {
 	if e.leak >= 0 {
 		n.Currents[e.leak].A = e.s.LeakageA
 	}
-	p.base = e.solve()
+	p.base = e.sol.SolveOut()
+	p.pinCM, p.tvos, p.tibp, p.tibm, p.ng = e.ampT.pinCM, e.ampT.tvos, e.ampT.tibp, e.ampT.tibm, e.ampT.ng
+	return nil
+}
+
+// ampTransfers solves, at nominal values and the reference temperature,
+// each amplifier's pin common mode per volt of input common mode and the
+// transfers from its Vos, Ib+ and Ib- to the output, and its own-loop
+// noise gain.
+func (e *Evaluator) ampTransfers() error {
+	if e.matched {
+		return nil
+	}
+	e.setValues(e.x, e.s.TempRef, false)
+	n := e.net
+	for _, i := range e.amps {
+		n.OpAmps[i].Gain = e.aol
+	}
+	if err := e.sol.Factor(); err != nil {
+		return fmt.Errorf("budget: %s: %w", e.family, err)
+	}
+	p := &e.ampT
+	*p = point{}
+	if e.differential {
+		e.quiet()
+		e.driveCM(1)
+		e.sol.Solve(e.v)
+		for a, i := range e.amps {
+			op := &n.OpAmps[i]
+			p.pinCM[a] = (e.v[op.Plus] + e.v[op.Minus]) / 2
+		}
+	}
 	for a, i := range e.amps {
 		op := &n.OpAmps[i]
 		e.quiet()
@@ -563,9 +599,10 @@ func (e *Evaluator) eval(x []float64, t float64, life bool, p *point) error {
 		p.ng[a] = math.Abs(e.v[op.Out])
 		op.Vos = 0
 		op.IbPlus = 1
-		p.tibp[a] = e.solve()
+		p.tibp[a] = e.sol.SolveOut()
 		op.IbPlus, op.IbMinus = 0, 1
-		p.tibm[a] = e.solve()
+		p.tibm[a] = e.sol.SolveOut()
+		op.IbMinus = 0
 	}
 	return nil
 }

@@ -11,6 +11,9 @@ const Boltzmann = 1.380649e-23
 // figure stays finite (and JSON-encodable).
 const cmrrCapDB = 240.0
 
+// capLin is cmrrCapDB as a ratio.
+var capLin = math.Pow(10, cmrrCapDB/20)
+
 // zinCap caps the input impedance of a stage with no resistive path from
 // the input (a non-inverting input): 1 TΩ.
 const zinCap = 1e12
@@ -93,8 +96,7 @@ func (e *Evaluator) ampOffset(x []float64, p *point, t float64, signed, driftOnl
 // every term's magnitude added, which is 1/CMRR_total = 1/CMRR_res +
 // 1/CMRR_amp for a single amplifier (domain notes §2).
 func (e *Evaluator) cmrrAt(x []float64, p *point, signed bool) (total, res float64) {
-	capLin := math.Pow(10, cmrrCapDB/20)
-	acm := p.acm
+		acm := p.acm
 	res = capLin
 	if math.Abs(acm) > tinyTransfer {
 		res = math.Min(capLin, math.Abs(p.adm/acm))

@@ -33,15 +33,15 @@ func (e *Evaluator) stress() error {
 	clear(e.pmax)
 	clear(e.vmax)
 	clear(e.heat)
-	e.headroom, e.headWhere = math.Inf(1), ""
+	e.headroom, e.headAmp, e.headPin = math.Inf(1), -1, 0
 	var buf [4][2]float64
 	corners := e.corners(&buf)
 	vneg, vpos := e.s.Supply.Min, e.s.Supply.Max
 	a := &e.amp
-	check := func(v, lo, hi float64, where string) {
+	check := func(v, lo, hi float64, amp, pin int) {
 		m := math.Min(v-lo, hi-v)
 		if m < e.headroom {
-			e.headroom, e.headWhere = m, where
+			e.headroom, e.headAmp, e.headPin = m, amp, pin
 		}
 	}
 	if e.matched {
@@ -52,10 +52,10 @@ func (e *Evaluator) stress() error {
 		}
 		for _, c := range corners {
 			for _, vin := range [2]float64{c[1] + c[0]/2, c[1] - c[0]/2} {
-				check(vin, vneg+a.InNegV, vpos-a.InPosV, "amplifier input")
+				check(vin, vneg+a.InNegV, vpos-a.InPosV, 0, pinInput)
 			}
-			check(c[1]*g/(1+g)+ref/(1+g), vneg+a.CMNegV, vpos-a.CMPosV, "amplifier internal input")
-			check(g*c[0]+ref, vneg+a.SwingNegV, vpos-a.SwingPosV, "amplifier output")
+			check(c[1]*g/(1+g)+ref/(1+g), vneg+a.CMNegV, vpos-a.CMPosV, 0, pinInternal)
+			check(g*c[0]+ref, vneg+a.SwingNegV, vpos-a.SwingPosV, 0, pinOut)
 		}
 		return nil
 	}
@@ -84,11 +84,11 @@ func (e *Evaluator) stress() error {
 			e.vmax[k] = math.Max(e.vmax[k], v)
 			e.pmax[k] = math.Max(e.pmax[k], v*v/r.Ohm)
 		}
-		for _, i := range e.amps {
+		for ai, i := range e.amps {
 			op := &n.OpAmps[i]
-			check(e.v[op.Plus], vneg+a.CMNegV, vpos-a.CMPosV, op.Name+" + input")
-			check(e.v[op.Minus], vneg+a.CMNegV, vpos-a.CMPosV, op.Name+" - input")
-			check(e.v[op.Out], vneg+a.SwingNegV, vpos-a.SwingPosV, op.Name+" output")
+			check(e.v[op.Plus], vneg+a.CMNegV, vpos-a.CMPosV, ai, pinPlus)
+			check(e.v[op.Minus], vneg+a.CMNegV, vpos-a.CMPosV, ai, pinMinus)
+			check(e.v[op.Out], vneg+a.SwingNegV, vpos-a.SwingPosV, ai, pinOut)
 		}
 	}
 	for k := range e.heat {
@@ -247,4 +247,22 @@ func (e *Evaluator) inputImpedance() float64 {
 		}
 	}
 	return z
+}
+
+// Pins named by headroom checks.
+const (
+	pinPlus = iota
+	pinMinus
+	pinOut
+	pinInput
+	pinInternal
+)
+
+// headWhere names the pin with the least headroom.
+func (e *Evaluator) headWhere() string {
+	if e.headAmp < 0 {
+		return "no amplifier pin"
+	}
+	name := e.ampName(e.headAmp)
+	return name + [...]string{" + input", " - input", " output", " input", " internal input"}[e.headPin]
 }

@@ -1,0 +1,144 @@
+package budget
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"plumb/optimize/spec"
+)
+
+// TestFamiliesNominalGain evaluates one design of every family and checks
+// the solved nominal gain against the family's ideal equation (domain
+// notes §2; Franco, chapters 1-2, from memory), allowing for the finite
+// open-loop gain of 1e12.
+func TestFamiliesNominalGain(t *testing.T) {
+	amp := "amplifier: {aol: 1e12, gbw: 10MHz, vos: 100uV, ib: 1nA, ios: 100pA, cmrr: 100dB, cm_neg: -1V, cm_pos: -1V, swing_neg: -1V, swing_pos: -1V}\n"
+	res := func(v string) string { return "{value: " + v + ", tolerance: 0.1%, tcr: 10ppm/K}" }
+	cases := []struct {
+		name, spec, design string
+		want               float64
+		offset             float64 // ideal output at zero input, V
+	}{
+		{"inverting", `family: inverting
+gain: -4.7
+input: {single_ended: ±1V}`, "family: inverting\npositions:\n  Rf: " + res("47k") + "\n  Rg: " + res("10k") + "\n" + amp, -4.7, 0},
+		{"noninverting", `family: noninverting
+gain: 11
+input: {single_ended: ±1V}`, "family: noninverting\npositions:\n  Rf: " + res("100k") + "\n  Rg: " + res("10k") + "\n" + amp, 11, 0},
+		{"divider", `family: divider
+gain: 0.25
+input: {single_ended: 0..10V}`, "family: divider\npositions:\n  Rtop: " + res("30k") + "\n  Rbot: " + res("10k") + "\n", 0.25, 0},
+		// In-amp: (1 + 2 Rf/Rg) R2/R1 = (1 + 2 x 49.5k/1k) x 1 = 100.
+		{"inamp", `family: inamp
+gain: 100
+input: {differential: ±50mV, common_mode: -1..1V}`, "family: inamp\npositions:\n  Rg: " + res("1k") + "\n  Rf1: " + res("49.5k") + "\n  Rf2: " + res("49.5k") +
+			"\n  R1: " + res("10k") + "\n  R2: " + res("10k") + "\n  R3: " + res("10k") + "\n  R4: " + res("10k") + "\n" + amp, 100, 0},
+		// Current sense: Rs R2/R1 = 0.01 x 50 = 0.5 V/A.
+		{"current-sense", `family: current-sense
+gain: 0.5V/A
+input: {current: 0..5A, common_mode: -0.1..0.1V}`, "family: current-sense\npositions:\n  Rs: {value: 0.01, tolerance: 1%, tcr: 50ppm/K, power: 1W}\n  R1: " + res("1k") +
+			"\n  R2: " + res("50k") + "\n  R3: " + res("1k") + "\n  R4: " + res("50k") + "\n" + amp, 0.5, 0},
+		// Level shift ±5 V onto 0..2.5 V from 2.5 V: (1 + Rf/Rg) R1||R2||R3 / R1 = 0.25 with
+		// Rf = Rg, R1 = 40k, R2 = 40k, R3 = 13.333k: 2 x 8k/40k = 0.4... chosen to give 0.25:
+		// R1 = 80k, R2 = 40k, R3 = 40k: R1||R2||R3 = 16k, gain 2 x 16/80 = 0.4; use Rf = 0.25 Rg:
+		// (1.25) x 16/80 = 0.25, offset 1.25 x 2.5 x 16/40 = 1.25 V.
+		{"level-shift", `family: level-shift
+input: {single_ended: ±5V}
+output: 0..2.5V
+reference: {voltage: 2.5V}`, "family: level-shift\npositions:\n  R1: " + res("80k") + "\n  R2: " + res("40k") + "\n  R3: " + res("40k") +
+			"\n  Rg: " + res("40k") + "\n  Rf: " + res("10k") + "\n" + amp, 0.25, 1.25},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			s := mustSpec(t, "name: t\nabout: family check\n"+c.spec+"\nsupply: ±15V\ntemperature: {range: -40..85C}\nlimits: {gain_error: 1%}\n")
+			r, err := Evaluate(s, mustDesign(t, c.design))
+			if err != nil {
+				t.Fatal(err)
+			}
+			if math.Abs(r.Metrics.Gain/c.want-1) > 1e-6 {
+				t.Errorf("gain %.8g, want %.8g", r.Metrics.Gain, c.want)
+			}
+			if r.Metrics.GainError <= 0 || len(r.Limits) == 0 {
+				t.Errorf("no budget: %+v", r.Metrics)
+			}
+			if c.name == "level-shift" {
+				e, _ := NewEvaluator(s, spec.LevelShift, spec.Options{})
+				cand, _ := CandidateOf(e, mustDesign(t, c.design))
+				if err := e.SetCandidate(cand); err != nil {
+					t.Fatal(err)
+				}
+				var p point
+				if err := e.eval(e.x, 25, false, &p); err != nil {
+					t.Fatal(err)
+				}
+				if math.Abs(p.base-c.offset) > 1e-6 {
+					t.Errorf("level-shift offset %.6g V, want %.6g", p.base, c.offset)
+				}
+			}
+		})
+	}
+}
+
+// TestScoreMatchesEnumeration: on seeded random difference amplifiers the
+// sign-guided corners of Score find the same worst gain error, CMRR and
+// drift as the full corner enumeration of Evaluate (the metrics are
+// monotonic in each tolerance here). Drift may fall short by the
+// tolerance x tempco cross term, whose sign first-order sensitivities do
+// not see: allowed 0.5 % of the drift.
+func TestScoreMatchesEnumeration(t *testing.T) {
+	r := rand.New(rand.NewPCG(1, 1))
+	s := mustSpec(t, `name: t
+about: property check
+family: difference
+gain: 2
+input: {differential: ±1V, common_mode: -5..5V}
+supply: ±15V
+temperature: {range: -40..85C}
+limits: {gain_error: 1%, cmrr: 40dB, gain_drift: 100ppm/K}
+`)
+	e, err := NewEvaluator(s, spec.Difference, spec.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	amp := idealAmpFigures()
+	tols := []float64{0.0001, 0.001, 0.01}
+	tcrs := []float64{5e-6, 25e-6, 100e-6}
+	for i := 0; i < 30; i++ {
+		figs := make([]Fig, 4)
+		for k := range figs {
+			figs[k] = Fig{Label: "r", Ohm: 1e3 * (1 + 99*r.Float64()), Tolerance: tols[r.IntN(3)], TCR: tcrs[r.IntN(3)]}
+		}
+		figs[1].Ohm, figs[3].Ohm = 2*figs[0].Ohm*(1+0.01*r.NormFloat64()), 2*figs[2].Ohm*(1+0.01*r.NormFloat64())
+		c := &Candidate{Figs: figs, Amp: &amp}
+		var sc Score
+		if err := e.Score(c, &sc); err != nil {
+			t.Fatal(err)
+		}
+		full, err := e.Evaluate(c)
+		if err != nil {
+			t.Fatal(err)
+		}
+		m, g := full.Metrics, sc.Metrics
+		if math.Abs(m.GainError-g.GainError) > 1e-9*m.GainError+1e-12 ||
+			math.Abs(m.CMRRdB-g.CMRRdB) > 1e-6 || g.DriftPPMPerK > m.DriftPPMPerK*(1+1e-9) || g.DriftPPMPerK < 0.995*m.DriftPPMPerK {
+			t.Errorf("case %d: Score %g / %g dB / %g ppm/K, enumeration %g / %g dB / %g ppm/K", i,
+				g.GainError, g.CMRRdB, g.DriftPPMPerK, m.GainError, m.CMRRdB, m.DriftPPMPerK)
+		}
+	}
+}
+
+func TestScoreDoesNotAllocate(t *testing.T) {
+	e := benchEvaluator(t, "worst-case")
+	amp := *e.c.Amp
+	c := &Candidate{Figs: append([]Fig(nil), e.c.Figs...), Amp: &amp}
+	var sc Score
+	if n := testing.AllocsPerRun(20, func() { _ = e.Score(c, &sc) }); n != 0 {
+		t.Errorf("Score allocates %v times per call", n)
+	}
+	s := e.s
+	s.Analysis.Method = spec.RSS
+	if n := testing.AllocsPerRun(20, func() { _ = e.Score(c, &sc) }); n != 0 {
+		t.Errorf("Score (RSS) allocates %v times per call", n)
+	}
+}
