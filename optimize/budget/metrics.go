@@ -96,7 +96,7 @@ func (e *Evaluator) ampOffset(x []float64, p *point, t float64, signed, driftOnl
 // every term's magnitude added, which is 1/CMRR_total = 1/CMRR_res +
 // 1/CMRR_amp for a single amplifier (domain notes §2).
 func (e *Evaluator) cmrrAt(x []float64, p *point, signed bool) (total, res float64) {
-		acm := p.acm
+	acm := p.acm
 	res = capLin
 	if math.Abs(acm) > tinyTransfer {
 		res = math.Min(capLin, math.Abs(p.adm/acm))

@@ -235,7 +235,7 @@ func (e *Evaluator) rssAgg(npts int, pn *[4]point, w *agg) {
 			w.offsetDrift = math.Max(w.offsetDrift, change/dt)
 		}
 		if e.differential {
-						res := math.Min(capLin, math.Abs(p.adm)/(math.Abs(p.acm)+math.Sqrt(sa)+tinyTransfer))
+			res := math.Min(capLin, math.Abs(p.adm)/(math.Abs(p.acm)+math.Sqrt(sa)+tinyTransfer))
 			tot := math.Min(capLin, math.Abs(p.adm)/(math.Abs(p.acm)+math.Sqrt(sa+cm2)+tinyTransfer))
 			w.cmrr, w.cmrrRes = math.Min(w.cmrr, tot), math.Min(w.cmrrRes, res)
 		}
