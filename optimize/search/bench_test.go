@@ -6,7 +6,9 @@ import (
 	"runtime"
 	"testing"
 
+	"plumb/catalog"
 	"plumb/optimize/cost"
+	"plumb/optimize/spec"
 )
 
 // benchProblem is a gain-10 difference amplifier with worst-case limits
@@ -109,4 +111,36 @@ func BenchmarkExhaustiveVsSearch(b *testing.B) {
 			}
 		}
 	})
+}
+
+// benchSpec is benchProblem as a spec, so that Solve also confirms the
+// designs with the exact budget.
+func benchSpec() *spec.Spec {
+	return &spec.Spec{Name: "bench", Families: []string{spec.Difference, spec.Matched}, Gain: 10,
+		Input: spec.Range{Min: -1, Max: 1}, Differential: true, CommonMode: spec.Range{Min: -5, Max: 5},
+		Supply: spec.Range{Min: -15, Max: 15}, Temp: spec.Range{Min: -40, Max: 85}, TempRef: 25,
+		Limits:   spec.Limits{GainError: 0.005, CMRRdB: 70, GainDrift: 25e-6, OutputOffsetV: 0.01},
+		Analysis: spec.Analysis{Method: spec.WorstCase, Sigmas: 3}, Derating: 0.5,
+		Build: spec.Build{Quantity: 500, Attrition: 0.02, PlacementCost: 0.005, LineItemCost: 0.5}}
+}
+
+// BenchmarkSolveSpecDifferenceTop10 is BenchmarkSolveDifferenceTop10
+// through Solve: the search plus the exact budget of every design kept.
+func BenchmarkSolveSpecDifferenceTop10(b *testing.B) {
+	ps, _ := bigParts()
+	snap := &catalog.Snapshot{ResistorSeries: ps.Series, Resistors: ps.Resistors, Networks: ps.Networks, Amplifiers: ps.Amplifiers}
+	var res *Result
+	b.ReportAllocs()
+	for b.Loop() {
+		var err error
+		if res, err = Solve(context.Background(), snap, benchSpec(), Options{Top: 10}); err != nil {
+			b.Fatal(err)
+		}
+	}
+	var ms runtime.MemStats
+	runtime.ReadMemStats(&ms)
+	b.ReportMetric(float64(ms.Sys)/1e6, "MB-sys")
+	if len(res.Designs) != 10 {
+		b.Fatalf("%d designs", len(res.Designs))
+	}
 }

@@ -27,7 +27,7 @@ func Solve(ctx context.Context, snap *catalog.Snapshot, s *spec.Spec, opt Option
 		return nil, err
 	}
 	parts := &Parts{Series: snap.ResistorSeries, Resistors: snap.Resistors, Networks: snap.Networks, Amplifiers: snap.Amplifiers}
-	r, err := SolveProblem(ctx, parts, p, opt)
+	r, err := solve(ctx, parts, p, opt, budgetVerifier(s))
 	if r != nil {
 		r.spec = s
 	}
@@ -93,8 +93,21 @@ func FromSpec(s *spec.Spec) (Problem, error) {
 }
 
 // SolveProblem is Solve on a requirement and catalog parts already in the
-// search's terms.
+// search's terms. Without a spec it has no exact budget to confirm the
+// designs with: they are ranked on the screening figures alone.
 func SolveProblem(ctx context.Context, parts *Parts, p Problem, opt Options) (*Result, error) {
+	return solve(ctx, parts, p, opt, nil)
+}
+
+// verifier confirms a design with an exact method and returns the limits
+// it fails (none: it passes).
+type verifier func(sd *spec.Design) ([]Failure, error)
+
+// verifyExtra is how many more classes than Top the search keeps when the
+// designs are confirmed afterwards, so that a rejected one can be replaced.
+func verifyExtra(top int) int { return top + 2 }
+
+func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify verifier) (*Result, error) {
 	if err := p.normalize(); err != nil {
 		return nil, err
 	}
@@ -108,7 +121,11 @@ func SolveProblem(ctx context.Context, parts *Parts, p Problem, opt Options) (*R
 	if err != nil {
 		return nil, err
 	}
-	top, st, err := sp.branchAndBound(ctx, opt.Top, opt.Progress)
+	keep := opt.Top
+	if verify != nil {
+		keep += verifyExtra(opt.Top)
+	}
+	top, st, err := sp.branchAndBound(ctx, keep, opt.Progress)
 	if err != nil {
 		return nil, fmt.Errorf("search: %w", err)
 	}
@@ -123,20 +140,47 @@ func SolveProblem(ctx context.Context, parts *Parts, p Problem, opt Options) (*R
 	if p.Method == MonteCarlo {
 		res.Notes = append(res.Notes, "the search screens Monte Carlo specs with root-sum-square figures; run the budget of a design for its yield")
 	}
+	var rejected []NearMiss
+	limit := math.Inf(1)
 	for i := range top {
+		if len(res.Designs) >= opt.Top {
+			break
+		}
 		d, sd, err := sp.describe(&top[i])
 		if err != nil {
 			return nil, err
 		}
-		d.Rank = i + 1
+		var unverified error
+		if verify != nil {
+			fails, err := verify(sd)
+			if err != nil {
+				unverified = err
+			} else if len(fails) > 0 {
+				nm := NearMiss{Design: d, Fails: fails}
+				var names []string
+				for _, f := range fails {
+					names = append(names, f.Text)
+				}
+				nm.Reasons = []string{"passes the search's screening figures, but the exact budget fails it: " + strings.Join(names, "; ")}
+				rejected = append(rejected, nm)
+				continue
+			}
+		}
+		if len(res.Designs) == 0 {
+			limit = top[i].cost
+		}
+		d.Rank = len(res.Designs) + 1
 		d.ValueVariants = sp.variants(&top[i])
 		d.Reasons = sp.reasons(&top[i], &d, res.Designs)
+		if unverified != nil {
+			d.Reasons = append(d.Reasons, "not confirmed by the exact budget: "+unverified.Error())
+		}
 		res.Designs = append(res.Designs, d)
 		res.designs = append(res.designs, sd)
 	}
-	limit := math.Inf(1)
-	if len(top) > 0 {
-		limit = top[0].cost
+	if len(rejected) > 0 {
+		res.Notes = append(res.Notes, fmt.Sprintf("%d design(s) that pass the screening figures fail the exact budget; they are listed first among the near misses", len(rejected)))
+		res.NearMisses = append(res.NearMisses, rejected[:min(len(rejected), maxNearMisses)]...)
 	}
 	// At most one near miss per resistor configuration, so they show
 	// different grades rather than one grade with several amplifiers; at
@@ -145,7 +189,7 @@ func SolveProblem(ctx context.Context, parts *Parts, p Problem, opt Options) (*R
 	seen := map[int]bool{}
 	tries := 0
 	for _, f := range sp.nearCandidates(limit) {
-		if len(res.NearMisses) >= maxNearMisses || tries >= maxFixTries {
+		if len(res.NearMisses) >= maxNearMisses+len(rejected) || tries >= maxFixTries {
 			break
 		}
 		if f.cfg >= 0 && seen[f.cfg] {
@@ -165,12 +209,15 @@ func SolveProblem(ctx context.Context, parts *Parts, p Problem, opt Options) (*R
 	}
 	// Near misses with a single fix come first; fill up with the others.
 	for _, nm := range fixless {
-		if len(res.NearMisses) < maxNearMisses {
+		if len(res.NearMisses) < maxNearMisses+len(rejected) {
 			res.NearMisses = append(res.NearMisses, nm)
 		}
 	}
-	if len(top) == 0 {
+	if len(res.Designs) == 0 {
 		res.Infeasible = sp.infeasible()
+		if len(rejected) > 0 {
+			res.Infeasible.Message += "; the designs that pass the screening figures all fail the exact budget (see the near misses)"
+		}
 		return res, ErrInfeasible
 	}
 	return res, nil

@@ -1,0 +1,69 @@
+package search
+
+import (
+	"context"
+	"math"
+	"strings"
+	"testing"
+
+	"plumb/optimize/budget"
+)
+
+// TestScreeningAgreesWithBudget runs the exact budget (package budget, an
+// independent modified-nodal solve of each corner) on every ranked design
+// of the fixtures and checks that it passes too and that the search's
+// screening figures are close to the exact ones.
+func TestScreeningAgreesWithBudget(t *testing.T) {
+	for _, file := range []string{"diff_g10.yaml", "divider.yaml"} {
+		t.Run(file, func(t *testing.T) {
+			snap, s := loadFixture(t, file)
+			res, err := Solve(context.Background(), snap, s, Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			for i, d := range res.Designs {
+				br, err := res.ExplainN(i + 1)
+				if err != nil {
+					t.Fatalf("rank %d: %v", i+1, err)
+				}
+				for _, l := range br.Limits {
+					if !l.Pass {
+						t.Errorf("rank %d (%s): the budget fails %s: %g against %g", i+1, d.Family, l.Name, l.Value, l.Limit)
+					}
+				}
+				m := br.Metrics
+				t.Logf("rank %d %s: gain error %.5g vs %.5g, drift %.4g vs %.4g, CMRR %.4g vs %.4g, offset %.4g vs %.4g",
+					i+1, d.Family, d.Metrics.GainError, m.GainError, d.Metrics.DriftPPMPerK, m.DriftPPMPerK,
+					d.Metrics.CMRRdB, m.CMRRdB, d.Metrics.OutputOffsetV, m.OutputOffsetV)
+				if math.Abs(d.Metrics.GainError-m.GainError) > 0.1*m.GainError+1e-5 {
+					t.Errorf("rank %d: gain error %.5g, budget %.5g", i+1, d.Metrics.GainError, m.GainError)
+				}
+			}
+		})
+	}
+	if _, err := (&Result{designs: nil}).ExplainN(1); err == nil {
+		t.Error("ExplainN on an empty result did not fail")
+	}
+}
+
+// TestBudgetHasTheLastWord sets the drift limit between the screening
+// figure of the 10 ppm/K pair (20.013 ppm/K, exact ratio drift) and the
+// exact budget's (20.016 ppm/K, which also moves the amplifier's terms):
+// the screening passes the design, the budget rejects it, and it must show
+// up as a near miss instead of rank 1.
+func TestBudgetHasTheLastWord(t *testing.T) {
+	snap, s := loadFixture(t, "diff_g10.yaml")
+	s.Limits.GainDrift = 20.0145e-6
+	res, err := Solve(context.Background(), snap, s, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Designs[0].Family != string(NetworkDifference) {
+		t.Fatalf("rank 1 is %s, want the network (the discrete pair fails the exact budget)", res.Designs[0].Family)
+	}
+	nm := res.NearMisses[0]
+	if nm.Family != string(DiscreteDifference) || len(nm.Fails) != 1 || nm.Fails[0].Name != budget.LimitGainDrift ||
+		!strings.Contains(nm.Reasons[0], "exact budget") {
+		t.Errorf("first near miss %s %+v %q", nm.Family, nm.Fails, nm.Reasons)
+	}
+}
