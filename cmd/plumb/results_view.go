@@ -147,7 +147,11 @@ func writeSolveTable(w io.Writer, ios *IOStreams, title string, r *search.Result
 		}
 	}
 	if len(r.NearMisses) > 0 {
-		fmt.Fprintf(w, "\n%s\n", ios.Bold("Near misses (cheaper than rank 1, but failing):"))
+		title := "Near misses (cheaper than rank 1, but failing):"
+		if len(r.Designs) == 0 {
+			title = "Near misses (the closest designs, failing):"
+		}
+		fmt.Fprintf(w, "\n%s\n", ios.Bold(title))
 		t := newTable(ios, "FAMILY", "PER STAGE", "FAILS", "FIX").alignRight(1).wrapColumns(2, 3)
 		for _, nm := range r.NearMisses {
 			var fails []string
@@ -198,7 +202,6 @@ func writeInfeasible(w io.Writer, ios *IOStreams, inf *search.Infeasible) {
 	for _, name := range slices.Sorted(maps.Keys(inf.HardLimits)) {
 		fmt.Fprintf(w, "  %d amplifier(s) removed by %s\n", inf.HardLimits[name], name)
 	}
-	fmt.Fprintln(w)
 }
 
 // solveCSVHeader is the CSV form of a search result: one row per part of
