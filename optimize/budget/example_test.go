@@ -2,23 +2,46 @@ package budget_test
 
 import (
 	"fmt"
+	"os"
 	"path/filepath"
 
+	"plumb/catalog"
 	"plumb/optimize/budget"
 	"plumb/optimize/spec"
 )
 
-func examplePath(name string) string { return filepath.Join("..", "..", "data", "examples", name) }
+func examplePath(name string) string { return filepath.Join("..", "..", "data", name) }
 
-// Evaluate the logger channel example design against its spec.
+// Evaluate the logger channel example design, its parts looked up in the
+// demo catalog, against its spec.
 func ExampleEvaluate() {
-	s, err := spec.Load(examplePath("logger-channel.yaml"))
+	f, err := os.Open(examplePath("demo.json"))
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
-	d, err := spec.LoadDesign(examplePath("logger-design.yaml"))
+	defer f.Close()
+	snap, err := catalog.ReadSnapshotJSON(f)
 	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	lookup, err := spec.SnapshotLookup(snap)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	s, err := spec.Load(examplePath("examples/logger-channel.yaml"))
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	d, err := spec.LoadDesign(examplePath("examples/logger-design.yaml"))
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	if err := d.Resolve(lookup); err != nil {
 		fmt.Println(err)
 		return
 	}
@@ -32,7 +55,7 @@ func ExampleEvaluate() {
 		fmt.Printf("%s: %.4g %s (limit %.4g), dominant %s\n", l.Name, l.Value, l.Unit, l.Limit, l.Contributors[0].Name)
 	}
 	// Output:
-	// gain 0.1999, pass true, binding gain drift
-	// gain error: 0.003746  (limit 0.005), dominant R2 tolerance
-	// CMRR: 45.28 dB (limit 40), dominant R4 tolerance
+	// gain 0.1999, pass true, binding CMRR
+	// gain error: 0.005756  (limit 0.01), dominant R2 tolerance
+	// CMRR: 41.1 dB (limit 40), dominant R4 tolerance
 }

@@ -1,10 +1,12 @@
 package budget
 
 import (
+	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 
+	"plumb/catalog"
 	"plumb/optimize/spec"
 )
 
@@ -30,8 +32,8 @@ func loadExampleDesign(t *testing.T, name string) *spec.Design {
 // every method and checks the budget is complete.
 func TestExampleDesigns(t *testing.T) {
 	cases := []struct{ spec, design string }{
-		{"logger-channel.yaml", "logger-design.yaml"},
-		{"logger-calibrated.yaml", "logger-design.yaml"},
+		{"logger-channel.yaml", "logger-inline-design.yaml"},
+		{"logger-calibrated.yaml", "logger-inline-design.yaml"},
 		{"attenuator.yaml", "attenuator-design.yaml"},
 	}
 	for _, c := range cases {
@@ -88,7 +90,7 @@ amplifier: {aol: 120dB, gbw: 1MHz, vos: 100uV, cm_neg: 2V, cm_pos: 2V, swing_neg
 		}
 	}
 	// A 5 V logger spec carries no hazard caution.
-	res, err = Evaluate(loadExample(t, "logger-channel.yaml"), loadExampleDesign(t, "logger-design.yaml"))
+	res, err = Evaluate(loadExample(t, "logger-channel.yaml"), loadExampleDesign(t, "logger-inline-design.yaml"))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -113,5 +115,41 @@ positions:
 	// Rtop: (24 V x 2.1/2.4)² / 2.1 kΩ = 0.21 W against 0.125 W derated.
 	if !strings.Contains(strings.Join(res.Cautions, "\n"), "Rtop dissipates") {
 		t.Errorf("no power caution: %q", res.Cautions)
+	}
+}
+
+// TestCatalogExampleDesigns resolves the example designs that name demo
+// catalog parts and evaluates them.
+func TestCatalogExampleDesigns(t *testing.T) {
+	f, err := os.Open(filepath.Join("..", "..", "data", "demo.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	snap, err := catalog.ReadSnapshotJSON(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lookup, err := spec.SnapshotLookup(snap)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct{ spec, design string }{
+		{"logger-channel.yaml", "logger-design.yaml"},
+		{"current-sense.yaml", "current-sense-design.yaml"},
+	} {
+		t.Run(c.design, func(t *testing.T) {
+			d := loadExampleDesign(t, c.design)
+			if err := d.Resolve(lookup); err != nil {
+				t.Fatal(err)
+			}
+			res, err := Evaluate(loadExample(t, c.spec), d)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(res.Limits) == 0 {
+				t.Error("no limits checked")
+			}
+		})
 	}
 }
