@@ -228,6 +228,7 @@ func loadRows[T any](ctx context.Context, q querier, t *table, where string, arg
 	out := make([]T, 0, n)
 	dest := make([]any, len(t.cols)+1)
 	scratch := make([]string, len(t.cols))
+	ints := make([]int64, len(t.cols))
 	for rows.Next() {
 		out = append(out, *new(T))
 		v := reflect.ValueOf(&out[len(out)-1]).Elem()
@@ -243,7 +244,9 @@ func loadRows[T any](ctx context.Context, q querier, t *table, where string, arg
 			case colFloat:
 				dest[i+1] = v.FieldByIndex(c.index).Addr().Interface()
 			case colInt:
-				dest[i+1] = v.FieldByIndex(c.index).Addr().Interface()
+				// Scanning into an int goes through a string in
+				// database/sql; into an int64 it does not.
+				dest[i+1] = &ints[i]
 			default:
 				dest[i+1] = &scratch[i]
 			}
@@ -255,6 +258,8 @@ func loadRows[T any](ctx context.Context, q querier, t *table, where string, arg
 			c := &t.cols[i]
 			f := v.FieldByIndex(c.index)
 			switch {
+			case c.kind == colInt:
+				f.SetInt(ints[i])
 			case c.kind == colString && dest[i+1] == &scratch[i]:
 				f.SetString(scratch[i])
 			case c.kind == colTime:
@@ -303,11 +308,12 @@ func loadBreaks(ctx context.Context, q querier, t *table, cond string, n int, ar
 	start := 0
 	var currency string
 	for rows.Next() {
-		var id int64
+		var id, qty int64
 		var b PriceBreak
-		if err := rows.Scan(&id, &b.MinQty, &b.UnitPrice, &currency); err != nil {
+		if err := rows.Scan(&id, &qty, &b.UnitPrice, &currency); err != nil {
 			return nil, fmt.Errorf("catalog: read price breaks of %s: %w", t.name, err)
 		}
+		b.MinQty = int(qty)
 		// Most parts share a currency: reuse the previous string.
 		if len(all) > 0 && all[len(all)-1].Currency == currency {
 			b.Currency = all[len(all)-1].Currency
