@@ -32,9 +32,11 @@ const KindSeries Kind = "series"
 
 // Store is an open plumb catalog: a SQLite file (or an in-memory database)
 // holding resistor series, resistors, networks and amplifiers with their
-// price breaks and import history. A Store is safe for concurrent use; two
-// processes writing one file serialise on SQLite's write lock (writes run in
-// BEGIN IMMEDIATE transactions and wait up to BusyTimeout).
+// price breaks and import history (schema in schema.go, every column's unit
+// in its SQL comment). A Store is safe for concurrent use; two processes
+// writing one file serialise on SQLite's write lock: the file is in WAL
+// mode, writes run in BEGIN IMMEDIATE transactions and wait up to
+// BusyTimeout for another writer.
 type Store struct {
 	db      *sqlx.DB
 	path    string
@@ -78,7 +80,11 @@ type HistoryEntry struct {
 	Source     string    `json:"source"`
 	ImportedAt time.Time `json:"imported_at"`
 	Outcome    Outcome   `json:"outcome"`
-	// Figures is the part as imported, in the snapshot JSON format.
+	// Figures is a JSON object of the part's figures as imported (the
+	// snapshot JSON names, without offer and provenance, which Changes and
+	// Source record). For an "added" row they are read from the part
+	// itself: a part's figures are never overwritten, so the catalog does
+	// not store them twice.
 	Figures string `json:"figures"`
 	// Changes lists what differed from the catalog ("tolerance 0.001 -> 0.0005").
 	Changes []string `json:"changes,omitempty"`
