@@ -121,12 +121,12 @@ type Design struct {
 	// contributors.
 	Budgets     []Budget
 	MonteCarlo  *MonteCarlo
-	Temperature  *Plot
-	Parts        Table
-	PartsTotals  []Row
-	Cautions     []string
-	Notes        []string
-	WorstCorner  string
+	Temperature *Plot
+	Parts       Table
+	PartsTotals []Row
+	Cautions    []string
+	Notes       []string
+	WorstCorner string
 
 	result *budget.Result
 }

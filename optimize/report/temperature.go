@@ -16,20 +16,26 @@ import (
 // budget.Evaluator.GainErrorVsTemperature, and the gain-error limit as a
 // band of two dashed lines at ±limit.
 func temperaturePlot(s *spec.Spec, d *spec.Design, n int) (*Plot, error) {
+	p, _, err := temperatureCurve(s, d, n)
+	return p, err
+}
+
+// temperatureCurve is temperaturePlot that also returns the solved curve.
+func temperatureCurve(s *spec.Spec, d *spec.Design, n int) (*Plot, *budget.TempCurve, error) {
 	if n <= 0 {
 		n = DefaultTempPoints
 	}
 	e, err := budget.NewEvaluator(s, d.Family, d.Options)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	c, err := budget.CandidateOf(e, d)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	tc, err := e.GainErrorVsTemperature(c, n)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	nom := make(plotter.XYs, len(tc.TempC))
 	env := make(plotter.XYs, 0, 2*len(tc.TempC))
@@ -52,7 +58,7 @@ func temperaturePlot(s *spec.Spec, d *spec.Design, n int) (*Plot, error) {
 	p := newPlot(title, "temperature (°C)", "gain error (%)")
 	band, err := plotter.NewPolygon(env)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	band.Color, band.LineStyle.Width = colSkyLight, 0
 	p.Add(band)
@@ -60,14 +66,14 @@ func temperaturePlot(s *spec.Spec, d *spec.Design, n int) (*Plot, error) {
 	for _, edge := range []plotter.XYs{lo, hi} {
 		l, err := plotter.NewLine(edge)
 		if err != nil {
-			return nil, err
+			return nil, nil, err
 		}
 		l.Color, l.Width = colBlue, vg.Points(1)
 		p.Add(l)
 	}
 	nl, err := plotter.NewLine(nom)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	nl.Color, nl.Width = colGreen, vg.Points(2)
 	p.Add(nl)
@@ -78,12 +84,17 @@ func temperaturePlot(s *spec.Spec, d *spec.Design, n int) (*Plot, error) {
 		for _, y := range []float64{-100 * lim, 100 * lim} {
 			l, err := limitLine(plotter.XYs{{X: s.Temp.Min, Y: y}, {X: s.Temp.Max, Y: y}})
 			if err != nil {
-				return nil, err
+				return nil, nil, err
 			}
 			p.Add(l)
-			if lines == 0 {
-				p.Legend.Add("limit ±"+fmtLimit(budget.LimitGainError, "", lim), l)
+			lab, err := plotter.NewLabels(plotter.XYLabels{XYs: plotter.XYs{{X: s.Temp.Min, Y: y}}, Labels: []string{" limit " + sig(y) + " %"}})
+			if err != nil {
+				return nil, nil, err
 			}
+			for i := range lab.TextStyle {
+				lab.TextStyle[i].Color, lab.TextStyle[i].Font.Variant, lab.TextStyle[i].Font.Size = colVermilion, "Sans", vg.Points(9)
+			}
+			p.Add(lab)
 			lines++
 		}
 		caption += "; the dashed vermilion lines bound the gain-error limit ±" + fmtLimit(budget.LimitGainError, "", lim) + "."
@@ -105,7 +116,7 @@ func temperaturePlot(s *spec.Spec, d *spec.Design, n int) (*Plot, error) {
 	}
 	svg, err := svgOf(p, plotWidth, plotStandardH)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
-	return &Plot{Name: "temperature", Title: title, Caption: caption, SVG: svg, LimitLines: lines}, nil
+	return &Plot{Name: "temperature", Title: title, Caption: caption, SVG: svg, LimitLines: lines}, tc, nil
 }
