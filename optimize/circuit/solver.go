@@ -33,10 +33,38 @@ type Solver struct {
 	scale    float64 // op-amp rows are multiplied by it to match the conductances
 	topoErr  error
 	factored bool
-	lu       [MaxUnknowns * MaxUnknowns]float64
-	piv      [MaxUnknowns]int
-	x        [MaxUnknowns]float64
+
+	// Precompiled stamps, so that Factor and Solve only do arithmetic.
+	rStamps []resStamp  // per resistor
+	aStamps []ampStamp  // per op-amp
+	drives  []drive     // resistor couplings to source-driven nodes
+	cRows   []pinRows   // per current source: rows of To and From
+	ibRows  []pinRows   // per op-amp: current-law rows of Plus and Minus
+	aRHS    []ampSource // per op-amp: its row and driven inputs
+
+	lu  [MaxUnknowns * MaxUnknowns]float64
+	piv [MaxUnknowns]int
+	x   [MaxUnknowns]float64
 }
+
+// resStamp holds the matrix offsets a resistor's conductance is added to
+// (aa, bb) and subtracted from (ab, ba); -1 for none.
+type resStamp struct{ aa, ab, ba, bb int }
+
+// ampStamp holds the matrix offsets of an op-amp row: its own output's
+// column and its two inputs' columns; -1 for none.
+type ampStamp struct{ diag, plus, minus int }
+
+// drive adds g[res] * V(source src) to row.
+type drive struct{ row, res, src int }
+
+// pinRows are two current-law rows (-1 for none): To/From of a current
+// source, Plus/Minus of an op-amp.
+type pinRows struct{ a, b int }
+
+// ampSource is an op-amp's constraint row and the sources fixing its
+// inputs (-1 for a free or grounded input).
+type ampSource struct{ row, plusSrc, minusSrc int }
 
 // NewSolver returns a solver bound to n. Topology errors (see ErrTopology)
 // are reported by Factor. Changing n's node indices after NewSolver needs a
@@ -115,7 +143,44 @@ func (s *Solver) resolve() error {
 		}
 		s.ampRow[row] = k
 	}
+	s.compile()
 	return nil
+}
+
+// compile precomputes the stamp tables from the resolved topology.
+func (s *Solver) compile() {
+	n, m := s.n, s.m
+	kclRow := func(node int) int {
+		if u := s.unk[node]; u >= 0 && s.ampRow[u] < 0 {
+			return u
+		}
+		return -1
+	}
+	off := func(row, node int) int {
+		if row < 0 || s.unk[node] < 0 {
+			return -1
+		}
+		return row*m + s.unk[node]
+	}
+	for i, r := range n.Resistors {
+		ra, rb := kclRow(r.A), kclRow(r.B)
+		s.rStamps = append(s.rStamps, resStamp{aa: off(ra, r.A), ab: off(ra, r.B), ba: off(rb, r.A), bb: off(rb, r.B)})
+		if ra >= 0 && s.src[r.B] >= 0 {
+			s.drives = append(s.drives, drive{row: ra, res: i, src: s.src[r.B]})
+		}
+		if rb >= 0 && s.src[r.A] >= 0 {
+			s.drives = append(s.drives, drive{row: rb, res: i, src: s.src[r.A]})
+		}
+	}
+	for _, c := range n.Currents {
+		s.cRows = append(s.cRows, pinRows{a: kclRow(c.To), b: kclRow(c.From)})
+	}
+	for _, a := range n.OpAmps {
+		row := s.unk[a.Out]
+		s.aStamps = append(s.aStamps, ampStamp{diag: row*m + row, plus: off(row, a.Plus), minus: off(row, a.Minus)})
+		s.ibRows = append(s.ibRows, pinRows{a: kclRow(a.Plus), b: kclRow(a.Minus)})
+		s.aRHS = append(s.aRHS, ampSource{row: row, plusSrc: s.src[a.Plus], minusSrc: s.src[a.Minus]})
+	}
 }
 
 // Factor builds the reduced nodal matrix from the current resistor values
@@ -142,41 +207,48 @@ func (s *Solver) Factor() error {
 		}
 		g := 1 / r.Ohm
 		s.g[i] = g
-		gmax = math.Max(gmax, g)
-		ua, ub := s.unk[r.A], s.unk[r.B]
-		if ua >= 0 && s.ampRow[ua] < 0 {
-			a[ua*m+ua] += g
-			if ub >= 0 {
-				a[ua*m+ub] -= g
-			}
+		if g > gmax {
+			gmax = g
 		}
-		if ub >= 0 && s.ampRow[ub] < 0 {
-			a[ub*m+ub] += g
-			if ua >= 0 {
-				a[ub*m+ua] -= g
-			}
+		st := s.rStamps[i]
+		if st.aa >= 0 {
+			a[st.aa] += g
+		}
+		if st.ab >= 0 {
+			a[st.ab] -= g
+		}
+		if st.ba >= 0 {
+			a[st.ba] -= g
+		}
+		if st.bb >= 0 {
+			a[st.bb] += g
 		}
 	}
 	if gmax == 0 {
 		gmax = 1
 	}
 	s.scale = gmax
-	for _, op := range s.n.OpAmps {
-		if op.Gain == 0 || math.IsNaN(op.Gain) {
+	for k, op := range s.n.OpAmps {
+		if op.Gain == 0 || op.Gain != op.Gain {
 			return fmt.Errorf("%w: op-amp %q has open-loop gain %g; it must be non-zero (use +Inf for an ideal amplifier)", ErrSingular, op.Name, op.Gain)
 		}
-		row := s.unk[op.Out] * m
-		a[row+s.unk[op.Out]] += gmax / op.Gain
-		if up := s.unk[op.Plus]; up >= 0 {
-			a[row+up] -= gmax
+		st := s.aStamps[k]
+		a[st.diag] += gmax / op.Gain
+		if st.plus >= 0 {
+			a[st.plus] -= gmax
 		}
-		if um := s.unk[op.Minus]; um >= 0 {
-			a[row+um] += gmax
+		if st.minus >= 0 {
+			a[st.minus] += gmax
 		}
 	}
 	big := 0.0
 	for _, v := range a {
-		big = math.Max(big, math.Abs(v))
+		if v < 0 {
+			v = -v
+		}
+		if v > big {
+			big = v
+		}
 	}
 	tiny := singularTol * big
 	for k := 0; k < m; k++ {
@@ -248,21 +320,6 @@ func (s *Solver) voltage(k int) float64 {
 	}
 }
 
-// driven returns the voltage of node k if it is fixed (ground or a source)
-// and whether it is.
-func (s *Solver) driven(k int) (float64, bool) {
-	if k == 0 {
-		return 0, true
-	}
-	if j := s.src[k]; j >= 0 {
-		return s.n.Sources[j].V, true
-	}
-	return 0, false
-}
-
-// kcl reports whether unknown u has a current-law row.
-func (s *Solver) kcl(u int) bool { return u >= 0 && s.ampRow[u] < 0 }
-
 func (s *Solver) solve() {
 	if !s.factored {
 		panic("circuit: Solve called without a successful Factor")
@@ -270,42 +327,34 @@ func (s *Solver) solve() {
 	m, n := s.m, s.n
 	b := s.x[:m]
 	clear(b)
-	for i, r := range n.Resistors {
-		ua, ub := s.unk[r.A], s.unk[r.B]
-		if s.kcl(ua) {
-			if vb, ok := s.driven(r.B); ok {
-				b[ua] += s.g[i] * vb
-			}
+	src := n.Sources
+	for _, d := range s.drives {
+		b[d.row] += s.g[d.res] * src[d.src].V
+	}
+	for k, c := range n.Currents {
+		if r := s.cRows[k]; r.a >= 0 {
+			b[r.a] += c.A
 		}
-		if s.kcl(ub) {
-			if va, ok := s.driven(r.A); ok {
-				b[ub] += s.g[i] * va
-			}
+		if r := s.cRows[k]; r.b >= 0 {
+			b[r.b] -= c.A
 		}
 	}
-	for _, c := range n.Currents {
-		if u := s.unk[c.To]; s.kcl(u) {
-			b[u] += c.A
+	for k, op := range n.OpAmps {
+		if r := s.ibRows[k]; r.a >= 0 {
+			b[r.a] -= op.IbPlus
 		}
-		if u := s.unk[c.From]; s.kcl(u) {
-			b[u] -= c.A
+		if r := s.ibRows[k]; r.b >= 0 {
+			b[r.b] -= op.IbMinus
 		}
-	}
-	for _, op := range n.OpAmps {
-		if u := s.unk[op.Plus]; s.kcl(u) {
-			b[u] -= op.IbPlus
+		as := s.aRHS[k]
+		v := op.Vos
+		if as.plusSrc >= 0 {
+			v += src[as.plusSrc].V
 		}
-		if u := s.unk[op.Minus]; s.kcl(u) {
-			b[u] -= op.IbMinus
+		if as.minusSrc >= 0 {
+			v -= src[as.minusSrc].V
 		}
-		r := op.Vos
-		if vp, ok := s.driven(op.Plus); ok {
-			r += vp
-		}
-		if vm, ok := s.driven(op.Minus); ok {
-			r -= vm
-		}
-		b[s.unk[op.Out]] += s.scale * r
+		b[as.row] += s.scale * v
 	}
 	a := s.lu[:m*m]
 	for k := 0; k < m; k++ {
