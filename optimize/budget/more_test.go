@@ -1,0 +1,119 @@
+package budget
+
+import (
+	"math"
+	"testing"
+
+	"plumb/catalog"
+	"plumb/optimize/spec"
+)
+
+// TestCMRRCombination: the amplifier's CMRR adds to the resistors' as
+// 1/CMRR_total = 1/CMRR_res + 1/CMRR_amp in the worst case (domain notes
+// §2): unity gain with 1 % resistors (50) and a 60 dB amplifier (1000)
+// give 1/(1/50 + 1/1000) = 47.62.
+func TestCMRRCombination(t *testing.T) {
+	s := mustSpec(t, diffSpec(1, "worst-case"))
+	d := mustDesign(t, diffDesign(1, "1%"))
+	d.Amplifier.Amp.CMRRdB = 60
+	res, err := Evaluate(s, d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := math.Pow(10, res.Metrics.CMRRdB/20)
+	if want := 1 / (1.0/50 + 1.0/1000); math.Abs(got/want-1) > 1e-3 {
+		t.Errorf("combined CMRR %.5g, want %.5g", got, want)
+	}
+	if c := res.Limits[0]; c.Name != LimitCMRR && res.Limits[1].Name != LimitCMRR {
+		t.Fatalf("limits %+v", res.Limits)
+	}
+}
+
+// TestRSSGainError: the differential gain of a difference amplifier is
+// Adm = ((R4/(R3+R4))(1+R2/R1) + R2/R1)/2 (domain notes §2, Franco); at
+// unity gain its relative sensitivities are ±3/4 to R2 and R1 and ±1/4 to
+// R4 and R3, so four tolerances t give sqrt(2 (3/4)² + 2 (1/4)²) t =
+// 1.118 t by root-sum-square and 2t in the worst case (RSS and EVA as in
+// ECSS-Q-HB-30-01A, from memory).
+func TestRSSGainError(t *testing.T) {
+	s := mustSpec(t, diffSpec(1, "rss"))
+	res, err := Evaluate(s, mustDesign(t, diffDesign(1, "0.1%")))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got, want := res.Metrics.GainError, math.Sqrt(2*0.75*0.75+2*0.25*0.25)*0.001; math.Abs(got-want) > 3e-6 {
+		t.Errorf("RSS gain error %.6g, want %.6g", got, want)
+	}
+	s.Analysis.Method = spec.WorstCase
+	wc, err := Evaluate(s, mustDesign(t, diffDesign(1, "0.1%")))
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Worst case adds them: 4 x t/2 = 2t.
+	if got := wc.Metrics.GainError; math.Abs(got-0.002) > 4e-6 {
+		t.Errorf("worst-case gain error %.6g, want 0.002", got)
+	}
+}
+
+// TestMatchedAmplifier: a stage on an amplifier with matched resistors
+// inside takes its gain error, drift and CMRR from the datasheet figures.
+func TestMatchedAmplifier(t *testing.T) {
+	s := mustSpec(t, `name: t
+about: matched amplifier
+family: matched
+gain: 2
+input: {differential: ±1V, common_mode: -2..2V}
+supply: ±15V
+temperature: {range: -40..85C}
+limits: {gain_error: 1%, cmrr: 60dB}
+`)
+	e, err := NewEvaluator(s, spec.Matched, spec.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	amp := catalog.Amplifier{Part: "M", Type: catalog.MatchedAmp, GainErrorMax: 0.0005, GainDriftPPM: 5, CMRRdB: 86,
+		GBWHz: 1e6, VosV: 100e-6, CMNegV: 1.5, CMPosV: 1.5, SwingNegV: 0.1, SwingPosV: 0.1, InNegV: -20, InPosV: -20, Gains: []float64{1, 2}}
+	res, err := e.Evaluate(&Candidate{Amp: &amp, MatchedGain: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Worst: (1 + 0.0005)(1 + 5e-6 x 65) - 1.
+	if want := (1+0.0005)*(1+5e-6*65) - 1; math.Abs(res.Metrics.GainError-want) > 1e-9 {
+		t.Errorf("gain error %.6g, want %.6g", res.Metrics.GainError, want)
+	}
+	// The datasheet's 86 dB, less the 0.05 % gain error's effect on Adm
+	// at the worst point (-0.004 dB).
+	if math.Abs(res.Metrics.CMRRdB-86) > 0.02 {
+		t.Errorf("CMRR %.4g dB, want the datasheet's 86", res.Metrics.CMRRdB)
+	}
+	// Bandwidth GBW/(1+G) (domain notes §3).
+	if math.Abs(res.Metrics.BandwidthHz-1e6/3) > 1 {
+		t.Errorf("bandwidth %.4g, want %.4g", res.Metrics.BandwidthHz, 1e6/3)
+	}
+}
+
+// TestGainErrorVsTemperature: two 25 ppm/K resistors of an inverting
+// amplifier, worst signs opposite, spread the gain by about ±3000 ppm at
+// 85 C (60 K from 25 C, common practice arithmetic) and by zero at 25 C.
+func TestGainErrorVsTemperature(t *testing.T) {
+	s, d := inverting(t, "0%", "25ppm/K", "-35..85C", "")
+	e, err := NewEvaluator(s, spec.Inverting, spec.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, err := CandidateOf(e, d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tc, err := e.GainErrorVsTemperature(c, 13)
+	if err != nil {
+		t.Fatal(err)
+	}
+	last := len(tc.TempC) - 1
+	if tc.TempC[last] != 85 || math.Abs(tc.High[last]-3000e-6) > 20e-6 || math.Abs(tc.Low[last]+3000e-6) > 20e-6 {
+		t.Errorf("at %g C: %g..%g, want about ±3000 ppm", tc.TempC[last], tc.Low[last], tc.High[last])
+	}
+	if i := 6; tc.TempC[i] != 25 || math.Abs(tc.High[i]) > 1e-9 {
+		t.Errorf("at %g C spread %g, want 0", tc.TempC[i], tc.High[i])
+	}
+}
