@@ -179,11 +179,16 @@ func (s *space) ratingOK(powerW, maxV, r, v float64) bool {
 	return maxV == 0 || v <= maxV
 }
 
+// zinOK checks the input impedance the source sees. For the difference
+// amplifier driven differentially (V± = Vcm ± Vd/2) the inverting input
+// draws (V- - Vpin)/R1 with the pin following V+·k/(1+k), so that input
+// looks like R1·(1+k)/(1+2k) (k = R2/R1); the non-inverting input is R3+R4.
 func (s *space) zinOK(rg, rf float64) bool {
 	z := s.p.ZinMinOhm
 	switch s.p.Circuit {
 	case Difference:
-		return rg >= z && rg+rf >= z
+		k := rf / rg
+		return rg*(1+k)/(1+2*k) >= z && rg+rf >= z
 	case Inverting:
 		return rg >= z
 	case Divider:
