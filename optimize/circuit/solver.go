@@ -10,11 +10,11 @@ import (
 // has 9.
 const MaxUnknowns = 16
 
-// singularTol is the relative size, against the largest matrix entry, below
-// which an LU pivot counts as zero. Real stages span conductances from a
-// milliohm shunt to gigaohm leakage paths, about 1e12, so the threshold
-// sits well below that and well above rounding residue of a floating
-// sub-network (about 1e-16).
+// singularTol is the size, relative to the largest entry of its column
+// before elimination, below which an LU pivot counts as zero. A floating
+// node leaves an exactly zero column; a floating sub-network leaves rounding
+// residue of about 1e-16 of its conductances; a legitimate pivot, such as a
+// gigaohm path behind a milliohm shunt, is 1e-12 of its column or more.
 const singularTol = 1e-14
 
 // Solver solves a Netlist by reduced modified nodal analysis (see the
@@ -44,6 +44,7 @@ type Solver struct {
 
 	lu  [MaxUnknowns * MaxUnknowns]float64
 	piv [MaxUnknowns]int
+	inv [MaxUnknowns]float64 // reciprocals of U's diagonal
 	x   [MaxUnknowns]float64
 }
 
@@ -241,16 +242,22 @@ func (s *Solver) Factor() error {
 			a[st.minus] += gmax
 		}
 	}
-	big := 0.0
-	for _, v := range a {
-		if v < 0 {
-			v = -v
-		}
-		if v > big {
-			big = v
+	// A pivot is zero when it is below singularTol times the largest
+	// entry its column had before elimination (row swaps keep columns).
+	var tiny [MaxUnknowns]float64
+	for i := 0; i < m; i++ {
+		for j, v := range a[i*m : i*m+m] {
+			if v < 0 {
+				v = -v
+			}
+			if v > tiny[j] {
+				tiny[j] = v
+			}
 		}
 	}
-	tiny := singularTol * big
+	for j := range m {
+		tiny[j] *= singularTol
+	}
 	for k := 0; k < m; k++ {
 		p, pv := k, math.Abs(a[k*m+k])
 		for i := k + 1; i < m; i++ {
@@ -258,7 +265,7 @@ func (s *Solver) Factor() error {
 				p, pv = i, v
 			}
 		}
-		if !(pv > tiny) {
+		if !(pv > tiny[k]) {
 			return fmt.Errorf("%w: node %q has no DC path that fixes its voltage (check for open resistors, a floating input or a loop of op-amps)", ErrSingular, s.n.Nodes[s.unkNode[k]])
 		}
 		s.piv[k] = p
@@ -269,6 +276,7 @@ func (s *Solver) Factor() error {
 			}
 		}
 		inv := 1 / a[k*m+k]
+		s.inv[k] = inv
 		rowk := a[k*m : k*m+m]
 		for i := k + 1; i < m; i++ {
 			rowi := a[i*m : i*m+m]
@@ -376,6 +384,6 @@ func (s *Solver) solve() {
 		for j := i + 1; j < m; j++ {
 			sum -= row[j] * b[j]
 		}
-		b[i] = sum / row[i]
+		b[i] = sum * s.inv[i]
 	}
 }

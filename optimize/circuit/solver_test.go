@@ -234,3 +234,31 @@ func TestValuesByIndex(t *testing.T) {
 		t.Errorf("after refactor: Vout %g, want -1", got)
 	}
 }
+
+// The singularity test is relative to each column: a resistor ladder with
+// no path to ground is singular (only rounding residue is left), while a
+// gigaohm path behind milliohm resistors is a legitimate, tiny pivot whose
+// node voltages the divider formula gives (Ohm's law).
+func TestSingularThreshold(t *testing.T) {
+	floating := &Netlist{
+		Nodes:     []string{"0", "s", "x", "y", "z"},
+		Sources:   []Source{{Name: "v", Node: 1, V: 1}},
+		Resistors: []Resistor{{"R0", 1, 0, 1e3}, {"R1", 2, 3, 1e3}, {"R2", 3, 4, 2.2e3}, {"R3", 4, 2, 4.7e3}},
+		Out:       2,
+	}
+	if err := NewSolver(floating).Factor(); !errors.Is(err, ErrSingular) {
+		t.Errorf("floating ladder: Factor error %v, want ErrSingular", err)
+	}
+	ladder := &Netlist{
+		Nodes:     []string{"0", "s", "x", "y"},
+		Sources:   []Source{{Name: "v", Node: 1, V: 1}},
+		Resistors: []Resistor{{"Ra", 1, 2, 1e-3}, {"Rb", 2, 3, 1e-3}, {"Rc", 3, 0, 1e9}},
+		Out:       3,
+	}
+	v, err := solveAll(ladder)
+	if err != nil {
+		t.Fatalf("milliohm-gigaohm ladder: %v", err)
+	}
+	near(t, "V(y)", v[3], 1e9/(1e9+2e-3), 1e-15)
+	near(t, "V(x)", v[2], (1e9+1e-3)/(1e9+2e-3), 1e-15)
+}
