@@ -372,30 +372,19 @@ func (e *Evaluator) paramName(j int) string {
 	} else if p.group > 0 {
 		who = fmt.Sprintf("network %d (%s)", p.group, e.groupMembers(p.mask))
 	}
-	ampName := func() string {
-		if e.matched {
-			return "amplifier"
-		}
-		return e.net.OpAmps[e.amps[p.amp]].Name
+	if p.kind.amplifierTerm() {
+		return e.ampName(p.amp) + ampTermNames[p.kind-pVos]
 	}
-	ratio := p.pos >= 0 && e.c.Figs[p.pos].Network != 0
 	switch p.kind {
-	case pDev:
-		if ratio {
-			return who + " ratio tolerance"
+	case pDev, pTC:
+		variant := 0 // a discrete part
+		switch {
+		case p.pos >= 0 && e.c.Figs[p.pos].Network != 0:
+			variant = 1 // an element's scatter within its network
+		case p.pos < 0:
+			variant = 2 // a whole network's common shift
 		}
-		if p.pos < 0 {
-			return who + " absolute tolerance"
-		}
-		return who + " tolerance"
-	case pTC:
-		if ratio {
-			return who + " TCR tracking"
-		}
-		if p.pos < 0 {
-			return who + " absolute TCR"
-		}
-		return who + " TCR"
+		return who + resistorTermNames[p.kind][variant]
 	case pLife:
 		return who + " load life"
 	case pRefTol:
@@ -406,19 +395,19 @@ func (e *Evaluator) paramName(j int) string {
 		return "amplifier gain error"
 	case pMDrift:
 		return "amplifier gain drift"
-	case pVos:
-		return ampName() + " Vos"
-	case pVosDrift:
-		return ampName() + " Vos drift"
-	case pIb:
-		return ampName() + " Ib"
-	case pIos:
-		return ampName() + " Ios"
-	case pCMRR:
-		return ampName() + " CMRR"
 	}
 	return "?"
 }
+
+// Names of the resistor terms (discrete, network element, whole network)
+// and of the amplifier terms, in paramKind order.
+var (
+	resistorTermNames = [2][3]string{
+		pDev: {" tolerance", " ratio tolerance", " absolute tolerance"},
+		pTC:  {" TCR", " TCR tracking", " absolute TCR"},
+	}
+	ampTermNames = [...]string{" Vos", " Vos drift", " Ib", " Ios", " CMRR"}
+)
 
 func (e *Evaluator) groupMembers(mask uint64) string {
 	s := ""
