@@ -25,7 +25,7 @@ changed. A spec-changed entry means a later export gave different figures;
 the catalog kept the earlier ones.`,
 		Example: `  plumb catalog history IM-JH36
   plumb catalog history AR-TP1 --format json`,
-		Args:    exactArgs("PART"),
+		Args: exactArgs("PART"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			opts.Part = args[0]
 			var err error

@@ -82,6 +82,7 @@ func newRootCmd(f *Factory) *cobra.Command {
 		newCheckCmd(f, nil),
 		newBOMCmd(f, nil),
 		newImportCmd(f, nil),
+		newReportCmd(f, nil),
 		newCompletionCmd(f, nil),
 		newManCmd(f, nil),
 	)

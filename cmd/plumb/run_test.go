@@ -719,3 +719,38 @@ func TestHelpExamples(t *testing.T) {
 		})
 	}
 }
+
+func TestReport(t *testing.T) {
+	dir := t.TempDir()
+	html := filepath.Join(dir, "r.html")
+	f := fixtureFactory(t)
+	if _, errOut, code := runPlumb(t, f, "report testdata/diff-g10.yaml --top 2 -o "+html); code != exitOK {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	b, err := os.ReadFile(html)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(b), "<html") || !strings.Contains(string(b), "fixture-g10") {
+		t.Errorf("report is not an HTML page about the spec (%d bytes)", len(b))
+	}
+	f = fixtureFactory(t)
+	if _, errOut, code := runPlumb(t, f, "report testdata/diff-g10.yaml -o "+html); code != exitError || !strings.Contains(errOut, "--force") {
+		t.Errorf("overwrite without --force: exit %d, %q", code, errOut)
+	}
+	md := filepath.Join(dir, "n.md")
+	f = fixtureFactory(t)
+	if _, errOut, code := runPlumb(t, f, "report testdata/diff-g10.yaml --design testdata/design-network.yaml -o "+md); code != exitOK {
+		t.Fatalf("markdown: exit %d: %s", code, errOut)
+	}
+	if b, err := os.ReadFile(md); err != nil || !strings.Contains(string(b), "HN4-1K-10K") {
+		t.Errorf("markdown report lacks the design's network: %v", err)
+	}
+	for _, bad := range []string{"report testdata/diff-g10.yaml", "report testdata/diff-g10.yaml -o r.pdf",
+		"report testdata/diff-g10.yaml --design testdata/design-network.yaml --top 2 -o x.html"} {
+		f = fixtureFactory(t)
+		if _, errOut, code := runPlumb(t, f, bad); code != exitUsage {
+			t.Errorf("%s: exit %d, want %d: %s", bad, code, exitUsage, errOut)
+		}
+	}
+}

@@ -1,0 +1,129 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"strings"
+	"time"
+
+	"github.com/spf13/cobra"
+
+	"plumb/optimize/report"
+	"plumb/optimize/search"
+)
+
+type reportOptions struct {
+	IO      *IOStreams
+	Catalog catalogOpener
+	Now     func() time.Time
+	Spec    string
+	Design  string
+	Top     int
+	Output  string
+	Force   bool
+	Quiet   bool
+}
+
+func newReportCmd(f *Factory, runF func(*reportOptions) error) *cobra.Command {
+	opts := &reportOptions{IO: f.IO, Catalog: f.Catalog, Now: f.Now}
+	cmd := &cobra.Command{
+		Use:   "report SPEC -o FILE.html|FILE.md",
+		Short: "Write a design report (HTML or Markdown) for a design review",
+		Long: `Write a report for a design review: the spec, the ranked designs (the --top
+cheapest from the catalog, or the one design of --design) side by side,
+each design's exact error budget with a chart per limit, Monte Carlo
+histograms, gain error over temperature, the priced parts list, near misses
+and every caution. The format follows the output name: FILE.html is one
+self-contained page (inline CSS and SVG), FILE.md is Markdown with the plots
+as SVG files beside it. An existing report is not replaced without --force,
+and a failed report leaves no partial files.`,
+		Example: `  plumb report logger-calibrated -o logger.html
+  plumb report logger-channel --design logger-design -o logger-design.md`,
+		Args: exactArgs("SPEC"),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			opts.Spec = args[0]
+			if opts.Output == "" {
+				return usagef("%s needs -o FILE.html or -o FILE.md", cmd.CommandPath())
+			}
+			if ext := strings.ToLower(filepath.Ext(opts.Output)); ext != ".html" && ext != ".md" {
+				return usagef("-o %s: the report is written as .html or .md; name the file so", opts.Output)
+			}
+			if opts.Design != "" && cmd.Flags().Changed(keyTop) {
+				return usagef("--design and --top exclude each other: a report covers one given design or the top designs of a search")
+			}
+			if !cmd.Flags().Changed(keyTop) {
+				opts.Top = min(f.Settings().Top, report.DefaultTop)
+			}
+			if opts.Top < 1 {
+				return usagef("--top %d: report at least 1 design", opts.Top)
+			}
+			opts.Quiet = f.Quiet
+			if runF != nil {
+				return runF(opts)
+			}
+			return runReport(cmd.Context(), opts)
+		},
+	}
+	fl := cmd.Flags()
+	fl.StringVar(&opts.Design, "design", "", "report on this `DESIGN` (file or example name) instead of searching")
+	fl.IntVar(&opts.Top, keyTop, report.DefaultTop, "number of designs searched for and compared")
+	fl.StringVarP(&opts.Output, "output", "o", "", "report `FILE`: .html or .md")
+	fl.BoolVar(&opts.Force, "force", false, "replace an existing report")
+	return cmd
+}
+
+func runReport(ctx context.Context, opts *reportOptions) error {
+	sp, err := loadSpecArg(opts.Spec)
+	if err != nil {
+		return err
+	}
+	in := report.Input{Spec: sp, Top: opts.Top, Now: opts.Now}
+	if opts.Design != "" {
+		if in.Design, err = loadDesignArg(opts.Design); err != nil {
+			return err
+		}
+	}
+	if _, err := os.Stat(opts.Output); err == nil && !opts.Force {
+		return fmt.Errorf("%w: %s: choose another name or add --force to replace it", errFileExists, opts.Output)
+	} else if err != nil && !errors.Is(err, fs.ErrNotExist) {
+		return fmt.Errorf("report %s: %w", opts.Output, err)
+	}
+	st, err := opts.Catalog(ctx)
+	if err != nil {
+		return err
+	}
+	defer st.Close()
+	if in.Snapshot, err = st.Snapshot(ctx); err != nil {
+		return fmt.Errorf("reading the catalog: %w", err)
+	}
+	rep, err := report.Build(ctx, in)
+	if err != nil {
+		return fmt.Errorf("building the report for %s: %w", specName(sp), err)
+	}
+	if strings.EqualFold(filepath.Ext(opts.Output), ".md") {
+		dir, name := filepath.Split(opts.Output)
+		if dir == "" {
+			dir = "."
+		}
+		err = rep.WriteMarkdown(dir, name)
+	} else {
+		err = writeFileAtomic(opts.Output, true, rep.WriteHTML)
+	}
+	if err != nil {
+		return fmt.Errorf("writing report %s: %w", opts.Output, err)
+	}
+	if !opts.Quiet {
+		for _, c := range rep.Safety {
+			fmt.Fprintln(opts.IO.ErrOut, opts.IO.Bold(opts.IO.Yellow("CAUTION:"))+" "+c)
+		}
+		fmt.Fprintf(opts.IO.ErrOut, "wrote %s (%d design(s))\n", opts.Output, len(rep.Designs))
+	}
+	if len(rep.Infeasible) > 0 && opts.Design == "" {
+		return fmt.Errorf("spec %s: %w: the report %s explains why: %s", specName(sp), search.ErrInfeasible, opts.Output, strings.Join(rep.Infeasible, "; "))
+	}
+	return nil
+}
