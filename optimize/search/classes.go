@@ -82,7 +82,7 @@ func newSpace(parts *Parts, p *Problem, combos bool) (*space, error) {
 		for a, ga := range s.groups {
 			for b, gb := range s.groups {
 				c := config{fam: famDisc, ga: a, gb: b, net: -1,
-					g: discreteGrades(ga.grade.Tolerance, ga.grade.TCR, gb.grade.Tolerance, gb.grade.TCR, s.dT)}
+					g: discreteGrades(ga.grade.Tolerance, ga.grade.TCR, ga.grade.LoadLife, gb.grade.Tolerance, gb.grade.TCR, gb.grade.LoadLife, s.dT)}
 				if c.costLB = s.discreteLB(ga, gb, a == b); !math.IsNaN(c.costLB) {
 					s.cfgs = append(s.cfgs, c)
 				}

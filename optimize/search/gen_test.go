@@ -52,7 +52,8 @@ func genGrade(r *rand.Rand) (catalog.ResistorGrade, float64) {
 	t := genTech[r.IntN(len(genTech))]
 	pk := []string{"0402", "0603", "0805", "1206"}[r.IntN(4)]
 	pw := map[string]float64{"0402": 0.063, "0603": 0.1, "0805": 0.125, "1206": 0.25}[pk]
-	return catalog.ResistorGrade{Technology: t.tech, Package: pk, Tolerance: t.tol, TCR: t.tcr, PowerW: pw, MaxVoltageV: 50 + 150*pw}, t.basePrice
+	life := []float64{0, 0, 0.0005, 0.002}[r.IntN(4)]
+	return catalog.ResistorGrade{Technology: t.tech, Package: pk, Tolerance: t.tol, TCR: t.tcr, PowerW: pw, MaxVoltageV: 50 + 150*pw, LoadLife: life}, t.basePrice
 }
 
 // genParts makes an invented catalog: nSeries resistor series, nRes

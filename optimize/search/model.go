@@ -34,8 +34,11 @@ func noiseDensity(ng, en, in, rp, tempK float64, nIn int) float64 {
 // grades holds the ratio figures of the resistors of a design class.
 type grades struct {
 	hi, lo   float64 // worst ratio multipliers at the reference temperature: k in k0·[lo, hi]
-	hiT, loT float64 // the same with the tempcos at the worst excursion (CMRR)
+	hiT, loT float64 // the same with the tempcos at the worst excursion and load life (CMRR)
+	hiL, loL float64 // tolerance and load-life shift together (gain error over life)
+	hiS, loS float64 // load-life shift alone (what a calibration cannot remove)
 	sr       float64 // RSS ratio spread (3 sigma), fraction
+	srL      float64 // the same with the load-life shifts
 	cmRSS    float64 // RSS spread of the difference of the two ratios, over temperature
 	drift    float64 // worst ratio drift, ppm/K
 	driftRSS float64
@@ -43,19 +46,24 @@ type grades struct {
 }
 
 // discreteGrades returns the ratio figures of Rf/Rg from two discrete
-// grades over a worst excursion of dT kelvin: each ratio lies within
-// (1±tf)/(1∓tg) at the reference temperature and within
-// (1±tf)(1±cf·dT)/((1∓tg)(1∓cg·dT)) over temperature; its drift is at most
-// ((1+cf·dT)/(1-cg·dT) - 1)/dT, which is TCRf + TCRg to first order (two
-// resistors of opposite sign, domain notes §6).
-func discreteGrades(tg, cg, tf, cf, dT float64) grades {
+// grades (tolerance t, tempco c in ppm/K, load-life shift l) over a worst
+// excursion of dT kelvin: each ratio lies within (1±tf)/(1∓tg) at the
+// reference temperature, within (1±tf)(1±lf)/((1∓tg)(1∓lg)) over life and
+// within that times (1±cf·dT)/(1∓cg·dT) over temperature; its drift is at
+// most ((1+cf·dT)/(1-cg·dT) - 1)/dT, which is TCRf + TCRg to first order
+// (two resistors of opposite sign, domain notes §6).
+func discreteGrades(tg, cg, lg, tf, cf, lf, dT float64) grades {
 	ag, af := cg*1e-6*dT, cf*1e-6*dT
 	g := grades{
 		hi: (1 + tf) / (1 - tg), lo: (1 - tf) / (1 + tg),
-		hiT: (1 + tf) * (1 + af) / ((1 - tg) * (1 - ag)), loT: (1 - tf) * (1 - af) / ((1 + tg) * (1 + ag)),
-		sr: math.Hypot(tf, tg), cmRSS: math.Sqrt(2 * (tf*tf + tg*tg + af*af + ag*ag)),
+		hiL: (1 + tf) * (1 + lf) / ((1 - tg) * (1 - lg)), loL: (1 - tf) * (1 - lf) / ((1 + tg) * (1 + lg)),
+		hiS: (1 + lf) / (1 - lg), loS: (1 - lf) / (1 + lg),
+		sr: math.Hypot(tf, tg), srL: math.Sqrt(tf*tf + tg*tg + lf*lf + lg*lg),
 		drift: cf + cg, driftRSS: math.Hypot(cf, cg), tmax: math.Max(tf, tg),
 	}
+	g.hiT = g.hiL * (1 + af) / (1 - ag)
+	g.loT = g.loL * (1 - af) / (1 + ag)
+	g.cmRSS = math.Sqrt(2 * (tf*tf + tg*tg + lf*lf + lg*lg + af*af + ag*ag))
 	if dT > 0 {
 		g.drift = ((1+af)/(1-ag) - 1) / (1e-6 * dT)
 	}
@@ -67,8 +75,10 @@ func discreteGrades(tg, cg, tf, cf, dT float64) grades {
 // excursion of dT kelvin.
 func networkGrades(r, tr, dT float64) grades {
 	a := tr * 1e-6 * dT
-	// Tracking is the drift of the ratio itself.
-	return grades{hi: 1 + r, lo: 1 - r, hiT: (1 + r) * (1 + a), loT: (1 - r) * (1 - a), sr: r,
+	// Tracking is the drift of the ratio itself; the catalog holds no
+	// load-life figure for networks.
+	return grades{hi: 1 + r, lo: 1 - r, hiL: 1 + r, loL: 1 - r, hiS: 1, loS: 1,
+		hiT: (1 + r) * (1 + a), loT: (1 - r) * (1 - a), sr: r, srL: r,
 		cmRSS: math.Sqrt2 * math.Hypot(r, a), drift: tr, driftRSS: tr, tmax: r}
 }
 
@@ -146,18 +156,25 @@ func (s *space) eval(g *grades, k0, rp float64, a *amp, m *metrics) {
 		m.drift = sg * g.drift
 	}
 	dr := m.drift * 1e-6 * dT
+	// corners is the worst |gain error| with the ratio at k0·hi or k0·lo.
+	corners := func(rho, hi, lo float64) float64 {
+		return math.Max(math.Abs(rho*s.gainMult(k0, hi)-1), math.Abs(rho*s.gainMult(k0, lo)-1))
+	}
 	switch {
 	case p.CalGain:
+		// Calibration removes the initial error, not the later shifts.
 		m.gainErr = 0
-		m.totalErr = dr
+		if s.rss {
+			m.totalErr = math.Hypot(sg*math.Sqrt(math.Max(g.srL*g.srL-g.sr*g.sr, 0)), dr)
+		} else {
+			m.totalErr = (1+corners(1, g.hiS, g.loS))*(1+dr) - 1
+		}
 	case s.rss:
 		m.gainErr = math.Abs(sys) + sg*g.sr
-		m.totalErr = math.Abs(sys) + math.Hypot(sg*g.sr, dr)
+		m.totalErr = math.Abs(sys) + math.Hypot(sg*g.srL, dr)
 	default:
-		hiG := rho * s.gainMult(k0, g.hi) * f
-		loG := rho * s.gainMult(k0, g.lo) * f
-		m.gainErr = math.Max(math.Abs(hiG-1), math.Abs(loG-1))
-		m.totalErr = (1+m.gainErr)*(1+dr) - 1
+		m.gainErr = corners(rho*f, g.hi, g.lo)
+		m.totalErr = (1+corners(rho*f, g.hiL, g.loL))*(1+dr) - 1
 	}
 	inv := a.ainv
 	if p.Circuit == Difference {
@@ -274,24 +291,31 @@ func (s *space) bound(g *grades, a *amp, m *metrics) {
 	p := s.p
 	kmin, kmax := s.k*(1-s.w), s.k*(1+s.w)
 	sg := s.gainSens(kmin)
-	var ge, sr, drift float64
+	// spread is min over ρ of max|ρ·H - 1|, |ρ·L - 1| for multipliers hi, lo.
+	spread := func(hi, lo float64) float64 {
+		H, L := 1+sg*(hi-1), 1+sg*(lo-1)
+		return (H - L) / (H + L)
+	}
+	var ge, geL, geS, sr, srL, srS, drift float64
 	if g != nil {
-		H, L := 1+sg*(g.hi-1), 1+sg*(g.lo-1)
-		ge = (H - L) / (H + L)
-		sr = sg * g.sr
+		ge, geL, geS = spread(g.hi, g.lo), spread(g.hiL, g.loL), spread(g.hiS, g.loS)
+		sr, srL = sg*g.sr, sg*g.srL
+		srS = sg * math.Sqrt(math.Max(g.srL*g.srL-g.sr*g.sr, 0))
 		drift = sg * g.drift
 		if s.rss {
-			ge, drift = sr, sg*g.driftRSS
+			drift = sg * g.driftRSS
 		}
 	}
 	dr := drift * 1e-6 * s.dT
 	switch {
+	case p.CalGain && s.rss:
+		m.gainErr, m.totalErr = 0, math.Hypot(srS, dr)
 	case p.CalGain:
-		m.gainErr, m.totalErr = 0, dr
+		m.gainErr, m.totalErr = 0, (1+geS)*(1+dr)-1
 	case s.rss:
-		m.gainErr, m.totalErr = ge, math.Hypot(sr, dr)
+		m.gainErr, m.totalErr = sr, math.Hypot(srL, dr)
 	default:
-		m.gainErr, m.totalErr = ge, (1+ge)*(1+dr)-1
+		m.gainErr, m.totalErr = ge, (1+geL)*(1+dr)-1
 	}
 	m.drift = drift
 	inv := 0.0

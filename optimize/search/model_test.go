@@ -20,8 +20,8 @@ func TestCMRRCheckValues(t *testing.T) {
 		// S. Franco, "Design with Operational Amplifiers and Analog
 		// Integrated Circuits", difference-amplifier chapter (from memory):
 		// worst case (1+G)/(4t).
-		{"unity gain 1 % resistors", discreteGrades(0.01, 0, 0.01, 0, 0), 1, 50, 0.01, "Franco: 50, about 34 dB"},
-		{"gain 10 with 0.1 % resistors", discreteGrades(0.001, 0, 0.001, 0, 0), 10, 2750, 0.005, "Franco: 2750, about 68.8 dB"},
+		{"unity gain 1 % resistors", discreteGrades(0.01, 0, 0, 0.01, 0, 0, 0), 1, 50, 0.01, "Franco: 50, about 34 dB"},
+		{"gain 10 with 0.1 % resistors", discreteGrades(0.001, 0, 0, 0.001, 0, 0, 0), 10, 2750, 0.005, "Franco: 2750, about 68.8 dB"},
 		// Matched network, ratios each within r: (1+G)/(2r) (domain notes §2).
 		{"network 0.01 % ratio, gain 1", networkGrades(0.0001, 0, 0), 1, 10000, 0.001, "(1+G)/(2r)"},
 	}
@@ -44,7 +44,7 @@ func TestCommonModeRuleOfThumb(t *testing.T) {
 		t.Errorf("common-mode error %.4f V, want about 0.100 V", v)
 	}
 	// Four independent 1 % resistors at their worst corners: about 200 mV.
-	g := discreteGrades(0.01, 0, 0.01, 0, 0)
+	g := discreteGrades(0.01, 0, 0, 0.01, 0, 0, 0)
 	if v := 10 * cmWorst(1, g.hi, g.lo); math.Abs(v-0.2) > 0.005 {
 		t.Errorf("four-resistor worst case %.4f V, want about 0.200 V", v)
 	}
@@ -64,7 +64,7 @@ func TestEvalCheckValues(t *testing.T) {
 	// Franco, first chapter (from memory): noise gain 10 with A = 1e5 gives
 	// a gain error of about 100 ppm.
 	s := testSpace(NonInverting, 10, WorstCase)
-	s.eval(&grades{hi: 1, lo: 1, hiT: 1, loT: 1}, 9, 1e3, ideal, &m)
+	s.eval(&grades{hi: 1, lo: 1, hiT: 1, loT: 1, hiL: 1, loL: 1, hiS: 1, loS: 1}, 9, 1e3, ideal, &m)
 	if math.Abs(m.gainErr-1e-4) > 1e-6 {
 		t.Errorf("open-loop gain error %.3g, want about 1e-4", m.gainErr)
 	}
@@ -72,7 +72,7 @@ func TestEvalCheckValues(t *testing.T) {
 	// over a 60 K excursion move a ratio by 2 x 25 x 60 = 3000 ppm.
 	s = testSpace(Difference, 1, WorstCase)
 	s.dT = 60
-	s.eval(&grades{hi: 1, lo: 1, hiT: 1, loT: 1, drift: 50}, 1, 1e3, &amp{a: &catalog.Amplifier{}}, &m)
+	s.eval(&grades{hi: 1, lo: 1, hiT: 1, loT: 1, hiL: 1, loL: 1, hiS: 1, loS: 1, drift: 50}, 1, 1e3, &amp{a: &catalog.Amplifier{}}, &m)
 	if math.Abs(m.totalErr-m.gainErr-3000e-6) > 1e-12 || m.drift != 50 {
 		t.Errorf("tempco error %.6g, drift %g; want 3000 ppm and 50 ppm/K", m.totalErr-m.gainErr, m.drift)
 	}
@@ -87,19 +87,19 @@ func TestDividerCheckValues(t *testing.T) {
 	s := testSpace(Divider, 0.125, WorstCase)
 	var m metrics
 	// 210 k over 30 k is exactly 0.125 (common practice arithmetic).
-	s.eval(&grades{hi: 1, lo: 1, hiT: 1, loT: 1}, 210e3/30e3, 210e3*30e3/240e3, &amp{a: &catalog.Amplifier{}}, &m)
+	s.eval(&grades{hi: 1, lo: 1, hiT: 1, loT: 1, hiL: 1, loL: 1, hiS: 1, loS: 1}, 210e3/30e3, 210e3*30e3/240e3, &amp{a: &catalog.Amplifier{}}, &m)
 	if math.Abs(m.gain-0.125) > 1e-15 || m.gainErr > 1e-15 {
 		t.Errorf("gain %.17g, error %g; want 0.125 exactly", m.gain, m.gainErr)
 	}
 	// Two 100 ppm/K resistors of opposite sign move the ratio 200 ppm/K;
 	// the divider's gain moves k/(1+k) of that, 7/8 x 200 = 175 ppm/K
 	// (first-order sensitivity of 1/(1+k), common practice).
-	s.eval(&grades{hi: 1, lo: 1, hiT: 1, loT: 1, drift: 200}, 7, 26.25e3, &amp{a: &catalog.Amplifier{}}, &m)
+	s.eval(&grades{hi: 1, lo: 1, hiT: 1, loT: 1, hiL: 1, loL: 1, hiS: 1, loS: 1, drift: 200}, 7, 26.25e3, &amp{a: &catalog.Amplifier{}}, &m)
 	if math.Abs(m.drift-175) > 1e-9 {
 		t.Errorf("drift %.6g, want 175 ppm/K", m.drift)
 	}
 	// 1 % resistors: exact worst gain 1/(1 + 7 x 0.99/1.01) = 0.12719..., +1.75 %.
-	g := discreteGrades(0.01, 0, 0.01, 0, 0)
+	g := discreteGrades(0.01, 0, 0, 0.01, 0, 0, 0)
 	s.eval(&g, 7, 26.25e3, &amp{a: &catalog.Amplifier{}}, &m)
 	want := (1/(1+7*0.99/1.01))/0.125 - 1
 	if math.Abs(m.gainErr-want) > 1e-12 {
@@ -153,7 +153,7 @@ func TestBoundIsLowerBound(t *testing.T) {
 		s.p.CalGain, s.p.CalOffset = r.IntN(4) == 0, r.IntN(4) == 0
 		var g grades
 		if r.IntN(2) == 0 {
-			g = discreteGrades(tols[r.IntN(4)], 100*r.Float64(), tols[r.IntN(4)], 100*r.Float64(), s.dT)
+			g = discreteGrades(tols[r.IntN(4)], 100*r.Float64(), 0.002*r.Float64(), tols[r.IntN(4)], 100*r.Float64(), 0.002*r.Float64(), s.dT)
 		} else {
 			g = networkGrades(tols[r.IntN(4)], 10*r.Float64(), s.dT)
 		}
