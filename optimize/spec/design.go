@@ -106,57 +106,57 @@ func (d *Design) Position(name string) *Position {
 
 // The YAML layout of a design file.
 type rawDesign struct {
-	Name      string                 `yaml:"name"`
-	Family    string                 `yaml:"family"`
-	Options   Options                `yaml:"options"`
-	Positions map[string]rawPosition `yaml:"positions"`
-	Amplifier rawAmp                 `yaml:"amplifier"`
+	Name      string                 `yaml:"name,omitempty"`
+	Family    string                 `yaml:"family,omitempty"`
+	Options   Options                `yaml:"options,omitempty"`
+	Positions map[string]rawPosition `yaml:"positions,omitempty"`
+	Amplifier rawAmp                 `yaml:"amplifier,omitempty"`
 }
 
 type rawElement struct {
-	Part              string `yaml:"part"`
-	Network           string `yaml:"network"`
-	Element           int    `yaml:"element"`
-	Value             string `yaml:"value"`
-	Tolerance         string `yaml:"tolerance"`
-	TCR               string `yaml:"tcr"`
-	Power             string `yaml:"power"`
-	MaxVoltage        string `yaml:"max_voltage"`
-	ThermalResistance string `yaml:"thermal_resistance"`
-	LoadLife          string `yaml:"load_life"`
-	RatioTolerance    string `yaml:"ratio_tolerance"`
-	TCRTracking       string `yaml:"tcr_tracking"`
+	Part              string `yaml:"part,omitempty"`
+	Network           string `yaml:"network,omitempty"`
+	Element           int    `yaml:"element,omitempty"`
+	Value             string `yaml:"value,omitempty"`
+	Tolerance         string `yaml:"tolerance,omitempty"`
+	TCR               string `yaml:"tcr,omitempty"`
+	Power             string `yaml:"power,omitempty"`
+	MaxVoltage        string `yaml:"max_voltage,omitempty"`
+	ThermalResistance string `yaml:"thermal_resistance,omitempty"`
+	LoadLife          string `yaml:"load_life,omitempty"`
+	RatioTolerance    string `yaml:"ratio_tolerance,omitempty"`
+	TCRTracking       string `yaml:"tcr_tracking,omitempty"`
 }
 
 type rawPosition struct {
 	rawElement `yaml:",inline"`
-	Series     []rawElement `yaml:"series"`
-	Parallel   []rawElement `yaml:"parallel"`
+	Series     []rawElement `yaml:"series,omitempty"`
+	Parallel   []rawElement `yaml:"parallel,omitempty"`
 }
 
 type rawAmp struct {
-	Part      string `yaml:"part"`
-	Type      string `yaml:"type"`
-	Gain      string `yaml:"gain"`
-	Vos       string `yaml:"vos"`
-	VosDrift  string `yaml:"vos_drift"`
-	Ib        string `yaml:"ib"`
-	Ios       string `yaml:"ios"`
-	Aol       string `yaml:"aol"`
-	CMRR      string `yaml:"cmrr"`
-	GBW       string `yaml:"gbw"`
-	Noise     string `yaml:"noise"`
-	CurNoise  string `yaml:"current_noise"`
-	CMNeg     string `yaml:"cm_neg"`
-	CMPos     string `yaml:"cm_pos"`
-	SwingNeg  string `yaml:"swing_neg"`
-	SwingPos  string `yaml:"swing_pos"`
-	SupplyMax string `yaml:"supply_max"`
-	GainError string `yaml:"gain_error"`
-	GainDrift string `yaml:"gain_drift"`
-	Internal  string `yaml:"internal_resistance"`
-	InNeg     string `yaml:"in_neg"`
-	InPos     string `yaml:"in_pos"`
+	Part      string `yaml:"part,omitempty"`
+	Type      string `yaml:"type,omitempty"`
+	Gain      string `yaml:"gain,omitempty"`
+	Vos       string `yaml:"vos,omitempty"`
+	VosDrift  string `yaml:"vos_drift,omitempty"`
+	Ib        string `yaml:"ib,omitempty"`
+	Ios       string `yaml:"ios,omitempty"`
+	Aol       string `yaml:"aol,omitempty"`
+	CMRR      string `yaml:"cmrr,omitempty"`
+	GBW       string `yaml:"gbw,omitempty"`
+	Noise     string `yaml:"noise,omitempty"`
+	CurNoise  string `yaml:"current_noise,omitempty"`
+	CMNeg     string `yaml:"cm_neg,omitempty"`
+	CMPos     string `yaml:"cm_pos,omitempty"`
+	SwingNeg  string `yaml:"swing_neg,omitempty"`
+	SwingPos  string `yaml:"swing_pos,omitempty"`
+	SupplyMax string `yaml:"supply_max,omitempty"`
+	GainError string `yaml:"gain_error,omitempty"`
+	GainDrift string `yaml:"gain_drift,omitempty"`
+	Internal  string `yaml:"internal_resistance,omitempty"`
+	InNeg     string `yaml:"in_neg,omitempty"`
+	InPos     string `yaml:"in_pos,omitempty"`
 }
 
 // LoadDesign reads a design file.

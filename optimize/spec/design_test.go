@@ -120,3 +120,33 @@ func TestMatchedDesign(t *testing.T) {
 		t.Errorf("gain 3 accepted: %v", err)
 	}
 }
+
+// FuzzDesignRoundTrip reads a design, writes it, reads it back and writes
+// it again: the two writes must match and the second read must succeed.
+func FuzzDesignRoundTrip(f *testing.F) {
+	f.Add([]byte(baseDesign))
+	f.Add([]byte("family: matched\namplifier: {part: TEST-MATCHED, gain: 2}\n"))
+	f.Add([]byte("family: divider\npositions:\n  Rtop: {value: 210k, tolerance: 0.1%, tcr: 25ppm/K, power: 0.1W}\n  Rbot: {parallel: [{value: 60k, tolerance: 1%, tcr: 100ppm/K}, {part: A}]}\n"))
+	f.Add([]byte("family: inverting\npositions:\n  Rf: {value: 10k, tolerance: 1%, tcr: 100ppm/K}\n  Rg: {value: 1k, tolerance: 1%, tcr: 100ppm/K}\namplifier: {aol: 120dB, gbw: 1MHz, vos: 1mV, noise: 10nV/rtHz}\n"))
+	f.Fuzz(func(t *testing.T, b []byte) {
+		d, err := ParseDesign(b, "fuzz.yaml")
+		if err != nil {
+			return
+		}
+		w1, err := d.Marshal()
+		if err != nil {
+			t.Fatal(err)
+		}
+		d2, err := ParseDesign(w1, "fuzz.yaml")
+		if err != nil {
+			t.Fatalf("written design does not read back: %v\n%s", err, w1)
+		}
+		w2, err := d2.Marshal()
+		if err != nil {
+			t.Fatal(err)
+		}
+		if string(w1) != string(w2) {
+			t.Errorf("round trip changed the design:\n%s\n---\n%s", w1, w2)
+		}
+	})
+}

@@ -1,0 +1,106 @@
+package spec
+
+import (
+	"strconv"
+
+	"go.yaml.in/yaml/v3"
+)
+
+// num formats v to 12 significant figures, dropping the rounding residue
+// of unit conversions (100 ppm/K held as 1e-4 per K prints as 100).
+func num(v float64) string {
+	r, _ := strconv.ParseFloat(strconv.FormatFloat(v, 'g', 12, 64), 64)
+	return strconv.FormatFloat(r, 'g', -1, 64)
+}
+
+// Marshal writes the design in the design-file layout (data/examples
+// README): catalog references by part number, inline figures with their
+// units. ParseDesign reads it back.
+func (d *Design) Marshal() ([]byte, error) {
+	var r rawDesign
+	r.Name, r.Family, r.Options = d.Name, d.Family, d.Options
+	if len(d.Positions) > 0 {
+		r.Positions = map[string]rawPosition{}
+	}
+	for _, p := range d.Positions {
+		var rp rawPosition
+		switch p.Pair {
+		case Series:
+			for _, e := range p.Elements {
+				rp.Series = append(rp.Series, rawOf(e))
+			}
+		case Parallel:
+			for _, e := range p.Elements {
+				rp.Parallel = append(rp.Parallel, rawOf(e))
+			}
+		default:
+			if len(p.Elements) > 0 {
+				rp.rawElement = rawOf(p.Elements[0])
+			}
+		}
+		r.Positions[p.Name] = rp
+	}
+	r.Amplifier = rawAmpOf(&d.Amplifier, d.Family)
+	return yaml.Marshal(&r)
+}
+
+// rawOf writes an element as a catalog reference when it has one, else as
+// inline figures.
+func rawOf(e Element) rawElement {
+	switch {
+	case e.Network != "":
+		return rawElement{Network: e.Network, Element: e.Index}
+	case e.Part != "" && e.Part != "inline":
+		return rawElement{Part: e.Part}
+	}
+	r := rawElement{Value: num(e.Ohm), Tolerance: num(100*e.Tolerance) + "%", TCR: num(1e6*e.TCR) + "ppm/K"}
+	opt := func(v float64, unit string) string {
+		if v == 0 {
+			return ""
+		}
+		return num(v) + unit
+	}
+	r.Power, r.MaxVoltage = opt(e.PowerW, "W"), opt(e.MaxVoltageV, "V")
+	r.ThermalResistance = opt(e.ThermalResistance, "K/W")
+	if e.LoadLife != 0 {
+		r.LoadLife = num(100*e.LoadLife) + "%"
+	}
+	return r
+}
+
+func rawAmpOf(a *AmplifierChoice, family string) rawAmp {
+	var r rawAmp
+	if a.Gain != 0 {
+		r.Gain = num(a.Gain)
+	}
+	if a.Part != "" {
+		r.Part = a.Part
+		return r
+	}
+	m := &a.Amp
+	if m.Part == "" && family == Divider {
+		return rawAmp{} // unbuffered divider
+	}
+	opt := func(v float64, unit string) string {
+		if v == 0 {
+			return ""
+		}
+		return num(v) + unit
+	}
+	if m.Type == "matched" && family != Matched {
+		r.Type = "matched"
+	}
+	r.Vos, r.VosDrift, r.Ib, r.Ios = opt(m.VosV, "V"), opt(m.VosDriftVK, "V/K"), opt(m.IbA, "A"), opt(m.IosA, "A")
+	r.Aol, r.CMRR, r.GBW = opt(m.AolVV, ""), opt(m.CMRRdB, "dB"), opt(m.GBWHz, "Hz")
+	r.Noise, r.CurNoise = opt(m.NoiseVHz, "V/rtHz"), opt(m.NoiseAHz, "A/rtHz")
+	r.CMNeg, r.CMPos, r.SwingNeg, r.SwingPos = opt(m.CMNegV, "V"), opt(m.CMPosV, "V"), opt(m.SwingNegV, "V"), opt(m.SwingPosV, "V")
+	r.SupplyMax, r.Internal = opt(m.SupplyMaxV, "V"), opt(m.InternalOhm, "")
+	r.InNeg, r.InPos = opt(m.InNegV, "V"), opt(m.InPosV, "V")
+	if m.GainErrorMax != 0 {
+		r.GainError = num(100*m.GainErrorMax) + "%"
+	}
+	if m.GainDriftPPM != 0 {
+		r.GainDrift = num(m.GainDriftPPM) + "ppm/K"
+	}
+	return r
+}
