@@ -12,12 +12,32 @@ import (
 type fromDescription struct {
 	resistance, tolerance, tcr, power float64
 	pkg, tech                         string
-	has                               map[Field]string // field -> the words it was read from
+	// The words each figure was read from ("" = not found).
+	resWords, tolWords, tcrWords, powWords, pkgWords, techWords string
+}
+
+// words returns the words a field was read from, and whether it was.
+func (d *fromDescription) words(f Field) (string, bool) {
+	var w string
+	switch f {
+	case FieldResistance:
+		w = d.resWords
+	case FieldTolerance:
+		w = d.tolWords
+	case FieldTCR:
+		w = d.tcrWords
+	case FieldPower:
+		w = d.powWords
+	case FieldPackage:
+		w = d.pkgWords
+	case FieldTechnology:
+		w = d.techWords
+	}
+	return w, w != ""
 }
 
 var (
-	resMarkRE  = regexp.MustCompile(`(?i)^[0-9.,]+\s*(k|m|g|r|ω|ohm|ohms|kohm|mohm|kω|mω)?[0-9]*(ω|ohm|ohms)?$`)
-	sizeCodeRE = regexp.MustCompile(`^(01005|0201|0402|0603|0805|1008|1206|1210|1812|2010|2512|2816|4527)$`)
+	resMarkRE = regexp.MustCompile(`(?i)^r?[0-9.,]+\s*(k|m|g|r|ω|ohm|ohms|kohm|mohm|kω|mω)?[0-9]*(ω|ohm|ohms)?$`)
 )
 
 // describe reads resistance, tolerance, tempco, power and size code from a
@@ -25,64 +45,86 @@ var (
 // plain: "4K99", "10R", "4.99K OHM", "0.1%", "25PPM", "1/10W", "0603"; a
 // bare number is never read as ohms.
 func describe(desc string, decimalComma bool) fromDescription {
-	d := fromDescription{has: map[Field]string{}}
+	d := fromDescription{}
+	if desc == "" {
+		return d
+	}
 	low := strings.ToLower(desc)
-	for _, w := range []string{"thin film", "thin-film", "thick film", "thick-film", "metal film", "metal-film", "metal foil", "foil",
-		"wirewound", "wire wound", "metal strip", "metal-strip", "carbon film"} {
+	for _, w := range technologyWords {
 		if strings.Contains(low, w) {
-			d.tech, d.has[FieldTechnology] = normaliseTechnology(w), w
+			d.tech, d.techWords = normaliseTechnology(w), w
 			break
 		}
 	}
 	toks := strings.FieldsFunc(desc, func(r rune) bool { return r == ' ' || r == ',' && !decimalComma || r == ';' || r == '\t' || r == '\n' })
-	for i := 0; i < len(toks); i++ {
-		t := toks[i]
-		if decimalComma {
+	for i, tok := range toks {
+		if tok == "" || !isDigit(tok[0]) && tok[0] != '\xc2' && tok[0] != '+' && tok[0] != 'R' {
+			continue // every figure starts with a digit, "±" or the R of "R47"
+		}
+		t := tok
+		if decimalComma && strings.IndexByte(t, ',') >= 0 {
 			t = withDecimalComma(t)
 		}
-		low := strings.ToLower(t)
-		next := ""
-		if i+1 < len(toks) {
-			next = strings.ToLower(toks[i+1])
-		}
+		last := t[len(t)-1] | 0x20
+		hasTCR, hasTol, hasPow, hasRes := d.tcrWords != "", d.tolWords != "", d.powWords != "", d.resWords != ""
 		switch {
-		case strings.Contains(low, "ppm"):
-			if _, ok := d.has[FieldTCR]; !ok {
+		case containsFold(t, "ppm"):
+			if !hasTCR {
 				if v, err := units.ParsePPM(t); err == nil {
-					d.tcr, d.has[FieldTCR] = v, toks[i]
+					d.tcr, d.tcrWords = v, tok
 				}
 			}
-		case strings.HasSuffix(low, "%"):
-			if _, ok := d.has[FieldTolerance]; !ok {
+		case last == '%':
+			if !hasTol {
 				if v, err := units.ParsePercent(t); err == nil {
-					d.tolerance, d.has[FieldTolerance] = v, toks[i]
+					d.tolerance, d.tolWords = v, tok
 				}
 			}
-		case strings.HasSuffix(low, "w") && strings.IndexAny(low, "0123456789") == 0:
-			if _, ok := d.has[FieldPower]; !ok {
+		case last == 'w':
+			if !hasPow && isDigit(t[0]) {
 				if v, err := units.ParsePower(t); err == nil {
-					d.power, d.has[FieldPower] = v, toks[i]
+					d.power, d.powWords = v, tok
 				}
 			}
-		case sizeCodeRE.MatchString(low):
+		case sizeCodes[t]:
 			if d.pkg == "" {
-				d.pkg, d.has[FieldPackage] = t, toks[i]
+				d.pkg, d.pkgWords = t, tok
 			}
 		default:
-			if _, ok := d.has[FieldResistance]; ok || !resMarkRE.MatchString(low) {
+			if hasRes || !resMarkRE.MatchString(t) {
 				continue
 			}
-			words := toks[i]
-			cand := t
-			if next == "ohm" || next == "ohms" || next == "ω" {
-				cand, words = t+" ohm", toks[i]+" "+toks[i+1]
-			} else if !strings.ContainsAny(low, "kmgrω") && !strings.Contains(low, "ohm") {
+			words, cand := tok, t
+			next := ""
+			if i+1 < len(toks) {
+				next = toks[i+1]
+			}
+			if strings.EqualFold(next, "ohm") || strings.EqualFold(next, "ohms") || next == "Ω" {
+				cand, words = t+" ohm", tok+" "+next
+			} else if !strings.ContainsAny(t, "kKmMgGrRΩ") && !containsFold(t, "ohm") {
 				continue // a bare number: could be anything
 			}
 			if v, err := units.ParseResistance(cand); err == nil && v > 0 {
-				d.resistance, d.has[FieldResistance] = v, words
+				d.resistance, d.resWords = v, words
 			}
 		}
 	}
 	return d
+}
+
+var technologyWords = []string{"thin film", "thin-film", "thick film", "thick-film", "metal film", "metal-film", "metal foil", "foil",
+	"wirewound", "wire wound", "metal strip", "metal-strip", "carbon film"}
+
+var sizeCodes = map[string]bool{"01005": true, "0201": true, "0402": true, "0603": true, "0805": true, "1008": true, "1206": true,
+	"1210": true, "1812": true, "2010": true, "2512": true, "2816": true, "4527": true}
+
+// containsFold reports whether s contains the lower-case ASCII word w in
+// any case.
+func containsFold(s, w string) bool {
+	for i := 0; i+len(w) <= len(s); i++ {
+		if strings.EqualFold(s[i:i+len(w)], w) {
+			return true
+		}
+	}
+	return false
 }

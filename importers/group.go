@@ -27,16 +27,11 @@ type Group struct {
 	StockMin, StockMax int
 }
 
-// groupKey is what every row of a series shares: maker, line, grade and
-// price list.
-func groupKey(r *catalog.Resistor) string {
-	var b strings.Builder
-	fmt.Fprintf(&b, "%s|%s|%s|%s|%g|%g|%g|%g|", r.Maker, r.Line, r.Technology, r.Package, r.Tolerance, r.TCR, r.PowerW, r.MaxVoltageV)
-	for _, p := range r.PriceBreaks {
-		fmt.Fprintf(&b, "%d:%g%s;", p.MinQty, p.UnitPrice, p.Currency)
-	}
-	fmt.Fprintf(&b, "|%d", r.MinOrder)
-	return b.String()
+// sameGroup reports whether two rows share what every row of a series
+// shares: maker, line, grade and price list.
+func sameGroup(a, b *catalog.Resistor) bool {
+	return a.Maker == b.Maker && a.Line == b.Line && a.ResistorGrade == b.ResistorGrade && a.MinOrder == b.MinOrder &&
+		slices.Equal(a.PriceBreaks, b.PriceBreaks)
 }
 
 // groupSeries folds runs of consecutive rows that share maker, line, grade
@@ -47,15 +42,18 @@ func groupKey(r *catalog.Resistor) string {
 // ResistorSeries. Other rows stay single Resistors. notes says what was
 // grouped, and which runs could not be.
 func groupSeries(file string, rows []parsed) (series []catalog.ResistorSeries, singles []catalog.Resistor, groups []Group, notes []Problem) {
+	singles = make([]catalog.Resistor, 0, len(rows))
 	for start := 0; start < len(rows); {
 		end := start + 1
-		key := groupKey(rows[start].resistor)
-		for end < len(rows) && groupKey(rows[end].resistor) == key {
+		for end < len(rows) && sameGroup(rows[start].resistor, rows[end].resistor) {
 			end++
 		}
 		run := rows[start:end]
 		start = end
-		es := seriesOf(run)
+		var es *eseries.Series
+		if len(run) >= eseries.E3.N {
+			es = seriesOf(run)
+		}
 		if es == nil {
 			for _, p := range run {
 				singles = append(singles, *p.resistor)

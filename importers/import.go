@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"sort"
+	"time"
 
 	"plumb/catalog"
 )
@@ -20,6 +21,9 @@ type Store interface {
 // report counts added, updated, unchanged and spec-changed parts; a spec
 // change is reported, never written over the catalog's figures.
 func Import(ctx context.Context, st Store, files []string, opt Options) (*Report, error) {
+	if opt.Now.IsZero() {
+		opt.Now = time.Now().UTC()
+	}
 	b, rep, err := Read(ctx, files, opt)
 	if err != nil {
 		return nil, err
@@ -28,11 +32,7 @@ func Import(ctx context.Context, st Store, files []string, opt Options) (*Report
 		opt.BeforeWrite(b.Len())
 	}
 	batch := &catalog.Batch{ResistorSeries: b.Series, Resistors: b.Resistors, Networks: b.Networks, Amplifiers: b.Amplifiers}
-	now := opt.Now
-	if len(b.Resistors) > 0 {
-		now = b.Resistors[0].ImportedAt
-	}
-	res, err := st.Upsert(ctx, batch, catalog.UpsertOptions{Source: opt.Source, Now: now, DryRun: opt.DryRun})
+	res, err := st.Upsert(ctx, batch, catalog.UpsertOptions{Source: opt.Source, Now: opt.Now, DryRun: opt.DryRun})
 	if err != nil {
 		return rep, fmt.Errorf("importers: writing %d parts to the catalog (nothing was written): %w", b.Len()+len(b.Series), err)
 	}

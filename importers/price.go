@@ -6,6 +6,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"unicode"
 
 	"plumb/catalog"
 )
@@ -94,33 +95,37 @@ func normaliseBreaks(b []catalog.PriceBreak) ([]catalog.PriceBreak, error) {
 func parseMoney(s string, decimalComma bool) (float64, string, error) {
 	s = strings.TrimSpace(s)
 	cur := ""
-	for _, sym := range []string{"$", "€", "£", "¥"} {
-		if strings.Contains(s, sym) {
-			cur = currencyMap[sym]
-			s = strings.ReplaceAll(s, sym, "")
+	if strings.IndexFunc(s, isCurrencySymbol) >= 0 {
+		for _, sym := range []string{"$", "€", "£", "¥"} {
+			if strings.Contains(s, sym) {
+				cur = currencyMap[sym]
+				s = strings.ReplaceAll(s, sym, "")
+			}
 		}
 	}
-	low := strings.ToLower(s)
-	for code, c := range currencyMap {
-		if len(code) == 3 && (strings.HasPrefix(low, code) || strings.HasSuffix(low, code)) {
-			cur = c
-			low = strings.TrimSpace(strings.TrimSuffix(strings.TrimPrefix(low, code), code))
-			break
+	low := s
+	if strings.IndexFunc(s, unicode.IsLetter) >= 0 {
+		low = strings.ToLower(s)
+		for code, c := range currencyMap {
+			if len(code) == 3 && (strings.HasPrefix(low, code) || strings.HasSuffix(low, code)) {
+				cur = c
+				low = strings.TrimSpace(strings.TrimSuffix(strings.TrimPrefix(low, code), code))
+				break
+			}
 		}
 	}
 	v, err := parseNumber(strings.TrimSpace(low), decimalComma)
 	return v, cur, err
 }
 
+func isCurrencySymbol(r rune) bool { return r == '$' || r == '€' || r == '£' || r == '¥' }
+
 // parseNumber reads a plain decimal number, with a decimal comma when the
 // file uses one ("0,125"; "1.234,5" with '.' as thousands separator).
 func parseNumber(s string, decimalComma bool) (float64, error) {
 	s = strings.TrimSpace(s)
-	if decimalComma {
-		if strings.Contains(s, ",") {
-			s = strings.ReplaceAll(s, ".", "")
-		}
-		s = strings.ReplaceAll(s, ",", ".")
+	if decimalComma && strings.IndexByte(s, ',') >= 0 {
+		s = strings.ReplaceAll(strings.ReplaceAll(s, ".", ""), ",", ".")
 	}
 	v, err := strconv.ParseFloat(s, 64)
 	if err != nil {

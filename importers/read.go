@@ -234,7 +234,11 @@ func readStream(ctx context.Context, name string, in io.Reader, opt Options, b *
 	if len(res) > 0 {
 		series, singles, groups, notes := groupSeries(name, res)
 		b.Series = append(b.Series, series...)
-		b.Resistors = append(b.Resistors, singles...)
+		if b.Resistors == nil {
+			b.Resistors = singles
+		} else {
+			b.Resistors = append(b.Resistors, singles...)
+		}
 		fr.Groups = groups
 		rep.Problems = append(rep.Problems, notes...)
 		for _, s := range series {

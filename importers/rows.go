@@ -27,6 +27,7 @@ type rowReader struct {
 	prov         catalog.Provenance
 
 	check catalog.Snapshot // one-part batch for the store's validation
+	strs  map[string]string
 
 	rec      []string
 	line     int
@@ -51,6 +52,25 @@ func (p parsed) key() string {
 	}
 	return p.amplifier.Part
 }
+
+// intern returns one shared copy of a text that repeats from row to row
+// (maker, line, package, technology), so the parsed rows do not keep their
+// records alive. Past maxInterned distinct texts it just copies.
+func (r *rowReader) intern(s string) string {
+	if v, ok := r.strs[s]; ok {
+		return v
+	}
+	v := strings.Clone(s)
+	if r.strs == nil {
+		r.strs = map[string]string{}
+	}
+	if len(r.strs) < maxInterned {
+		r.strs[v] = v
+	}
+	return v
+}
+
+const maxInterned = 4096
 
 // errSkip ends the reading of a row; the problem has been recorded.
 var errSkip = errors.New("importers: row skipped")
@@ -142,7 +162,8 @@ func (r *rowReader) read(rec []string, line int) (parsed, error) {
 	if err := r.checkWidth(); err != nil {
 		return parsed{}, err
 	}
-	part := r.text(FieldPart)
+	// A cell is a slice of its whole record; a copy lets the record go.
+	part := strings.Clone(r.text(FieldPart))
 	if part == "" {
 		return parsed{}, r.skip(FieldPart, "", fmt.Errorf("%w: no part number", ErrMissingValue))
 	}
@@ -228,7 +249,7 @@ func (r *rowReader) offer() (catalog.Offer, error) {
 		if cc := currencyOf(c); cc != "" {
 			cur = cc
 		} else if len(c) == 3 {
-			cur = strings.ToUpper(c)
+			cur = r.intern(strings.ToUpper(c))
 		}
 	}
 	var breaks []catalog.PriceBreak
@@ -291,7 +312,7 @@ func (r *rowReader) grade() (g catalog.ResistorGrade, ohm float64, err error) {
 		if err != nil {
 			return 0, err
 		}
-		words, inDesc := d.has[f]
+		words, inDesc := d.words(f)
 		switch {
 		case ok && inDesc && !closeTo(v, fromDesc):
 			r.note(Doubt, f, desc, fmt.Errorf("the description says %q, the column says %g: the column is used; check the part", words, v))
@@ -332,12 +353,12 @@ func (r *rowReader) grade() (g catalog.ResistorGrade, ohm float64, err error) {
 	if g.MaxVoltageV, _, _, err = r.value(FieldMaxVoltage, units.ParseVoltage); err != nil {
 		return g, 0, err
 	}
-	g.Package = r.text(FieldPackage)
+	g.Package = r.intern(r.text(FieldPackage))
 	if g.Package == "" && d.pkg != "" {
 		g.Package = d.pkg
 		r.note(Info, FieldPackage, desc, fmt.Errorf("size %s taken from the description", d.pkg))
 	}
-	g.Technology = normaliseTechnology(r.text(FieldTechnology))
+	g.Technology = r.intern(normaliseTechnology(r.text(FieldTechnology)))
 	if g.Technology == "" && d.tech != "" {
 		g.Technology = d.tech
 		r.note(Info, FieldTechnology, desc, fmt.Errorf("technology %s taken from the description", d.tech))
@@ -368,7 +389,7 @@ func (r *rowReader) resistor(part string, o catalog.Offer) (*catalog.Resistor, e
 	if err != nil {
 		return nil, err
 	}
-	return &catalog.Resistor{Part: part, Maker: r.text(FieldMaker), Line: r.text(FieldLine), ValueOhm: ohm,
+	return &catalog.Resistor{Part: part, Maker: r.intern(r.text(FieldMaker)), Line: r.intern(r.text(FieldLine)), ValueOhm: ohm,
 		ResistorGrade: g, Offer: o, Provenance: r.prov}, nil
 }
 
@@ -385,7 +406,7 @@ func (r *rowReader) network(part string, o catalog.Offer) (*catalog.Network, err
 	if err != nil {
 		return nil, r.skip(FieldResistance, s, err)
 	}
-	n := &catalog.Network{Part: part, Maker: r.text(FieldMaker), Values: vals, Technology: g.Technology, Package: g.Package,
+	n := &catalog.Network{Part: part, Maker: r.intern(r.text(FieldMaker)), Values: vals, Technology: g.Technology, Package: g.Package,
 		Tolerance: g.Tolerance, TCR: g.TCR, PowerW: g.PowerW, MaxVoltageV: g.MaxVoltageV, Offer: o, Provenance: r.prov}
 	if n.RatioTolerance, err = r.need(FieldRatioTolerance, units.ParsePercent, "ratio tolerance"); err != nil {
 		return nil, err
@@ -491,8 +512,8 @@ type ampFigure struct {
 const defaultHeadroomV = 1.5
 
 func (r *rowReader) amplifier(part string, o catalog.Offer) (*catalog.Amplifier, error) {
-	a := &catalog.Amplifier{Part: part, Maker: r.text(FieldMaker), Type: catalog.OpAmp, Channels: 1,
-		Package: r.text(FieldPackage), Offer: o, Provenance: r.prov}
+	a := &catalog.Amplifier{Part: part, Maker: r.intern(r.text(FieldMaker)), Type: catalog.OpAmp, Channels: 1,
+		Package: r.intern(r.text(FieldPackage)), Offer: o, Provenance: r.prov}
 	figs := []ampFigure{
 		{FieldSupplyMin, parseSupply, &a.SupplyMinV, "supply_min_v", "minimum supply", true},
 		{FieldSupplyMax, parseSupply, &a.SupplyMaxV, "supply_max_v", "maximum supply", true},

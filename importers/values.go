@@ -20,9 +20,29 @@ func cleanCell(s string) string {
 
 // isBlank reports a cell that means "unknown": blank, "-", "—", "n/a".
 func isBlank(s string) bool {
-	switch strings.ToLower(cleanCell(s)) {
-	case "", "-", "--", "—", "–", "n/a", "na", "nan", "?", "tbd":
+	s = cleanCell(s)
+	if len(s) > 4 {
+		return false
+	}
+	switch s {
+	case "", "-", "--", "—", "–", "?":
 		return true
+	}
+	for _, w := range []string{"n/a", "na", "nan", "tbd"} {
+		if strings.EqualFold(s, w) {
+			return true
+		}
+	}
+	return false
+}
+
+// hasTyp reports whether s contains "typ" in any case, cheaply, before the
+// typical-mark pattern is tried.
+func hasTyp(s string) bool {
+	for i := 0; i+3 <= len(s); i++ {
+		if (s[i]|0x20) == 't' && (s[i+1]|0x20) == 'y' && (s[i+2]|0x20) == 'p' {
+			return true
+		}
 	}
 	return false
 }
@@ -47,11 +67,11 @@ func withDecimalComma(s string) string {
 // mark, which it strips and reports.
 func readValue(raw, unitHint string, decimalComma bool, q quantity) (v float64, typical bool, err error) {
 	s := cleanCell(raw)
-	if typMarkRE.MatchString(s) {
+	if hasTyp(s) && typMarkRE.MatchString(s) {
 		typical = true
 		s = cleanCell(typMarkRE.ReplaceAllString(s, " "))
 	}
-	if decimalComma {
+	if decimalComma && strings.IndexByte(s, ',') >= 0 {
 		s = withDecimalComma(s)
 	}
 	if unitHint != "" && bareNumberRE.MatchString(s) {
@@ -145,14 +165,20 @@ func parseGain(s string) (float64, error) {
 // "pcs" dropped.
 func parseCount(s string) (float64, error) {
 	t := strings.TrimSpace(s)
-	t = strings.TrimSpace(strings.TrimSuffix(strings.TrimSuffix(strings.TrimSpace(strings.TrimSuffix(strings.ToLower(t), "pcs")), "+"), "'"))
-	if dotThousandsRE.MatchString(t) {
+	if t != "" && (t[len(t)-1] == '+' || t[len(t)-1] > '9' || t[len(t)-1] == '\'') {
+		t = strings.TrimSpace(strings.TrimSuffix(strings.TrimSuffix(strings.TrimSpace(strings.TrimSuffix(strings.ToLower(t), "pcs")), "+"), "'"))
+	}
+	if strings.IndexByte(t, '.') >= 0 && dotThousandsRE.MatchString(t) {
 		t = strings.ReplaceAll(t, ".", "")
 	}
-	t = strings.NewReplacer("\u00a0", " ", "\u202f", " ", "'", ",").Replace(t)
+	if strings.ContainsAny(t, "\u00a0\u202f'") {
+		t = countSpaces.Replace(t)
+	}
 	n, err := units.ParseCount(t)
 	return float64(n), err
 }
+
+var countSpaces = strings.NewReplacer("\u00a0", " ", "\u202f", " ", "'", ",")
 
 var dotThousandsRE = regexp.MustCompile(`^\d{1,3}(\.\d{3})+$`)
 
