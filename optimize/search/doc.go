@@ -12,20 +12,35 @@
 // cost found. Exhaustive walks every class and every value and is kept as the
 // oracle: both return the same designs.
 //
-// Error model used to screen (approximations from the domain notes and
-// S. Franco, "Design with Operational Amplifiers and Analog Integrated
-// Circuits", difference-amplifier chapter):
+// Families: the difference amplifier from four discrete resistors, on a
+// matched four-element network, or as an amplifier with matched resistors
+// inside; the non-inverting and inverting amplifiers; the unbuffered
+// divider. Current sense, level shift and the three-op-amp
+// instrumentation amplifier are not searched yet (Solve says so).
 //
-//	ratio k = Rf/Rg, each resistor within ±t: k in k0·[(1-tf)/(1+tg), (1+tf)/(1-tg)]
+// Screening model (approximations from the domain notes and S. Franco,
+// "Design with Operational Amplifiers and Analog Integrated Circuits",
+// difference-amplifier chapter; exact corners where they are cheap):
+//
+//	ratio k = Rf/Rg, each resistor within ±t: k in k0·[(1-tf)/(1+tg), (1+tf)/(1-tg)],
+//	  widened by load-life shifts over life and by the tempcos over the
+//	  worst excursion ΔT = max(|Tmax-Tref|, |Tmin-Tref|)
 //	difference amplifier: Acm = (k2-k1)/(1+k2), Adm = (k2(1+k1)/(1+k2)+k1)/2,
 //	  CMRR = Adm/|Acm| ≈ (1+G)/(4t) for four resistors of tolerance t,
 //	  (1+G)/(2r) on a network with ratio tolerance r;
 //	  1/CMRR_total = 1/CMRR_resistors + 1/CMRR_amplifier (worst case)
 //	finite open-loop gain: G/(1+NG/A)
-//	drift: ratio drift ≤ TCRf + TCRg (or the network's tracking), ppm/K
+//	drift: ratio drift ((1+cf·ΔT)/(1-cg·ΔT) - 1)/ΔT ≈ TCRf + TCRg, or the
+//	  network's tracking, times the gain's sensitivity to the ratio
 //	output offset: NG·(Vos + Ios·Rf∥Rg + Ib·Rf∥Rg·2t) + NG·dVos/dT·ΔT
+//	noise: NG·sqrt(en² + n·(4kT·Rf∥Rg + (in·Rf∥Rg)²)), RMS over π/2·GBW/NG
 //
 // Under root-sum-square, independent tolerances add in quadrature (a
 // tolerance is 3 sigma) and systematic terms (ratio quantization, NG/A) add
 // linearly. Monte Carlo specs are screened with the RSS figures.
+//
+// Solve then confirms every design it keeps with the exact budget of
+// package budget (a nodal solve of every corner under the spec's method);
+// a design the budget fails becomes a near miss and the next class takes
+// its rank, so the budget has the last word.
 package search

@@ -3,6 +3,7 @@ package search
 import (
 	"context"
 	"math/rand/v2"
+	"reflect"
 	"testing"
 )
 
@@ -64,6 +65,35 @@ func TestBranchAndBoundMatchesExhaustive(t *testing.T) {
 		t.Errorf("only %d of %d random cases are feasible; the generator is too strict", feasible, len(seeds))
 	}
 	t.Logf("%d cases, %d feasible; the search visited %d of %d classes", len(seeds), feasible, visited, classes)
+}
+
+// TestExhaustiveAPIMatchesSolve compares the public entry points on seeded
+// random cases: the same ranked designs (family, costs, parts) and the same
+// infeasibility.
+func TestExhaustiveAPIMatchesSolve(t *testing.T) {
+	for seed := uint64(1); seed <= 60; seed++ {
+		r := rand.New(rand.NewPCG(seed, 2))
+		parts := genParts(r, r.IntN(4), r.IntN(120), 1+r.IntN(5), r.IntN(6), 1+r.IntN(12))
+		p := genProblem(r)
+		opt := Options{Top: 1 + r.IntN(5), Combos: r.IntN(2) == 0}
+		got, gerr := SolveProblem(context.Background(), parts, p, opt)
+		want, werr := Exhaustive(context.Background(), parts, p, opt)
+		if (gerr == nil) != (werr == nil) {
+			t.Fatalf("seed %d: errors %v and %v", seed, gerr, werr)
+		}
+		if gerr != nil && got == nil {
+			continue
+		}
+		if len(got.Designs) != len(want.Designs) {
+			t.Fatalf("seed %d: %d designs, exhaustive %d", seed, len(got.Designs), len(want.Designs))
+		}
+		for i := range want.Designs {
+			g, w := got.Designs[i], want.Designs[i]
+			if g.Family != w.Family || g.TotalCost != w.TotalCost || !reflect.DeepEqual(g.Parts, w.Parts) {
+				t.Errorf("seed %d rank %d: %s %.4f %v, exhaustive %s %.4f %v", seed, i+1, g.Family, g.TotalCost, g.Parts, w.Family, w.TotalCost, w.Parts)
+			}
+		}
+	}
 }
 
 // regressions are random cases that once made the search and the

@@ -27,7 +27,7 @@ func Solve(ctx context.Context, snap *catalog.Snapshot, s *spec.Spec, opt Option
 		return nil, err
 	}
 	parts := &Parts{Series: snap.ResistorSeries, Resistors: snap.Resistors, Networks: snap.Networks, Amplifiers: snap.Amplifiers}
-	r, err := solve(ctx, parts, p, opt, budgetVerifier(s))
+	r, err := solve(ctx, parts, p, opt, budgetVerifier(s), false)
 	if r != nil {
 		r.spec = s
 	}
@@ -96,7 +96,15 @@ func FromSpec(s *spec.Spec) (Problem, error) {
 // search's terms. Without a spec it has no exact budget to confirm the
 // designs with: they are ranked on the screening figures alone.
 func SolveProblem(ctx context.Context, parts *Parts, p Problem, opt Options) (*Result, error) {
-	return solve(ctx, parts, p, opt, nil)
+	return solve(ctx, parts, p, opt, nil, false)
+}
+
+// Exhaustive is SolveProblem with the branch and bound replaced by the
+// enumeration of every value option of every class of the same search
+// space. It returns the same designs, much more slowly; it is the oracle
+// the search is tested and measured against.
+func Exhaustive(ctx context.Context, parts *Parts, p Problem, opt Options) (*Result, error) {
+	return solve(ctx, parts, p, opt, nil, true)
 }
 
 // verifier confirms a design with an exact method and returns the limits
@@ -107,7 +115,7 @@ type verifier func(sd *spec.Design) ([]Failure, error)
 // designs are confirmed afterwards, so that a rejected one can be replaced.
 func verifyExtra(top int) int { return top + 2 }
 
-func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify verifier) (*Result, error) {
+func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify verifier, exhaustive bool) (*Result, error) {
 	if err := p.normalize(); err != nil {
 		return nil, err
 	}
@@ -125,7 +133,14 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 	if verify != nil {
 		keep += verifyExtra(opt.Top)
 	}
-	top, st, err := sp.branchAndBound(ctx, keep, opt.Progress)
+	var top []classBest
+	var st stats
+	if exhaustive {
+		st = stats{classes: sp.classCount(), visited: sp.classCount(), evaluated: sp.classCount()}
+		top, err = sp.exhaustive(ctx, keep)
+	} else {
+		top, st, err = sp.branchAndBound(ctx, keep, opt.Progress)
+	}
 	if err != nil {
 		return nil, fmt.Errorf("search: %w", err)
 	}
