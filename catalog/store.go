@@ -188,6 +188,7 @@ func (s *Store) Stats(ctx context.Context) (Stats, error) { return s.stats(ctx) 
 // never overwritten: a part whose figures differ is reported SpecChanged.
 // Every added, updated or spec-changed part gets a part_history row.
 // Results are in batch order: series, resistors, networks, amplifiers.
+// Validation sorts each part's price breaks by quantity in b.
 func (s *Store) Upsert(ctx context.Context, b *Batch, opt UpsertOptions) ([]UpsertResult, error) {
 	return s.upsert(ctx, b, opt)
 }
