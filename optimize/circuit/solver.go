@@ -35,12 +35,13 @@ type Solver struct {
 	factored bool
 
 	// Precompiled stamps, so that Factor and Solve only do arithmetic.
-	rStamps []resStamp  // per resistor
-	aStamps []ampStamp  // per op-amp
-	drives  []drive     // resistor couplings to source-driven nodes
-	cRows   []pinRows   // per current source: rows of To and From
-	ibRows  []pinRows   // per op-amp: current-law rows of Plus and Minus
-	aRHS    []ampSource // per op-amp: its row and driven inputs
+	rStamps  []resStamp  // per resistor
+	aStamps  []ampStamp  // per op-amp
+	drives   []drive     // resistor couplings to source-driven nodes
+	cRows    []pinRows   // per current source: rows of To and From
+	ibRows   []pinRows   // per op-amp: current-law rows of Plus and Minus
+	aRHS     []ampSource // per op-amp: its row and driven inputs
+	nSources int
 
 	lu  [MaxUnknowns * MaxUnknowns]float64
 	piv [MaxUnknowns]int
@@ -68,8 +69,11 @@ type pinRows struct{ a, b int }
 type ampSource struct{ row, plusSrc, minusSrc int }
 
 // NewSolver returns a solver bound to n. Topology errors (see ErrTopology)
-// are reported by Factor. Changing n's node indices after NewSolver needs a
-// new Solver; changing values does not.
+// are reported by Factor. Add every element (test or noise current sources
+// too) before NewSolver: Factor reports ErrTopology, and Solve panics, if
+// elements or nodes were added or removed since. Changing an element's node
+// indices also needs a new Solver (this is not detected); changing values
+// does not.
 func NewSolver(n *Netlist) *Solver {
 	s := &Solver{n: n}
 	s.topoErr = s.resolve()
@@ -148,9 +152,18 @@ func (s *Solver) resolve() error {
 	return nil
 }
 
+// changed reports whether the netlist's element or node counts differ from
+// those NewSolver compiled.
+func (s *Solver) changed() bool {
+	n := s.n
+	return len(n.Nodes) != len(s.unk) || len(n.Resistors) != len(s.rStamps) ||
+		len(n.Sources) != s.nSources || len(n.Currents) != len(s.cRows) || len(n.OpAmps) != len(s.aStamps)
+}
+
 // compile precomputes the stamp tables from the resolved topology.
 func (s *Solver) compile() {
 	n, m := s.n, s.m
+	s.nSources = len(n.Sources)
 	kclRow := func(node int) int {
 		if u := s.unk[node]; u >= 0 && s.ampRow[u] < 0 {
 			return u
@@ -197,6 +210,9 @@ func (s *Solver) Factor() error {
 	s.factored = false
 	if s.topoErr != nil {
 		return s.topoErr
+	}
+	if s.changed() {
+		return fmt.Errorf("%w: elements or nodes were added or removed after NewSolver; make a new Solver", ErrTopology)
 	}
 	m := s.m
 	a := s.lu[:m*m]
@@ -331,6 +347,9 @@ func (s *Solver) voltage(k int) float64 {
 func (s *Solver) solve() {
 	if !s.factored {
 		panic("circuit: Solve called without a successful Factor")
+	}
+	if s.changed() {
+		panic("circuit: Solve: elements or nodes were added or removed after NewSolver; make a new Solver")
 	}
 	m, n := s.m, s.n
 	b := s.x[:m]

@@ -2,6 +2,7 @@ package circuit
 
 import (
 	"bufio"
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -33,7 +34,16 @@ const SPICEInfGain = 1e8
 // op-amp node named a1_vos is introduced for each op-amp. Element names are
 // the netlist names, prefixed by the SPICE type letter when they do not
 // start with it.
+//
+// It returns an error wrapping ErrSPICE, and writes nothing, for a name
+// SPICE cannot take (empty, or with white space, '=', '(', ')' or ','),
+// two elements or two nodes whose names differ only in case, a node index
+// out of range, or a value that is NaN or infinite where SPICE needs a
+// number (only resistances and gains may be +Inf).
 func (n *Netlist) WriteSPICE(w io.Writer) error {
+	if err := n.checkSPICE(); err != nil {
+		return err
+	}
 	bw := bufio.NewWriter(w)
 	fmt.Fprintf(bw, "* plumb circuit %s\n", n.Family)
 	for _, r := range n.Resistors {
@@ -65,6 +75,78 @@ func (n *Netlist) WriteSPICE(w io.Writer) error {
 	}
 	bw.WriteString(".control\nset numdgt=15\nop\nprint all\nquit 0\n.endc\n.end\n")
 	return bw.Flush()
+}
+
+// ErrSPICE is returned by WriteSPICE for a netlist that cannot be written
+// as a SPICE deck.
+var ErrSPICE = errors.New("circuit: netlist cannot be written as SPICE")
+
+// checkSPICE validates names, indices and values for WriteSPICE.
+func (n *Netlist) checkSPICE() error {
+	bad := func(format string, a ...any) error {
+		return fmt.Errorf("%w: "+format, append([]any{ErrSPICE}, a...)...)
+	}
+	seen := map[string]string{}
+	name := func(kind, s string) error {
+		if s == "" || strings.ContainsAny(s, " \t\r\n=(),") {
+			return bad("%s name %q: use letters, digits and _ only", kind, s)
+		}
+		key := kind[:1] + strings.ToLower(s)
+		if kind == "op-amp" || kind == "node" {
+			key = kind + strings.ToLower(s)
+		}
+		if prev, ok := seen[key]; ok {
+			return bad("%s names %q and %q are the same to SPICE, which ignores case", kind, prev, s)
+		}
+		seen[key] = s
+		return nil
+	}
+	finite := func(what string, v float64) error {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return bad("%s is %g; SPICE needs a finite number", what, v)
+		}
+		return nil
+	}
+	nn := len(n.Nodes)
+	idx := func(what string, ks ...int) error {
+		for _, k := range ks {
+			if k < 0 || k >= nn {
+				return bad("%s has node index %d, outside 0..%d", what, k, nn-1)
+			}
+		}
+		return nil
+	}
+	var errs []error
+	for i, s := range n.Nodes {
+		if i > 0 {
+			errs = append(errs, name("node", s))
+		}
+	}
+	for _, r := range n.Resistors {
+		errs = append(errs, name("resistor", r.Name), idx("resistor "+r.Name, r.A, r.B))
+		if !math.IsInf(r.Ohm, 1) {
+			errs = append(errs, finite("resistor "+r.Name, r.Ohm))
+		}
+	}
+	for _, v := range n.Sources {
+		errs = append(errs, name("voltage source", v.Name), idx("source "+v.Name, v.Node), finite("source "+v.Name, v.V))
+	}
+	for _, c := range n.Currents {
+		errs = append(errs, name("current source", c.Name), idx("current source "+c.Name, c.From, c.To), finite("current source "+c.Name, c.A))
+	}
+	for _, a := range n.OpAmps {
+		errs = append(errs, name("op-amp", a.Name), idx("op-amp "+a.Name, a.Plus, a.Minus, a.Out),
+			finite("op-amp "+a.Name+" Vos", a.Vos), finite("op-amp "+a.Name+" IbPlus", a.IbPlus), finite("op-amp "+a.Name+" IbMinus", a.IbMinus))
+		if !math.IsInf(a.Gain, 1) {
+			errs = append(errs, finite("op-amp "+a.Name+" gain", a.Gain))
+		}
+	}
+	for _, err := range errs {
+		if err != nil {
+			return err
+		}
+	}
+	return nil
 }
 
 // spiceNodes returns the SPICE names of the nodes: ground is 0, the others

@@ -3,6 +3,7 @@ package circuit
 import (
 	"bufio"
 	"bytes"
+	"errors"
 	"math"
 	"math/rand/v2"
 	"os"
@@ -130,4 +131,46 @@ func gainsOf(n *Netlist) string {
 		b.WriteString(" A=" + strconv.FormatFloat(a.Gain, 'g', 3, 64))
 	}
 	return b.String()
+}
+
+func TestWriteSPICEErrors(t *testing.T) {
+	tests := []struct {
+		name   string
+		change func(n *Netlist)
+		want   string
+	}{
+		{"space in a name", func(n *Netlist) { n.Resistors[0].Name = "R g" }, `resistor name "R g"`},
+		{"names equal but for case", func(n *Netlist) { n.Resistors[1].Name = "RG" }, `resistor names "Rg" and "RG" are the same to SPICE`},
+		{"node names equal but for case", func(n *Netlist) { n.Nodes[n.Node("m")] = "OUT" }, `node names "OUT" and "out"`},
+		{"NaN source", func(n *Netlist) { n.Sources[0].V = math.NaN() }, "source vin is NaN"},
+		{"infinite offset", func(n *Netlist) { n.OpAmps[0].Vos = math.Inf(-1) }, "op-amp A1 Vos is -Inf"},
+		{"node out of range", func(n *Netlist) { n.OpAmps[0].Out = 42 }, "op-amp A1 has node index 42"},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			n := mustNew(Inverting, Options{})
+			tc.change(n)
+			var b bytes.Buffer
+			err := n.WriteSPICE(&b)
+			if !errors.Is(err, ErrSPICE) || !strings.Contains(err.Error(), tc.want) {
+				t.Errorf("error %v, want ErrSPICE containing %q", err, tc.want)
+			}
+			if b.Len() != 0 {
+				t.Errorf("wrote %d bytes despite the error", b.Len())
+			}
+		})
+	}
+	// Open resistors and ideal amplifiers are written as documented.
+	n := mustNew(Inverting, Options{})
+	n.Resistors[0].Ohm = math.Inf(1)
+	n.OpAmps[0].Gain = math.Inf(1)
+	var b bytes.Buffer
+	if err := n.WriteSPICE(&b); err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"Rg vin m 1e+30\n", "Ea1 out 0 a1_vos m 100000000\n"} {
+		if !strings.Contains(b.String(), want) {
+			t.Errorf("deck lacks %q:\n%s", want, b.String())
+		}
+	}
 }
