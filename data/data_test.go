@@ -41,6 +41,15 @@ func TestDemoLoads(t *testing.T) {
 	if !slices.Equal(stats.Currencies, []string{"USD"}) || !slices.Equal(stats.Sources, []string{DemoSource}) {
 		t.Errorf("currencies %q sources %q", stats.Currencies, stats.Sources)
 	}
+	// Values the series cover, counted from IEC 60063 (n values per
+	// decade, 10^(i/n) rounded to three figures; E96 includes 2.00, E192
+	// stops at 4.99 below 5): FP-TK1, AR-TN5, AR-TP1 E96 10..1M: 5*96+1
+	// each; AR-TP1W E192 10..1M: 5*192+1; AR-TU05 E192 100..500k:
+	// 3*192+135; AR-TU02 E96 100..200k: 3*96+30; TB-FX2 E24 100..100k:
+	// 3*24+1.
+	if want := 3*(5*96+1) + (5*192 + 1) + (3*192 + 135) + (3*96 + 30) + (3*24 + 1); stats.SeriesValues != want {
+		t.Errorf("series cover %d values, want %d", stats.SeriesValues, want)
+	}
 	if stats.PriceBreaks != 5*(7+9+3+10) {
 		t.Errorf("%d price breaks, want five per part", stats.PriceBreaks)
 	}
