@@ -333,20 +333,23 @@ func (e *Evaluator) contributors(npts int, pn *[4]point) [NumLimits][]Contributi
 		}
 	}
 	out[IGainError] = e.sorted(gl)
-	// CMRR as common-mode gain over differential gain (1/CMRR).
+	// CMRR as common-mode gain over differential gain (1/CMRR), at the
+	// temperature point where it is worst.
 	if e.differential {
 		var cl []Contribution
-		adm := math.Abs(pn[0].adm)
+		tiC := worstTi(func(ti int) float64 { return e.sumAbs(qCM, ti, pn) + math.Abs(pn[ti].acm) })
+		p := &pn[tiC]
+		adm := math.Abs(p.adm)
 		for j := range e.params {
 			if !e.params[j].kind.amplifierTerm() {
-				cl = append(cl, Contribution{Name: e.paramName(j), Value: math.Abs(e.sensOf(qCM, 0, j, pn)) / adm})
+				cl = append(cl, Contribution{Name: e.paramName(j), Value: math.Abs(e.sensOf(qCM, tiC, j, pn)) / adm})
 			}
 		}
-		if math.Abs(pn[0].acm) > 0 {
-			cl = append(cl, Contribution{Name: "nominal ratio mismatch", Value: math.Abs(pn[0].acm) / adm})
+		if math.Abs(p.acm) > 0 {
+			cl = append(cl, Contribution{Name: "nominal ratio mismatch", Value: math.Abs(p.acm) / adm})
 		}
 		for i := 0; i < e.nAmps(); i++ {
-			cl = append(cl, Contribution{Name: e.ampName(i) + " CMRR", Value: math.Abs(pn[0].pinCM[i]*pn[0].tvos[i]) / e.cmrrAmp / adm})
+			cl = append(cl, Contribution{Name: e.ampName(i) + " CMRR", Value: math.Abs(p.pinCM[i]*p.tvos[i]) / e.cmrrAmp / adm})
 		}
 		out[ICMRR] = e.sorted(cl)
 	}
