@@ -88,6 +88,7 @@ func runCheck(ctx context.Context, opts *checkOptions) error {
 	if err != nil {
 		return fmt.Errorf("budget of %s against %s: %w", opts.Design, specName(sp), err)
 	}
+	cautionsBesideData(opts.IO, opts.Format, res.Cautions)
 	switch opts.Format {
 	case "json":
 		err = writeJSON(opts.IO.Out, res)

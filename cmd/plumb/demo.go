@@ -76,6 +76,7 @@ func runDemo(cmd *cobra.Command, opts *demoOptions) error {
 		return err
 	}
 	infeasible := errors.Is(err, search.ErrInfeasible)
+	cautionsBesideData(opts.IO, opts.Format, res.Cautions)
 	switch opts.Format {
 	case "json":
 		err = writeJSON(opts.IO.Out, res)

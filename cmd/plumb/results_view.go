@@ -57,11 +57,26 @@ func formatMargin(m float64) string {
 
 // printCautions prints safety cautions first and prominently.
 func printCautions(w io.Writer, ios *IOStreams, cautions []string) {
+	if w != ios.Out {
+		// On stderr (beside JSON or CSV on stdout) colour follows stderr.
+		for _, c := range cautions {
+			fmt.Fprintln(w, "CAUTION: "+c)
+		}
+		return
+	}
 	for _, c := range cautions {
 		fmt.Fprintln(w, ios.Bold(ios.Yellow("CAUTION:"))+" "+c)
 	}
 	if len(cautions) > 0 {
 		fmt.Fprintln(w)
+	}
+}
+
+// cautionsBesideData prints cautions on stderr when stdout carries JSON or
+// CSV, where a reader of the data file might miss them.
+func cautionsBesideData(ios *IOStreams, format string, cautions []string) {
+	if format != "table" {
+		printCautions(ios.ErrOut, ios, cautions)
 	}
 }
 

@@ -22,7 +22,7 @@ directory under plumb/), else its default. ` + "`plumb config show`" + ` tells w
 
 Exit codes:
   0  success
-  1  error (missing file, bad spec or catalog data, failed import)
+  1  error (missing file, bad spec or catalog data, failed import, failed check)
   2  usage error (unknown command or flag, bad flag value, wrong arguments)
   3  the spec is infeasible with the parts in the catalog`
 

@@ -403,6 +403,11 @@ func TestSolveInfeasibleExit3(t *testing.T) {
 
 func TestSolveHazardCaution(t *testing.T) {
 	f := fixtureFactory(t)
+	_, errOut, _ := runPlumb(t, f, "solve testdata/hazard.yaml --format csv")
+	if !strings.Contains(errOut, "CAUTION:") || !strings.Contains(errOut, "IEC 62368-1") {
+		t.Errorf("CSV output: the caution is not on stderr: %q", errOut)
+	}
+	f = fixtureFactory(t)
 	out, _, _ := runPlumb(t, f, "solve testdata/hazard.yaml")
 	// Above 60 V DC the output must defer to IEC 61010-1 / IEC 62368-1
 	// (project rule; limits from those standards, from memory).

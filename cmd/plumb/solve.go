@@ -107,6 +107,7 @@ func runSolve(cmd *cobra.Command, opts *solveOptions) error {
 	if err != nil && !infeasible {
 		return err
 	}
+	cautionsBesideData(opts.IO, opts.Format, res.Cautions)
 	switch opts.Format {
 	case "json":
 		if werr := writeJSON(opts.IO.Out, res); werr != nil {
