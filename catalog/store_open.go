@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -62,6 +63,11 @@ func create(path string, force bool) (*Store, error) {
 	tmp := fmt.Sprintf("%s.new-%d-%d", path, os.Getpid(), time.Now().UnixNano())
 	f, err := os.OpenFile(tmp, os.O_CREATE|os.O_EXCL|os.O_WRONLY, 0o644)
 	if err != nil {
+		// Name the catalog, not the temporary file beside it.
+		var pe *fs.PathError
+		if errors.As(err, &pe) {
+			err = pe.Err
+		}
 		return nil, fmt.Errorf("catalog: cannot create catalog %s: %w: check that directory %s exists and is writable",
 			path, err, filepath.Dir(path))
 	}

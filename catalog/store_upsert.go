@@ -163,7 +163,7 @@ func (s *Store) upsert(ctx context.Context, b *Batch, opt UpsertOptions) (_ []Up
 		return nil, nil
 	}
 	if err := b.Validate(); err != nil {
-		return nil, fmt.Errorf("upsert into %s: %w: nothing was written; fix the part and import again", where, err)
+		return nil, fmt.Errorf("%w: nothing was written to %s; fix the part and import again", err, where)
 	}
 	u := &upsertRun{ctx: ctx, opt: opt, now: opt.Now.UTC()}
 	if opt.Now.IsZero() {
