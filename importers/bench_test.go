@@ -28,6 +28,15 @@ func cpuNow() time.Duration {
 	return time.Duration(ru.Utime.Nano() + ru.Stime.Nano())
 }
 
+// benchExport turns on allocation reports and writes the 100,000-row
+// export the benchmarks read, with part numbers starting with prefix.
+func benchExport(b *testing.B, prefix string) string {
+	b.ReportAllocs()
+	file := filepath.Join(b.TempDir(), "big.csv")
+	writeBigExport(b, file, prefix, benchRows)
+	return file
+}
+
 // reportRates reports rows per second of wall time and of CPU time.
 func reportRates(b *testing.B, cpu time.Duration) {
 	b.ReportMetric(float64(benchRows)*float64(b.N)/b.Elapsed().Seconds(), "rows/s")
@@ -39,9 +48,7 @@ func reportRates(b *testing.B, cpu time.Duration) {
 // into a fresh catalog file: sniffing, mapping, parsing every value,
 // validation and the store's one-transaction Upsert.
 func BenchmarkImport100k(b *testing.B) {
-	b.ReportAllocs()
-	file := filepath.Join(b.TempDir(), "big.csv")
-	writeBigExport(b, file, "BI", benchRows)
+	file := benchExport(b, "BI")
 	ctx := context.Background()
 	var cpu time.Duration
 	for i := 0; b.Loop(); i++ {
@@ -72,9 +79,7 @@ func BenchmarkImport100k(b *testing.B) {
 // with plain prepared statements in one transaction (no parsing, no
 // validation, no history, no comparison with existing rows).
 func BenchmarkPlainInsert100k(b *testing.B) {
-	b.ReportAllocs()
-	file := filepath.Join(b.TempDir(), "big.csv")
-	writeBigExport(b, file, "BP", benchRows)
+	file := benchExport(b, "BP")
 	batch, _, err := Read(context.Background(), []string{file}, Options{Now: testNow, Preview: -1})
 	if err != nil || len(batch.Resistors) != benchRows {
 		b.Fatalf("reading the rows: %v", err)
@@ -141,9 +146,7 @@ func BenchmarkPlainInsert100k(b *testing.B) {
 
 // BenchmarkRead100k measures the row parser alone on the same export.
 func BenchmarkRead100k(b *testing.B) {
-	b.ReportAllocs()
-	file := filepath.Join(b.TempDir(), "big.csv")
-	writeBigExport(b, file, "BR", benchRows)
+	file := benchExport(b, "BR")
 	fi, err := os.Stat(file)
 	if err != nil {
 		b.Fatal(err)
