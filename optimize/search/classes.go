@@ -25,6 +25,7 @@ type space struct {
 	amps             []amp // op-amps
 	matched          []amp
 	cfgs             []config
+	byLB             []int32 // configuration indexes by cost lower bound
 	why              hardReason
 	nets             []*catalog.Network
 }
@@ -79,6 +80,7 @@ func newSpace(parts *Parts, p *Problem, combos bool) (*space, error) {
 	famDisc := map[Circuit]Family{Difference: DiscreteDifference, NonInverting: DiscreteNonInverting,
 		Inverting: DiscreteInverting, Divider: DiscreteDivider}[p.Circuit]
 	if disc {
+		s.cfgs = make([]config, 0, len(s.groups)*len(s.groups)+4*len(parts.Networks))
 		for a, ga := range s.groups {
 			for b, gb := range s.groups {
 				c := config{fam: famDisc, ga: a, gb: b, net: -1,

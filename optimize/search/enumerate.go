@@ -206,13 +206,19 @@ func (s *space) walkPairs(cfgs, amps []int32, visit func(ci, ai int, lb float64)
 // sortedConfigs returns the indexes of the configurations that keep(ci)
 // accepts, sorted by cost lower bound.
 func (s *space) sortedConfigs(keep func(ci int) bool) []int32 {
+	if s.byLB == nil {
+		s.byLB = make([]int32, len(s.cfgs))
+		for i := range s.byLB {
+			s.byLB[i] = int32(i)
+		}
+		sort.SliceStable(s.byLB, func(a, b int) bool { return s.cfgs[s.byLB[a]].costLB < s.cfgs[s.byLB[b]].costLB })
+	}
 	var out []int32
-	for ci := range s.cfgs {
-		if keep(ci) {
-			out = append(out, int32(ci))
+	for _, ci := range s.byLB {
+		if keep(int(ci)) {
+			out = append(out, ci)
 		}
 	}
-	sort.SliceStable(out, func(a, b int) bool { return s.cfgs[out[a]].costLB < s.cfgs[out[b]].costLB })
 	return out
 }
 
