@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"plumb/catalog"
+	"plumb/optimize/cost"
 )
 
 func TestHardLimits(t *testing.T) {
@@ -85,5 +86,35 @@ func TestProgressAndCancel(t *testing.T) {
 	cancel()
 	if _, err = SolveProblem(ctx, parts, benchProblem(), Options{}); !errors.Is(err, context.Canceled) {
 		t.Fatalf("cancelled search: %v, want context.Canceled", err)
+	}
+}
+
+func TestCurrencies(t *testing.T) {
+	offer := func(cur string, p float64) catalog.Offer {
+		return catalog.Offer{PriceBreaks: []catalog.PriceBreak{{MinQty: 1, UnitPrice: p, Currency: cur}}, Stock: -1}
+	}
+	grade := catalog.ResistorGrade{Technology: "thin-film", Tolerance: 0.001, TCR: 10, PowerW: 0.1}
+	amp := catalog.Amplifier{Part: "OPC", Type: catalog.OpAmp, SupplyMinV: 3, SupplyMaxV: 36, CMNegV: 1, CMPosV: 1, SwingNegV: 1, SwingPosV: 1,
+		AolVV: 1e6, CMRRdB: 110, GBWHz: 1e6, Offer: offer("EUR", 0.5)}
+	parts := &Parts{
+		Series:     []catalog.ResistorSeries{{Part: "EU", ESeries: "E24", MinOhm: 1e3, MaxOhm: 1e5, ResistorGrade: grade, Offer: offer("EUR", 0.05)}},
+		Resistors:  []catalog.Resistor{{Part: "US-10K", ValueOhm: 10e3, ResistorGrade: grade, Offer: offer("USD", 0.01)}},
+		Amplifiers: []catalog.Amplifier{amp},
+	}
+	p := Problem{Circuit: Difference, Gain: 1, SupplyNeg: -12, SupplyPos: 12, InMin: -1, InMax: 1, TMin: 25, TMax: 25, TRef: 25}
+	if _, err := SolveProblem(context.Background(), parts, p, Options{}); !errors.Is(err, cost.ErrMixedCurrency) {
+		t.Errorf("no build currency: error %v, want cost.ErrMixedCurrency", err)
+	}
+	p.Build.Currency = "EUR"
+	res, err := SolveProblem(context.Background(), parts, p, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, d := range res.Designs {
+		for _, pt := range d.Parts {
+			if pt.Part == "US-10K" || d.Currency != "EUR" {
+				t.Errorf("design %d uses %s in %s", d.Rank, pt.Part, d.Currency)
+			}
+		}
 	}
 }

@@ -97,7 +97,11 @@ func TestExhaustiveAPIMatchesSolve(t *testing.T) {
 }
 
 // regressions are random cases that once made the search and the
-// enumerator disagree, kept so they stay fixed.
+// enumerator disagree, kept so they stay fixed. None has failed on the code
+// as committed so far; a seed that does goes here with a note on the cause.
+// (Deliberately breaking the CMRR bound, using the smallest ratio instead of
+// the largest, makes 6 of the 300 generated seeds fail, so the property has
+// teeth.)
 var regressions = []struct {
 	seed uint64
 	note string
