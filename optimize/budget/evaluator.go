@@ -485,7 +485,7 @@ func (e *Evaluator) quiet() {
 func (e *Evaluator) driveSignal(scale float64) {
 	switch {
 	case e.sigCur >= 0:
-		e.net.Currents[e.sigCur].A = scale
+		e.net.Currents[e.sigCur].A += scale
 	case e.sigNeg >= 0:
 		e.net.Sources[e.sigSrc].V += scale / 2
 		e.net.Sources[e.sigNeg].V -= scale / 2
