@@ -159,3 +159,11 @@ func solveAll(n *Netlist) ([]float64, error) {
 func relErr(got, want, floor float64) float64 {
 	return math.Abs(got-want) / math.Max(math.Abs(want), floor)
 }
+
+// addTestCurrent puts a current source across a random resistor of n, as
+// the budget layer does to inject a resistor's noise current, so the checks
+// cover current sources between two free nodes.
+func addTestCurrent(n *Netlist, r *rand.Rand) {
+	res := n.Resistors[r.IntN(len(n.Resistors))]
+	n.Currents = append(n.Currents, CurrentSource{Name: "noise " + res.Name, From: res.A, To: res.B, A: (r.Float64()*2 - 1) * 1e-5})
+}

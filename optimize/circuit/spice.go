@@ -35,11 +35,13 @@ const SPICEInfGain = 1e8
 // the netlist names, prefixed by the SPICE type letter when they do not
 // start with it.
 //
-// It returns an error wrapping ErrSPICE, and writes nothing, for a name
-// SPICE cannot take (empty, or with white space, '=', '(', ')' or ','),
-// two elements or two nodes whose names differ only in case, a node index
-// out of range, or a value that is NaN or infinite where SPICE needs a
-// number (only resistances and gains may be +Inf).
+// Characters SPICE cannot take in a name (white space, '=', '(', ')', ',')
+// are written as '_', so "noise Rf" becomes I_noise_Rf. WriteSPICE returns
+// an error wrapping ErrSPICE, and writes nothing, for an empty name, two
+// elements or two nodes whose names are the same once written (SPICE
+// ignores case), a node index out of range, or a value that is NaN or
+// infinite where SPICE needs a number (only resistances and gains may be
+// +Inf).
 func (n *Netlist) WriteSPICE(w io.Writer) error {
 	if err := n.checkSPICE(); err != nil {
 		return err
@@ -62,7 +64,7 @@ func (n *Netlist) WriteSPICE(w io.Writer) error {
 		fmt.Fprintf(bw, "%s %s %s DC %s\n", spiceName('I', c.Name), nodes[c.From], nodes[c.To], spiceNum(c.A))
 	}
 	for _, a := range n.OpAmps {
-		id := strings.ToLower(a.Name)
+		id := strings.ToLower(spiceSafe(a.Name))
 		vos := id + "_vos"
 		gain := a.Gain
 		if math.IsInf(gain, 1) {
@@ -88,15 +90,12 @@ func (n *Netlist) checkSPICE() error {
 	}
 	seen := map[string]string{}
 	name := func(kind, s string) error {
-		if s == "" || strings.ContainsAny(s, " \t\r\n=(),") {
-			return bad("%s name %q: use letters, digits and _ only", kind, s)
+		if s == "" {
+			return bad("a %s has an empty name; give it one", kind)
 		}
-		key := kind[:1] + strings.ToLower(s)
-		if kind == "op-amp" || kind == "node" {
-			key = kind + strings.ToLower(s)
-		}
+		key := kind + strings.ToLower(spiceSafe(s))
 		if prev, ok := seen[key]; ok {
-			return bad("%s names %q and %q are the same to SPICE, which ignores case", kind, prev, s)
+			return bad("%s names %q and %q are the same to SPICE, which ignores case; rename one", kind, prev, s)
 		}
 		seen[key] = s
 		return nil
@@ -154,14 +153,25 @@ func (n *Netlist) checkSPICE() error {
 func (n *Netlist) spiceNodes() []string {
 	s := make([]string, len(n.Nodes))
 	for i, name := range n.Nodes {
-		s[i] = strings.ToLower(name)
+		s[i] = strings.ToLower(spiceSafe(name))
 	}
 	s[0] = "0"
 	return s
 }
 
+// spiceSafe replaces the characters SPICE cannot take in a name by '_'.
+func spiceSafe(name string) string {
+	return strings.Map(func(r rune) rune {
+		if strings.ContainsRune(" \t\r\n=(),", r) {
+			return '_'
+		}
+		return r
+	}, name)
+}
+
 // spiceName prefixes name with the element letter unless it starts with it.
 func spiceName(letter byte, name string) string {
+	name = spiceSafe(name)
 	if len(name) > 0 && (name[0]|0x20) == (letter|0x20) {
 		return name
 	}

@@ -80,6 +80,9 @@ func TestAgainstNgspice(t *testing.T) {
 		for c := range casesPerFamily {
 			base := mustNew(f, vs[c%len(vs)])
 			randomize(base, r)
+			if c%2 == 1 {
+				addTestCurrent(base, r)
+			}
 			for _, e := range exs {
 				nets = append(nets, excite(base, e))
 				labels = append(labels, string(f)+" case "+strconv.Itoa(c)+" "+gainsOf(base)+" excitation "+strconv.Itoa(int(e)))
@@ -139,7 +142,8 @@ func TestWriteSPICEErrors(t *testing.T) {
 		change func(n *Netlist)
 		want   string
 	}{
-		{"space in a name", func(n *Netlist) { n.Resistors[0].Name = "R g" }, `resistor name "R g"`},
+		{"empty name", func(n *Netlist) { n.Resistors[0].Name = "" }, `a resistor has an empty name`},
+		{"same once written", func(n *Netlist) { n.Resistors[0].Name = "R g"; n.Resistors[1].Name = "R_G" }, `resistor names "R g" and "R_G" are the same`},
 		{"names equal but for case", func(n *Netlist) { n.Resistors[1].Name = "RG" }, `resistor names "Rg" and "RG" are the same to SPICE`},
 		{"node names equal but for case", func(n *Netlist) { n.Nodes[n.Node("m")] = "OUT" }, `node names "OUT" and "out"`},
 		{"NaN source", func(n *Netlist) { n.Sources[0].V = math.NaN() }, "source vin is NaN"},
@@ -164,11 +168,12 @@ func TestWriteSPICEErrors(t *testing.T) {
 	n := mustNew(Inverting, Options{})
 	n.Resistors[0].Ohm = math.Inf(1)
 	n.OpAmps[0].Gain = math.Inf(1)
+	n.Currents = append(n.Currents, CurrentSource{Name: "noise Rf", From: 3, To: 4})
 	var b bytes.Buffer
 	if err := n.WriteSPICE(&b); err != nil {
 		t.Fatal(err)
 	}
-	for _, want := range []string{"Rg vin m 1e+30\n", "Ea1 out 0 a1_vos m 100000000\n"} {
+	for _, want := range []string{"Rg vin m 1e+30\n", "Ea1 out 0 a1_vos m 100000000\n", "I_noise_Rf m out DC 0\n"} {
 		if !strings.Contains(b.String(), want) {
 			t.Errorf("deck lacks %q:\n%s", want, b.String())
 		}
