@@ -443,6 +443,28 @@ func knownFields() string {
 	return strings.Join(s, ", ")
 }
 
+// forFile returns a copy of a given mapping whose Guesses say, for the
+// report, which header each field was taken from ("mapping", confidence 1).
+func (m *Mapping) forFile(header []string) *Mapping {
+	c := *m
+	c.Guesses = nil
+	key := func(s string) string { return strings.Join(words(s), " ") }
+	for i, h := range header {
+		for f, col := range m.Columns {
+			if key(col) == key(h) {
+				c.Guesses = append(c.Guesses, Guess{Field: f, Column: h, Index: i, Confidence: ConfExact, How: "mapping"})
+			}
+		}
+		for _, b := range m.PriceBreaks {
+			if key(b.Column) == key(h) {
+				c.Guesses = append(c.Guesses, Guess{Field: FieldPrice, Column: h, Index: i, Confidence: ConfExact,
+					How: fmt.Sprintf("mapping: price break from %d", b.MinQty)})
+			}
+		}
+	}
+	return &c
+}
+
 // validate checks a loaded mapping.
 func (m *Mapping) validate(src string) error {
 	switch m.Kind {

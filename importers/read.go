@@ -118,8 +118,10 @@ func readStream(ctx context.Context, name string, in io.Reader, opt Options, b *
 	}
 	if m == nil {
 		if m, err = GuessMapping(rd.Header(), kind); err != nil {
-			return &ParseError{File: name, Line: 1, Err: err}
+			return &ParseError{File: name, Line: rd.line, Err: err}
 		}
+	} else {
+		m = m.forFile(rd.Header())
 	}
 	if kind == "" {
 		kind = m.Kind
@@ -163,6 +165,10 @@ func readStream(ctx context.Context, name string, in io.Reader, opt Options, b *
 		rr.currency = strings.ToUpper(c)
 	}
 	fr := FileReport{File: name, Kind: kind, Shape: shape, Mapping: m}
+	if len(rd.Preamble) > 0 {
+		rep.Problems = append(rep.Problems, newProblem(Info, &ParseError{File: name, Line: rd.Preamble[0],
+			Err: fmt.Errorf("%d title line(s) above the header skipped; the header is line %d", len(rd.Preamble), rd.line)}, ""))
+	}
 	if shape.Encoding == "Windows-1252" {
 		rep.Problems = append(rep.Problems, newProblem(Info, &ParseError{File: name,
 			Err: errors.New("the file is not UTF-8: read as Windows-1252, the usual spreadsheet encoding; check the ± ° µ Ω signs")}, ""))

@@ -445,3 +445,30 @@ func TestEncodings(t *testing.T) {
 		})
 	}
 }
+
+func TestToleranceForms(t *testing.T) {
+	tests := []struct {
+		name, in string
+		want     float64
+	}{
+		{"percent sign", "±0.1%", 0.001},
+		{"bare number is percent", "0.1", 0.001},
+		{"ppm", "500ppm", 0.0005},
+		// Tolerance code letters of IEC 60062 (from memory): F = ±1 %,
+		// B = ±0.1 %, J = ±5 %.
+		{"letter F", "F", 0.01},
+		{"letter b", "b", 0.001},
+		{"letter J", "J", 0.05},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			got, err := parseTolerance(tc.in)
+			if err != nil || math.Abs(got-tc.want) > 1e-15 {
+				t.Errorf("parseTolerance(%q) = %g, %v; want %g", tc.in, got, err, tc.want)
+			}
+		})
+	}
+	if _, err := parseTolerance("Q"); err == nil {
+		t.Error("an unknown letter must be refused")
+	}
+}

@@ -24,6 +24,8 @@ const (
 	MaxRecordBytes = 1 << 20
 	// sniffBytes is how much of the file is looked at to tell its shape.
 	sniffBytes = 64 << 10
+	// maxPreamble is how many title lines above the header are skipped.
+	maxPreamble = 10
 	// sniffLines is how many records the separator and decimal-comma
 	// guesses look at.
 	sniffLines = 50
@@ -49,6 +51,8 @@ type Reader struct {
 	guard  *recordGuard
 	header []string
 	line   int
+	// Preamble holds the lines of title records skipped above the header.
+	Preamble []int
 }
 
 // NewReader sniffs the shape of r (named name in errors) and reads its
@@ -92,7 +96,7 @@ func newReader(name string, r io.Reader, sep rune) (*Reader, error) {
 		head, _ = charmap.Windows1252.NewDecoder().Bytes(head)
 		enc = "Windows-1252"
 	}
-	shape := sniff(head)
+	shape, bestScore := sniff(head)
 	if sep != 0 {
 		shape.Separator = sep
 	}
@@ -105,6 +109,12 @@ func newReader(name string, r io.Reader, sep rune) (*Reader, error) {
 	cr.ReuseRecord = true
 	rd := &Reader{name: name, shape: shape, csv: cr, guard: guard}
 	hdr, line, err := rd.next()
+	// Title lines above the header ("Search results, 30 Nov") have one
+	// field; the header is the first record with more.
+	for err == nil && len(hdr) < 2 && len(rd.Preamble) < maxPreamble && bestScore >= 0 {
+		rd.Preamble = append(rd.Preamble, line)
+		hdr, line, err = rd.next()
+	}
 	if errors.Is(err, io.EOF) {
 		return nil, fail(0, fmt.Errorf("%w: no header line found", ErrEmpty))
 	}
@@ -267,27 +277,22 @@ func validUTF8Prefix(b []byte, cut bool) bool {
 // sniff picks the separator that splits the first records into the same
 // number of fields (quote-aware), and tells whether numbers use a decimal
 // comma.
-func sniff(head []byte) Shape {
+func sniff(head []byte) (Shape, int) {
 	lines := splitRecords(head, sniffLines)
 	best, bestScore := rune(','), -1
 	for _, sep := range []rune{',', ';', '\t', '|'} {
-		if len(lines) == 0 {
-			break
-		}
-		n0 := countFields(lines[0], byte(sep))
-		if n0 < 2 {
-			continue
-		}
-		same := 0
-		for _, l := range lines[1:] {
-			if countFields(l, byte(sep)) == n0 {
-				same++
+		// The field count most lines share (a title line above the header
+		// has fewer), then how many share it, then the count.
+		freq := map[int]int{}
+		for _, l := range lines {
+			if n := countFields(l, byte(sep)); n >= 2 {
+				freq[n]++
 			}
 		}
-		// Consistency first, then the number of columns.
-		score := same*MaxColumns + n0
-		if score > bestScore {
-			best, bestScore = sep, score
+		for n, same := range freq {
+			if score := same*MaxColumns + n; score > bestScore {
+				best, bestScore = sep, score
+			}
 		}
 	}
 	sh := Shape{Separator: best}
@@ -302,7 +307,7 @@ func sniff(head []byte) Shape {
 		}
 		sh.DecimalComma = comma > dot
 	}
-	return sh
+	return sh, bestScore
 }
 
 // decimalMarks counts "digit,digit" and "digit.digit" in a cell, where the

@@ -21,10 +21,11 @@ func TestSniff(t *testing.T) {
 		{"tab", "a\tb, c\tc\n1\t2\t3\n", '\t', false},
 		{"comma inside quotes", "a;\"b,c,d,e\";f\n1;\"x,y,z,w\";2\n", ';', false},
 		{"pipe", "a|b|c\n1|2|3\n", '|', false},
+		{"title line above", "Search results, 30 Nov 2026\na;b;c\nx;0,1;2\ny;0,2;3\n", ';', true},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
-			sh := sniff([]byte(tc.text))
+			sh, _ := sniff([]byte(tc.text))
 			if sh.Separator != tc.sep || sh.DecimalComma != tc.comma {
 				t.Errorf("sniff = %q comma %v, want %q %v", sh.Separator, sh.DecimalComma, tc.sep, tc.comma)
 			}
@@ -59,5 +60,16 @@ func TestReaderQuotedNewlinesAndLines(t *testing.T) {
 	}
 	if descs[0] != "two\nlines, and a comma" || descs[1] != `say "hi"` {
 		t.Errorf("fields %q", descs)
+	}
+}
+
+func TestTitleLinesAboveHeader(t *testing.T) {
+	text := "Parametric search export\n\nPart Number;Manufacturer;Resistance\nA-1;Orrin Resistive;4,99k\n"
+	r, err := NewReader("t.csv", strings.NewReader(text))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := strings.Join(r.Header(), "|"); got != "Part Number|Manufacturer|Resistance" || len(r.Preamble) != 1 || r.Preamble[0] != 1 {
+		t.Errorf("header %q, preamble %v", got, r.Preamble)
 	}
 }

@@ -334,7 +334,7 @@ func (r *rowReader) grade() (g catalog.ResistorGrade, ohm float64, err error) {
 			return g, 0, r.skip(FieldResistance, s, fmt.Errorf("%w: resistance must be above zero (a 0 Ω jumper is not a resistor for a budget)", ErrBadValue))
 		}
 	}
-	if g.Tolerance, err = pick(FieldTolerance, units.ParsePercent, d.tolerance, "tolerance", true); err != nil {
+	if g.Tolerance, err = pick(FieldTolerance, parseTolerance, d.tolerance, "tolerance", true); err != nil {
 		return g, 0, err
 	}
 	if g.TCR, err = pick(FieldTCR, units.ParsePPM, d.tcr, "temperature coefficient", true); err != nil {

@@ -160,6 +160,21 @@ func parseGain(s string) (float64, error) {
 	return 0, fmt.Errorf("%w: open-loop gain %q needs a unit: dB, V/V or V/mV", ErrBadValue, s)
 }
 
+// toleranceLetters is the tolerance code letter of IEC 60062 (from
+// memory), which approved-parts lists and part numbers often carry in place
+// of a percentage.
+var toleranceLetters = map[string]float64{"A": 0.0005, "B": 0.001, "C": 0.0025, "D": 0.005, "F": 0.01,
+	"G": 0.02, "J": 0.05, "K": 0.10, "M": 0.20}
+
+// parseTolerance reads a tolerance as units.ParsePercent does (a bare
+// number is percent), and the IEC 60062 letter codes.
+func parseTolerance(s string) (float64, error) {
+	if v, ok := toleranceLetters[strings.ToUpper(strings.TrimSpace(s))]; ok {
+		return v, nil
+	}
+	return units.ParsePercent(s)
+}
+
 // parseCount reads a count with thousands separators ("12,345",
 // "12 345", and the decimal-comma locales' "12.345"), a trailing "+" or
 // "pcs" dropped.
