@@ -62,6 +62,16 @@ reference: {voltage: 2.5V}`, "family: level-shift\npositions:\n  R1: " + res("80
 			if r.Metrics.GainError <= 0 || len(r.Limits) == 0 {
 				t.Errorf("no budget: %+v", r.Metrics)
 			}
+			if c.name == "current-sense" {
+				// (1+G)/|b-a| with |b-a| = 4t + 4 TCR x 65 K at the cold end
+				// (domain notes §2, Franco; tempco as a further mismatch, common
+				// practice), combined with the amplifier's 100 dB.
+				res := 51 / (4*0.001 + 4*10e-6*65)
+				want := 20 * math.Log10(1/(1/res+1e-5))
+				if math.Abs(r.Metrics.CMRRdB-want) > 0.3 {
+					t.Errorf("current-sense CMRR %.4g dB, want about %.4g dB", r.Metrics.CMRRdB, want)
+				}
+			}
 			if c.name == "level-shift" {
 				e, _ := NewEvaluator(s, spec.LevelShift, spec.Options{})
 				cand, _ := CandidateOf(e, mustDesign(t, c.design))
