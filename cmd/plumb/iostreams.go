@@ -6,6 +6,7 @@ import (
 	"os"
 
 	"github.com/mattn/go-isatty"
+	"golang.org/x/term"
 )
 
 // IOStreams are the streams a command reads and writes, with what is known
@@ -27,12 +28,20 @@ type IOStreams struct {
 	width int
 }
 
-// maxTableWidth is the width tables are fitted to on a terminal.
-const maxTableWidth = 100
+// maxTableWidth is the width tables are fitted to on a terminal; a
+// narrower terminal (but not below minTerminalWidth) narrows them further.
+const (
+	maxTableWidth    = 100
+	minTerminalWidth = 40
+)
 
 // SystemIO returns the process's standard streams.
 func SystemIO() *IOStreams {
 	v, set := os.LookupEnv("NO_COLOR")
+	width := maxTableWidth
+	if w, _, err := term.GetSize(int(os.Stdout.Fd())); err == nil && w >= minTerminalWidth && w < width {
+		width = w
+	}
 	return &IOStreams{
 		In:        os.Stdin,
 		Out:       os.Stdout,
@@ -41,7 +50,7 @@ func SystemIO() *IOStreams {
 		errTTY:    isTerminal(os.Stderr),
 		noColor:   set && v != "",
 		colorMode: "auto",
-		width:     maxTableWidth,
+		width:     width,
 	}
 }
 
