@@ -26,20 +26,31 @@ type bulk struct {
 	tx    *sqlx.Tx
 	head  string // "INSERT INTO t (a, b) VALUES "
 	row   string // "(?, ?)"
-	width int
-	chunk int // rows per full statement
-	n     int // rows pending
+	chunk int    // rows per full statement
+	n     int    // rows pending
 	args  []any
 	full  *sql.Stmt
 }
 
-func newBulk(ctx context.Context, tx *sqlx.Tx, table string, cols []string) *bulk {
+// newBulk prepares inserts of cols into table. A column named "kind" is
+// written as the literal kind (one of the package's Kind constants, never
+// user input) rather than a parameter, since it is the same on every row.
+func newBulk(ctx context.Context, tx *sqlx.Tx, table string, cols []string, kind Kind) *bulk {
+	marks := make([]string, len(cols))
+	params := 0
+	for i, c := range cols {
+		if c == "kind" {
+			marks[i] = "'" + string(kind) + "'"
+			continue
+		}
+		marks[i] = "?"
+		params++
+	}
 	return &bulk{
 		ctx: ctx, tx: tx,
 		head:  "INSERT INTO " + table + " (" + strings.Join(cols, ", ") + ") VALUES ",
-		row:   "(" + strings.TrimSuffix(strings.Repeat("?, ", len(cols)), ", ") + ")",
-		width: len(cols),
-		chunk: max(1, maxBulkArgs/len(cols)),
+		row:   "(" + strings.Join(marks, ", ") + ")",
+		chunk: max(1, maxBulkArgs/params),
 	}
 }
 
@@ -94,66 +105,12 @@ func (b *bulk) close() {
 	}
 }
 
-// maxJSONBulk bounds the JSON text of one json_each insert, bytes.
-const maxJSONBulk = 1 << 20
-
-// jsonBulk inserts rows given as one JSON array of arrays, expanded in
-// SQLite by json_each: one bound parameter per statement instead of one per
-// value, which is most of the per-row cost of the driver.
-type jsonBulk struct {
-	ctx   context.Context
-	tx    *sqlx.Tx
-	query string // INSERT ... SELECT ... FROM json_each(?)
-	buf   []byte
-	rows  int
-}
-
-// newJSONBulk prepares an insert of the given columns of table from JSON
-// rows whose elements are the columns in order.
-func newJSONBulk(ctx context.Context, tx *sqlx.Tx, table string, cols []string) *jsonBulk {
-	sel := make([]string, len(cols))
-	for i := range cols {
-		sel[i] = "value->>" + strconv.Itoa(i)
-	}
-	return &jsonBulk{ctx: ctx, tx: tx, buf: []byte{'['},
-		query: "INSERT INTO " + table + " (" + strings.Join(cols, ", ") + ") SELECT " + strings.Join(sel, ", ") + " FROM json_each(?)"}
-}
-
-// row starts a row and returns the buffer to append its elements to,
-// comma-separated, without brackets; end closes it.
-func (j *jsonBulk) row() []byte {
-	if j.rows > 0 {
-		j.buf = append(j.buf, ',')
-	}
-	return append(j.buf, '[')
-}
-
-func (j *jsonBulk) end(buf []byte) error {
-	j.buf = append(buf, ']')
-	j.rows++
-	if len(j.buf) >= maxJSONBulk {
-		return j.flush()
-	}
-	return nil
-}
-
-func (j *jsonBulk) flush() error {
-	if j.rows == 0 {
-		return nil
-	}
-	j.buf = append(j.buf, ']')
-	_, err := j.tx.ExecContext(j.ctx, j.query, string(j.buf))
-	j.buf, j.rows = append(j.buf[:0], '['), 0
-	return err
-}
-
 // upsertRun is the state of one Upsert transaction.
 type upsertRun struct {
 	ctx     context.Context
 	tx      *sqlx.Tx
 	opt     UpsertOptions
 	now     time.Time
-	history *jsonBulk
 	results []UpsertResult
 }
 
@@ -184,7 +141,6 @@ func (s *Store) upsert(ctx context.Context, b *Batch, opt UpsertOptions) (_ []Up
 	if _, err := u.tx.ExecContext(ctx, "PRAGMA defer_foreign_keys = ON"); err != nil {
 		return nil, err
 	}
-	u.history = newJSONBulk(ctx, u.tx, "part_history", []string{"part", "kind", "source", "imported_at", "outcome", "figures", "changes"})
 	u.results = make([]UpsertResult, 0, b.Len())
 	if err := upsertKind(u, seriesTable, b.ResistorSeries); err != nil {
 		return nil, err
@@ -197,9 +153,6 @@ func (s *Store) upsert(ctx context.Context, b *Batch, opt UpsertOptions) (_ []Up
 	}
 	if err := upsertKind(u, amplifierTable, b.Amplifiers); err != nil {
 		return nil, err
-	}
-	if err := u.history.flush(); err != nil {
-		return nil, fmt.Errorf("write history: %w", err)
 	}
 	if err := ctx.Err(); err != nil {
 		return nil, err
@@ -258,19 +211,17 @@ func upsertKind[T any](u *upsertRun, t *table, parts []T) error {
 	if err := u.tx.GetContext(u.ctx, &lastID, "SELECT COALESCE(MAX(id), 0) FROM "+t.name); err != nil {
 		return err
 	}
-	rows := newBulk(u.ctx, u.tx, t.name, strings.Split(t.columnList(), ", "))
+	rows := newBulk(u.ctx, u.tx, t.name, strings.Split(t.columnList(), ", "), t.kind)
 	defer rows.close()
 	var kids *bulk
 	if t.child != nil {
-		kids = newBulk(u.ctx, u.tx, t.child.table, []string{t.child.fk, "position", t.child.col})
+		kids = newBulk(u.ctx, u.tx, t.child.table, []string{t.child.fk, "position", t.child.col}, t.kind)
 		defer kids.close()
 	}
-	breaks := newBulk(u.ctx, u.tx, "price_breaks", []string{"kind", "part_id", "min_qty", "unit_price", "currency"})
-	// The kind is the same on every row: a literal, not a parameter.
-	breaks.row = "('" + string(t.kind) + "', ?, ?, ?, ?)"
-	breaks.chunk = maxBulkArgs / 4
+	breaks := newBulk(u.ctx, u.tx, "price_breaks", []string{"kind", "part_id", "min_qty", "unit_price", "currency"}, t.kind)
 	defer breaks.close()
-	kindJSON := appendJSONString(nil, string(t.kind))
+	hist := newBulk(u.ctx, u.tx, "part_history", []string{"part", "kind", "source", "imported_at", "outcome", "figures", "changes"}, t.kind)
+	defer hist.close()
 	var update *sql.Stmt
 	var figures []byte
 	for i := range parts {
@@ -346,19 +297,17 @@ func upsertKind[T any](u *upsertRun, t *table, parts []T) error {
 			figures = t.appendFigures(figures, v)
 		}
 		prov := v.FieldByIndex(t.prov).Interface().(Provenance)
-		r := appendJSONString(u.history.row(), names[i])
-		r = append(append(r, ','), kindJSON...)
-		r = appendJSONString(append(r, ','), prov.Source)
-		r = appendJSONString(append(r, ','), formatTime(prov.ImportedAt))
-		r = appendJSONString(append(r, ','), string(res.Outcome))
-		r = appendJSONString(append(r, ','), string(figures))
-		r = appendJSONString(append(r, ','), strings.Join(res.Changes, "\n"))
-		if err := u.history.end(r); err != nil {
+		hist.args = append(hist.args, names[i], prov.Source, formatTime(prov.ImportedAt), string(res.Outcome),
+			string(figures), strings.Join(res.Changes, "\n"))
+		if err := hist.done(); err != nil {
 			return fmt.Errorf("write history: %w", err)
 		}
 	}
 	if err := rows.flush(); err != nil {
 		return fmt.Errorf("write %s: %w", t.name, err)
+	}
+	if err := hist.flush(); err != nil {
+		return fmt.Errorf("write history: %w", err)
 	}
 	if err := breaks.flush(); err != nil {
 		return fmt.Errorf("write price breaks: %w", err)
