@@ -123,9 +123,13 @@ func (s *Solver) resolve() error {
 	if !inRange(n.Out) {
 		return bad("output node %d is out of range", n.Out)
 	}
+	// The output node, when free, is the last unknown: back substitution
+	// finds it first, so SolveOut can stop there.
 	for k := range s.unk {
 		s.unk[k] = -1
-		if k != 0 && s.src[k] < 0 {
+	}
+	for _, k := range append(nodesBut(nn, n.Out), n.Out) {
+		if k != 0 && s.src[k] < 0 && s.unk[k] < 0 {
 			s.unk[k] = s.m
 			s.unkNode = append(s.unkNode, k)
 			s.m++
@@ -326,10 +330,26 @@ func (s *Solver) Solve(v []float64) {
 }
 
 // SolveOut is Solve for the output node alone: it returns V(n.Out) without
-// needing a voltage slice. It does not allocate.
+// needing a voltage slice, and skips the back substitution of the other
+// nodes. It does not allocate.
 func (s *Solver) SolveOut() float64 {
+	if u := s.unk[s.n.Out]; u >= 0 && u == s.m-1 {
+		s.forward()
+		return s.x[u] * s.inv[u]
+	}
 	s.solve()
 	return s.voltage(s.n.Out)
+}
+
+// nodesBut returns the node indices 0..nn-1 without skip.
+func nodesBut(nn, skip int) []int {
+	out := make([]int, 0, nn)
+	for k := range nn {
+		if k != skip {
+			out = append(out, k)
+		}
+	}
+	return out
 }
 
 // voltage returns node k's voltage from the last solve.
@@ -344,7 +364,24 @@ func (s *Solver) voltage(k int) float64 {
 	}
 }
 
+// solve computes every unknown into s.x.
 func (s *Solver) solve() {
+	s.forward()
+	m := s.m
+	a, b := s.lu[:m*m], s.x[:m]
+	for i := m - 1; i >= 0; i-- {
+		row := a[i*m : i*m+m]
+		sum := b[i]
+		for j := i + 1; j < m; j++ {
+			sum -= row[j] * b[j]
+		}
+		b[i] = sum * s.inv[i]
+	}
+}
+
+// forward builds the right-hand side in s.x and applies the row
+// permutation and L's forward substitution, leaving U x = s.x to solve.
+func (s *Solver) forward() {
 	if !s.factored {
 		panic("circuit: Solve called without a successful Factor")
 	}
@@ -396,13 +433,5 @@ func (s *Solver) solve() {
 			sum -= l * b[j]
 		}
 		b[i] = sum
-	}
-	for i := m - 1; i >= 0; i-- {
-		row := a[i*m : i*m+m]
-		sum := b[i]
-		for j := i + 1; j < m; j++ {
-			sum -= row[j] * b[j]
-		}
-		b[i] = sum * s.inv[i]
 	}
 }

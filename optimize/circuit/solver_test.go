@@ -262,3 +262,28 @@ func TestSingularThreshold(t *testing.T) {
 	near(t, "V(y)", v[3], 1e9/(1e9+2e-3), 1e-15)
 	near(t, "V(x)", v[2], (1e9+1e-3)/(1e9+2e-3), 1e-15)
 }
+
+// SolveOut stops after the output's back-substitution step; it must give
+// exactly Solve's output voltage, and leave Solve's results intact after.
+func TestSolveOutMatchesSolve(t *testing.T) {
+	r := rand.New(rand.NewPCG(9, 4))
+	for _, f := range Families() {
+		for i, o := range variants(f) {
+			n := mustNew(f, o)
+			randomize(n, r)
+			s := NewSolver(n)
+			if err := s.Factor(); err != nil {
+				t.Fatal(err)
+			}
+			out := s.SolveOut()
+			v := make([]float64, len(n.Nodes))
+			s.Solve(v)
+			if out != v[n.Out] {
+				t.Errorf("%s variant %d: SolveOut %.17g, Solve %.17g", f, i, out, v[n.Out])
+			}
+			if got := s.SolveOut(); got != out {
+				t.Errorf("%s variant %d: second SolveOut %.17g", f, i, got)
+			}
+		}
+	}
+}
