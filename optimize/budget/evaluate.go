@@ -358,13 +358,13 @@ func (e *Evaluator) contributors(npts int, pn *[4]point) [NumLimits][]Contributi
 		if ti == 0 || pts[ti].t == e.s.TempRef {
 			return -1
 		}
-		return e.sumAbs(qRatio, ti, pn) / math.Abs(pts[ti].t-e.s.TempRef)
+		return e.sumAbs(qDrift, ti, pn) / math.Abs(pts[ti].t-e.s.TempRef)
 	})
 	if dt := math.Abs(pts[tiD].t - e.s.TempRef); dt > 0 {
 		var dl []Contribution
 		for j := range e.params {
 			if !e.params[j].kind.amplifierTerm() {
-				if v := math.Abs(e.sensOf(qRatio, tiD, j, pn)) / dt * 1e6; v > 0 {
+				if v := math.Abs(e.sensOf(qDrift, tiD, j, pn)) / dt * 1e6; v > 0 {
 					dl = append(dl, Contribution{Name: e.paramName(j), Value: v})
 				}
 			}

@@ -89,6 +89,7 @@ const (
 	qCM
 	qBase
 	qBaseChange
+	qDrift
 	numQ
 )
 
@@ -105,9 +106,22 @@ func (e *Evaluator) sensOf(q, ti, j int, pn *[4]point) float64 {
 		return r.a[ti]
 	case qBase:
 		return r.b[ti]
+	case qDrift:
+		rl := e.lifeRef()
+		return r.g[ti]/pn[rl].gain - pn[ti].gain*r.g[rl]/(pn[rl].gain*pn[rl].gain)
 	default:
 		return r.b[ti] - r.b[0]
 	}
+}
+
+// lifeRef is the temperature point drift is measured from: the reference
+// temperature after load life (index 1) when any part has a load-life
+// figure, else the calibration point.
+func (e *Evaluator) lifeRef() int {
+	if e.hasLife {
+		return 1
+	}
+	return 0
 }
 
 func (w *agg) merge(a *agg) {
@@ -144,7 +158,7 @@ func (e *Evaluator) worstGuided(npts int, pn *[4]point, w *agg) error {
 			continue
 		}
 		for ti := 0; ti < npts; ti++ {
-			if (q == qRatio || q == qBaseChange) && ti == 0 {
+			if (q == qRatio || q == qBaseChange || q == qDrift) && ti == 0 {
 				continue
 			}
 			for _, sign := range [2]float64{1, -1} {
@@ -190,13 +204,13 @@ func (e *Evaluator) rssAgg(npts int, pn *[4]point, w *agg) {
 	for ti := 0; ti < npts; ti++ {
 		p := &pn[ti]
 		t := pts[ti].t
-		var sg, sr, sa, sb, sbc float64
+		var sg, sr, sa, sb, sbc, sd float64
 		for j := range e.params {
 			if e.params[j].kind.amplifierTerm() {
 				continue
 			}
-			g, r, c, b, bc := e.sensOf(qGain, ti, j, pn), e.sensOf(qRatio, ti, j, pn), e.sensOf(qCM, ti, j, pn), e.sensOf(qBase, ti, j, pn), e.sensOf(qBaseChange, ti, j, pn)
-			sg, sr, sa, sb, sbc = sg+g*g, sr+r*r, sa+c*c, sb+b*b, sbc+bc*bc
+			g, r, c, b, bc, d := e.sensOf(qGain, ti, j, pn), e.sensOf(qRatio, ti, j, pn), e.sensOf(qCM, ti, j, pn), e.sensOf(qBase, ti, j, pn), e.sensOf(qBaseChange, ti, j, pn), e.sensOf(qDrift, ti, j, pn)
+			sg, sr, sa, sb, sbc, sd = sg+g*g, sr+r*r, sa+c*c, sb+b*b, sbc+bc*bc, sd+d*d
 		}
 		dt := math.Abs(t - e.s.TempRef)
 		var amp2, drift2, cm2 float64
@@ -223,6 +237,7 @@ func (e *Evaluator) rssAgg(npts int, pn *[4]point, w *agg) {
 		}
 		off := math.Abs(p.base-e.target) + math.Sqrt(sb+amp2)
 		change := math.Abs(p.base-pn[0].base) + math.Sqrt(sbc+drift2)
+		drift := math.Abs(p.gain/pn[e.lifeRef()].gain-1) + math.Sqrt(sd)
 		if calOff {
 			if ti > 0 {
 				w.offset = math.Max(w.offset, change)
@@ -231,7 +246,7 @@ func (e *Evaluator) rssAgg(npts int, pn *[4]point, w *agg) {
 			w.offset = math.Max(w.offset, off)
 		}
 		if dt > 0 {
-			w.drift = math.Max(w.drift, ratio/dt)
+			w.drift = math.Max(w.drift, drift/dt)
 			w.offsetDrift = math.Max(w.offsetDrift, change/dt)
 		}
 		if e.differential {
