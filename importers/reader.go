@@ -97,8 +97,9 @@ func newReader(name string, r io.Reader, sep rune) (*Reader, error) {
 		enc = "Windows-1252"
 	}
 	shape, bestScore := sniff(head)
-	if sep != 0 {
+	if sep != 0 && sep != shape.Separator {
 		shape.Separator = sep
+		bestScore = -1 // the sniffed field counts are for another separator
 	}
 	shape.Encoding = enc
 
