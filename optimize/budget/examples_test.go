@@ -137,6 +137,7 @@ func TestCatalogExampleDesigns(t *testing.T) {
 	for _, c := range []struct{ spec, design string }{
 		{"logger-channel.yaml", "logger-design.yaml"},
 		{"current-sense.yaml", "current-sense-design.yaml"},
+		{"load-cell.yaml", "load-cell-design.yaml"},
 	} {
 		t.Run(c.design, func(t *testing.T) {
 			d := loadExampleDesign(t, c.design)

@@ -117,3 +117,65 @@ func TestGainErrorVsTemperature(t *testing.T) {
 		t.Errorf("at %g C spread %g, want 0", tc.TempC[i], tc.High[i])
 	}
 }
+
+// TestLoadLife: load-life shift counts in the gain error, calibrated or
+// not, but is not drift: two parts of 0.1 % load life and no tempco move
+// an inverting gain by up to (1.001/0.999 - 1) = 0.2 % (common practice
+// arithmetic) under worst case, with zero drift under every method.
+func TestLoadLife(t *testing.T) {
+	for _, method := range []string{spec.WorstCase, spec.RSS, spec.MonteCarlo} {
+		for _, cal := range []string{"", "calibration: {gain: true}\n"} {
+			t.Run(method+"/"+cal, func(t *testing.T) {
+				s, _ := inverting(t, "0%", "0ppm/K", "-40..85C", cal)
+				s.Analysis.Method, s.Analysis.Trials = method, 500
+				d := mustDesign(t, `family: inverting
+positions:
+  Rf: {value: 10k, tolerance: 0%, tcr: 0ppm/K, load_life: 0.1%}
+  Rg: {value: 10k, tolerance: 0%, tcr: 0ppm/K, load_life: 0.1%}
+`+idealAmp)
+				res, err := Evaluate(s, d)
+				if err != nil {
+					t.Fatal(err)
+				}
+				if res.Metrics.DriftPPMPerK > 1e-6 {
+					t.Errorf("drift %.4g ppm/K from load life alone", res.Metrics.DriftPPMPerK)
+				}
+				if method == spec.WorstCase && math.Abs(res.Metrics.GainError-(1.001/0.999-1)) > 1e-9 {
+					t.Errorf("gain error %.6g, want %.6g", res.Metrics.GainError, 1.001/0.999-1)
+				}
+				if res.Metrics.GainError < 0.001 {
+					t.Errorf("load life missing from the gain error: %.4g", res.Metrics.GainError)
+				}
+			})
+		}
+	}
+}
+
+// TestSelfHeating: a resistor dissipating P with thermal resistance θ runs
+// P θ above ambient and shifts by TCR x P θ (domain notes §3). A 1k/1k
+// divider at 10 V puts 25 mW in Rtop; at 500 K/W it warms 12.5 K, and at
+// ±100 ppm/K the ratio moves to 1k/(2k ± 1.25 ohm).
+func TestSelfHeating(t *testing.T) {
+	s := mustSpec(t, `name: t
+about: self-heating
+family: divider
+gain: 0.5
+input: {single_ended: 0..10V}
+supply: ±15V
+temperature: {range: 25..25C}
+limits: {gain_error: 1%}
+`)
+	d := mustDesign(t, `family: divider
+positions:
+  Rtop: {value: 1k, tolerance: 0%, tcr: 100ppm/K, power: 0.25W, thermal_resistance: 500K/W}
+  Rbot: {value: 1k, tolerance: 0%, tcr: 0ppm/K, power: 0.25W}
+`)
+	res, err := Evaluate(s, d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := 1 - 1e3/(2e3-1e3*100e-6*12.5)/0.5 // the worse sign: Rtop lower, gain higher
+	if math.Abs(res.Metrics.GainError-math.Abs(want)) > 1e-9 {
+		t.Errorf("self-heating gain error %.6g, want %.6g", res.Metrics.GainError, math.Abs(want))
+	}
+}
