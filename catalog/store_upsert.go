@@ -128,12 +128,16 @@ func (s *Store) upsert(ctx context.Context, b *Batch, opt UpsertOptions) (_ []Up
 	}
 	u.tx, err = s.db.BeginTxx(ctx, nil)
 	if err != nil {
-		return nil, fmt.Errorf("catalog: upsert into %s: begin: %w", where, err)
+		return nil, fmt.Errorf("catalog: upsert into %s: begin: %w: if another plumb is writing to it, try again when it has finished", where, err)
 	}
 	defer func() {
 		if err != nil {
 			u.tx.Rollback()
-			err = fmt.Errorf("catalog: upsert into %s: %w: nothing was written", where, err)
+			hint := ""
+			if msg := err.Error(); strings.Contains(msg, "database is locked") || strings.Contains(msg, "SQLITE_BUSY") {
+				hint = fmt.Sprintf("; another process held the catalog's write lock for over %s: try again when it has finished", BusyTimeout)
+			}
+			err = fmt.Errorf("catalog: upsert into %s: %w: nothing was written%s", where, err, hint)
 		}
 	}()
 	// Child rows may be flushed before their parents' chunk: check the
