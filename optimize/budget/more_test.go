@@ -179,3 +179,38 @@ positions:
 		t.Errorf("self-heating gain error %.6g, want %.6g", res.Metrics.GainError, math.Abs(want))
 	}
 }
+
+// TestInvertingNoise: the output noise of an inverting amplifier is
+// e² = 4kT Rf + 4kT Rg (Rf/Rg)² + en² (1 + Rf/Rg)² + (in Rf)² (standard
+// noise analysis, Horowitz and Hill, The Art of Electronics, 3rd ed.,
+// noise chapter; from memory), and the RMS is that density over π/2 x
+// GBW/NG.
+func TestInvertingNoise(t *testing.T) {
+	s := mustSpec(t, `name: t
+about: noise
+family: inverting
+gain: -10
+input: {single_ended: ±0.1V}
+supply: ±15V
+temperature: {range: 27..27C, reference: 27C}
+limits: {noise_density: 1uV/rtHz}
+`)
+	d := mustDesign(t, `family: inverting
+positions:
+  Rf: {value: 100k, tolerance: 0%, tcr: 0ppm/K}
+  Rg: {value: 10k, tolerance: 0%, tcr: 0ppm/K}
+amplifier: {aol: 1e12, gbw: 1MHz, noise: 10nV/rtHz, current_noise: 1pA/rtHz}
+`)
+	res, err := Evaluate(s, d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	kt4 := 4 * Boltzmann * 300.15
+	want := math.Sqrt(kt4*100e3 + kt4*10e3*100 + 1e-16*121 + 1e-24*1e10)
+	if got := res.Metrics.NoiseDensity; math.Abs(got/want-1) > 1e-6 {
+		t.Errorf("noise density %.6g, want %.6g", got, want)
+	}
+	if got, w := res.Metrics.NoiseRMSV, want*math.Sqrt(math.Pi/2*1e6/11); math.Abs(got/w-1) > 1e-6 {
+		t.Errorf("noise RMS %.6g, want %.6g", got, w)
+	}
+}
