@@ -2,6 +2,7 @@ package budget
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"plumb/catalog"
@@ -212,5 +213,36 @@ amplifier: {aol: 1e12, gbw: 1MHz, noise: 10nV/rtHz, current_noise: 1pA/rtHz}
 	}
 	if got, w := res.Metrics.NoiseRMSV, want*math.Sqrt(math.Pi/2*1e6/11); math.Abs(got/w-1) > 1e-6 {
 		t.Errorf("noise RMS %.6g, want %.6g", got, w)
+	}
+}
+
+// TestHeadroom: a non-inverting input at 4 V on ±5 V rails with an input
+// range ending 1.5 V below V+ is 0.5 V out of range; the limit fails and a
+// caution names the pin.
+func TestHeadroom(t *testing.T) {
+	s := mustSpec(t, `name: t
+about: headroom
+family: noninverting
+gain: 1
+input: {single_ended: 0..4V}
+supply: ±5V
+temperature: {range: 25..25C}
+limits: {gain_error: 1%}
+`)
+	d := mustDesign(t, `family: noninverting
+positions:
+  Rf: {value: 10, tolerance: 0%, tcr: 0ppm/K}
+  Rg: {value: 1G, tolerance: 0%, tcr: 0ppm/K}
+amplifier: {aol: 1e9, gbw: 1MHz, cm_neg: 1.5V, cm_pos: 1.5V, swing_neg: 0.1V, swing_pos: 0.1V}
+`)
+	res, err := Evaluate(s, d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(res.Metrics.HeadroomV+0.5) > 1e-6 {
+		t.Errorf("headroom %.6g V, want -0.5", res.Metrics.HeadroomV)
+	}
+	if res.Pass || !strings.Contains(strings.Join(res.Cautions, " "), "A1 + input comes beyond") {
+		t.Errorf("pass %v, cautions %q", res.Pass, res.Cautions)
 	}
 }
