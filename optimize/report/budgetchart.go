@@ -67,7 +67,10 @@ func budgetChart(method string, l budget.Limit) (Plot, Table, error) {
 	}
 	// Bars from the bottom: the total, the lumped rest, then the smallest
 	// to the largest term.
-	labels := []string{"total (" + method + ")"}
+	labels := []string{"total, summed"}
+	if quad {
+		labels[0] = "total, root-sum-square"
+	}
 	var vals plotter.Values
 	if other != nil {
 		labels, vals = append(labels, other.Name), append(vals, conv(other.Value))
@@ -92,6 +95,9 @@ func budgetChart(method string, l budget.Limit) (Plot, Table, error) {
 
 	title := fmt.Sprintf("%s: %s against %s%s (%s)", l.Name, fmtLimit(l.Name, l.Unit, l.Value), limitSide(l), fmtLimit(l.Name, l.Unit, l.Limit), l.MarginText)
 	p := newPlot(title, axis, "")
+	g := plotter.NewGrid()
+	g.Horizontal.Width, g.Vertical.Color = 0, colGreyLight
+	p.Add(g)
 	n := len(vals)
 	barW := plotBarH * 0.6
 	if n > 0 {
@@ -129,13 +135,10 @@ func budgetChart(method string, l budget.Limit) (Plot, Table, error) {
 		xmax = math.Max(xmax, v)
 	}
 	p.X.Min, p.X.Max = 0, finiteOr(xmax*1.25, 1)
-	g := plotter.NewGrid()
-	g.Horizontal.Width, g.Vertical.Color = 0, colGreyLight
-	p.Add(g)
 	svg, err := svgOf(p, plotWidth, plotBaseH+vg.Length(n+1)*plotBarH)
 	if err != nil {
 		return Plot{}, Table{}, err
 	}
-	caption := fmt.Sprintf("Error budget of %s under the %s method: blue bars are the contributors (largest at the top), the orange bar the design's figure, the dashed vermilion line the limit; terms are %s.", l.Name, method, combine)
+	caption := fmt.Sprintf("Error budget of %s under the %s method: blue bars are the contributors (largest at the top), the orange bar the design's figure (the %s total), the dashed vermilion line the limit; terms are %s.", l.Name, method, method, combine)
 	return Plot{Name: "budget-" + fileName(l.Name), Title: title, Caption: caption, SVG: svg, LimitLines: 1}, t, nil
 }

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 
 	"gonum.org/v1/plot/plotter"
 
@@ -55,8 +56,12 @@ func monteCarloSection(s *spec.Spec, res *budget.Result, mc *budget.MCSummary) (
 		names = append(names, n)
 	}
 	slices.Sort(names)
+	var per []string
 	for _, n := range names {
-		out.Summary = append(out.Summary, Row{"yield: " + n, sig(100*mc.PerLimitYield[n]) + " %"})
+		per = append(per, n+" "+sig(100*mc.PerLimitYield[n])+" %")
+	}
+	if len(per) > 0 {
+		out.Summary = append(out.Summary, Row{"yield per limit", strings.Join(per, ", ")})
 	}
 	for _, hm := range histMetrics {
 		lim, ok := specLimit(s, hm.limit)
@@ -107,6 +112,7 @@ func histogram(hm histMetric, samples []float64, lim float64, mc *budget.MCSumma
 	yield := mc.PerLimitYield[hm.limit]
 	title := fmt.Sprintf("%s: %d trials, %s %% within the limit", hm.title, mc.Trials, sig(100*yield))
 	p := newPlot(title, hm.title+" ("+unit+")", "trials per bin")
+	p.Add(plotter.NewGrid())
 	peak := 1.0
 	if len(bins) > 0 {
 		h := &plotter.Histogram{Bins: bins, FillColor: colSky, LineStyle: plotter.DefaultLineStyle}
@@ -133,7 +139,6 @@ func histogram(hm histMetric, samples []float64, lim float64, mc *budget.MCSumma
 		pad = math.Max(1e-12, 0.05*math.Abs(hi))
 	}
 	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = lo-pad, hi+pad, 0, peak*1.15
-	p.Add(plotter.NewGrid())
 	svg, err := svgOf(p, plotWidth, plotStandardH)
 	if err != nil {
 		return Plot{}, err

@@ -50,6 +50,9 @@ type Input struct {
 	Design   *spec.Design
 	// Top is the number of designs to search for (default DefaultTop).
 	Top int
+	// Combos is passed to the search (search.Options.Combos): two values in
+	// series or parallel at a position. Off by default, as in the search.
+	Combos bool
 	// Trials is the Monte Carlo trial count for the histograms when the
 	// spec's method is not Monte Carlo (default: the spec's trials, at most
 	// DefaultTrials).
@@ -221,7 +224,7 @@ func Build(ctx context.Context, in Input) (*Report, error) {
 			top = DefaultTop
 		}
 		var err error
-		res, err = search.Solve(ctx, in.Snapshot, s, search.Options{Top: top, Combos: len(s.Combos) > 0})
+		res, err = search.Solve(ctx, in.Snapshot, s, search.Options{Top: top, Combos: in.Combos})
 		if res == nil {
 			return nil, fmt.Errorf("report: searching for designs: %w", err)
 		}

@@ -637,3 +637,33 @@ func TestDeterministic(t *testing.T) {
 		t.Error("the injected clock does not stamp the report")
 	}
 }
+
+// TestMonteCarloSpec: under the Monte Carlo method the report uses the
+// budget's own run (the spec's trials and seed) and shows the yield target.
+func TestMonteCarloSpec(t *testing.T) {
+	s := loadSpec(t, "testdata/channel.yaml")
+	s.Analysis.Method, s.Analysis.Trials, s.Analysis.Yield = spec.MonteCarlo, 1500, 0.99
+	d, err := spec.LoadDesign("testdata/channel-design.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := Build(context.Background(), Input{Spec: s, Snapshot: loadSnapshot(t, "testdata/catalog.json"), Design: d, Now: fixedNow})
+	if err != nil {
+		t.Fatal(err)
+	}
+	mc := r.Designs[0].MonteCarlo
+	rows := map[string]string{}
+	for _, row := range mc.Summary {
+		rows[row.Name] = row.Value
+	}
+	if !strings.Contains(rows["trials"], "1500, seed 7") || !strings.Contains(rows["trials"], "the budget's own run") {
+		t.Errorf("trials row %q, want the budget's own 1500 trials with seed 7", rows["trials"])
+	}
+	if rows["yield target"] != "99 %" {
+		t.Errorf("yield target row %q, want 99 %%", rows["yield target"])
+	}
+	if len(mc.Plots) != 4 { // gain error, CMRR, gain drift, output offset: the limited metrics
+		t.Errorf("%d histograms, want 4", len(mc.Plots))
+	}
+	checkXML(t, "Monte Carlo report", htmlOf(t, r))
+}

@@ -56,6 +56,7 @@ func temperatureCurve(s *spec.Spec, d *spec.Design, n int) (*Plot, *budget.TempC
 	}
 	title := "Gain error against temperature, " + ref
 	p := newPlot(title, "temperature (°C)", "gain error (%)")
+	p.Add(plotter.NewGrid())
 	band, err := plotter.NewPolygon(env)
 	if err != nil {
 		return nil, nil, err
@@ -87,7 +88,7 @@ func temperatureCurve(s *spec.Spec, d *spec.Design, n int) (*Plot, *budget.TempC
 				return nil, nil, err
 			}
 			p.Add(l)
-			lab, err := plotter.NewLabels(plotter.XYLabels{XYs: plotter.XYs{{X: s.Temp.Min, Y: y}}, Labels: []string{" limit " + sig(y) + " %"}})
+			lab, err := plotter.NewLabels(plotter.XYLabels{XYs: plotter.XYs{{X: s.Temp.Min + 0.01*(s.Temp.Max-s.Temp.Min), Y: y}}, Labels: []string{" limit " + sig(y) + " %"}})
 			if err != nil {
 				return nil, nil, err
 			}
@@ -101,7 +102,6 @@ func temperatureCurve(s *spec.Spec, d *spec.Design, n int) (*Plot, *budget.TempC
 	} else {
 		caption += "; the spec sets no gain-error limit, so no limit band is drawn."
 	}
-	p.Add(plotter.NewGrid())
 	// Room above the curves and the band for the legend.
 	ylo, yhi := -100*s.Limits.GainError, 100*s.Limits.GainError
 	for i := range lo {
