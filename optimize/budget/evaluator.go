@@ -187,7 +187,7 @@ func (e *Evaluator) buildNetlist() error {
 	}
 	// A current source across every resistor carries its thermal noise.
 	for _, r := range net.Resistors {
-		net.Currents = append(net.Currents, circuit.CurrentSource{Name: "noise " + r.Name, From: r.A, To: r.B})
+		net.Currents = append(net.Currents, circuit.CurrentSource{Name: "noise_" + r.Name, From: r.A, To: r.B})
 	}
 	e.net = net
 	for i, r := range net.Resistors {
@@ -210,7 +210,7 @@ func (e *Evaluator) buildNetlist() error {
 		return fmt.Errorf("budget: %s has %d positions, more than 64", e.family, len(e.positions))
 	}
 	for i := range net.Resistors {
-		e.noiseIdx = append(e.noiseIdx, net.CurrentIndex("noise "+net.Resistors[i].Name))
+		e.noiseIdx = append(e.noiseIdx, net.CurrentIndex("noise_"+net.Resistors[i].Name))
 	}
 	for i := range net.OpAmps {
 		e.amps = append(e.amps, i)
