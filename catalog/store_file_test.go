@@ -141,6 +141,33 @@ func TestOpenMigratesOlderSchema(t *testing.T) {
 	mustUpsert(t, s, sampleBatch(), UpsertOptions{})
 }
 
+func TestOpenMigratesOnceUnderConcurrency(t *testing.T) {
+	// Two writers opening one old catalog at once: each step runs once
+	// (the version is re-read inside the write transaction), both succeed.
+	path := filepath.Join(t.TempDir(), "old.db")
+	rawSQLite(t, path, fmt.Sprintf("PRAGMA application_id = %d", ApplicationID), "PRAGMA journal_mode = WAL")
+	var wg sync.WaitGroup
+	errs := make([]error, 4)
+	for i := range errs {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			s, err := Open(path)
+			if err == nil {
+				err = s.Close()
+			}
+			errs[i] = err
+		}()
+	}
+	wg.Wait()
+	for i, err := range errs {
+		if err != nil {
+			t.Errorf("opener %d: %v", i, err)
+		}
+	}
+	checkCount(t, path, 0)
+}
+
 func TestCreateErrors(t *testing.T) {
 	dir := t.TempDir()
 	existing := filepath.Join(dir, "existing.db")
