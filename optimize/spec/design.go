@@ -1,7 +1,6 @@
 package spec
 
 import (
-	"errors"
 	"fmt"
 	"os"
 	"slices"
@@ -473,9 +472,6 @@ func deref[T any](v any) T {
 	var zero T
 	panic(fmt.Sprintf("spec: lookup returned %T, want %T", v, zero))
 }
-
-// ErrUnresolved is returned by Check when a design still has parts without figures.
-var ErrUnresolved = errors.New("spec: design has unresolved catalog parts")
 
 // Unresolved lists the references still waiting for catalog figures.
 func (d *Design) Unresolved() []string {
