@@ -52,8 +52,14 @@ func writeJSON(w io.Writer, v any) error {
 	return nil
 }
 
-// writeCSV writes a header and rows as RFC 4180 CSV.
+// writeCSV writes a header and rows as RFC 4180 CSV, no-break spaces
+// (kept for table wrapping) written as plain spaces.
 func writeCSV(w io.Writer, header []string, rows [][]string) error {
+	for _, r := range rows {
+		for i, c := range r {
+			r[i] = strings.ReplaceAll(c, nbsp, " ")
+		}
+	}
 	cw := csv.NewWriter(w)
 	if err := cw.Write(header); err != nil {
 		return fmt.Errorf("writing CSV: %w", err)

@@ -63,8 +63,8 @@ func partRows(s *catalog.Snapshot) []partRow {
 			Value:     strings.Join(vals, "/"),
 			Tolerance: n.Tolerance, TCR: n.TCR, Package: n.Package, Technology: n.Technology,
 			Offer: n.Offer,
-			Detail: joinNonEmpty(n.Maker, n.Package, n.Technology, "ratio "+units.FormatPercent(n.RatioTolerance),
-				"tracking "+units.FormatPPM(n.TCRTracking)),
+			Detail: joinNonEmpty(n.Maker, n.Package, n.Technology, keep("ratio "+units.FormatPercent(n.RatioTolerance)),
+				keep("tracking "+units.FormatPPM(n.TCRTracking))),
 		})
 	}
 	for _, a := range s.Amplifiers {
@@ -77,10 +77,10 @@ func amplifierRow(a catalog.Amplifier) partRow {
 	r := partRow{Kind: catalog.KindAmplifier, Part: a.Part, Maker: a.Maker, Value: string(a.Type), Package: a.Package, Offer: a.Offer}
 	detail := []string{
 		a.Maker, a.Package,
-		fmt.Sprintf("%d ch", a.Channels),
-		"supply " + units.Format(a.SupplyMinV, "") + "-" + units.Format(a.SupplyMaxV, "V"),
-		"Vos " + units.Format(a.VosV, "V"),
-		"GBW " + units.Format(a.GBWHz, "Hz"),
+		keep(fmt.Sprintf("%d ch", a.Channels)),
+		keep("supply " + units.Format(a.SupplyMinV, "") + "-" + units.Format(a.SupplyMaxV, "V")),
+		keep("Vos " + units.Format(a.VosV, "V")),
+		keep("GBW " + units.Format(a.GBWHz, "Hz")),
 	}
 	if a.Type == catalog.MatchedAmp {
 		r.Tolerance, r.TCR = a.GainErrorMax, a.GainDriftPPM
@@ -88,7 +88,7 @@ func amplifierRow(a catalog.Amplifier) partRow {
 		for i, g := range a.Gains {
 			gains[i] = strconv.FormatFloat(g, 'g', 4, 64)
 		}
-		detail = append(detail[:2:2], append([]string{"gain " + strings.Join(gains, "/")}, detail[2:]...)...)
+		detail = append(detail[:2:2], append([]string{keep("gain " + strings.Join(gains, "/"))}, detail[2:]...)...)
 	}
 	r.Detail = strings.Join(detail, ", ")
 	return r
@@ -152,7 +152,7 @@ func formatPower(w float64) string {
 	if w == 0 {
 		return ""
 	}
-	return units.Format(w, "W")
+	return keep(units.Format(w, "W"))
 }
 
 // formatMoney prints a price with two decimals, and up to four for

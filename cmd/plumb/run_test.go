@@ -759,3 +759,19 @@ func TestReport(t *testing.T) {
 		}
 	}
 }
+
+func TestCSVHasPlainSpaces(t *testing.T) {
+	f := fixtureFactory(t)
+	out, _, code := runPlumb(t, f, "catalog list --format csv")
+	if code != exitOK {
+		t.Fatal(code)
+	}
+	// The no-break spaces that keep values with their units in tables must
+	// not reach CSV, which scripts read.
+	if strings.Contains(out, nbsp) {
+		t.Errorf("CSV holds no-break spaces:\n%q", out)
+	}
+	if !strings.Contains(out, "Vos 150 µV") {
+		t.Errorf("CSV detail lacks the amplifier's offset:\n%s", out)
+	}
+}

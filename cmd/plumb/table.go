@@ -20,6 +20,13 @@ type table struct {
 	width int // 0: no limit
 }
 
+// nbsp is a no-break space: table cells use it to keep a value and its unit
+// on one line; it is printed as a plain space.
+const nbsp = "\u00a0"
+
+// keep joins the words of s with no-break spaces.
+func keep(s string) string { return strings.ReplaceAll(s, " ", nbsp) }
+
 // columnGap is the space between two columns.
 const columnGap = 2
 
@@ -161,7 +168,7 @@ func (t *table) writeRow(b *strings.Builder, cells []string, widths []int) {
 		for i := range cells {
 			text := ""
 			if l < len(wrapped[i]) {
-				text = wrapped[i][l]
+				text = strings.ReplaceAll(wrapped[i][l], nbsp, " ")
 			}
 			pad := widths[i] - textWidth(text)
 			if i > 0 {
@@ -190,7 +197,9 @@ func wrapText(s string, width int) []string {
 	}
 	var lines []string
 	cur := ""
-	for _, word := range strings.Fields(s) {
+	// Words break at ASCII spaces only: a no-break space (nbsp) keeps a
+	// number and its unit together.
+	for _, word := range strings.FieldsFunc(s, func(r rune) bool { return r == ' ' }) {
 		for textWidth(word) > width {
 			if cur != "" {
 				lines = append(lines, cur)
