@@ -10,8 +10,10 @@
 // common-mode gain the solved transfer from a common-mode source, offset the
 // solved output with the reference applied plus each op-amp's offset
 // voltage and bias currents through their solved transfers. The
-// small-error formulas of the trade (CMRR = (1+G)/(4t), gain error NG/A,
-// e = sqrt(4kTR)) appear only in the tests, as outside checks.
+// small-error formulas of the trade (CMRR = (1+G)/(4t), gain error NG/A)
+// appear only in the tests, as outside checks. Noise: each resistor's
+// thermal current sqrt(4kT/R) and the amplifier's noise sources are carried
+// to the output by solved transfers.
 //
 // Resistor model: R = Rnom (1 + δ + λ)(1 + α (T - Tref + P θ)) with δ within
 // the tolerance, λ within the load-life figure, α within the TCR box and
