@@ -107,13 +107,13 @@ func parseFraction(s string) (float64, error) {
 	u := unit{"fraction", nil, false, false, "0.05%, ±0.1% or 500ppm"}
 	t := strings.TrimPrefix(strings.TrimSpace(s), "±")
 	t = strings.ReplaceAll(t, " ", "")
-	for suf, f := range map[string]float64{"%": 1e-2, "ppm": 1e-6} {
+	for suf, div := range map[string]float64{"%": 1e2, "ppm": 1e6} {
 		if strings.HasSuffix(strings.ToLower(t), suf) {
 			v, err := strconv.ParseFloat(t[:len(t)-len(suf)], 64)
 			if err != nil {
 				return 0, &quantityError{s, u, "is not a number"}
 			}
-			return v * f, nil
+			return v / div, nil
 		}
 	}
 	if _, err := strconv.ParseFloat(t, 64); err == nil {
@@ -133,7 +133,7 @@ func parsePPMPerK(s string) (float64, error) {
 			if err != nil {
 				return 0, &quantityError{s, u, "is not a number"}
 			}
-			return v * 1e-6, nil
+			return v / 1e6, nil
 		}
 	}
 	if _, err := strconv.ParseFloat(t, 64); err == nil {
