@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 )
 
@@ -57,6 +58,21 @@ func mdRows(b *bytes.Buffer, rows []Row) {
 	mdTable(b, t)
 }
 
+// mdList writes a bulleted list under an optional heading, each item
+// escaped and wrapped in mark (e.g. "**"); nothing for an empty list.
+func mdList(b *bytes.Buffer, heading string, items []string, mark string) {
+	if len(items) == 0 {
+		return
+	}
+	if heading != "" {
+		b.WriteString(heading + "\n\n")
+	}
+	for _, s := range items {
+		b.WriteString("- " + mark + md(s) + mark + "\n")
+	}
+	b.WriteString("\n")
+}
+
 // WriteMarkdown writes the report as dir/name.md with every plot as
 // dir/name-PLOT.svg beside it, linked by relative paths. All files are
 // written under temporary names first and renamed at the end, so a failure
@@ -105,12 +121,7 @@ func (r *Report) WriteMarkdown(dir, name string) (err error) {
 			verdict = "**Fails the exact budget.**"
 		}
 		fmt.Fprintf(&b, "Family %s; %s per stage, %s for the build; binding limit: **%s**. %s\n\n", md(d.Family), md(d.UnitCost), md(d.TotalCost), md(d.Binding), verdict)
-		for _, s := range d.Reasons {
-			fmt.Fprintf(&b, "- %s\n", md(s))
-		}
-		if len(d.Reasons) > 0 {
-			b.WriteString("\n")
-		}
+		mdList(&b, "", d.Reasons, "")
 		b.WriteString("### Limits and margins\n\n")
 		mdTable(&b, d.Limits)
 		if d.WorstCorner != "" {
@@ -135,20 +146,8 @@ func (r *Report) WriteMarkdown(dir, name string) (err error) {
 		b.WriteString("### Parts list\n\n")
 		mdTable(&b, d.Parts)
 		mdRows(&b, d.PartsTotals)
-		if len(d.Cautions) > 0 {
-			b.WriteString("### Cautions for this design\n\n")
-			for _, c := range d.Cautions {
-				fmt.Fprintf(&b, "- %s\n", md(c))
-			}
-			b.WriteString("\n")
-		}
-		if len(d.Notes) > 0 {
-			b.WriteString("### Budget notes\n\n")
-			for _, n := range d.Notes {
-				fmt.Fprintf(&b, "- %s\n", md(n))
-			}
-			b.WriteString("\n")
-		}
+		mdList(&b, "### Cautions for this design", d.Cautions, "")
+		mdList(&b, "### Budget notes", d.Notes, "")
 	}
 	b.WriteString("## Near misses\n\n")
 	if len(r.NearMisses) == 0 {
@@ -161,21 +160,12 @@ func (r *Report) WriteMarkdown(dir, name string) (err error) {
 		mdTable(&b, t)
 	}
 	b.WriteString("## Cautions\n\n")
-	for _, s := range r.Safety {
-		fmt.Fprintf(&b, "- **%s**\n", md(s))
-	}
-	for _, s := range r.Cautions {
-		fmt.Fprintf(&b, "- %s\n", md(s))
-	}
 	if len(r.Safety)+len(r.Cautions) == 0 {
-		b.WriteString("None raised.\n")
+		b.WriteString("None raised.\n\n")
 	}
-	b.WriteString("\n## Notes\n\n")
-	for _, n := range r.Notes {
-		fmt.Fprintf(&b, "- %s\n", md(n))
-	}
-	b.WriteString("- Margins: limit over value for a maximum, value over limit for a minimum (linear ratio for dB); above 1 passes.\n")
-	b.WriteString("- Plots use the Okabe–Ito colour-blind-safe palette; limit lines are dashed vermilion.\n\n")
+	mdList(&b, "", r.Safety, "**")
+	mdList(&b, "", r.Cautions, "")
+	mdList(&b, "## Notes", append(slices.Clip(r.Notes), fixedNotes...), "")
 	fmt.Fprintf(&b, "*%s*\n", md(r.Disclaimer))
 	put(name+".md", b.Bytes())
 	return writeAll(dir, order, files)

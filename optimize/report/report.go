@@ -274,6 +274,15 @@ const disclaimer = "plumb is a selection aid, not a safety approval. Figures com
 	"check them against the datasheets. Where voltages are hazardous, creepage, clearance, insulation and ratings must be checked " +
 	"against the applicable standards (IEC 61010-1, IEC 62368-1) and local codes by a qualified, licensed person."
 
+// fixedNotes close the notes of every report.
+var fixedNotes = []string{
+	"Margins: limit over value for a maximum, value over limit for a minimum (linear ratio for dB); above 1 passes.",
+	"Plots use the Okabe–Ito colour-blind-safe palette; limit lines are dashed vermilion.",
+}
+
+// FixedNotes are the notes printed on every report after the search's.
+func (r *Report) FixedNotes() []string { return fixedNotes }
+
 // splitCautions moves hazardous-voltage cautions to the front list and
 // drops exact repeats (every design of one spec carries the same one).
 func splitCautions(all []string) (safety, other []string) {
