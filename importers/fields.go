@@ -76,7 +76,8 @@ var (
 var fieldTable = []fieldInfo{
 	{FieldPart, part, []string{"part number", "mpn", "mfr part number", "mfr part", "mfr pn", "mfg part number",
 		"manufacturer part number", "manufacturer part no", "manufacturer part", "part no", "part", "pn",
-		"order code", "mfr part no", "manufacturer pn", "model", "part num"}},
+		"order code", "mfr part no", "manufacturer pn", "model", "part num", "manufacturer product number",
+		"mfr product number", "product number", "mfr no", "mfr number", "manufacturer number", "mfg part no", "mfg pn"}},
 	{fieldIgnore, part, []string{"supplier part number", "distributor part number", "vendor part number",
 		"internal part number", "stock code", "order number", "sku", "supplier part", "distributor part",
 		"customer part number", "cpn", "datasheet", "url", "link", "image", "rohs", "lead free", "status", "part status"}},

@@ -116,7 +116,8 @@ func analyseHeader(h string) headerInfo {
 			// "Unit Price (1,000)": a quantity, kept for break detection.
 			return " " + inner + " "
 		default:
-			hi.unit = unitWord(inner)
+			// A tolerance is symmetric: "(±%)" is the unit "%".
+			hi.unit = unitWord(strings.TrimSpace(strings.TrimPrefix(strings.TrimPrefix(inner, "±"), "+/-")))
 		}
 		return " "
 	})

@@ -43,6 +43,15 @@ func TestGuessMapping(t *testing.T) {
 			want:   map[Field]string{FieldPart: "Manufacturer Part Number", FieldResistance: "Resistance", FieldTolerance: "Tolerance"},
 		},
 		{
+			name: "catalogue words",
+			header: []string{"Manufacturer Product Number", "Mfr.", "Resistance Value", "Tolerance (±%)", "Temp. Coefficient (±ppm/°C)",
+				"Power Rating (W)", "Case Code (Imperial)", "Stock Qty", "Unit Price (EUR)", "Product Series", "Operating Temperature", "Lead Time"},
+			kind: catalog.KindResistor,
+			want: map[Field]string{FieldPart: "Manufacturer Product Number", FieldMaker: "Mfr.", FieldResistance: "Resistance Value",
+				FieldTolerance: "Tolerance (±%)", FieldTCR: "Temp. Coefficient (±ppm/°C)", FieldPower: "Power Rating (W)",
+				FieldPackage: "Case Code (Imperial)", FieldStock: "Stock Qty", FieldPrice: "Unit Price (EUR)", FieldLine: "Product Series"},
+		},
+		{
 			name:   "network words",
 			header: []string{"Part Number", "Number of Resistors", "Resistance", "Ratio Tolerance", "TCR Tracking", "TCR"},
 			kind:   catalog.KindNetwork,

@@ -472,3 +472,28 @@ func TestToleranceForms(t *testing.T) {
 		t.Error("an unknown letter must be refused")
 	}
 }
+
+func TestHeaderUnits(t *testing.T) {
+	f := filepath.Join(t.TempDir(), "units.csv")
+	text := "Part Number,Manufacturer,Resistance (Ω),Tolerance (±%),TCR (±ppm/°C),Power (rating),Package,Technology\n" +
+		"X-1,Orrin Resistive,4990,0.1,25,0.125,0603,thin film\n"
+	if err := os.WriteFile(f, []byte(text), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	b, rep := mustRead(t, f)
+	if len(b.Resistors) != 1 {
+		t.Fatalf("no part: %s", problemText(rep))
+	}
+	r := b.Resistors[0]
+	if r.ValueOhm != 4990 || r.Tolerance != 0.001 || r.TCR != 25 || r.PowerW != 0.125 {
+		t.Errorf("got %g Ω %g %g ppm/K %g W", r.ValueOhm, r.Tolerance, r.TCR, r.PowerW)
+	}
+	// "(rating)" is no unit: the bare number is read, and the report says so.
+	var doubt bool
+	for _, p := range rep.Problems {
+		doubt = doubt || p.Severity == Doubt && p.Column == "Power (rating)" && p.Raw == "0.125"
+	}
+	if !doubt {
+		t.Errorf("no doubt for the unreadable header unit: %s", problemText(rep))
+	}
+}

@@ -122,12 +122,16 @@ func (r *rowReader) value(f Field, q quantity) (v float64, ok, typ bool, err err
 	if !present {
 		return 0, false, false, nil
 	}
-	v, typ, err = readValue(s, r.unitHint(f), r.decimalComma, q)
+	hint := r.unitHint(f)
+	v, typ, ignored, err := readValueHint(s, hint, r.decimalComma, q)
 	if errors.Is(err, units.ErrBlank) {
 		return 0, false, false, nil
 	}
 	if err != nil {
 		return 0, false, false, r.skip(f, s, fmt.Errorf("%w: %s", ErrBadValue, unitErr(err)))
+	}
+	if ignored {
+		r.note(Doubt, f, s, fmt.Errorf("the header's unit %q does not read as a unit of this figure: the bare number was read as %g (SI); check it", hint, v))
 	}
 	if i, ok := r.cols[f]; ok && r.info[i].typical {
 		typ = true

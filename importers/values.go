@@ -66,6 +66,13 @@ func withDecimalComma(s string) string {
 // from the header for a bare number ("0.5" under "Vos (mV)"), and a "typ"
 // mark, which it strips and reports.
 func readValue(raw, unitHint string, decimalComma bool, q quantity) (v float64, typical bool, err error) {
+	v, typical, _, err = readValueHint(raw, unitHint, decimalComma, q)
+	return v, typical, err
+}
+
+// readValueHint is readValue that also says when the header's unit could
+// not be read with the number and the bare number was taken instead.
+func readValueHint(raw, unitHint string, decimalComma bool, q quantity) (v float64, typical, hintIgnored bool, err error) {
 	s := cleanCell(raw)
 	if hasTyp(s) && typMarkRE.MatchString(s) {
 		typical = true
@@ -75,16 +82,23 @@ func readValue(raw, unitHint string, decimalComma bool, q quantity) (v float64, 
 		s = withDecimalComma(s)
 	}
 	if unitHint != "" && bareNumberRE.MatchString(s) {
-		s += " " + unitHint
+		if v, err = q(s + " " + unitHint); err == nil {
+			return finite(raw, v, typical, false)
+		}
+		hintIgnored = true
 	}
 	v, err = q(s)
 	if err != nil {
-		return 0, typical, err
+		return 0, typical, false, err
 	}
+	return finite(raw, v, typical, hintIgnored)
+}
+
+func finite(raw string, v float64, typical, hintIgnored bool) (float64, bool, bool, error) {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return 0, typical, fmt.Errorf("%w: %q is not a finite number", ErrBadValue, raw)
+		return 0, typical, hintIgnored, fmt.Errorf("%w: %q is not a finite number", ErrBadValue, raw)
 	}
-	return v, typical, nil
+	return v, typical, hintIgnored, nil
 }
 
 // Adapters for figures the shared parser reads in another form.
