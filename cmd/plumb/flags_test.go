@@ -2,9 +2,11 @@ package main
 
 import (
 	"errors"
+	"fmt"
 	"io"
 	"path/filepath"
 	"reflect"
+	"strings"
 	"testing"
 
 	"github.com/spf13/cobra"
@@ -228,4 +230,83 @@ func TestPartArgumentFlags(t *testing.T) {
 			checkParse(t, err, tt.wantUsage, got, tt.want)
 		})
 	}
+}
+
+func TestSearchCommandFlags(t *testing.T) {
+	tests := []struct {
+		name      string
+		env       map[string]string
+		build     func(f *Factory, got *string) *cobra.Command
+		args      []string
+		want      string
+		wantUsage bool
+	}{
+		{name: "solve defaults", args: []string{"s.yaml"}, want: "s.yaml top=5 combos=false explain=0 bom= format=table", build: solveProbe},
+		{name: "solve every flag", args: []string{"s.yaml", "--top", "3", "--combos", "--explain", "2", "--bom", "b.csv", "--format", "csv"},
+			want: "s.yaml top=3 combos=true explain=2 bom=b.csv format=csv", build: solveProbe},
+		{name: "solve explain beyond top", args: []string{"s.yaml", "--top", "2", "--explain", "3"}, wantUsage: true, build: solveProbe},
+		{name: "solve top 0", args: []string{"s.yaml", "--top", "0"}, wantUsage: true, build: solveProbe},
+		{name: "solve top not a number", args: []string{"s.yaml", "--top", "many"}, wantUsage: true, build: solveProbe},
+		{name: "solve needs a spec", wantUsage: true, build: solveProbe},
+		{name: "check", args: []string{"s.yaml", "--design", "d.yaml", "--format", "json"}, want: "s.yaml d.yaml json", build: func(f *Factory, got *string) *cobra.Command {
+			return newCheckCmd(f, func(o *checkOptions) error { *got = o.Spec + " " + o.Design + " " + o.Format; return nil })
+		}},
+		{name: "check needs --design", args: []string{"s.yaml"}, wantUsage: true, build: func(f *Factory, got *string) *cobra.Command {
+			return newCheckCmd(f, func(o *checkOptions) error { return nil })
+		}},
+		{name: "bom", args: []string{"d.yaml", "--spec", "s.yaml", "-o", "b.csv", "--format", "csv"}, want: "d.yaml s.yaml b.csv csv", build: func(f *Factory, got *string) *cobra.Command {
+			return newBOMCmd(f, func(o *bomOptions) error { *got = o.Design + " " + o.Spec + " " + o.Output + " " + o.Format; return nil })
+		}},
+		{name: "import", args: []string{"a.csv", "b.csv", "--kind", "network", "--mapping", "m", "--save-mapping", "n", "--dry-run", "--source", "list", "--report", "r.csv"},
+			want: "[a.csv b.csv] network m n true list r.csv", build: importProbe},
+		{name: "import auto kind", args: []string{"a.csv"}, want: "[a.csv]    false", build: importProbe},
+		{name: "import needs a file", wantUsage: true, build: importProbe},
+		{name: "import unknown kind", args: []string{"a.csv", "--kind", "capacitor"}, wantUsage: true, build: importProbe},
+		{name: "report", args: []string{"s.yaml", "-o", "r.html", "--top", "2"}, want: "s.yaml r.html 2", build: reportProbe},
+		{name: "report takes the configured top, at most 3", env: map[string]string{"PLUMB_TOP": "8"}, args: []string{"s.yaml", "-o", "r.md"}, want: "s.yaml r.md 3", build: reportProbe},
+		{name: "report needs -o", args: []string{"s.yaml"}, wantUsage: true, build: reportProbe},
+		{name: "demo json", args: []string{"--format", "json"}, want: "json", build: func(f *Factory, got *string) *cobra.Command {
+			return newDemoCmd(f, func(o *demoOptions) error { *got = o.Format; return nil })
+		}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			clearPlumbEnv(t)
+			for k, v := range tt.env {
+				t.Setenv(k, v)
+			}
+			f, _, _ := testFactory(t)
+			if len(tt.env) > 0 {
+				s, err := loadSettings(configSource{ConfigDir: f.ConfigDir}, nil)
+				if err != nil {
+					t.Fatal(err)
+				}
+				f.settings = s
+			}
+			var got string
+			err := parseOnly(t, tt.build(f, &got), tt.args)
+			checkParse(t, err, tt.wantUsage, got, tt.want)
+		})
+	}
+}
+
+func solveProbe(f *Factory, got *string) *cobra.Command {
+	return newSolveCmd(f, func(o *solveOptions) error {
+		*got = fmt.Sprintf("%s top=%d combos=%v explain=%d bom=%s format=%s", o.Spec, o.Top, o.Combos, o.Explain, o.BOM, o.Format)
+		return nil
+	})
+}
+
+func importProbe(f *Factory, got *string) *cobra.Command {
+	return newImportCmd(f, func(o *importOptions) error {
+		*got = strings.TrimSpace(fmt.Sprintf("%v %s %s %s %v %s %s", o.Files, o.Kind, o.Mapping, o.SaveMapping, o.DryRun, o.Source, o.Report))
+		return nil
+	})
+}
+
+func reportProbe(f *Factory, got *string) *cobra.Command {
+	return newReportCmd(f, func(o *reportOptions) error {
+		*got = fmt.Sprintf("%s %s %d", o.Spec, o.Output, o.Top)
+		return nil
+	})
 }

@@ -139,7 +139,7 @@ func writeRoffFlags(b *strings.Builder, title string, fs *pflag.FlagSet) {
 			head += " \\fI" + roffEscape(varname) + "\\fP"
 		}
 		b.WriteString(head + "\n")
-		if fl.DefValue != "" && fl.DefValue != "false" && fl.DefValue != "[]" {
+		if fl.DefValue != "" && fl.DefValue != "false" && fl.DefValue != "[]" && fl.DefValue != "0" {
 			usage += " (default " + fl.DefValue + ")"
 		}
 		b.WriteString(roffLine(usage) + "\n")

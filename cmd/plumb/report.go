@@ -70,7 +70,7 @@ and a failed report leaves no partial files.`,
 	}
 	fl := cmd.Flags()
 	fl.StringVar(&opts.Design, "design", "", "report on this `DESIGN` (file or example name) instead of searching")
-	fl.IntVar(&opts.Top, keyTop, report.DefaultTop, "number of designs searched for and compared")
+	fl.IntVar(&opts.Top, keyTop, 0, "number of designs searched for and compared (default: the configured top, at most 3)")
 	fl.StringVarP(&opts.Output, "output", "o", "", "report `FILE`: .html or .md")
 	fl.BoolVar(&opts.Force, "force", false, "replace an existing report")
 	return cmd
