@@ -255,7 +255,10 @@ func TestSearchCommandFlags(t *testing.T) {
 			return newCheckCmd(f, func(o *checkOptions) error { return nil })
 		}},
 		{name: "bom", args: []string{"d.yaml", "--spec", "s.yaml", "-o", "b.csv", "--format", "csv"}, want: "d.yaml s.yaml b.csv csv", build: func(f *Factory, got *string) *cobra.Command {
-			return newBOMCmd(f, func(o *bomOptions) error { *got = o.Design + " " + o.Spec + " " + o.Output + " " + o.Format; return nil })
+			return newBOMCmd(f, func(o *bomOptions) error {
+				*got = o.Design + " " + o.Spec + " " + o.Output + " " + o.Format
+				return nil
+			})
 		}},
 		{name: "import", args: []string{"a.csv", "b.csv", "--kind", "network", "--mapping", "m", "--save-mapping", "n", "--dry-run", "--source", "list", "--report", "r.csv"},
 			want: "[a.csv b.csv] network m n true list r.csv", build: importProbe},
