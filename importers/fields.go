@@ -53,6 +53,11 @@ const (
 	FieldAol        Field = "aol"
 	FieldRailToRail Field = "rail_to_rail"
 	FieldIq         Field = "iq"
+	// Amplifiers with matched resistors inside (difference and
+	// instrumentation amplifiers with fixed gains).
+	FieldGains     Field = "gains"
+	FieldGainError Field = "gain_error"
+	FieldGainDrift Field = "gain_drift"
 )
 
 // fieldInfo holds the trade words for a field and the kinds it belongs to.
@@ -134,6 +139,9 @@ var fieldTable = []fieldInfo{
 	{FieldAol, amp, []string{"open loop gain", "aol", "avol", "large signal voltage gain", "open loop voltage gain",
 		"gain open loop", "avo"}},
 	{FieldRailToRail, amp, []string{"rail to rail", "rrio", "rail to rail io", "output type", "rail rail", "rail to rail type"}},
+	{FieldGains, amp, []string{"gain", "gains", "fixed gain", "fixed gains", "gain options", "gain settings", "available gains"}},
+	{FieldGainError, amp, []string{"gain error", "gain error max", "gain accuracy", "gain tolerance"}},
+	{FieldGainDrift, amp, []string{"gain drift", "gain tempco", "gain error drift", "gain temperature coefficient"}},
 	{FieldIq, amp, []string{"quiescent current", "iq", "supply current", "supply current per channel", "current supply",
 		"quiescent current per channel", "iq per channel"}},
 }

@@ -497,3 +497,17 @@ func TestHeaderUnits(t *testing.T) {
 		t.Errorf("no doubt for the unreadable header unit: %s", problemText(rep))
 	}
 }
+
+func TestMatchedAmplifier(t *testing.T) {
+	b, rep := mustRead(t, "testdata/amplifiers_matched.csv")
+	if len(b.Amplifiers) != 1 {
+		t.Fatalf("no amplifier: %s", problemText(rep))
+	}
+	a := b.Amplifiers[0]
+	// 86 dB CMRR and ±0.02 % gain error are read as written; 110 dB open-loop
+	// gain is 10^(110/20) V/V (definition of the decibel).
+	if a.Type != catalog.MatchedAmp || !reflect.DeepEqual(a.Gains, []float64{1, 2, 0.5}) || a.GainErrorMax != 0.0002 ||
+		a.GainDriftPPM != 1 || a.CMRRdB != 86 || math.Abs(a.AolVV-math.Pow(10, 5.5)) > 1e-6 {
+		t.Errorf("got %+v", a)
+	}
+}

@@ -569,6 +569,9 @@ func (r *rowReader) amplifier(part string, o catalog.Offer) (*catalog.Amplifier,
 		}
 		a.Channels = int(v)
 	}
+	if err := r.matched(a); err != nil {
+		return nil, err
+	}
 	in, out := false, false
 	if s, ok := r.raw(FieldRailToRail); ok {
 		var err error
@@ -590,4 +593,39 @@ func (r *rowReader) amplifier(part string, o catalog.Offer) (*catalog.Amplifier,
 		r.note(Doubt, FieldRailToRail, s, fmt.Errorf("not rail-to-rail or not stated: %s taken as %g V inside each rail; check the datasheet", strings.Join(assumed, " and "), defaultHeadroomV))
 	}
 	return a, nil
+}
+
+// matched reads the fixed gains of an amplifier with matched resistors
+// inside ("1, 2, 5, 10" or "1/10/100", V/V), its gain error (a tolerance)
+// and gain drift (ppm/K); a row with gains is such an amplifier.
+func (r *rowReader) matched(a *catalog.Amplifier) error {
+	s, ok := r.raw(FieldGains)
+	if !ok {
+		return nil
+	}
+	if r.decimalComma {
+		s = withDecimalComma(s)
+	}
+	for _, g := range strings.FieldsFunc(s, func(c rune) bool { return c == ',' || c == '/' || c == ';' || c == ' ' || c == '|' }) {
+		g = strings.TrimSuffix(strings.TrimSuffix(strings.ToLower(g), "v/v"), "x")
+		v, err := parseNumber(g, false)
+		if err != nil || !(v > 0) {
+			return r.skip(FieldGains, s, fmt.Errorf("%w: gain %q is not a positive number (V/V)", ErrBadValue, g))
+		}
+		a.Gains = append(a.Gains, v)
+	}
+	a.Type = catalog.MatchedAmp
+	var err error
+	if a.GainErrorMax, err = r.need(FieldGainError, parseTolerance, "gain error (the matched resistors' worst case)"); err != nil {
+		return err
+	}
+	v, ok, _, err := r.value(FieldGainDrift, units.ParsePPM)
+	if err != nil {
+		return err
+	}
+	if !ok {
+		r.note(Doubt, FieldGainDrift, "", errors.New("no gain drift: stored as 0, the budget leaves it out"))
+	}
+	a.GainDriftPPM = math.Abs(v)
+	return nil
 }
