@@ -90,7 +90,7 @@ func runCatalogInit(ctx context.Context, opts *catalogInitOptions) error {
 			return fmt.Errorf("closing catalog %s: %w", opts.Path, err)
 		}
 		if !opts.Quiet {
-			fmt.Fprintf(opts.IO.ErrOut, "created empty catalog %s: add parts with `plumb --catalog %s import FILE`\n", opts.Path, opts.Path)
+			fmt.Fprintf(opts.IO.ErrOut, "created empty catalog %s: add parts with `plumb --catalog %s import FILE`; %s\n", opts.Path, opts.Path, useHint(opts.Path))
 		}
 		return nil
 	}
@@ -99,7 +99,7 @@ func runCatalogInit(ctx context.Context, opts *catalogInitOptions) error {
 		return err
 	}
 	if !opts.Quiet {
-		fmt.Fprintf(opts.IO.ErrOut, "created catalog %s with %d demo parts: use it with --catalog %s\n", opts.Path, n, opts.Path)
+		fmt.Fprintf(opts.IO.ErrOut, "created catalog %s with %d demo parts; %s\n", opts.Path, n, useHint(opts.Path))
 	}
 	return nil
 }
@@ -142,4 +142,9 @@ func initError(path string, err error) error {
 		return fmt.Errorf("catalog %s already exists: add --force to replace it (its parts are lost): %w", path, err)
 	}
 	return fmt.Errorf("creating catalog %s: %w", path, err)
+}
+
+// useHint says how to make plumb use a catalog file by default.
+func useHint(path string) string {
+	return fmt.Sprintf("to use it without --catalog, set PLUMB_CATALOG=%s or put `catalog: %s` in plumb.yaml", path, path)
 }
