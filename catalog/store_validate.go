@@ -106,7 +106,7 @@ func (c *checker) offer(o *Offer) {
 			c.fail("price_breaks", "two breaks at quantity %d: keep one", b.MinQty)
 		case !(b.UnitPrice >= 0) || math.IsInf(b.UnitPrice, 0):
 			c.fail("price_breaks", "unit price %s at quantity %d is not a price", formatFloat(b.UnitPrice), b.MinQty)
-		case len(b.Currency) != 3 || strings.ToUpper(b.Currency) != b.Currency:
+		case !currencyCode(b.Currency):
 			c.fail("price_breaks", "currency %q at quantity %d is not a three-letter ISO 4217 code such as USD", b.Currency, b.MinQty)
 		}
 	}
@@ -262,4 +262,18 @@ func checkAll[T any](kind Kind, parts []T, check func(int, *T) error, part func(
 		seen[p] = i
 	}
 	return nil
+}
+
+// currencyCode reports whether s has the shape of an ISO 4217 code: three
+// letters A-Z.
+func currencyCode(s string) bool {
+	if len(s) != 3 {
+		return false
+	}
+	for i := range 3 {
+		if s[i] < 'A' || s[i] > 'Z' {
+			return false
+		}
+	}
+	return true
 }

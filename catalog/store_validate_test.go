@@ -39,6 +39,7 @@ func TestValidate(t *testing.T) {
 		{"negative minimum order", func(b *Snapshot) { b.Resistors[0].MinOrder = -1 }, []string{"min_order"}},
 		{"break at zero pieces", func(b *Snapshot) { b.Resistors[0].PriceBreaks[0].MinQty = 0 }, []string{"price_breaks", "below 1"}},
 		{"two breaks at one quantity", func(b *Snapshot) { b.Resistors[0].PriceBreaks[1].MinQty = 100 }, []string{"two breaks at quantity 100"}},
+		{"currency not letters", func(b *Snapshot) { b.Resistors[0].PriceBreaks[0].Currency = "U$D" }, []string{"ISO 4217"}},
 		{"negative price", func(b *Snapshot) { b.Resistors[0].PriceBreaks[1].UnitPrice = -1 }, []string{"not a price"}},
 		{"duplicate series", func(b *Snapshot) { b.ResistorSeries = append(b.ResistorSeries, b.ResistorSeries[0]) }, []string{"series TS-TF01", "twice"}},
 	}
