@@ -64,7 +64,6 @@ func (e *Evaluator) MonteCarlo(trials int, seed uint64, samples bool) (*MCSummar
 	var pass [NumLimits]int
 	allPass := 0
 	var a agg
-	var sc Score
 	for t := 0; t < trials; t++ {
 		for j := range e.x {
 			e.x[j] = draw(r, normal, s.Analysis.Sigmas)
@@ -74,17 +73,10 @@ func (e *Evaluator) MonteCarlo(trials int, seed uint64, samples bool) (*MCSummar
 			return nil, err
 		}
 		cols[0][t], cols[1][t], cols[2][t], cols[3][t], cols[4][t] = a.gainSigned, 20*math.Log10(a.cmrr), a.drift*1e6, a.offset, a.offsetDrift
-		m.GainError, m.GainErrorInitial, m.DriftPPMPerK = a.gainErr, a.gainErrInit, a.drift*1e6
-		m.OutputOffsetV, m.OffsetDriftVPerK = a.offset, a.offsetDrift
-		if e.differential {
-			m.CMRRdB, m.CMRRResistorsdB = 20*math.Log10(a.cmrr), 20*math.Log10(a.cmrrRes)
-		}
-		sc = nominal
-		e.judgeVarying(&m, &sc)
 		ok := true
-		for i := 0; i < NumLimits; i++ {
-			if sc.Checked[i] {
-				if sc.Pass[i] {
+		for i, passed := range e.trialPass(&a, &nominal) {
+			if nominal.Checked[i] {
+				if passed {
 					pass[i]++
 				} else {
 					ok = false
@@ -117,36 +109,80 @@ func (e *Evaluator) MonteCarlo(trials int, seed uint64, samples bool) (*MCSummar
 	return sum, nil
 }
 
-// judgeVarying re-checks only the limits that vary between trials, keeping
-// the nominal verdicts of the others in out.
-func (e *Evaluator) judgeVarying(m *Metrics, out *Score) {
-	var v Score
-	v.Binding = -1
-	e.judge(m, &v)
-	for _, i := range [5]int{IGainError, ICMRR, IGainDrift, IOutputOffset, IOffsetDrift} {
-		out.Checked[i], out.Pass[i], out.Margin[i] = v.Checked[i], v.Pass[i], v.Margin[i]
-	}
+// trialPass checks one trial's varying metrics against their limits and
+// keeps the nominal verdicts of the others (noise, bandwidth, headroom,
+// ratings do not vary between trials).
+func (e *Evaluator) trialPass(a *agg, nominal *Score) [NumLimits]bool {
+	p := nominal.Pass
+	l := &e.s.Limits
+	p[IGainError] = a.gainErr <= l.GainError
+	p[ICMRR] = 20*math.Log10(a.cmrr) >= l.CMRRdB
+	p[IGainDrift] = a.drift <= l.GainDrift
+	p[IOutputOffset] = a.offset <= l.OutputOffsetV
+	p[IOffsetDrift] = a.offsetDrift <= l.OffsetDriftVK
+	return p
 }
 
-// percentiles sorts a copy of v and returns its p0.135, p50 and p99.865
-// points (the ±3 sigma points of a normal distribution, nearest rank),
-// mean, standard deviation, minimum and maximum.
+// percentiles returns the p0.135, p50 and p99.865 points of v (the ±3
+// sigma points of a normal distribution, nearest rank), its mean, standard
+// deviation (Welford's update), minimum and maximum. The order statistics
+// come from quickselect on a copy, not a full sort.
 func percentiles(v []float64) Percentiles {
 	s := slices.Clone(v)
-	slices.Sort(s)
-	at := func(p float64) float64 {
-		i := int(math.Round(p * float64(len(s)-1)))
-		return s[i]
-	}
+	at := func(p float64) float64 { return selectK(s, int(math.Round(p*float64(len(s)-1)))) }
 	var mean, m2 float64
-	for i, x := range s {
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for i, x := range v {
 		d := x - mean
 		mean += d / float64(i+1)
 		m2 += d * (x - mean)
+		lo, hi = math.Min(lo, x), math.Max(hi, x)
 	}
 	sd := 0.0
-	if len(s) > 1 {
-		sd = math.Sqrt(m2 / float64(len(s)-1))
+	if len(v) > 1 {
+		sd = math.Sqrt(m2 / float64(len(v)-1))
 	}
-	return Percentiles{P0135: at(0.00135), P50: at(0.5), P99865: at(0.99865), Mean: mean, StdDev: sd, Min: s[0], Max: s[len(s)-1]}
+	return Percentiles{P0135: at(0.00135), P50: at(0.5), P99865: at(0.99865), Mean: mean, StdDev: sd, Min: lo, Max: hi}
+}
+
+// selectK reorders s so that s[k] is the k-th smallest and returns it
+// (Hoare's quickselect with a median-of-three pivot).
+func selectK(s []float64, k int) float64 {
+	lo, hi := 0, len(s)-1
+	for lo < hi {
+		mid := lo + (hi-lo)/2
+		if s[mid] < s[lo] {
+			s[mid], s[lo] = s[lo], s[mid]
+		}
+		if s[hi] < s[lo] {
+			s[hi], s[lo] = s[lo], s[hi]
+		}
+		if s[hi] < s[mid] {
+			s[hi], s[mid] = s[mid], s[hi]
+		}
+		pivot := s[mid]
+		i, j := lo, hi
+		for i <= j {
+			for s[i] < pivot {
+				i++
+			}
+			for s[j] > pivot {
+				j--
+			}
+			if i <= j {
+				s[i], s[j] = s[j], s[i]
+				i++
+				j--
+			}
+		}
+		switch {
+		case k <= j:
+			hi = j
+		case k >= i:
+			lo = i
+		default:
+			return s[k]
+		}
+	}
+	return s[k]
 }

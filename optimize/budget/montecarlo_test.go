@@ -2,6 +2,8 @@ package budget
 
 import (
 	"math"
+	"math/rand/v2"
+	"slices"
 	"testing"
 
 	"plumb/optimize/spec"
@@ -114,5 +116,24 @@ func TestNetworkCorrelation(t *testing.T) {
 	got := math.Pow(10, res.Metrics.CMRRdB/20)
 	if math.Abs(got/5000-1) > 0.01 {
 		t.Errorf("network CMRR %.5g, want about 5000 ((1+G)/(2r))", got)
+	}
+}
+
+// TestSelectK checks quickselect against a full sort on seeded random data
+// with ties.
+func TestSelectK(t *testing.T) {
+	r := rand.New(rand.NewPCG(1, 1))
+	for n := 1; n < 200; n += 7 {
+		v := make([]float64, n)
+		for i := range v {
+			v[i] = float64(r.IntN(20))
+		}
+		sorted := slices.Clone(v)
+		slices.Sort(sorted)
+		for k := 0; k < n; k++ {
+			if got := selectK(slices.Clone(v), k); got != sorted[k] {
+				t.Fatalf("n %d k %d: %g, want %g", n, k, got, sorted[k])
+			}
+		}
 	}
 }
