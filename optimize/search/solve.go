@@ -309,7 +309,11 @@ func (s *space) reasons(b *classBest, d *Design, above []Design) []string {
 		}
 		if bl, ok := findLimit(d.Limits, prev.Binding); ok {
 			if pl, ok := findLimit(prev.Limits, prev.Binding); ok {
-				txt += fmt.Sprintf("; %s margin %.2fx instead of %.2fx", bl.Name, bl.Margin, pl.Margin)
+				if m, pm := fmt.Sprintf("%.2f", bl.Margin), fmt.Sprintf("%.2f", pl.Margin); m == pm {
+					txt += fmt.Sprintf("; the same %s margin (%sx)", bl.Name, m)
+				} else {
+					txt += fmt.Sprintf("; %s margin %sx instead of %sx", bl.Name, m, pm)
+				}
 			}
 		}
 		out = append(out, txt+"; "+s.difference(&prev, d))
