@@ -65,11 +65,15 @@ func budgetChart(method string, l budget.Limit) (Plot, Table, error) {
 		}
 		other = &budget.Contribution{Name: fmt.Sprintf("%d other terms", len(rest)), Value: s, Share: share}
 	}
-	// Bars from the bottom: the total, the lumped rest, then the smallest
-	// to the largest term.
+	// Bars from the bottom: the total, what the terms leave unexplained,
+	// the lumped rest, then the smallest to the largest term.
 	labels := []string{"total, summed"}
 	if quad {
 		labels[0] = "total, root-sum-square"
+	}
+	rem := remainder(l.Contributors, conv, total, quad)
+	if rem > 0 {
+		labels = append(labels, "not broken down")
 	}
 	var vals plotter.Values
 	if other != nil {
@@ -86,6 +90,9 @@ func budgetChart(method string, l budget.Limit) (Plot, Table, error) {
 	for _, c := range rows {
 		t.Rows = append(t.Rows, []Cell{{Text: c.Name}, {Text: sig(conv(c.Value))}, {Text: sig(100*c.Share) + " %"}})
 	}
+	if rem > 0 {
+		t.Rows = append(t.Rows, []Cell{{Text: "not broken down by the budget", Class: "fail"}, {Text: sig(rem), Class: "fail"}, {Text: ""}})
+	}
 	combine := "summed (worst case)"
 	if quad {
 		combine = "root-sum-squared"
@@ -98,14 +105,24 @@ func budgetChart(method string, l budget.Limit) (Plot, Table, error) {
 	g := plotter.NewGrid()
 	g.Horizontal.Width, g.Vertical.Color = 0, colGreyLight
 	p.Add(g)
-	n := len(vals)
+	n := len(labels) - 1
 	barW := plotBarH * 0.6
-	if n > 0 {
+	first := 1.0
+	if rem > 0 {
+		bars, err := plotter.NewBarChart(plotter.Values{rem}, barW)
+		if err != nil {
+			return Plot{}, Table{}, err
+		}
+		bars.Horizontal, bars.XMin, bars.Color, bars.LineStyle.Width = true, 1, colGrey, 0
+		p.Add(bars)
+		first = 2
+	}
+	if len(vals) > 0 {
 		bars, err := plotter.NewBarChart(vals, barW)
 		if err != nil {
 			return Plot{}, Table{}, err
 		}
-		bars.Horizontal, bars.XMin, bars.Color, bars.LineStyle.Width = true, 1, colBlue, 0
+		bars.Horizontal, bars.XMin, bars.Color, bars.LineStyle.Width = true, first, colBlue, 0
 		p.Add(bars)
 	}
 	tot, err := plotter.NewBarChart(plotter.Values{math.Max(total, 0)}, barW)
@@ -140,5 +157,39 @@ func budgetChart(method string, l budget.Limit) (Plot, Table, error) {
 		return Plot{}, Table{}, err
 	}
 	caption := fmt.Sprintf("Error budget of %s under the %s method: blue bars are the contributors (largest at the top), the orange bar the design's figure (the %s total), the dashed vermilion line the limit; terms are %s.", l.Name, method, method, combine)
+	if rem > 0 {
+		caption += fmt.Sprintf(" The terms the budget lists add up to less than the design's figure; the grey bar is the difference (%s), which the budget does not break down.", sig(rem))
+	}
 	return Plot{Name: "budget-" + fileName(l.Name), Title: title, Caption: caption, SVG: svg, LimitLines: 1}, t, nil
+}
+
+// remainderSlack is how far, as a fraction of the design's figure, the
+// listed terms may fall short of it before the chart shows the difference
+// (corner worst cases are not exactly linear sums).
+const remainderSlack = 0.02
+
+// remainder returns what the contributors leave of the design's figure
+// total (all in axis units): total - Σ|c| under worst case, or
+// sqrt(total² - Σc²) when terms add in quadrature; 0 when the terms reach
+// the figure within remainderSlack.
+func remainder(cs []budget.Contribution, conv func(float64) float64, total float64, quad bool) float64 {
+	s := 0.0
+	for _, c := range cs {
+		v := conv(c.Value)
+		if quad {
+			s += v * v
+		} else {
+			s += v
+		}
+	}
+	if quad {
+		s = math.Sqrt(s)
+	}
+	if total <= s*(1+remainderSlack) || total <= 0 {
+		return 0
+	}
+	if quad {
+		return math.Sqrt(total*total - s*s)
+	}
+	return total - s
 }

@@ -667,3 +667,29 @@ func TestMonteCarloSpec(t *testing.T) {
 	}
 	checkXML(t, "Monte Carlo report", htmlOf(t, r))
 }
+
+// TestBudgetRemainder: terms that do not reach the design's figure leave a
+// remainder, linear under worst case and in quadrature otherwise (3-4-5:
+// sqrt(5² - 3²) = 4).
+func TestBudgetRemainder(t *testing.T) {
+	id := func(v float64) float64 { return v }
+	cs := []budget.Contribution{{Name: "a", Value: 3}}
+	cases := []struct {
+		name  string
+		total float64
+		quad  bool
+		want  float64
+	}{
+		{"worst case short", 5, false, 2},
+		{"worst case reached", 3.05, false, 0}, // within remainderSlack
+		{"quadrature 3-4-5", 5, true, 4},
+		{"quadrature reached", 3, true, 0},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			if got := remainder(cs, id, c.total, c.quad); math.Abs(got-c.want) > 1e-12 {
+				t.Errorf("remainder %g, want %g", got, c.want)
+			}
+		})
+	}
+}
