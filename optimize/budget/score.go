@@ -153,6 +153,10 @@ func (e *Evaluator) worstGuided(npts int, pn *[4]point, w *agg) error {
 		return err
 	}
 	w.merge(&a)
+	// Corners already visited, as bit patterns of x (+1 set, -1 in neg),
+	// when the parameters fit in 64 bits.
+	var seen [2 * numQ * 4][2]uint64
+	nseen := 0
 	for q := 0; q < numQ; q++ {
 		if q == qCM && !e.differential {
 			continue
@@ -173,6 +177,28 @@ func (e *Evaluator) worstGuided(npts int, pn *[4]point, w *agg) error {
 						e.x[j], moved = sign, true
 					case s < 0:
 						e.x[j], moved = -sign, true
+					}
+				}
+				if moved && len(e.x) <= 64 {
+					var key [2]uint64
+					for j, v := range e.x {
+						if v > 0 {
+							key[0] |= 1 << j
+						} else if v < 0 {
+							key[1] |= 1 << j
+						}
+					}
+					for _, k := range seen[:nseen] {
+						if k == key {
+							moved = false
+							break
+						}
+					}
+					if moved {
+						seen[nseen] = key
+						nseen++
+					} else {
+						clear(e.x)
 					}
 				}
 				if moved {
