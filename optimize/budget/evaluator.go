@@ -516,18 +516,15 @@ func (e *Evaluator) solve() float64 {
 // resistor tolerances only by the tolerance fraction itself, a
 // second-order change of terms that are already small.
 func (e *Evaluator) eval(x []float64, t float64, life bool, p *point) error {
-	ref := e.setValues(x, t, life)
 	if e.matched {
-		e.evalMatched(x, t, ref, p)
+		e.evalMatched(x, t, e.setValues(x, t, life), p)
 		return nil
 	}
+	ref, err := e.factorAt(x, t, life)
+	if err != nil {
+		return err
+	}
 	n := e.net
-	for _, i := range e.amps {
-		n.OpAmps[i].Gain = e.aol
-	}
-	if err := e.sol.Factor(); err != nil {
-		return fmt.Errorf("budget: %s: %w", e.family, err)
-	}
 	e.quiet()
 	e.driveSignal(1)
 	p.gain = e.sol.SolveOut()
@@ -561,14 +558,10 @@ func (e *Evaluator) ampTransfers() error {
 	if e.matched {
 		return nil
 	}
-	e.setValues(e.x, e.s.TempRef, false)
+	if _, err := e.factorAt(e.x, e.s.TempRef, false); err != nil {
+		return err
+	}
 	n := e.net
-	for _, i := range e.amps {
-		n.OpAmps[i].Gain = e.aol
-	}
-	if err := e.sol.Factor(); err != nil {
-		return fmt.Errorf("budget: %s: %w", e.family, err)
-	}
 	p := &e.ampT
 	*p = point{}
 	if e.differential {
@@ -594,6 +587,20 @@ func (e *Evaluator) ampTransfers() error {
 		op.IbMinus = 0
 	}
 	return nil
+}
+
+// factorAt writes the resistor values at parameter point x and
+// temperature t, sets every op-amp's open-loop gain and factors the stage;
+// it returns the reference scale factor.
+func (e *Evaluator) factorAt(x []float64, t float64, life bool) (float64, error) {
+	ref := e.setValues(x, t, life)
+	for _, i := range e.amps {
+		e.net.OpAmps[i].Gain = e.aol
+	}
+	if err := e.sol.Factor(); err != nil {
+		return 0, fmt.Errorf("budget: %s: %w", e.family, err)
+	}
+	return ref, nil
 }
 
 // evalMatched models an amplifier with matched resistors inside from its

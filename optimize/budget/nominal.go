@@ -59,14 +59,10 @@ func (e *Evaluator) stress() error {
 		}
 		return nil
 	}
-	e.setValues(e.x, e.s.TempRef, false)
-	n := e.net
-	for _, i := range e.amps {
-		n.OpAmps[i].Gain = e.aol
-	}
-	if err := e.sol.Factor(); err != nil {
+	if _, err := e.factorAt(e.x, e.s.TempRef, false); err != nil {
 		return err
 	}
+	n := e.net
 	for _, c := range corners {
 		e.quiet()
 		e.driveSignal(c[0])
@@ -168,14 +164,10 @@ func (e *Evaluator) nominal(m *Metrics, terms *[]noiseTerm) error {
 		m.InputImpedanceOhm = a.InternalOhm
 		return nil
 	}
-	e.setValues(e.x, e.s.TempRef, false)
-	n := e.net
-	for _, i := range e.amps {
-		n.OpAmps[i].Gain = e.aol
-	}
-	if err := e.sol.Factor(); err != nil {
+	if _, err := e.factorAt(e.x, e.s.TempRef, false); err != nil {
 		return err
 	}
+	n := e.net
 	var d2 float64
 	for i := range n.Resistors {
 		e.quiet()
