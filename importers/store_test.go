@@ -3,6 +3,7 @@ package importers
 import (
 	"bufio"
 	"context"
+	"errors"
 	"fmt"
 	"os"
 	"os/exec"
@@ -329,5 +330,55 @@ func TestTwoImportsAtOnce(t *testing.T) {
 	}
 	if stats.Resistors != 40_000 {
 		t.Errorf("%d resistors, want 40000 from both imports", stats.Resistors)
+	}
+}
+
+func TestNetworksAndAmplifiersReachTheCatalog(t *testing.T) {
+	ctx := context.Background()
+	st, _ := newCatalog(t)
+	files := []string{"testdata/networks.csv", "testdata/amplifiers.csv", "testdata/amplifiers_typ.csv", "testdata/amplifiers_matched.csv"}
+	var progress []int
+	rep, err := Import(ctx, st, files, Options{Now: testNow, Progress: func(n int) { progress = append(progress, n) }})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rep.Summary.Added != 8 || rep.Summary.Skipped != 0 {
+		t.Fatalf("summary %+v: %s", rep.Summary, problemText(rep))
+	}
+	// Called at the end of each file with the running row count.
+	if !reflect.DeepEqual(progress, []int{3, 6, 7, 8}) {
+		t.Errorf("progress calls %v, want [3 6 7 8]", progress)
+	}
+	_, v, err := st.Find(ctx, "ZX3301")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a := v.(*catalog.Amplifier); !reflect.DeepEqual(a.TypicalOnly, []string{"vos_v", "vos_drift_v_per_k", "ib_a"}) {
+		t.Errorf("typical-only flags lost in the catalog: %v", a.TypicalOnly)
+	}
+	_, v, err = st.Find(ctx, "MTN4-1K10K-A05")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if n := v.(*catalog.Network); !reflect.DeepEqual(n.Values, []float64{1e3, 1e3, 1e4, 1e4}) || n.TCRTracking != 5 {
+		t.Errorf("network %+v", n)
+	}
+}
+
+func TestCancelledImportWritesNothing(t *testing.T) {
+	st, _ := newCatalog(t)
+	big := filepath.Join(t.TempDir(), "big.csv")
+	writeBigExport(t, big, "CX", 5000)
+	ctx, cancel := context.WithCancel(context.Background())
+	_, err := Import(ctx, st, []string{big}, Options{Now: testNow, Progress: func(n int) {
+		if n >= 2*ProgressEvery {
+			cancel()
+		}
+	}})
+	if !errors.Is(err, context.Canceled) || !strings.Contains(err.Error(), big) {
+		t.Fatalf("err = %v, want context.Canceled naming the file", err)
+	}
+	if s := snapshot(t, st); len(s.Resistors) != 0 {
+		t.Errorf("%d resistors written by a cancelled import", len(s.Resistors))
 	}
 }
