@@ -127,12 +127,15 @@ func specRows(s *spec.Spec) []Row {
 		kind = "differential"
 	}
 	add("input ("+kind+")", rangeText(s.Input, signal))
-	if s.Differential || s.CommonMode != (spec.Range{}) {
-		add("common-mode input", rangeText(s.CommonMode, "V"))
+	rangeOrNone := func(name string, r spec.Range, set bool) {
+		if set || r != (spec.Range{}) {
+			add(name, rangeText(r, "V"))
+		} else {
+			add(name, "none")
+		}
 	}
-	if s.Output != (spec.Range{}) {
-		add("output range", rangeText(s.Output, "V"))
-	}
+	rangeOrNone("common-mode input", s.CommonMode, s.Differential)
+	rangeOrNone("output range", s.Output, false)
 	add("supply rails", rangeText(s.Supply, "V")+" (span "+units.Format(s.Supply.Span(), "V")+")")
 	if ref := s.Reference; ref != nil {
 		add("reference", fmt.Sprintf("%s, tolerance %s, drift %s ppm/K, source %s", units.Format(ref.V, "V"),
@@ -163,6 +166,8 @@ func specRows(s *spec.Spec) []Row {
 	add("calibration", fmt.Sprintf("gain: %s, offset: %s", yesNo(s.Calibrate.Gain), yesNo(s.Calibrate.Offset)))
 	if s.Impedance != (spec.Range{}) {
 		add("resistor values", rangeText(s.Impedance, "Ω"))
+	} else {
+		add("resistor values", "any")
 	}
 	b := s.Build
 	cur := b.Currency

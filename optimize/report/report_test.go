@@ -693,3 +693,38 @@ func TestBudgetRemainder(t *testing.T) {
 		})
 	}
 }
+
+// TestEscaping: text from spec and catalog files is escaped, so markup in
+// it neither breaks the document nor becomes markup.
+func TestEscaping(t *testing.T) {
+	s := loadSpec(t, "testdata/channel.yaml")
+	s.About = `<script>alert("x")</script> & 'R1' <b>`
+	d, err := spec.LoadDesign("testdata/channel-design.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	d.Name = `design <i>&</i>`
+	r, err := Build(context.Background(), Input{Spec: s, Snapshot: loadSnapshot(t, "testdata/catalog.json"), Design: d, Now: fixedNow, Trials: 200})
+	if err != nil {
+		t.Fatal(err)
+	}
+	doc := htmlOf(t, r)
+	checkXML(t, "report with markup in its text", doc)
+	if bytes.Contains(doc, []byte("<script")) || bytes.Contains(doc, []byte("<i>")) {
+		t.Error("markup from the input reached the HTML unescaped")
+	}
+	text := textOf(t, doc)
+	for _, w := range []string{s.About, d.Name} {
+		if !strings.Contains(text, w) {
+			t.Errorf("text %q not shown literally", w)
+		}
+	}
+	dir := t.TempDir()
+	if err := r.WriteMarkdown(dir, "esc"); err != nil {
+		t.Fatal(err)
+	}
+	md, _ := os.ReadFile(filepath.Join(dir, "esc.md"))
+	if bytes.Contains(md, []byte("<script")) {
+		t.Error("markup from the input reached the Markdown unescaped")
+	}
+}
