@@ -288,7 +288,7 @@ func GuessMapping(header []string, kind catalog.Kind) (*Mapping, error) {
 		kind = guessKind(all)
 		if kind == "" {
 			return nil, fmt.Errorf("%w: no column reads as resistance, network matching or op-amp figures (header: %s); pass the kind or a mapping",
-				ErrUnknownKind, strings.Join(header, ", "))
+				ErrUnknownKind, headerList(header))
 		}
 	}
 	m := &Mapping{Kind: kind, Columns: map[Field]string{}}
@@ -400,7 +400,7 @@ func (m *Mapping) resolve(file string, header []string) (map[Field]int, []breakC
 		i, ok := idx[key(h)]
 		if !ok {
 			return nil, nil, &ParseError{File: file, Column: h, Err: fmt.Errorf("%w: the mapping puts %s in column %q, which the header does not have (header: %s)",
-				ErrMapping, f, h, strings.Join(header, ", "))}
+				ErrMapping, f, h, headerList(header))}
 		}
 		cols[f] = i
 	}
@@ -576,4 +576,14 @@ func SaveMapping(dir, name string, m *Mapping) (string, error) {
 		return "", fmt.Errorf("importers: saving mapping %q: %w", name, err)
 	}
 	return path, nil
+}
+
+// headerList names the columns of a header for a message, the first
+// twenty of a wide one.
+func headerList(h []string) string {
+	const most = 20
+	if len(h) <= most {
+		return strings.Join(h, ", ")
+	}
+	return fmt.Sprintf("%s, … (%d more)", strings.Join(h[:most], ", "), len(h)-most)
 }

@@ -135,13 +135,13 @@ func readStream(ctx context.Context, name string, in io.Reader, opt Options, b *
 	}
 	if _, ok := cols[FieldPart]; !ok {
 		return &ParseError{File: name, Line: 1, Err: fmt.Errorf("%w: no column reads as the part number (header: %s); name it in a mapping under columns: part",
-			ErrMissingColumn, strings.Join(rd.Header(), ", "))}
+			ErrMissingColumn, headerList(rd.Header()))}
 	}
 	if kind != catalog.KindAmplifier {
 		if _, ok := cols[FieldResistance]; !ok && m.Fixed[FieldResistance] == "" {
 			if _, d := cols[FieldDescription]; !d || kind == catalog.KindNetwork {
 				return &ParseError{File: name, Line: 1, Err: fmt.Errorf("%w: no column reads as the resistance (header: %s); name it in a mapping under columns: resistance",
-					ErrMissingColumn, strings.Join(rd.Header(), ", "))}
+					ErrMissingColumn, headerList(rd.Header()))}
 			}
 		}
 	}
