@@ -188,8 +188,9 @@ func (e *Evaluator) worstEnumerated(npts int, pn *[4]point, w *agg, res *Result)
 		corner = append(corner, e.paramName(j)+" "+sign)
 	}
 	res.WorstCorner = fmt.Sprintf("%s at %g C", strings.Join(corner, ", "), w.worstT)
-	// Monotonicity: move each parameter of the worst corner to the middle.
-	var nonMono []string
+	// Monotonicity: move each parameter of the worst corner to the middle;
+	// a metric that gets worse there is not monotonic in that parameter.
+	nonMono := map[string][]string{}
 	copy(e.x, best)
 	for _, j := range vary {
 		e.x[j] = 0
@@ -198,15 +199,28 @@ func (e *Evaluator) worstEnumerated(npts int, pn *[4]point, w *agg, res *Result)
 			return err
 		}
 		e.x[j] = best[j]
-		if a.gainErr > w.gainErr*(1+monotonicSlack)+1e-15 {
-			nonMono = append(nonMono, e.paramName(j))
+		worse := func(v, worst float64) bool { return v > worst*(1+monotonicSlack)+1e-15 }
+		for name, bad := range map[string]bool{
+			"gain error": worse(a.gainErr, w.gainErr), "gain drift": worse(a.drift, w.drift),
+			"output offset": worse(a.offset, w.offset), "CMRR": a.cmrr < w.cmrr*(1-monotonicSlack),
+		} {
+			if bad {
+				nonMono[name] = append(nonMono[name], e.paramName(j))
+			}
 		}
 	}
 	clear(e.x)
-	if len(nonMono) > 0 {
-		res.Notes = append(res.Notes, "gain error is not monotonic in "+strings.Join(nonMono, ", ")+": an interior value is worse than the worst corner "+res.WorstCorner+"; treat the corner figure as a lower bound")
-	} else if len(vary) > 0 {
-		res.Notes = append(res.Notes, "gain error checked monotonic at the worst corner "+res.WorstCorner+" (no parameter moved to mid-range made it worse)")
+	names := make([]string, 0, len(nonMono))
+	for name := range nonMono {
+		names = append(names, name)
+	}
+	sort.Strings(names)
+	for _, name := range names {
+		res.Notes = append(res.Notes, name+" is not monotonic in "+strings.Join(nonMono[name], ", ")+
+			": a mid-range value is worse than the worst corner of that metric; treat the corner figure as a lower bound")
+	}
+	if len(names) == 0 && len(vary) > 0 {
+		res.Notes = append(res.Notes, "monotonicity checked at the worst gain-error corner "+res.WorstCorner+": moving any parameter to mid-range made no metric worse than its worst corner")
 	}
 	return nil
 }

@@ -1,6 +1,7 @@
 package budget
 
 import (
+	"encoding/json"
 	"os"
 	"path/filepath"
 	"strings"
@@ -57,6 +58,9 @@ func TestExampleDesigns(t *testing.T) {
 							t.Errorf("%s contributors not sorted: %+v", l.Name, l.Contributors)
 						}
 					}
+				}
+				if _, err := json.Marshal(res); err != nil {
+					t.Errorf("result does not encode as JSON: %v", err)
 				}
 				if method == spec.MonteCarlo && res.MonteCarlo == nil {
 					t.Error("no Monte Carlo summary")
