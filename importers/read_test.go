@@ -382,6 +382,14 @@ func TestBadFiles(t *testing.T) {
 	if err := os.WriteFile(long, []byte("Part Number,Resistance\nA,\""+strings.Repeat("x\n", MaxRecordBytes)+"\n"), 0o644); err != nil {
 		t.Fatal(err)
 	}
+	u16 := filepath.Join(dir, "utf16.csv")
+	var u16text []byte
+	for _, c := range []byte("Part Number,Resistance\nA,1k\n") {
+		u16text = append(u16text, c, 0)
+	}
+	if err := os.WriteFile(u16, u16text, 0o644); err != nil {
+		t.Fatal(err)
+	}
 	noPart := filepath.Join(dir, "nopart.csv")
 	if err := os.WriteFile(noPart, []byte("Resistance,Tolerance\n1k,1%\n"), 0o644); err != nil {
 		t.Fatal(err)
@@ -391,6 +399,7 @@ func TestBadFiles(t *testing.T) {
 		err        error
 	}{
 		{"binary", "testdata/binary.csv", ErrNotCSV},
+		{"UTF-16 without BOM", u16, ErrNotCSV},
 		{"empty", "testdata/empty.csv", ErrEmpty},
 		{"blank lines only", "testdata/blank.csv", ErrEmpty},
 		{"header without rows", "testdata/header_only.csv", ErrNoRows},
@@ -407,6 +416,9 @@ func TestBadFiles(t *testing.T) {
 			}
 			if !strings.Contains(err.Error(), tc.file) {
 				t.Errorf("error %q does not name the file", err)
+			}
+			if tc.file == u16 && !strings.Contains(err.Error(), "UTF-16") {
+				t.Errorf("error %q does not say what the file is", err)
 			}
 		})
 	}

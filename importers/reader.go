@@ -251,6 +251,9 @@ func notText(head []byte) string {
 	for _, c := range head {
 		switch {
 		case c == 0:
+			if utf16NoBOM(head) {
+				return "it looks like UTF-16 text without a byte-order mark; save it again as UTF-8 CSV"
+			}
 			return "it contains NUL bytes (a binary file, or a spreadsheet workbook rather than CSV)"
 		case c < 0x20 && c != '\t' && c != '\n' && c != '\r' && c != '\f':
 			ctrl++
@@ -260,6 +263,25 @@ func notText(head []byte) string {
 		return "it is full of control characters"
 	}
 	return ""
+}
+
+// utf16NoBOM reports text whose every other byte is NUL: ASCII in UTF-16.
+func utf16NoBOM(b []byte) bool {
+	if len(b) < 8 {
+		return false
+	}
+	even, odd := 0, 0
+	for i, c := range b {
+		if c == 0 {
+			if i%2 == 0 {
+				even++
+			} else {
+				odd++
+			}
+		}
+	}
+	half := len(b) / 2
+	return even*10 >= half*9 && odd == 0 || odd*10 >= half*9 && even == 0
 }
 
 // validUTF8Prefix reports whether b is UTF-8, allowing a rune cut at the
