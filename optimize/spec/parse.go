@@ -505,6 +505,11 @@ func checkConsistency(p *problems, s *Spec) {
 		p.add("input.single_ended", "%g..%g V reaches beyond the rails %g..%g V, and a non-inverting amplifier's input pin sees it directly",
 			s.Input.Min, s.Input.Max, s.Supply.Min, s.Supply.Max)
 	}
+	for _, f := range s.Families {
+		if s.Reference != nil && (f == Inverting || f == NonInverting || f == Divider) {
+			p.add("reference", "given, but family %s has no reference input here; use difference, current-sense, inamp, matched or level-shift for a referred output", f)
+		}
+	}
 	if s.Reference != nil && (s.Reference.V > s.Supply.Max || s.Reference.V < s.Supply.Min) {
 		p.add("reference.voltage", "%g V lies outside the rails %g..%g V", s.Reference.V, s.Supply.Min, s.Supply.Max)
 	}

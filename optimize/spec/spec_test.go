@@ -148,6 +148,10 @@ func TestParseErrors(t *testing.T) {
 			return rep("family: difference", "family: noninverting")(rep("differential: ±1V", "single_ended: ±1V")(s))
 		}, "given for a single-ended stage"},
 		{"empty file", func(string) string { return "" }, "file is empty"},
+		{"reference on an inverting stage", func(s string) string {
+			return rep("family: difference\ngain: 1\ninput: {differential: ±1V, common_mode: -5..5V}", "family: inverting\ngain: -1\ninput: {single_ended: ±1V}\nreference: {voltage: 1V}")(s)
+		}, "has no reference input"},
+		{"reference outside the rails", add("reference: {voltage: 20V}\n"), "outside the rails"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
