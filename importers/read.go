@@ -68,6 +68,11 @@ func Read(ctx context.Context, files []string, opt Options) (*Batch, *Report, er
 	if len(files) == 0 {
 		return nil, nil, errors.New("importers: no file to import")
 	}
+	switch opt.Kind {
+	case "", "auto", catalog.KindResistor, catalog.KindNetwork, catalog.KindAmplifier:
+	default:
+		return nil, nil, fmt.Errorf("%w: kind %q: use resistor, network, amplifier or auto", ErrUnknownKind, opt.Kind)
+	}
 	if opt.Now.IsZero() {
 		opt.Now = time.Now().UTC()
 	}

@@ -523,3 +523,14 @@ func TestMatchedAmplifier(t *testing.T) {
 		t.Errorf("got %+v", a)
 	}
 }
+
+func TestKindOption(t *testing.T) {
+	if _, _, err := Read(context.Background(), []string{"testdata/networks.csv"}, Options{Kind: "capacitor"}); !errors.Is(err, ErrUnknownKind) {
+		t.Errorf("unknown kind: %v", err)
+	}
+	// A kind given is used as it is.
+	b, _, err := Read(context.Background(), []string{"testdata/networks.csv"}, Options{Kind: catalog.KindNetwork})
+	if err != nil || len(b.Networks) != 3 {
+		t.Errorf("forced network kind: %v, %d networks", err, len(b.Networks))
+	}
+}
