@@ -246,3 +246,42 @@ amplifier: {aol: 1e9, gbw: 1MHz, cm_neg: 1.5V, cm_pos: 1.5V, swing_neg: 0.1V, sw
 		t.Errorf("pass %v, cautions %q", res.Pass, res.Cautions)
 	}
 }
+
+// TestLevelShiftReference: the reference's tolerance and drift enter a level
+// shift like any other error: with exact resistors mapping ±5 V onto
+// 0..2.5 V from 2.5 V, the 1.25 V offset taken from the reference moves by
+// 0.1 % (1.25 mV) at 25 C and by a further 20 ppm/K x 60 K at 85 C.
+func TestLevelShiftReference(t *testing.T) {
+	s := mustSpec(t, `name: t
+about: level shift reference
+family: level-shift
+input: {single_ended: ±5V}
+output: 0..2.5V
+supply: ±15V
+reference: {voltage: 2.5V, tolerance: 0.1%, drift: 20ppm/K}
+temperature: {range: 25..85C}
+limits: {output_offset: 10mV}
+`)
+	ex := "{tolerance: 0%, tcr: 0ppm/K, value: "
+	d := mustDesign(t, "family: level-shift\npositions:\n  R1: "+ex+"80k}\n  R2: "+ex+"40k}\n  R3: "+ex+"40k}\n  Rg: "+ex+"40k}\n  Rf: "+ex+"10k}\n"+idealAmp)
+	res, err := Evaluate(s, d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := 1.25 * ((1+0.001)*(1+20e-6*60) - 1)
+	if math.Abs(res.Metrics.OutputOffsetV-want) > 1e-9 {
+		t.Errorf("offset %.6g V, want %.6g", res.Metrics.OutputOffsetV, want)
+	}
+	var names []string
+	for _, l := range res.Limits {
+		if l.Name == LimitOutputOffset {
+			for _, c := range l.Contributors {
+				names = append(names, c.Name)
+			}
+		}
+	}
+	// 1.25 V x 20 ppm/K x 60 K = 1.5 mV outweighs 1.25 V x 0.1 % = 1.25 mV.
+	if len(names) < 2 || names[0] != "reference drift" || names[1] != "reference tolerance" {
+		t.Errorf("offset contributors %v, want the reference drift then its tolerance first", names)
+	}
+}
