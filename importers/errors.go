@@ -20,6 +20,8 @@ var (
 	// ErrRecordTooLong is returned when one record is longer than
 	// MaxRecordBytes.
 	ErrRecordTooLong = errors.New("importers: record too long")
+	// ErrBadQuotes marks a record whose quotes do not pair up.
+	ErrBadQuotes = errors.New("importers: malformed quotes")
 	// ErrRagged marks a row whose field count differs from the header's.
 	ErrRagged = errors.New("importers: row has a different number of fields than the header")
 	// ErrUnknownKind is returned when the kind of part cannot be told from

@@ -349,7 +349,7 @@ func TestBadRows(t *testing.T) {
 		{"no part number", 7, "Part Number", "", ErrMissingValue},
 		{"two prices for one quantity", 8, "Price", "1:0.10; 1:0.09", ErrBadValue},
 		{"repeated part", 10, "Part Number", "BR-008", ErrDuplicate},
-		{"stray quote", 11, "", "", nil},
+		{"stray quote", 11, "", "", ErrBadQuotes},
 		{"zero ohm", 12, "Resistance", "0R", ErrBadValue},
 	}
 	if rep.Summary.Rows != 11 || rep.Summary.Skipped != len(tests) {

@@ -166,7 +166,7 @@ func (r *Reader) next() ([]string, int, error) {
 		}
 		var ce *csv.ParseError
 		if errors.As(err, &ce) {
-			return nil, ce.StartLine, &ParseError{File: r.name, Line: ce.StartLine, Err: fmt.Errorf("%w (check the quotes in this row)", ce.Err)}
+			return nil, ce.StartLine, &ParseError{File: r.name, Line: ce.StartLine, Err: fmt.Errorf("%w: %w; check the quotes in this row", ErrBadQuotes, ce.Err)}
 		}
 		return nil, line, &ParseError{File: r.name, Line: line, Err: err}
 	}
