@@ -98,12 +98,14 @@ func (e *Evaluator) MonteCarlo(trials int, seed uint64, samples bool) (*MCSummar
 		if name == MetricCMRR && !e.differential {
 			continue
 		}
-		sum.Percentiles[name] = percentiles(cols[i])
 		if samples {
+			sum.Percentiles[name] = percentiles(cols[i], false)
 			if sum.Samples == nil {
 				sum.Samples = map[string][]float64{}
 			}
 			sum.Samples[name] = cols[i]
+		} else {
+			sum.Percentiles[name] = percentiles(cols[i], true)
 		}
 	}
 	return sum, nil
@@ -126,9 +128,13 @@ func (e *Evaluator) trialPass(a *agg, nominal *Score) [NumLimits]bool {
 // percentiles returns the p0.135, p50 and p99.865 points of v (the ±3
 // sigma points of a normal distribution, nearest rank), its mean, standard
 // deviation (Welford's update), minimum and maximum. The order statistics
-// come from quickselect on a copy, not a full sort.
-func percentiles(v []float64) Percentiles {
-	s := slices.Clone(v)
+// come from quickselect, not a full sort: on v itself when inPlace (its
+// order is then lost), else on a copy.
+func percentiles(v []float64, inPlace bool) Percentiles {
+	s := v
+	if !inPlace {
+		s = slices.Clone(v)
+	}
 	at := func(p float64) float64 { return selectK(s, int(math.Round(p*float64(len(s)-1)))) }
 	var mean, m2 float64
 	lo, hi := math.Inf(1), math.Inf(-1)
