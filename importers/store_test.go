@@ -96,8 +96,8 @@ func TestReimport(t *testing.T) {
 	// New price and stock for one part, a new tolerance for another, one
 	// new part.
 	text = strings.Replace(text, `"12,345",$0.1,`, `"9,000",$0.09,`, 1)
-	text = strings.Replace(text, "KSM1206-0R10-F,\"Kestrel Shunt Works\",\"RES 0R1 OHM 1% 1/2W 75PPM 1206, metal strip, SMD\",0.1 Ohms,±1%",
-		"KSM1206-0R10-F,\"Kestrel Shunt Works\",\"RES 0R1 OHM 0.5% 1/2W 75PPM 1206, metal strip, SMD\",0.1 Ohms,±0.5%", 1)
+	text = strings.Replace(text, "KSM1206-0R10-F,\"Ketterby Shunt Works\",\"RES 0R1 OHM 1% 1/2W 75PPM 1206, metal strip, SMD\",0.1 Ohms,±1%",
+		"KSM1206-0R10-F,\"Ketterby Shunt Works\",\"RES 0R1 OHM 0.5% 1/2W 75PPM 1206, metal strip, SMD\",0.1 Ohms,±0.5%", 1)
 	text += "QP0805F1K00,\"Quillon Passives\",\"RES 1K OHM 1% 1/8W 100PPM 0805\",1 kOhms,±1%,±100ppm/°C,\"0.125W, 1/8W\",0805,150V,500,$0.1,,$0.045,$0.021,QP,thick-film\n"
 	f := filepath.Join(t.TempDir(), "again.csv")
 	if err := os.WriteFile(f, []byte(text), 0o644); err != nil {
