@@ -5,8 +5,11 @@ package budget
 type Contribution struct {
 	// Name says which part and which effect, e.g. "R2 tolerance", "A1 Vos".
 	Name string `json:"name"`
-	// Value is the term in the metric's unit: its worst-case size under
-	// worst case, its 3-sigma-equivalent size under RSS and Monte Carlo.
+	// Value is the term's size at the end of its tolerance (the parameter
+	// at ±1), in the metric's unit: a fraction for gain error, ppm/K for
+	// drift, V for offset, V/K for offset drift, V/√Hz and V for noise.
+	// For CMRR it is the term's common-mode gain over the differential
+	// gain (V/V), the terms of 1/CMRR.
 	Value float64 `json:"value"`
 	// Share is the fraction of the total this term makes: |v|/Σ|v| under
 	// worst case, v²/Σv² under RSS and Monte Carlo.
@@ -24,7 +27,9 @@ type Limit struct {
 	Max bool `json:"is_max"`
 	// Margin is limit/value for a maximum and value/limit for a minimum,
 	// so a margin of 1 sits on the limit, above 1 passes and 2 means twice
-	// as good as needed. For dB limits it is the ratio of the linear values.
+	// as good as needed. For dB limits it is the ratio of the linear values;
+	// for amplifier headroom it is 1 + headroom/0.1 V (NearPinV). A limit
+	// with no error at all reports 1e12.
 	Margin     float64 `json:"margin"`
 	MarginText string  `json:"margin_text"`
 	Pass       bool    `json:"pass"`
@@ -93,7 +98,9 @@ type MCSummary struct {
 	// Percentiles maps metric name to its p0.135, p50 and p99.865 values
 	// (the ±3 sigma points of a normal distribution).
 	Percentiles map[string]Percentiles `json:"percentiles"`
-	// Samples keeps every trial's value of each metric for histograms.
+	// Samples keeps every trial's value of each metric for histograms (the
+	// gain error signed, the others as magnitudes), keyed by the Metric
+	// names.
 	Samples map[string][]float64 `json:"samples,omitempty"`
 }
 
