@@ -105,7 +105,7 @@ func (r *Report) WriteMarkdown(dir, name string) (err error) {
 		for _, s := range r.Safety {
 			fmt.Fprintf(&b, "> **%s**\n>\n", md(s))
 		}
-		b.WriteString("\n")
+		fmt.Fprintf(&b, "> *%s*\n\n", md(SafetyDeferral))
 	}
 	b.WriteString("## Specification\n\n")
 	mdRows(&b, r.Spec)

@@ -280,11 +280,19 @@ var fixedNotes = []string{
 	"Plots use the Okabe–Ito colour-blind-safe palette; limit lines are dashed vermilion.",
 }
 
+// SafetyNote is SafetyDeferral, for the template.
+func (r *Report) SafetyNote() string { return SafetyDeferral }
+
 // FixedNotes are the notes printed on every report after the search's.
 func (r *Report) FixedNotes() []string { return fixedNotes }
 
-// splitCautions moves hazardous-voltage cautions to the front list and
-// drops exact repeats (every design of one spec carries the same one).
+// SafetyDeferral closes the safety box of every report that has one.
+const SafetyDeferral = "These cautions do not replace a safety assessment: check the design against the applicable standards " +
+	"(IEC 61010-1, IEC 62368-1) and local codes, with a qualified, licensed person."
+
+// splitCautions moves the cautions about hazardous voltages and about parts
+// near their ratings to the front list, and drops exact repeats (every
+// design of one spec carries the same hazard caution).
 func splitCautions(all []string) (safety, other []string) {
 	seen := map[string]bool{}
 	for _, c := range all {
@@ -292,7 +300,7 @@ func splitCautions(all []string) (safety, other []string) {
 			continue
 		}
 		seen[c] = true
-		if l := strings.ToLower(c); strings.Contains(l, "hazardous") {
+		if l := strings.ToLower(c); strings.Contains(l, "hazardous") || strings.Contains(l, "rating") {
 			safety = append(safety, c)
 		} else {
 			other = append(other, c)

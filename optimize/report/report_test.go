@@ -728,3 +728,24 @@ func TestEscaping(t *testing.T) {
 		t.Error("markup from the input reached the Markdown unescaped")
 	}
 }
+
+// TestSplitCautions: hazardous voltages and parts near their ratings go to
+// the safety box (project rule: such output defers to the standards);
+// repeats are dropped.
+func TestSplitCautions(t *testing.T) {
+	hv := "HAZARDOUS VOLTAGE: the input reaches 110 V"
+	pw := "R1 dissipates 92 % of its derated power (derating 50 %): near or above its rating; choose a larger part"
+	hr := "A1 comes within 100 mV of its range"
+	safety, other := splitCautions([]string{hv, pw, hr, hv})
+	if len(safety) != 2 || safety[0] != hv || safety[1] != pw {
+		t.Errorf("safety %q, want the hazard and the rating caution once each", safety)
+	}
+	if len(other) != 1 || other[0] != hr {
+		t.Errorf("other %q, want the headroom caution", other)
+	}
+	for _, w := range []string{"IEC 61010-1", "IEC 62368-1", "qualified, licensed"} {
+		if !strings.Contains(SafetyDeferral, w) {
+			t.Errorf("SafetyDeferral does not mention %q", w)
+		}
+	}
+}
