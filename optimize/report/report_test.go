@@ -14,6 +14,8 @@ import (
 	"strings"
 	"testing"
 
+	"gonum.org/v1/plot/plotter"
+
 	"plumb/optimize/budget"
 	"plumb/optimize/search"
 	"plumb/optimize/spec"
@@ -388,8 +390,8 @@ func TestPartsListHandWorked(t *testing.T) {
 }
 
 // TestMonteCarloHistogramCounts: the histogram keeps every finite trial
-// (bin weights add up to the trial count) and agrees bin by bin with an
-// independent binning of the same samples.
+// (bin weights add up to the trial count) and agrees bin by bin with a
+// direct count and with gonum's histogram of the same samples.
 func TestMonteCarloHistogramCounts(t *testing.T) {
 	xs := make([]float64, 1000)
 	for i := range xs {
@@ -413,6 +415,17 @@ func TestMonteCarloHistogramCounts(t *testing.T) {
 		}
 		if math.Abs(float64(n)-b.Weight) > 1 { // a sample on a bin edge may fall either side in floating point
 			t.Errorf("bin %d [%g, %g): %g trials, direct count %d", i, b.Min, b.Max, b.Weight, n)
+		}
+	}
+	// gonum's own histogram of the same samples (plotter.NewHist, an
+	// outside implementation) bins over the same [min, max] range.
+	h, err := plotter.NewHist(plotter.Values(xs), 20)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, b := range h.Bins {
+		if math.Abs(b.Weight-bins[i].Weight) > 1 || math.Abs(b.Min-bins[i].Min) > 1e-12 {
+			t.Errorf("bin %d: ours [%g, %g) %g, gonum [%g, %g) %g", i, bins[i].Min, bins[i].Max, bins[i].Weight, b.Min, b.Max, b.Weight)
 		}
 	}
 	if got := binned([]float64{3, 3, 3}, 10); len(got) != 1 || got[0].Weight != 3 || got[0].Min >= 3 || got[0].Max <= 3 {
