@@ -163,22 +163,27 @@ func (s *space) ratingVoltages() {
 	}
 }
 
+// ratingSlack keeps a part that sits exactly on its rating out: the exact
+// budget, computing the same ratio another way, may land a rounding step
+// above it.
+const ratingSlack = 1 - 1e-9
+
 // ratingOK checks a resistor of value r against voltage v: dissipation
 // v²/r within the derated power, and v within the rated voltage
 // U = sqrt(P·R), capped by the limiting element voltage (IEC 60115-1, from
 // memory). Unknown ratings (0) are not checked.
 func (s *space) ratingOK(powerW, maxV, r, v float64) bool {
 	if powerW > 0 {
-		if v*v/r > s.p.Derating*powerW {
+		if v*v/r > s.p.Derating*powerW*ratingSlack {
 			return false
 		}
 		u := math.Sqrt(powerW * r)
 		if maxV > 0 {
 			u = math.Min(u, maxV)
 		}
-		return v <= u
+		return v <= u*ratingSlack
 	}
-	return maxV == 0 || v <= maxV
+	return maxV == 0 || v <= maxV*ratingSlack
 }
 
 // zinOK checks the input impedance the source sees. For the difference

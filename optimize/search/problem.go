@@ -50,6 +50,10 @@ const (
 	NonInverting Circuit = "noninverting"
 	Inverting    Circuit = "inverting"
 	Divider      Circuit = "divider"
+	// CurrentSense is a shunt Rs read by a difference amplifier: Gain is in
+	// V/A, InMin and InMax are currents and CMMin, CMMax the shunt's low
+	// side.
+	CurrentSense Circuit = "current-sense"
 )
 
 // Method is the analysis method the limits are judged under.
@@ -158,8 +162,8 @@ func (p *Problem) normalize() error {
 		p.Method = WorstCase
 	}
 	switch {
-	case p.Circuit != Difference && p.Circuit != NonInverting && p.Circuit != Inverting && p.Circuit != Divider:
-		return fmt.Errorf("%w: circuit %q: use %q, %q, %q or %q", ErrProblem, p.Circuit, Difference, NonInverting, Inverting, Divider)
+	case p.Circuit != Difference && p.Circuit != NonInverting && p.Circuit != Inverting && p.Circuit != Divider && p.Circuit != CurrentSense:
+		return fmt.Errorf("%w: circuit %q: use %q, %q, %q, %q or %q", ErrProblem, p.Circuit, Difference, NonInverting, Inverting, Divider, CurrentSense)
 	case !(p.Gain > 0) || math.IsInf(p.Gain, 0):
 		return fmt.Errorf("%w: gain %g: give a positive gain magnitude", ErrProblem, p.Gain)
 	case p.Circuit == NonInverting && p.Gain <= 1:

@@ -76,17 +76,19 @@ func FromSpec(s *spec.Spec) (Problem, error) {
 			p.Circuit, p.Families = Inverting, append(p.Families, DiscreteInverting)
 		case spec.Divider:
 			p.Circuit, p.Families = Divider, append(p.Families, DiscreteDivider)
+		case spec.CurrentSense:
+			p.Circuit, p.Families = CurrentSense, append(p.Families, DiscreteDifference, NetworkDifference)
 		default:
 			unsupported = append(unsupported, f)
 		}
 	}
 	if len(unsupported) > 0 || len(p.Families) == 0 {
-		return p, fmt.Errorf("%w: families %v: the search builds %s, %s (alone or with %s), %s, %s and %s stages; keep one circuit per spec",
-			ErrProblem, s.Families, spec.Difference, spec.Matched, spec.Difference, spec.NonInverting, spec.Inverting, spec.Divider)
+		return p, fmt.Errorf("%w: families %v: the search builds %s, %s (alone or with %s), %s, %s, %s and %s stages; keep one circuit per spec",
+			ErrProblem, s.Families, spec.Difference, spec.Matched, spec.Difference, spec.NonInverting, spec.Inverting, spec.Divider, spec.CurrentSense)
 	}
-	if p.Circuit == NonInverting || p.Circuit == Inverting || p.Circuit == Divider {
+	if p.Circuit == NonInverting || p.Circuit == Inverting || p.Circuit == Divider || p.Circuit == CurrentSense {
 		if len(s.Families) > 1 {
-			return p, fmt.Errorf("%w: families %v: an inverting, non-inverting or divider stage is searched alone", ErrProblem, s.Families)
+			return p, fmt.Errorf("%w: families %v: an inverting, non-inverting, divider or current-sense stage is searched alone", ErrProblem, s.Families)
 		}
 	}
 	return p, nil
@@ -118,6 +120,9 @@ func verifyExtra(top int) int { return top + 2 }
 func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify verifier, exhaustive bool) (*Result, error) {
 	if err := p.normalize(); err != nil {
 		return nil, err
+	}
+	if p.Circuit == CurrentSense {
+		return solveCurrentSense(ctx, parts, p, opt, verify, exhaustive)
 	}
 	if opt.Top <= 0 {
 		opt.Top = defaultTop
@@ -286,16 +291,7 @@ func findLimit(ls []Limit, name string) (Limit, bool) {
 // reasons explains a ranked design: its limits, the binding limit and its
 // dominant contributor, and why it ranks below the design above.
 func (s *space) reasons(b *classBest, d *Design, above []Design) []string {
-	var out []string
-	var sum []string
-	for _, l := range d.Limits {
-		sum = append(sum, fmt.Sprintf("%s %s (limit %s, margin %.2fx)", l.Name, limitText(l), limitText(Limit{Name: l.Name, Value: l.Limit}), l.Margin))
-	}
-	if len(sum) > 0 {
-		out = append(out, "meets every limit: "+strings.Join(sum, "; "))
-	} else {
-		out = append(out, "the spec sets no error limit; only the hard limits apply")
-	}
+	out := []string{limitSummary(d.Limits)}
 	if bl, ok := binding(d.Limits); ok {
 		name, share := s.dominant(b, bl.Name)
 		out = append(out, fmt.Sprintf("binding limit: %s at margin %.2fx, dominated by %s (%.0f %% of it)", bl.Name, bl.Margin, name, 100*share))
@@ -303,22 +299,7 @@ func (s *space) reasons(b *classBest, d *Design, above []Design) []string {
 	if len(above) == 0 {
 		out = append(out, fmt.Sprintf("cheapest passing design of the %d classes in the search space", s.classCount()))
 	} else {
-		prev := above[len(above)-1]
-		diff := d.UnitCost - prev.UnitCost
-		txt := fmt.Sprintf("costs %.4g more per stage than rank %d", diff, prev.Rank)
-		if diff == 0 {
-			txt = fmt.Sprintf("costs the same as rank %d and follows it in catalog order", prev.Rank)
-		}
-		if bl, ok := findLimit(d.Limits, prev.Binding); ok {
-			if pl, ok := findLimit(prev.Limits, prev.Binding); ok {
-				if m, pm := fmt.Sprintf("%.2f", bl.Margin), fmt.Sprintf("%.2f", pl.Margin); m == pm {
-					txt += fmt.Sprintf("; the same %s margin (%sx)", bl.Name, m)
-				} else {
-					txt += fmt.Sprintf("; %s margin %sx instead of %sx", bl.Name, m, pm)
-				}
-			}
-		}
-		out = append(out, txt+"; "+s.difference(&prev, d))
+		out = append(out, s.rankLine(&above[len(above)-1], d))
 	}
 	if d.ValueVariants > 1 {
 		out = append(out, fmt.Sprintf("%d value variants of this grade also pass", d.ValueVariants-1))
@@ -327,6 +308,38 @@ func (s *space) reasons(b *classBest, d *Design, above []Design) []string {
 		out = append(out, "stock is short for "+strings.Join(d.ShortStock, ", "))
 	}
 	return out
+}
+
+// limitSummary lists every limit with its value, limit and margin.
+func limitSummary(ls []Limit) string {
+	var sum []string
+	for _, l := range ls {
+		sum = append(sum, fmt.Sprintf("%s %s (limit %s, margin %.2fx)", l.Name, limitText(l), limitText(Limit{Name: l.Name, Value: l.Limit}), l.Margin))
+	}
+	if len(sum) == 0 {
+		return "the spec sets no error limit; only the hard limits apply"
+	}
+	return "meets every limit: " + strings.Join(sum, "; ")
+}
+
+// rankLine says why design d ranks below prev: what it costs more, the
+// margin of prev's binding limit in both, and what differs.
+func (s *space) rankLine(prev, d *Design) string {
+	diff := d.UnitCost - prev.UnitCost
+	txt := fmt.Sprintf("costs %.4g more per stage than rank %d", diff, prev.Rank)
+	if diff == 0 {
+		txt = fmt.Sprintf("costs the same as rank %d and follows it in catalog order", prev.Rank)
+	}
+	if bl, ok := findLimit(d.Limits, prev.Binding); ok {
+		if pl, ok := findLimit(prev.Limits, prev.Binding); ok {
+			if m, pm := fmt.Sprintf("%.2f", bl.Margin), fmt.Sprintf("%.2f", pl.Margin); m == pm {
+				txt += fmt.Sprintf("; the same %s margin (%sx)", bl.Name, m)
+			} else {
+				txt += fmt.Sprintf("; %s margin %sx instead of %sx", bl.Name, m, pm)
+			}
+		}
+	}
+	return txt + "; " + s.difference(prev, d)
 }
 
 func (s *space) classCount() int { return len(s.cfgs)*len(s.amps) + len(s.matched) }

@@ -1,0 +1,315 @@
+package search
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+
+	"plumb/catalog"
+	"plumb/catalog/eseries"
+	"plumb/optimize/cost"
+	"plumb/optimize/spec"
+)
+
+// Shunt window: values the search considers for the sense resistor.
+const (
+	shuntMinOhm = 1e-4
+	shuntMaxOhm = 10
+	// minSenseGain and maxSenseGain bound the difference amplifier's gain
+	// behind a shunt.
+	minSenseGain = 0.1
+	maxSenseGain = 1000
+)
+
+// shunt is one sense-resistor candidate.
+type shunt struct {
+	part  string
+	value float64
+	grade catalog.ResistorGrade
+	offer catalog.Offer // with this part's stock
+	cost  float64       // parts and assembly for the build
+	err   float64       // worst relative error over tolerance, life, temperature and self-heating
+	errT0 float64       // tolerance alone (reference temperature)
+}
+
+// shuntCandidates lists the resistors that can be the shunt: inside the
+// shunt window, dissipating I²·Rs within the derated power, one part per
+// grade, price list and value (the one with most stock).
+func shuntCandidates(parts *Parts, p *Problem) []shunt {
+	imax := math.Max(math.Abs(p.InMin), math.Abs(p.InMax))
+	type key struct {
+		grade string
+		value float64
+	}
+	best := map[key]shunt{}
+	add := func(part string, v float64, g catalog.ResistorGrade, o catalog.Offer) {
+		if v < shuntMinOhm || v > shuntMaxOhm || g.Tolerance >= 0.5 {
+			return
+		}
+		pw := imax * imax * v
+		if g.PowerW > 0 && pw > p.Derating*g.PowerW*ratingSlack {
+			return
+		}
+		if gs := p.Gain / v; gs < minSenseGain || gs > maxSenseGain {
+			return
+		}
+		if p.Build.Currency != "" && !offerIn(&o, p.Build.Currency) {
+			return
+		}
+		ext, _, _, err := p.Build.LineCost(&o, 1)
+		if err != nil {
+			return
+		}
+		heat := pw * g.ThermalResistance
+		sh := shunt{part: part, value: v, grade: g, offer: o,
+			cost:  ext + float64(p.Build.Quantity)*p.Build.PerPlacement + p.Build.PerLineItem,
+			err:   (1+g.Tolerance)*(1+g.LoadLife)*(1+g.TCR*1e-6*(p.deltaT()+heat)) - 1,
+			errT0: g.Tolerance}
+		k := key{string(appendGradeKey(nil, &g, &o)), v}
+		if old, ok := best[k]; !ok || stockRank(o.Stock) > stockRank(old.offer.Stock) || (o.Stock == old.offer.Stock && part < old.part) {
+			best[k] = sh
+		}
+	}
+	for i := range parts.Resistors {
+		r := &parts.Resistors[i]
+		add(r.Part, r.ValueOhm, r.ResistorGrade, r.Offer)
+	}
+	for i := range parts.Series {
+		rs := &parts.Series[i]
+		es, err := eseries.ByName(rs.ESeries)
+		if err != nil {
+			continue
+		}
+		lo, hi := math.Max(rs.MinOhm, shuntMinOhm), math.Min(rs.MaxOhm, shuntMaxOhm)
+		if lo > hi {
+			continue
+		}
+		for _, v := range es.Values(lo, hi) {
+			add(rs.PartNumber(v), v, rs.ResistorGrade, rs.Offer)
+		}
+	}
+	out := make([]shunt, 0, len(best))
+	for _, sh := range best {
+		out = append(out, sh)
+	}
+	sort.Slice(out, func(i, j int) bool {
+		if out[i].cost != out[j].cost {
+			return out[i].cost < out[j].cost
+		}
+		return out[i].part < out[j].part
+	})
+	return out
+}
+
+// senseProblem is the difference-amplifier problem behind shunt sh: gain
+// G/Rs, the shunt voltage as the differential input, the shunt's nodes as
+// the common mode, and the limits less what the shunt takes:
+// (1+L)/(1+e_shunt) - 1 for the gain errors (worst case; RSS: sqrt(L² -
+// e²)) and D - TCR for the drift. ok is false when the shunt alone breaks
+// a limit.
+func senseProblem(p Problem, sh *shunt) (Problem, bool) {
+	q := p
+	q.Circuit = Difference
+	v := sh.value
+	q.Gain = p.Gain / v
+	q.InMin, q.InMax = p.InMin*v, p.InMax*v
+	q.CMMin = p.CMMin + math.Min(0, math.Min(q.InMin, q.InMax))/2
+	q.CMMax = p.CMMax + math.Max(0, math.Max(q.InMin, q.InMax))/2
+	shrink := func(lim, e float64) (float64, bool) {
+		if lim == 0 {
+			return 0, true
+		}
+		var out float64
+		if p.Method == WorstCase {
+			out = (1+lim)/(1+e) - 1
+		} else {
+			out = math.Sqrt(math.Max(lim*lim-e*e, 0))
+		}
+		return out, out > 0
+	}
+	var ok1, ok2, ok3 bool
+	eT, e0 := sh.err, sh.errT0
+	if p.CalGain {
+		e0 = 0
+		eT = (1+sh.grade.LoadLife)*(1+sh.grade.TCR*1e-6*p.deltaT()) - 1
+	}
+	q.Limits.TotalGainError, ok1 = shrink(p.Limits.TotalGainError, eT)
+	q.Limits.GainError, ok2 = shrink(p.Limits.GainError, e0)
+	ok3 = true
+	if p.Limits.DriftPPM > 0 {
+		q.Limits.DriftPPM = p.Limits.DriftPPM - sh.grade.TCR
+		ok3 = q.Limits.DriftPPM > 0
+	}
+	return q, ok1 && ok2 && ok3
+}
+
+// combine folds the shunt's error into a gain error: worst case
+// (1+e)(1+es) - 1, RSS in quadrature.
+func combine(method Method, e, es float64) float64 {
+	if method == WorstCase {
+		return (1+e)*(1+es) - 1
+	}
+	return math.Hypot(e, es)
+}
+
+// withShunt adds shunt sh to a design of the difference amplifier behind it.
+func withShunt(p *Problem, d Design, sd *spec.Design, sh *shunt) (Design, *spec.Design) {
+	d.Family = "current-sense-" + d.Family[len("difference-"):]
+	d.TotalCost += sh.cost
+	d.UnitCost = d.TotalCost / float64(p.Build.Quantity)
+	q, unit, _, _ := buyLine(p, &sh.offer)
+	d.Parts = append([]Part{{Position: "Rs", Kind: string(catalog.KindResistor), Part: sh.part, Quantity: 1, Bought: q,
+		UnitPrice: unit, ValueOhm: sh.value, Tolerance: sh.grade.Tolerance, TCRppm: sh.grade.TCR}}, d.Parts...)
+	m := d.Metrics
+	eT, e0 := sh.err, sh.errT0
+	if p.CalGain {
+		eT, e0 = (1+sh.grade.LoadLife)*(1+sh.grade.TCR*1e-6*p.deltaT())-1, 0
+	}
+	m.Gain *= sh.value
+	m.GainError = combine(p.Method, m.GainError, eT)
+	m.GainErrorInitial = combine(p.Method, m.GainErrorInitial, e0)
+	m.DriftPPMPerK += sh.grade.TCR
+	d.Metrics = m
+	s := &space{p: p}
+	d.Limits = s.limitSet(&metrics{gain: m.Gain, gainErr: m.GainErrorInitial, totalErr: m.GainError, drift: m.DriftPPMPerK,
+		cmrrDB: m.CMRRdB, offset: m.OutputOffsetV, offDrift: m.OffsetDriftVPerK, noise: m.NoiseDensity, noiseRMS: m.NoiseRMSV, bw: m.BandwidthHz})
+	if bl, ok := binding(d.Limits); ok {
+		d.Binding = bl.Name
+	}
+	sd2 := *sd
+	sd2.Family = spec.CurrentSense
+	g := sh.grade
+	sd2.Positions = append([]spec.Position{{Name: "Rs", Elements: []spec.Element{{Part: sh.part, Ohm: sh.value, Tolerance: g.Tolerance,
+		TCR: g.TCR * 1e-6, PowerW: g.PowerW, MaxVoltageV: g.MaxVoltageV, ThermalResistance: g.ThermalResistance, LoadLife: g.LoadLife, Resolved: true}}}},
+		sd.Positions...)
+	sortPositions(sd2.Positions)
+	sd2.Name = "current-sense with " + sh.part
+	return d, &sd2
+}
+
+// senseReasons rebuilds a current-sense design's reasons on the merged
+// ranking: the shunt, the limits of the whole stage, the binding limit and
+// the shunt's share of it, why it ranks below the design above, and the
+// amplifier stage's own notes (value variants, stock).
+func senseReasons(p *Problem, d *Design, above []Design) []string {
+	rs := d.Parts[0]
+	out := []string{fmt.Sprintf("shunt %s: %g ohm, %.3g %% %.3g ppm/K", rs.Part, rs.ValueOhm, 100*rs.Tolerance, rs.TCRppm),
+		limitSummary(d.Limits)}
+	if bl, ok := binding(d.Limits); ok {
+		txt := fmt.Sprintf("binding limit: %s at margin %.2fx", bl.Name, bl.Margin)
+		if bl.Name == limDrift && bl.Value > 0 {
+			txt += fmt.Sprintf("; the shunt's tempco is %.0f %% of it", 100*rs.TCRppm/bl.Value)
+		}
+		out = append(out, txt)
+	}
+	s := &space{p: p}
+	if len(above) == 0 {
+		out = append(out, "cheapest passing shunt and amplifier stage in the catalog")
+	} else {
+		out = append(out, s.rankLine(&above[len(above)-1], d))
+	}
+	for _, r := range d.Reasons {
+		if strings.Contains(r, "value variants") || strings.HasPrefix(r, "stock is short") || strings.HasPrefix(r, "not confirmed") {
+			out = append(out, r)
+		}
+	}
+	return out
+}
+
+// buyLine is the quantity bought and unit price of one placement per stage.
+func buyLine(p *Problem, o *catalog.Offer) (int, float64, string, error) {
+	return cost.Buy(o, p.Build.Needed(1), p.Build.ExactQuantity)
+}
+
+// solveCurrentSense searches every shunt candidate: for each, the
+// difference amplifier behind it is an ordinary difference search with the
+// limits less the shunt's share; the designs of all shunts are merged by
+// cost. Each sub-search is exact, so the merged top N is too.
+func solveCurrentSense(ctx context.Context, parts *Parts, p Problem, opt Options, verify verifier, exhaustive bool) (*Result, error) {
+	if opt.Top <= 0 {
+		opt.Top = defaultTop
+	}
+	keep := opt.Top
+	if verify != nil {
+		keep += verifyExtra(opt.Top)
+	}
+	type cand struct {
+		d  Design
+		sd *spec.Design
+	}
+	var all []cand
+	var near []NearMiss
+	res := &Result{Method: string(p.Method), Designs: []Design{}, NearMisses: []NearMiss{}}
+	shunts := shuntCandidates(parts, &p)
+	for i := range shunts {
+		sh := &shunts[i]
+		q, ok := senseProblem(p, sh)
+		if !ok {
+			continue
+		}
+		q.Families = []Family{DiscreteDifference, NetworkDifference}
+		r, err := solve(ctx, parts, q, Options{Top: keep, Combos: opt.Combos}, nil, exhaustive)
+		if errors.Is(err, ErrProblem) {
+			continue
+		}
+		if err != nil && !errors.Is(err, ErrInfeasible) {
+			return nil, err
+		}
+		res.Search.Classes += r.Search.Classes
+		res.Search.Visited += r.Search.Visited
+		res.Search.BoundPruned += r.Search.BoundPruned
+		res.Search.Evaluated += r.Search.Evaluated
+		for j, d := range r.Designs {
+			d2, sd2 := withShunt(&p, d, r.designs[j], sh)
+			all = append(all, cand{d2, sd2})
+		}
+		for _, nm := range r.NearMisses {
+			d2, _ := withShunt(&p, nm.Design, &spec.Design{}, sh)
+			nm.Design = d2
+			near = append(near, nm)
+		}
+	}
+	sort.SliceStable(all, func(i, j int) bool { return all[i].d.TotalCost < all[j].d.TotalCost })
+	for _, c := range all {
+		if len(res.Designs) >= opt.Top {
+			break
+		}
+		var unverified error
+		if verify != nil {
+			fails, err := verify(c.sd)
+			unverified = err
+			if err == nil && len(fails) > 0 {
+				nm := NearMiss{Design: c.d, Fails: fails}
+				nm.Reasons = []string{"passes the search's screening figures, but the exact budget fails it"}
+				res.NearMisses = append(res.NearMisses, nm)
+				continue
+			}
+		}
+		c.d.Rank = len(res.Designs) + 1
+		c.d.Reasons = senseReasons(&p, &c.d, res.Designs)
+		if unverified != nil {
+			c.d.Reasons = append(c.d.Reasons, "not confirmed by the exact budget: "+unverified.Error())
+		}
+		res.Designs = append(res.Designs, c.d)
+		res.designs = append(res.designs, c.sd)
+	}
+	sort.SliceStable(near, func(i, j int) bool { return near[i].TotalCost < near[j].TotalCost })
+	for _, nm := range near {
+		if len(res.NearMisses) >= maxNearMisses || (len(res.Designs) > 0 && nm.TotalCost >= res.Designs[0].TotalCost) {
+			break
+		}
+		res.NearMisses = append(res.NearMisses, nm)
+	}
+	if p.hazardous() {
+		res.Cautions = append(res.Cautions, hazardCaution)
+	}
+	res.Notes = append(res.Notes, fmt.Sprintf("%d shunt candidates searched; the reasons below each design compare it within its shunt", len(shunts)))
+	if len(res.Designs) == 0 {
+		res.Infeasible = &Infeasible{Message: ErrInfeasible.Error() + "; no shunt and difference amplifier in the catalog meet every limit together"}
+		return res, ErrInfeasible
+	}
+	return res, nil
+}
