@@ -15,8 +15,10 @@
 // Families: the difference amplifier from four discrete resistors, on a
 // matched four-element network, or as an amplifier with matched resistors
 // inside; the non-inverting and inverting amplifiers; the unbuffered
-// divider. Current sense, level shift and the three-op-amp
-// instrumentation amplifier are not searched yet (Solve says so).
+// divider; current sense (a shunt from the catalog, then a difference
+// search per shunt with the limits less the shunt's share, merged by
+// cost). Level shift and the three-op-amp instrumentation amplifier are
+// not searched yet (Solve says so).
 //
 // Screening model (approximations from the domain notes and S. Franco,
 // "Design with Operational Amplifiers and Analog Integrated Circuits",
