@@ -11,7 +11,7 @@ import (
 const MaxUnknowns = 16
 
 // singularTol is the size, relative to the largest entry of its column
-// before elimination, below which an LU pivot counts as zero. A floating
+// before elimination (see Factor), below which an LU pivot counts as zero. A floating
 // node leaves an exactly zero column; a floating sub-network leaves rounding
 // residue of about 1e-16 of its conductances; a legitimate pivot, such as a
 // gigaohm path behind a milliohm shunt, is 1e-12 of its column or more.
@@ -262,17 +262,26 @@ func (s *Solver) Factor() error {
 			a[st.minus] += gmax
 		}
 	}
-	// A pivot is zero when it is below singularTol times the largest
-	// entry its column had before elimination (row swaps keep columns).
+	// A pivot is zero when it is below singularTol times the largest entry
+	// its column had before elimination (row swaps keep columns). For a
+	// node with a current-law row that is its diagonal, the node's total
+	// conductance, which no off-diagonal -1/R in the column exceeds; a
+	// column an op-amp row touches holds the row scale gmax, which bounds
+	// every entry.
 	var tiny [MaxUnknowns]float64
-	for i := 0; i < m; i++ {
-		for j, v := range a[i*m : i*m+m] {
-			if v < 0 {
-				v = -v
-			}
-			if v > tiny[j] {
-				tiny[j] = v
-			}
+	for j := range m {
+		if s.ampRow[j] < 0 {
+			tiny[j] = a[j*m+j]
+		} else {
+			tiny[j] = gmax
+		}
+	}
+	for _, op := range s.n.OpAmps {
+		if u := s.unk[op.Plus]; u >= 0 {
+			tiny[u] = max(tiny[u], gmax)
+		}
+		if u := s.unk[op.Minus]; u >= 0 {
+			tiny[u] = max(tiny[u], gmax)
 		}
 	}
 	for j := range m {
@@ -290,23 +299,29 @@ func (s *Solver) Factor() error {
 		}
 		s.piv[k] = p
 		if p != k {
-			rk, rp := a[k*m:k*m+m], a[p*m:p*m+m]
+			// Only the columns from k on are swapped; the multipliers of
+			// earlier columns stay where they were computed and forward
+			// applies the swaps in step (LINPACK's dgefa/dgesl scheme;
+			// Golub and Van Loan §3.4, from memory).
+			rk, rp := a[k*m+k:k*m+m], a[p*m+k:p*m+m]
+			rp = rp[:len(rk)]
 			for j := range rk {
 				rk[j], rp[j] = rp[j], rk[j]
 			}
 		}
 		inv := 1 / a[k*m+k]
 		s.inv[k] = inv
-		rowk := a[k*m : k*m+m]
+		tail := a[k*m+k+1 : k*m+m] // U's row k right of the pivot
 		for i := k + 1; i < m; i++ {
-			rowi := a[i*m : i*m+m]
-			l := rowi[k] * inv
+			l := a[i*m+k] * inv
 			if l == 0 {
 				continue
 			}
-			rowi[k] = l
-			for j := k + 1; j < m; j++ {
-				rowi[j] -= l * rowk[j]
+			a[i*m+k] = l
+			ri := a[i*m+k+1 : i*m+m]
+			ri = ri[:len(tail)]
+			for j, u := range tail {
+				ri[j] -= l * u
 			}
 		}
 	}
@@ -421,17 +436,16 @@ func (s *Solver) forward() {
 		b[as.row] += s.scale * v
 	}
 	a := s.lu[:m*m]
-	for k := 0; k < m; k++ {
-		if p := s.piv[k]; p != k {
-			b[k], b[p] = b[p], b[k]
+	for k := 0; k < m-1; k++ {
+		p := s.piv[k]
+		t := b[p]
+		b[p] = b[k]
+		b[k] = t
+		if t == 0 {
+			continue
 		}
-	}
-	for i := 1; i < m; i++ {
-		row := a[i*m : i*m+i]
-		sum := b[i]
-		for j, l := range row {
-			sum -= l * b[j]
+		for i := k + 1; i < m; i++ {
+			b[i] -= a[i*m+k] * t
 		}
-		b[i] = sum
 	}
 }
