@@ -35,7 +35,7 @@ type bulk struct {
 // newBulk prepares inserts of cols into table. A column named "kind" is
 // written as the literal kind (one of the package's Kind constants, never
 // user input) rather than a parameter, since it is the same on every row.
-func newBulk(ctx context.Context, tx *sqlx.Tx, table string, cols []string, kind Kind) *bulk {
+func newBulk(tx *sqlx.Tx, table string, cols []string, kind Kind) *bulk {
 	marks := make([]string, len(cols))
 	params := 0
 	for i, c := range cols {
@@ -47,7 +47,7 @@ func newBulk(ctx context.Context, tx *sqlx.Tx, table string, cols []string, kind
 		params++
 	}
 	return &bulk{
-		ctx: ctx, tx: tx,
+		tx:    tx,
 		head:  "INSERT INTO " + table + " (" + strings.Join(cols, ", ") + ") VALUES ",
 		row:   "(" + strings.Join(marks, ", ") + ")",
 		chunk: max(1, maxBulkArgs/params),
@@ -114,61 +114,27 @@ type upsertRun struct {
 	results []UpsertResult
 }
 
-func (s *Store) upsert(ctx context.Context, b *Batch, opt UpsertOptions) (_ []UpsertResult, err error) {
-	where := "catalog " + s.name()
+// upsert is BeginUpsert, one Add and Commit: there is one way of writing.
+func (s *Store) upsert(ctx context.Context, b *Batch, opt UpsertOptions) ([]UpsertResult, error) {
 	if b == nil {
 		return nil, nil
 	}
 	if err := b.Validate(); err != nil {
-		return nil, fmt.Errorf("%w: nothing was written to %s; fix the part and import again", err, where)
+		return nil, fmt.Errorf("%w: nothing was written to %s; fix the part and import again", err, "catalog "+s.name())
 	}
-	u := &upsertRun{ctx: ctx, opt: opt, now: opt.Now.UTC()}
-	if opt.Now.IsZero() {
-		u.now = time.Now().UTC()
-	}
-	u.tx, err = s.db.BeginTxx(ctx, nil)
+	us, err := s.BeginUpsert(ctx, opt)
 	if err != nil {
-		return nil, fmt.Errorf("catalog: upsert into %s: begin: %w: if another plumb is writing to it, try again when it has finished", where, err)
-	}
-	defer func() {
-		if err != nil {
-			u.tx.Rollback()
-			hint := ""
-			if msg := err.Error(); strings.Contains(msg, "database is locked") || strings.Contains(msg, "SQLITE_BUSY") {
-				hint = fmt.Sprintf("; another process held the catalog's write lock for over %s: try again when it has finished", BusyTimeout)
-			}
-			err = fmt.Errorf("catalog: upsert into %s: %w: nothing was written%s", where, err, hint)
-		}
-	}()
-	// Child rows may be flushed before their parents' chunk: check the
-	// foreign keys at commit.
-	if _, err := u.tx.ExecContext(ctx, "PRAGMA defer_foreign_keys = ON"); err != nil {
 		return nil, err
 	}
-	u.results = make([]UpsertResult, 0, b.Len())
-	if err := upsertKind(u, seriesTable, b.ResistorSeries); err != nil {
+	defer us.Rollback()
+	res, err := us.Add(ctx, b)
+	if err != nil {
 		return nil, err
 	}
-	if err := upsertKind(u, resistorTable, b.Resistors); err != nil {
+	if err := us.Commit(); err != nil {
 		return nil, err
 	}
-	if err := upsertKind(u, networkTable, b.Networks); err != nil {
-		return nil, err
-	}
-	if err := upsertKind(u, amplifierTable, b.Amplifiers); err != nil {
-		return nil, err
-	}
-	if err := ctx.Err(); err != nil {
-		return nil, err
-	}
-	if opt.DryRun {
-		u.tx.Rollback()
-		return u.results, nil
-	}
-	if err := u.tx.Commit(); err != nil {
-		return nil, fmt.Errorf("commit: %w", err)
-	}
-	return u.results, nil
+	return res, nil
 }
 
 func (s *Store) name() string {
@@ -190,9 +156,20 @@ func (u *upsertRun) provenance(p *Provenance) {
 	}
 }
 
-func upsertKind[T any](u *upsertRun, t *table, parts []T) error {
+func upsertKind[T any](us *UpsertSession, t *table, parts []T) error {
 	if len(parts) == 0 {
 		return nil
+	}
+	u := us.u
+	k, err := us.state(t)
+	if err != nil {
+		return err
+	}
+	rows, kids, breaks, hist := k.rows, k.kids, k.breaks, k.hist
+	for _, b := range []*bulk{rows, kids, breaks, hist} {
+		if b != nil {
+			b.ctx = u.ctx
+		}
 	}
 	names := make([]string, len(parts))
 	for i := range parts {
@@ -211,22 +188,6 @@ func upsertKind[T any](u *upsertRun, t *table, parts []T) error {
 		v := reflect.ValueOf(&existing[i]).Elem()
 		byPart[v.FieldByIndex(t.part).String()] = v
 	}
-	var lastID int64
-	if err := u.tx.GetContext(u.ctx, &lastID, "SELECT COALESCE(MAX(id), 0) FROM "+t.name); err != nil {
-		return err
-	}
-	rows := newBulk(u.ctx, u.tx, t.name, strings.Split(t.columnList(), ", "), t.kind)
-	defer rows.close()
-	var kids *bulk
-	if t.child != nil {
-		kids = newBulk(u.ctx, u.tx, t.child.table, []string{t.child.fk, "position", t.child.col}, t.kind)
-		defer kids.close()
-	}
-	breaks := newBulk(u.ctx, u.tx, "price_breaks", []string{"kind", "part_id", "min_qty", "unit_price", "currency"}, t.kind)
-	defer breaks.close()
-	hist := newBulk(u.ctx, u.tx, "part_history", []string{"part", "kind", "source", "imported_at", "outcome", "figures", "changes"}, t.kind)
-	defer hist.close()
-	var update *sql.Stmt
 	var figures []byte
 	for i := range parts {
 		if i%256 == 0 {
@@ -242,8 +203,8 @@ func upsertKind[T any](u *upsertRun, t *table, parts []T) error {
 		var id int64
 		switch {
 		case !found:
-			lastID++
-			id = lastID
+			k.lastID++
+			id = k.lastID
 			res.Outcome = Added
 			rows.args = t.appendArgs(rows.args, id, v)
 			if err := rows.done(); err != nil {
@@ -259,6 +220,10 @@ func upsertKind[T any](u *upsertRun, t *table, parts []T) error {
 			}
 		default:
 			id = old.FieldByIndex(t.id).Int()
+			if k.seen(id) {
+				res.Outcome = Repeated
+				break
+			}
 			if res.Changes = diffFigures(t, old, v); len(res.Changes) > 0 {
 				res.Outcome = SpecChanged
 				break
@@ -268,22 +233,24 @@ func upsertKind[T any](u *upsertRun, t *table, parts []T) error {
 				break
 			}
 			res.Outcome = Updated
-			if update == nil {
-				if update, err = u.tx.PrepareContext(u.ctx, t.updateOffer()); err != nil {
-					return fmt.Errorf("update %s: %w", t.name, err)
-				}
-				defer update.Close()
+			update, err := prepare(u.ctx, u.tx, &k.update, t.updateOffer())
+			if err != nil {
+				return fmt.Errorf("update %s: %w", t.name, err)
+			}
+			drop, err := prepare(u.ctx, u.tx, &k.dropBreaks, "DELETE FROM price_breaks WHERE kind = '"+string(t.kind)+"' AND part_id = ?")
+			if err != nil {
+				return fmt.Errorf("update %s: %w", t.name, err)
 			}
 			args := t.offerArgs(v, id)
 			if _, err := update.ExecContext(u.ctx, args...); err != nil {
 				return fmt.Errorf("update %s %s: %w", t.kind, names[i], err)
 			}
-			if _, err := u.tx.ExecContext(u.ctx, "DELETE FROM price_breaks WHERE kind = ? AND part_id = ?", string(t.kind), id); err != nil {
+			if _, err := drop.ExecContext(u.ctx, id); err != nil {
 				return fmt.Errorf("update price breaks of %s %s: %w", t.kind, names[i], err)
 			}
 		}
 		u.results = append(u.results, res)
-		if res.Outcome == Unchanged {
+		if res.Outcome == Unchanged || res.Outcome == Repeated {
 			continue
 		}
 		if res.Outcome != SpecChanged {
