@@ -167,3 +167,16 @@ func addTestCurrent(n *Netlist, r *rand.Rand) {
 	res := n.Resistors[r.IntN(len(n.Resistors))]
 	n.Currents = append(n.Currents, CurrentSource{Name: "noise " + res.Name, From: res.A, To: res.B, A: (r.Float64()*2 - 1) * 1e-5})
 }
+
+// randomCase is case c of a seeded random sweep over family f: the c-th
+// option combination with random values, and on odd cases a test current
+// across a random resistor.
+func randomCase(f Family, c int, r *rand.Rand) *Netlist {
+	vs := variants(f)
+	n := mustNew(f, vs[c%len(vs)])
+	randomize(n, r)
+	if c%2 == 1 {
+		addTestCurrent(n, r)
+	}
+	return n
+}

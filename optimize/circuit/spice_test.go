@@ -70,7 +70,6 @@ func TestAgainstNgspice(t *testing.T) {
 	total, worst := 0, 0.0
 	worstAt := ""
 	for _, f := range Families() {
-		vs := variants(f)
 		var nets []*Netlist
 		var labels []string
 		exs := []excitation{exAll, exSignal, exOffset}
@@ -78,11 +77,7 @@ func TestAgainstNgspice(t *testing.T) {
 			exs = append(exs, exCommon)
 		}
 		for c := range casesPerFamily {
-			base := mustNew(f, vs[c%len(vs)])
-			randomize(base, r)
-			if c%2 == 1 {
-				addTestCurrent(base, r)
-			}
+			base := randomCase(f, c, r)
 			if c%10 == 9 && f == InAmp {
 				base.Resistors[base.Resistor("Rg")].Ohm = math.Inf(1) // open: unity first stage, written as SPICEOpenOhm
 			}
