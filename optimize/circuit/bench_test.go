@@ -65,3 +65,29 @@ func BenchmarkSolveOutInAmp(b *testing.B) {
 		s.SolveOut()
 	}
 }
+
+// BenchmarkFactorDifference and BenchmarkSolveDifference split
+// BenchmarkFactorSolveDifference into its two halves.
+func BenchmarkFactorDifference(b *testing.B) {
+	n := mustNew(Difference, Options{})
+	s := NewSolver(n)
+	b.ReportAllocs()
+	for b.Loop() {
+		if err := s.Factor(); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkSolveDifference(b *testing.B) {
+	n := mustNew(Difference, Options{})
+	s := NewSolver(n)
+	if err := s.Factor(); err != nil {
+		b.Fatal(err)
+	}
+	v := make([]float64, len(n.Nodes))
+	b.ReportAllocs()
+	for b.Loop() {
+		s.Solve(v)
+	}
+}
