@@ -59,6 +59,9 @@ func runNgspice(t *testing.T, path string, n *Netlist) map[string]float64 {
 func TestAgainstNgspice(t *testing.T) {
 	path, err := exec.LookPath("ngspice")
 	if err != nil {
+		if os.Getenv("PLUMB_REQUIRE_TOOLS") == "1" {
+			t.Fatal("ngspice not found on PATH and PLUMB_REQUIRE_TOOLS=1 (CI installs it)")
+		}
 		t.Skip("ngspice not found on PATH; skipping the cross-check against it")
 	}
 	const (
