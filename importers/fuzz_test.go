@@ -97,10 +97,17 @@ func readAll(t *testing.T, data []byte, sep rune) ([][]string, rune, bool) {
 func FuzzImportRows(f *testing.F) {
 	addFixtureSeeds(f)
 	f.Fuzz(func(t *testing.T, data []byte) {
-		b := &Batch{origin: map[string]origin{}}
-		rep := &Report{}
-		rows := 0
-		err := readStream(context.Background(), "fuzz.csv", bytes.NewReader(data), Options{Preview: -1}, b, rep, &rows)
+		b := &Batch{}
+		opt := Options{Preview: -1}
+		sc, err := newScan(context.Background(), []string{"fuzz.csv"}, &opt, func(c *Batch) error {
+			b.Resistors = append(b.Resistors, c.Resistors...)
+			return nil
+		})
+		if err != nil {
+			t.Fatal(err)
+		}
+		rep := sc.rep
+		err = sc.stream("fuzz.csv", bytes.NewReader(data))
 		var pe *ParseError
 		if err != nil && (!errors.As(err, &pe) || pe.File != "fuzz.csv") {
 			t.Fatalf("error without the file: %v", err)

@@ -4,42 +4,76 @@ import (
 	"context"
 	"fmt"
 	"sort"
-	"time"
 
 	"plumb/catalog"
 )
 
 // Store is the part of the catalog store an import writes through
-// (*catalog.Store has it): one Upsert is one transaction.
+// (*catalog.Store has it): one session is one transaction, fed in chunks.
 type Store interface {
-	Upsert(ctx context.Context, b *catalog.Batch, opt catalog.UpsertOptions) ([]catalog.UpsertResult, error)
+	BeginUpsert(ctx context.Context, opt catalog.UpsertOptions) (*catalog.UpsertSession, error)
 }
 
 // Import reads the files (see Read) and upserts every part they hold into
-// the store in one transaction, so the catalog gets all of it or none of
-// it. With opt.DryRun the store computes the outcomes and rolls back. The
+// the store in ONE transaction, so the catalog gets all of it or none of
+// it. It streams: rows are handed to the store ChunkRows at a time (at the
+// end of a run of alike resistor rows, so series grouping sees whole runs)
+// and only the report is kept, so memory does not grow with the files.
+// With opt.DryRun the store computes the outcomes and rolls back. The
 // report counts added, updated, unchanged and spec-changed parts; a spec
-// change is reported, never written over the catalog's figures.
+// change is reported, never written over the catalog's figures. Report.Results
+// keeps only the spec-changed parts' results, not one per part.
 func Import(ctx context.Context, st Store, files []string, opt Options) (*Report, error) {
-	if opt.Now.IsZero() {
-		opt.Now = time.Now().UTC()
+	var us *catalog.UpsertSession
+	var sc *scan
+	written := 0
+	emit := func(c *Batch) error {
+		if us == nil {
+			s, err := st.BeginUpsert(ctx, catalog.UpsertOptions{Source: opt.Source, Now: opt.Now, DryRun: opt.DryRun})
+			if err != nil {
+				return fmt.Errorf("importers: writing to the catalog (nothing was written): %w", err)
+			}
+			us = s
+		}
+		res, err := us.Add(ctx, &catalog.Batch{ResistorSeries: c.Series, Resistors: c.Resistors, Networks: c.Networks, Amplifiers: c.Amplifiers})
+		if err != nil {
+			return fmt.Errorf("importers: writing %d parts to the catalog (nothing was written): %w", written+c.Len()+len(c.Series), err)
+		}
+		written += c.Len() + len(c.Series)
+		if written == c.Len()+len(c.Series) && opt.BeforeWrite != nil {
+			opt.BeforeWrite(written)
+		}
+		sc.tally(res, c.origin)
+		return nil
 	}
-	b, rep, err := Read(ctx, files, opt)
+	sc, err := newScan(ctx, files, &opt, emit)
 	if err != nil {
 		return nil, err
 	}
-	if opt.BeforeWrite != nil {
-		opt.BeforeWrite(b.Len())
+	defer func() {
+		if us != nil {
+			us.Rollback() // after Commit, a no-op
+		}
+	}()
+	if err := sc.files(files); err != nil {
+		return nil, err
 	}
-	batch := &catalog.Batch{ResistorSeries: b.Series, Resistors: b.Resistors, Networks: b.Networks, Amplifiers: b.Amplifiers}
-	res, err := st.Upsert(ctx, batch, catalog.UpsertOptions{Source: opt.Source, Now: opt.Now, DryRun: opt.DryRun})
-	if err != nil {
-		return rep, fmt.Errorf("importers: writing %d parts to the catalog (nothing was written): %w", b.Len()+len(b.Series), err)
+	if us != nil {
+		if err := us.Commit(); err != nil {
+			return nil, fmt.Errorf("importers: writing %d parts to the catalog (nothing was written): %w", written, err)
+		}
 	}
-	rep.Results = res
-	rep.Summary.DryRun = opt.DryRun
+	sc.rep.Summary.DryRun = opt.DryRun
+	sc.finish()
+	return sc.rep, nil
+}
+
+// tally counts the store's outcomes for one chunk and keeps what the report
+// needs of them: spec changes and parts repeated from an earlier chunk.
+func (sc *scan) tally(res []catalog.UpsertResult, where map[string]origin) {
+	rep := sc.rep
 	for _, r := range res {
-		rep.Summary.Imported++
+		o := where[string(r.Kind)+"|"+r.Part]
 		switch r.Outcome {
 		case catalog.Added:
 			rep.Summary.Added++
@@ -49,13 +83,21 @@ func Import(ctx context.Context, st Store, files []string, opt Options) (*Report
 			rep.Summary.Unchanged++
 		case catalog.SpecChanged:
 			rep.Summary.SpecChanged++
-			o := b.origin[string(r.Kind)+"|"+r.Part]
+			rep.Results = append(rep.Results, r)
 			rep.Problems = append(rep.Problems, Problem{ParseError: ParseError{File: o.file, Line: o.line, Err: errSpecChange}, Severity: Doubt, Part: r.Part,
 				Reason: fmt.Sprintf("figures differ from the catalog's, which are kept: %v; check the datasheet and update the part deliberately", r.Changes)})
+		case catalog.Repeated:
+			// Read earlier in this import, in an earlier chunk.
+			rep.Summary.Parts--
+			if r.Kind == catalog.KindSeries {
+				rep.Summary.Series--
+			}
+			rep.Problems = append(rep.Problems, newProblem(Skip, &ParseError{File: o.file, Line: o.line, Raw: r.Part,
+				Err: fmt.Errorf("%w: already read earlier in this import; this row is left out", ErrDuplicate)}, r.Part))
+			continue
 		}
+		rep.Summary.Imported++
 	}
-	sortProblems(rep.Problems)
-	return rep, nil
 }
 
 var errSpecChange = fmt.Errorf("importers: figures differ from the catalog")

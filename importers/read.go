@@ -31,8 +31,9 @@ type Options struct {
 	// Progress, when set, is called with the number of rows read so far,
 	// every ProgressEvery rows and at the end of each file.
 	Progress func(rows int)
-	// BeforeWrite, when set, is called by Import with the number of parts
-	// once the files are read, just before the one write transaction.
+	// BeforeWrite, when set, is called by Import once, when the first
+	// chunk of parts has been written inside the one write transaction,
+	// with the number of parts in it.
 	BeforeWrite func(parts int)
 	// Preview is how many parsed rows per file the report keeps (default
 	// 5; negative keeps none).
@@ -60,18 +61,89 @@ type origin struct {
 // Len is the number of parts in the batch (series not counted).
 func (b *Batch) Len() int { return len(b.Resistors) + len(b.Networks) + len(b.Amplifiers) }
 
+func (b *Batch) reset() {
+	b.Series, b.Resistors, b.Networks, b.Amplifiers = b.Series[:0], b.Resistors[:0], b.Networks[:0], b.Amplifiers[:0]
+}
+
+// ChunkRows is how many parts an import reads before handing them to the
+// store, so that its memory does not grow with the file. A run of alike
+// resistor rows (a possible series) is not cut unless it reaches
+// maxRunRows.
+const ChunkRows = 4096
+
+// maxRunRows bounds a run of rows held whole for series grouping. No
+// series is that long: E192 over fifteen decades is 2880 values.
+const maxRunRows = 4 * ChunkRows
+
+// scan is the state of reading a set of files chunk by chunk.
+type scan struct {
+	ctx context.Context
+	opt Options
+	rep *Report
+	// seen maps kind|part to where it was read. Read keeps every row's, to
+	// find a part number repeated anywhere; Import only the current
+	// chunk's (the store reports a part repeated across chunks).
+	seen     map[string]origin
+	keepSeen bool
+	// emit hands a chunk over; the chunk's slices are reused afterwards.
+	emit  func(*Batch) error
+	chunk Batch
+	rows  int
+}
+
+// flush hands the chunk over.
+func (sc *scan) flush() error {
+	if sc.chunk.Len()+len(sc.chunk.Series) == 0 {
+		return nil
+	}
+	sc.rep.Summary.Parts += sc.chunk.Len() + len(sc.chunk.Series)
+	sc.rep.Summary.Series += len(sc.chunk.Series)
+	sc.chunk.origin = sc.seen
+	if err := sc.emit(&sc.chunk); err != nil {
+		return err
+	}
+	sc.chunk.reset()
+	if !sc.keepSeen {
+		clear(sc.seen)
+	}
+	return nil
+}
+
 // Read reads and checks the files without touching a catalog: the parts,
 // and the report of every row skipped or in doubt. It fails, for all files,
 // only on a file it cannot read at all (missing, binary, empty, no column
-// for the part number...); a bad row is skipped and reported.
+// for the part number...); a bad row is skipped and reported. Read holds
+// every part in memory; Import streams.
 func Read(ctx context.Context, files []string, opt Options) (*Batch, *Report, error) {
+	b := &Batch{}
+	sc, err := newScan(ctx, files, &opt, func(c *Batch) error {
+		b.Series = append(b.Series, c.Series...)
+		b.Resistors = append(b.Resistors, c.Resistors...)
+		b.Networks = append(b.Networks, c.Networks...)
+		b.Amplifiers = append(b.Amplifiers, c.Amplifiers...)
+		return nil
+	})
+	if err != nil {
+		return nil, nil, err
+	}
+	sc.keepSeen = true
+	if err := sc.files(files); err != nil {
+		return nil, nil, err
+	}
+	b.origin = sc.seen
+	sc.finish()
+	return b, sc.rep, nil
+}
+
+// newScan checks the options and sets up reading files into emit.
+func newScan(ctx context.Context, files []string, opt *Options, emit func(*Batch) error) (*scan, error) {
 	if len(files) == 0 {
-		return nil, nil, errors.New("importers: no file to import")
+		return nil, errors.New("importers: no file to import")
 	}
 	switch opt.Kind {
 	case "", "auto", catalog.KindResistor, catalog.KindNetwork, catalog.KindAmplifier:
 	default:
-		return nil, nil, fmt.Errorf("%w: kind %q: use resistor, network, amplifier or auto", ErrUnknownKind, opt.Kind)
+		return nil, fmt.Errorf("%w: kind %q: use resistor, network, amplifier or auto", ErrUnknownKind, opt.Kind)
 	}
 	if opt.Now.IsZero() {
 		opt.Now = time.Now().UTC()
@@ -79,36 +151,42 @@ func Read(ctx context.Context, files []string, opt Options) (*Batch, *Report, er
 	if opt.Preview == 0 {
 		opt.Preview = 5
 	}
-	b := &Batch{origin: map[string]origin{}}
-	rep := &Report{}
-	rows := 0
+	return &scan{ctx: ctx, opt: *opt, rep: &Report{}, seen: map[string]origin{}, emit: emit}, nil
+}
+
+func (sc *scan) files(files []string) error {
 	for _, name := range files {
-		if err := readFile(ctx, name, opt, b, rep, &rows); err != nil {
-			return nil, nil, err
+		if err := sc.file(name); err != nil {
+			return err
 		}
 	}
+	return nil
+}
+
+// finish sorts the problems and counts the skipped rows.
+func (sc *scan) finish() {
+	rep := sc.rep
 	sortProblems(rep.Problems)
-	rep.Summary.Rows = rows
-	rep.Summary.Parts = b.Len() + len(b.Series)
-	rep.Summary.Series = len(b.Series)
+	rep.Summary.Rows = sc.rows
+	rep.Summary.Skipped = 0
 	for _, p := range rep.Problems {
 		if p.Severity == Skip && p.Line > 0 {
 			rep.Summary.Skipped++
 		}
 	}
-	return b, rep, nil
 }
 
-func readFile(ctx context.Context, name string, opt Options, b *Batch, rep *Report, rows *int) error {
+func (sc *scan) file(name string) error {
 	f, err := os.Open(name)
 	if err != nil {
 		return &ParseError{File: name, Err: fmt.Errorf("opening: %w", err)}
 	}
 	defer f.Close()
-	return readStream(ctx, name, f, opt, b, rep, rows)
+	return sc.stream(name, f)
 }
 
-func readStream(ctx context.Context, name string, in io.Reader, opt Options, b *Batch, rep *Report, rows *int) error {
+func (sc *scan) stream(name string, in io.Reader) error {
+	ctx, opt, rep := sc.ctx, sc.opt, sc.rep
 	rd, err := NewReader(name, in)
 	if err != nil {
 		return err
@@ -178,7 +256,25 @@ func readStream(ctx context.Context, name string, in io.Reader, opt Options, b *
 		rep.Problems = append(rep.Problems, newProblem(Info, &ParseError{File: name,
 			Err: errors.New("the file is not UTF-8: read as Windows-1252, the usual spreadsheet encoding; check the ± ° µ Ω signs")}, ""))
 	}
+	// res is the pending run of resistor rows, grouped into series when
+	// it is handed over.
 	var res []parsed
+	group := func() error {
+		if len(res) == 0 {
+			return nil
+		}
+		series, singles, groups, notes := groupSeries(name, res)
+		sc.chunk.Series = append(sc.chunk.Series, series...)
+		sc.chunk.Resistors = append(sc.chunk.Resistors, singles...)
+		fr.Groups = append(fr.Groups, groups...)
+		rep.Problems = append(rep.Problems, notes...)
+		for _, s := range series {
+			sc.seen[string(catalog.KindSeries)+"|"+s.Part] = origin{name, 0}
+		}
+		clear(res)
+		res = res[:0]
+		return sc.flush()
+	}
 	fileRows := 0
 	for {
 		rec, line, err := rd.Read()
@@ -192,7 +288,7 @@ func readStream(ctx context.Context, name string, in io.Reader, opt Options, b *
 			}
 			rep.Problems = append(rep.Problems, newProblem(Skip, pe, ""))
 			fileRows++
-			*rows++
+			sc.rows++
 			continue
 		}
 		if err != nil {
@@ -202,13 +298,13 @@ func readStream(ctx context.Context, name string, in io.Reader, opt Options, b *
 			continue
 		}
 		fileRows++
-		*rows++
-		if *rows%ProgressEvery == 0 {
+		sc.rows++
+		if sc.rows%ProgressEvery == 0 {
 			if err := ctx.Err(); err != nil {
 				return fmt.Errorf("importers: %s: %w", name, err)
 			}
 			if opt.Progress != nil {
-				opt.Progress(*rows)
+				opt.Progress(sc.rows)
 			}
 		}
 		p, err := rr.read(rec, line)
@@ -218,43 +314,48 @@ func readStream(ctx context.Context, name string, in io.Reader, opt Options, b *
 			continue
 		}
 		key := string(kind) + "|" + p.key()
-		if first, dup := b.origin[key]; dup {
+		if first, dup := sc.seen[key]; dup {
 			rep.Problems = append(rep.Problems, newProblem(Skip, &ParseError{File: name, Line: line, Column: rr.header[cols[FieldPart]],
 				Raw: p.key(), Err: fmt.Errorf("%w: already read at %s:%d; this row is left out", ErrDuplicate, first.file, first.line)}, p.key()))
 			continue
 		}
-		b.origin[key] = origin{name, line}
 		if len(fr.Preview) < opt.Preview {
 			fr.Preview = append(fr.Preview, previewOf(p))
 		}
 		switch kind {
 		case catalog.KindResistor:
+			// Hand the rows over at the end of a run of alike rows, so a
+			// series is never cut.
+			if n := len(res); n >= ChunkRows && (n >= maxRunRows || !sameGroup(res[n-1].resistor, p.resistor)) {
+				if err := group(); err != nil {
+					return err
+				}
+			}
 			res = append(res, p)
 		case catalog.KindNetwork:
-			b.Networks = append(b.Networks, *p.network)
+			sc.chunk.Networks = append(sc.chunk.Networks, *p.network)
 		default:
-			b.Amplifiers = append(b.Amplifiers, *p.amplifier)
+			sc.chunk.Amplifiers = append(sc.chunk.Amplifiers, *p.amplifier)
+		}
+		// After a flush, so the chunk's origins hold only its own rows.
+		sc.seen[key] = origin{name, line}
+		if sc.chunk.Len() >= ChunkRows {
+			if err := sc.flush(); err != nil {
+				return err
+			}
 		}
 	}
 	if opt.Progress != nil {
-		opt.Progress(*rows)
+		opt.Progress(sc.rows)
 	}
 	if fileRows == 0 {
 		return &ParseError{File: name, Err: fmt.Errorf("%w: export the table again with its rows", ErrNoRows)}
 	}
-	if len(res) > 0 {
-		series, singles, groups, notes := groupSeries(name, res)
-		b.Series = append(b.Series, series...)
-		if b.Resistors == nil {
-			b.Resistors = singles
-		} else {
-			b.Resistors = append(b.Resistors, singles...)
-		}
-		fr.Groups = groups
-		rep.Problems = append(rep.Problems, notes...)
-		for _, s := range series {
-			b.origin[string(catalog.KindSeries)+"|"+s.Part] = origin{name, 0}
-		}
+	if err := group(); err != nil {
+		return err
+	}
+	if err := sc.flush(); err != nil {
+		return err
 	}
 	fr.Rows = fileRows
 	rep.Files = append(rep.Files, fr)
