@@ -3,6 +3,8 @@ package budget
 import (
 	"fmt"
 	"math"
+
+	"plumb/optimize/spec"
 )
 
 // Thresholds for cautions (domain notes §5; IEC 61010-1 and IEC 62368-1
@@ -12,8 +14,9 @@ const (
 	// hazardous.
 	HazardDCV = 60.0
 	// HazardRMSV is the rms level above which an AC voltage is treated as
-	// hazardous; a bipolar input is taken as a sine whose peak is its
-	// range end, so the threshold is HazardRMSV x √2 peak.
+	// hazardous; an input or common-mode range that swings both ways is
+	// taken as a sine whose peak is its smaller range end, so the
+	// threshold is HazardRMSV x √2 peak.
 	HazardRMSV = 30.0
 	// NearRating is the fraction of a derated power or rated voltage above
 	// which a resistor is flagged (common practice).
@@ -23,48 +26,94 @@ const (
 	NearPinV = 0.1
 )
 
-// hazardCaution is the text printed for specs at hazardous voltages.
-const hazardCaution = "HAZARDOUS VOLTAGE: %s reaches %.4g V, above %g V DC or %g V rms. " +
+// hazardText is the caution printed for specs at hazardous voltages: the
+// highest voltage on the input terminals and supplies, which limit it
+// crosses, and the deferral to the standards, local codes and a qualified
+// person (domain notes §5).
+const hazardText = "HAZARDOUS VOLTAGE: the highest voltage on the input terminals and supplies is %.4g V (%s), %s. " +
 	"Creepage, clearance, insulation and every resistor's voltage rating must be checked against the applicable standard " +
 	"(IEC 61010-1 for measurement equipment, IEC 62368-1 for ICT and AV equipment) and local codes by a qualified, licensed person. " +
 	"plumb is a selection aid, not a safety approval."
 
-// cautions adds hazardous-voltage and near-rating cautions to res.
-func (e *Evaluator) cautions(res *Result) {
-	s := e.s
+// HazardCaution returns the hazardous-voltage caution for spec s, or ""
+// when every voltage stays below the limits. currentInput is true for a
+// current-sense stage, whose signal is a current and whose terminals sit at
+// the common mode.
+//
+// The voltages considered: a single-ended input against ground; for a
+// differential input the voltage between the two input terminals (the
+// differential input) and each terminal against ground (common mode ±
+// half the differential input); the common-mode range; each supply rail
+// and the span between the rails. The highest of them is hazardous above
+// HazardDCV; an input or common-mode range that swings both ways may be AC
+// and is hazardous when its smaller peak exceeds HazardRMSV x √2 (a sine
+// of 30 V rms; IEC 61010-1 and IEC 62368-1, from memory).
+func HazardCaution(s *spec.Spec, currentInput bool) string {
 	worst, what := 0.0, ""
 	consider := func(v float64, name string) {
 		if math.Abs(v) > worst {
 			worst, what = math.Abs(v), name
 		}
 	}
-	if e.sigCur < 0 && e.family != "current-sense" {
-		if e.differential {
-			for _, cm := range [2]float64{s.CommonMode.Min, s.CommonMode.Max} {
-				for _, d := range [2]float64{s.Input.Min, s.Input.Max} {
-					consider(cm+d/2, "an input pin (common mode plus half the differential input)")
-				}
-			}
-		} else {
-			consider(s.Input.Min, "the input")
-			consider(s.Input.Max, "the input")
+	acPeak := 0.0 // largest peak of a range that swings both ways
+	bipolar := func(r spec.Range) {
+		if r.Min < 0 && r.Max > 0 {
+			acPeak = math.Max(acPeak, math.Min(-r.Min, r.Max))
 		}
 	}
-	consider(s.CommonMode.Min, "the common-mode input")
-	consider(s.CommonMode.Max, "the common-mode input")
-	consider(s.Supply.Min, "a supply rail")
-	consider(s.Supply.Max, "a supply rail")
-	consider(s.Supply.Span(), "the supply span")
-	bipolarPeak := math.Min(math.Abs(s.Input.Min), math.Abs(s.Input.Max))
-	hazard := worst > HazardDCV || (s.Input.Min < 0 && s.Input.Max > 0 && e.sigCur < 0 && bipolarPeak > HazardRMSV*math.Sqrt2)
-	if hazard {
-		res.Cautions = append(res.Cautions, fmt.Sprintf(hazardCaution, what, worst, HazardDCV, HazardRMSV))
+	switch {
+	case currentInput:
+	case s.Differential:
+		for _, d := range [2]float64{s.Input.Min, s.Input.Max} {
+			consider(d, "the differential input, between the two input terminals")
+		}
+		for _, cm := range [2]float64{s.CommonMode.Min, s.CommonMode.Max} {
+			for _, d := range [2]float64{s.Input.Min, s.Input.Max} {
+				for _, pin := range [2]float64{cm + d/2, cm - d/2} {
+					consider(pin, "an input terminal against ground, the common mode and half the differential input")
+				}
+			}
+		}
+		bipolar(s.Input)
+	default:
+		consider(s.Input.Min, "the input against ground")
+		consider(s.Input.Max, "the input against ground")
+		bipolar(s.Input)
+	}
+	if s.Differential || currentInput {
+		consider(s.CommonMode.Min, "the common-mode input against ground")
+		consider(s.CommonMode.Max, "the common-mode input against ground")
+		bipolar(s.CommonMode)
+	}
+	consider(s.Supply.Min, "a supply rail against ground")
+	consider(s.Supply.Max, "a supply rail against ground")
+	consider(s.Supply.Span(), "between the supply rails")
+	acLimit := HazardRMSV * math.Sqrt2
+	var above string
+	switch {
+	case worst > HazardDCV && acPeak > acLimit:
+		above = fmt.Sprintf("above %g V DC; an input swinging both ways to %.4g V peak is also above %g V rms (%.3g V peak) if it is AC", HazardDCV, acPeak, HazardRMSV, acLimit)
+	case worst > HazardDCV:
+		above = fmt.Sprintf("above %g V DC", HazardDCV)
+	case acPeak > acLimit:
+		above = fmt.Sprintf("below %g V DC, but an input swinging both ways to %.4g V peak is above %g V rms (%.3g V peak) if it is AC", HazardDCV, acPeak, HazardRMSV, acLimit)
+	default:
+		return ""
+	}
+	return fmt.Sprintf(hazardText, worst, what, above)
+}
+
+// cautions adds hazardous-voltage and near-rating cautions to res.
+func (e *Evaluator) cautions(res *Result) {
+	s := e.s
+	if c := HazardCaution(s, e.sigCur >= 0); c != "" {
+		res.Cautions = append(res.Cautions, c)
 	}
 	m := &res.Metrics
 	pr, pAt, vr, vAt := e.ratings()
 	if pAt >= 0 && pr > NearRating {
 		res.Cautions = append(res.Cautions, fmt.Sprintf("%s dissipates %.0f %% of its derated power (derating %.0f %%): near or above its rating; choose a larger part or higher values",
-			e.positions[pAt], 100*pr, 100*s.Derating))
+			e.positions[pAt], 100*pr, 100*e.derating()))
 	}
 	if vAt >= 0 && vr > NearRating {
 		res.Cautions = append(res.Cautions, fmt.Sprintf("%s sees %.0f %% of its rated voltage min(sqrt(P R), limiting element voltage): near or above its rating",

@@ -2,6 +2,8 @@ package budget
 
 import (
 	"math"
+
+	"plumb/optimize/spec"
 )
 
 // corners lists the signal and common-mode extremes the stress and
@@ -93,6 +95,16 @@ func (e *Evaluator) stress() error {
 	return nil
 }
 
+// derating is the spec's fraction of rated power a resistor may dissipate;
+// the zero value of a spec built in code means spec.DefaultDerating (50 %,
+// a common practice for film resistors; ECSS-Q-ST-30-11, from memory).
+func (e *Evaluator) derating() float64 {
+	if e.s.Derating > 0 {
+		return e.s.Derating
+	}
+	return spec.DefaultDerating
+}
+
 // ratings returns the worst resistor dissipation over its derated power
 // and the worst voltage over its rated voltage min(sqrt(P R), limiting
 // element voltage) (IEC 60115-1, from memory), with the positions.
@@ -100,7 +112,7 @@ func (e *Evaluator) ratings() (pr float64, pAt int, vr float64, vAt int) {
 	pAt, vAt = -1, -1
 	for k, f := range e.c.Figs {
 		if f.PowerW > 0 {
-			if r := e.pmax[k] / (e.s.Derating * f.PowerW); r > pr {
+			if r := e.pmax[k] / (e.derating() * f.PowerW); r > pr {
 				pr, pAt = r, k
 			}
 			rated := math.Sqrt(f.PowerW * f.Ohm)

@@ -1,0 +1,106 @@
+package budget
+
+import (
+	"math"
+	"strings"
+	"testing"
+
+	"plumb/optimize/spec"
+)
+
+// TestHazardCautionVoltages: the caution names the highest voltage on the
+// input terminals and supplies and the limit it crosses: 60 V DC, or 30 V
+// rms (42.4 V peak of a sine) for a range that swings both ways (IEC
+// 61010-1 and IEC 62368-1, from memory; domain notes §5).
+func TestHazardCautionVoltages(t *testing.T) {
+	low := spec.Range{Min: -15, Max: 15}
+	cases := []struct {
+		name    string
+		s       spec.Spec
+		current bool
+		want    []string // substrings; nil: no caution
+	}{
+		{name: "5 V logger", s: spec.Spec{Input: spec.Range{Max: 2.5}, Supply: spec.Range{Max: 5}}},
+		{name: "unipolar 50 V is below 60 V DC", s: spec.Spec{Input: spec.Range{Max: 50}, Supply: low}},
+		{name: "unipolar 100 V input", s: spec.Spec{Input: spec.Range{Max: 100}, Supply: low},
+			want: []string{"is 100 V (the input against ground), above 60 V DC."}},
+		{name: "±50 V input may be 35 V rms", s: spec.Spec{Input: spec.Range{Min: -50, Max: 50}, Supply: low},
+			want: []string{"is 50 V (the input against ground), below 60 V DC, but an input swinging both ways to 50 V peak is above 30 V rms (42.4 V peak)"}},
+		{name: "±40 V input stays under 30 V rms", s: spec.Spec{Input: spec.Range{Min: -40, Max: 40}, Supply: low}},
+		// The reviewed case: the pins sit at ±5 V ± 50 V = 55 V, but the two
+		// input terminals are 100 V apart.
+		{name: "±100 V differential", s: spec.Spec{Differential: true, Input: spec.Range{Min: -100, Max: 100}, CommonMode: spec.Range{Min: -5, Max: 5}, Supply: low},
+			want: []string{"is 100 V (the differential input, between the two input terminals), above 60 V DC; an input swinging both ways to 100 V peak is also above 30 V rms"}},
+		{name: "75 V common mode", s: spec.Spec{Differential: true, Input: spec.Range{Min: -1, Max: 1}, CommonMode: spec.Range{Min: 70, Max: 75}, Supply: low},
+			want: []string{"is 75.5 V (an input terminal against ground, the common mode and half the differential input), above 60 V DC."}},
+		{name: "current sense on a 75 V bus", s: spec.Spec{Input: spec.Range{Max: 5}, CommonMode: spec.Range{Min: 70, Max: 75}, Supply: spec.Range{Max: 5}}, current: true,
+			want: []string{"is 75 V (the common-mode input against ground), above 60 V DC."}},
+		{name: "5 A current sense is not 5 V", s: spec.Spec{Input: spec.Range{Max: 70}, CommonMode: spec.Range{Min: -0.1, Max: 0.1}, Supply: spec.Range{Max: 5}}, current: true},
+		{name: "±36 V rails", s: spec.Spec{Input: spec.Range{Max: 1}, Supply: spec.Range{Min: -36, Max: 36}},
+			want: []string{"is 72 V (between the supply rails), above 60 V DC."}},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			got := HazardCaution(&c.s, c.current)
+			if c.want == nil {
+				if got != "" {
+					t.Errorf("caution %q, want none", got)
+				}
+				return
+			}
+			for _, w := range append(c.want, "HAZARDOUS VOLTAGE: the highest voltage on the input terminals and supplies",
+				"IEC 61010-1", "IEC 62368-1", "local codes", "qualified, licensed person", "not a safety approval") {
+				if !strings.Contains(got, w) {
+					t.Errorf("caution %q\nlacks %q", got, w)
+				}
+			}
+		})
+	}
+}
+
+// TestZeroDeratingMeansDefault: a spec built in code leaves Derating at 0,
+// which means the documented default of 50 % of rated power (domain notes
+// §5, ECSS-Q-ST-30-11, from memory), not a power ratio of +Inf. Rtop of a
+// 2.1k/300 divider at 24 V dissipates (24 x 2.1/2.4)² / 2.1k = 0.21 W
+// (Ohm's law, hand calculation), 1.68 times 50 % of 0.25 W.
+func TestZeroDeratingMeansDefault(t *testing.T) {
+	s := mustSpec(t, `name: t
+about: divider power
+family: divider
+gain: 0.125
+input: {single_ended: 0..24V}
+supply: 0..3.3V
+temperature: {range: 25..25C}
+limits: {gain_error: 5%}
+`)
+	d := mustDesign(t, `family: divider
+positions:
+  Rtop: {value: 2.1k, tolerance: 1%, tcr: 100ppm/K, power: 0.25W}
+  Rbot: {value: 300, tolerance: 1%, tcr: 100ppm/K, power: 0.25W}
+`)
+	cases := []struct {
+		name     string
+		derating float64
+		want     float64
+	}{
+		{"zero value is the 50 % default", 0, 0.21 / (0.5 * 0.25)},
+		{"50 % as parsed", 0.5, 0.21 / (0.5 * 0.25)},
+		{"70 %", 0.7, 0.21 / (0.7 * 0.25)},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			sc := *s
+			sc.Derating = c.derating
+			res, err := Evaluate(&sc, d)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if got := res.Metrics.PowerRatio; math.IsInf(got, 0) || math.Abs(got-c.want) > 1e-9*c.want {
+				t.Errorf("power ratio %.9g, want %.9g", got, c.want)
+			}
+			if c.derating == 0 && !strings.Contains(strings.Join(res.Cautions, "\n"), "(derating 50 %)") {
+				t.Errorf("cautions %q, want the power caution at the 50 %% default", res.Cautions)
+			}
+		})
+	}
+}
