@@ -21,6 +21,9 @@ var (
 	ErrShortStock = errors.New("cost: not enough stock")
 	// ErrBuild is returned for an invalid build description.
 	ErrBuild = errors.New("cost: invalid build")
+	// ErrDesign is returned for a design whose parts cannot be listed: a
+	// part of the wrong kind at a position, or an unknown family.
+	ErrDesign = errors.New("cost: design cannot be priced")
 )
 
 // ceilSlack absorbs binary rounding in quantity x (1 + attrition) so that,
