@@ -224,19 +224,42 @@ positions:
 }
 
 // TestTempcoOverRange: two 25 ppm/K resistors of opposite sign move a ratio
-// by 2 x 25 x 60 = 3000 ppm over a 60 K excursion (common practice
-// arithmetic); exactly (1 + 1.5e-3)/(1 - 1.5e-3) - 1 = 3004.5 ppm.
+// by 2 x 25 x ΔT ppm over the worst excursion ΔT = max(|Tmax-25|,
+// |Tmin-25|) from the 25 C reference (common practice arithmetic; domain
+// notes §3). Over -40..85 C that is 65 K (from 25 C down to -40 C), not
+// the 60 K of the 85 C end alone: 3250 ppm, exactly (1 + 1.625e-3)/(1 -
+// 1.625e-3) - 1 = 3255.3 ppm.
 func TestTempcoOverRange(t *testing.T) {
-	s, d := inverting(t, "0%", "25ppm/K", "25..85C", "")
-	res, err := Evaluate(s, d)
-	if err != nil {
-		t.Fatal(err)
+	cases := []struct {
+		name   string
+		rng    string
+		dt     float64 // worst excursion, K
+		approx float64 // 2 x 25 ppm/K x dt
+	}{
+		{"85 C end only: 60 K", "25..85C", 60, 3000e-6},
+		{"-40..85 C: 65 K at -40 C", "-40..85C", 65, 3250e-6},
+		{"-40 C end only: 65 K", "-40..25C", 65, 3250e-6},
+		{"-20..85 C: 60 K at 85 C", "-20..85C", 60, 3000e-6},
 	}
-	if got := res.Metrics.GainError; math.Abs(got-3000e-6) > 10e-6 {
-		t.Errorf("gain error over 60 K = %.5g, want about 3000 ppm", got)
-	}
-	if got := res.Metrics.DriftPPMPerK; math.Abs(got-50) > 0.2 {
-		t.Errorf("drift %.4g ppm/K, want about 50", got)
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			s, d := inverting(t, "0%", "25ppm/K", c.rng, "")
+			if got := s.WorstExcursion(); got != c.dt {
+				t.Fatalf("worst excursion %g K, want %g", got, c.dt)
+			}
+			res, err := Evaluate(s, d)
+			if err != nil {
+				t.Fatal(err)
+			}
+			a := 25e-6 * c.dt
+			exact := (1+a)/(1-a) - 1
+			if got := res.Metrics.GainError; math.Abs(got-exact) > 1e-9 || math.Abs(got-c.approx) > 10e-6 {
+				t.Errorf("gain error over %g K = %.6g, want %.6g (about %.4g)", c.dt, got, exact, c.approx)
+			}
+			if got, want := res.Metrics.DriftPPMPerK, 1e6*exact/c.dt; math.Abs(got-want) > 1e-6 {
+				t.Errorf("drift %.6g ppm/K, want %.6g (about 50)", got, want)
+			}
+		})
 	}
 }
 
