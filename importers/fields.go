@@ -34,6 +34,16 @@ const (
 	FieldElements       Field = "elements"
 	FieldRatioTolerance Field = "ratio_tolerance"
 	FieldTCRTracking    Field = "tcr_tracking"
+	FieldSeriesPart     Field = "series_part"        // the series a single resistor belongs to
+	FieldThermalRes     Field = "thermal_resistance" // K/W to ambient
+	FieldLoadLife       Field = "load_life"          // stability over rated life, a tolerance
+)
+
+// Resistor series fields (the catalog's own series export).
+const (
+	FieldESeries Field = "e_series"
+	FieldMinOhm  Field = "min_ohm"
+	FieldMaxOhm  Field = "max_ohm"
 )
 
 // Amplifier fields.
@@ -58,6 +68,23 @@ const (
 	FieldGains     Field = "gains"
 	FieldGainError Field = "gain_error"
 	FieldGainDrift Field = "gain_drift"
+	// Input and output ranges as headroom from each rail, V (a negative
+	// headroom is beyond the rail). CMRange and Swing hold both sides in
+	// one cell: "V- - 0.1 V to V+ - 1.5 V", "0.1 / 1.5", or one figure
+	// for both rails.
+	FieldCMNeg    Field = "cm_neg"
+	FieldCMPos    Field = "cm_pos"
+	FieldCMRange  Field = "cm_range"
+	FieldSwingNeg Field = "swing_neg"
+	FieldSwingPos Field = "swing_pos"
+	FieldSwing    Field = "swing"
+	// The input range of an amplifier with matched resistors, as headroom
+	// from each rail, and its internal resistor value.
+	FieldInNeg       Field = "in_neg"
+	FieldInPos       Field = "in_pos"
+	FieldInternalR   Field = "internal_resistance"
+	FieldTypicalOnly Field = "typical_only" // catalog names of figures given as typical only
+	FieldAmpType     Field = "amp_type"     // opamp or matched
 )
 
 // fieldInfo holds the trade words for a field and the kinds it belongs to.
@@ -69,6 +96,7 @@ type fieldInfo struct {
 
 var (
 	res  = []catalog.Kind{catalog.KindResistor}
+	ser  = []catalog.Kind{catalog.KindSeries}
 	rn   = []catalog.Kind{catalog.KindResistor, catalog.KindNetwork}
 	net  = []catalog.Kind{catalog.KindNetwork}
 	amp  = []catalog.Kind{catalog.KindAmplifier}
@@ -142,6 +170,31 @@ var fieldTable = []fieldInfo{
 	{FieldGains, amp, []string{"gain", "gains", "fixed gain", "fixed gains", "gain options", "gain settings", "available gains"}},
 	{FieldGainError, amp, []string{"gain error", "gain error max", "gain accuracy", "gain tolerance"}},
 	{FieldGainDrift, amp, []string{"gain drift", "gain tempco", "gain error drift", "gain temperature coefficient"}},
+	{FieldCMNeg, amp, []string{"cm neg v", "cm neg", "common mode headroom negative", "input headroom negative rail",
+		"vicm headroom negative", "common mode headroom to negative rail", "input headroom to v"}},
+	{FieldCMPos, amp, []string{"cm pos v", "cm pos", "common mode headroom positive", "input headroom positive rail",
+		"vicm headroom positive", "common mode headroom to positive rail", "input headroom to v plus"}},
+	{FieldCMRange, amp, []string{"input common mode range", "common mode range", "vicm", "cmvr", "vcm range",
+		"input common mode voltage range", "common mode input range", "common mode voltage range", "input voltage range cm",
+		"vicm range", "icmr"}},
+	{FieldSwingNeg, amp, []string{"swing neg v", "swing neg", "output swing to negative rail", "output headroom negative",
+		"vol headroom", "swing from negative rail"}},
+	{FieldSwingPos, amp, []string{"swing pos v", "swing pos", "output swing to positive rail", "output headroom positive",
+		"voh headroom", "swing from positive rail"}},
+	{FieldSwing, amp, []string{"output swing to rail", "output swing", "output voltage swing", "swing to rail",
+		"output headroom", "output swing from rail", "vo swing", "output voltage swing from rail"}},
+	{FieldInNeg, amp, []string{"in neg v", "input range headroom negative", "input voltage headroom negative"}},
+	{FieldInPos, amp, []string{"in pos v", "input range headroom positive", "input voltage headroom positive"}},
+	{FieldInternalR, amp, []string{"internal ohm", "internal resistance", "internal resistor", "resistor value internal",
+		"internal resistor value", "feedback resistor"}},
+	{FieldTypicalOnly, amp, []string{"typical only", "typical figures"}},
+	{FieldAmpType, amp, []string{"amplifier type", "amp type"}},
+	{FieldESeries, ser, []string{"e series", "eseries"}},
+	{FieldMinOhm, ser, []string{"min ohm", "minimum resistance"}},
+	{FieldMaxOhm, ser, []string{"max ohm", "maximum resistance"}},
+	{FieldSeriesPart, res, []string{"series part", "series stem"}},
+	{FieldThermalRes, rn, []string{"thermal resistance", "thermal resistance k per w", "rth", "rthja", "theta ja"}},
+	{FieldLoadLife, rn, []string{"load life", "load life stability", "stability", "long term stability"}},
 	{FieldIq, amp, []string{"quiescent current", "iq", "supply current", "supply current per channel", "current supply",
 		"quiescent current per channel", "iq per channel"}},
 }

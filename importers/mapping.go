@@ -278,7 +278,13 @@ type candidate struct {
 // field from the header words. Price-break columns are found by their
 // quantity. Each column serves at most one field; the best-scored pairs
 // are taken first.
+//
+// A header written by the catalog's own CSV export is mapped by its column
+// names, whatever the kind.
 func GuessMapping(header []string, kind catalog.Kind) (*Mapping, error) {
+	if m := exportMapping(header, kind); m != nil {
+		return m, nil
+	}
 	infos := make([]headerInfo, len(header))
 	for i, h := range header {
 		infos[i] = analyseHeader(h)

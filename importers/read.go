@@ -220,7 +220,7 @@ func (sc *scan) stream(name string, in io.Reader) error {
 		return &ParseError{File: name, Line: 1, Err: fmt.Errorf("%w: no column reads as the part number (header: %s); name it in a mapping under columns: part",
 			ErrMissingColumn, headerList(rd.Header()))}
 	}
-	if kind != catalog.KindAmplifier {
+	if kind != catalog.KindAmplifier && kind != catalog.KindSeries {
 		if _, ok := cols[FieldResistance]; !ok && m.Fixed[FieldResistance] == "" {
 			if _, d := cols[FieldDescription]; !d || kind == catalog.KindNetwork {
 				return &ParseError{File: name, Line: 1, Err: fmt.Errorf("%w: no column reads as the resistance (header: %s); name it in a mapping under columns: resistance",
@@ -238,6 +238,9 @@ func (sc *scan) stream(name string, in io.Reader) error {
 	}
 	rr := &rowReader{file: name, header: rd.Header(), kind: kind, cols: cols, breaks: breaks, fixed: m.Fixed,
 		decimalComma: shape.DecimalComma, prov: catalog.Provenance{Source: source, ImportedAt: opt.Now}}
+	// The catalog's own export: figures in SI, and its single resistors
+	// stay single (its series are exported on their own).
+	_, rr.si = exportKind(rd.Header())
 	rr.info = make([]headerInfo, len(rr.header))
 	for i, h := range rr.header {
 		rr.info[i] = analyseHeader(h)
@@ -323,7 +326,13 @@ func (sc *scan) stream(name string, in io.Reader) error {
 			fr.Preview = append(fr.Preview, previewOf(p))
 		}
 		switch kind {
+		case catalog.KindSeries:
+			sc.chunk.Series = append(sc.chunk.Series, *p.series)
 		case catalog.KindResistor:
+			if rr.si {
+				sc.chunk.Resistors = append(sc.chunk.Resistors, *p.resistor)
+				break
+			}
 			// Hand the rows over at the end of a run of alike rows, so a
 			// series is never cut.
 			if n := len(res); n >= ChunkRows && (n >= maxRunRows || !sameGroup(res[n-1].resistor, p.resistor)) {
@@ -339,7 +348,7 @@ func (sc *scan) stream(name string, in io.Reader) error {
 		}
 		// After a flush, so the chunk's origins hold only its own rows.
 		sc.seen[key] = origin{name, line}
-		if sc.chunk.Len() >= ChunkRows {
+		if sc.chunk.Len()+len(sc.chunk.Series) >= ChunkRows {
 			if err := sc.flush(); err != nil {
 				return err
 			}
@@ -373,6 +382,8 @@ func blankRecord(rec []string) bool {
 
 func previewOf(p parsed) any {
 	switch {
+	case p.series != nil:
+		return *p.series
 	case p.resistor != nil:
 		return *p.resistor
 	case p.network != nil:

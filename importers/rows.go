@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"math"
 	"regexp"
+	"slices"
+	"strconv"
 	"strings"
 	"unicode"
 
@@ -24,7 +26,10 @@ type rowReader struct {
 	fixed        map[Field]string
 	decimalComma bool
 	currency     string // from the mapping, the header, or ""
-	prov         catalog.Provenance
+	// si is set for the catalog's own export: a bare number is the figure
+	// in SI units (a fraction for a tolerance), read exactly.
+	si   bool
+	prov catalog.Provenance
 
 	check catalog.Snapshot // one-part batch for the store's validation
 	strs  map[string]string
@@ -38,6 +43,7 @@ type rowReader struct {
 // parsed is one row read into a part of the file's kind.
 type parsed struct {
 	line      int
+	series    *catalog.ResistorSeries
 	resistor  *catalog.Resistor
 	network   *catalog.Network
 	amplifier *catalog.Amplifier
@@ -45,6 +51,8 @@ type parsed struct {
 
 func (p parsed) key() string {
 	switch {
+	case p.series != nil:
+		return p.series.Part
 	case p.resistor != nil:
 		return p.resistor.Part
 	case p.network != nil:
@@ -122,6 +130,11 @@ func (r *rowReader) value(f Field, q quantity) (v float64, ok, typ bool, err err
 	if !present {
 		return 0, false, false, nil
 	}
+	if r.si {
+		if v, err := strconv.ParseFloat(s, 64); err == nil && !math.IsInf(v, 0) && !math.IsNaN(v) {
+			return v, true, false, nil
+		}
+	}
 	hint := r.unitHint(f)
 	v, typ, ignored, err := readValueHint(s, hint, r.decimalComma, q)
 	if errors.Is(err, units.ErrBlank) {
@@ -184,8 +197,13 @@ func (r *rowReader) read(rec []string, line int) (parsed, error) {
 	}
 	p := parsed{line: line}
 	snap := &r.check
-	snap.Resistors, snap.Networks, snap.Amplifiers = snap.Resistors[:0], snap.Networks[:0], snap.Amplifiers[:0]
+	snap.ResistorSeries, snap.Resistors, snap.Networks, snap.Amplifiers = snap.ResistorSeries[:0], snap.Resistors[:0], snap.Networks[:0], snap.Amplifiers[:0]
 	switch r.kind {
+	case catalog.KindSeries:
+		p.series, err = r.series(part, offer)
+		if err == nil {
+			snap.ResistorSeries = append(snap.ResistorSeries, *p.series)
+		}
 	case catalog.KindResistor:
 		p.resistor, err = r.resistor(part, offer)
 		if err == nil {
@@ -357,6 +375,12 @@ func (r *rowReader) grade() (g catalog.ResistorGrade, ohm float64, err error) {
 	if g.MaxVoltageV, _, _, err = r.value(FieldMaxVoltage, units.ParseVoltage); err != nil {
 		return g, 0, err
 	}
+	if g.ThermalResistance, _, _, err = r.value(FieldThermalRes, parseKPerW); err != nil {
+		return g, 0, err
+	}
+	if g.LoadLife, _, _, err = r.value(FieldLoadLife, parseTolerance); err != nil {
+		return g, 0, err
+	}
 	g.Package = r.intern(r.text(FieldPackage))
 	if g.Package == "" && d.pkg != "" {
 		g.Package = d.pkg
@@ -394,7 +418,28 @@ func (r *rowReader) resistor(part string, o catalog.Offer) (*catalog.Resistor, e
 		return nil, err
 	}
 	return &catalog.Resistor{Part: part, Maker: r.intern(r.text(FieldMaker)), Line: r.intern(r.text(FieldLine)), ValueOhm: ohm,
-		ResistorGrade: g, Offer: o, Provenance: r.prov}, nil
+		SeriesPart: r.intern(r.text(FieldSeriesPart)), ResistorGrade: g, Offer: o, Provenance: r.prov}, nil
+}
+
+// series reads a resistor series row of the catalog's own export: the
+// grade, the IEC 60063 series name and the value range.
+func (r *rowReader) series(part string, o catalog.Offer) (*catalog.ResistorSeries, error) {
+	g, _, err := r.grade()
+	if err != nil {
+		return nil, err
+	}
+	s := &catalog.ResistorSeries{Part: part, Maker: r.intern(r.text(FieldMaker)), Line: r.intern(r.text(FieldLine)),
+		ESeries: r.intern(r.text(FieldESeries)), ResistorGrade: g, Offer: o, Provenance: r.prov}
+	if s.ESeries == "" {
+		return nil, r.skip(FieldESeries, "", fmt.Errorf("%w: no E-series name (E24, E96, ...)", ErrMissingValue))
+	}
+	if s.MinOhm, err = r.need(FieldMinOhm, units.ParseResistance, "smallest value"); err != nil {
+		return nil, err
+	}
+	if s.MaxOhm, err = r.need(FieldMaxOhm, units.ParseResistance, "largest value"); err != nil {
+		return nil, err
+	}
+	return s, nil
 }
 
 func (r *rowReader) network(part string, o catalog.Offer) (*catalog.Network, error) {
@@ -446,6 +491,9 @@ func (r *rowReader) networkValues(s string) ([]float64, error) {
 			}
 		}
 		v, _, err := readValue(group, r.unitHint(FieldResistance), false, units.ParseResistance)
+		if x, perr := strconv.ParseFloat(group, 64); r.si && perr == nil {
+			v, err = x, nil
+		}
 		if err != nil {
 			return nil, fmt.Errorf("%w: %s", ErrBadValue, unitErr(err))
 		}
@@ -572,25 +620,34 @@ func (r *rowReader) amplifier(part string, o catalog.Offer) (*catalog.Amplifier,
 	if err := r.matched(a); err != nil {
 		return nil, err
 	}
-	in, out := false, false
-	if s, ok := r.raw(FieldRailToRail); ok {
-		var err error
-		if in, out, err = railToRail(s); err != nil {
-			return nil, r.skip(FieldRailToRail, s, err)
+	if err := r.ranges(a); err != nil {
+		return nil, err
+	}
+	if s, ok := r.raw(FieldTypicalOnly); ok {
+		var list []string
+		for _, n := range strings.FieldsFunc(s, func(c rune) bool { return c == ',' || c == ';' || c == ' ' }) {
+			if !slices.Contains(list, n) {
+				list = append(list, n)
+			}
 		}
+		for _, n := range a.TypicalOnly {
+			if !slices.Contains(list, n) {
+				list = append(list, n)
+			}
+		}
+		a.TypicalOnly = list
 	}
-	var assumed []string
-	if !in {
-		a.CMNegV, a.CMPosV = defaultHeadroomV, defaultHeadroomV
-		assumed = append(assumed, "input common-mode range")
-	}
-	if !out {
-		a.SwingNegV, a.SwingPosV = defaultHeadroomV, defaultHeadroomV
-		assumed = append(assumed, "output swing")
-	}
-	if len(assumed) > 0 {
-		s, _ := r.raw(FieldRailToRail)
-		r.note(Doubt, FieldRailToRail, s, fmt.Errorf("not rail-to-rail or not stated: %s taken as %g V inside each rail; check the datasheet", strings.Join(assumed, " and "), defaultHeadroomV))
+	if s, ok := r.raw(FieldAmpType); ok {
+		switch t := strings.ToLower(s); {
+		case t == string(catalog.OpAmp) || t == "op-amp" || t == "op amp":
+			if a.Type == catalog.MatchedAmp {
+				return nil, r.skip(FieldAmpType, s, fmt.Errorf("%w: type %s, but the row gives fixed gains", ErrBadValue, s))
+			}
+		case t == string(catalog.MatchedAmp) || strings.Contains(t, "difference") || strings.Contains(t, "instrumentation"):
+			a.Type = catalog.MatchedAmp
+		default:
+			return nil, r.skip(FieldAmpType, s, fmt.Errorf("%w: amplifier type %q: use opamp or matched", ErrBadValue, s))
+		}
 	}
 	return a, nil
 }
@@ -627,5 +684,16 @@ func (r *rowReader) matched(a *catalog.Amplifier) error {
 		r.note(Doubt, FieldGainDrift, "", errors.New("no gain drift: stored as 0, the budget leaves it out"))
 	}
 	a.GainDriftPPM = math.Abs(v)
+	// Headroom may be negative (the inputs work beyond the rails).
+	if a.InNegV, _, _, err = r.value(FieldInNeg, units.ParseVoltage); err != nil {
+		return err
+	}
+	if a.InPosV, _, _, err = r.value(FieldInPos, units.ParseVoltage); err != nil {
+		return err
+	}
+	if v, _, _, err = r.value(FieldInternalR, units.ParseResistance); err != nil {
+		return err
+	}
+	a.InternalOhm = v
 	return nil
 }
