@@ -37,3 +37,26 @@ func BenchmarkFormatOhms(b *testing.B) {
 		}
 	}
 }
+
+func BenchmarkParseStrict(b *testing.B) {
+	benchParse(b, func(s string) (float64, error) { return ParseStrict(s, Voltage) }, "500mV", "-2.5 V")
+	benchParse(b, func(s string) (float64, error) { return ParseStrict(s, Level) }, "80dB")
+}
+
+func BenchmarkParseFigures(b *testing.B) {
+	benchParse(b, ParseDrift, "2 µV/°C")
+	benchParse(b, ParseSlewRate, "0.5V/µs")
+	benchParse(b, ParseOpenLoopGain, "120dB", "1000 V/mV")
+	benchParse(b, ParseThermalResistance, "250K/W")
+}
+
+func BenchmarkParseRangeStrict(b *testing.B) {
+	b.ReportAllocs()
+	for b.Loop() {
+		lo, hi, err := ParseRangeStrict("-500..500mV", Voltage)
+		if err != nil {
+			b.Fatal(err)
+		}
+		sink += lo + hi
+	}
+}

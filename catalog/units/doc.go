@@ -3,10 +3,19 @@
 // "10R"), tolerances ("±0.1 %", "1000ppm"), temperature coefficients
 // ("±25ppm/°C"), power ratings ("0.125W, 1/8W"), voltages, currents,
 // frequencies, noise densities ("4.5 nV/√Hz"), decibels, temperatures and
-// ranges, and stock counts ("12,345").
+// ranges, stock counts ("12,345", "1.234.567"), and the amplifier and
+// stage figures: voltage drift ("2 µV/°C"), slew rate ("0.5 V/µs"),
+// open-loop gain ("120 dB", "1000 V/mV"), thermal resistance ("250 K/W"),
+// gain ("10", "0.25V/V") and transimpedance ("0.5 V/A").
 //
 // Every parser returns a value in SI units (ohm, fraction, ppm/K, W, V, A,
-// Hz, V/√Hz, A/√Hz, dB, °C). Nothing is guessed: an input that could mean
+// Hz, V/√Hz, A/√Hz, dB, °C, V/K, V/s, V/V, K/W, V/A).
+//
+// The ParseXxx functions are lenient where a datasheet or export column
+// leaves a unit out that cannot be in doubt ("470" ohm, "0.1" as a
+// fraction). ParseStrict and ParseRangeStrict, over the Quantity
+// constants, read the same notations but require the unit, for files people
+// write by hand: a missing unit gives an *Error wrapping ErrNoUnit. Nothing is guessed: an input that could mean
 // two things is refused with an *Error that quotes the input, says what was
 // expected and shows a valid form. Blank cells ("", "-", "—", "n/a") give an
 // *Error wrapping ErrBlank, so callers can treat them as unknown with

@@ -9,6 +9,12 @@ import (
 // usual placeholders ("-", "—", "n/a", "N/A").
 var ErrBlank = errors.New("units: no value")
 
+// ErrNoUnit is wrapped by the *Error returned when a number comes without
+// the unit its quantity requires: always for currents, noise densities,
+// drifts, slew rates and open-loop gains, and for every quantity read by
+// ParseStrict and ParseRangeStrict ("80" for a level: 80 dB or 80 V/V?).
+var ErrNoUnit = errors.New("units: no unit")
+
 // Error reports an input that cannot be read as the quantity asked for.
 type Error struct {
 	Input    string // the text as given
@@ -34,7 +40,8 @@ func (e *Error) Error() string {
 	return msg
 }
 
-// Unwrap returns ErrBlank for a blank input and nil otherwise.
+// Unwrap returns ErrBlank for a blank input, ErrNoUnit for a number
+// without its required unit and nil otherwise.
 func (e *Error) Unwrap() error { return e.err }
 
 // Quantity names used in errors, and a valid form of each.
@@ -53,6 +60,12 @@ const (
 	qTemperature  = "temperature"
 	qTempRange    = "temperature range"
 	qCount        = "count"
+	qDrift        = "voltage drift"
+	qSlew         = "slew rate"
+	qAol          = "open-loop gain"
+	qThermal      = "thermal resistance"
+	qGain         = "gain"
+	qTransimp     = "transimpedance"
 )
 
 var examples = map[string]string{
@@ -69,7 +82,13 @@ var examples = map[string]string{
 	qDB:           "80dB or 80",
 	qTemperature:  "25C, -40 °C or 85",
 	qTempRange:    "-40..85C, 0..70 or -40 to 125 °C",
-	qCount:        "12345, 12,345 or 12 345",
+	qCount:        "12345, 12,345, 12 345 or 1.234.567",
+	qDrift:        "2µV/K, 2 uV/°C or 0.5 µV/C",
+	qSlew:         "0.5V/µs, 20 V/us or 1e6 V/s",
+	qAol:          "120dB, 1000 V/mV or 1 V/µV",
+	qThermal:      "250K/W, 250 °C/W or 250",
+	qGain:         "10, -2, 0.25V/V or 10x",
+	qTransimp:     "0.5V/A, 500 mV/A, 0.5 Ω or 0.5",
 }
 
 func newError(input, quantity, reason string) *Error {

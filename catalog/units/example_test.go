@@ -114,3 +114,27 @@ func ExampleDB() {
 	// 68.8 dB
 	// 10000
 }
+
+func ExampleParseStrict() {
+	v, err := units.ParseStrict("80dB", units.Level)
+	fmt.Println(v, err)
+	_, err = units.ParseStrict("80", units.Level)
+	fmt.Println(err, errors.Is(err, units.ErrNoUnit))
+	lo, hi, _ := units.ParseRangeStrict("-500..500mV", units.Voltage)
+	fmt.Println(lo, hi)
+	// Output:
+	// 80 <nil>
+	// units: cannot read "80" as level in dB: a unit is needed (dB); write it like 80dB or -3 dB true
+	// -0.5 0.5
+}
+
+func ExampleParseOpenLoopGain() {
+	for _, s := range []string{"120dB", "1000 V/mV", "1 V/µV"} {
+		v, _ := units.ParseOpenLoopGain(s)
+		fmt.Println(v)
+	}
+	// Output:
+	// 1e+06
+	// 1e+06
+	// 1e+06
+}

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"math"
 	"strconv"
+	"strings"
 	"testing"
 )
 
@@ -227,4 +228,98 @@ func grouped(n int, sep string) string {
 		s = s[:len(s)-3]
 	}
 	return s + out
+}
+
+func FuzzParseDrift(f *testing.F) {
+	addSeeds(f, "2µV/K", "2 uV/°C", "0.5 uV/C", "±1 µV/℃", "-3nV/K", "2", "2 µV")
+	f.Fuzz(func(t *testing.T, in string) {
+		roundTrip(t, in, ParseDrift, func(v float64) string { return Format(v, "V/K") }, 5.01e-4)
+	})
+}
+
+func FuzzParseSlewRate(f *testing.F) {
+	addSeeds(f, "0.5V/µs", "20 V/us", "500mV/µs", "2 V/ns", "1e6 V/s", "0.5")
+	f.Fuzz(func(t *testing.T, in string) {
+		roundTrip(t, in, ParseSlewRate, func(v float64) string { return Format(v, "V/s") }, 5.01e-4)
+	})
+}
+
+func FuzzParseOpenLoopGain(f *testing.F) {
+	addSeeds(f, "120dB", "1000 V/mV", "1 V/µV", "200000 V/V", "120", "-3 dB")
+	f.Fuzz(func(t *testing.T, in string) {
+		roundTrip(t, in, ParseOpenLoopGain, exact(" V/V"), 0)
+	})
+}
+
+func FuzzParseThermalResistance(f *testing.F) {
+	addSeeds(f, "250K/W", "250 °C/W", "40 C/W", "250", "-5 K/W")
+	f.Fuzz(func(t *testing.T, in string) {
+		roundTrip(t, in, ParseThermalResistance, exact(" K/W"), 0)
+	})
+}
+
+func FuzzParseGain(f *testing.F) {
+	addSeeds(f, "10", "-2", "0.25V/V", "10x", "10 ×", "1k")
+	f.Fuzz(func(t *testing.T, in string) {
+		roundTrip(t, in, ParseGain, exact(" V/V"), 0)
+	})
+}
+
+func FuzzParseTransimpedance(f *testing.F) {
+	addSeeds(f, "0.5V/A", "500 mV/A", "0.5 Ω", "50mΩ", "2")
+	f.Fuzz(func(t *testing.T, in string) {
+		roundTrip(t, in, ParseTransimpedance, func(v float64) string { return Format(v, "V/A") }, 5.01e-4)
+	})
+}
+
+// FuzzParseStrict checks, for every Quantity, that the strict reading of a
+// value agrees with the lenient one wherever it succeeds, and that a strict
+// failure the lenient parser accepts is a missing unit (ErrNoUnit) or a
+// lenient-only symbol ("25 ppm" for a tempco).
+func FuzzParseStrict(f *testing.F) {
+	addSeeds(f, "80dB", "80", "10k", "4k7", "25 ppm", "1/8", "0.1%", "2.5", "10m", "250K/W")
+	lenient := [...]func(string) (float64, error){
+		Resistance: ParseResistance, Fraction: ParseFraction, Tempco: ParsePPM, Power: ParsePower,
+		Voltage: ParseVoltage, Current: ParseCurrent, Frequency: ParseFrequency,
+		VoltageNoise: ParseVoltageNoise, CurrentNoise: ParseCurrentNoise, Level: ParseDB,
+		Temperature: ParseTemperature, Drift: ParseDrift, SlewRate: ParseSlewRate,
+		OpenLoopGain: ParseOpenLoopGain, ThermalResistance: ParseThermalResistance, Gain: ParseGain,
+		Transimpedance: ParseTransimpedance,
+	}
+	f.Fuzz(func(t *testing.T, in string) {
+		for q := Resistance; q <= Transimpedance; q++ {
+			v, err := ParseStrict(in, q)
+			lv, lerr := lenient[q](in)
+			switch {
+			case err == nil && (lerr != nil || v != lv):
+				t.Fatalf("%v: strict %q = %v but lenient = %v, %v", q, in, v, lv, lerr)
+			case err != nil:
+				checkFailure(t, in, err)
+				if lerr == nil && !errors.Is(err, ErrNoUnit) && !(q == Tempco && strings.Contains(err.Error(), "ppm alone")) {
+					t.Fatalf("%v: lenient reads %q as %v, strict refuses it for another reason: %v", q, in, lv, err)
+				}
+			}
+		}
+	})
+}
+
+// FuzzParseRangeStrict checks lo <= hi on success and that the range printed
+// with all digits and the unit reads back exactly.
+func FuzzParseRangeStrict(f *testing.F) {
+	addSeeds(f, "-10..10V", "-500..500mV", "±10V", "5V", "0 to 5 V", "5..-5V", "-10..10", "±")
+	f.Fuzz(func(t *testing.T, in string) {
+		lo, hi, err := ParseRangeStrict(in, Voltage)
+		if err != nil {
+			checkFailure(t, in, err)
+			return
+		}
+		if math.IsNaN(lo) || math.IsNaN(hi) || lo > hi {
+			t.Fatalf("ParseRangeStrict(%q) = %v, %v", in, lo, hi)
+		}
+		f := g(lo) + "V.." + g(hi) + "V"
+		lo2, hi2, err := ParseRangeStrict(f, Voltage)
+		if err != nil || lo2 != lo || hi2 != hi {
+			t.Fatalf("ParseRangeStrict(%q) = %v, %v; printed %q reads back %v, %v, %v", in, lo, hi, f, lo2, hi2, err)
+		}
+	})
 }

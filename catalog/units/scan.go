@@ -278,23 +278,27 @@ func readPrefix(r string, set prefixSet) (exp, size int, ok bool) {
 }
 
 // symbol is one way of writing a unit, with the power of ten that takes a
-// number in it to the stored unit ("%" is -2 for a fraction).
+// number in it to the stored unit ("%" is -2 for a fraction). loose, when
+// set, is why the symbol is refused by the strict parsers ("25 ppm" does
+// not say per kelvin).
 type symbol struct {
-	text string
-	exp  int
+	text  string
+	exp   int
+	loose string
 }
 
 // kind describes one quantity for the shared reader.
 type kind struct {
 	name     string
-	symbols  []symbol // matched with foldEq; prefixes combine only with exp 0 symbols
-	bare     bool     // a number without unit is accepted
+	symbols  []symbol // matched with foldEq; a prefix adds its power of ten to the symbol's
+	bare     bool     // a number without unit is accepted (never in strict mode)
 	bareExp  int      // power of ten for a bare number
 	prefixes prefixSet
 	negative bool // negative values are accepted
 	pm       bool // a leading ± is accepted (and dropped: the value is a magnitude)
 	needUnit string
 	refuse   []refusal
+	strict   string // a valid form for the strict parsers' errors
 }
 
 // refusal is a unit that is recognised but not accepted, with the reason.
@@ -302,82 +306,131 @@ type refusal struct {
 	text, reason string
 }
 
+// mode says how a read treats a missing unit: strict refuses a bare number
+// (and a bare prefix), and unit, when not empty, is the unit text written
+// once after the other end of a range ("mV" in "-500..500mV"), used when
+// this value has none.
+type mode struct {
+	strict bool
+	unit   string
+}
+
+// status says why a read failed.
+type status uint8
+
+const (
+	stOK     status = iota
+	stBlank         // a blank cell: wraps ErrBlank
+	stNoUnit        // a unit is required and none was written: wraps ErrNoUnit
+	stBad           // anything else
+)
+
 // parse reads s as a quantity of kind k.
-func (k *kind) parse(s string) (float64, error) {
-	v, reason, blank := k.read(s)
-	if blank {
-		return 0, blankError(s, k.name)
-	}
-	if reason != "" {
-		return 0, newError(s, k.name, reason)
+func (k *kind) parse(s string) (float64, error) { return k.parseMode(s, mode{}) }
+
+func (k *kind) parseMode(s string, m mode) (float64, error) {
+	v, reason, st := k.read(s, m)
+	if st != stOK {
+		return 0, k.fail(s, reason, st, m.strict)
 	}
 	return v, nil
 }
 
+// fail builds the *Error for a read of kind k that failed with st.
+func (k *kind) fail(s, reason string, st status, strict bool) *Error {
+	e := newError(s, k.name, reason)
+	if strict {
+		e.example = k.strict
+	}
+	e.err = st.sentinel()
+	return e
+}
+
+// sentinel is the error an *Error of this status wraps.
+func (st status) sentinel() error {
+	switch st {
+	case stBlank:
+		return ErrBlank
+	case stNoUnit:
+		return ErrNoUnit
+	}
+	return nil
+}
+
 // read is parse without building the error, for composite readers.
-func (k *kind) read(s string) (v float64, reason string, blank bool) {
+func (k *kind) read(s string, m mode) (v float64, reason string, st status) {
 	t := trimSpaces(s)
 	if isBlank(t) {
-		return 0, "", true
+		return 0, "no value given", stBlank
 	}
 	t2, pm := cutPlusMinus(t)
 	if pm && !k.pm {
-		return 0, "± gives a pair of values (minus and plus), not one value", false
+		return 0, "± gives a pair of values (minus and plus), not one value", stBad
 	}
 	n, rest, reason := readNumber(t2)
 	if reason != "" {
-		return 0, reason, false
+		return 0, reason, stBad
 	}
 	if pm && (strings.HasPrefix(t2, "+") || strings.HasPrefix(t2, "-") || strings.HasPrefix(t2, "−")) {
-		return 0, "a sign after ±", false
+		return 0, "a sign after ±", stBad
 	}
-	exp, reason := k.unitExp(n, skipSpaces(rest))
-	if reason != "" {
-		return 0, reason, false
+	rest = skipSpaces(rest)
+	if rest == "" {
+		rest = m.unit
+	}
+	exp, reason, st := k.unitExp(n, rest, m.strict)
+	if st != stOK {
+		return 0, reason, st
 	}
 	v, reason = n.float(exp)
 	if reason != "" {
-		return 0, reason, false
+		return 0, reason, stBad
 	}
 	if v < 0 && !k.negative {
-		return 0, "a " + k.name + " cannot be negative", false
+		return 0, "a " + k.name + " cannot be negative", stBad
 	}
-	return v, "", false
+	return v, "", stOK
 }
 
 // unitExp matches the unit text r (after the number) and returns the power
 // of ten it stands for.
-func (k *kind) unitExp(n number, r string) (int, string) {
+func (k *kind) unitExp(n number, r string, strict bool) (int, string, status) {
 	if r == "" {
-		if !k.bare {
-			return 0, "a unit is needed (" + k.needUnit + ")"
+		if !k.bare || strict {
+			return 0, "a unit is needed (" + k.needUnit + ")", stNoUnit
 		}
-		return k.bareExp, ""
+		return k.bareExp, "", stOK
 	}
 	for _, sym := range k.symbols {
 		if foldEq(r, sym.text) {
-			return sym.exp, ""
+			if strict && sym.loose != "" {
+				return 0, sym.loose, stBad
+			}
+			return sym.exp, "", stOK
 		}
 	}
 	for _, ref := range k.refuse {
 		if foldEq(r, ref.text) {
-			return 0, ref.reason
+			return 0, ref.reason, stBad
 		}
 	}
 	pe, size, ok := readPrefix(r, k.prefixes)
 	if ok {
 		if n.hasExp {
-			return 0, "use either an exponent or an SI prefix, not both"
+			return 0, "use either an exponent or an SI prefix, not both", stBad
 		}
 		u := r[size:]
 		if skipSpaces(u) == "" && k.bare && k.bareExp == 0 {
-			return pe, ""
+			if strict {
+				return 0, "a unit is needed after the prefix (" + k.needUnit + ")", stNoUnit
+			}
+			return pe, "", stOK
 		}
 		for _, sym := range k.symbols {
-			if sym.exp == 0 && foldEq(u, sym.text) {
-				return pe, ""
+			if sym.loose == "" && foldEq(u, sym.text) {
+				return pe + sym.exp, "", stOK
 			}
 		}
 	}
-	return 0, "unknown unit or prefix " + strconv.Quote(r)
+	return 0, "unknown unit or prefix " + strconv.Quote(r), stBad
 }
