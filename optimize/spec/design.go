@@ -348,14 +348,7 @@ func parseAmp(p *problems, r *rawAmp, matched bool) AmplifierChoice {
 	if r.GainDrift != "" {
 		m.GainDriftPPM = 1e6 * tempcoField(p, "amplifier.gain_drift", r.GainDrift)
 	}
-	if r.Aol != "" {
-		// Open-loop gain in dB or V/V.
-		if v, err := parseQuantity(r.Aol, uDB); err == nil {
-			m.AolVV = dbToRatio(v)
-		} else {
-			m.AolVV = field(p, "amplifier.aol", r.Aol, uGain)
-		}
-	}
+	q("aol", r.Aol, uAol, &m.AolVV)
 	if m.Type == catalog.OpAmp {
 		if m.AolVV <= 0 {
 			p.add("amplifier.aol", "missing; an op-amp needs its minimum open-loop gain, e.g. 120dB")
@@ -487,8 +480,4 @@ func (d *Design) Unresolved() []string {
 		out = append(out, "amplifier: "+d.Amplifier.Part)
 	}
 	return out
-}
-
-func dbToRatio(db float64) float64 {
-	return pow10(db / 20)
 }

@@ -6,8 +6,10 @@
 // Quantities are written as engineers write them, with their unit: "0.05%",
 // "80dB", "5ppm/K", "-40..85C", "±10V" or "-10..10V", "10k". A bare number
 // is accepted only where the unit cannot be in doubt (resistance in ohm,
-// gain in V/V). Parsed values are held in SI units; tempcos as fractions
-// per kelvin.
+// gain in V/V). The notations are those of catalog/units, read with its
+// strict parsers (units.ParseStrict, units.ParseRangeStrict) wherever a
+// unit is required. Parsed values are held in SI units; tempcos as
+// fractions per kelvin.
 //
 // Every problem in a file is reported, each naming the file and the field
 // path, what was wrong and how to write it; unknown fields are errors.
