@@ -19,7 +19,7 @@ type space struct {
 	dT               float64
 	tempK            float64 // hottest ambient, K (resistor noise)
 	vG, vF           float64 // largest voltage across an Rg and an Rf position
-	perPos           int     // placements per stage of each of Rg and Rf (2 or 1)
+	perG, perF       int     // placements per stage of one Rg and one Rf value (2 or 1)
 	series, parallel bool    // two values at a feedback position
 	groups           []*group
 	amps             []amp // op-amps
@@ -28,6 +28,11 @@ type space struct {
 	byLB             []int32 // configuration indexes by cost lower bound
 	why              hardReason
 	nets             []*catalog.Network
+	// Instrumentation amplifier: the second-stage gain of this sub-search,
+	// its choices and the largest voltages across R1/R3 and R2/R4.
+	k2     float64
+	st2    []stage2
+	v1, v2 float64
 }
 
 // config is a resistor configuration: the grade groups at the Rg and Rf
@@ -54,9 +59,12 @@ type option struct {
 }
 
 func newSpace(parts *Parts, p *Problem, combos bool) (*space, error) {
-	s := &space{p: p, rss: p.Method != WorstCase, k: p.ratio(), w: p.window(), dT: p.deltaT(), tempK: p.TMax + 273.15, series: combos || p.SeriesPairs, parallel: combos || p.ParallelPairs, perPos: 1}
-	if p.Circuit == Difference {
-		s.perPos = 2
+	s := &space{p: p, rss: p.Method != WorstCase, k: p.ratio(), w: p.window(), dT: p.deltaT(), tempK: p.TMax + 273.15, series: combos || p.SeriesPairs, parallel: combos || p.ParallelPairs, perG: 1, perF: 1}
+	switch p.Circuit {
+	case Difference:
+		s.perG, s.perF = 2, 2
+	case InAmp:
+		s.perF, s.k2 = 2, p.stage2Gain()
 	}
 	fams := map[Family]bool{}
 	for _, f := range p.families() {
@@ -67,7 +75,7 @@ func newSpace(parts *Parts, p *Problem, combos bool) (*space, error) {
 	}
 	s.ratingVoltages()
 	var err error
-	disc := fams[DiscreteDifference] || fams[DiscreteNonInverting] || fams[DiscreteInverting] || fams[DiscreteDivider]
+	disc := fams[DiscreteDifference] || fams[DiscreteNonInverting] || fams[DiscreteInverting] || fams[DiscreteDivider] || fams[DiscreteInAmp] || fams[NetworkInAmp]
 	if disc {
 		if s.groups, err = buildGroups(parts, p); err != nil {
 			return nil, err
@@ -79,6 +87,10 @@ func newSpace(parts *Parts, p *Problem, combos bool) (*space, error) {
 	}
 	famDisc := map[Circuit]Family{Difference: DiscreteDifference, NonInverting: DiscreteNonInverting,
 		Inverting: DiscreteInverting, Divider: DiscreteDivider}[p.Circuit]
+	if p.Circuit == InAmp {
+		s.inampConfigs(parts, fams)
+		return s, nil
+	}
 	if disc {
 		s.cfgs = make([]config, 0, len(s.groups)*len(s.groups)+4*len(parts.Networks))
 		for a, ga := range s.groups {
@@ -157,6 +169,16 @@ func (s *space) ratingVoltages() {
 			case Divider:
 				out := vd / (1 + k)
 				vg, vf = math.Abs(out), math.Abs(vd-out)
+			case InAmp:
+				// Rg carries the input difference, each Rf k times it; the
+				// second stage sees the first stage's outputs.
+				k2 := p.stage2Gain()
+				o1, o2 := vcm+(1+2*k)*vd/2, vcm-(1+2*k)*vd/2
+				pin := o1*k2/(1+k2) + p.Ref/(1+k2)
+				out := p.Gain*vd + p.Ref
+				vg, vf = math.Abs(vd), math.Abs(k*vd)
+				s.v1 = math.Max(s.v1, math.Max(math.Abs(o2-pin), math.Abs(o1-pin)))
+				s.v2 = math.Max(s.v2, math.Max(math.Abs(pin-out), math.Abs(pin-p.Ref)))
 			}
 			s.vG, s.vF = math.Max(s.vG, vg), math.Max(s.vF, vf)
 		}
@@ -214,10 +236,10 @@ func (s *space) assembly(placements, lines int) float64 {
 // have: one line per position, or one shared line when both positions use
 // one group. Extra combination parts only add to it; NaN if unpriced.
 func (s *space) discreteLB(ga, gb *group, same bool) float64 {
-	n := s.perPos
-	lb := ga.extFrom(n) + gb.extFrom(n) + s.assembly(2*n, 2)
+	ng, nf := s.perG, s.perF
+	lb := ga.extFrom(ng) + gb.extFrom(nf) + s.assembly(ng+nf, 2)
 	if same {
-		lb = math.Min(lb, ga.extFrom(2*n)+s.assembly(2*n, 1))
+		lb = math.Min(lb, ga.extFrom(ng+nf)+s.assembly(ng+nf, 1))
 	}
 	return lb
 }
@@ -249,21 +271,10 @@ func (s *space) networkConfigs(parts *Parts) {
 		if err != nil {
 			continue
 		}
-		count := map[float64]int{}
-		for _, v := range n.Values {
-			count[v]++
-		}
-		var vs []float64
-		for v := range count {
-			vs = append(vs, v)
-		}
-		sort.Float64s(vs)
 		added := false
-		for _, a := range vs {
-			for _, b := range vs {
-				if (a == b && count[a] < 4) || count[a] < 2 || count[b] < 2 {
-					continue
-				}
+		for _, pr := range networkPairs(n) {
+			{
+				a, b := pr[0], pr[1]
 				k0, rp := s.effective(a, b)
 				if math.Abs(k0/s.k-1) > s.w || !s.zinOK(a, b) ||
 					!s.ratingOK(n.PowerW, n.MaxVoltageV, a, s.vG) || !s.ratingOK(n.PowerW, n.MaxVoltageV, b, s.vF) {
@@ -419,25 +430,29 @@ func (s *space) addOption(c *config, ga, gb *group, i, j, j2 int, rg, rf float64
 		idx   int
 		place int
 	}
-	var lines [3]line
+	var lines [4]line
 	n := 0
-	put := func(g *group, idx int) {
+	put := func(g *group, idx, place int) {
 		for k := 0; k < n; k++ {
 			if lines[k].g == g && lines[k].idx == idx {
-				lines[k].place += s.perPos
+				lines[k].place += place
 				return
 			}
 		}
-		lines[n] = line{g, idx, s.perPos}
+		lines[n] = line{g, idx, place}
 		n++
 	}
-	put(ga, i)
-	put(gb, j)
+	put(ga, i, s.perG)
+	put(gb, j, s.perF)
 	if j2 >= 0 {
-		put(gb, j2)
+		put(gb, j2, s.perF)
 	}
 	k0, rp := s.effective(rg, rf)
 	o := option{k0: k0, rp: rp, rg: int32(i), rf: int32(j), rf2: int32(j2)}
+	st := c.g.s2
+	if st != nil && st.grp >= 0 {
+		put(s.groups[st.grp], int(st.vi), 4)
+	}
 	place := 0
 	for k := 0; k < n; k++ {
 		ln := lines[k]
@@ -454,6 +469,10 @@ func (s *space) addOption(c *config, ga, gb *group, i, j, j2 int, rg, rf float64
 		return false
 	}
 	o.cost += s.assembly(place, n)
+	if st != nil && st.grp < 0 {
+		o.cost += st.netCost
+		o.short = o.short || st.short
+	}
 	c.opts = append(c.opts, o)
 	return true
 }

@@ -17,8 +17,12 @@
 // inside; the non-inverting and inverting amplifiers; the unbuffered
 // divider; current sense (a shunt from the catalog, then a difference
 // search per shunt with the limits less the shunt's share, merged by
-// cost). Level shift and the three-op-amp instrumentation amplifier are
-// not searched yet (Solve says so).
+// cost); the three-op-amp instrumentation amplifier (Rg, Rf1 = Rf2 of one
+// value and grade, a second-stage difference amplifier R1 = R3, R2 = R4 of
+// four discrete resistors of one value at unity gain or on a matched
+// network, one op-amp part at A1..A3 counted in packages by its channels;
+// G = (1 + 2Rf/Rg)·R2/R1, one exact sub-search per second-stage gain,
+// merged by cost). Level shift is not searched yet (Solve says so).
 //
 // Screening model (approximations from the domain notes and S. Franco,
 // "Design with Operational Amplifiers and Analog Integrated Circuits",

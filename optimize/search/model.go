@@ -43,6 +43,9 @@ type grades struct {
 	drift    float64 // worst ratio drift, ppm/K
 	driftRSS float64
 	tmax     float64 // largest tolerance (bias-current mismatch)
+	// s2 is the second stage of an instrumentation amplifier (nil for
+	// every other circuit).
+	s2 *stage2
 }
 
 // discreteGrades returns the ratio figures of Rf/Rg from two discrete
@@ -108,8 +111,11 @@ func toDB(inv float64) float64 {
 // the difference and inverting amplifiers, k/(1+k) for the non-inverting
 // amplifier and the divider.
 func (s *space) gainSens(k0 float64) float64 {
-	if s.p.Circuit == NonInverting || s.p.Circuit == Divider {
+	switch s.p.Circuit {
+	case NonInverting, Divider:
 		return k0 / (1 + k0)
+	case InAmp:
+		return 2 * k0 / (1 + 2*k0)
 	}
 	return 1
 }
@@ -117,8 +123,11 @@ func (s *space) gainSens(k0 float64) float64 {
 // noiseGain is 1 + Rf/Rg, the gain the amplifier's offset and noise see
 // (1 for the unbuffered divider, whose leakage error is not amplified).
 func (s *space) noiseGain(k0 float64) float64 {
-	if s.p.Circuit == Divider {
+	switch s.p.Circuit {
+	case Divider:
 		return 1
+	case InAmp:
+		return 1 + 2*k0
 	}
 	return 1 + k0
 }
@@ -132,6 +141,8 @@ func (s *space) gainMult(k0, m float64) float64 {
 		return (1 + k0*m) / (1 + k0)
 	case Divider:
 		return (1 + k0) / (1 + k0*m)
+	case InAmp:
+		return (1 + 2*k0*m) / (1 + 2*k0)
 	}
 	return m
 }
@@ -140,6 +151,10 @@ func (s *space) gainMult(k0, m float64) float64 {
 // resistor figures g and amplifier a.
 func (s *space) eval(g *grades, k0, rp float64, a *amp, m *metrics) {
 	p := s.p
+	if p.Circuit == InAmp {
+		s.evalInAmp(g, k0, rp, a, m)
+		return
+	}
 	am := a.a
 	ng := s.noiseGain(k0)
 	f := 1.0
@@ -289,6 +304,11 @@ const boundSafety = 1 - 1e-12
 // so pass(bound) false proves that no design of the class passes.
 func (s *space) bound(g *grades, a *amp, m *metrics) {
 	p := s.p
+	if p.Circuit == InAmp {
+		s.boundInAmp(g, a, m)
+		s.shrinkBound(m)
+		return
+	}
 	kmin, kmax := s.k*(1-s.w), s.k*(1+s.w)
 	sg := s.gainSens(kmin)
 	// spread is min over ρ of max|ρ·H - 1|, |ρ·L - 1| for multipliers hi, lo.
@@ -340,6 +360,11 @@ func (s *space) bound(g *grades, a *amp, m *metrics) {
 			m.noiseRMS = 0
 		}
 	}
+	s.shrinkBound(m)
+}
+
+// shrinkBound applies boundSafety to every bounded figure but the CMRR.
+func (s *space) shrinkBound(m *metrics) {
 	m.gainErr *= boundSafety
 	m.totalErr *= boundSafety
 	m.drift *= boundSafety

@@ -39,6 +39,12 @@ const (
 	DiscreteInverting Family = "inverting-discrete"
 	// DiscreteDivider is an unbuffered divider, G = Rbot/(Rtop + Rbot).
 	DiscreteDivider Family = "divider-discrete"
+	// DiscreteInAmp is a three-op-amp instrumentation amplifier whose
+	// second stage is four discrete resistors of one value (unity gain).
+	DiscreteInAmp Family = "inamp-discrete"
+	// NetworkInAmp is a three-op-amp instrumentation amplifier whose second
+	// stage is a matched four-element network.
+	NetworkInAmp Family = "inamp-network"
 )
 
 // Circuit names the stage topology of a Problem.
@@ -54,6 +60,10 @@ const (
 	// V/A, InMin and InMax are currents and CMMin, CMMax the shunt's low
 	// side.
 	CurrentSense Circuit = "current-sense"
+	// InAmp is the three-op-amp instrumentation amplifier: a first stage of
+	// gain 1 + 2Rf/Rg (Rf1 = Rf2 = Rf) on the difference and unity on the
+	// common mode, then a difference amplifier of gain R2/R1.
+	InAmp Circuit = "inamp"
 )
 
 // Method is the analysis method the limits are judged under.
@@ -135,6 +145,10 @@ type Problem struct {
 	// SeriesPairs and ParallelPairs allow two values in series or in
 	// parallel at a feedback position (Options.Combos allows both).
 	SeriesPairs, ParallelPairs bool
+
+	// k2 is the second-stage gain R2/R1 of an instrumentation amplifier
+	// (set per sub-search; 0 outside one).
+	k2 float64
 }
 
 // Defaults for a zero Problem field.
@@ -145,7 +159,7 @@ const (
 	// quantWindow is the largest ratio quantization |k/k0 - 1| a value pair
 	// may have when no gain-error limit is set.
 	quantWindow = 0.05
-	maxPlace    = 8 // most placements of one part number per stage
+	maxPlace    = 10 // most placements of one part number per stage (in-amp: 1 + 2 + 2 + 4)
 )
 
 func (p *Problem) normalize() error {
@@ -162,12 +176,14 @@ func (p *Problem) normalize() error {
 		p.Method = WorstCase
 	}
 	switch {
-	case p.Circuit != Difference && p.Circuit != NonInverting && p.Circuit != Inverting && p.Circuit != Divider && p.Circuit != CurrentSense:
-		return fmt.Errorf("%w: circuit %q: use %q, %q, %q, %q or %q", ErrProblem, p.Circuit, Difference, NonInverting, Inverting, Divider, CurrentSense)
+	case p.Circuit != Difference && p.Circuit != NonInverting && p.Circuit != Inverting && p.Circuit != Divider && p.Circuit != CurrentSense && p.Circuit != InAmp:
+		return fmt.Errorf("%w: circuit %q: use %q, %q, %q, %q, %q or %q", ErrProblem, p.Circuit, Difference, NonInverting, Inverting, Divider, CurrentSense, InAmp)
 	case !(p.Gain > 0) || math.IsInf(p.Gain, 0):
 		return fmt.Errorf("%w: gain %g: give a positive gain magnitude", ErrProblem, p.Gain)
 	case p.Circuit == NonInverting && p.Gain <= 1:
 		return fmt.Errorf("%w: gain %g: a non-inverting stage with resistors needs gain above 1", ErrProblem, p.Gain)
+	case p.Circuit == InAmp && p.Gain <= 1:
+		return fmt.Errorf("%w: gain %g: a three-op-amp instrumentation amplifier needs gain above 1", ErrProblem, p.Gain)
 	case p.Circuit == Divider && p.Gain >= 1:
 		return fmt.Errorf("%w: gain %g: a divider attenuates; give a gain below 1", ErrProblem, p.Gain)
 	case !(p.SupplyPos > p.SupplyNeg):
@@ -196,8 +212,20 @@ func (p *Problem) ratio() float64 {
 		return p.Gain - 1
 	case Divider:
 		return (1 - p.Gain) / p.Gain
+	case InAmp:
+		// 1 + 2Rf/Rg = G/k2.
+		return (p.Gain/p.stage2Gain() - 1) / 2
 	}
 	return p.Gain
+}
+
+// stage2Gain is the second-stage gain of an instrumentation amplifier
+// (unity unless a sub-search set it).
+func (p *Problem) stage2Gain() float64 {
+	if p.k2 > 0 {
+		return p.k2
+	}
+	return 1
 }
 
 // deltaT is the worst excursion from the reference temperature:
@@ -218,6 +246,8 @@ func (p *Problem) families() []Family {
 		all = []Family{DiscreteInverting}
 	case Divider:
 		all = []Family{DiscreteDivider}
+	case InAmp:
+		all = []Family{DiscreteInAmp, NetworkInAmp}
 	}
 	if len(p.Families) == 0 {
 		return all

@@ -228,6 +228,8 @@ func famName(f Family) string {
 		return spec.Inverting
 	case DiscreteDivider:
 		return spec.Divider
+	case DiscreteInAmp, NetworkInAmp:
+		return spec.InAmp
 	}
 	return spec.Difference
 }
@@ -239,6 +241,8 @@ func (s *space) positions() (rg, rf []string) {
 		return []string{"R1", "R3"}, []string{"R2", "R4"}
 	case Divider:
 		return []string{"Rbot"}, []string{"Rtop"}
+	case InAmp:
+		return []string{"Rg"}, []string{"Rf1", "Rf2"}
 	}
 	return []string{"Rg"}, []string{"Rf"}
 }
@@ -260,20 +264,7 @@ func (s *space) describe(b *classBest) (Design, *spec.Design, error) {
 		case NetworkDifference:
 			n := s.nets[c.net]
 			uses = append(uses, cost.Use{Part: n.Part, Offer: &n.Offer, Placements: 1})
-			ia, ib := elementIndexes(n.Values, c.na), elementIndexes(n.Values, c.nb)
-			if c.na == c.nb {
-				ib = ia[2:]
-			}
-			names := []string{"R1", "R2", "R3", "R4"}
-			idx := []int{ia[0], ib[0], ia[1], ib[1]}
-			for i, name := range names {
-				v := n.Values[idx[i]]
-				parts = append(parts, Part{Position: name, Kind: string(catalog.KindNetwork), Part: n.Part, Quantity: 1, ValueOhm: v,
-					Tolerance: n.Tolerance, TCRppm: n.TCR, RatioTolerance: n.RatioTolerance, TCRTracking: n.TCRTracking})
-				sd.Positions = append(sd.Positions, spec.Position{Name: name, Elements: []spec.Element{{Network: n.Part, Index: idx[i] + 1, Ohm: v,
-					Tolerance: n.Tolerance, TCR: n.TCR * 1e-6, PowerW: n.PowerW, MaxVoltageV: n.MaxVoltageV,
-					RatioTolerance: n.RatioTolerance, TCRTracking: n.TCRTracking * 1e-6, Resolved: true}}})
-			}
+			parts, sd.Positions = networkParts(n, c.na, c.nb, parts, sd.Positions)
 		default:
 			o := c.opts[b.opt]
 			ga, gb := s.groups[c.ga], s.groups[c.gb]
@@ -300,6 +291,16 @@ func (s *space) describe(b *classBest) (Design, *spec.Design, error) {
 					sd.Positions = append(sd.Positions, spec.Position{Name: pos, Elements: []spec.Element{add(pos, gb, o.rf)}})
 				}
 			}
+			// The second stage of an instrumentation amplifier.
+			if st := c.g.s2; st != nil && st.grp >= 0 {
+				for _, pos := range []string{"R1", "R2", "R3", "R4"} {
+					sd.Positions = append(sd.Positions, spec.Position{Name: pos, Elements: []spec.Element{add(pos, s.groups[st.grp], st.vi)}})
+				}
+			} else if st != nil {
+				n := s.nets[st.net]
+				uses = append(uses, cost.Use{Part: n.Part, Offer: &n.Offer, Placements: 1})
+				parts, sd.Positions = networkParts(n, st.r1, st.r2, parts, sd.Positions)
+			}
 		}
 	} else {
 		a = s.matched[b.amp].a
@@ -313,8 +314,11 @@ func (s *space) describe(b *classBest) (Design, *spec.Design, error) {
 	if a.Part != "" {
 		sd.Amplifier.Part, sd.Amplifier.Amp, sd.Amplifier.Resolved = a.Part, *a, true
 		sd.Name = fmt.Sprintf("%s with %s", sd.Family, a.Part)
-		uses = append(uses, cost.Use{Part: a.Part, Offer: &a.Offer, Placements: 1})
-		parts = append(parts, Part{Position: "U1", Kind: string(catalog.KindAmplifier), Part: a.Part, Quantity: 1})
+		// The in-amp's three op-amps count channels: one package each, or
+		// fewer of a dual or quad part.
+		n := packages(s.p, a)
+		uses = append(uses, cost.Use{Part: a.Part, Offer: &a.Offer, Placements: n})
+		parts = append(parts, Part{Position: "U1", Kind: string(catalog.KindAmplifier), Part: a.Part, Quantity: n})
 	}
 	bd, err := cost.Price(s.p.Build, uses)
 	if err != nil {
@@ -340,6 +344,26 @@ func (s *space) offerWithStock(g *group, i int) *catalog.Offer {
 	o := g.offer
 	o.Stock = g.stock[i]
 	return &o
+}
+
+// networkParts appends the four difference-amplifier positions R1..R4 on
+// network n (R1 = R3 of value na, R2 = R4 of value nb) to parts and ps.
+func networkParts(n *catalog.Network, na, nb float64, parts []Part, ps []spec.Position) ([]Part, []spec.Position) {
+	ia, ib := elementIndexes(n.Values, na), elementIndexes(n.Values, nb)
+	if na == nb {
+		ib = ia[2:]
+	}
+	names := []string{"R1", "R2", "R3", "R4"}
+	idx := []int{ia[0], ib[0], ia[1], ib[1]}
+	for i, name := range names {
+		v := n.Values[idx[i]]
+		parts = append(parts, Part{Position: name, Kind: string(catalog.KindNetwork), Part: n.Part, Quantity: 1, ValueOhm: v,
+			Tolerance: n.Tolerance, TCRppm: n.TCR, RatioTolerance: n.RatioTolerance, TCRTracking: n.TCRTracking})
+		ps = append(ps, spec.Position{Name: name, Elements: []spec.Element{{Network: n.Part, Index: idx[i] + 1, Ohm: v,
+			Tolerance: n.Tolerance, TCR: n.TCR * 1e-6, PowerW: n.PowerW, MaxVoltageV: n.MaxVoltageV,
+			RatioTolerance: n.RatioTolerance, TCRTracking: n.TCRTracking * 1e-6, Resolved: true}}})
+	}
+	return parts, ps
 }
 
 func elementIndexes(vs []float64, v float64) []int {

@@ -78,17 +78,19 @@ func FromSpec(s *spec.Spec) (Problem, error) {
 			p.Circuit, p.Families = Divider, append(p.Families, DiscreteDivider)
 		case spec.CurrentSense:
 			p.Circuit, p.Families = CurrentSense, append(p.Families, DiscreteDifference, NetworkDifference)
+		case spec.InAmp:
+			p.Circuit, p.Families = InAmp, append(p.Families, DiscreteInAmp, NetworkInAmp)
 		default:
 			unsupported = append(unsupported, f)
 		}
 	}
 	if len(unsupported) > 0 || len(p.Families) == 0 {
-		return p, fmt.Errorf("%w: families %v: the search builds %s, %s (alone or with %s), %s, %s, %s and %s stages; keep one circuit per spec",
-			ErrProblem, s.Families, spec.Difference, spec.Matched, spec.Difference, spec.NonInverting, spec.Inverting, spec.Divider, spec.CurrentSense)
+		return p, fmt.Errorf("%w: families %v: the search builds %s, %s (alone or with %s), %s, %s, %s, %s and %s stages; keep one circuit per spec",
+			ErrProblem, s.Families, spec.Difference, spec.Matched, spec.Difference, spec.NonInverting, spec.Inverting, spec.Divider, spec.CurrentSense, spec.InAmp)
 	}
-	if p.Circuit == NonInverting || p.Circuit == Inverting || p.Circuit == Divider || p.Circuit == CurrentSense {
+	if p.Circuit == NonInverting || p.Circuit == Inverting || p.Circuit == Divider || p.Circuit == CurrentSense || p.Circuit == InAmp {
 		if len(s.Families) > 1 {
-			return p, fmt.Errorf("%w: families %v: an inverting, non-inverting, divider or current-sense stage is searched alone", ErrProblem, s.Families)
+			return p, fmt.Errorf("%w: families %v: an inverting, non-inverting, divider, current-sense or instrumentation-amplifier stage is searched alone", ErrProblem, s.Families)
 		}
 	}
 	return p, nil
@@ -123,6 +125,9 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 	}
 	if p.Circuit == CurrentSense {
 		return solveCurrentSense(ctx, parts, p, opt, verify, exhaustive)
+	}
+	if p.Circuit == InAmp && p.k2 == 0 {
+		return solveInAmp(ctx, parts, p, opt, verify, exhaustive)
 	}
 	if opt.Top <= 0 {
 		opt.Top = defaultTop
@@ -491,6 +496,8 @@ func (s *space) idealGain(k0 float64) float64 {
 		return 1 + k0
 	case Divider:
 		return 1 / (1 + k0)
+	case InAmp:
+		return (1 + 2*k0) * s.k2
 	}
 	return k0
 }

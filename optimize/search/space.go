@@ -205,13 +205,27 @@ type amp struct {
 // hardReason counts why amplifiers were removed by hard limits.
 type hardReason map[string]int
 
-// ampCost prices one amplifier per stage, with its placement and line item.
-func ampCost(p *Problem, o *catalog.Offer) (float64, bool, bool) {
-	ext, _, short, err := p.Build.LineCost(o, 1)
+// ampCost prices n amplifier packages per stage, with their placements and
+// line item.
+func ampCost(p *Problem, o *catalog.Offer, n int) (float64, bool, bool) {
+	ext, _, short, err := p.Build.LineCost(o, n)
 	if err != nil {
 		return 0, false, false
 	}
-	return ext + p.Build.PerPlacement*float64(p.Build.Quantity) + p.Build.PerLineItem, short, true
+	return ext + p.Build.PerPlacement*float64(n*p.Build.Quantity) + p.Build.PerLineItem, short, true
+}
+
+// inampOpAmps is the number of op-amps of the instrumentation amplifier.
+const inampOpAmps = 3
+
+// packages is the number of amplifier packages a stage needs: one per
+// op-amp, or ceil(op-amps / channels) of a dual or quad part.
+func packages(p *Problem, a *catalog.Amplifier) int {
+	if p.Circuit != InAmp {
+		return 1
+	}
+	ch := max(a.Channels, 1)
+	return (inampOpAmps + ch - 1) / ch
 }
 
 // pinRange returns the voltages the op-amp input pins see.
@@ -227,6 +241,13 @@ func pinRange(p *Problem, k float64) (lo, hi float64) {
 				v = vd
 			case Inverting:
 				v = p.Ref
+			case InAmp:
+				// A1 and A2 see the inputs; A3 sees the first stage's
+				// outputs Vcm ± G1·Vd/2 through R3/R4.
+				k2 := p.stage2Gain()
+				o1 := vcm + (1+2*k)*vd/2
+				v = o1*k2/(1+k2) + p.Ref/(1+k2)
+				lo, hi = math.Min(lo, math.Min(vcm-vd/2, vcm+vd/2)), math.Max(hi, math.Max(vcm-vd/2, vcm+vd/2))
 			}
 			lo, hi = math.Min(lo, v), math.Max(hi, v)
 		}
@@ -284,10 +305,21 @@ func hardAmp(p *Problem, a *catalog.Amplifier, k float64) string {
 		return "input headroom"
 	}
 	olo, ohi := outRange(p)
+	ng := 1 + k
+	if p.Circuit == InAmp {
+		// The first stage's outputs swing to Vcm ± G1·Vd/2 too.
+		g1 := 1 + 2*k
+		for _, vcm := range []float64{p.CMMin, p.CMMax} {
+			for _, vd := range []float64{p.InMin, p.InMax} {
+				olo, ohi = math.Min(olo, math.Min(vcm-g1*vd/2, vcm+g1*vd/2)), math.Max(ohi, math.Max(vcm-g1*vd/2, vcm+g1*vd/2))
+			}
+		}
+		ng = math.Max(g1, 1+p.stage2Gain())
+	}
 	if olo < p.SupplyNeg+a.SwingNegV || ohi > p.SupplyPos-a.SwingPosV {
 		return "output swing"
 	}
-	if p.BandwidthHz > 0 && a.GBWHz/(1+k) < p.BandwidthHz {
+	if p.BandwidthHz > 0 && a.GBWHz/ng < p.BandwidthHz {
 		return "bandwidth"
 	}
 	return ""
@@ -311,14 +343,14 @@ func buildAmps(parts *Parts, p *Problem, fams map[Family]bool) (op, matched []am
 		if p.Build.Currency != "" && !offerIn(&a.Offer, p.Build.Currency) {
 			continue
 		}
-		c, short, ok := ampCost(p, &a.Offer)
+		c, short, ok := ampCost(p, &a.Offer, packages(p, a))
 		if !ok {
 			why["no price or stock"]++
 			continue
 		}
 		switch a.Type {
 		case catalog.OpAmp:
-			if !fams[DiscreteDifference] && !fams[NetworkDifference] && !fams[DiscreteNonInverting] && !fams[DiscreteInverting] {
+			if !fams[DiscreteDifference] && !fams[NetworkDifference] && !fams[DiscreteNonInverting] && !fams[DiscreteInverting] && !fams[DiscreteInAmp] && !fams[NetworkInAmp] {
 				continue
 			}
 			if r := hardAmp(p, a, k); r != "" {

@@ -1,0 +1,481 @@
+package search
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+
+	"plumb/catalog"
+	"plumb/optimize/spec"
+)
+
+// stage2 is the second stage of a three-op-amp instrumentation amplifier:
+// a difference amplifier of gain k2 = R2/R1 with R3 = R1 and R4 = R2,
+// either one discrete value of one group at all four positions (unity
+// gain) or two element values of a matched network.
+type stage2 struct {
+	fam     Family
+	grp     int   // group (discrete), -1 for a network
+	vi      int32 // value index in the group
+	net     int   // index into space.nets (network), -1 for discrete
+	r1, r2  float64
+	g       grades // ratio figures of R2/R1 and R4/R3
+	netCost float64
+	short   bool
+}
+
+// inampStage2Gains lists the second-stage gains the search tries: unity
+// (four discrete resistors of one value, or a network of four equal
+// elements) and the ratio of every network with two pairs of values,
+// kept when the first stage is left a gain G/k2 above 1.
+func inampStage2Gains(parts *Parts, p *Problem) []float64 {
+	seen := map[float64]bool{1: true}
+	out := []float64{1}
+	for i := range parts.Networks {
+		for _, pr := range networkPairs(&parts.Networks[i]) {
+			k2 := pr[1] / pr[0]
+			if !seen[k2] && p.Gain/k2 > 1+minFirstStage {
+				seen[k2] = true
+				out = append(out, k2)
+			}
+		}
+	}
+	sort.Float64s(out)
+	return out
+}
+
+// minFirstStage keeps the first stage's gain 1 + 2Rf/Rg above 1 + 2·1e-3:
+// below, Rg would be far above the resistor window.
+const minFirstStage = 2e-3
+
+// networkPairs lists the element value pairs (R1 = R3 value, R2 = R4
+// value) a four-element network can give a difference amplifier: two
+// elements of each value, or four of one.
+func networkPairs(n *catalog.Network) [][2]float64 {
+	count := map[float64]int{}
+	for _, v := range n.Values {
+		count[v]++
+	}
+	var vs []float64
+	for v := range count {
+		vs = append(vs, v)
+	}
+	sort.Float64s(vs)
+	var out [][2]float64
+	for _, a := range vs {
+		for _, b := range vs {
+			if (a == b && count[a] < 4) || count[a] < 2 || count[b] < 2 {
+				continue
+			}
+			out = append(out, [2]float64{a, b})
+		}
+	}
+	return out
+}
+
+// stage2Value is the value a discrete unity-gain second stage uses: the
+// group value nearest the geometric middle of the resistor window, where
+// neither bias-current error and noise (high values) nor loading of the
+// first stage (low values) dominates.
+func (s *space) stage2Value(g *group) int {
+	mid := math.Sqrt(s.p.RMinOhm * s.p.RMaxOhm)
+	best := -1
+	for i, v := range g.values {
+		if !s.ratingOK(g.grade.PowerW, g.grade.MaxVoltageV, v, s.v1) || !s.ratingOK(g.grade.PowerW, g.grade.MaxVoltageV, v, s.v2) {
+			continue
+		}
+		if best < 0 || math.Abs(math.Log(v/mid)) < math.Abs(math.Log(g.values[best]/mid)) {
+			best = i
+		}
+	}
+	return best
+}
+
+// inampConfigs builds the second-stage choices of gain s.k2 and one
+// configuration per (Rg group, Rf group, second stage).
+func (s *space) inampConfigs(parts *Parts, fams map[Family]bool) {
+	p := s.p
+	if fams[DiscreteInAmp] && s.k2 == 1 {
+		for gi, g := range s.groups {
+			if vi := s.stage2Value(g); vi >= 0 {
+				gr := g.grade
+				s.st2 = append(s.st2, stage2{fam: DiscreteInAmp, grp: gi, vi: int32(vi), net: -1, r1: g.values[vi], r2: g.values[vi],
+					g: discreteGrades(gr.Tolerance, gr.TCR, gr.LoadLife, gr.Tolerance, gr.TCR, gr.LoadLife, s.dT)})
+			}
+		}
+	}
+	if fams[NetworkInAmp] {
+		for i := range parts.Networks {
+			n := &parts.Networks[i]
+			if p.Build.Currency != "" && !offerIn(&n.Offer, p.Build.Currency) {
+				continue
+			}
+			ext, _, short, err := p.Build.LineCost(&n.Offer, 1)
+			if err != nil {
+				continue
+			}
+			added := false
+			for _, pr := range networkPairs(n) {
+				a, b := pr[0], pr[1]
+				if b/a != s.k2 || !s.ratingOK(n.PowerW, n.MaxVoltageV, a, s.v1) || !s.ratingOK(n.PowerW, n.MaxVoltageV, b, s.v2) {
+					continue
+				}
+				if !added {
+					s.nets = append(s.nets, n)
+					added = true
+				}
+				s.st2 = append(s.st2, stage2{fam: NetworkInAmp, grp: -1, net: len(s.nets) - 1, r1: a, r2: b,
+					g: networkGrades(n.RatioTolerance, n.TCRTracking, s.dT), netCost: ext + s.assembly(1, 1), short: short})
+			}
+		}
+	}
+	for si := range s.st2 {
+		st := &s.st2[si]
+		for a, ga := range s.groups {
+			for b, gb := range s.groups {
+				c := config{fam: st.fam, ga: a, gb: b, net: st.net,
+					g: discreteGrades(ga.grade.Tolerance, ga.grade.TCR, ga.grade.LoadLife, gb.grade.Tolerance, gb.grade.TCR, gb.grade.LoadLife, s.dT)}
+				c.g.s2 = st
+				if c.costLB = s.inampLB(ga, gb, st); !math.IsNaN(c.costLB) {
+					s.cfgs = append(s.cfgs, c)
+				}
+			}
+		}
+	}
+}
+
+// inampLB is the least resistor cost of any value option of an in-amp
+// configuration: Rg placed once, Rf twice, a discrete second stage four
+// times, over every way lines of one group could merge into one part
+// number (a merged line is priced at the sum of its placements), plus the
+// network's line. NaN when unpriced.
+func (s *space) inampLB(ga, gb *group, st *stage2) float64 {
+	gs := []*group{ga, gb}
+	ns := []int{s.perG, s.perF}
+	extra := st.netCost
+	if st.grp >= 0 {
+		gs, ns, extra = append(gs, s.groups[st.grp]), append(ns, 4), 0
+	}
+	best := math.NaN()
+	// label[i] is the line of element i: a restricted growth string, so
+	// every partition is visited once; elements share a line only when
+	// they share a group.
+	label := make([]int, len(gs))
+	var walk func(i, lines int)
+	walk = func(i, lines int) {
+		if i == len(gs) {
+			total, place := 0.0, 0
+			for l := 0; l < lines; l++ {
+				n := 0
+				var g *group
+				for j := range gs {
+					if label[j] == l {
+						n += ns[j]
+						g = gs[j]
+					}
+				}
+				total += g.extFrom(n)
+				place += n
+			}
+			if c := total + s.assembly(place, lines) + extra; !math.IsNaN(c) && (math.IsNaN(best) || c < best) {
+				best = c
+			}
+			return
+		}
+		for l := 0; l <= lines; l++ {
+			ok := true
+			for j := 0; j < i; j++ {
+				if label[j] == l && gs[j] != gs[i] {
+					ok = false
+				}
+			}
+			if !ok {
+				continue
+			}
+			label[i] = l
+			walk(i+1, max(lines, l+1))
+		}
+	}
+	walk(0, 0)
+	return best
+}
+
+// evalInAmp computes the screening figures of an instrumentation amplifier
+// with first-stage ratio k0 = Rf/Rg (Rf∥Rg = rp, so Rf = rp·(1+k0)),
+// first-stage figures g with the second stage g.s2, and op-amp a at all
+// three positions (S. Franco, "Design with Operational Amplifiers and
+// Analog Integrated Circuits", instrumentation-amplifier section; domain
+// notes §2):
+//
+//	G = G1·k2, G1 = 1 + 2k0, closed loop G1/(1+G1/A) · k2/(1+(1+k2)/A)
+//	∂G/G per ∂k/k of the first stage: 2k0/(1+2k0); of the second: 1
+//	1/CMRR = (|Acm/Adm| of the second stage)/G1 + (2 + 1/G1)/CMRR_amp
+//	  (A1 and A2 see the full common mode at gain G1·k2, A3 a fraction
+//	  k2/(1+k2) of it at noise gain 1+k2)
+//	offset = Vos·(2·G1·k2 + 1 + k2)
+//	  + k2·(2·Ib·|Rf - Rs·G1| + Ios·(Rf + Rs·G1)) + Ios·R2 + Ib·R2·2t
+//	noise² = k2²·(2·en²·G1² + 4kT·(4k0·Rf + 2Rf) + 2(in·Rf)² + 2G1²·(4kT·Rs + (in·Rs)²))
+//	  + (1+k2)²·(en² + 2·(4kT·R1∥R2 + (in·R1∥R2)²))
+//	bandwidth = GBW / max(G1, 1+k2)
+func (s *space) evalInAmp(g *grades, k0, rp float64, a *amp, m *metrics) {
+	p := s.p
+	am := a.a
+	st := g.s2
+	k2 := s.k2
+	g1, ng2 := 1+2*k0, 1+k2
+	f := 1.0
+	if am.AolVV > 0 {
+		f = 1 / ((1 + g1/am.AolVV) * (1 + ng2/am.AolVV))
+	}
+	s1 := 2 * k0 / (1 + 2*k0)
+	rho := g1 * k2 / p.Gain
+	sys := rho*f - 1
+	if s.rss {
+		m.drift = math.Hypot(s1*g.driftRSS, st.g.driftRSS)
+	} else {
+		m.drift = s1*g.drift + st.g.drift
+	}
+	dr := m.drift * 1e-6 * s.dT
+	// corners is the worst |gain error| with the first-stage ratio at
+	// k0·h1 or k0·l1 and the second stage's at k2·h2 or k2·l2.
+	corners := func(rho, h1, l1, h2, l2 float64) float64 {
+		w := 0.0
+		for _, m1 := range [2]float64{h1, l1} {
+			for _, m2 := range [2]float64{h2, l2} {
+				w = math.Max(w, math.Abs(rho*s.gainMult(k0, m1)*m2-1))
+			}
+		}
+		return w
+	}
+	life := func(x *grades) float64 { return math.Max(x.srL*x.srL-x.sr*x.sr, 0) }
+	switch {
+	case p.CalGain:
+		m.gainErr = 0
+		if s.rss {
+			m.totalErr = math.Hypot(math.Sqrt(s1*s1*life(g)+life(&st.g)), dr)
+		} else {
+			m.totalErr = (1+corners(1, g.hiS, g.loS, st.g.hiS, st.g.loS))*(1+dr) - 1
+		}
+	case s.rss:
+		m.gainErr = math.Abs(sys) + math.Hypot(s1*g.sr, st.g.sr)
+		m.totalErr = math.Abs(sys) + math.Sqrt(s1*s1*g.srL*g.srL+st.g.srL*st.g.srL+dr*dr)
+	default:
+		m.gainErr = corners(rho*f, g.hi, g.lo, st.g.hi, st.g.lo)
+		m.totalErr = (1+corners(rho*f, g.hiL, g.loL, st.g.hiL, st.g.loL))*(1+dr) - 1
+	}
+	cm2 := cmWorst(k2, st.g.hiT, st.g.loT)
+	if s.rss {
+		cm2 = st.g.cmRSS / (1 + k2)
+	}
+	m.cmrrDB = toDB(cm2/g1 + a.ainv*(2+1/g1))
+	rf, rs := rp*(1+k0), p.SourceOhm
+	vg := 2*g1*k2 + 1 + k2
+	bias := k2*(2*am.IbA*math.Abs(rf-rs*g1)+am.IosA*(rf+rs*g1)) + am.IosA*st.r2 + am.IbA*st.r2*2*st.g.tmax
+	s.offset(m, vg, am.VosV, bias/vg, am.VosDriftVK)
+	kt4 := 4 * boltzmann * s.tempK
+	en, in := am.NoiseVHz, am.NoiseAHz
+	rp2 := st.r1 * st.r2 / (st.r1 + st.r2)
+	n1 := 2*en*en*g1*g1 + kt4*(4*k0*rf+2*rf) + 2*in*in*rf*rf + 2*g1*g1*(kt4*rs+in*in*rs*rs)
+	n2 := ng2 * ng2 * (en*en + 2*(kt4*rp2+in*in*rp2*rp2))
+	m.noise = math.Sqrt(k2*k2*n1 + n2)
+	m.gain = g1 * k2 * f
+	m.bw = am.GBWHz / math.Max(g1, ng2)
+	m.noiseRMS = rmsNoise(m.noise, m.bw)
+}
+
+// boundInAmp fills m with optimistic figures for every design of an
+// in-amp class over every first-stage ratio k0 in k·[1-w, 1+w]: the
+// gain-error spread (H-L)/(H+L) of bound with H and L the products of both
+// stages' multipliers, the sensitivity 2k/(1+2k) at its smallest, the CMRR
+// at the largest first-stage gain, offset and noise at the smallest. g nil
+// means ideal resistors, a nil an ideal amplifier.
+func (s *space) boundInAmp(g *grades, a *amp, m *metrics) {
+	p := s.p
+	k2 := s.k2
+	kmin, kmax := s.k*(1-s.w), s.k*(1+s.w)
+	g1min, g1max, ng2 := 1+2*kmin, 1+2*kmax, 1+k2
+	s1 := 2 * kmin / (1 + 2*kmin)
+	var st *stage2
+	if g != nil {
+		st = g.s2
+	}
+	spread := func(h1, l1, h2, l2 float64) float64 {
+		H, L := (1+s1*(h1-1))*h2, (1+s1*(l1-1))*l2
+		return (H - L) / (H + L)
+	}
+	life := func(x *grades) float64 { return math.Max(x.srL*x.srL-x.sr*x.sr, 0) }
+	*m = metrics{}
+	inv := 0.0
+	if st != nil {
+		m.drift = s1*g.drift + st.g.drift
+		if s.rss {
+			m.drift = math.Hypot(s1*g.driftRSS, st.g.driftRSS)
+		}
+		dr := m.drift * 1e-6 * s.dT
+		switch {
+		case p.CalGain && s.rss:
+			m.totalErr = math.Hypot(math.Sqrt(s1*s1*life(g)+life(&st.g)), dr)
+		case p.CalGain:
+			m.totalErr = (1+spread(g.hiS, g.loS, st.g.hiS, st.g.loS))*(1+dr) - 1
+		case s.rss:
+			m.gainErr = math.Hypot(s1*g.sr, st.g.sr)
+			m.totalErr = math.Sqrt(s1*s1*g.srL*g.srL + st.g.srL*st.g.srL + dr*dr)
+		default:
+			m.gainErr = spread(g.hi, g.lo, st.g.hi, st.g.lo)
+			m.totalErr = (1+spread(g.hiL, g.loL, st.g.hiL, st.g.loL))*(1+dr) - 1
+		}
+		if s.rss {
+			inv = st.g.cmRSS / (1 + k2) / g1max
+		} else {
+			inv = cmWorst(k2, st.g.hiT, st.g.loT) / g1max
+		}
+	}
+	if a != nil {
+		am := a.a
+		inv += a.ainv * (2 + 1/g1max)
+		s.offset(m, 2*g1min*k2+1+k2, am.VosV, 0, am.VosDriftVK)
+		m.noise = am.NoiseVHz * math.Sqrt(2*k2*k2*g1min*g1min+ng2*ng2)
+		m.noiseRMS = rmsNoise(m.noise, am.GBWHz/math.Max(g1max, ng2))
+	}
+	m.cmrrDB = toDB(inv * boundSafety)
+}
+
+// subDesign is a ranked design of a sub-search with its spec design.
+type subDesign struct {
+	d  Design
+	sd *spec.Design
+}
+
+// solveInAmp searches every second-stage gain k2 (unity, and the ratio of
+// each network): for each, a sub-search over the first-stage grades and
+// values at 1 + 2Rf/Rg = G/k2, the second-stage choices of that gain and
+// the op-amps. The sub-searches are exact, so the designs merged by cost
+// are the exact top N; the exact budget then confirms them in order.
+func solveInAmp(ctx context.Context, parts *Parts, p Problem, opt Options, verify verifier, exhaustive bool) (*Result, error) {
+	if opt.Top <= 0 {
+		opt.Top = defaultTop
+	}
+	keep := opt.Top
+	if verify != nil {
+		keep += verifyExtra(opt.Top)
+	}
+	res := &Result{Method: string(p.Method), Designs: []Design{}, NearMisses: []NearMiss{}}
+	var all []subDesign
+	var near []NearMiss
+	var inf *Infeasible
+	gains := inampStage2Gains(parts, &p)
+	for _, k2 := range gains {
+		q := p
+		q.k2 = k2
+		r, err := solve(ctx, parts, q, Options{Top: keep, Combos: opt.Combos}, nil, exhaustive)
+		if err != nil && !errors.Is(err, ErrInfeasible) {
+			return nil, err
+		}
+		res.Search.Classes += r.Search.Classes
+		res.Search.Visited += r.Search.Visited
+		res.Search.BoundPruned += r.Search.BoundPruned
+		res.Search.Evaluated += r.Search.Evaluated
+		if k2 == 1 {
+			inf, res.Notes = r.Infeasible, r.Notes
+		}
+		for j, d := range r.Designs {
+			all = append(all, subDesign{d, r.designs[j]})
+		}
+		near = append(near, r.NearMisses...)
+	}
+	if opt.Progress != nil {
+		opt.Progress(res.Search.Classes, res.Search.Classes)
+	}
+	sort.SliceStable(all, func(i, j int) bool { return all[i].d.TotalCost < all[j].d.TotalCost })
+	rejected := rankMerged(&p, res, all, opt.Top, verify)
+	sort.SliceStable(near, func(i, j int) bool { return near[i].TotalCost < near[j].TotalCost })
+	for _, nm := range near {
+		if len(res.NearMisses) >= maxNearMisses+rejected || (len(res.Designs) > 0 && nm.TotalCost >= res.Designs[0].TotalCost) {
+			break
+		}
+		res.NearMisses = append(res.NearMisses, nm)
+	}
+	if p.hazardous() {
+		res.Cautions = append(res.Cautions, hazardCaution)
+	}
+	res.Notes = append(res.Notes, fmt.Sprintf("second-stage gains searched: %v; the first stage makes up the rest of the gain", gains))
+	if len(res.Designs) == 0 {
+		res.Infeasible = inf
+		if inf == nil {
+			res.Infeasible = &Infeasible{Message: ErrInfeasible.Error()}
+		}
+		res.Infeasible.Message += "; no first stage, second stage and op-amp in the catalog meet every limit together"
+		return res, ErrInfeasible
+	}
+	return res, nil
+}
+
+// rankMerged ranks designs of exact sub-searches, sorted by cost: each is
+// confirmed by verify (nil: taken as it is); one the exact budget fails
+// becomes a near miss and the next takes its rank. The reasons are rebuilt
+// on the merged ranking. It returns the number of designs rejected.
+func rankMerged(p *Problem, res *Result, all []subDesign, top int, verify verifier) int {
+	rejected := 0
+	for _, c := range all {
+		if len(res.Designs) >= top {
+			break
+		}
+		var unverified error
+		if verify != nil {
+			fails, err := verify(c.sd)
+			unverified = err
+			if err == nil && len(fails) > 0 {
+				nm := NearMiss{Design: c.d, Fails: fails}
+				var names []string
+				for _, f := range fails {
+					names = append(names, f.Text)
+				}
+				nm.Reasons = []string{"passes the search's screening figures, but the exact budget fails it: " + strings.Join(names, "; ")}
+				if rejected < maxNearMisses {
+					res.NearMisses = append(res.NearMisses, nm)
+				}
+				rejected++
+				continue
+			}
+		}
+		c.d.Rank = len(res.Designs) + 1
+		c.d.Reasons = mergedReasons(p, &c.d, res.Designs)
+		if unverified != nil {
+			c.d.Reasons = append(c.d.Reasons, "not confirmed by the exact budget: "+unverified.Error())
+		}
+		res.Designs = append(res.Designs, c.d)
+		res.designs = append(res.designs, c.sd)
+	}
+	if rejected > 0 {
+		res.Notes = append(res.Notes, fmt.Sprintf("%d design(s) that pass the screening figures fail the exact budget; they are listed first among the near misses", rejected))
+	}
+	return min(rejected, maxNearMisses)
+}
+
+// mergedReasons explains a design on a merged ranking: its limits, the
+// binding limit, why it ranks below the design above, and the sub-search's
+// own notes (value variants, stock).
+func mergedReasons(p *Problem, d *Design, above []Design) []string {
+	out := []string{limitSummary(d.Limits)}
+	if bl, ok := binding(d.Limits); ok {
+		out = append(out, fmt.Sprintf("binding limit: %s at margin %.2fx", bl.Name, bl.Margin))
+	}
+	s := &space{p: p}
+	if len(above) == 0 {
+		out = append(out, "cheapest passing design of the search space")
+	} else {
+		out = append(out, s.rankLine(&above[len(above)-1], d))
+	}
+	for _, r := range d.Reasons {
+		if strings.HasPrefix(r, "binding limit:") {
+			out[1] = r
+		}
+		if strings.Contains(r, "value variants") || strings.HasPrefix(r, "stock is short") {
+			out = append(out, r)
+		}
+	}
+	return out
+}
