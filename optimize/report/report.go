@@ -247,7 +247,11 @@ func Build(ctx context.Context, in Input) (*Report, error) {
 	if len(jobs) == 0 && len(r.Infeasible) == 0 {
 		r.Infeasible = []string{"the search returned no designs"}
 	}
-	pr := pricer{build: buildOf(s), lookup: lookup}
+	build, err := buildOf(s)
+	if err != nil {
+		return nil, err
+	}
+	pr := pricer{build: build, lookup: lookup}
 	for i, j := range jobs {
 		if err := ctx.Err(); err != nil {
 			return nil, fmt.Errorf("report: %w", err)
