@@ -90,43 +90,48 @@ func FuzzParsePPM(f *testing.F) {
 func FuzzParsePower(f *testing.F) {
 	addSeeds(f, "0.125W", "1/8W", "125mW", "0.125W, 1/8W", "1/10 W", "0.1", "1/0W", "0.063W, 1/16W")
 	f.Fuzz(func(t *testing.T, in string) {
-		roundTrip(t, in, ParsePower, func(v float64) string { return Format(v, "W") }, 5.01e-4)
+		roundTrip(t, in, ParsePower, si("W"), 5.01e-4)
 	})
 }
 
 func FuzzParseVoltage(f *testing.F) {
 	addSeeds(f, "15V", "-5 V", "500mV", "2.5", "±15V", "−5 V", "25 µV")
 	f.Fuzz(func(t *testing.T, in string) {
-		roundTrip(t, in, ParseVoltage, func(v float64) string { return Format(v, "V") }, 5.01e-4)
+		roundTrip(t, in, ParseVoltage, si("V"), 5.01e-4)
 	})
 }
 
 func FuzzParseCurrent(f *testing.F) {
 	addSeeds(f, "1nA", "2 pA", "5A", "1.5 uA", "1.5 µA", "20 fA")
 	f.Fuzz(func(t *testing.T, in string) {
-		roundTrip(t, in, ParseCurrent, func(v float64) string { return Format(v, "A") }, 5.01e-4)
+		roundTrip(t, in, ParseCurrent, si("A"), 5.01e-4)
 	})
 }
 
 func FuzzParseFrequency(f *testing.F) {
 	addSeeds(f, "10kHz", "1.2 MHz", "100Hz", "1e6", "10KHz")
 	f.Fuzz(func(t *testing.T, in string) {
-		roundTrip(t, in, ParseFrequency, func(v float64) string { return Format(v, "Hz") }, 5.01e-4)
+		roundTrip(t, in, ParseFrequency, si("Hz"), 5.01e-4)
 	})
 }
 
 func FuzzParseVoltageNoise(f *testing.F) {
 	addSeeds(f, "4.5nV/√Hz", "4.5 nV/rtHz", "4.5nV/sqrt(Hz)", "4.5 nV / √Hz")
 	f.Fuzz(func(t *testing.T, in string) {
-		roundTrip(t, in, ParseVoltageNoise, func(v float64) string { return Format(v, "V/√Hz") }, 5.01e-4)
+		roundTrip(t, in, ParseVoltageNoise, si("V/√Hz"), 5.01e-4)
 	})
 }
 
 func FuzzParseCurrentNoise(f *testing.F) {
 	addSeeds(f, "0.5 pA/√Hz", "100 fA/rtHz")
 	f.Fuzz(func(t *testing.T, in string) {
-		roundTrip(t, in, ParseCurrentNoise, func(v float64) string { return Format(v, "A/√Hz") }, 5.01e-4)
+		roundTrip(t, in, ParseCurrentNoise, si("A/√Hz"), 5.01e-4)
 	})
+}
+
+// si prints with Format in unit, for the round trips.
+func si(unit string) func(float64) string {
+	return func(v float64) string { return Format(v, unit) }
 }
 
 // exact prints with all the digits float64 needs, for the parsers that have
@@ -153,7 +158,7 @@ func FuzzParseQuantity(f *testing.F) {
 	addSeeds(f, "2.2 mA", "3", "3m", "1GA")
 	f.Fuzz(func(t *testing.T, in string) {
 		roundTrip(t, in, func(s string) (float64, error) { return ParseQuantity(s, "A") },
-			func(v float64) string { return Format(v, "A") }, 5.01e-4)
+			si("A"), 5.01e-4)
 	})
 }
 
@@ -233,14 +238,14 @@ func grouped(n int, sep string) string {
 func FuzzParseDrift(f *testing.F) {
 	addSeeds(f, "2µV/K", "2 uV/°C", "0.5 uV/C", "±1 µV/℃", "-3nV/K", "2", "2 µV")
 	f.Fuzz(func(t *testing.T, in string) {
-		roundTrip(t, in, ParseDrift, func(v float64) string { return Format(v, "V/K") }, 5.01e-4)
+		roundTrip(t, in, ParseDrift, si("V/K"), 5.01e-4)
 	})
 }
 
 func FuzzParseSlewRate(f *testing.F) {
 	addSeeds(f, "0.5V/µs", "20 V/us", "500mV/µs", "2 V/ns", "1e6 V/s", "0.5")
 	f.Fuzz(func(t *testing.T, in string) {
-		roundTrip(t, in, ParseSlewRate, func(v float64) string { return Format(v, "V/s") }, 5.01e-4)
+		roundTrip(t, in, ParseSlewRate, si("V/s"), 5.01e-4)
 	})
 }
 
@@ -268,7 +273,7 @@ func FuzzParseGain(f *testing.F) {
 func FuzzParseTransimpedance(f *testing.F) {
 	addSeeds(f, "0.5V/A", "500 mV/A", "0.5 Ω", "50mΩ", "2")
 	f.Fuzz(func(t *testing.T, in string) {
-		roundTrip(t, in, ParseTransimpedance, func(v float64) string { return Format(v, "V/A") }, 5.01e-4)
+		roundTrip(t, in, ParseTransimpedance, si("V/A"), 5.01e-4)
 	})
 }
 

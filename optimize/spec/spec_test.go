@@ -206,6 +206,17 @@ func TestQuantities(t *testing.T) {
 		{"noise", "20nV/rtHz", uNoise, 20e-9},
 		{"drift", "10uV/K", uVPerK, 10e-6},
 		{"exponent", "1e3", uOhm, 1000},
+		// Forms read through catalog/units that the spec's own parser lacked.
+		// 20·log10(1e6) = 120 dB (IEC 60027-3 field level, from memory).
+		{"aol in dB", "120dB", uAol, 1e6},
+		// 1 V/mV = 1000 V/V (common practice).
+		{"aol in V/mV", "1000V/mV", uAol, 1e6},
+		{"aol bare is V/V, as Marshal writes it", "250000", uAol, 2.5e5},
+		{"drift per degree C", "2uV/°C", uVPerK, 2e-6},
+		// One V/A is one ohm (SI, from memory).
+		{"transimpedance in milliohm", "50mΩ", uTransR, 0.05},
+		{"thermal resistance in °C/W", "250°C/W", uKPerW, 250},
+		{"resistance code", "4k99", uOhm, 4990},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
