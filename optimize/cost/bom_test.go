@@ -1,6 +1,7 @@
 package cost
 
 import (
+	"bytes"
 	"errors"
 	"os"
 	"strings"
@@ -14,20 +15,30 @@ import (
 // prices).
 func fixtureLookup(t testing.TB) spec.Lookup {
 	t.Helper()
-	f, err := os.Open("testdata/catalog.json")
+	data, err := os.ReadFile("testdata/catalog.json")
 	if err != nil {
 		t.Fatal(err)
 	}
-	defer f.Close()
-	snap, err := catalog.ReadSnapshotJSON(f)
+	snap, err := catalog.ReadSnapshotJSON(bytes.NewReader(data))
+	if err == nil {
+		var l spec.Lookup
+		if l, err = spec.SnapshotLookup(snap); err == nil {
+			return l
+		}
+	}
+	t.Fatal(err)
+	return nil
+}
+
+// networkYAML is testdata/network.yaml: R1..R4 on elements 1..4 of
+// TN4-1K10K with op-amp PL-1.
+func networkYAML(t testing.TB) string {
+	t.Helper()
+	data, err := os.ReadFile("testdata/network.yaml")
 	if err != nil {
 		t.Fatal(err)
 	}
-	l, err := spec.SnapshotLookup(snap)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return l
+	return string(data)
 }
 
 func design(t testing.TB, yaml string) *spec.Design {
@@ -65,14 +76,7 @@ positions:
   R4: {series: [{part: OR-4K99}, {value: 10, tolerance: 1%, tcr: 100ppm/K}]}
 amplifier: {part: PL-1}
 `
-	const network = `family: difference
-positions:
-  R1: {network: TN4-1K10K, element: 1}
-  R2: {network: TN4-1K10K, element: 2}
-  R3: {network: TN4-1K10K, element: 3}
-  R4: {network: TN4-1K10K, element: 4}
-amplifier: {part: PL-1}
-`
+	network := networkYAML(t)
 	inamp := func(amp string) string {
 		s := "family: inamp\npositions:\n"
 		for _, p := range []string{"Rf1", "Rg", "Rf2", "R1", "R2", "R3", "R4"} {
@@ -223,8 +227,7 @@ func TestDesignBOMDescribe(t *testing.T) {
 	}{
 		// Engineering notation as catalog/units writes it: 4990 ohm is 4.99k.
 		{"resistor", "family: inverting\npositions:\n  Rg: {part: OR-4K99}\n  Rf: {part: OR-100K}\namplifier: {part: PL-1}\n", 1, catalog.KindResistor, "4.99k", "0603", 0.001, 25},
-		{"network", "family: difference\npositions:\n  R1: {network: TN4-1K10K, element: 1}\n  R2: {network: TN4-1K10K, element: 2}\n  R3: {network: TN4-1K10K, element: 3}\n  R4: {network: TN4-1K10K, element: 4}\namplifier: {part: PL-1}\n",
-			0, catalog.KindNetwork, "1k/10k/1k/10k", "SOT-23-6", 0.001, 25},
+		{"network", networkYAML(t), 0, catalog.KindNetwork, "1k/10k/1k/10k", "SOT-23-6", 0.001, 25},
 		{"op-amp", "family: inverting\npositions:\n  Rg: {part: OR-4K99}\n  Rf: {part: OR-100K}\namplifier: {part: PL-2}\n", 2, catalog.KindAmplifier, "opamp", "SOIC-8", 0, 0},
 		{"matched amplifier: gain error and drift", "family: matched\namplifier: {part: PL-D10, gain: 10}\n", 0, catalog.KindAmplifier, "matched", "SOIC-8", 0.0002, 1},
 	}
