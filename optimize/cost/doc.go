@@ -10,4 +10,13 @@
 // price of the largest break at or below the quantity bought. Buying up to a
 // higher break is chosen when it makes the line cheaper (a fact of the trade:
 // 100 pieces at 0.02 can cost less than 80 at 0.05).
+//
+// Price works on part numbers and placement counts, and is what the search
+// calls. DesignBOM is the one walk of a design into a purchasing list,
+// shared by the command line and the report: positions per part number,
+// pieces per stage (a network is one piece for its elements, an amplifier
+// as many packages as its channels need for the family's op-amps), the
+// break used and the stock, with the positions left unpriced because they
+// are given as inline figures. BuildOf maps a spec's build section onto a
+// Build.
 package cost
