@@ -550,6 +550,24 @@ func (e *Evaluator) eval(x []float64, t float64, life bool, p *point) error {
 	return nil
 }
 
+// gainAt solves only the signal transfer at parameter point x and
+// temperature t (see eval), for the searches that need nothing else.
+func (e *Evaluator) gainAt(x []float64, t float64, life bool) (float64, error) {
+	if e.matched {
+		var p point
+		e.evalMatched(x, t, e.setValues(x, t, life), &p)
+		return p.gain, nil
+	}
+	if _, err := e.factorAt(x, t, life); err != nil {
+		return 0, err
+	}
+	e.quiet()
+	e.driveSignal(1)
+	g := e.sol.SolveOut()
+	e.driveSignal(-1)
+	return g, nil
+}
+
 // ampTransfers solves, at nominal values and the reference temperature,
 // each amplifier's pin common mode per volt of input common mode and the
 // transfers from its Vos, Ib+ and Ib- to the output, and its own-loop
