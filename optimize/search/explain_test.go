@@ -3,10 +3,13 @@ package search
 import (
 	"context"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 
+	"plumb/catalog"
 	"plumb/optimize/budget"
+	"plumb/optimize/spec"
 )
 
 // TestScreeningAgreesWithBudget ranks the fixtures on the screening
@@ -90,5 +93,57 @@ func TestBudgetHasTheLastWord(t *testing.T) {
 	if nm.Family != string(DiscreteDifference) || len(nm.Fails) != 1 || nm.Fails[0].Name != budget.LimitGainDrift ||
 		!strings.Contains(nm.Reasons[0], "exact budget") {
 		t.Errorf("first near miss %s %+v %q", nm.Family, nm.Fails, nm.Reasons)
+	}
+}
+
+// TestFixNamesChangedPosition: a grade fix at some positions names a part
+// of those positions, never one of the positions it leaves alone (the
+// logger example once printed "R1, R3: ... AR-TP1-11K8", the R2/R4 value).
+func TestFixNamesChangedPosition(t *testing.T) {
+	snap := demoSnapshot(t)
+	s, err := spec.Load("../../data/examples/logger-channel.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := Solve(context.Background(), snap, s, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	checked := 0
+	for _, nm := range res.NearMisses {
+		if nm.Fix == nil || nm.Fix.Kind != "grade" {
+			continue
+		}
+		changed := strings.Split(strings.SplitN(nm.Fix.Change, ":", 2)[0], ", ")
+		for _, p := range nm.Parts {
+			if p.Kind != string(catalog.KindResistor) || slices.Contains(changed, p.Position) {
+				continue
+			}
+			checked++
+			if p.Part == nm.Fix.Part {
+				t.Errorf("fix %q names %s, the part at unchanged position %s", nm.Fix.Change, nm.Fix.Part, p.Position)
+			}
+		}
+	}
+	if checked == 0 {
+		t.Skip("no grade fix that leaves positions alone among the near misses")
+	}
+}
+
+func TestPartAt(t *testing.T) {
+	parts := []Part{{Position: "R1", Part: "A"}, {Position: "R2.a", Part: "B"}, {Position: "R2.b", Part: "C"}, {Position: "R3", Part: "D"}}
+	tests := []struct {
+		name string
+		at   []string
+		want string
+	}{
+		{"first named position", []string{"R3", "R1"}, "D"},
+		{"a pair's first element", []string{"R2"}, "B"},
+		{"absent", []string{"R9"}, ""},
+	}
+	for _, tc := range tests {
+		if got := partAt(parts, tc.at); got != tc.want {
+			t.Errorf("%s: %q, want %q", tc.name, got, tc.want)
+		}
 	}
 }

@@ -525,18 +525,14 @@ func (s *space) nearMiss(f *classBest) (NearMiss, error) {
 		nm.Fails = append(nm.Fails, Failure{Name: l.Name, Value: l.Value, Limit: l.Limit, By: by, Text: txt})
 	}
 	nm.Reasons = []string{fmt.Sprintf("cheaper than rank 1 but fails %d limit(s)", len(nm.Fails))}
-	best, kind, change, part := s.cheapestFix(f)
+	best, kind, change, part, at := s.cheapestFix(f)
 	if kind != "" {
 		bd, _, err := s.describe(&best)
 		if err != nil {
 			return NearMiss{}, err
 		}
 		if part == "" {
-			for _, p := range bd.Parts {
-				if p.Kind == string(catalog.KindResistor) {
-					part = p.Part
-				}
-			}
+			part = partAt(bd.Parts, at)
 		}
 		nm.Fix = &Fix{Kind: kind, Change: change, Part: part, TotalCost: bd.TotalCost, ExtraCost: bd.UnitCost - d.UnitCost}
 		nm.Reasons = append(nm.Reasons, fmt.Sprintf("cheapest single change that passes: %s (%.4g more per stage)", change, nm.Fix.ExtraCost))
@@ -553,11 +549,26 @@ type fixCand struct {
 	kind   string
 }
 
+// partAt returns the part at the first of the positions named (a pair's
+// elements count as their position), so that a grade fix names a part of
+// the positions it changes.
+func partAt(parts []Part, at []string) string {
+	for _, pos := range at {
+		for _, p := range parts {
+			if p.Position == pos || strings.HasPrefix(p.Position, pos+".") {
+				return p.Part
+			}
+		}
+	}
+	return ""
+}
+
 // cheapestFix searches the single changes of a failing class in order of
 // their cost lower bound, skipping those whose error bound fails, and
 // returns the cheapest that passes with its kind, a description and the
-// part it brings in ("" kind when none passes).
-func (s *space) cheapestFix(f *classBest) (best classBest, kind, change, part string) {
+// part it brings in ("" kind when none passes); for a grade change, part is
+// "" and at lists the positions changed.
+func (s *space) cheapestFix(f *classBest) (best classBest, kind, change, part string, at []string) {
 	best = classBest{cost: math.Inf(1)}
 	var cands []fixCand
 	if f.cfg < 0 {
@@ -582,6 +593,8 @@ func (s *space) cheapestFix(f *classBest) (best classBest, kind, change, part st
 			switch {
 			case c.fam == NetworkDifference:
 				cands = append(cands, fixCand{ci, f.amp, lb, "network"})
+			case o.g.s2 != c.g.s2:
+				// Another second stage is not a grade change.
 			case o.gb == c.gb || o.ga == c.ga || (c.ga == c.gb && o.ga == o.gb):
 				// One grade at one set of positions, or one grade for all.
 				cands = append(cands, fixCand{ci, f.amp, lb, "grade"})
@@ -611,29 +624,29 @@ func (s *space) cheapestFix(f *classBest) (best classBest, kind, change, part st
 		}
 	}
 	if math.IsInf(best.cost, 1) {
-		return best, "", "", ""
+		return best, "", "", "", nil
 	}
 	rgPos, rfPos := s.positions()
 	switch {
 	case won.ci < 0:
 		a := s.matched[won.ai].a
-		return best, won.kind, "matched amplifier " + a.Part + " instead of " + s.matched[f.amp].a.Part, a.Part
+		return best, won.kind, "matched amplifier " + a.Part + " instead of " + s.matched[f.amp].a.Part, a.Part, nil
 	case won.kind == "amplifier":
 		a := s.amps[won.ai].a
-		return best, won.kind, "amplifier " + a.Part + " instead of " + s.amps[f.amp].a.Part, a.Part
+		return best, won.kind, "amplifier " + a.Part + " instead of " + s.amps[f.amp].a.Part, a.Part, nil
 	case won.kind == "network":
 		n := s.nets[s.cfgs[won.ci].net]
-		return best, won.kind, "network " + n.Part + " instead of " + s.nets[s.cfgs[f.cfg].net].Part, n.Part
+		return best, won.kind, "network " + n.Part + " instead of " + s.nets[s.cfgs[f.cfg].net].Part, n.Part, nil
 	}
 	c, o := &s.cfgs[f.cfg], &s.cfgs[won.ci]
 	if o.ga != c.ga && o.gb != c.gb {
-		all := strings.Join(append(append([]string{}, rgPos...), rfPos...), ", ")
-		return best, won.kind, fmt.Sprintf("%s: %s instead of %s", all, groupText(s.groups[o.ga]), groupText(s.groups[c.ga])), ""
+		all := append(append([]string{}, rgPos...), rfPos...)
+		return best, won.kind, fmt.Sprintf("%s: %s instead of %s", strings.Join(all, ", "), groupText(s.groups[o.ga]), groupText(s.groups[c.ga])), "", all
 	}
 	if o.ga != c.ga {
-		return best, won.kind, fmt.Sprintf("%s: %s instead of %s", strings.Join(rgPos, ", "), groupText(s.groups[o.ga]), groupText(s.groups[c.ga])), ""
+		return best, won.kind, fmt.Sprintf("%s: %s instead of %s", strings.Join(rgPos, ", "), groupText(s.groups[o.ga]), groupText(s.groups[c.ga])), "", rgPos
 	}
-	return best, won.kind, fmt.Sprintf("%s: %s instead of %s", strings.Join(rfPos, ", "), groupText(s.groups[o.gb]), groupText(s.groups[c.gb])), ""
+	return best, won.kind, fmt.Sprintf("%s: %s instead of %s", strings.Join(rfPos, ", "), groupText(s.groups[o.gb]), groupText(s.groups[c.gb])), "", rfPos
 }
 
 func groupText(g *group) string {
