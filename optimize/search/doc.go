@@ -41,6 +41,10 @@
 //	output offset: NG·(Vos + Ios·Rf∥Rg + Ib·Rf∥Rg·2t) + NG·dVos/dT·ΔT
 //	noise: NG·sqrt(en² + n·(4kT·Rf∥Rg + (in·Rf∥Rg)²)), RMS over π/2·GBW/NG
 //
+// With Options.Combos (or the spec's combos list), a feedback position
+// may take two values of its grade in series or in parallel where the pair
+// is nearer the target ratio than any single value (see Options.Combos).
+//
 // Under root-sum-square, independent tolerances add in quadrature (a
 // tolerance is 3 sigma) and systematic terms (ratio quantization, NG/A) add
 // linearly. Monte Carlo specs are screened with the RSS figures.

@@ -15,9 +15,15 @@ import (
 type Options struct {
 	// Top is the number of ranked designs (default 5).
 	Top int
-	// Combos allows two values in series or in parallel at a feedback
-	// position where that brings the ratio nearer the target than any
-	// single value of the grade.
+	// Combos allows two values of the Rf grade in series or in parallel at
+	// each feedback position of a discrete design (Rf; R2 and R4 of a
+	// difference amplifier; Rtop of a divider; Rf1 and Rf2 of an
+	// instrumentation amplifier). Per Rg value the search tries the series
+	// pair x + y (x the largest value below the target, y the values either
+	// side of the rest) and the parallel pair x∥y (x the smallest value
+	// above the target, y either side of the value that completes it), and
+	// keeps a pair only when it is nearer the target ratio than the best
+	// single value. The spec's combos list allows one kind alone.
 	Combos bool
 	// Progress, when set, is called now and then with the classes visited
 	// and the classes in the search space.
