@@ -1,15 +1,10 @@
 package budget
 
 import (
-	"bufio"
-	"bytes"
 	"math"
-	"os"
-	"os/exec"
-	"path/filepath"
-	"strconv"
-	"strings"
 	"testing"
+
+	"plumb/optimize/spec"
 )
 
 // Current-sense offset check (regression: the zero-current solve once
@@ -83,14 +78,7 @@ func TestCurrentSenseOffsetHandCalculation(t *testing.T) {
 	if got := res.Metrics.OutputOffsetV; math.Abs(got-want) > 1e-6*want {
 		t.Errorf("Evaluate output offset %.9g V, hand calculation %.9g V", got, want)
 	}
-	e, err := NewEvaluator(s, d.Family, d.Options)
-	if err != nil {
-		t.Fatal(err)
-	}
-	c, err := CandidateOf(e, d)
-	if err != nil {
-		t.Fatal(err)
-	}
+	e, c := evaluatorOf(t, s, d)
 	var sc Score
 	if err := e.Score(c, &sc); err != nil {
 		t.Fatal(err)
@@ -105,26 +93,13 @@ func TestCurrentSenseOffsetHandCalculation(t *testing.T) {
 // circuit simulator) and compares its output at zero current with the
 // hand calculation at that corner and with the budget's worst-case offset.
 func TestCurrentSenseOffsetAgainstNgspice(t *testing.T) {
-	path, err := exec.LookPath("ngspice")
-	if err != nil {
-		if os.Getenv("PLUMB_REQUIRE_TOOLS") != "" {
-			t.Fatal("ngspice not found and PLUMB_REQUIRE_TOOLS is set")
-		}
-		t.Skip("ngspice not installed; skipping the cross-check")
-	}
+	path := ngspicePath(t)
 	s, d := mustSpec(t, csSpec), mustDesign(t, csDesign)
 	res, err := Evaluate(s, d)
 	if err != nil {
 		t.Fatal(err)
 	}
-	e, err := NewEvaluator(s, d.Family, d.Options)
-	if err != nil {
-		t.Fatal(err)
-	}
-	c, err := CandidateOf(e, d)
-	if err != nil {
-		t.Fatal(err)
-	}
+	e, c := evaluatorOf(t, s, d)
 	if err := e.SetCandidate(c); err != nil {
 		t.Fatal(err)
 	}
@@ -141,28 +116,10 @@ func TestCurrentSenseOffsetAgainstNgspice(t *testing.T) {
 	n.Sources[e.refSrc].V = csVref
 	n.OpAmps[0].Vos = csVosWC
 	n.OpAmps[0].Gain = 1e8 // ngspice rounds badly at larger VCVS gains (see circuit.SPICEInfGain)
-	var deck bytes.Buffer
-	if err := n.WriteSPICE(&deck); err != nil {
-		t.Fatal(err)
-	}
-	file := filepath.Join(t.TempDir(), "offset.cir")
-	if err := os.WriteFile(file, deck.Bytes(), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	out, err := exec.Command(path, "-b", file).CombinedOutput()
-	if err != nil {
-		t.Fatalf("ngspice: %v\n%s", err, out)
-	}
-	got := math.NaN()
-	sc := bufio.NewScanner(bytes.NewReader(out))
-	for sc.Scan() {
-		if name, val, ok := strings.Cut(sc.Text(), " = "); ok && strings.TrimSpace(name) == "out" {
-			got, _ = strconv.ParseFloat(strings.TrimSpace(val), 64)
-		}
-	}
+	got := ngspiceOut(t, path, n)
 	// Hand calculation at the corner; the 1e8 gain moves it by NG/A = 5e-7.
-	if math.IsNaN(got) || math.Abs(got-vout) > 2e-6*vout {
-		t.Fatalf("ngspice V(out) = %.9g V at the worst corner, hand calculation %.9g V\n%s", got, vout, out)
+	if math.Abs(got-vout) > 2e-6*vout {
+		t.Fatalf("ngspice V(out) = %.9g V at the worst corner, hand calculation %.9g V", got, vout)
 	}
 	// The budget takes the Vos transfer at nominal values (noise gain 50.9
 	// instead of the corner's 51.16), so it sits below the simulator by
@@ -172,4 +129,18 @@ func TestCurrentSenseOffsetAgainstNgspice(t *testing.T) {
 	if b := res.Metrics.OutputOffsetV; math.Abs(b-offset) > 1e-4*offset {
 		t.Errorf("budget worst-case offset %.9g V, ngspice %.9g V at the worst corner less the Vos transfer's change", b, offset)
 	}
+}
+
+// evaluatorOf builds the evaluator and candidate of design d under s.
+func evaluatorOf(t *testing.T, s *spec.Spec, d *spec.Design) (*Evaluator, *Candidate) {
+	t.Helper()
+	e, err := NewEvaluator(s, d.Family, d.Options)
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, err := CandidateOf(e, d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return e, c
 }
