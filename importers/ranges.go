@@ -93,6 +93,8 @@ var (
 	// practice).
 	railTermRE = regexp.MustCompile(`(?i)\(?\s*(v\s*-|v\s*−|vee|vss|vs\s*-|-\s*vs|v\s*\+|vcc|vdd|vs\s*\+|\+\s*vs)\s*\)?\s*(?:([+\-−])\s*([0-9]+(?:[.,][0-9]+)?(?:e[+-]?[0-9]+)?\s*(?:mv|µv|μv|uv|v)?))?`)
 	rangeSepRE = regexp.MustCompile(`(?i)\s*(?:/|;|,|\bto\b|\.\.|\band\b)\s*`)
+	// With a decimal comma, "0,1 / 1,5": the comma is not a separator.
+	rangeSepCommaRE = regexp.MustCompile(`(?i)\s*(?:/|;|\bto\b|\.\.|\band\b)\s*`)
 )
 
 // parseHeadroom reads a two-sided range cell into the headroom from the
@@ -135,19 +137,14 @@ func parseHeadroom(s, hint string, decimalComma bool) (neg, pos float64, err err
 		}
 		return neg, pos, nil
 	}
+	sep := rangeSepRE
+	if decimalComma {
+		sep = rangeSepCommaRE
+	}
 	var parts []string
-	for _, p := range rangeSepRE.Split(t, -1) {
+	for _, p := range sep.Split(t, -1) {
 		if p = strings.TrimSpace(p); p != "" {
 			parts = append(parts, p)
-		}
-	}
-	if decimalComma {
-		// "0,1 / 1,5": the comma was a decimal comma, not a separator.
-		parts = parts[:0]
-		for _, p := range regexp.MustCompile(`\s*(?:/|;|\bto\b)\s*`).Split(t, -1) {
-			if p = strings.TrimSpace(p); p != "" {
-				parts = append(parts, p)
-			}
 		}
 	}
 	if len(parts) < 1 || len(parts) > 2 {

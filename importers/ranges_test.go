@@ -101,3 +101,17 @@ func TestGuessRangeHeaders(t *testing.T) {
 		})
 	}
 }
+
+// FuzzParseHeadroom: any cell either reads as two finite headrooms or is
+// refused with an error; it never panics.
+func FuzzParseHeadroom(f *testing.F) {
+	for _, s := range []string{"(V-) - 0.1 V to (V+) - 1.5 V", "Vee + 0.2 to Vcc + 0.1", "20 / 35", "0.8 V", "rail-to-rail", "V+ - 1", "-Vs + 1e-3 to +Vs - 2"} {
+		f.Add(s, false)
+	}
+	f.Fuzz(func(t *testing.T, s string, comma bool) {
+		neg, pos, err := parseHeadroom(s, "V", comma)
+		if err == nil && (math.IsNaN(neg) || math.IsNaN(pos) || math.IsInf(neg, 0) || math.IsInf(pos, 0)) {
+			t.Fatalf("%q read as %g, %g", s, neg, pos)
+		}
+	})
+}
