@@ -137,3 +137,23 @@ func TestSessionRepeatsAndRollback(t *testing.T) {
 		})
 	}
 }
+
+// BenchmarkUpsertSession100k writes the same 100,000 resistors as
+// BenchmarkUpsert100k through one session in chunks of 4096, as an import
+// does: the cost of chunking (one lookup of existing parts and one flush
+// per chunk) against one batch.
+func BenchmarkUpsertSession100k(b *testing.B) {
+	benchWrites(b, "BS", func(ctx context.Context, s *Store, batch *Snapshot) error {
+		us, err := s.BeginUpsert(ctx, UpsertOptions{Source: "bench", Now: testTime})
+		if err != nil {
+			return err
+		}
+		defer us.Rollback()
+		for _, c := range chunks(batch, 4096) {
+			if _, err := us.Add(ctx, c); err != nil {
+				return err
+			}
+		}
+		return us.Commit()
+	})
+}
