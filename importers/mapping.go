@@ -6,6 +6,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -140,8 +141,35 @@ func analyseHeader(h string) headerInfo {
 			hi.typical = true
 		}
 	}
+	if hi.unit == "" && strings.Contains(h, "_") {
+		hi.unit = snakeUnit(hi.tokens)
+	}
 	hi.breakQ = breakQty(rest, hi.tokens)
 	return hi
+}
+
+// snakeUnits are the SI unit suffixes of snake_case column names
+// ("cm_neg_v", "ib_a", "gbw_hz", "vos_drift_v_per_k"), longest first,
+// as the catalog's own names write them.
+var snakeUnits = []struct {
+	suffix []string
+	unit   string
+}{
+	{[]string{"v", "per", "rthz"}, "V/√Hz"}, {[]string{"a", "per", "rthz"}, "A/√Hz"},
+	{[]string{"v", "per", "k"}, "V/K"}, {[]string{"v", "per", "s"}, "V/s"}, {[]string{"v", "per", "v"}, "V/V"},
+	{[]string{"k", "per", "w"}, "K/W"},
+	{[]string{"ohm"}, "Ω"}, {[]string{"v"}, "V"}, {[]string{"a"}, "A"}, {[]string{"hz"}, "Hz"},
+	{[]string{"w"}, "W"}, {[]string{"db"}, "dB"}, {[]string{"ppm"}, "ppm"},
+}
+
+// snakeUnit returns the unit a snake_case name ends with, or "".
+func snakeUnit(toks []string) string {
+	for _, su := range snakeUnits {
+		if n := len(su.suffix); len(toks) > n && slices.Equal(toks[len(toks)-n:], su.suffix) {
+			return su.unit
+		}
+	}
+	return ""
 }
 
 // breakQty reads the quantity of a per-break price column: "Price @ 1000",

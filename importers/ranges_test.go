@@ -115,3 +115,38 @@ func FuzzParseHeadroom(f *testing.F) {
 		}
 	})
 }
+
+// TestSnakeCaseColumns reads a file in the catalog's column names without
+// the rest of its export (no price_breaks, imported_at): bare numbers take
+// the unit the name ends with, and the one-side range columns are read
+// signed (a negative headroom is beyond the rail).
+func TestSnakeCaseColumns(t *testing.T) {
+	b, rep := mustRead(t, "testdata/amplifiers_snake.csv")
+	if len(b.Amplifiers) != 1 {
+		t.Fatalf("%d amplifiers: %s", len(b.Amplifiers), problemText(rep))
+	}
+	a := b.Amplifiers[0]
+	tests := []struct {
+		name      string
+		got, want float64
+	}{
+		{"cm_neg_v below the rail", a.CMNegV, -0.1},
+		{"cm_pos_v", a.CMPosV, 1.5},
+		{"swing_neg_v", a.SwingNegV, 0.05},
+		{"swing_pos_v", a.SwingPosV, 0.1},
+		{"vos_v", a.VosV, 25e-6},
+		{"vos_drift_v_per_k", a.VosDriftVK, 0.3e-6},
+		{"ib_a", a.IbA, 1e-9},
+		{"aol_v_per_v", a.AolVV, 1e6},
+		{"gbw_hz", a.GBWHz, 10e6},
+		{"slew_v_per_s", a.SlewVs, 2.5e6},
+		{"noise_v_per_rthz", a.NoiseVHz, 8e-9},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			if math.Abs(tc.got-tc.want) > 1e-9*math.Abs(tc.want) {
+				t.Errorf("got %g, want %g", tc.got, tc.want)
+			}
+		})
+	}
+}
