@@ -6,9 +6,9 @@ import (
 	"strings"
 )
 
-// digits returns |v| rounded to n significant figures as a digit string d
-// and exponent e, so that |v| ≈ d[0].d[1:] × 10^e. v must be finite and
-// not zero.
+// digits returns |v| rounded to n significant figures (n = 0: the fewest
+// that read back exactly) as a digit string d and exponent e, so that
+// |v| ≈ d[0].d[1:] × 10^e. v must be finite and not zero.
 func digits(v float64, n int) (string, int) {
 	s := strconv.FormatFloat(math.Abs(v), 'e', n-1, 64)
 	i := strings.IndexByte(s, 'e')
@@ -84,7 +84,18 @@ var siPrefixes = [...]string{"f", "p", "n", "µ", "m", "", "k", "M", "G"}
 // Format(2.5e-9, "V/√Hz") is "2.5 nV/√Hz", Format(1e-3, "V") is "1 mV".
 // With unit "" no space is written ("4.7k"). Values outside the prefix
 // range use an exponent ("1.5e-18 A").
-func Format(v float64, unit string) string {
+func Format(v float64, unit string) string { return formatSI(v, unit, 4) }
+
+// FormatExact is Format with all the digits float64 needs to be read back
+// exactly (the shortest that do, as strconv gives them): FormatExact(1e-5,
+// "V") is "10 µV", FormatExact(1.2345678e-9, "A") "1.2345678 nA". Values
+// outside the prefix range use an exponent. The parsers read the result back
+// to the same float64, for units that take SI prefixes.
+func FormatExact(v float64, unit string) string { return formatSI(v, unit, 0) }
+
+// formatSI writes v with an SI prefix and n significant figures (0: the
+// shortest that read back exactly).
+func formatSI(v float64, unit string, n int) string {
 	sp := " "
 	if unit == "" {
 		sp = ""
@@ -95,7 +106,7 @@ func Format(v float64, unit string) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return strconv.FormatFloat(v, 'g', -1, 64) + sp + unit
 	}
-	d, e := digits(v, 4)
+	d, e := digits(v, n)
 	if e < -15 || e >= 12 {
 		return sign(v) + place(d, 1) + "e" + strconv.Itoa(e) + sp + unit
 	}

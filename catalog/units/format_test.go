@@ -207,3 +207,30 @@ func TestFormatRoundTrip(t *testing.T) {
 		})
 	}
 }
+
+func TestFormatExact(t *testing.T) {
+	tests := []struct {
+		name string
+		v    float64
+		unit string
+		want string
+	}{
+		{name: "micro", v: 1e-5, unit: "V", want: "10 µV"},
+		{name: "all digits", v: 1.2345678e-9, unit: "A", want: "1.2345678 nA"},
+		{name: "mega", v: 1e6, unit: "Hz", want: "1 MHz"},
+		{name: "negative", v: -14.5, unit: "V", want: "-14.5 V"},
+		{name: "noise", v: 2e-8, unit: "V/rtHz", want: "20 nV/rtHz"},
+		{name: "zero", v: 0, unit: "V", want: "0 V"},
+		{name: "below femto", v: 1.5e-18, unit: "A", want: "1.5e-18 A"},
+		{name: "no unit", v: 4700, unit: "", want: "4.7k"},
+		// 0.1 + 0.2 in float64 arithmetic is 0.30000000000000004 (IEEE 754, common practice): every digit kept.
+		{name: "binary residue", v: 0.30000000000000004, unit: "V", want: "300.00000000000004 mV"},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			if got := FormatExact(tc.v, tc.unit); got != tc.want {
+				t.Errorf("FormatExact(%v, %q) = %q, want %q", tc.v, tc.unit, got, tc.want)
+			}
+		})
+	}
+}

@@ -328,3 +328,21 @@ func FuzzParseRangeStrict(f *testing.F) {
 		}
 	})
 }
+
+// FuzzFormatExact checks that what FormatExact writes reads back to the
+// same float64.
+func FuzzFormatExact(f *testing.F) {
+	for _, v := range []float64{1e-5, 1.2345678e-9, -14.5, 1e6, 0.30000000000000004, 5e-324, 1.7976931348623157e308} {
+		f.Add(v)
+	}
+	f.Fuzz(func(t *testing.T, v float64) {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return
+		}
+		s := FormatExact(v, "V")
+		got, err := ParseVoltage(s)
+		if err != nil || got != v {
+			t.Fatalf("FormatExact(%v) = %q reads back %v, %v", v, s, got, err)
+		}
+	})
+}

@@ -4,6 +4,8 @@ import (
 	"strconv"
 
 	"go.yaml.in/yaml/v3"
+
+	"plumb/catalog/units"
 )
 
 // num formats v to 12 significant figures, dropping the rounding residue
@@ -87,15 +89,24 @@ func rawAmpOf(a *AmplifierChoice, family string) rawAmp {
 		}
 		return num(v) + unit
 	}
+	// Figures in units that take SI prefixes are written in engineering
+	// notation with every digit ("10 µV", "2 nA"), which catalog/units reads
+	// back to the same value.
+	si := func(v float64, unit string) string {
+		if v == 0 {
+			return ""
+		}
+		return units.FormatExact(v, unit)
+	}
 	if m.Type == "matched" && family != Matched {
 		r.Type = "matched"
 	}
-	r.Vos, r.VosDrift, r.Ib, r.Ios = opt(m.VosV, "V"), opt(m.VosDriftVK, "V/K"), opt(m.IbA, "A"), opt(m.IosA, "A")
-	r.Aol, r.CMRR, r.GBW = opt(m.AolVV, ""), opt(m.CMRRdB, "dB"), opt(m.GBWHz, "Hz")
-	r.Noise, r.CurNoise = opt(m.NoiseVHz, "V/rtHz"), opt(m.NoiseAHz, "A/rtHz")
-	r.CMNeg, r.CMPos, r.SwingNeg, r.SwingPos = opt(m.CMNegV, "V"), opt(m.CMPosV, "V"), opt(m.SwingNegV, "V"), opt(m.SwingPosV, "V")
-	r.SupplyMax, r.Internal = opt(m.SupplyMaxV, "V"), opt(m.InternalOhm, "")
-	r.InNeg, r.InPos = opt(m.InNegV, "V"), opt(m.InPosV, "V")
+	r.Vos, r.VosDrift, r.Ib, r.Ios = si(m.VosV, "V"), si(m.VosDriftVK, "V/K"), si(m.IbA, "A"), si(m.IosA, "A")
+	r.Aol, r.CMRR, r.GBW = opt(m.AolVV, ""), opt(m.CMRRdB, "dB"), si(m.GBWHz, "Hz")
+	r.Noise, r.CurNoise = si(m.NoiseVHz, "V/rtHz"), si(m.NoiseAHz, "A/rtHz")
+	r.CMNeg, r.CMPos, r.SwingNeg, r.SwingPos = si(m.CMNegV, "V"), si(m.CMPosV, "V"), si(m.SwingNegV, "V"), si(m.SwingPosV, "V")
+	r.SupplyMax, r.Internal = si(m.SupplyMaxV, "V"), opt(m.InternalOhm, "")
+	r.InNeg, r.InPos = si(m.InNegV, "V"), si(m.InPosV, "V")
 	if m.GainErrorMax != 0 {
 		r.GainError = num(100*m.GainErrorMax) + "%"
 	}
