@@ -89,8 +89,8 @@ func (sc *scan) tally(res []catalog.UpsertResult, where map[string]origin) {
 		case catalog.Repeated:
 			// Read earlier in this import, in an earlier chunk.
 			rep.Summary.Parts--
-			if r.Kind == catalog.KindSeries {
-				rep.Summary.Series--
+			if r.Kind == catalog.KindSeries && o.line == 0 {
+				rep.Summary.Series-- // a grouped series (an exported one has its line)
 			}
 			rep.Problems = append(rep.Problems, newProblem(Skip, &ParseError{File: o.file, Line: o.line, Raw: r.Part,
 				Err: fmt.Errorf("%w: already read earlier in this import; this row is left out", ErrDuplicate)}, r.Part))

@@ -97,7 +97,6 @@ func (sc *scan) flush() error {
 		return nil
 	}
 	sc.rep.Summary.Parts += sc.chunk.Len() + len(sc.chunk.Series)
-	sc.rep.Summary.Series += len(sc.chunk.Series)
 	sc.chunk.origin = sc.seen
 	if err := sc.emit(&sc.chunk); err != nil {
 		return err
@@ -270,6 +269,7 @@ func (sc *scan) stream(name string, in io.Reader) error {
 		sc.chunk.Series = append(sc.chunk.Series, series...)
 		sc.chunk.Resistors = append(sc.chunk.Resistors, singles...)
 		fr.Groups = append(fr.Groups, groups...)
+		rep.Summary.Series += len(series)
 		rep.Problems = append(rep.Problems, notes...)
 		for _, s := range series {
 			sc.seen[string(catalog.KindSeries)+"|"+s.Part] = origin{name, 0}
