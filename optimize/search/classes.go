@@ -43,6 +43,7 @@ type config struct {
 	net    int // index into space.nets (network)
 	na, nb float64
 	g      grades
+	fbv    int32   // level shift: the value index of Rg = Rf in group gb
 	costLB float64 // cheapest completion: the least resistor cost of any option
 	opts   []option
 	built  bool
@@ -75,7 +76,7 @@ func newSpace(parts *Parts, p *Problem, combos bool) (*space, error) {
 	}
 	s.ratingVoltages()
 	var err error
-	disc := fams[DiscreteDifference] || fams[DiscreteNonInverting] || fams[DiscreteInverting] || fams[DiscreteDivider] || fams[DiscreteInAmp] || fams[NetworkInAmp]
+	disc := fams[DiscreteDifference] || fams[DiscreteNonInverting] || fams[DiscreteInverting] || fams[DiscreteDivider] || fams[DiscreteInAmp] || fams[NetworkInAmp] || fams[DiscreteLevelShift]
 	if disc {
 		if s.groups, err = buildGroups(parts, p); err != nil {
 			return nil, err
@@ -89,6 +90,10 @@ func newSpace(parts *Parts, p *Problem, combos bool) (*space, error) {
 		Inverting: DiscreteInverting, Divider: DiscreteDivider}[p.Circuit]
 	if p.Circuit == InAmp {
 		s.inampConfigs(parts, fams)
+		return s, nil
+	}
+	if p.Circuit == LevelShift {
+		s.levelShiftConfigs()
 		return s, nil
 	}
 	if disc {
@@ -307,6 +312,11 @@ func (s *space) options(c *config) []option {
 		return c.opts
 	}
 	c.built = true
+	if s.p.Circuit == LevelShift {
+		s.levelShiftOptions(c)
+		sort.SliceStable(c.opts, func(i, j int) bool { return c.opts[i].cost < c.opts[j].cost })
+		return c.opts
+	}
 	ga, gb := s.groups[c.ga], s.groups[c.gb]
 	for i, rg := range ga.values {
 		if !s.ratingOK(ga.grade.PowerW, ga.grade.MaxVoltageV, rg, s.vG) {
@@ -425,33 +435,55 @@ func (s *space) resetOptions() {
 // addOption prices a value choice, merging positions that use one part
 // number into one line, and appends it unless stock excludes it.
 func (s *space) addOption(c *config, ga, gb *group, i, j, j2 int, rg, rf float64) bool {
-	type line struct {
-		g     *group
-		idx   int
-		place int
-	}
-	var lines [4]line
-	n := 0
-	put := func(g *group, idx, place int) {
-		for k := 0; k < n; k++ {
-			if lines[k].g == g && lines[k].idx == idx {
-				lines[k].place += place
-				return
-			}
-		}
-		lines[n] = line{g, idx, place}
+	var lines [5]line
+	lines[0], lines[1] = line{ga, i, s.perG}, line{gb, j, s.perF}
+	n := 2
+	if j2 >= 0 {
+		lines[n] = line{gb, j2, s.perF}
 		n++
 	}
-	put(ga, i, s.perG)
-	put(gb, j, s.perF)
-	if j2 >= 0 {
-		put(gb, j2, s.perF)
+	st := c.g.s2
+	if st != nil && st.grp >= 0 {
+		lines[n] = line{s.groups[st.grp], int(st.vi), 4}
+		n++
 	}
 	k0, rp := s.effective(rg, rf)
 	o := option{k0: k0, rp: rp, rg: int32(i), rf: int32(j), rf2: int32(j2)}
-	st := c.g.s2
-	if st != nil && st.grp >= 0 {
-		put(s.groups[st.grp], int(st.vi), 4)
+	if !s.priceLines(&o, lines[:n]) {
+		return false
+	}
+	if st != nil && st.grp < 0 {
+		o.cost += st.netCost
+		o.short = o.short || st.short
+	}
+	c.opts = append(c.opts, o)
+	return true
+}
+
+// line is one value of one group placed place times per stage.
+type line struct {
+	g     *group
+	idx   int
+	place int
+}
+
+// priceLines sets o's cost and stock flag from its lines, merging lines of
+// one part number (same group and value) into one; false when stock
+// excludes it or it cannot be priced.
+func (s *space) priceLines(o *option, in []line) bool {
+	var lines [6]line
+	n := 0
+	for _, ln := range in {
+		k := 0
+		for k < n && (lines[k].g != ln.g || lines[k].idx != ln.idx) {
+			k++
+		}
+		if k < n {
+			lines[k].place += ln.place
+			continue
+		}
+		lines[n] = ln
+		n++
 	}
 	place := 0
 	for k := 0; k < n; k++ {
@@ -469,10 +501,5 @@ func (s *space) addOption(c *config, ga, gb *group, i, j, j2 int, rg, rf float64
 		return false
 	}
 	o.cost += s.assembly(place, n)
-	if st != nil && st.grp < 0 {
-		o.cost += st.netCost
-		o.short = o.short || st.short
-	}
-	c.opts = append(c.opts, o)
 	return true
 }

@@ -22,7 +22,12 @@
 // four discrete resistors of one value at unity gain or on a matched
 // network, one op-amp part at A1..A3 counted in packages by its channels;
 // G = (1 + 2Rf/Rg)·R2/R1, one exact sub-search per second-stage gain,
-// merged by cost). Level shift is not searched yet (Solve says so).
+// merged by cost); the level shift Vout = m·Vin + b with the reference
+// summed into the non-inverting node through R1, R2, R3 and Rg = Rf (NG =
+// 2 exactly, so only the input network's two ratios R2/R1 and R3/R1 are
+// quantized; exact corners of slope and offset with the reference's
+// tolerance and drift). A negative offset (reference into the inverting
+// input) and m + b/Vref >= 2 are refused with a message.
 //
 // Screening model (approximations from the domain notes and S. Franco,
 // "Design with Operational Amplifiers and Analog Integrated Circuits",

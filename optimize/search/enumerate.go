@@ -39,7 +39,7 @@ func (s *space) evalClass(ci, ai int) (classBest, bool) {
 	a := &s.amps[ai]
 	var m metrics
 	for i, o := range s.options(c) {
-		s.eval(&c.g, o.k0, o.rp, a, &m)
+		s.evalOpt(c, &o, a, &m)
 		if s.pass(&m) {
 			return classBest{id: s.classID(ci, ai), cfg: ci, amp: ai, opt: i, cost: o.cost + a.cost, m: m, pass: true}, true
 		}
@@ -57,7 +57,7 @@ func (s *space) cheapestClass(ci, ai int) (classBest, bool) {
 	}
 	a := &s.amps[ai]
 	b := classBest{id: s.classID(ci, ai), cfg: ci, amp: ai, opt: 0, cost: opts[0].cost + a.cost}
-	s.eval(&c.g, opts[0].k0, opts[0].rp, a, &b.m)
+	s.evalOpt(c, &opts[0], a, &b.m)
 	b.pass = s.pass(&b.m)
 	return b, true
 }
@@ -79,7 +79,7 @@ func (s *space) variants(b *classBest) int {
 	var m metrics
 	n := 0
 	for _, o := range s.options(c) {
-		s.eval(&c.g, o.k0, o.rp, &s.amps[b.amp], &m)
+		s.evalOpt(c, &o, &s.amps[b.amp], &m)
 		if s.pass(&m) {
 			n++
 		}
@@ -131,14 +131,14 @@ func (s *space) exhaustive(ctx context.Context, n int) ([]classBest, error) {
 			a := &s.amps[ai]
 			best := -1
 			for i := range opts {
-				s.eval(&c.g, opts[i].k0, opts[i].rp, a, &m)
+				s.evalOpt(c, &opts[i], a, &m)
 				if s.pass(&m) && (best < 0 || opts[i].cost < opts[best].cost) {
 					best = i
 				}
 			}
 			if best >= 0 {
 				b := classBest{id: s.classID(ci, ai), cfg: ci, amp: ai, opt: best, cost: opts[best].cost + a.cost, pass: true}
-				s.eval(&c.g, opts[best].k0, opts[best].rp, a, &b.m)
+				s.evalOpt(c, &opts[best], a, &b.m)
 				t.add(b)
 			}
 		}

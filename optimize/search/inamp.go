@@ -153,12 +153,17 @@ func (s *space) inampConfigs(parts *Parts, fams map[Family]bool) {
 // number (a merged line is priced at the sum of its placements), plus the
 // network's line. NaN when unpriced.
 func (s *space) inampLB(ga, gb *group, st *stage2) float64 {
-	gs := []*group{ga, gb}
-	ns := []int{s.perG, s.perF}
-	extra := st.netCost
 	if st.grp >= 0 {
-		gs, ns, extra = append(gs, s.groups[st.grp]), append(ns, 4), 0
+		return linesLB(s, []*group{ga, gb, s.groups[st.grp]}, []int{s.perG, s.perF, 4}, 0)
 	}
+	return linesLB(s, []*group{ga, gb}, []int{s.perG, s.perF}, st.netCost)
+}
+
+// linesLB is the least cost of lines of groups gs placed ns times each,
+// over every way lines of one group could merge into one part number (a
+// merged line is priced at the sum of its placements), plus extra. NaN
+// when unpriced.
+func linesLB(s *space, gs []*group, ns []int, extra float64) float64 {
 	best := math.NaN()
 	// label[i] is the line of element i: a restricted growth string, so
 	// every partition is visited once; elements share a line only when

@@ -304,6 +304,11 @@ const boundSafety = 1 - 1e-12
 // so pass(bound) false proves that no design of the class passes.
 func (s *space) bound(g *grades, a *amp, m *metrics) {
 	p := s.p
+	if p.Circuit == LevelShift {
+		s.boundLevelShift(a, m)
+		s.shrinkBound(m)
+		return
+	}
 	if p.Circuit == InAmp {
 		s.boundInAmp(g, a, m)
 		s.shrinkBound(m)

@@ -42,6 +42,10 @@ const (
 	// DiscreteInAmp is a three-op-amp instrumentation amplifier whose
 	// second stage is four discrete resistors of one value (unity gain).
 	DiscreteInAmp Family = "inamp-discrete"
+	// DiscreteLevelShift is a level shift Vout = m·Vin + b with the
+	// reference summed into the non-inverting node (R1, R2, R3) and
+	// Rg = Rf.
+	DiscreteLevelShift Family = "level-shift-discrete"
 	// NetworkInAmp is a three-op-amp instrumentation amplifier whose second
 	// stage is a matched four-element network.
 	NetworkInAmp Family = "inamp-network"
@@ -64,6 +68,9 @@ const (
 	// gain 1 + 2Rf/Rg (Rf1 = Rf2 = Rf) on the difference and unity on the
 	// common mode, then a difference amplifier of gain R2/R1.
 	InAmp Circuit = "inamp"
+	// LevelShift maps the input onto Gain·Vin + Shift with the offset
+	// taken from the reference Ref.
+	LevelShift Circuit = "level-shift"
 )
 
 // Method is the analysis method the limits are judged under.
@@ -146,6 +153,11 @@ type Problem struct {
 	// parallel at a feedback position (Options.Combos allows both).
 	SeriesPairs, ParallelPairs bool
 
+	// Shift is a level shift's output at zero input, V; RefTol and
+	// RefDrift are its reference's tolerance (fraction) and drift
+	// (fraction per K).
+	Shift, RefTol, RefDrift float64
+
 	// k2 is the second-stage gain R2/R1 of an instrumentation amplifier
 	// (set per sub-search; 0 outside one).
 	k2 float64
@@ -176,8 +188,8 @@ func (p *Problem) normalize() error {
 		p.Method = WorstCase
 	}
 	switch {
-	case p.Circuit != Difference && p.Circuit != NonInverting && p.Circuit != Inverting && p.Circuit != Divider && p.Circuit != CurrentSense && p.Circuit != InAmp:
-		return fmt.Errorf("%w: circuit %q: use %q, %q, %q, %q, %q or %q", ErrProblem, p.Circuit, Difference, NonInverting, Inverting, Divider, CurrentSense, InAmp)
+	case p.Circuit != Difference && p.Circuit != NonInverting && p.Circuit != Inverting && p.Circuit != Divider && p.Circuit != CurrentSense && p.Circuit != InAmp && p.Circuit != LevelShift:
+		return fmt.Errorf("%w: circuit %q: use %q, %q, %q, %q, %q, %q or %q", ErrProblem, p.Circuit, Difference, NonInverting, Inverting, Divider, CurrentSense, InAmp, LevelShift)
 	case !(p.Gain > 0) || math.IsInf(p.Gain, 0):
 		return fmt.Errorf("%w: gain %g: give a positive gain magnitude", ErrProblem, p.Gain)
 	case p.Circuit == NonInverting && p.Gain <= 1:
@@ -194,6 +206,11 @@ func (p *Problem) normalize() error {
 		return fmt.Errorf("%w: resistor window %g to %g ohm is empty", ErrProblem, p.RMinOhm, p.RMaxOhm)
 	case p.Method != WorstCase && p.Method != RSS && p.Method != MonteCarlo:
 		return fmt.Errorf("%w: method %q: use %q, %q or %q", ErrProblem, p.Method, WorstCase, RSS, MonteCarlo)
+	}
+	if p.Circuit == LevelShift {
+		if err := p.lsCheck(); err != nil {
+			return err
+		}
 	}
 	if p.Build.Quantity == 0 {
 		p.Build.Quantity = 1
@@ -212,6 +229,8 @@ func (p *Problem) ratio() float64 {
 		return p.Gain - 1
 	case Divider:
 		return (1 - p.Gain) / p.Gain
+	case LevelShift:
+		return lsNoiseGain - 1
 	case InAmp:
 		// 1 + 2Rf/Rg = G/k2.
 		return (p.Gain/p.stage2Gain() - 1) / 2
@@ -248,6 +267,8 @@ func (p *Problem) families() []Family {
 		all = []Family{DiscreteDivider}
 	case InAmp:
 		all = []Family{DiscreteInAmp, NetworkInAmp}
+	case LevelShift:
+		all = []Family{DiscreteLevelShift}
 	}
 	if len(p.Families) == 0 {
 		return all

@@ -236,6 +236,8 @@ func famName(f Family) string {
 		return spec.Divider
 	case DiscreteInAmp, NetworkInAmp:
 		return spec.InAmp
+	case DiscreteLevelShift:
+		return spec.LevelShift
 	}
 	return spec.Difference
 }
@@ -249,6 +251,8 @@ func (s *space) positions() (rg, rf []string) {
 		return []string{"Rbot"}, []string{"Rtop"}
 	case InAmp:
 		return []string{"Rg"}, []string{"Rf1", "Rf2"}
+	case LevelShift:
+		return []string{"R1", "R2", "R3"}, []string{"Rg", "Rf"}
 	}
 	return []string{"Rg"}, []string{"Rf"}
 }
@@ -266,22 +270,32 @@ func (s *space) describe(b *classBest) (Design, *spec.Design, error) {
 		fam = c.fam
 		a = s.amps[b.amp].a
 		rgPos, rfPos := s.positions()
+		add := func(pos string, g *group, i int32) spec.Element {
+			gr := g.grade
+			uses = append(uses, cost.Use{Part: g.parts[i], Offer: s.offerWithStock(g, int(i)), Placements: 1})
+			parts = append(parts, Part{Position: pos, Kind: string(catalog.KindResistor), Part: g.parts[i], Quantity: 1,
+				ValueOhm: g.values[i], Tolerance: gr.Tolerance, TCRppm: gr.TCR})
+			return spec.Element{Part: g.parts[i], Ohm: g.values[i], Tolerance: gr.Tolerance, TCR: gr.TCR * 1e-6,
+				PowerW: gr.PowerW, MaxVoltageV: gr.MaxVoltageV, ThermalResistance: gr.ThermalResistance, LoadLife: gr.LoadLife, Resolved: true}
+		}
 		switch c.fam {
 		case NetworkDifference:
 			n := s.nets[c.net]
 			uses = append(uses, cost.Use{Part: n.Part, Offer: &n.Offer, Placements: 1})
 			parts, sd.Positions = networkParts(n, c.na, c.nb, parts, sd.Positions)
+		case DiscreteLevelShift:
+			o := c.opts[b.opt]
+			ga, gb := s.groups[c.ga], s.groups[c.gb]
+			for _, e := range []struct {
+				pos string
+				g   *group
+				i   int32
+			}{{"R1", ga, o.rg}, {"R2", ga, o.rf}, {"R3", ga, o.rf2}, {"Rg", gb, c.fbv}, {"Rf", gb, c.fbv}} {
+				sd.Positions = append(sd.Positions, spec.Position{Name: e.pos, Elements: []spec.Element{add(e.pos, e.g, e.i)}})
+			}
 		default:
 			o := c.opts[b.opt]
 			ga, gb := s.groups[c.ga], s.groups[c.gb]
-			add := func(pos string, g *group, i int32) spec.Element {
-				gr := g.grade
-				uses = append(uses, cost.Use{Part: g.parts[i], Offer: s.offerWithStock(g, int(i)), Placements: 1})
-				parts = append(parts, Part{Position: pos, Kind: string(catalog.KindResistor), Part: g.parts[i], Quantity: 1,
-					ValueOhm: g.values[i], Tolerance: gr.Tolerance, TCRppm: gr.TCR})
-				return spec.Element{Part: g.parts[i], Ohm: g.values[i], Tolerance: gr.Tolerance, TCR: gr.TCR * 1e-6,
-					PowerW: gr.PowerW, MaxVoltageV: gr.MaxVoltageV, ThermalResistance: gr.ThermalResistance, LoadLife: gr.LoadLife, Resolved: true}
-			}
 			for _, pos := range rgPos {
 				sd.Positions = append(sd.Positions, spec.Position{Name: pos, Elements: []spec.Element{add(pos, ga, o.rg)}})
 			}

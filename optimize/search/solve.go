@@ -80,17 +80,22 @@ func FromSpec(s *spec.Spec) (Problem, error) {
 			p.Circuit, p.Families = CurrentSense, append(p.Families, DiscreteDifference, NetworkDifference)
 		case spec.InAmp:
 			p.Circuit, p.Families = InAmp, append(p.Families, DiscreteInAmp, NetworkInAmp)
+		case spec.LevelShift:
+			p.Circuit, p.Families, p.Shift = LevelShift, append(p.Families, DiscreteLevelShift), s.Offset
+			if s.Reference != nil {
+				p.RefTol, p.RefDrift = s.Reference.Tolerance, s.Reference.Drift
+			}
 		default:
 			unsupported = append(unsupported, f)
 		}
 	}
 	if len(unsupported) > 0 || len(p.Families) == 0 {
-		return p, fmt.Errorf("%w: families %v: the search builds %s, %s (alone or with %s), %s, %s, %s, %s and %s stages; keep one circuit per spec",
-			ErrProblem, s.Families, spec.Difference, spec.Matched, spec.Difference, spec.NonInverting, spec.Inverting, spec.Divider, spec.CurrentSense, spec.InAmp)
+		return p, fmt.Errorf("%w: families %v: the search builds %s, %s (alone or with %s), %s, %s, %s, %s, %s and %s stages; keep one circuit per spec",
+			ErrProblem, s.Families, spec.Difference, spec.Matched, spec.Difference, spec.NonInverting, spec.Inverting, spec.Divider, spec.CurrentSense, spec.InAmp, spec.LevelShift)
 	}
-	if p.Circuit == NonInverting || p.Circuit == Inverting || p.Circuit == Divider || p.Circuit == CurrentSense || p.Circuit == InAmp {
+	if p.Circuit == NonInverting || p.Circuit == Inverting || p.Circuit == Divider || p.Circuit == CurrentSense || p.Circuit == InAmp || p.Circuit == LevelShift {
 		if len(s.Families) > 1 {
-			return p, fmt.Errorf("%w: families %v: an inverting, non-inverting, divider, current-sense or instrumentation-amplifier stage is searched alone", ErrProblem, s.Families)
+			return p, fmt.Errorf("%w: families %v: an inverting, non-inverting, divider, current-sense, instrumentation-amplifier or level-shift stage is searched alone", ErrProblem, s.Families)
 		}
 	}
 	return p, nil
@@ -402,6 +407,9 @@ func (s *space) dominant(b *classBest, limit string) (string, float64) {
 	}
 	var ts []term
 	p := s.p
+	if p.Circuit == LevelShift {
+		return s.lsDominant(b, limit)
+	}
 	if b.cfg < 0 {
 		a := s.matched[b.amp]
 		am := a.a

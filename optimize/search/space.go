@@ -241,6 +241,8 @@ func pinRange(p *Problem, k float64) (lo, hi float64) {
 				v = vd
 			case Inverting:
 				v = p.Ref
+			case LevelShift:
+				v = (p.Gain*vd + p.Shift) / lsNoiseGain
 			case InAmp:
 				// A1 and A2 see the inputs; A3 sees the first stage's
 				// outputs Vcm ± G1·Vd/2 through R3/R4.
@@ -266,6 +268,8 @@ func outRange(p *Problem) (lo, hi float64) {
 		a, b = p.Gain*p.InMin-(p.Gain-1)*p.Ref, p.Gain*p.InMax-(p.Gain-1)*p.Ref
 	case Divider:
 		a, b = p.Gain*p.InMin, p.Gain*p.InMax
+	case LevelShift:
+		a, b = p.Gain*p.InMin+p.Shift, p.Gain*p.InMax+p.Shift
 	default:
 		a, b = p.Gain*p.InMin+p.Ref, p.Gain*p.InMax+p.Ref
 	}
@@ -350,7 +354,7 @@ func buildAmps(parts *Parts, p *Problem, fams map[Family]bool) (op, matched []am
 		}
 		switch a.Type {
 		case catalog.OpAmp:
-			if !fams[DiscreteDifference] && !fams[NetworkDifference] && !fams[DiscreteNonInverting] && !fams[DiscreteInverting] && !fams[DiscreteInAmp] && !fams[NetworkInAmp] {
+			if !fams[DiscreteDifference] && !fams[NetworkDifference] && !fams[DiscreteNonInverting] && !fams[DiscreteInverting] && !fams[DiscreteInAmp] && !fams[NetworkInAmp] && !fams[DiscreteLevelShift] {
 				continue
 			}
 			if r := hardAmp(p, a, k); r != "" {
