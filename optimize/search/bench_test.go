@@ -142,3 +142,17 @@ func BenchmarkSolveSpecDifferenceTop10(b *testing.B) {
 		return Solve(context.Background(), snap, benchSpec(), Options{Top: 10})
 	})
 }
+
+// BenchmarkSolveInAmpTop10 is a gain-100 instrumentation amplifier on
+// midParts: one sub-search per second-stage gain, classes the product of
+// the first-stage grade pairs, the second stages and the op-amps.
+func BenchmarkSolveInAmpTop10(b *testing.B) {
+	ps := midParts()
+	p := Problem{Circuit: InAmp, Gain: 100, SupplyNeg: -15, SupplyPos: 15, InMin: -0.05, InMax: 0.05, CMMin: -5, CMMax: 5,
+		TMin: -40, TMax: 85, TRef: 25, Method: WorstCase,
+		Limits: Limits{TotalGainError: 0.01, CMRRdB: 80, DriftPPM: 50, OffsetV: 0.05},
+		Build:  cost.Build{Quantity: 500, Attrition: 0.02, PerPlacement: 0.005, PerLineItem: 0.5}}
+	benchSolve(b, func() (*Result, error) {
+		return SolveProblem(context.Background(), ps, p, Options{Top: 10})
+	})
+}
