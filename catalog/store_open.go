@@ -18,8 +18,11 @@ import (
 )
 
 // BusyTimeout is how long a writer waits for another writer's lock before
-// giving up with "database is locked".
-const BusyTimeout = 10 * time.Second
+// giving up with "database is locked". An import streams its file inside
+// one write transaction, so the lock is held while the file is parsed
+// (about 8 s for 200,000 rows on a small machine); the wait is long enough
+// for a second import of a large export to queue behind the first.
+const BusyTimeout = 2 * time.Minute
 
 // maxFileConns bounds the connection pool of a file catalog; SQLite allows
 // one writer at a time, readers run beside it in WAL mode.
