@@ -236,11 +236,7 @@ func solveCurrentSense(ctx context.Context, parts *Parts, p Problem, opt Options
 	if verify != nil {
 		keep += verifyExtra(opt.Top)
 	}
-	type cand struct {
-		d  Design
-		sd *spec.Design
-	}
-	var all []cand
+	var all []subDesign
 	var near []NearMiss
 	res := &Result{Method: string(p.Method), Designs: []Design{}, NearMisses: []NearMiss{}}
 	shunts := shuntCandidates(parts, &p)
@@ -258,13 +254,10 @@ func solveCurrentSense(ctx context.Context, parts *Parts, p Problem, opt Options
 		if err != nil && !errors.Is(err, ErrInfeasible) {
 			return nil, err
 		}
-		res.Search.Classes += r.Search.Classes
-		res.Search.Visited += r.Search.Visited
-		res.Search.BoundPruned += r.Search.BoundPruned
-		res.Search.Evaluated += r.Search.Evaluated
+		res.Search.add(r.Search)
 		for j, d := range r.Designs {
 			d2, sd2 := withShunt(&p, d, r.designs[j], sh)
-			all = append(all, cand{d2, sd2})
+			all = append(all, subDesign{d2, sd2})
 		}
 		for _, nm := range r.NearMisses {
 			d2, _ := withShunt(&p, nm.Design, &spec.Design{}, sh)
@@ -272,37 +265,8 @@ func solveCurrentSense(ctx context.Context, parts *Parts, p Problem, opt Options
 			near = append(near, nm)
 		}
 	}
-	sort.SliceStable(all, func(i, j int) bool { return all[i].d.TotalCost < all[j].d.TotalCost })
-	for _, c := range all {
-		if len(res.Designs) >= opt.Top {
-			break
-		}
-		var unverified error
-		if verify != nil {
-			fails, err := verify(c.sd)
-			unverified = err
-			if err == nil && len(fails) > 0 {
-				nm := NearMiss{Design: c.d, Fails: fails}
-				nm.Reasons = []string{"passes the search's screening figures, but the exact budget fails it"}
-				res.NearMisses = append(res.NearMisses, nm)
-				continue
-			}
-		}
-		c.d.Rank = len(res.Designs) + 1
-		c.d.Reasons = senseReasons(&p, &c.d, res.Designs)
-		if unverified != nil {
-			c.d.Reasons = append(c.d.Reasons, "not confirmed by the exact budget: "+unverified.Error())
-		}
-		res.Designs = append(res.Designs, c.d)
-		res.designs = append(res.designs, c.sd)
-	}
-	sort.SliceStable(near, func(i, j int) bool { return near[i].TotalCost < near[j].TotalCost })
-	for _, nm := range near {
-		if len(res.NearMisses) >= maxNearMisses || (len(res.Designs) > 0 && nm.TotalCost >= res.Designs[0].TotalCost) {
-			break
-		}
-		res.NearMisses = append(res.NearMisses, nm)
-	}
+	rejected := rankMerged(res, all, opt.Top, verify, func(d *Design, above []Design) []string { return senseReasons(&p, d, above) })
+	addNear(res, near, rejected)
 	if p.hazardous() {
 		res.Cautions = append(res.Cautions, hazardCaution)
 	}

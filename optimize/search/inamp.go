@@ -379,10 +379,7 @@ func solveInAmp(ctx context.Context, parts *Parts, p Problem, opt Options, verif
 		if err != nil && !errors.Is(err, ErrInfeasible) {
 			return nil, err
 		}
-		res.Search.Classes += r.Search.Classes
-		res.Search.Visited += r.Search.Visited
-		res.Search.BoundPruned += r.Search.BoundPruned
-		res.Search.Evaluated += r.Search.Evaluated
+		res.Search.add(r.Search)
 		if k2 == 1 {
 			inf, res.Notes = r.Infeasible, r.Notes
 		}
@@ -394,15 +391,8 @@ func solveInAmp(ctx context.Context, parts *Parts, p Problem, opt Options, verif
 	if opt.Progress != nil {
 		opt.Progress(res.Search.Classes, res.Search.Classes)
 	}
-	sort.SliceStable(all, func(i, j int) bool { return all[i].d.TotalCost < all[j].d.TotalCost })
-	rejected := rankMerged(&p, res, all, opt.Top, verify)
-	sort.SliceStable(near, func(i, j int) bool { return near[i].TotalCost < near[j].TotalCost })
-	for _, nm := range near {
-		if len(res.NearMisses) >= maxNearMisses+rejected || (len(res.Designs) > 0 && nm.TotalCost >= res.Designs[0].TotalCost) {
-			break
-		}
-		res.NearMisses = append(res.NearMisses, nm)
-	}
+	rejected := rankMerged(res, all, opt.Top, verify, func(d *Design, above []Design) []string { return mergedReasons(&p, d, above) })
+	addNear(res, near, rejected)
 	if p.hazardous() {
 		res.Cautions = append(res.Cautions, hazardCaution)
 	}
@@ -418,11 +408,33 @@ func solveInAmp(ctx context.Context, parts *Parts, p Problem, opt Options, verif
 	return res, nil
 }
 
-// rankMerged ranks designs of exact sub-searches, sorted by cost: each is
+// add sums the work of a sub-search into st.
+func (st *Stats) add(o Stats) {
+	st.Classes += o.Classes
+	st.Visited += o.Visited
+	st.BoundPruned += o.BoundPruned
+	st.Evaluated += o.Evaluated
+}
+
+// addNear appends the sub-searches' near misses cheaper than rank 1, by
+// cost, up to maxNearMisses besides the rejected designs listed first.
+func addNear(res *Result, near []NearMiss, rejected int) {
+	sort.SliceStable(near, func(i, j int) bool { return near[i].TotalCost < near[j].TotalCost })
+	for _, nm := range near {
+		if len(res.NearMisses) >= maxNearMisses+rejected || (len(res.Designs) > 0 && nm.TotalCost >= res.Designs[0].TotalCost) {
+			break
+		}
+		res.NearMisses = append(res.NearMisses, nm)
+	}
+}
+
+// rankMerged ranks the designs of exact sub-searches by cost: each is
 // confirmed by verify (nil: taken as it is); one the exact budget fails
-// becomes a near miss and the next takes its rank. The reasons are rebuilt
-// on the merged ranking. It returns the number of designs rejected.
-func rankMerged(p *Problem, res *Result, all []subDesign, top int, verify verifier) int {
+// becomes a near miss and the next takes its rank. reasons rebuilds the
+// reasons on the merged ranking. It returns the number of rejected designs
+// listed among the near misses.
+func rankMerged(res *Result, all []subDesign, top int, verify verifier, reasons func(d *Design, above []Design) []string) int {
+	sort.SliceStable(all, func(i, j int) bool { return all[i].d.TotalCost < all[j].d.TotalCost })
 	rejected := 0
 	for _, c := range all {
 		if len(res.Designs) >= top {
@@ -447,7 +459,7 @@ func rankMerged(p *Problem, res *Result, all []subDesign, top int, verify verifi
 			}
 		}
 		c.d.Rank = len(res.Designs) + 1
-		c.d.Reasons = mergedReasons(p, &c.d, res.Designs)
+		c.d.Reasons = reasons(&c.d, res.Designs)
 		if unverified != nil {
 			c.d.Reasons = append(c.d.Reasons, "not confirmed by the exact budget: "+unverified.Error())
 		}

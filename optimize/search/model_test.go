@@ -164,9 +164,14 @@ func TestBoundIsLowerBound(t *testing.T) {
 		var m, lb metrics
 		s.eval(&g, k0, rp, a, &m)
 		s.bound(&g, a, &lb)
-		if lb.gainErr > m.gainErr || lb.totalErr > m.totalErr || lb.drift > m.drift || lb.cmrrDB < m.cmrrDB ||
-			lb.offset > m.offset || lb.offDrift > m.offDrift || lb.noise > m.noise || lb.noiseRMS > m.noiseRMS {
+		if !below(&lb, &m) {
 			t.Fatalf("case %d (%s, G %.3f, k0 %.5f): bound %+v is not below design %+v", i, c, gain, k0, lb, m)
 		}
 	}
+}
+
+// below reports whether bound lb is nowhere worse than design m.
+func below(lb, m *metrics) bool {
+	return lb.gainErr <= m.gainErr && lb.totalErr <= m.totalErr && lb.drift <= m.drift && lb.cmrrDB >= m.cmrrDB &&
+		lb.offset <= m.offset && lb.offDrift <= m.offDrift && lb.noise <= m.noise && lb.noiseRMS <= m.noiseRMS
 }

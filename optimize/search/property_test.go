@@ -2,6 +2,7 @@ package search
 
 import (
 	"context"
+	"fmt"
 	"math/rand/v2"
 	"reflect"
 	"testing"
@@ -49,16 +50,7 @@ func TestBranchAndBoundMatchesExhaustive(t *testing.T) {
 		if len(want) > 0 {
 			feasible++
 		}
-		if len(got) != len(want) {
-			t.Errorf("seed %d: search found %d classes, exhaustive %d", seed, len(got), len(want))
-			continue
-		}
-		for i := range want {
-			if got[i].id != want[i].id || got[i].cost != want[i].cost || got[i].opt != want[i].opt {
-				t.Errorf("seed %d rank %d: search %d/%.6f/opt %d, exhaustive %d/%.6f/opt %d",
-					seed, i+1, got[i].id, got[i].cost, got[i].opt, want[i].id, want[i].cost, want[i].opt)
-			}
-		}
+		sameTop(t, fmt.Sprintf("seed %d", seed), got, want)
 	}
 	// The property is only worth something if many cases have answers.
 	if feasible < len(seeds)/4 {
@@ -92,6 +84,22 @@ func TestExhaustiveAPIMatchesSolve(t *testing.T) {
 			if g.Family != w.Family || g.TotalCost != w.TotalCost || !reflect.DeepEqual(g.Parts, w.Parts) {
 				t.Errorf("seed %d rank %d: %s %.4f %v, exhaustive %s %.4f %v", seed, i+1, g.Family, g.TotalCost, g.Parts, w.Family, w.TotalCost, w.Parts)
 			}
+		}
+	}
+}
+
+// sameTop reports where the search's top classes differ from the
+// enumeration's: count, class, cost or value option.
+func sameTop(t *testing.T, label string, got, want []classBest) {
+	t.Helper()
+	if len(got) != len(want) {
+		t.Errorf("%s: search found %d classes, exhaustive %d", label, len(got), len(want))
+		return
+	}
+	for i := range want {
+		if got[i].id != want[i].id || got[i].cost != want[i].cost || got[i].opt != want[i].opt {
+			t.Errorf("%s rank %d: search %d/%.6f/opt %d, exhaustive %d/%.6f/opt %d",
+				label, i+1, got[i].id, got[i].cost, got[i].opt, want[i].id, want[i].cost, want[i].opt)
 		}
 	}
 }
