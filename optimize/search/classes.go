@@ -278,24 +278,22 @@ func (s *space) networkConfigs(parts *Parts) {
 		}
 		added := false
 		for _, pr := range networkPairs(n) {
-			{
-				a, b := pr[0], pr[1]
-				k0, rp := s.effective(a, b)
-				if math.Abs(k0/s.k-1) > s.w || !s.zinOK(a, b) ||
-					!s.ratingOK(n.PowerW, n.MaxVoltageV, a, s.vG) || !s.ratingOK(n.PowerW, n.MaxVoltageV, b, s.vF) {
-					continue
-				}
-				if !added {
-					s.nets = append(s.nets, n)
-					added = true
-				}
-				c := config{fam: NetworkDifference, ga: -1, gb: -1, net: len(s.nets) - 1, na: a, nb: b,
-					g: networkGrades(n.RatioTolerance, n.TCRTracking, s.dT)}
-				c.costLB = ext + s.assembly(1, 1)
-				c.opts = []option{{k0: k0, rp: rp, rg: -1, rf: -1, rf2: -1, cost: c.costLB, short: short}}
-				c.built = true
-				s.cfgs = append(s.cfgs, c)
+			a, b := pr[0], pr[1]
+			k0, rp := s.effective(a, b)
+			if math.Abs(k0/s.k-1) > s.w || !s.zinOK(a, b) ||
+				!s.ratingOK(n.PowerW, n.MaxVoltageV, a, s.vG) || !s.ratingOK(n.PowerW, n.MaxVoltageV, b, s.vF) {
+				continue
 			}
+			if !added {
+				s.nets = append(s.nets, n)
+				added = true
+			}
+			c := config{fam: NetworkDifference, ga: -1, gb: -1, net: len(s.nets) - 1, na: a, nb: b,
+				g: networkGrades(n.RatioTolerance, n.TCRTracking, s.dT)}
+			c.costLB = ext + s.assembly(1, 1)
+			c.opts = []option{{k0: k0, rp: rp, rg: -1, rf: -1, rf2: -1, cost: c.costLB, short: short}}
+			c.built = true
+			s.cfgs = append(s.cfgs, c)
 		}
 	}
 }
