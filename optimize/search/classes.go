@@ -312,7 +312,17 @@ func (s *space) options(c *config) []option {
 	c.built = true
 	if s.p.Circuit == LevelShift {
 		s.levelShiftOptions(c)
-		sort.SliceStable(c.opts, func(i, j int) bool { return c.opts[i].cost < c.opts[j].cost })
+		// Among equal costs, R1 nearest the middle of the resistor window
+		// first: the input network neither loads the source and the
+		// reference heavily nor adds much bias-current error.
+		gi, mid := s.groups[c.ga], math.Sqrt(s.p.RMinOhm*s.p.RMaxOhm)
+		off := func(o *option) float64 { return math.Abs(math.Log(gi.values[o.rg] / mid)) }
+		sort.SliceStable(c.opts, func(i, j int) bool {
+			if c.opts[i].cost != c.opts[j].cost {
+				return c.opts[i].cost < c.opts[j].cost
+			}
+			return off(&c.opts[i]) < off(&c.opts[j])
+		})
 		return c.opts
 	}
 	ga, gb := s.groups[c.ga], s.groups[c.gb]
