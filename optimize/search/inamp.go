@@ -132,6 +132,7 @@ func (s *space) inampConfigs(parts *Parts, fams map[Family]bool) {
 			}
 		}
 	}
+	s.cfgs = make([]config, 0, len(s.groups)*len(s.groups)*len(s.st2))
 	for si := range s.st2 {
 		st := &s.st2[si]
 		for a, ga := range s.groups {
