@@ -63,7 +63,7 @@ func describe(desc string, decimalComma bool) fromDescription {
 		}
 		t := tok
 		if decimalComma && strings.IndexByte(t, ',') >= 0 {
-			t = withDecimalComma(t)
+			t = units.FromDecimalComma(t)
 		}
 		last := t[len(t)-1] | 0x20
 		hasTCR, hasTol, hasPow, hasRes := d.tcrWords != "", d.tolWords != "", d.powWords != "", d.resWords != ""

@@ -161,17 +161,3 @@ func parseHeadroom(s, hint string, decimalComma bool) (neg, pos float64, err err
 	}
 	return vals[0], vals[1], nil
 }
-
-// parseKPerW reads a thermal resistance "250 K/W" or "250 °C/W" (a kelvin
-// and a degree Celsius are the same step) as K/W.
-func parseKPerW(s string) (float64, error) {
-	t := strings.TrimSpace(s)
-	low := strings.ToLower(t)
-	for _, suf := range []string{"k/w", "°c/w", "c/w", "ºc/w"} {
-		if strings.HasSuffix(low, suf) {
-			t = strings.TrimSpace(t[:len(low)-len(suf)])
-			break
-		}
-	}
-	return parseNumber(t, false)
-}

@@ -116,6 +116,14 @@ func (r *rowReader) raw(f Field) (string, bool) {
 	return v, ok && !isBlank(v)
 }
 
+// count is the count reader for this file's notation.
+func (r *rowReader) count() quantity {
+	if r.decimalComma {
+		return parseCountDecimalComma
+	}
+	return parseCount
+}
+
 func (r *rowReader) unitHint(f Field) string {
 	if i, ok := r.cols[f]; ok {
 		return r.info[i].unit
@@ -139,6 +147,9 @@ func (r *rowReader) value(f Field, q quantity) (v float64, ok, typ bool, err err
 	v, typ, ignored, err := readValueHint(s, hint, r.decimalComma, q)
 	if errors.Is(err, units.ErrBlank) {
 		return 0, false, false, nil
+	}
+	if err != nil && ignored {
+		return 0, false, false, r.skip(f, s, fmt.Errorf("%w: %s (the header's unit %q is not a unit of this figure)", ErrBadValue, unitErr(err), hint))
 	}
 	if err != nil {
 		return 0, false, false, r.skip(f, s, fmt.Errorf("%w: %s", ErrBadValue, unitErr(err)))
@@ -255,12 +266,12 @@ func (r *rowReader) checkWidth() error {
 // offer reads stock, minimum order and prices.
 func (r *rowReader) offer() (catalog.Offer, error) {
 	o := catalog.Offer{Stock: -1}
-	if v, ok, _, err := r.value(FieldStock, parseCount); err != nil {
+	if v, ok, _, err := r.value(FieldStock, r.count()); err != nil {
 		return o, err
 	} else if ok {
 		o.Stock = int(v)
 	}
-	if v, ok, _, err := r.value(FieldMinOrder, parseCount); err != nil {
+	if v, ok, _, err := r.value(FieldMinOrder, r.count()); err != nil {
 		return o, err
 	} else if ok {
 		o.MinOrder = int(v)
@@ -375,7 +386,7 @@ func (r *rowReader) grade() (g catalog.ResistorGrade, ohm float64, err error) {
 	if g.MaxVoltageV, _, _, err = r.value(FieldMaxVoltage, units.ParseVoltage); err != nil {
 		return g, 0, err
 	}
-	if g.ThermalResistance, _, _, err = r.value(FieldThermalRes, parseKPerW); err != nil {
+	if g.ThermalResistance, _, _, err = r.value(FieldThermalRes, units.ParseThermalResistance); err != nil {
 		return g, 0, err
 	}
 	if g.LoadLife, _, _, err = r.value(FieldLoadLife, parseTolerance); err != nil {
@@ -479,7 +490,7 @@ func (r *rowReader) network(part string, o catalog.Offer) (*catalog.Network, err
 // with the element count column to repeat a single value.
 func (r *rowReader) networkValues(s string) ([]float64, error) {
 	if r.decimalComma {
-		s = withDecimalComma(s)
+		s = units.FromDecimalComma(s)
 	}
 	var vals []float64
 	for _, group := range strings.FieldsFunc(s, func(c rune) bool { return c == '/' || c == '+' || c == ';' || c == ',' || c == '|' }) {
@@ -504,7 +515,7 @@ func (r *rowReader) networkValues(s string) ([]float64, error) {
 			vals = append(vals, v)
 		}
 	}
-	nv, ok, _, err := r.value(FieldElements, parseElements)
+	nv, ok, _, err := r.value(FieldElements, r.count())
 	if err != nil {
 		return nil, errSkip
 	}
@@ -570,13 +581,13 @@ func (r *rowReader) amplifier(part string, o catalog.Offer) (*catalog.Amplifier,
 		{FieldSupplyMin, parseSupply, &a.SupplyMinV, "supply_min_v", "minimum supply", true},
 		{FieldSupplyMax, parseSupply, &a.SupplyMaxV, "supply_max_v", "maximum supply", true},
 		{FieldVos, units.ParseVoltage, &a.VosV, "vos_v", "input offset voltage", true},
-		{FieldVosDrift, parseDrift, &a.VosDriftVK, "vos_drift_v_per_k", "offset drift", false},
+		{FieldVosDrift, units.ParseDrift, &a.VosDriftVK, "vos_drift_v_per_k", "offset drift", false},
 		{FieldIb, units.ParseCurrent, &a.IbA, "ib_a", "input bias current", false},
 		{FieldIos, units.ParseCurrent, &a.IosA, "ios_a", "input offset current", false},
-		{FieldAol, parseGain, &a.AolVV, "aol_v_per_v", "open-loop gain", true},
+		{FieldAol, units.ParseOpenLoopGain, &a.AolVV, "aol_v_per_v", "open-loop gain", true},
 		{FieldCMRR, units.ParseDB, &a.CMRRdB, "cmrr_db", "CMRR", true},
 		{FieldGBW, units.ParseFrequency, &a.GBWHz, "gbw_hz", "gain-bandwidth product", true},
-		{FieldSlew, parseSlew, &a.SlewVs, "slew_v_per_s", "slew rate", true},
+		{FieldSlew, units.ParseSlewRate, &a.SlewVs, "slew_v_per_s", "slew rate", true},
 		{FieldNoiseV, units.ParseVoltageNoise, &a.NoiseVHz, "noise_v_per_rthz", "voltage noise density", false},
 		{FieldNoiseI, units.ParseCurrentNoise, &a.NoiseAHz, "noise_a_per_rthz", "current noise density", false},
 		{FieldIq, units.ParseCurrent, &a.IqA, "iq_a", "quiescent current", false},
@@ -609,7 +620,7 @@ func (r *rowReader) amplifier(part string, o catalog.Offer) (*catalog.Amplifier,
 	if a.SupplyMinV > a.SupplyMaxV {
 		return nil, r.skip(FieldSupplyMin, "", fmt.Errorf("%w: minimum supply %g V above maximum %g V", ErrBadValue, a.SupplyMinV, a.SupplyMaxV))
 	}
-	if v, ok, _, err := r.value(FieldChannels, parseCount); err != nil {
+	if v, ok, _, err := r.value(FieldChannels, r.count()); err != nil {
 		return nil, err
 	} else if ok {
 		if v < 1 || v > 16 {
@@ -661,11 +672,10 @@ func (r *rowReader) matched(a *catalog.Amplifier) error {
 		return nil
 	}
 	if r.decimalComma {
-		s = withDecimalComma(s)
+		s = units.FromDecimalComma(s)
 	}
 	for _, g := range strings.FieldsFunc(s, func(c rune) bool { return c == ',' || c == '/' || c == ';' || c == ' ' || c == '|' }) {
-		g = strings.TrimSuffix(strings.TrimSuffix(strings.ToLower(g), "v/v"), "x")
-		v, err := parseNumber(g, false)
+		v, err := units.ParseGain(g)
 		if err != nil || !(v > 0) {
 			return r.skip(FieldGains, s, fmt.Errorf("%w: gain %q is not a positive number (V/V)", ErrBadValue, g))
 		}

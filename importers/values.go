@@ -49,18 +49,11 @@ func hasTyp(s string) bool {
 
 var (
 	bareNumberRE = regexp.MustCompile(`^[±+-]?\s*\d+(?:[.,]\d+)?(?:[eE][+-]?\d+)?$`)
-	digitCommaRE = regexp.MustCompile(`(\d),(\d)`)
 	typMarkRE    = regexp.MustCompile(`(?i)\s*\(?\b(typ|typical)\b\.?\)?\s*`)
 )
 
 // quantity parses one kind of figure into SI units.
 type quantity func(string) (float64, error)
-
-// withDecimalComma rewrites "4,99k" to "4.99k" for files that write a
-// decimal comma; the shared parser reads the point form.
-func withDecimalComma(s string) string {
-	return digitCommaRE.ReplaceAllString(s, "$1.$2")
-}
 
 // readValue prepares a cell for the shared parser: decimal comma, a unit
 // from the header for a bare number ("0.5" under "Vos (mV)"), and a "typ"
@@ -71,7 +64,8 @@ func readValue(raw, unitHint string, decimalComma bool, q quantity) (v float64, 
 }
 
 // readValueHint is readValue that also says when the header's unit could
-// not be read with the number and the bare number was taken instead.
+// not be read with the number and the bare number was tried instead (and,
+// with an error, refused: a drift needs its unit).
 func readValueHint(raw, unitHint string, decimalComma bool, q quantity) (v float64, typical, hintIgnored bool, err error) {
 	s := cleanCell(raw)
 	if hasTyp(s) && typMarkRE.MatchString(s) {
@@ -79,7 +73,7 @@ func readValueHint(raw, unitHint string, decimalComma bool, q quantity) (v float
 		s = cleanCell(typMarkRE.ReplaceAllString(s, " "))
 	}
 	if decimalComma && strings.IndexByte(s, ',') >= 0 {
-		s = withDecimalComma(s)
+		s = units.FromDecimalComma(s)
 	}
 	if unitHint != "" && bareNumberRE.MatchString(s) {
 		if v, err = q(s + " " + unitHint); err == nil {
@@ -89,7 +83,7 @@ func readValueHint(raw, unitHint string, decimalComma bool, q quantity) (v float
 	}
 	v, err = q(s)
 	if err != nil {
-		return 0, typical, false, err
+		return 0, typical, hintIgnored, err
 	}
 	return finite(raw, v, typical, hintIgnored)
 }
@@ -103,75 +97,14 @@ func finite(raw string, v float64, typical, hintIgnored bool) (float64, bool, bo
 
 // Adapters for figures the shared parser reads in another form.
 
-// parseSupply reads a supply span; "±15 V" is a 30 V span.
+// parseSupply reads a supply as the span between the rails: a split supply
+// "±15 V" is -15 V to +15 V (units.ParseSymmetric), a 30 V span; a single
+// figure "36 V" is read by units.ParseVoltage.
 func parseSupply(s string) (float64, error) {
-	t := strings.TrimSpace(s)
-	if strings.HasPrefix(t, "±") || strings.HasPrefix(t, "+/-") {
-		t = strings.TrimPrefix(strings.TrimPrefix(t, "±"), "+/-")
-		v, err := units.ParseVoltage(t)
-		return 2 * v, err
+	if lo, hi, err := units.ParseSymmetric(s, "V"); err == nil {
+		return hi - lo, nil
 	}
-	return units.ParseVoltage(t)
-}
-
-var perKelvinRE = regexp.MustCompile(`(?i)\s*/\s*(°\s*c|ºc|deg\s*c|k|c)\s*$`)
-
-// parseDrift reads an offset drift "2 µV/°C" as V/K.
-func parseDrift(s string) (float64, error) {
-	t := perKelvinRE.ReplaceAllString(strings.TrimSpace(s), "")
-	if t == strings.TrimSpace(s) && !bareNumberRE.MatchString(t) {
-		return 0, fmt.Errorf("%w: offset drift %q needs a per-kelvin unit such as µV/°C", ErrBadValue, s)
-	}
-	return units.ParseVoltage(t)
-}
-
-var perTimeRE = regexp.MustCompile(`(?i)\s*/\s*(µs|us|μs|ms|ns|s)\s*$`)
-
-// parseSlew reads a slew rate "0.5 V/µs" as V/s.
-func parseSlew(s string) (float64, error) {
-	t := strings.TrimSpace(s)
-	m := perTimeRE.FindStringSubmatch(t)
-	if m == nil {
-		return 0, fmt.Errorf("%w: slew rate %q needs a unit such as V/µs", ErrBadValue, s)
-	}
-	v, err := units.ParseVoltage(strings.TrimSpace(t[:len(t)-len(m[0])]))
-	if err != nil {
-		return 0, err
-	}
-	per := map[string]float64{"µs": 1e-6, "us": 1e-6, "μs": 1e-6, "ms": 1e-3, "ns": 1e-9, "s": 1}[strings.ToLower(m[1])]
-	return v / per, nil
-}
-
-var (
-	vPerMVRE = regexp.MustCompile(`(?i)^\s*([0-9.eE+-]+)\s*v\s*/\s*(m|µ|u|μ)?v\s*$`)
-)
-
-// parseGain reads an open-loop gain in dB ("120 dB") or V/V, V/mV, V/µV,
-// and returns V/V. A dB figure is 10^(dB/20) (definition of the decibel
-// for a voltage ratio).
-func parseGain(s string) (float64, error) {
-	t := strings.TrimSpace(s)
-	if strings.Contains(strings.ToLower(t), "db") {
-		db, err := units.ParseDB(t)
-		if err != nil {
-			return 0, err
-		}
-		return math.Pow(10, db/20), nil
-	}
-	if m := vPerMVRE.FindStringSubmatch(t); m != nil {
-		var v float64
-		if _, err := fmt.Sscan(m[1], &v); err != nil {
-			return 0, fmt.Errorf("%w: open-loop gain %q", ErrBadValue, s)
-		}
-		switch strings.ToLower(m[2]) {
-		case "m":
-			v *= 1e3
-		case "µ", "u", "μ":
-			v *= 1e6
-		}
-		return v, nil
-	}
-	return 0, fmt.Errorf("%w: open-loop gain %q needs a unit: dB, V/V or V/mV", ErrBadValue, s)
+	return units.ParseVoltage(s)
 }
 
 // toleranceLetters is the tolerance code letter of IEC 60062 (from
@@ -189,30 +122,38 @@ func parseTolerance(s string) (float64, error) {
 	return units.ParsePercent(s)
 }
 
-// parseCount reads a count with thousands separators ("12,345",
-// "12 345", and the decimal-comma locales' "12.345"), a trailing "+" or
-// "pcs" dropped.
+// parseCount reads a count as units.ParseCount does ("12,345", "12 345",
+// "12'345", "1.234.567"), with the trailing "+" or "pcs" that stock
+// columns add ("1000+", "250 pcs") dropped.
 func parseCount(s string) (float64, error) {
-	t := strings.TrimSpace(s)
-	if t != "" && (t[len(t)-1] == '+' || t[len(t)-1] > '9' || t[len(t)-1] == '\'') {
-		t = strings.TrimSpace(strings.TrimSuffix(strings.TrimSuffix(strings.TrimSpace(strings.TrimSuffix(strings.ToLower(t), "pcs")), "+"), "'"))
-	}
-	if strings.IndexByte(t, '.') >= 0 && dotThousandsRE.MatchString(t) {
-		t = strings.ReplaceAll(t, ".", "")
-	}
-	if strings.ContainsAny(t, "\u00a0\u202f'") {
-		t = countSpaces.Replace(t)
+	n, err := units.ParseCount(trimCountMark(s))
+	return float64(n), err
+}
+
+// parseCountDecimalComma is parseCount for files that write a decimal
+// comma, where a single dot is a thousands separator: "12.345" is 12345.
+// readValue has already rewritten a cell with a comma, so only a cell
+// without one is rewritten here (twice would read "1,234" as 1234).
+func parseCountDecimalComma(s string) (float64, error) {
+	t := trimCountMark(s)
+	if strings.IndexByte(t, ',') < 0 {
+		t = units.FromDecimalComma(t)
 	}
 	n, err := units.ParseCount(t)
 	return float64(n), err
 }
 
-var countSpaces = strings.NewReplacer("\u00a0", " ", "\u202f", " ", "'", ",")
-
-var dotThousandsRE = regexp.MustCompile(`^\d{1,3}(\.\d{3})+$`)
-
-// parseElements reads a network's element count.
-func parseElements(s string) (float64, error) { return parseCount(s) }
+// trimCountMark drops a trailing "+" or "pcs" (any case) from a count.
+func trimCountMark(s string) string {
+	t := strings.TrimSpace(s)
+	if t == "" || t[len(t)-1] != '+' && t[len(t)-1] <= '9' {
+		return t
+	}
+	if n := len(t) - len("pcs"); n >= 0 && strings.EqualFold(t[n:], "pcs") {
+		t = strings.TrimSpace(t[:n])
+	}
+	return strings.TrimSpace(strings.TrimSuffix(t, "+"))
+}
 
 // railToRail reads a rail-to-rail column: which of input and output reach
 // the rails.
