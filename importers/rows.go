@@ -116,14 +116,6 @@ func (r *rowReader) raw(f Field) (string, bool) {
 	return v, ok && !isBlank(v)
 }
 
-// count is the count reader for this file's notation.
-func (r *rowReader) count() quantity {
-	if r.decimalComma {
-		return parseCountDecimalComma
-	}
-	return parseCount
-}
-
 func (r *rowReader) unitHint(f Field) string {
 	if i, ok := r.cols[f]; ok {
 		return r.info[i].unit
@@ -134,6 +126,20 @@ func (r *rowReader) unitHint(f Field) string {
 // value reads a figure. ok is false when it is blank; a bad value skips the
 // row. typ is set when the header or cell marks it typical.
 func (r *rowReader) value(f Field, q quantity) (v float64, ok, typ bool, err error) {
+	return r.valueIn(f, q, r.decimalComma)
+}
+
+// count reads a count as value does. In a file that writes a decimal
+// comma, parseCountDecimalComma rewrites the cell itself, once: rewritten
+// twice, "1,234" (1.234) would read as 1234.
+func (r *rowReader) count(f Field) (v float64, ok, typ bool, err error) {
+	if r.decimalComma {
+		return r.valueIn(f, parseCountDecimalComma, false)
+	}
+	return r.valueIn(f, parseCount, false)
+}
+
+func (r *rowReader) valueIn(f Field, q quantity, decimalComma bool) (v float64, ok, typ bool, err error) {
 	s, present := r.raw(f)
 	if !present {
 		return 0, false, false, nil
@@ -144,7 +150,7 @@ func (r *rowReader) value(f Field, q quantity) (v float64, ok, typ bool, err err
 		}
 	}
 	hint := r.unitHint(f)
-	v, typ, ignored, err := readValueHint(s, hint, r.decimalComma, q)
+	v, typ, ignored, err := readValueHint(s, hint, decimalComma, q)
 	if errors.Is(err, units.ErrBlank) {
 		return 0, false, false, nil
 	}
@@ -266,12 +272,12 @@ func (r *rowReader) checkWidth() error {
 // offer reads stock, minimum order and prices.
 func (r *rowReader) offer() (catalog.Offer, error) {
 	o := catalog.Offer{Stock: -1}
-	if v, ok, _, err := r.value(FieldStock, r.count()); err != nil {
+	if v, ok, _, err := r.count(FieldStock); err != nil {
 		return o, err
 	} else if ok {
 		o.Stock = int(v)
 	}
-	if v, ok, _, err := r.value(FieldMinOrder, r.count()); err != nil {
+	if v, ok, _, err := r.count(FieldMinOrder); err != nil {
 		return o, err
 	} else if ok {
 		o.MinOrder = int(v)
@@ -515,7 +521,7 @@ func (r *rowReader) networkValues(s string) ([]float64, error) {
 			vals = append(vals, v)
 		}
 	}
-	nv, ok, _, err := r.value(FieldElements, r.count())
+	nv, ok, _, err := r.count(FieldElements)
 	if err != nil {
 		return nil, errSkip
 	}
@@ -620,7 +626,7 @@ func (r *rowReader) amplifier(part string, o catalog.Offer) (*catalog.Amplifier,
 	if a.SupplyMinV > a.SupplyMaxV {
 		return nil, r.skip(FieldSupplyMin, "", fmt.Errorf("%w: minimum supply %g V above maximum %g V", ErrBadValue, a.SupplyMinV, a.SupplyMaxV))
 	}
-	if v, ok, _, err := r.value(FieldChannels, r.count()); err != nil {
+	if v, ok, _, err := r.count(FieldChannels); err != nil {
 		return nil, err
 	} else if ok {
 		if v < 1 || v > 16 {

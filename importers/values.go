@@ -131,15 +131,11 @@ func parseCount(s string) (float64, error) {
 }
 
 // parseCountDecimalComma is parseCount for files that write a decimal
-// comma, where a single dot is a thousands separator: "12.345" is 12345.
-// readValue has already rewritten a cell with a comma, so only a cell
-// without one is rewritten here (twice would read "1,234" as 1234).
+// comma, where a single dot is a thousands separator ("12.345" is 12345)
+// and a comma a decimal one ("1,5" is refused). It is given the cell as
+// written, not already rewritten by readValue.
 func parseCountDecimalComma(s string) (float64, error) {
-	t := trimCountMark(s)
-	if strings.IndexByte(t, ',') < 0 {
-		t = units.FromDecimalComma(t)
-	}
-	n, err := units.ParseCount(t)
+	n, err := units.ParseCount(units.FromDecimalComma(trimCountMark(s)))
 	return float64(n), err
 }
 
