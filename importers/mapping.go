@@ -8,13 +8,13 @@ import (
 	"regexp"
 	"slices"
 	"sort"
-	"strconv"
 	"strings"
 	"unicode"
 
 	"go.yaml.in/yaml/v3"
 
 	"plumb/catalog"
+	"plumb/catalog/units"
 )
 
 // Mapping tells which column holds which catalog field. It is guessed from
@@ -196,10 +196,15 @@ func breakQty(low string, toks []string) int {
 	return qtyNumber(m[1], m[2])
 }
 
+// qtyNumber reads the piece count of a price break ("1,000", "1 000",
+// "1.000": whole pieces, so a single dot splits thousands here), times
+// 1000 with the "k" of "1k"; 0 when num is no count.
 func qtyNumber(num, k string) int {
-	num = strings.TrimSpace(num)
-	clean := strings.NewReplacer(",", "", ".", "", "'", "", " ", "").Replace(num)
-	n, err := strconv.Atoi(clean)
+	n, err := units.ParseCount(num)
+	if err != nil {
+		// A price break is whole pieces: "1.000" has a dot for thousands.
+		n, err = units.ParseCount(units.FromDecimalComma(num))
+	}
 	if err != nil || n <= 0 {
 		return 0
 	}

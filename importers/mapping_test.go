@@ -117,6 +117,11 @@ func TestBreakColumns(t *testing.T) {
 		{"10+ (USD)", 10, "USD"},
 		{"Unit Price (USD)", 0, "USD"}, // a single price, not a break
 		{"Power (1/8W)", 0, ""},
+		// Thousands separators (common practice); a break is whole
+		// pieces, so one dot splits thousands.
+		{"Preis ab 1.000", 1000, ""},
+		{"Price @ 10 000", 10000, ""},
+		{"Price @ 2.5k", 0, ""}, // not whole pieces written in digits: no break
 	}
 	for _, tc := range tests {
 		t.Run(tc.header, func(t *testing.T) {
