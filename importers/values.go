@@ -95,7 +95,8 @@ func finite(raw string, v float64, typical, hintIgnored bool) (float64, bool, bo
 	return v, typical, hintIgnored, nil
 }
 
-// Adapters for figures the shared parser reads in another form.
+// What is left to importers: a supply read as a span, the tolerance
+// letters, and the marks stock columns add to a count.
 
 // parseSupply reads a supply as the span between the rails: a split supply
 // "±15 V" is -15 V to +15 V (units.ParseSymmetric), a 30 V span; a single
