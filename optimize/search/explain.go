@@ -2,6 +2,7 @@ package search
 
 import (
 	"fmt"
+	"strings"
 
 	"plumb/optimize/budget"
 	"plumb/optimize/spec"
@@ -24,10 +25,10 @@ func (r *Result) ExplainN(n int) (*budget.Result, error) {
 // budgetVerifier confirms designs with the exact budget of spec s: the
 // search ranks on its screening figures, the budget has the last word.
 func budgetVerifier(s *spec.Spec) verifier {
-	return func(sd *spec.Design) ([]Failure, error) {
+	return func(sd *spec.Design) (*budget.Result, []Failure, error) {
 		br, err := budget.Evaluate(s, sd)
 		if err != nil {
-			return nil, err
+			return nil, nil, err
 		}
 		var out []Failure
 		for _, l := range br.Limits {
@@ -52,6 +53,60 @@ func budgetVerifier(s *spec.Spec) verifier {
 			out = append(out, Failure{Name: "yield", Value: mc.Yield, Limit: mc.YieldTarget, By: mc.YieldTarget - mc.Yield,
 				Text: fmt.Sprintf("Monte Carlo yield %.4g against %.4g", mc.Yield, mc.YieldTarget)})
 		}
-		return out, nil
+		return br, out, nil
 	}
+}
+
+// adopt replaces a design's screening figures by the exact budget's: its
+// metrics, every limit the budget checks, the binding limit and the reason
+// lines that quote them. What the tool prints and the JSON it writes for a
+// ranked design are then the figures `plumb check` gives for the same
+// parts; the screening figures only ever order and prune the search.
+func adopt(d *Design, br *budget.Result) {
+	d.Metrics = metricsOf(br.Metrics)
+	d.Limits = d.Limits[:0:0]
+	for _, l := range br.Limits {
+		d.Limits = append(d.Limits, Limit{Name: l.Name, Value: l.Value, Limit: l.Limit, Margin: l.Margin, Pass: l.Pass, Unit: l.Unit})
+	}
+	d.Binding = br.Binding
+	d.budget = br
+}
+
+// metricsOf is the budget's metrics in the search's result contract.
+func metricsOf(m budget.Metrics) Metrics {
+	return Metrics{Gain: m.Gain, GainError: m.GainError, GainErrorInitial: m.GainErrorInitial, CMRRdB: m.CMRRdB,
+		DriftPPMPerK: m.DriftPPMPerK, OutputOffsetV: m.OutputOffsetV, OffsetDriftVPerK: m.OffsetDriftVPerK,
+		NoiseDensity: m.NoiseDensity, NoiseRMSV: m.NoiseRMSV, BandwidthHz: m.BandwidthHz}
+}
+
+// budgetReasons rewrites the reason lines that quote figures (the limit
+// summary and the binding limit with its dominant contributor) from the
+// exact budget adopted by d; the other lines are kept.
+func budgetReasons(d *Design) {
+	br := d.budget
+	if br == nil {
+		return
+	}
+	var bind string
+	for _, l := range br.Limits {
+		if l.Name != br.Binding {
+			continue
+		}
+		bind = fmt.Sprintf("binding limit: %s at margin %.2fx", l.Name, l.Margin)
+		if len(l.Contributors) > 0 {
+			c := l.Contributors[0]
+			bind += fmt.Sprintf(", dominated by %s (%.0f %% of it)", c.Name, 100*c.Share)
+		}
+	}
+	out := []string{limitSummary(d.Limits)}
+	if bind != "" {
+		out = append(out, bind)
+	}
+	for _, r := range d.Reasons {
+		if strings.HasPrefix(r, "meets every limit") || strings.HasPrefix(r, "the spec sets no error limit") || strings.HasPrefix(r, "binding limit:") {
+			continue
+		}
+		out = append(out, r)
+	}
+	d.Reasons = out
 }

@@ -443,8 +443,11 @@ func rankMerged(res *Result, all []subDesign, top int, verify verifier, reasons 
 		}
 		var unverified error
 		if verify != nil {
-			fails, err := verify(c.sd)
+			br, fails, err := verify(c.sd)
 			unverified = err
+			if err == nil {
+				adopt(&c.d, br)
+			}
 			if err == nil && len(fails) > 0 {
 				nm := NearMiss{Design: c.d, Fails: fails}
 				var names []string
@@ -461,6 +464,7 @@ func rankMerged(res *Result, all []subDesign, top int, verify verifier, reasons 
 		}
 		c.d.Rank = len(res.Designs) + 1
 		c.d.Reasons = reasons(&c.d, res.Designs)
+		budgetReasons(&c.d)
 		if unverified != nil {
 			c.d.Reasons = append(c.d.Reasons, "not confirmed by the exact budget: "+unverified.Error())
 		}

@@ -6,6 +6,7 @@ import (
 	"sort"
 
 	"plumb/catalog"
+	"plumb/optimize/budget"
 	"plumb/optimize/cost"
 	"plumb/optimize/spec"
 )
@@ -72,6 +73,10 @@ type Design struct {
 	// ValueVariants counts the value choices of this class that pass.
 	ValueVariants int      `json:"value_variants"`
 	ShortStock    []string `json:"short_stock,omitempty"`
+
+	// budget is the exact budget adopted for the design (nil: screening
+	// figures only, as in SolveProblem and Exhaustive).
+	budget *budget.Result
 }
 
 // Part is one position of a design.
@@ -117,6 +122,9 @@ type Limit struct {
 	Limit  float64 `json:"limit"`
 	Margin float64 `json:"margin"`
 	Pass   bool    `json:"pass"`
+	// Unit of Value and Limit where the exact budget gives one ("", "V",
+	// "V/K", "Hz", "dB", "ppm/K", "V/rtHz", "ohm").
+	Unit string `json:"unit,omitempty"`
 }
 
 // NearMiss is a design cheaper than the first rank that fails, with what
@@ -183,27 +191,27 @@ const (
 func (s *space) limitSet(m *metrics) []Limit {
 	l := &s.p.Limits
 	var out []Limit
-	max := func(name string, v, lim float64) {
+	max := func(name string, v, lim float64, unit string) {
 		if lim > 0 {
 			mg := math.Inf(1)
 			if v > 0 {
 				mg = lim / v
 			}
-			out = append(out, Limit{name, v, lim, mg, v <= lim})
+			out = append(out, Limit{Name: name, Value: v, Limit: lim, Margin: mg, Pass: v <= lim, Unit: unit})
 		}
 	}
-	max(limGain, m.totalErr, l.TotalGainError)
-	max(limGainInitial, m.gainErr, l.GainError)
+	max(limGain, m.totalErr, l.TotalGainError, "")
+	max(limGainInitial, m.gainErr, l.GainError, "")
 	if l.CMRRdB > 0 {
-		out = append(out, Limit{limCMRR, m.cmrrDB, l.CMRRdB, math.Pow(10, (m.cmrrDB-l.CMRRdB)/20), m.cmrrDB >= l.CMRRdB})
+		out = append(out, Limit{Name: limCMRR, Value: m.cmrrDB, Limit: l.CMRRdB, Margin: math.Pow(10, (m.cmrrDB-l.CMRRdB)/20), Pass: m.cmrrDB >= l.CMRRdB, Unit: "dB"})
 	}
-	max(limDrift, m.drift, l.DriftPPM)
-	max(limOffset, m.offset, l.OffsetV)
-	max(limOffDrift, m.offDrift, l.OffsetDriftVK)
-	max(limNoise, m.noise, l.NoiseDensity)
-	max(limNoiseRMS, m.noiseRMS, l.NoiseRMS)
+	max(limDrift, m.drift, l.DriftPPM, "ppm/K")
+	max(limOffset, m.offset, l.OffsetV, "V")
+	max(limOffDrift, m.offDrift, l.OffsetDriftVK, "V/K")
+	max(limNoise, m.noise, l.NoiseDensity, "V/rtHz")
+	max(limNoiseRMS, m.noiseRMS, l.NoiseRMS, "V")
 	if s.p.BandwidthHz > 0 {
-		out = append(out, Limit{limBandwidth, m.bw, s.p.BandwidthHz, m.bw / s.p.BandwidthHz, m.bw >= s.p.BandwidthHz})
+		out = append(out, Limit{Name: limBandwidth, Value: m.bw, Limit: s.p.BandwidthHz, Margin: m.bw / s.p.BandwidthHz, Pass: m.bw >= s.p.BandwidthHz, Unit: "Hz"})
 	}
 	return out
 }

@@ -5,10 +5,13 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strings"
 
 	"plumb/catalog"
+	"plumb/catalog/units"
+	"plumb/optimize/budget"
 	"plumb/optimize/cost"
 	"plumb/optimize/spec"
 )
@@ -118,7 +121,7 @@ func Exhaustive(ctx context.Context, parts *Parts, p Problem, opt Options) (*Res
 
 // verifier confirms a design with an exact method and returns the limits
 // it fails (none: it passes).
-type verifier func(sd *spec.Design) ([]Failure, error)
+type verifier func(sd *spec.Design) (*budget.Result, []Failure, error)
 
 // verifyExtra is how many more classes than Top the search keeps when the
 // designs are confirmed afterwards, so that a rejected one can be replaced.
@@ -144,7 +147,10 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 	if err != nil {
 		return nil, err
 	}
-	keep := opt.Top
+	// Keep more classes than ranked: the same grades from another price
+	// list fold into the design above (see gradeKey), and designs the exact
+	// budget fails are replaced.
+	keep := foldExtra * opt.Top
 	if verify != nil {
 		keep += verifyExtra(opt.Top)
 	}
@@ -174,6 +180,7 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 	}
 	var rejected []NearMiss
 	limit := math.Inf(1)
+	folded := map[string]int{} // grade key -> index in res.Designs
 	for i := range top {
 		if len(res.Designs) >= opt.Top {
 			break
@@ -182,12 +189,20 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 		if err != nil {
 			return nil, err
 		}
+		if j, ok := folded[gradeKey(&d)]; ok {
+			above := &res.Designs[j]
+			above.Reasons = append(above.Reasons, fmt.Sprintf("the same grades from other price lists (%s) cost %.4g more per stage", partList(&d), d.UnitCost-above.UnitCost))
+			continue
+		}
 		var unverified error
 		if verify != nil {
-			fails, err := verify(sd)
+			br, fails, err := verify(sd)
 			if err != nil {
 				unverified = err
-			} else if len(fails) > 0 {
+			} else {
+				adopt(&d, br)
+			}
+			if err == nil && len(fails) > 0 {
 				nm := NearMiss{Design: d, Fails: fails}
 				var names []string
 				for _, f := range fails {
@@ -204,9 +219,11 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 		d.Rank = len(res.Designs) + 1
 		d.ValueVariants = sp.variants(&top[i])
 		d.Reasons = sp.reasons(&top[i], &d, res.Designs)
+		budgetReasons(&d)
 		if unverified != nil {
 			d.Reasons = append(d.Reasons, "not confirmed by the exact budget: "+unverified.Error())
 		}
+		folded[gradeKey(&d)] = len(res.Designs)
 		res.Designs = append(res.Designs, d)
 		res.designs = append(res.designs, sd)
 	}
@@ -255,6 +272,39 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 	return res, nil
 }
 
+// foldExtra is how many classes per ranked design the search keeps, so
+// that designs differing only in price list can fold into one row.
+const foldExtra = 4
+
+// gradeKey identifies what makes designs really different: the family,
+// each position's kind and grade (tolerance and tempco, or the network or
+// amplifier part) and the amplifier. Designs with one key differ only in
+// resistor values or in which price list a grade is bought from.
+func gradeKey(d *Design) string {
+	var b strings.Builder
+	b.WriteString(d.Family)
+	for _, p := range d.Parts {
+		fmt.Fprintf(&b, "|%s:%s:", p.Position, p.Kind)
+		if p.Kind == string(catalog.KindResistor) {
+			fmt.Fprintf(&b, "%g:%g", p.Tolerance, p.TCRppm)
+		} else {
+			b.WriteString(p.Part)
+		}
+	}
+	return b.String()
+}
+
+// partList names a design's resistor part numbers, for a folded note.
+func partList(d *Design) string {
+	var ps []string
+	for _, p := range d.Parts {
+		if p.Kind == string(catalog.KindResistor) && !slices.Contains(ps, p.Part) {
+			ps = append(ps, p.Part)
+		}
+	}
+	return strings.Join(ps, ", ")
+}
+
 // maxNearMisses is the number of near misses reported; maxFixTries bounds
 // the failing classes searched for a single fix.
 const (
@@ -271,22 +321,23 @@ func (r *Result) DesignN(n int) (*spec.Design, error) {
 	return r.designs[n-1], nil
 }
 
-// limitFormats gives the scale and format each limit is printed with.
-var limitFormats = map[string]struct {
-	scale  float64
-	format string
-}{
-	limGain: {100, "%.3g %%"}, limGainInitial: {100, "%.3g %%"}, limCMRR: {1, "%.1f dB"},
-	limDrift: {1, "%.3g ppm/K"}, limOffset: {1, "%.3g V"}, limOffDrift: {1, "%.3g V/K"},
-	limNoise: {1, "%.3g V/√Hz"}, limNoiseRMS: {1, "%.3g V"}, limBandwidth: {1, "%.3g Hz"},
-}
-
-// limitText formats a limit's value with its unit.
+// limitText formats a limit's value with its unit in engineering
+// notation: fractions (gain error, share of a rating) as percent, dB and
+// ppm/K as written, the rest with an SI prefix (4.3 mV, 3.33 MHz).
 func limitText(l Limit) string {
-	if f, ok := limitFormats[l.Name]; ok {
-		return fmt.Sprintf(f.format, f.scale*l.Value)
+	switch l.Unit {
+	case "":
+		return fmt.Sprintf("%.3g %%", 100*l.Value)
+	case "dB":
+		return fmt.Sprintf("%.1f dB", l.Value)
+	case "ppm/K":
+		return fmt.Sprintf("%.3g ppm/K", l.Value)
+	case "V/rtHz":
+		return units.Format(l.Value, "V/√Hz")
+	case "ohm":
+		return units.Format(l.Value, "Ω")
 	}
-	return fmt.Sprintf("%g", l.Value)
+	return units.Format(l.Value, l.Unit)
 }
 
 func findLimit(ls []Limit, name string) (Limit, bool) {
@@ -324,7 +375,7 @@ func (s *space) reasons(b *classBest, d *Design, above []Design) []string {
 func limitSummary(ls []Limit) string {
 	var sum []string
 	for _, l := range ls {
-		sum = append(sum, fmt.Sprintf("%s %s (limit %s, margin %.2fx)", l.Name, limitText(l), limitText(Limit{Name: l.Name, Value: l.Limit}), l.Margin))
+		sum = append(sum, fmt.Sprintf("%s %s (limit %s, margin %.2fx)", l.Name, limitText(l), limitText(Limit{Name: l.Name, Value: l.Limit, Unit: l.Unit}), l.Margin))
 	}
 	if len(sum) == 0 {
 		return "the spec sets no error limit; only the hard limits apply"
@@ -529,7 +580,7 @@ func (s *space) nearMiss(f *classBest) (NearMiss, error) {
 		} else if l.Name == limBandwidth {
 			by = 1 - l.Value/l.Limit
 		}
-		txt := fmt.Sprintf("%s %s against a limit of %s", l.Name, limitText(l), limitText(Limit{Name: l.Name, Value: l.Limit}))
+		txt := fmt.Sprintf("%s %s against a limit of %s", l.Name, limitText(l), limitText(Limit{Name: l.Name, Value: l.Limit, Unit: l.Unit}))
 		nm.Fails = append(nm.Fails, Failure{Name: l.Name, Value: l.Value, Limit: l.Limit, By: by, Text: txt})
 	}
 	nm.Reasons = []string{fmt.Sprintf("cheaper than rank 1 but fails %d limit(s)", len(nm.Fails))}
