@@ -46,23 +46,22 @@ func FromSpec(s *spec.Spec) (Problem, error) {
 		ZinMinOhm: s.Limits.InputImpedance, RMinOhm: s.Impedance.Min, RMaxOhm: s.Impedance.Max,
 		LeakageA: s.LeakageA, SourceOhm: s.SourceOhm, LoadOhm: s.LoadOhm, Derating: s.Derating, Method: Method(s.Analysis.Method), CalGain: s.Calibrate.Gain, CalOffset: s.Calibrate.Offset,
 		Limits: Limits{TotalGainError: s.Limits.GainError, DriftPPM: s.Limits.GainDrift * 1e6, CMRRdB: s.Limits.CMRRdB,
-			OffsetV: s.Limits.OutputOffsetV, OffsetDriftVK: s.Limits.OffsetDriftVK, NoiseDensity: s.Limits.NoiseDensity, NoiseRMS: s.Limits.NoiseRMSV},
-		Build: cost.Build{Quantity: s.Build.Quantity, Attrition: s.Build.Attrition, PerPlacement: s.Build.PlacementCost,
-			PerLineItem: s.Build.LineItemCost, Currency: s.Build.Currency}}
+			OffsetV: s.Limits.OutputOffsetV, OffsetDriftVK: s.Limits.OffsetDriftVK, NoiseDensity: s.Limits.NoiseDensity, NoiseRMS: s.Limits.NoiseRMSV}}
+	b, err := cost.BuildOf(s.Build)
+	if err != nil {
+		return p, fmt.Errorf("%w: %w", ErrProblem, err)
+	}
+	p.Build = b
+	if p.Derating == 0 {
+		// The zero value means the documented default, as in the budget.
+		p.Derating = spec.DefaultDerating
+	}
 	if s.Reference != nil {
 		p.Ref = s.Reference.V
 	}
 	for _, c := range s.Combos {
 		p.SeriesPairs = p.SeriesPairs || c == spec.Series
 		p.ParallelPairs = p.ParallelPairs || c == spec.Parallel
-	}
-	switch s.Build.Stock {
-	case "exclude":
-		p.Build.Stock = cost.StockExclude
-	case "", "flag":
-		p.Build.Stock = cost.StockFlag
-	default:
-		return p, fmt.Errorf("%w: build.stock %q: use exclude or flag", ErrProblem, s.Build.Stock)
 	}
 	var unsupported []string
 	for _, f := range s.Families {
