@@ -260,13 +260,15 @@ func solveCurrentSense(ctx context.Context, parts *Parts, p Problem, opt Options
 			all = append(all, subDesign{d2, sd2})
 		}
 		for _, nm := range r.NearMisses {
-			d2, _ := withShunt(&p, nm.Design, &spec.Design{}, sh)
-			nm.Design = d2
+			nm.Design, nm.sd = withShunt(&p, nm.Design, nm.sd, sh)
+			if nm.fixSD != nil {
+				_, nm.fixSD = withShunt(&p, Design{Family: nm.Family}, nm.fixSD, sh)
+			}
 			near = append(near, nm)
 		}
 	}
 	rejected := rankMerged(res, all, opt.Top, verify, func(d *Design, above []Design) []string { return senseReasons(&p, d, above) })
-	addNear(res, near, rejected)
+	addNear(res, near, rejected, verify)
 	if p.hazardous() {
 		res.Cautions = append(res.Cautions, hazardCaution)
 	}

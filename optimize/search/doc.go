@@ -57,5 +57,10 @@
 // Solve then confirms every design it keeps with the exact budget of
 // package budget (a nodal solve of every corner under the spec's method);
 // a design the budget fails becomes a near miss and the next class takes
-// its rank, so the budget has the last word.
+// its rank, so the budget has the last word. The near misses found on the
+// screening figures are confirmed the same way (at most 12 budget runs per
+// search): a listed near miss carries the budget's figures and failures, a
+// candidate the budget passes is counted in a note instead of listed (the
+// screening was pessimistic for it), and a fix the budget still fails is
+// said so in the reasons.
 package search

@@ -393,7 +393,7 @@ func solveInAmp(ctx context.Context, parts *Parts, p Problem, opt Options, verif
 		opt.Progress(res.Search.Classes, res.Search.Classes)
 	}
 	rejected := rankMerged(res, all, opt.Top, verify, func(d *Design, above []Design) []string { return mergedReasons(&p, d, above) })
-	addNear(res, near, rejected)
+	addNear(res, near, rejected, verify)
 	if p.hazardous() {
 		res.Cautions = append(res.Cautions, hazardCaution)
 	}
@@ -418,14 +418,21 @@ func (st *Stats) add(o Stats) {
 }
 
 // addNear appends the sub-searches' near misses cheaper than rank 1, by
-// cost, up to maxNearMisses besides the rejected designs listed first.
-func addNear(res *Result, near []NearMiss, rejected int) {
+// cost, up to maxNearMisses besides the rejected designs listed first;
+// with verify, each is confirmed by the exact budget first (nearCheck).
+func addNear(res *Result, near []NearMiss, rejected int, verify verifier) {
 	sort.SliceStable(near, func(i, j int) bool { return near[i].TotalCost < near[j].TotalCost })
+	check := nearCheck{verify: verify}
 	for _, nm := range near {
 		if len(res.NearMisses) >= maxNearMisses+rejected || (len(res.Designs) > 0 && nm.TotalCost >= res.Designs[0].TotalCost) {
 			break
 		}
-		res.NearMisses = append(res.NearMisses, nm)
+		if check.confirm(&nm) {
+			res.NearMisses = append(res.NearMisses, nm)
+		}
+	}
+	if n := check.note(); n != "" {
+		res.Notes = append(res.Notes, n)
 	}
 }
 
@@ -450,11 +457,7 @@ func rankMerged(res *Result, all []subDesign, top int, verify verifier, reasons 
 			}
 			if err == nil && len(fails) > 0 {
 				nm := NearMiss{Design: c.d, Fails: fails}
-				var names []string
-				for _, f := range fails {
-					names = append(names, f.Text)
-				}
-				nm.Reasons = []string{"passes the search's screening figures, but the exact budget fails it: " + strings.Join(names, "; ")}
+				nm.Reasons = []string{"passes the search's screening figures, but the exact budget fails it: " + failText(fails)}
 				if rejected < maxNearMisses {
 					res.NearMisses = append(res.NearMisses, nm)
 				}

@@ -133,6 +133,10 @@ type NearMiss struct {
 	Design
 	Fails []Failure `json:"fails"`
 	Fix   *Fix      `json:"fix"`
+
+	// sd and fixSD are the near miss and its fix as spec designs, for the
+	// exact budget (nil when not built).
+	sd, fixSD *spec.Design
 }
 
 // Failure is one limit a near miss breaks.

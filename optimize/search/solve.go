@@ -203,11 +203,7 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 			}
 			if err == nil && len(fails) > 0 {
 				nm := NearMiss{Design: d, Fails: fails}
-				var names []string
-				for _, f := range fails {
-					names = append(names, f.Text)
-				}
-				nm.Reasons = []string{"passes the search's screening figures, but the exact budget fails it: " + strings.Join(names, "; ")}
+				nm.Reasons = []string{"passes the search's screening figures, but the exact budget fails it: " + failText(fails)}
 				rejected = append(rejected, nm)
 				continue
 			}
@@ -233,9 +229,11 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 	// At most one near miss per resistor configuration, so they show
 	// different grades rather than one grade with several amplifiers; at
 	// most maxFixTries fix searches.
+	// With a spec, each is confirmed by the exact budget (nearCheck).
 	var fixless []NearMiss
 	seen := map[int]bool{}
 	tries := 0
+	check := nearCheck{verify: verify}
 	for _, f := range sp.nearCandidates(limit) {
 		if len(res.NearMisses) >= maxNearMisses+len(rejected) || tries >= maxFixTries {
 			break
@@ -247,6 +245,9 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 		nm, err := sp.nearMiss(&f)
 		if err != nil {
 			return nil, err
+		}
+		if !check.confirm(&nm) {
+			continue
 		}
 		if nm.Fix != nil {
 			res.NearMisses = append(res.NearMisses, nm)
@@ -260,6 +261,9 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 		if len(res.NearMisses) < maxNearMisses+len(rejected) {
 			res.NearMisses = append(res.NearMisses, nm)
 		}
+	}
+	if n := check.note(); n != "" {
+		res.Notes = append(res.Notes, n)
 	}
 	if len(res.Designs) == 0 {
 		res.Infeasible = sp.infeasible()
@@ -564,11 +568,11 @@ func (s *space) idealGain(k0 float64) float64 {
 // change that makes it pass: another amplifier, another grade group at the
 // Rg or the Rf positions, or another network.
 func (s *space) nearMiss(f *classBest) (NearMiss, error) {
-	d, _, err := s.describe(f)
+	d, sd, err := s.describe(f)
 	if err != nil {
 		return NearMiss{}, err
 	}
-	nm := NearMiss{Design: d}
+	nm := NearMiss{Design: d, sd: sd}
 	for _, l := range d.Limits {
 		if l.Pass {
 			continue
@@ -585,10 +589,11 @@ func (s *space) nearMiss(f *classBest) (NearMiss, error) {
 	nm.Reasons = []string{fmt.Sprintf("cheaper than rank 1 but fails %d limit(s)", len(nm.Fails))}
 	best, kind, change, part, at := s.cheapestFix(f)
 	if kind != "" {
-		bd, _, err := s.describe(&best)
+		bd, fsd, err := s.describe(&best)
 		if err != nil {
 			return NearMiss{}, err
 		}
+		nm.fixSD = fsd
 		if part == "" {
 			part = partAt(bd.Parts, at)
 		}
