@@ -125,7 +125,9 @@ type Evaluator struct {
 	heat    []float64
 	x       []float64
 	hasLife bool
-	ampIdx  [maxAmps][5]int // parameter index of Vos, Vos drift, Ib, Ios, CMRR
+	// Reference factors of the last spread: 1 + x ε and x β.
+	refTol, refDrift float64
+	ampIdx           [maxAmps][5]int // parameter index of Vos, Vos drift, Ib, Ios, CMRR
 
 	// Stress at the range corners, nominal values (see stress).
 	pmax, vmax []float64
@@ -422,13 +424,23 @@ func (e *Evaluator) groupMembers(mask uint64) string {
 
 // setValues writes every resistor's value at parameter point x and
 // temperature t (°C) into the netlist: R = Rnom (1 + δ + life)(1 + α (t -
-// Tref + ΔT_self)), and returns the reference scale factor.
+// Tref + ΔT_self)), and returns the reference scale factor. It is spread
+// followed by applyValues.
 func (e *Evaluator) setValues(x []float64, t float64, life bool) float64 {
+	e.spread(x)
+	return e.applyValues(t, life)
+}
+
+// spread sums, at parameter point x, the part of the values that does not
+// depend on temperature: each position's deviation δ, tempco α and
+// load-life shift, and the reference's initial factor (1 + x ε) and drift
+// coefficient x β. One trial of Monte Carlo spreads once and applies the
+// result at each temperature point.
+func (e *Evaluator) spread(x []float64) {
 	clear(e.dev)
 	clear(e.tc)
 	clear(e.life)
-	ref := 1.0
-	dt := t - e.s.TempRef
+	e.refTol, e.refDrift = 1, 0
 	for j := range e.params {
 		xv := x[j]
 		if xv == 0 {
@@ -441,23 +453,35 @@ func (e *Evaluator) setValues(x []float64, t float64, life bool) float64 {
 			if p.kind == pTC {
 				dst = e.tc
 			} else if p.kind == pLife {
-				if !life {
-					continue
-				}
 				dst = e.life
 			}
 			for m := p.mask; m != 0; m &= m - 1 {
 				dst[bits.TrailingZeros64(m)] += xv * p.scale
 			}
 		case pRefTol:
-			ref *= 1 + xv*p.scale
+			e.refTol *= 1 + xv*p.scale
 		case pRefDrift:
-			ref *= 1 + xv*p.scale*dt
+			e.refDrift += xv * p.scale
 		}
+	}
+}
+
+// applyValues writes the resistor values of the last spread at temperature
+// t, with the load-life shift when life, and returns the reference scale
+// factor (1 + x ε)(1 + x β (t - Tref)).
+func (e *Evaluator) applyValues(t float64, life bool) float64 {
+	dt := t - e.s.TempRef
+	ref := e.refTol
+	if e.refDrift != 0 {
+		ref *= 1 + e.refDrift*dt
 	}
 	if e.net != nil {
 		for k, idx := range e.resIdx {
-			e.net.Resistors[idx].Ohm = e.nom[k] * (1 + e.dev[k] + e.life[k]) * (1 + e.tc[k]*(dt+e.heat[k]))
+			lf := 0.0
+			if life {
+				lf = e.life[k]
+			}
+			e.net.Resistors[idx].Ohm = e.nom[k] * (1 + e.dev[k] + lf) * (1 + e.tc[k]*(dt+e.heat[k]))
 		}
 		for i, idx := range e.fixedIdx {
 			e.net.Resistors[idx].Ohm = e.fixedOhm[i]
@@ -516,11 +540,18 @@ func (e *Evaluator) solve() float64 {
 // resistor tolerances only by the tolerance fraction itself, a
 // second-order change of terms that are already small.
 func (e *Evaluator) eval(x []float64, t float64, life bool, p *point) error {
+	e.spread(x)
+	return e.evalSpread(x, t, life, p)
+}
+
+// evalSpread is eval at the parameter point of the last spread, which must
+// be x.
+func (e *Evaluator) evalSpread(x []float64, t float64, life bool, p *point) error {
 	if e.matched {
-		e.evalMatched(x, t, e.setValues(x, t, life), p)
+		e.evalMatched(x, t, e.applyValues(t, life), p)
 		return nil
 	}
-	ref, err := e.factorAt(x, t, life)
+	ref, err := e.factorSpread(t, life)
 	if err != nil {
 		return err
 	}
@@ -611,7 +642,13 @@ func (e *Evaluator) ampTransfers() error {
 // temperature t, sets every op-amp's open-loop gain and factors the stage;
 // it returns the reference scale factor.
 func (e *Evaluator) factorAt(x []float64, t float64, life bool) (float64, error) {
-	ref := e.setValues(x, t, life)
+	e.spread(x)
+	return e.factorSpread(t, life)
+}
+
+// factorSpread is factorAt at the parameter point of the last spread.
+func (e *Evaluator) factorSpread(t float64, life bool) (float64, error) {
+	ref := e.applyValues(t, life)
 	for _, i := range e.amps {
 		e.net.OpAmps[i].Gain = e.aol
 	}

@@ -99,7 +99,7 @@ func (e *Evaluator) cmrrAt(x []float64, p *point, signed bool) (total, res float
 	acm := p.acm
 	res = capLin
 	if math.Abs(acm) > tinyTransfer {
-		res = math.Min(capLin, math.Abs(p.adm/acm))
+		res = min(capLin, math.Abs(p.adm/acm))
 	}
 	if signed {
 		for i := 0; i < e.nAmps(); i++ {
@@ -115,7 +115,7 @@ func (e *Evaluator) cmrrAt(x []float64, p *point, signed bool) (total, res float
 	if acm <= tinyTransfer {
 		return capLin, res
 	}
-	return math.Min(capLin, math.Abs(p.adm/acm)), res
+	return min(capLin, math.Abs(p.adm/acm)), res
 }
 
 // tpoint is one temperature point of an evaluation.
@@ -146,7 +146,8 @@ func (e *Evaluator) metricsAt(x []float64, signed bool, out *agg) error {
 	var buf [4]tpoint
 	pts := e.tpoints(&buf)
 	var p0, pr, p point
-	if err := e.eval(x, pts[0].t, false, &p0); err != nil {
+	e.spread(x) // once: only the temperature changes between the points
+	if err := e.evalSpread(x, pts[0].t, false, &p0); err != nil {
 		return err
 	}
 	gt := e.s.Gain
@@ -168,7 +169,7 @@ func (e *Evaluator) metricsAt(x []float64, signed bool, out *agg) error {
 	}
 	pr = p0
 	for _, tp := range pts[1:] {
-		if err := e.eval(x, tp.t, tp.life, &p); err != nil {
+		if err := e.evalSpread(x, tp.t, tp.life, &p); err != nil {
 			return err
 		}
 		if tp.t == e.s.TempRef {
@@ -182,7 +183,7 @@ func (e *Evaluator) metricsAt(x []float64, signed bool, out *agg) error {
 			out.gainErr, out.gainSigned, out.worstT = math.Abs(ge), ge, tp.t
 		}
 		if c, r := e.cmrrAt(x, &p, signed); c < out.cmrr || r < out.cmrrRes {
-			out.cmrr, out.cmrrRes = math.Min(c, out.cmrr), math.Min(r, out.cmrrRes)
+			out.cmrr, out.cmrrRes = min(c, out.cmrr), min(r, out.cmrrRes)
 		}
 		var off float64
 		switch {
@@ -195,14 +196,14 @@ func (e *Evaluator) metricsAt(x []float64, signed bool, out *agg) error {
 		default:
 			off = math.Abs(p.base-e.target) + e.ampOffset(x, &p, tp.t, false, false)
 		}
-		out.offset = math.Max(out.offset, off)
+		out.offset = max(out.offset, off)
 		if dt := math.Abs(tp.t - e.s.TempRef); dt > 0 {
-			out.drift = math.Max(out.drift, math.Abs(p.gain/pr.gain-1)/dt)
+			out.drift = max(out.drift, math.Abs(p.gain/pr.gain-1)/dt)
 			od := math.Abs(p.base - pr.base + e.ampOffset(x, &p, tp.t, true, true))
 			if !signed {
 				od = math.Abs(p.base-pr.base) + e.ampOffset(x, &p, tp.t, false, true)
 			}
-			out.offsetDrift = math.Max(out.offsetDrift, od/dt)
+			out.offsetDrift = max(out.offsetDrift, od/dt)
 		}
 	}
 	return nil

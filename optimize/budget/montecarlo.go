@@ -72,9 +72,10 @@ func (e *Evaluator) MonteCarlo(trials int, seed uint64, samples bool) (*MCSummar
 			clear(e.x)
 			return nil, err
 		}
-		cols[0][t], cols[1][t], cols[2][t], cols[3][t], cols[4][t] = a.gainSigned, 20*math.Log10(a.cmrr), a.drift*1e6, a.offset, a.offsetDrift
+		cmrrDB := 20 * math.Log10(a.cmrr)
+		cols[0][t], cols[1][t], cols[2][t], cols[3][t], cols[4][t] = a.gainSigned, cmrrDB, a.drift*1e6, a.offset, a.offsetDrift
 		ok := true
-		for i, passed := range e.trialPass(&a, &nominal) {
+		for i, passed := range e.trialPass(&a, cmrrDB, &nominal) {
 			if nominal.Checked[i] {
 				if passed {
 					pass[i]++
@@ -113,12 +114,12 @@ func (e *Evaluator) MonteCarlo(trials int, seed uint64, samples bool) (*MCSummar
 
 // trialPass checks one trial's varying metrics against their limits and
 // keeps the nominal verdicts of the others (noise, bandwidth, headroom,
-// ratings do not vary between trials).
-func (e *Evaluator) trialPass(a *agg, nominal *Score) [NumLimits]bool {
+// ratings do not vary between trials); cmrrDB is the trial's CMRR in dB.
+func (e *Evaluator) trialPass(a *agg, cmrrDB float64, nominal *Score) [NumLimits]bool {
 	p := nominal.Pass
 	l := &e.s.Limits
 	p[IGainError] = a.gainErr <= l.GainError
-	p[ICMRR] = 20*math.Log10(a.cmrr) >= l.CMRRdB
+	p[ICMRR] = cmrrDB >= l.CMRRdB
 	p[IGainDrift] = a.drift <= l.GainDrift
 	p[IOutputOffset] = a.offset <= l.OutputOffsetV
 	p[IOffsetDrift] = a.offsetDrift <= l.OffsetDriftVK
@@ -135,20 +136,94 @@ func percentiles(v []float64, inPlace bool) Percentiles {
 	if !inPlace {
 		s = slices.Clone(v)
 	}
-	at := func(p float64) float64 { return selectK(s, int(math.Round(p*float64(len(s)-1)))) }
+	rank := func(p float64) int { return int(math.Round(p * float64(len(s)-1))) }
 	var mean, m2 float64
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for i, x := range v {
 		d := x - mean
 		mean += d / float64(i+1)
 		m2 += d * (x - mean)
-		lo, hi = math.Min(lo, x), math.Max(hi, x)
+		lo, hi = min(lo, x), max(hi, x) // the builtins are math.Min and math.Max, inline
+	}
+	// The median first: selectK leaves s[:k] <= s[k] <= s[k+1:], so the
+	// outer ranks are selected in the halves.
+	var pc Percentiles
+	if len(s) > 0 {
+		k50 := rank(0.5)
+		pc.P50 = selectK(s, k50)
+		pc.P0135 = selectTail(s[:k50+1], rank(0.00135))
+		pc.P99865 = selectTail(s[k50:], rank(0.99865)-k50)
 	}
 	sd := 0.0
 	if len(v) > 1 {
 		sd = math.Sqrt(m2 / float64(len(v)-1))
 	}
-	return Percentiles{P0135: at(0.00135), P50: at(0.5), P99865: at(0.99865), Mean: mean, StdDev: sd, Min: lo, Max: hi}
+	pc.Mean, pc.StdDev, pc.Min, pc.Max = mean, sd, lo, hi
+	return pc
+}
+
+// tailSample is the number of evenly spaced elements selectTail sorts to
+// choose its pivot; slices shorter than tailMin elements go straight to
+// selectK.
+const (
+	tailSample = 512
+	tailMin    = 8 * tailSample
+)
+
+// selectTail returns the k-th smallest element of s, as selectK does, in
+// about one pass when k is near either end: a pivot taken from a sorted,
+// evenly spaced sample (at the sample rank expected for k plus a margin of
+// three standard deviations of a binomial count and 4) splits off the
+// short side, whose comparisons nearly always go the same way, and
+// quickselect finishes there (the sampling idea of Floyd and Rivest's
+// SELECT, from memory). When the short side misses rank k it falls back
+// to selectK on all of s, so the value is exact either way. The order of s
+// is lost.
+func selectTail(s []float64, k int) float64 {
+	n := len(s)
+	if n < tailMin {
+		return selectK(s, k)
+	}
+	near := k // rank counted from the nearer end
+	low := k < n/2
+	if !low {
+		near = n - 1 - k
+	}
+	expect := float64(near) * tailSample / float64(n)
+	r := int(expect + 3*math.Sqrt(expect) + 4)
+	if r >= tailSample/2 {
+		return selectK(s, k)
+	}
+	var smp [tailSample]float64
+	step := n / tailSample
+	for i := range smp {
+		smp[i] = s[i*step]
+	}
+	slices.Sort(smp[:])
+	if low {
+		pivot, c := smp[r], 0
+		for i, x := range s {
+			if x <= pivot {
+				s[i], s[c] = s[c], x
+				c++
+			}
+		}
+		if c > k { // s[:c] holds every element <= pivot, so rank k is there
+			return selectK(s[:c], k)
+		}
+		return selectK(s, k)
+	}
+	pivot, c := smp[tailSample-1-r], n
+	for i := n - 1; i >= 0; i-- {
+		if x := s[i]; x >= pivot {
+			c--
+			s[i], s[c] = s[c], x
+		}
+	}
+	if c <= k { // s[c:] holds every element >= pivot, so rank k is there
+		return selectK(s[c:], k-c)
+	}
+	return selectK(s, k)
 }
 
 // selectK reorders s so that s[k] is the k-th smallest and returns it

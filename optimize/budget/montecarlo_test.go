@@ -137,3 +137,36 @@ func TestSelectK(t *testing.T) {
 		}
 	}
 }
+
+// TestSelectTail checks the sampled tail selection against a full sort
+// (the definition of the k-th order statistic) on seeded random data:
+// continuous values, heavy ties, a sorted and a reversed slice (where an
+// evenly spaced sample is least like a random one), at ranks near both
+// ends, near the middle, and where the sample's margin is thin.
+func TestSelectTail(t *testing.T) {
+	r := rand.New(rand.NewPCG(1, 1))
+	fills := []struct {
+		name string
+		f    func(i, n int) float64
+	}{
+		{name: "normal", f: func(int, int) float64 { return r.NormFloat64() }},
+		{name: "ties", f: func(int, int) float64 { return float64(r.IntN(5)) }},
+		{name: "sorted", f: func(i, _ int) float64 { return float64(i) }},
+		{name: "reversed", f: func(i, n int) float64 { return float64(n - i) }},
+	}
+	for _, fill := range fills {
+		for _, n := range []int{tailMin - 1, tailMin, 50001, 100000} {
+			v := make([]float64, n)
+			for i := range v {
+				v[i] = fill.f(i, n)
+			}
+			sorted := slices.Clone(v)
+			slices.Sort(sorted)
+			for _, k := range []int{0, 1, 135, 400, n / 3, n / 2, n - 401, n - 136, n - 2, n - 1} {
+				if got := selectTail(slices.Clone(v), k); got != sorted[k] {
+					t.Errorf("%s n %d k %d: %g, want %g", fill.name, n, k, got, sorted[k])
+				}
+			}
+		}
+	}
+}
