@@ -135,7 +135,8 @@ type Evaluator struct {
 	headAmp    int // amplifier and pin of the least headroom
 	headPin    int
 	sens       []sensRow
-	ampT       point // amplifier transfers at nominal values
+	ampT       point     // amplifier transfers at nominal values
+	mcBuf      []float64 // Monte Carlo sample columns kept between runs without samples
 }
 
 // NewEvaluator prepares an evaluator for designs of family (one of the

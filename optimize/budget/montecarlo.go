@@ -38,8 +38,10 @@ func draw(r *rand.Rand, normal bool, sigmas float64) float64 {
 // network's common shift once per network plus each element's ratio and
 // tracking scatter; the reference; every amplifier term) is drawn from the
 // spec's distribution and every varying metric solved exactly over the
-// temperature points. samples keeps each trial's metrics. The inner loop
-// does not allocate.
+// temperature points. samples keeps each trial's metrics in new slices;
+// without it the sample columns live in a buffer the evaluator reuses, so a
+// repeated run allocates only its summary. The inner loop does not
+// allocate.
 func (e *Evaluator) MonteCarlo(trials int, seed uint64, samples bool) (*MCSummary, error) {
 	s := e.s
 	sum := &MCSummary{Trials: trials, Seed: seed, Distribution: s.Analysis.Distribution, YieldTarget: s.Analysis.Yield,
@@ -54,7 +56,17 @@ func (e *Evaluator) MonteCarlo(trials int, seed uint64, samples bool) (*MCSummar
 		return nil, err
 	}
 	e.judge(&m, &nominal)
-	buf := make([]float64, len(mcMetrics)*trials)
+	// Columns returned as samples belong to the caller; otherwise the
+	// evaluator keeps one buffer for every run.
+	var buf []float64
+	if n := len(mcMetrics) * trials; samples || cap(e.mcBuf) < n {
+		buf = make([]float64, n)
+		if !samples {
+			e.mcBuf = buf
+		}
+	} else {
+		buf = e.mcBuf[:n]
+	}
 	var cols [5][]float64
 	for i := range cols {
 		cols[i] = buf[i*trials : (i+1)*trials]
