@@ -16,7 +16,9 @@ import (
 // package budget's unit words ("" is a fraction).
 var searchLimitUnits = map[string]string{
 	"gain error": "", "gain error initial": "", "CMRR": "dB", "gain drift": "ppm/K",
-	"output offset": "V", "offset drift": "V/K", "noise density": "V/rtHz", "bandwidth": "Hz",
+	"output offset": "V", "offset drift": "V/K", "noise density": "V/rtHz", "noise RMS": "V",
+	"bandwidth": "Hz", "input impedance": "ohm", "amplifier headroom": "V",
+	"resistor power": "", "resistor voltage": "",
 }
 
 // formatLimitValue prints a search limit figure in the unit its name
@@ -27,6 +29,15 @@ func formatLimitValue(name string, v float64) string {
 		return strconv.FormatFloat(v, 'g', 4, 64)
 	}
 	return formatBudgetValue(v, unit)
+}
+
+// limitValue prints a figure of limit l in the limit's own unit, or in
+// the unit its name implies when the limit carries none.
+func limitValue(l search.Limit, v float64) string {
+	if l.Unit != "" {
+		return formatBudgetValue(v, l.Unit)
+	}
+	return formatLimitValue(l.Name, v)
 }
 
 // formatBudgetValue prints a budget figure in its unit ("" is a fraction,
@@ -109,7 +120,7 @@ func writeLimits(w io.Writer, ios *IOStreams, ls []search.Limit) error {
 		if !l.Pass {
 			res = ios.Red("FAIL")
 		}
-		t.row(l.Name, formatLimitValue(l.Name, l.Value), formatLimitValue(l.Name, l.Limit), formatMargin(l.Margin), res)
+		t.row(l.Name, limitValue(l, l.Value), limitValue(l, l.Limit), formatMargin(l.Margin), res)
 	}
 	return t.render(w)
 }

@@ -215,9 +215,9 @@ func TestErrorsNameTheProblem(t *testing.T) {
 		code   int
 		wantIn []string
 	}{
-		{name: "unknown series", args: "series E25", code: exitError, wantIn: []string{`"E25"`, "E3, E6, E12, E24, E48, E96, E192"}},
-		{name: "bad resistance", args: "series E24 --from 4x7", code: exitError, wantIn: []string{"--from", `"4x7"`}},
-		{name: "empty range", args: "series E24 --from 10 --to 1", code: exitError, wantIn: []string{"empty"}},
+		{name: "unknown series", args: "series E25", code: exitUsage, wantIn: []string{`"E25"`, "E3, E6, E12, E24, E48, E96, E192"}},
+		{name: "bad resistance", args: "series E24 --from 4x7", code: exitUsage, wantIn: []string{"--from", `"4x7"`}},
+		{name: "empty range", args: "series E24 --from 10 --to 1", code: exitUsage, wantIn: []string{"empty"}},
 		{name: "unknown flag", args: "series E24 --step 1", code: exitUsage, wantIn: []string{"unknown flag: --step", "plumb series --help"}},
 		{name: "missing argument", args: "catalog show", code: exitUsage, wantIn: []string{"PART"}},
 		{name: "unknown command", args: "frobnicate", code: exitUsage, wantIn: []string{`unknown command "frobnicate"`, "solve"}},

@@ -70,18 +70,18 @@ type seriesJSON struct {
 func runSeries(opts *seriesOptions) error {
 	s, err := eseries.ByName(opts.Name)
 	if err != nil {
-		return err
+		return usagef("%v", err)
 	}
 	from, err := units.ParseResistance(opts.From)
 	if err != nil {
-		return fmt.Errorf("--from: %w", err)
+		return usagef("--from: %v", err)
 	}
 	to, err := units.ParseResistance(opts.To)
 	if err != nil {
-		return fmt.Errorf("--to: %w", err)
+		return usagef("--to: %v", err)
 	}
 	if from <= 0 || to < from {
-		return fmt.Errorf("range --from %s --to %s is empty: --from must be above 0 and not above --to", opts.From, opts.To)
+		return usagef("range --from %s --to %s is empty: --from must be above 0 and not above --to", opts.From, opts.To)
 	}
 	values := s.Values(from, to)
 	if len(values) == 0 {

@@ -3,6 +3,7 @@ package main
 import (
 	"errors"
 	"fmt"
+	"os"
 	"strings"
 	"time"
 
@@ -85,6 +86,12 @@ func runSolve(cmd *cobra.Command, opts *solveOptions) error {
 	if err != nil {
 		return err
 	}
+	if opts.BOM != "" && !opts.Force {
+		// Refuse before searching, not after printing the whole result.
+		if _, err := os.Stat(opts.BOM); err == nil {
+			return fmt.Errorf("%w: --bom %s: choose another name or add --force to replace it", errFileExists, opts.BOM)
+		}
+	}
 	st, err := opts.Catalog(ctx)
 	if err != nil {
 		return err
@@ -120,6 +127,17 @@ func runSolve(cmd *cobra.Command, opts *solveOptions) error {
 	default:
 		if werr := writeSolveTable(opts.IO.Out, opts.IO, solveTitle(sp), res, opts.Explain); werr != nil {
 			return werr
+		}
+		if opts.Explain > 0 && opts.Explain <= len(res.Designs) {
+			// The full budget of design N, as `plumb check` prints it.
+			br, berr := res.ExplainN(opts.Explain)
+			if berr != nil {
+				return fmt.Errorf("--explain %d: %w", opts.Explain, berr)
+			}
+			fmt.Fprintf(opts.IO.Out, "\n%s\n", opts.IO.Bold(fmt.Sprintf("Full budget of design %d", opts.Explain)))
+			if werr := writeCheckTable(opts.IO.Out, opts.IO, sp, br); werr != nil {
+				return werr
+			}
 		}
 	}
 	if infeasible {
