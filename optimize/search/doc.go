@@ -26,8 +26,11 @@
 // summed into the non-inverting node through R1, R2, R3 and Rg = Rf (NG =
 // 2 exactly, so only the input network's two ratios R2/R1 and R3/R1 are
 // quantized; exact corners of slope and offset with the reference's
-// tolerance and drift). A negative offset (reference into the inverting
-// input) and m + b/Vref >= 2 are refused with a message.
+// tolerance and drift); a negative offset takes the reference into the
+// inverting input through R2 (Vout = Vin·R3/(R1+R3)·(2 + Rf/R2) -
+// Vref·Rf/R2 with Rg = Rf; R2 of the feedback grade, R3/R1 aimed at the
+// noise gain of the R2 value). A zero offset, m + b/Vref >= 2 (positive
+// offset) and m >= 2 - b/Vref (negative offset) are refused with a message.
 //
 // Screening model (approximations from the domain notes and S. Franco,
 // "Design with Operational Amplifiers and Analog Integrated Circuits",

@@ -20,15 +20,63 @@ import (
 // m·Vref/b and R3/R1 = a1/a3 with a3 = 1 - (m + b/Vref)/2, so it reaches
 // every shift with m > 0, b > 0 and m + b/Vref < 2 (mapping a signal onto
 // an ADC range inside [0, Vref] always has m + b/Vref <= 1).
+//
+// Level shift, reference into the inverting node (the circuit's
+// OffsetToInverting option), for a negative offset:
+//
+//	Vout = Vin·R3/(R1+R3)·(1 + Rf/Rg + Rf/R2) - Vref·Rf/R2
+//
+// (divider into the non-inverting input, node equation at the inverting
+// input: Vm/Rg + (Vm-Vref)/R2 + (Vm-Vout)/Rf = 0 with Vm = V+; S. Franco,
+// same book, summing amplifier, from memory). Again Rg = Rf, so with
+// β = Rf/R2 = -b/Vref the noise gain is NG = 2 + β and the divider
+// a = R3/(R1+R3) = m/NG; R2 comes from the feedback grade (the offset
+// Vref·Rf/R2 is then a ratio of one grade), R1 and R3 from the input
+// grade, and R3/R1 = a/(1-a) is aimed at the NG of the R2 value chosen,
+// so R2's quantization moves only the offset. It reaches every shift with
+// m > 0, b < 0 and m < 2 + β.
 
-// lsNoiseGain is NG of the level shift (Rg = Rf).
+// lsNoiseGain is NG of the level shift (Rg = Rf) with the reference into
+// the non-inverting node, and the least NG with it into the inverting one.
 const lsNoiseGain = 2
 
-// lsRatios returns the target ratios R2/R1 and R3/R1.
+// lsInv reports whether the reference enters the inverting node (a
+// negative offset).
+func (p *Problem) lsInv() bool { return p.Shift < 0 }
+
+// lsBeta is β = Rf/R2 = -b/Vref of the inverting-reference level shift.
+func (p *Problem) lsBeta() float64 { return -p.Shift / p.Ref }
+
+// lsNG is the target noise gain: 2, or 2 + β with the reference into the
+// inverting node.
+func (p *Problem) lsNG() float64 {
+	if p.lsInv() {
+		return lsNoiseGain + p.lsBeta()
+	}
+	return lsNoiseGain
+}
+
+// lsRatios returns the target ratios R2/R1 and R3/R1; with the reference
+// into the inverting node, R2/Rf = 1/β and R3/R1 at the target NG.
 func (p *Problem) lsRatios() (q2, q3 float64) {
 	m, b := p.Gain, p.Shift
+	if p.lsInv() {
+		return 1 / p.lsBeta(), lsDivider(m / p.lsNG())
+	}
 	a1, a2 := m/lsNoiseGain, b/(p.Ref*lsNoiseGain)
 	return a1 / a2, a1 / (1 - a1 - a2)
+}
+
+// lsDivider is R3/R1 = a/(1-a) of a divider of ratio a = R3/(R1+R3).
+func lsDivider(a float64) float64 { return a / (1 - a) }
+
+// lsNode is the voltage at the amplifier's inputs for input vin: Vout/2
+// (non-inverting summing), or a·Vin = m·Vin/NG.
+func (p *Problem) lsNode(vin float64) float64 {
+	if p.lsInv() {
+		return p.Gain * vin / p.lsNG()
+	}
+	return (p.Gain*vin + p.Shift) / lsNoiseGain
 }
 
 // lsCheck refuses shifts the search does not build.
@@ -36,9 +84,11 @@ func (p *Problem) lsCheck() error {
 	switch {
 	case !(p.Ref > 0):
 		return fmt.Errorf("%w: level shift needs a positive reference voltage, got %g V", ErrProblem, p.Ref)
-	case !(p.Shift > 0):
-		return fmt.Errorf("%w: level shift with offset %g V: the search builds positive offsets (reference into the non-inverting node); a negative offset needs the reference at the inverting input, not searched yet", ErrProblem, p.Shift)
-	case p.Gain+p.Shift/p.Ref >= lsNoiseGain:
+	case p.Shift == 0:
+		return fmt.Errorf("%w: level shift with offset 0 V: use a non-inverting stage (family %s) for a gain without offset", ErrProblem, NonInverting)
+	case p.lsInv() && !(p.Gain < p.lsNG()):
+		return fmt.Errorf("%w: level shift with gain %g and offset %g V: with the reference into the inverting input the gain must stay below 2 + |offset|/Vref = %.3g with Rg = Rf", ErrProblem, p.Gain, p.Shift, p.lsNG())
+	case !p.lsInv() && p.Gain+p.Shift/p.Ref >= lsNoiseGain:
 		return fmt.Errorf("%w: level shift with gain %g and offset %g V: gain + offset/Vref = %.3g must stay below %d with Rg = Rf", ErrProblem, p.Gain, p.Shift, p.Gain+p.Shift/p.Ref, lsNoiseGain)
 	}
 	return nil
@@ -49,8 +99,13 @@ type lsValues struct{ r1, r2, r3, rfb float64 }
 
 // lsShares returns NG·a1 (slope) and NG·a2 (offset per volt of reference)
 // with each resistor multiplied by its factor (source resistance in series
-// with R1).
+// with R1); with the reference into the inverting node, a·NG and -Rf/R2.
 func (s *space) lsShares(v *lsValues, f *[5]float64) (slope, refGain float64) {
+	if s.p.lsInv() {
+		r1, r3 := v.r1*f[0]+s.p.SourceOhm, v.r3*f[2]
+		rf, beta := v.rfb*f[4], v.rfb*f[4]/(v.r2*f[1])
+		return r3 / (r1 + r3) * (1 + rf/(v.rfb*f[3]) + beta), -beta
+	}
 	g1 := 1 / (v.r1*f[0] + s.p.SourceOhm)
 	g2, g3 := 1/(v.r2*f[1]), 1/(v.r3*f[2])
 	ng := 1 + f[4]/f[3] // Rf/Rg with Rg = Rf nominal
@@ -93,7 +148,11 @@ func (s *space) evalLevelShift(c *config, o *option, a *amp, m *metrics) {
 	gi, gf := s.groups[c.ga], s.groups[c.gb]
 	v := s.lsOptionValues(c, o)
 	am := a.a
+	inv := p.lsInv()
 	ng := float64(lsNoiseGain)
+	if inv {
+		ng += v.rfb / v.r2
+	}
 	fAol := 1.0
 	if am.AolVV > 0 {
 		fAol = 1 / (1 + ng/am.AolVV)
@@ -109,23 +168,21 @@ func (s *space) evalLevelShift(c *config, o *option, a *amp, m *metrics) {
 	ti, tf := gi.grade.Tolerance, gf.grade.Tolerance
 	li, lf := gi.grade.LoadLife, gf.grade.LoadLife
 	ci, cf := gi.grade.TCR*1e-6, gf.grade.TCR*1e-6
-	tol := [5]float64{ti, ti, ti, tf, tf}
+	fb := s.lsFeedbackGrade()
+	tol := [5]float64{}
 	all := [5]float64{}
 	drift := [5]float64{}
 	for i := range all {
 		l, c := li, ci
-		if i >= 3 {
-			l, c = lf, cf
+		tol[i] = ti
+		if fb[i] {
+			l, c, tol[i] = lf, cf, tf
 		}
 		all[i] = (1+tol[i])*(1+l)*(1+c*dT) - 1
 		drift[i] = c * dT
 	}
 	refDT := p.RefDrift * dT
-	// Sensitivities of ln(slope) and ln(offset) to ln R (R1, R2, R3, Rg, Rf).
-	a1, a2 := sl0/ng, rg0/ng
-	a3 := 1 - a1 - a2
-	sSl := [5]float64{-(a2 + a3), a2, a3, -0.5, 0.5}
-	sOf := [5]float64{a1, -(a1 + a3), a3, -0.5, 0.5}
+	sSl, sOf := s.lsSensitivities(&v)
 	if s.rss {
 		q := func(sens, e *[5]float64) float64 {
 			t := 0.0
@@ -146,7 +203,7 @@ func (s *space) evalLevelShift(c *config, o *option, a *amp, m *metrics) {
 			m.gainErr, m.totalErr = 0, q(&sSl, &lifeDrift)
 		}
 		bOff := math.Abs(rg0*rho*p.Ref - p.Shift)
-		resOff := p.Shift * math.Sqrt(sq(q(&sOf, &all))+sq(p.RefTol)+sq(refDT))
+		resOff := math.Abs(p.Shift) * math.Sqrt(sq(q(&sOf, &all))+sq(p.RefTol)+sq(refDT))
 		m.offset = bOff + resOff
 	} else {
 		e0, _ := s.lsCorners(&v, &tol, rho, 0)
@@ -166,9 +223,14 @@ func (s *space) evalLevelShift(c *config, o *option, a *amp, m *metrics) {
 		}
 		m.offset = offT
 	}
-	// Amplifier: Ib+ through (R1 + Rs)∥R2∥R3, Ib- through Rg∥Rf.
+	// Amplifier: Ib+ through (R1 + Rs)∥R2∥R3, Ib- through Rg∥Rf (with the
+	// reference into the inverting node: (R1 + Rs)∥R3 and Rg∥Rf∥R2).
 	rPlus := 1 / (1/(v.r1+p.SourceOhm) + 1/v.r2 + 1/v.r3)
 	rMinus := v.rfb / 2
+	if inv {
+		rPlus = 1 / (1/(v.r1+p.SourceOhm) + 1/v.r3)
+		rMinus = 1 / (2/v.rfb + 1/v.r2)
+	}
 	bias := am.IbA*math.Abs(rPlus-rMinus) + am.IosA*(rPlus+rMinus)/2
 	if p.CalOffset {
 		// A one-time trim removes the initial offset: what moves with
@@ -197,6 +259,33 @@ func (s *space) evalLevelShift(c *config, o *option, a *amp, m *metrics) {
 
 func sq(x float64) float64 { return x * x }
 
+// lsFeedbackGrade says which of R1, R2, R3, Rg, Rf take the feedback
+// grade: Rg and Rf, and R2 with the reference into the inverting node.
+func (s *space) lsFeedbackGrade() [5]bool {
+	return [5]bool{false, s.p.lsInv(), false, true, true}
+}
+
+// lsSensitivities returns the sensitivities of ln(slope) and ln|offset|
+// to ln R for R1, R2, R3, Rg, Rf (Rg = Rf nominal). Non-inverting summing,
+// with a1, a2, a3 the conductance shares: slope (-(a2+a3), a2, a3, -1/2,
+// 1/2), offset (a1, -(a1+a3), a3, -1/2, 1/2). Inverting reference, with
+// a = R3/(R1+Rs+R3) and NG = 2 + β: slope (-(1-a)·R1/(R1+Rs), -β/NG, 1-a,
+// -1/NG, (NG-1)/NG), offset Rf/R2: (0, -1, 0, 0, 1).
+func (s *space) lsSensitivities(v *lsValues) (sSl, sOf [5]float64) {
+	if s.p.lsInv() {
+		r1 := v.r1 + s.p.SourceOhm
+		a := v.r3 / (r1 + v.r3)
+		beta := v.rfb / v.r2
+		ng := lsNoiseGain + beta
+		return [5]float64{-(1 - a) * v.r1 / r1, -beta / ng, 1 - a, -1 / ng, (ng - 1) / ng}, [5]float64{0, -1, 0, 0, 1}
+	}
+	ones := [5]float64{1, 1, 1, 1, 1}
+	sl, rg := s.lsShares(v, &ones)
+	a1, a2 := sl/lsNoiseGain, rg/lsNoiseGain
+	a3 := 1 - a1 - a2
+	return [5]float64{-(a2 + a3), a2, a3, -0.5, 0.5}, [5]float64{a1, -(a1 + a3), a3, -0.5, 0.5}
+}
+
 // boundLevelShift fills m with optimistic figures for every option of a
 // level-shift class: the amplifier's own offset, drift and noise at NG = 2
 // (the resistor terms only add to them); gain error and drift 0.
@@ -215,19 +304,24 @@ func (s *space) boundLevelShift(a *amp, m *metrics) {
 // lsOptionValues returns the values of a level-shift option.
 func (s *space) lsOptionValues(c *config, o *option) lsValues {
 	gi, gf := s.groups[c.ga], s.groups[c.gb]
-	return lsValues{r1: gi.values[o.rg], r2: gi.values[o.rf], r3: gi.values[o.rf2], rfb: gf.values[c.fbv]}
+	g2 := gi
+	if s.p.lsInv() {
+		g2 = gf
+	}
+	return lsValues{r1: gi.values[o.rg], r2: g2.values[o.rf], r3: gi.values[o.rf2], rfb: gf.values[c.fbv]}
 }
 
 // lsVoltages returns the largest voltage across R1, R2, R3 and Rg = Rf
-// over the input range (the non-inverting node sits at Vout/2).
+// over the input range (both amplifier inputs sit at lsNode; R2 runs from
+// the reference to one of them, Rg from one of them to ground).
 func (p *Problem) lsVoltages() (v1, v2, v3, vf float64) {
 	for _, vin := range []float64{p.InMin, p.InMax} {
 		out := p.Gain*vin + p.Shift
-		vp := out / lsNoiseGain
+		vp := p.lsNode(vin)
 		v1 = math.Max(v1, math.Abs(vin-vp))
 		v2 = math.Max(v2, math.Abs(p.Ref-vp))
 		v3 = math.Max(v3, math.Abs(vp))
-		vf = math.Max(vf, math.Abs(out-vp))
+		vf = math.Max(vf, math.Max(math.Abs(out-vp), math.Abs(vp)))
 	}
 	return v1, v2, v3, vf
 }
@@ -251,7 +345,11 @@ func (s *space) levelShiftConfigs() {
 		for a, gi := range s.groups {
 			c := config{fam: DiscreteLevelShift, ga: a, gb: b, net: -1, fbv: int32(fv),
 				g: discreteGrades(gi.grade.Tolerance, gi.grade.TCR, gi.grade.LoadLife, gf.grade.Tolerance, gf.grade.TCR, gf.grade.LoadLife, s.dT)}
-			if c.costLB = linesLB(s, []*group{gi, gi, gi, gf}, []int{1, 1, 1, 2}, 0); !math.IsNaN(c.costLB) {
+			g2 := gi
+			if s.p.lsInv() {
+				g2 = gf
+			}
+			if c.costLB = linesLB(s, []*group{gi, g2, gi, gf}, []int{1, 1, 1, 2}, 0); !math.IsNaN(c.costLB) {
 				s.cfgs = append(s.cfgs, c)
 			}
 		}
@@ -261,30 +359,46 @@ func (s *space) levelShiftConfigs() {
 // levelShiftOptions lists the value options of a level-shift
 // configuration: per R1 value, R2 and R3 the values either side of their
 // targets, kept when both ratios are inside the window and every resistor
-// inside its rating.
+// inside its rating. With the reference into the inverting node R2 is a
+// feedback-grade value either side of Rf/β, and R3's target is the
+// divider a/(1-a) at the NG = 2 + Rf/R2 of that R2.
 func (s *space) levelShiftOptions(c *config) {
 	gi, gf := s.groups[c.ga], s.groups[c.gb]
 	q2, q3 := s.p.lsRatios()
 	v1, v2, v3, _ := s.p.lsVoltages()
 	pw, mv := gi.grade.PowerW, gi.grade.MaxVoltageV
-	near := func(t float64) [2]int {
-		j := sort.SearchFloat64s(gi.values, t)
+	inv := s.p.lsInv()
+	g2, pw2, mv2 := gi, pw, mv
+	if inv {
+		g2, pw2, mv2 = gf, gf.grade.PowerW, gf.grade.MaxVoltageV
+	}
+	near := func(g *group, t float64) [2]int {
+		j := sort.SearchFloat64s(g.values, t)
 		return [2]int{j - 1, j}
 	}
+	rfb := gf.values[c.fbv]
 	for i, r1 := range gi.values {
 		if !s.ratingOK(pw, mv, r1, v1) {
 			continue
 		}
-		for _, j := range near(q2 * r1) {
-			if j < 0 || j >= len(gi.values) || math.Abs(gi.values[j]/r1/q2-1) > s.w || !s.ratingOK(pw, mv, gi.values[j], v2) {
+		base := r1
+		if inv {
+			base = rfb
+		}
+		for _, j := range near(g2, q2*base) {
+			if j < 0 || j >= len(g2.values) || math.Abs(g2.values[j]/base/q2-1) > s.w || !s.ratingOK(pw2, mv2, g2.values[j], v2) {
 				continue
 			}
-			for _, k := range near(q3 * r1) {
+			q3 := q3
+			if inv {
+				q3 = lsDivider(s.p.Gain / (lsNoiseGain + rfb/g2.values[j]))
+			}
+			for _, k := range near(gi, q3*r1) {
 				if k < 0 || k >= len(gi.values) || math.Abs(gi.values[k]/r1/q3-1) > s.w || !s.ratingOK(pw, mv, gi.values[k], v3) {
 					continue
 				}
-				o := option{rg: int32(i), rf: int32(j), rf2: int32(k), k0: gi.values[j] / r1, rp: gi.values[k] / r1}
-				lines := [4]line{{gi, i, 1}, {gi, j, 1}, {gi, k, 1}, {gf, int(c.fbv), 2}}
+				o := option{rg: int32(i), rf: int32(j), rf2: int32(k), k0: g2.values[j] / r1, rp: gi.values[k] / r1}
+				lines := [4]line{{gi, i, 1}, {g2, j, 1}, {gi, k, 1}, {gf, int(c.fbv), 2}}
 				if s.priceLines(&o, lines[:]) {
 					c.opts = append(c.opts, o)
 				}
@@ -314,27 +428,43 @@ func (s *space) lsDominant(b *classBest, limit string) (string, float64) {
 	gi, gf := s.groups[c.ga].grade, s.groups[c.gb].grade
 	v := s.lsOptionValues(c, o)
 	ones := [5]float64{1, 1, 1, 1, 1}
-	sl, rg := s.lsShares(&v, &ones)
-	a1, a2 := sl/lsNoiseGain, rg/lsNoiseGain
-	a3 := 1 - a1 - a2
+	sl, _ := s.lsShares(&v, &ones)
+	// First-order shares of each grade in the slope and in the offset:
+	// Σ|sensitivity| over the positions of the grade.
+	sSl, sOf := s.lsSensitivities(&v)
+	fb := s.lsFeedbackGrade()
+	var slIn, slFb, ofIn, ofFb float64
+	for i := range sSl {
+		if fb[i] {
+			slFb, ofFb = slFb+math.Abs(sSl[i]), ofFb+math.Abs(sOf[i])
+		} else {
+			slIn, ofIn = slIn+math.Abs(sSl[i]), ofIn+math.Abs(sOf[i])
+		}
+	}
 	am := s.amps[b.amp].a
+	ng := s.p.lsNG()
 	type term struct {
 		name string
 		v    float64
 	}
 	var ts []term
+	inNames, fbNames := "R1, R2, R3", "Rg, Rf"
+	if p.lsInv() {
+		inNames, fbNames = "R1, R3", "R2, Rg, Rf"
+	}
 	switch limit {
 	case limGain, limGainInitial:
-		ts = []term{{"ratio quantization", math.Abs(sl/p.Gain - 1)}, {"R1, R2, R3 tolerance", 2 * (a2 + a3) * gi.Tolerance}, {"Rg, Rf tolerance", gf.Tolerance}}
+		ts = []term{{"ratio quantization", math.Abs(sl/p.Gain - 1)}, {inNames + " tolerance", slIn * gi.Tolerance}, {fbNames + " tolerance", slFb * gf.Tolerance}}
 		if limit == limGain {
-			ts = append(ts, term{"resistor tempco over temperature", (2*(a2+a3)*gi.TCR + gf.TCR) * 1e-6 * s.dT})
+			ts = append(ts, term{"resistor tempco over temperature", (slIn*gi.TCR + slFb*gf.TCR) * 1e-6 * s.dT})
 		}
 	case limDrift:
-		ts = []term{{"R1, R2, R3 tempco", 2 * (a2 + a3) * gi.TCR}, {"Rg, Rf tempco", gf.TCR}}
+		ts = []term{{inNames + " tempco", slIn * gi.TCR}, {fbNames + " tempco", slFb * gf.TCR}}
 	case limOffset, limOffDrift:
-		ts = []term{{"the reference's tolerance and drift", p.Shift * (p.RefTol + p.RefDrift*s.dT)},
-			{"resistor ratios in the offset path", p.Shift * (2*(a1+a3)*gi.Tolerance + gf.Tolerance)},
-			{"amplifier offset voltage and drift", lsNoiseGain * (am.VosV + am.VosDriftVK*s.dT)}}
+		b := math.Abs(p.Shift)
+		ts = []term{{"the reference's tolerance and drift", b * (p.RefTol + p.RefDrift*s.dT)},
+			{"resistor ratios in the offset path", b * (ofIn*gi.Tolerance + ofFb*gf.Tolerance)},
+			{"amplifier offset voltage and drift", ng * (am.VosV + am.VosDriftVK*s.dT)}}
 	default:
 		return "the amplifier", 1
 	}

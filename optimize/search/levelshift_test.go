@@ -2,6 +2,7 @@ package search
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -33,15 +34,44 @@ func genLevelShiftProblem(r *rand.Rand) Problem {
 	return p
 }
 
+// genLevelShiftInvProblem makes a random level shift with a negative
+// offset: a unipolar input from 10 % or 25 % of its span up to it onto a
+// window inside [0, Vref] starting near 0 V, so b = lo - m·Vin,min < 0 and
+// the reference enters the inverting input.
+func genLevelShiftInvProblem(r *rand.Rand) Problem {
+	p := genLevelShiftProblem(r)
+	in := []float64{2.5, 4.5, 10}[r.IntN(3)]
+	p.InMin, p.InMax = in*[]float64{0.1, 0.25}[r.IntN(2)], in
+	lo, hi := []float64{0.05, 0.1}[r.IntN(2)], p.Ref*[]float64{0.9, 0.5}[r.IntN(2)]
+	p.Gain = (hi - lo) / (p.InMax - p.InMin)
+	p.Shift = lo - p.Gain*p.InMin
+	return p
+}
+
 // TestLevelShiftBranchAndBoundMatchesExhaustive is the property test of
-// the level shift: on seeded random catalogs and requirements the branch
-// and bound returns the same top-N classes as the enumeration.
+// the level shift, with the reference into either input: on seeded random
+// catalogs and requirements the branch and bound returns the same top-N
+// classes as the enumeration.
 func TestLevelShiftBranchAndBoundMatchesExhaustive(t *testing.T) {
+	tests := []struct {
+		name   string
+		gen    func(*rand.Rand) Problem
+		stream uint64
+	}{
+		{"reference into the non-inverting node", genLevelShiftProblem, 9},
+		{"reference into the inverting node", genLevelShiftInvProblem, 10},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) { levelShiftMatchesExhaustive(t, tc.gen, tc.stream) })
+	}
+}
+
+func levelShiftMatchesExhaustive(t *testing.T, gen func(*rand.Rand) Problem, stream uint64) {
 	feasible, cases := 0, 100
 	for seed := uint64(1); seed <= uint64(cases); seed++ {
-		r := rand.New(rand.NewPCG(seed, 9))
+		r := rand.New(rand.NewPCG(seed, stream))
 		parts := genParts(r, r.IntN(3), r.IntN(80), 1+r.IntN(4), 0, 1+r.IntN(8))
-		p := genLevelShiftProblem(r)
+		p := gen(r)
 		if err := p.normalize(); err != nil {
 			t.Fatalf("seed %d: %v", seed, err)
 		}
@@ -107,8 +137,55 @@ func TestLevelShiftCheckValues(t *testing.T) {
 			t.Errorf("%s: %.6g, want %.6g", tc.name, tc.got, tc.want)
 		}
 	}
-	if err := (&Problem{Circuit: LevelShift, Gain: 0.125, Shift: -1, Ref: 2.5}).lsCheck(); err == nil {
-		t.Error("a negative offset is accepted; the search builds positive offsets only")
+}
+
+// TestLevelShiftInvertingCheckValues checks the inverting-reference
+// transfer against the node equation at the inverting input, Vout =
+// Vin·R3/(R1+R3)·(1 + Rf/Rg + Rf/R2) - Vref·Rf/R2 (S. Franco, summing
+// amplifier, from memory), on 0.5..4.5 V onto 0..3.3 V with Vref = 2.5 V
+// (hand arithmetic): m = 3.3/4 = 0.825, b = -0.825·0.5 = -0.4125 V,
+// β = Rf/R2 = 0.4125/2.5 = 0.165, so Rg = Rf = 10k, R2 = 10k/0.165 =
+// 60.606k, NG = 2.165, a = 0.825/2.165 and R3/R1 = a/(1-a) = 0.825/1.34 =
+// 0.615672 (R1 = 10k, R3 = 6.15672k); then Vout(0.5 V) = 0 and
+// Vout(4.5 V) = 3.3 V.
+func TestLevelShiftInvertingCheckValues(t *testing.T) {
+	p := &Problem{Circuit: LevelShift, Gain: 0.825, Shift: -0.4125, Ref: 2.5}
+	s := &space{p: p}
+	ones := [5]float64{1, 1, 1, 1, 1}
+	slope, rg := s.lsShares(&lsValues{r1: 10e3, r2: 10e3 / 0.165, r3: 6.15672e3, rfb: 10e3}, &ones)
+	q2, q3 := p.lsRatios()
+	tests := []struct {
+		name      string
+		got, want float64
+	}{
+		{"slope", slope, 0.825},
+		{"offset", rg * p.Ref, -0.4125},
+		{"Vout at 0.5 V", slope*0.5 + rg*p.Ref, 0},
+		{"Vout at 4.5 V", slope*4.5 + rg*p.Ref, 3.3},
+		{"R2/Rf", q2, 1 / 0.165},
+		{"R3/R1", q3, 0.615672},
+		{"noise gain", p.lsNG(), 2.165},
+		{"amplifier inputs at 4.5 V", p.lsNode(4.5), 4.5 * 0.825 / 2.165},
+	}
+	for _, tc := range tests {
+		if math.Abs(tc.got-tc.want) > 1e-4*math.Max(1, math.Abs(tc.want)) {
+			t.Errorf("%s: %.6g, want %.6g", tc.name, tc.got, tc.want)
+		}
+	}
+	refused := []struct {
+		name string
+		p    Problem
+	}{
+		{"zero offset", Problem{Circuit: LevelShift, Gain: 0.8, Shift: 0, Ref: 2.5}},
+		{"gain above 2 + β", Problem{Circuit: LevelShift, Gain: 3.9, Shift: -3.8, Ref: 2.5}},
+	}
+	for _, tc := range refused {
+		if err := tc.p.lsCheck(); !errors.Is(err, ErrProblem) {
+			t.Errorf("%s: %v, want ErrProblem", tc.name, err)
+		}
+	}
+	if err := (&Problem{Circuit: LevelShift, Gain: 0.8, Shift: -0.35, Ref: 2.5}).lsCheck(); err != nil {
+		t.Errorf("negative offset refused: %v", err)
 	}
 }
 
@@ -155,5 +232,46 @@ func TestSolveLevelShift(t *testing.T) {
 		}
 	} else if err != nil {
 		t.Fatal(err)
+	}
+}
+
+// TestSolveLevelShiftInverting solves a negative-offset level shift
+// (testdata/level_shift_inverting.yaml: 0.5..4.5 V onto 0.05..3.25 V, gain
+// 0.8, offset -0.35 V) on the demo catalog: the reference enters the
+// inverting input, and every design passes the exact budget, whose nodal
+// solve of the OffsetToInverting netlist is independent of the search's
+// closed form.
+func TestSolveLevelShiftInverting(t *testing.T) {
+	snap := demoSnapshot(t)
+	s, err := spec.Load("testdata/level_shift_inverting.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !(s.Offset < 0) {
+		t.Fatalf("fixture offset %g V, want negative", s.Offset)
+	}
+	res, err := Solve(context.Background(), snap, s, Options{Top: 3})
+	if err != nil {
+		t.Fatalf("%v: %+v", err, res.Infeasible)
+	}
+	for i, d := range res.Designs {
+		sd, err := res.DesignN(i + 1)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !sd.Options.OffsetToInverting {
+			t.Errorf("rank %d: design without the reference at the inverting input", i+1)
+		}
+		br, err := res.ExplainN(i + 1)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !br.Pass {
+			t.Errorf("rank %d fails the exact budget: %+v", i+1, br.Limits)
+		}
+		if g := br.Metrics.Gain; math.Abs(g/s.Gain-1) > s.Limits.GainError {
+			t.Errorf("rank %d: budget gain %.6g, want %.6g within %g", i+1, g, s.Gain, s.Limits.GainError)
+		}
+		t.Logf("rank %d: %.4g %v", i+1, d.TotalCost, partList(&d))
 	}
 }

@@ -42,9 +42,10 @@ const (
 	// DiscreteInAmp is a three-op-amp instrumentation amplifier whose
 	// second stage is four discrete resistors of one value (unity gain).
 	DiscreteInAmp Family = "inamp-discrete"
-	// DiscreteLevelShift is a level shift Vout = m·Vin + b with the
-	// reference summed into the non-inverting node (R1, R2, R3) and
-	// Rg = Rf.
+	// DiscreteLevelShift is a level shift Vout = m·Vin + b with Rg = Rf:
+	// for b > 0 the reference summed into the non-inverting node (R1, R2,
+	// R3), for b < 0 fed to the inverting node through R2 with the input
+	// divided by R1, R3.
 	DiscreteLevelShift Family = "level-shift-discrete"
 	// NetworkInAmp is a three-op-amp instrumentation amplifier whose second
 	// stage is a matched four-element network.
@@ -230,7 +231,7 @@ func (p *Problem) ratio() float64 {
 	case Divider:
 		return (1 - p.Gain) / p.Gain
 	case LevelShift:
-		return lsNoiseGain - 1
+		return p.lsNG() - 1
 	case InAmp:
 		// 1 + 2Rf/Rg = G/k2.
 		return (p.Gain/p.stage2Gain() - 1) / 2

@@ -264,6 +264,9 @@ func (s *space) positions() (rg, rf []string) {
 	case InAmp:
 		return []string{"Rg"}, []string{"Rf1", "Rf2"}
 	case LevelShift:
+		if s.p.lsInv() {
+			return []string{"R1", "R3"}, []string{"R2", "Rg", "Rf"}
+		}
 		return []string{"R1", "R2", "R3"}, []string{"Rg", "Rf"}
 	}
 	return []string{"Rg"}, []string{"Rf"}
@@ -303,8 +306,12 @@ func (s *space) describe(b *classBest) (Design, *spec.Design, error) {
 				g   *group
 				i   int32
 			}{{"R1", ga, o.rg}, {"R2", ga, o.rf}, {"R3", ga, o.rf2}, {"Rg", gb, c.fbv}, {"Rf", gb, c.fbv}} {
+				if e.pos == "R2" && s.p.lsInv() {
+					e.g = gb
+				}
 				sd.Positions = append(sd.Positions, spec.Position{Name: e.pos, Elements: []spec.Element{add(e.pos, e.g, e.i)}})
 			}
+			sd.Options.OffsetToInverting = s.p.lsInv()
 		default:
 			o := c.opts[b.opt]
 			ga, gb := s.groups[c.ga], s.groups[c.gb]

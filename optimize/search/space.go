@@ -242,7 +242,7 @@ func pinRange(p *Problem, k float64) (lo, hi float64) {
 			case Inverting:
 				v = p.Ref
 			case LevelShift:
-				v = (p.Gain*vd + p.Shift) / lsNoiseGain
+				v = p.lsNode(vd)
 			case InAmp:
 				// A1 and A2 see the inputs; A3 sees the first stage's
 				// outputs Vcm ± G1·Vd/2 through R3/R4.
