@@ -226,6 +226,13 @@ func writeImportTable(w io.Writer, ios *IOStreams, rep *importers.Report) error 
 	for _, f := range rep.Files {
 		fmt.Fprintf(w, "  %s: %d row(s) of %s, %s\n", f.File, f.Rows, f.Kind, f.Shape.Encoding)
 	}
+	if s.DryRun {
+		for _, f := range rep.Files {
+			if err := writeDryRunFile(w, ios, f); err != nil {
+				return err
+			}
+		}
+	}
 	if len(rep.Problems) == 0 {
 		return nil
 	}
@@ -243,6 +250,44 @@ func writeImportTable(w io.Writer, ios *IOStreams, rep *importers.Report) error 
 			sev = ios.Yellow(sev)
 		}
 		t.row(where, p.Column, p.Part, sev, p.Reason)
+	}
+	return t.render(w)
+}
+
+// writeDryRunFile shows what a dry run of one file would use: the column
+// each field was taken from with the confidence of the guess, and the
+// first parts as parsed.
+func writeDryRunFile(w io.Writer, ios *IOStreams, f importers.FileReport) error {
+	if f.Mapping != nil && len(f.Mapping.Guesses) > 0 {
+		fmt.Fprintf(w, "\n%s\n", ios.Bold("Columns of "+f.File+":"))
+		t := newTable(ios, "COLUMN", "FIELD", "CONFIDENCE", "HOW").alignRight(2)
+		for _, g := range f.Mapping.Guesses {
+			t.row(g.Column, string(g.Field), strconv.FormatFloat(float64(g.Confidence), 'f', 2, 64), g.How)
+		}
+		if err := t.render(w); err != nil {
+			return err
+		}
+	}
+	if len(f.Preview) == 0 {
+		return nil
+	}
+	var snap catalog.Snapshot
+	for _, p := range f.Preview {
+		switch v := p.(type) {
+		case catalog.ResistorSeries:
+			snap.ResistorSeries = append(snap.ResistorSeries, v)
+		case catalog.Resistor:
+			snap.Resistors = append(snap.Resistors, v)
+		case catalog.Network:
+			snap.Networks = append(snap.Networks, v)
+		case catalog.Amplifier:
+			snap.Amplifiers = append(snap.Amplifiers, v)
+		}
+	}
+	fmt.Fprintf(w, "\n%s\n", ios.Bold(fmt.Sprintf("First %d part(s) of %s as read:", len(f.Preview), f.File)))
+	t := newTable(ios, partTableHeader...)
+	for _, r := range partRows(&snap) {
+		t.row(r.table()...)
 	}
 	return t.render(w)
 }

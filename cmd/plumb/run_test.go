@@ -597,6 +597,17 @@ func TestImport(t *testing.T) {
 	if n := listParts(); n != 0 {
 		t.Errorf("dry run wrote %d parts", n)
 	}
+	// The table form of a dry run shows the mapping it guessed and the
+	// first rows as parsed, besides the problems.
+	out, errOut, code = importOnce("import testdata/export.csv --dry-run")
+	if code != exitOK {
+		t.Fatalf("dry run table: exit %d: %s", code, errOut)
+	}
+	for _, want := range []string{"Columns of testdata/export.csv:", "CONFIDENCE", "resistance", "as read:", "Rows to look at:"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("dry run table lacks %q:\n%s", want, out)
+		}
+	}
 
 	report := filepath.Join(dir, "rows.csv")
 	out, errOut, code = importOnce("import testdata/export.csv --report " + report + " --save-mapping larkwood")
