@@ -52,7 +52,7 @@ func BenchmarkEvaluateDifferenceCorner(b *testing.B) {
 // them into the resistor values once and solves the reference temperature
 // and both range ends exactly (three factorizations, nine solves), then
 // checks the limits; after the loop come the yields and the percentiles
-// of five metrics (median by quickselect, tails by selectTail). All of it
+// of five metrics (by selectSampled, about one pass each). All of it
 // is timed: ns/trial (ns/op / 100,000) is the whole call per trial, the
 // figure to compare with the corner's ns/op (target: at most 3 corners per
 // trial). The first run also allocates the sample buffer, later runs reuse

@@ -19,17 +19,23 @@ const (
 
 var mcMetrics = [5]string{MetricGainError, MetricCMRR, MetricDrift, MetricOffset, MetricOffsetDrift}
 
-// draw returns one parameter value in [-1, 1]: uniform, or normal with
-// standard deviation 1/sigmas truncated at ±1 (the tolerance), drawn by
-// rejection.
-func draw(r *rand.Rand, normal bool, sigmas float64) float64 {
+// drawAll fills x with parameter values in [-1, 1]: uniform, or normal
+// with standard deviation 1/sigmas truncated at ±1 (the tolerance), drawn
+// by rejection. One call per trial keeps the distribution's branch out of
+// the per-parameter loop; the draws are the same, in the same order.
+func drawAll(r *rand.Rand, x []float64, normal bool, sigmas float64) {
 	if !normal {
-		return 2*r.Float64() - 1
-	}
-	for {
-		if z := r.NormFloat64() / sigmas; z >= -1 && z <= 1 {
-			return z
+		for j := range x {
+			x[j] = 2*r.Float64() - 1
 		}
+		return
+	}
+	for j := range x {
+		z := r.NormFloat64() / sigmas
+		for z < -1 || z > 1 {
+			z = r.NormFloat64() / sigmas
+		}
+		x[j] = z
 	}
 }
 
@@ -77,9 +83,7 @@ func (e *Evaluator) MonteCarlo(trials int, seed uint64, samples bool) (*MCSummar
 	allPass := 0
 	var a agg
 	for t := 0; t < trials; t++ {
-		for j := range e.x {
-			e.x[j] = draw(r, normal, s.Analysis.Sigmas)
-		}
+		drawAll(r, e.x, normal, s.Analysis.Sigmas)
 		if err := e.metricsAt(e.x, true, &a); err != nil {
 			clear(e.x)
 			return nil, err
@@ -141,7 +145,7 @@ func (e *Evaluator) trialPass(a *agg, cmrrDB float64, nominal *Score) [NumLimits
 // percentiles returns the p0.135, p50 and p99.865 points of v (the ±3
 // sigma points of a normal distribution, nearest rank), its mean, standard
 // deviation (Welford's update), minimum and maximum. The order statistics
-// come from quickselect, not a full sort: on v itself when inPlace (its
+// come from selectSampled, not a full sort: on v itself when inPlace (its
 // order is then lost), else on a copy.
 func percentiles(v []float64, inPlace bool) Percentiles {
 	s := v
@@ -157,14 +161,9 @@ func percentiles(v []float64, inPlace bool) Percentiles {
 		m2 += d * (x - mean)
 		lo, hi = min(lo, x), max(hi, x) // the builtins are math.Min and math.Max, inline
 	}
-	// The median first: selectK leaves s[:k] <= s[k] <= s[k+1:], so the
-	// outer ranks are selected in the halves.
 	var pc Percentiles
 	if len(s) > 0 {
-		k50 := rank(0.5)
-		pc.P50 = selectK(s, k50)
-		pc.P0135 = selectTail(s[:k50+1], rank(0.00135))
-		pc.P99865 = selectTail(s[k50:], rank(0.99865)-k50)
+		pc.P0135, pc.P50, pc.P99865 = selectSampled(s, rank(0.00135)), selectSampled(s, rank(0.5)), selectSampled(s, rank(0.99865))
 	}
 	sd := 0.0
 	if len(v) > 1 {
@@ -174,66 +173,58 @@ func percentiles(v []float64, inPlace bool) Percentiles {
 	return pc
 }
 
-// tailSample is the number of evenly spaced elements selectTail sorts to
-// choose its pivot; slices shorter than tailMin elements go straight to
-// selectK.
+// sampleSize is the number of evenly spaced elements selectSampled sorts
+// to choose its bounds; slices shorter than sampledMin elements go straight
+// to selectK.
 const (
-	tailSample = 512
-	tailMin    = 8 * tailSample
+	sampleSize = 512
+	sampledMin = 8 * sampleSize
 )
 
-// selectTail returns the k-th smallest element of s, as selectK does, in
-// about one pass when k is near either end: a pivot taken from a sorted,
-// evenly spaced sample (at the sample rank expected for k plus a margin of
-// three standard deviations of a binomial count and 4) splits off the
-// short side, whose comparisons nearly always go the same way, and
-// quickselect finishes there (the sampling idea of Floyd and Rivest's
-// SELECT, from memory). When the short side misses rank k it falls back
-// to selectK on all of s, so the value is exact either way. The order of s
-// is lost.
-func selectTail(s []float64, k int) float64 {
+// selectSampled returns the k-th smallest element of s, as selectK does, in
+// about one pass: two bounds taken from a sorted, evenly spaced sample, at
+// the sample rank expected for k less and plus a margin (three standard
+// deviations of the binomial count, plus 4; an open end past the sample),
+// bracket rank k; one pass counts the elements below the lower bound and
+// gathers those between the bounds, and quickselect finishes among those
+// few (the sampling idea of Floyd and Rivest's SELECT, from memory). Near
+// either end the pass's comparisons nearly always go the same way. When the
+// bounds miss rank k it falls back to selectK on all of s, so the value is
+// exact either way. The order of s is lost.
+func selectSampled(s []float64, k int) float64 {
 	n := len(s)
-	if n < tailMin {
+	if n < sampledMin {
 		return selectK(s, k)
 	}
-	near := k // rank counted from the nearer end
-	low := k < n/2
-	if !low {
-		near = n - 1 - k
-	}
-	expect := float64(near) * tailSample / float64(n)
-	r := int(expect + 3*math.Sqrt(expect) + 4)
-	if r >= tailSample/2 {
-		return selectK(s, k)
-	}
-	var smp [tailSample]float64
-	step := n / tailSample
+	q := float64(k) / float64(n)
+	expect := q * sampleSize
+	margin := 3*math.Sqrt(sampleSize*q*(1-q)) + 4
+	var smp [sampleSize]float64
+	step := n / sampleSize
 	for i := range smp {
 		smp[i] = s[i*step]
 	}
 	slices.Sort(smp[:])
-	if low {
-		pivot, c := smp[r], 0
-		for i, x := range s {
-			if x <= pivot {
-				s[i], s[c] = s[c], x
-				c++
-			}
-		}
-		if c > k { // s[:c] holds every element <= pivot, so rank k is there
-			return selectK(s[:c], k)
-		}
-		return selectK(s, k)
+	lo, hi := math.Inf(-1), math.Inf(1)
+	if i := int(math.Floor(expect - margin)); i >= 0 {
+		lo = smp[i]
 	}
-	pivot, c := smp[tailSample-1-r], n
-	for i := n - 1; i >= 0; i-- {
-		if x := s[i]; x >= pivot {
-			c--
+	if i := int(math.Ceil(expect + margin)); i < sampleSize {
+		hi = smp[i]
+	}
+	below, c := 0, 0
+	for i, x := range s {
+		if x < lo {
+			below++
+		} else if x <= hi {
 			s[i], s[c] = s[c], x
+			c++
 		}
 	}
-	if c <= k { // s[c:] holds every element >= pivot, so rank k is there
-		return selectK(s[c:], k-c)
+	// s[:c] holds every element in [lo, hi] and below more are smaller, so
+	// rank k is among s[:c] when below <= k < below+c.
+	if below <= k && k < below+c {
+		return selectK(s[:c], k-below)
 	}
 	return selectK(s, k)
 }

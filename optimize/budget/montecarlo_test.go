@@ -138,12 +138,12 @@ func TestSelectK(t *testing.T) {
 	}
 }
 
-// TestSelectTail checks the sampled tail selection against a full sort
+// TestSelectSampled checks the sampled selection against a full sort
 // (the definition of the k-th order statistic) on seeded random data:
 // continuous values, heavy ties, a sorted and a reversed slice (where an
 // evenly spaced sample is least like a random one), at ranks near both
-// ends, near the middle, and where the sample's margin is thin.
-func TestSelectTail(t *testing.T) {
+// ends, at and around the median, and where the sample's margin is thin.
+func TestSelectSampled(t *testing.T) {
 	r := rand.New(rand.NewPCG(1, 1))
 	fills := []struct {
 		name string
@@ -155,15 +155,15 @@ func TestSelectTail(t *testing.T) {
 		{name: "reversed", f: func(i, n int) float64 { return float64(n - i) }},
 	}
 	for _, fill := range fills {
-		for _, n := range []int{tailMin - 1, tailMin, 50001, 100000} {
+		for _, n := range []int{sampledMin - 1, sampledMin, 50001, 100000} {
 			v := make([]float64, n)
 			for i := range v {
 				v[i] = fill.f(i, n)
 			}
 			sorted := slices.Clone(v)
 			slices.Sort(sorted)
-			for _, k := range []int{0, 1, 135, 400, n / 3, n / 2, n - 401, n - 136, n - 2, n - 1} {
-				if got := selectTail(slices.Clone(v), k); got != sorted[k] {
+			for _, k := range []int{0, 1, 135, 400, n / 3, n/2 - 1, n / 2, n/2 + 1, n - 401, n - 136, n - 2, n - 1} {
+				if got := selectSampled(slices.Clone(v), k); got != sorted[k] {
 					t.Errorf("%s n %d k %d: %g, want %g", fill.name, n, k, got, sorted[k])
 				}
 			}
