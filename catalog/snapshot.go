@@ -44,6 +44,20 @@ func WriteSnapshotJSON(w io.Writer, s *Snapshot) error {
 	out := *s
 	out.Format = SnapshotFormat
 	out.SchemaVersion = SchemaVersionCurrent
+	// Empty lists are written as [], never null, so readers need not
+	// tell the two apart.
+	if out.ResistorSeries == nil {
+		out.ResistorSeries = []ResistorSeries{}
+	}
+	if out.Resistors == nil {
+		out.Resistors = []Resistor{}
+	}
+	if out.Networks == nil {
+		out.Networks = []Network{}
+	}
+	if out.Amplifiers == nil {
+		out.Amplifiers = []Amplifier{}
+	}
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
 	if err := enc.Encode(&out); err != nil {

@@ -24,6 +24,19 @@ func normalise(s *Snapshot) *Snapshot {
 	out.Resistors = slices.Clone(s.Resistors)
 	out.Networks = slices.Clone(s.Networks)
 	out.Amplifiers = slices.Clone(s.Amplifiers)
+	// An empty list and no list are the same catalog content.
+	if len(out.ResistorSeries) == 0 {
+		out.ResistorSeries = nil
+	}
+	if len(out.Resistors) == 0 {
+		out.Resistors = nil
+	}
+	if len(out.Networks) == 0 {
+		out.Networks = nil
+	}
+	if len(out.Amplifiers) == 0 {
+		out.Amplifiers = nil
+	}
 	for i := range out.ResistorSeries {
 		out.ResistorSeries[i].ID = 0
 	}

@@ -120,7 +120,7 @@ func runCatalogList(cmd *cobra.Command, opts *catalogListOptions) error {
 	}
 	switch opts.Format {
 	case "json":
-		return writeJSON(opts.IO.Out, snap)
+		return catalog.WriteSnapshotJSON(opts.IO.Out, snap)
 	case "csv":
 		rows := partRows(snap)
 		out := make([][]string, len(rows))
