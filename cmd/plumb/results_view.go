@@ -168,6 +168,11 @@ func writeSolveTable(w io.Writer, ios *IOStreams, title string, r *search.Result
 		for _, why := range d.Reasons {
 			writeBullet(w, ios, why)
 		}
+		for _, c := range d.Cautions {
+			if !slices.Contains(r.Cautions, c) {
+				fmt.Fprintf(w, "  %s %s\n", ios.Yellow("CAUTION:"), c)
+			}
+		}
 		if len(d.ShortStock) > 0 {
 			fmt.Fprintf(w, "  %s short of stock for the build: %s\n", ios.Yellow("!"), strings.Join(d.ShortStock, ", "))
 		}

@@ -46,12 +46,13 @@ func budgetVerifier(s *spec.Spec) verifier {
 				by = -by
 			}
 			out = append(out, Failure{Name: l.Name, Value: l.Value, Limit: l.Limit, By: by,
-				Text: fmt.Sprintf("%s %.4g %s against %.4g (%s)", l.Name, l.Value, l.Unit, l.Limit, l.MarginText)})
+				Text: fmt.Sprintf("%s %s against a limit of %s (%s)", l.Name, limitText(Limit{Value: l.Value, Unit: l.Unit}),
+					limitText(Limit{Value: l.Limit, Unit: l.Unit}), l.MarginText)})
 		}
 		if len(out) == 0 && !br.Pass && br.MonteCarlo != nil {
 			mc := br.MonteCarlo
 			out = append(out, Failure{Name: "yield", Value: mc.Yield, Limit: mc.YieldTarget, By: mc.YieldTarget - mc.Yield,
-				Text: fmt.Sprintf("Monte Carlo yield %.4g against %.4g", mc.Yield, mc.YieldTarget)})
+				Text: fmt.Sprintf("Monte Carlo yield %.2f %% against a target of %.2f %%", 100*mc.Yield, 100*mc.YieldTarget)})
 		}
 		return br, out, nil
 	}
@@ -69,6 +70,7 @@ func adopt(d *Design, br *budget.Result) {
 		d.Limits = append(d.Limits, Limit{Name: l.Name, Value: l.Value, Limit: l.Limit, Margin: l.Margin, Pass: l.Pass, Unit: l.Unit})
 	}
 	d.Binding = br.Binding
+	d.Cautions = br.Cautions
 	d.budget = br
 }
 

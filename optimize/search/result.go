@@ -73,6 +73,10 @@ type Design struct {
 	// ValueVariants counts the value choices of this class that pass.
 	ValueVariants int      `json:"value_variants"`
 	ShortStock    []string `json:"short_stock,omitempty"`
+	// Cautions are the exact budget's cautions for this design: parts
+	// near their ratings, amplifier pins near their limits, hazardous
+	// voltage.
+	Cautions []string `json:"cautions,omitempty"`
 
 	// budget is the exact budget adopted for the design (nil: screening
 	// figures only, as in SolveProblem and Exhaustive).
