@@ -119,7 +119,7 @@ type Percentiles struct {
 type Part struct {
 	Position string  `json:"position"`
 	Part     string  `json:"part"`
-	Ohm      float64 `json:"ohm,omitempty"`
+	Ohm      float64 `json:"value_ohm,omitempty"`
 	// Grade is a short description: "0.1% 25ppm/K", "network 0.05% ratio".
 	Grade string `json:"grade"`
 }
