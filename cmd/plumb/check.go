@@ -141,7 +141,7 @@ func writeCheckTable(w io.Writer, ios *IOStreams, sp *spec.Spec, r *budget.Resul
 		if margin == "" {
 			margin = formatMargin(l.Margin)
 		}
-		t.row(l.Name, formatBudgetValue(l.Value, l.Unit), formatBudgetValue(l.Limit, l.Unit), margin, res)
+		t.row(l.Name, budget.FormatFigure(l.Value, l.Unit), budget.FormatFigure(l.Limit, l.Unit), margin, res)
 	}
 	if err := t.render(w); err != nil {
 		return err
@@ -159,7 +159,7 @@ func writeCheckTable(w io.Writer, ios *IOStreams, sp *spec.Spec, r *budget.Resul
 		fmt.Fprintf(w, "\n%s\n", ios.Bold("Contributors to "+l.Name+":"))
 		ct := newTable(ios, "CONTRIBUTOR", "SIZE", "SHARE").alignRight(1, 2)
 		for _, c := range l.Contributors {
-			size := formatBudgetValue(c.Value, l.Unit)
+			size := budget.FormatFigure(c.Value, l.Unit)
 			if l.Unit == "dB" {
 				// A dB figure does not split into terms; the share says it.
 				size = strconv.FormatFloat(c.Value, 'g', 3, 64)

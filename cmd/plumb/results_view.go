@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	"plumb/catalog/units"
+	"plumb/optimize/budget"
 	"plumb/optimize/search"
 )
 
@@ -28,34 +29,16 @@ func formatLimitValue(name string, v float64) string {
 	if !ok {
 		return strconv.FormatFloat(v, 'g', 4, 64)
 	}
-	return formatBudgetValue(v, unit)
+	return budget.FormatFigure(v, unit)
 }
 
 // limitValue prints a figure of limit l in the limit's own unit, or in
 // the unit its name implies when the limit carries none.
 func limitValue(l search.Limit, v float64) string {
 	if l.Unit != "" {
-		return formatBudgetValue(v, l.Unit)
+		return budget.FormatFigure(v, l.Unit)
 	}
 	return formatLimitValue(l.Name, v)
-}
-
-// formatBudgetValue prints a budget figure in its unit ("" is a fraction,
-// printed as percent).
-func formatBudgetValue(v float64, unit string) string {
-	switch unit {
-	case "":
-		return units.FormatPercent(v)
-	case "dB":
-		return strconv.FormatFloat(v, 'f', 1, 64) + " dB"
-	case "ppm/K":
-		return strconv.FormatFloat(v, 'g', 3, 64) + " ppm/K"
-	case "V/rtHz":
-		return units.Format(v, "V/√Hz")
-	case "ohm":
-		return units.FormatOhms(v) + " ohm"
-	}
-	return units.Format(v, unit)
 }
 
 // formatMargin prints a margin ratio (above 1 passes).

@@ -1,5 +1,11 @@
 package budget
 
+import (
+	"strconv"
+
+	"plumb/catalog/units"
+)
+
 // Contribution is one term of a metric's budget: a part's tolerance, a
 // tempco, an amplifier figure or the ratio quantization.
 type Contribution struct {
@@ -161,3 +167,23 @@ const (
 	LimitPower          = "resistor power"
 	LimitVoltage        = "resistor voltage"
 )
+
+// FormatFigure writes a figure in the unit words of Limit.Unit, as every
+// command and report prints them: a bare fraction ("") as percent, dB to a
+// tenth, ppm/K to three figures, resistance in R-notation with "ohm", and
+// the rest in engineering notation with an SI prefix (4.275 mV, 3.334 MHz).
+func FormatFigure(v float64, unit string) string {
+	switch unit {
+	case "":
+		return units.FormatPercent(v)
+	case "dB":
+		return strconv.FormatFloat(v, 'f', 1, 64) + " dB"
+	case "ppm/K":
+		return strconv.FormatFloat(v, 'g', 3, 64) + " ppm/K"
+	case "V/rtHz":
+		return units.Format(v, "V/√Hz")
+	case "ohm":
+		return units.FormatOhms(v) + " ohm"
+	}
+	return units.Format(v, unit)
+}

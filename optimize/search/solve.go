@@ -10,7 +10,6 @@ import (
 	"strings"
 
 	"plumb/catalog"
-	"plumb/catalog/units"
 	"plumb/optimize/budget"
 	"plumb/optimize/cost"
 	"plumb/optimize/spec"
@@ -324,24 +323,9 @@ func (r *Result) DesignN(n int) (*spec.Design, error) {
 	return r.designs[n-1], nil
 }
 
-// limitText formats a limit's value with its unit in engineering
-// notation: fractions (gain error, share of a rating) as percent, dB and
-// ppm/K as written, the rest with an SI prefix (4.3 mV, 3.33 MHz).
-func limitText(l Limit) string {
-	switch l.Unit {
-	case "":
-		return fmt.Sprintf("%.3g %%", 100*l.Value)
-	case "dB":
-		return fmt.Sprintf("%.1f dB", l.Value)
-	case "ppm/K":
-		return fmt.Sprintf("%.3g ppm/K", l.Value)
-	case "V/rtHz":
-		return units.Format(l.Value, "V/√Hz")
-	case "ohm":
-		return units.Format(l.Value, "Ω")
-	}
-	return units.Format(l.Value, l.Unit)
-}
+// limitText formats a limit's value with its unit, as the budget prints
+// its figures.
+func limitText(l Limit) string { return budget.FormatFigure(l.Value, l.Unit) }
 
 func findLimit(ls []Limit, name string) (Limit, bool) {
 	for _, l := range ls {
