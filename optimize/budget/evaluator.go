@@ -534,12 +534,15 @@ func (e *Evaluator) solve() float64 {
 }
 
 // eval solves the stage at parameter point x and temperature t: the
-// signal transfer, the common-mode transfer and the base output with the
-// reference applied, each exactly. The amplifier transfers (Vos and bias
-// currents to the output, pin common mode) are solved once per candidate
-// at nominal values (see ampTransfers) and reused: they move with the
-// resistor tolerances only by the tolerance fraction itself, a
-// second-order change of terms that are already small.
+// signal transfer, the common-mode transfer, the base output with the
+// reference applied and the transfers of every op-amp's Vos and bias
+// currents to the output, each exactly, from one factorization and one
+// adjoint solve (circuit.Solver.Adjoint). Each op-amp's pin common mode
+// per volt of input common mode and its noise gain are solved once per
+// candidate at nominal values (see ampTransfers) and reused: they move with
+// the resistor tolerances only by the tolerance fraction itself, a
+// second-order change of terms that are already small (the amplifier's
+// share of CMRR; noise and bandwidth).
 func (e *Evaluator) eval(x []float64, t float64, life bool, p *point) error {
 	e.spread(x)
 	return e.evalSpread(x, t, life, p)
@@ -556,30 +559,50 @@ func (e *Evaluator) evalSpread(x []float64, t float64, life bool, p *point) erro
 	if err != nil {
 		return err
 	}
-	n := e.net
-	e.quiet()
-	e.driveSignal(1)
-	p.gain = e.sol.SolveOut()
+	sol := e.sol
+	sol.Adjoint()
+	p.gain = e.signalGain()
 	p.adm = p.gain
 	if e.shunt >= 0 {
-		p.adm = p.gain / n.Resistors[e.resIdx[e.shunt]].Ohm
+		p.adm = p.gain / e.net.Resistors[e.resIdx[e.shunt]].Ohm
 	}
-	e.driveSignal(-1)
-	if e.differential {
-		e.driveCM(1)
-		p.acm = e.sol.SolveOut()
-		e.driveCM(-1)
+	p.acm = 0
+	for _, i := range e.cmSrcs {
+		if i >= 0 {
+			p.acm += sol.SourceTransfer(i)
+		}
 	}
-	e.driveCM(e.cmBase)
+	// The output at zero signal: the inputs at the base common mode, the
+	// reference, the load's leakage.
+	p.base = e.cmBase * p.acm
 	if e.refSrc >= 0 && e.s.Reference != nil {
-		n.Sources[e.refSrc].V = e.s.Reference.V * ref
+		p.base += sol.SourceTransfer(e.refSrc) * (e.s.Reference.V * ref)
 	}
 	if e.leak >= 0 {
-		n.Currents[e.leak].A = e.s.LeakageA
+		p.base += sol.CurrentTransfer(e.leak) * e.s.LeakageA
 	}
-	p.base = e.sol.SolveOut()
-	p.pinCM, p.tvos, p.tibp, p.tibm, p.ng = e.ampT.pinCM, e.ampT.tvos, e.ampT.tibp, e.ampT.tibm, e.ampT.ng
+	if !e.differential {
+		p.acm = 0
+	}
+	for a, i := range e.amps {
+		p.tvos[a], p.tibp[a], p.tibm[a] = sol.AmpTransfers(i)
+	}
+	p.pinCM, p.ng = e.ampT.pinCM, e.ampT.ng
 	return nil
+}
+
+// signalGain is the transfer of a unit signal (1 V single-ended, ±0.5 V
+// differential, or 1 A through the shunt, as driveSignal applies it) from
+// the last Adjoint.
+func (e *Evaluator) signalGain() float64 {
+	switch {
+	case e.sigCur >= 0:
+		return e.sol.CurrentTransfer(e.sigCur)
+	case e.sigNeg >= 0:
+		return (e.sol.SourceTransfer(e.sigSrc) - e.sol.SourceTransfer(e.sigNeg)) / 2
+	default:
+		return e.sol.SourceTransfer(e.sigSrc)
+	}
 }
 
 // gainAt solves only the signal transfer at parameter point x and
@@ -593,11 +616,8 @@ func (e *Evaluator) gainAt(x []float64, t float64, life bool) (float64, error) {
 	if _, err := e.factorAt(x, t, life); err != nil {
 		return 0, err
 	}
-	e.quiet()
-	e.driveSignal(1)
-	g := e.sol.SolveOut()
-	e.driveSignal(-1)
-	return g, nil
+	e.sol.Adjoint()
+	return e.signalGain(), nil
 }
 
 // ampTransfers solves, at nominal values and the reference temperature,

@@ -91,3 +91,26 @@ func BenchmarkSolveDifference(b *testing.B) {
 		s.Solve(v)
 	}
 }
+
+// BenchmarkFactorAdjointDifference is one Factor, one adjoint solve and the
+// transfers of the two inputs, the reference and the op-amp's offset and
+// bias currents of a difference amplifier: the budget layer's per-point
+// work.
+func BenchmarkFactorAdjointDifference(b *testing.B) {
+	n := mustNew(Difference, Options{Load: true})
+	s := NewSolver(n)
+	b.ReportAllocs()
+	sum := 0.0
+	for b.Loop() {
+		if err := s.Factor(); err != nil {
+			b.Fatal(err)
+		}
+		s.Adjoint()
+		for k := range n.Sources {
+			sum += s.SourceTransfer(k)
+		}
+		v, p, m := s.AmpTransfers(0)
+		sum += v + p + m
+	}
+	_ = sum
+}

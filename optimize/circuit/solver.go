@@ -47,6 +47,21 @@ type Solver struct {
 	piv [MaxUnknowns]int
 	inv [MaxUnknowns]float64 // reciprocals of U's diagonal
 	x   [MaxUnknowns]float64
+	y   [MaxUnknowns]float64 // adjoint solution, see Adjoint
+
+	// Per source, the drives and op-amp rows it enters (see SourceTransfer):
+	// source k's are srcDrives[srcDriveAt[k]:srcDriveAt[k+1]], likewise
+	// srcAmps.
+	srcDrives  []drive
+	srcDriveAt []int
+	srcAmps    []ampRowTerm
+	srcAmpAt   []int
+}
+
+// ampRowTerm is a source's entry into an op-amp row: sign x the row scale.
+type ampRowTerm struct {
+	row  int
+	sign float64
 }
 
 // resStamp holds the matrix offsets a resistor's conductance is added to
@@ -199,6 +214,25 @@ func (s *Solver) compile() {
 		s.ibRows = append(s.ibRows, pinRows{a: kclRow(a.Plus), b: kclRow(a.Minus)})
 		s.aRHS = append(s.aRHS, ampSource{row: row, plusSrc: s.src[a.Plus], minusSrc: s.src[a.Minus]})
 	}
+	for k := range n.Sources {
+		s.srcDriveAt = append(s.srcDriveAt, len(s.srcDrives))
+		s.srcAmpAt = append(s.srcAmpAt, len(s.srcAmps))
+		for _, d := range s.drives {
+			if d.src == k {
+				s.srcDrives = append(s.srcDrives, d)
+			}
+		}
+		for _, as := range s.aRHS {
+			if as.plusSrc == k {
+				s.srcAmps = append(s.srcAmps, ampRowTerm{row: as.row, sign: 1})
+			}
+			if as.minusSrc == k {
+				s.srcAmps = append(s.srcAmps, ampRowTerm{row: as.row, sign: -1})
+			}
+		}
+	}
+	s.srcDriveAt = append(s.srcDriveAt, len(s.srcDrives))
+	s.srcAmpAt = append(s.srcAmpAt, len(s.srcAmps))
 }
 
 // Factor builds the reduced nodal matrix from the current resistor values
@@ -448,4 +482,98 @@ func (s *Solver) forward() {
 			b[i] -= a[i*m+k] * t
 		}
 	}
+}
+
+// Adjoint solves the transposed system for the output, at the resistor
+// values and gains of the last Factor, so that SourceTransfer,
+// CurrentTransfer and AmpTransfers can read every excitation's transfer to
+// the output: with A x = b the factored system and c the unit vector that
+// picks V(Out) from x, V(Out) = cᵀ A⁻¹ b = yᵀ b where Aᵀ y = c, so each
+// excitation's transfer is y dotted with the column it adds to b (the
+// adjoint network; the transposed solve with the LU factors as in LINPACK's
+// dgesl, Golub and Van Loan §3.4, from memory). The circuit is linear, so
+// V(Out) = Σ SourceTransfer(k) V_k + Σ CurrentTransfer(k) A_k + Σ (Tvos
+// Vos + Tib+ Ib+ + Tib- Ib-) exactly. One call costs about one Solve and
+// replaces one Solve per excitation. It panics as Solve does, and does not
+// allocate.
+func (s *Solver) Adjoint() {
+	if !s.factored {
+		panic("circuit: Adjoint called without a successful Factor")
+	}
+	if s.changed() {
+		panic("circuit: Adjoint: elements or nodes were added or removed after NewSolver; make a new Solver")
+	}
+	m := s.m
+	y := s.y[:m]
+	clear(y)
+	out := s.unk[s.n.Out]
+	if out < 0 {
+		// Ground, or a node a source fixes: only that source reaches it
+		// (see SourceTransfer), and y stays zero.
+		return
+	}
+	a := s.lu[:m*m]
+	y[out] = 1
+	// Uᵀ z = c, then Lᵀ w = z with the row swaps undone in reverse order.
+	for k := 0; k < m; k++ {
+		sum := y[k]
+		for i := 0; i < k; i++ {
+			sum -= a[i*m+k] * y[i]
+		}
+		y[k] = sum * s.inv[k]
+	}
+	for k := m - 2; k >= 0; k-- {
+		sum := y[k]
+		for i := k + 1; i < m; i++ {
+			sum -= a[i*m+k] * y[i]
+		}
+		y[k] = sum
+		if p := s.piv[k]; p != k {
+			y[k], y[p] = y[p], y[k]
+		}
+	}
+}
+
+// SourceTransfer returns dV(Out)/dV of voltage source k from the last
+// Adjoint: the source's conductances into free nodes and the op-amp rows
+// whose inputs it drives, weighted by the adjoint solution.
+func (s *Solver) SourceTransfer(k int) float64 {
+	if s.src[s.n.Out] == k {
+		return 1
+	}
+	sum := 0.0
+	for _, d := range s.srcDrives[s.srcDriveAt[k]:s.srcDriveAt[k+1]] {
+		sum += s.g[d.res] * s.y[d.row]
+	}
+	for _, r := range s.srcAmps[s.srcAmpAt[k]:s.srcAmpAt[k+1]] {
+		sum += r.sign * s.scale * s.y[r.row]
+	}
+	return sum
+}
+
+// CurrentTransfer returns dV(Out)/dA of current source k (current into its
+// To node) from the last Adjoint.
+func (s *Solver) CurrentTransfer(k int) float64 {
+	r := s.cRows[k]
+	sum := 0.0
+	if r.a >= 0 {
+		sum += s.y[r.a]
+	}
+	if r.b >= 0 {
+		sum -= s.y[r.b]
+	}
+	return sum
+}
+
+// AmpTransfers returns the transfers to the output of op-amp k's offset
+// voltage (V/V) and of its non-inverting and inverting bias currents (V/A)
+// from the last Adjoint.
+func (s *Solver) AmpTransfers(k int) (vos, ibPlus, ibMinus float64) {
+	if r := s.ibRows[k]; r.a >= 0 {
+		ibPlus = -s.y[r.a]
+	}
+	if r := s.ibRows[k]; r.b >= 0 {
+		ibMinus = -s.y[r.b]
+	}
+	return s.scale * s.y[s.aRHS[k].row], ibPlus, ibMinus
 }
