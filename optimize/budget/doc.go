@@ -39,8 +39,10 @@
 //
 // Amplifier terms (Vos and its drift, bias and offset currents, CMRR) are
 // linear in the output; worst case adds them at their worst sign, RSS in
-// quadrature, Monte Carlo draws them. Their transfers are solved once per
-// candidate at nominal values.
+// quadrature, Monte Carlo draws them. Their transfers to the output come
+// from the same adjoint solve as the gain at every point and temperature;
+// only each op-amp's pin common mode (its share of CMRR) and noise gain are
+// solved once per candidate at nominal values.
 //
 // Evaluate builds a full Result for reports. The search uses an Evaluator:
 // Score is allocation-free and, under worst case, evaluates the corners the

@@ -135,7 +135,7 @@ type Evaluator struct {
 	headAmp    int // amplifier and pin of the least headroom
 	headPin    int
 	sens       []sensRow
-	ampT       point     // amplifier transfers at nominal values
+	ampT       point     // pin common mode and noise gains at nominal values
 	mcBuf      []float64 // Monte Carlo sample columns kept between runs without samples
 }
 
@@ -561,16 +561,10 @@ func (e *Evaluator) evalSpread(x []float64, t float64, life bool, p *point) erro
 	}
 	sol := e.sol
 	sol.Adjoint()
-	p.gain = e.signalGain()
+	p.gain, p.acm = e.inputTransfers()
 	p.adm = p.gain
 	if e.shunt >= 0 {
 		p.adm = p.gain / e.net.Resistors[e.resIdx[e.shunt]].Ohm
-	}
-	p.acm = 0
-	for _, i := range e.cmSrcs {
-		if i >= 0 {
-			p.acm += sol.SourceTransfer(i)
-		}
 	}
 	// The output at zero signal: the inputs at the base common mode, the
 	// reference, the load's leakage.
@@ -591,18 +585,26 @@ func (e *Evaluator) evalSpread(x []float64, t float64, life bool, p *point) erro
 	return nil
 }
 
-// signalGain is the transfer of a unit signal (1 V single-ended, ±0.5 V
-// differential, or 1 A through the shunt, as driveSignal applies it) from
-// the last Adjoint.
-func (e *Evaluator) signalGain() float64 {
+// inputTransfers returns, from the last Adjoint, the transfer of a unit
+// signal (1 V single-ended, ±0.5 V differential, or 1 A through the shunt,
+// as driveSignal applies it) and of a unit common mode on the inputs (or
+// the shunt), as driveCM applies it.
+func (e *Evaluator) inputTransfers() (gain, acm float64) {
+	var tcm [2]float64
+	for k, i := range e.cmSrcs {
+		if i >= 0 {
+			tcm[k] = e.sol.SourceTransfer(i)
+		}
+	}
 	switch {
 	case e.sigCur >= 0:
-		return e.sol.CurrentTransfer(e.sigCur)
-	case e.sigNeg >= 0:
-		return (e.sol.SourceTransfer(e.sigSrc) - e.sol.SourceTransfer(e.sigNeg)) / 2
+		gain = e.sol.CurrentTransfer(e.sigCur)
+	case e.sigNeg >= 0: // the common-mode sources are vp and vn
+		gain = (tcm[0] - tcm[1]) / 2
 	default:
-		return e.sol.SourceTransfer(e.sigSrc)
+		gain = e.sol.SourceTransfer(e.sigSrc)
 	}
+	return gain, tcm[0] + tcm[1]
 }
 
 // gainAt solves only the signal transfer at parameter point x and
@@ -617,13 +619,15 @@ func (e *Evaluator) gainAt(x []float64, t float64, life bool) (float64, error) {
 		return 0, err
 	}
 	e.sol.Adjoint()
-	return e.signalGain(), nil
+	g, _ := e.inputTransfers()
+	return g, nil
 }
 
 // ampTransfers solves, at nominal values and the reference temperature,
-// each amplifier's pin common mode per volt of input common mode and the
-// transfers from its Vos, Ib+ and Ib- to the output, and its own-loop
-// noise gain.
+// each amplifier's pin common mode per volt of input common mode and its
+// own-loop noise gain (|V(Out)| of the op-amp itself per volt of its Vos).
+// The transfers to the output come from every point's own adjoint solve
+// (see evalSpread).
 func (e *Evaluator) ampTransfers() error {
 	if e.matched {
 		return nil
@@ -647,14 +651,9 @@ func (e *Evaluator) ampTransfers() error {
 		op := &n.OpAmps[i]
 		e.quiet()
 		op.Vos = 1
-		p.tvos[a] = e.solve()
+		e.sol.Solve(e.v)
 		p.ng[a] = math.Abs(e.v[op.Out])
 		op.Vos = 0
-		op.IbPlus = 1
-		p.tibp[a] = e.sol.SolveOut()
-		op.IbPlus, op.IbMinus = 0, 1
-		p.tibm[a] = e.sol.SolveOut()
-		op.IbMinus = 0
 	}
 	return nil
 }

@@ -179,12 +179,14 @@ func (e *Evaluator) nominal(m *Metrics, terms *[]noiseTerm) error {
 	if _, err := e.factorAt(e.x, e.s.TempRef, false); err != nil {
 		return err
 	}
+	// One adjoint solve gives every noise source's transfer to the output:
+	// each resistor's thermal noise current across it, each op-amp's
+	// voltage noise (as its Vos) and current noise (as its bias currents).
 	n := e.net
+	e.sol.Adjoint()
 	var d2 float64
 	for i := range n.Resistors {
-		e.quiet()
-		n.Currents[e.noiseIdx[i]].A = 1
-		t := e.solve() * math.Sqrt(4*Boltzmann*kelvin/n.Resistors[i].Ohm)
+		t := e.sol.CurrentTransfer(e.noiseIdx[i]) * math.Sqrt(4*Boltzmann*kelvin/n.Resistors[i].Ohm)
 		d2 += t * t
 		if terms != nil {
 			*terms = append(*terms, noiseTerm{res: i, v: math.Abs(t)})
@@ -192,21 +194,14 @@ func (e *Evaluator) nominal(m *Metrics, terms *[]noiseTerm) error {
 	}
 	m.BandwidthHz = 0
 	for ai, i := range e.amps {
-		op := &n.OpAmps[i]
-		e.quiet()
-		op.Vos = 1
-		tv := e.solve()
-		ng := math.Abs(e.v[op.Out])
+		ng := e.ampT.ng[ai]
 		if ai == 0 {
 			m.NoiseGain = ng
 		}
 		if bw := a.GBWHz / ng; a.GBWHz > 0 && (m.BandwidthHz == 0 || bw < m.BandwidthHz) {
 			m.BandwidthHz = bw
 		}
-		op.Vos, op.IbPlus = 0, 1
-		tp := e.solve()
-		op.IbPlus, op.IbMinus = 0, 1
-		tm := e.solve()
+		tv, tp, tm := e.sol.AmpTransfers(i)
 		vn := a.NoiseVHz * tv
 		in2 := a.NoiseAHz * a.NoiseAHz * (tp*tp + tm*tm)
 		d2 += vn*vn + in2

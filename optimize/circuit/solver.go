@@ -256,12 +256,14 @@ func (s *Solver) Factor() error {
 	a := s.lu[:m*m]
 	clear(a)
 	gmax := 0.0
-	for i, r := range s.n.Resistors {
-		if !(r.Ohm > 0) {
-			return fmt.Errorf("%w: resistor %q is %g ohm; a resistance must be positive (use +Inf for an open)", ErrSingular, r.Name, r.Ohm)
+	rs, gs := s.n.Resistors, s.g[:len(s.n.Resistors)]
+	for i := range gs {
+		ohm := rs[i].Ohm
+		if !(ohm > 0) {
+			return fmt.Errorf("%w: resistor %q is %g ohm; a resistance must be positive (use +Inf for an open)", ErrSingular, rs[i].Name, ohm)
 		}
-		g := 1 / r.Ohm
-		s.g[i] = g
+		g := 1 / ohm
+		gs[i] = g
 		if g > gmax {
 			gmax = g
 		}
@@ -283,12 +285,14 @@ func (s *Solver) Factor() error {
 		gmax = 1
 	}
 	s.scale = gmax
-	for k, op := range s.n.OpAmps {
-		if op.Gain == 0 || op.Gain != op.Gain {
-			return fmt.Errorf("%w: op-amp %q has open-loop gain %g; it must be non-zero (use +Inf for an ideal amplifier)", ErrSingular, op.Name, op.Gain)
+	ops := s.n.OpAmps
+	for k := range ops {
+		gain := ops[k].Gain
+		if gain == 0 || gain != gain {
+			return fmt.Errorf("%w: op-amp %q has open-loop gain %g; it must be non-zero (use +Inf for an ideal amplifier)", ErrSingular, ops[k].Name, gain)
 		}
 		st := s.aStamps[k]
-		a[st.diag] += gmax / op.Gain
+		a[st.diag] += gmax / gain
 		if st.plus >= 0 {
 			a[st.plus] -= gmax
 		}
@@ -310,11 +314,11 @@ func (s *Solver) Factor() error {
 			tiny[j] = gmax
 		}
 	}
-	for _, op := range s.n.OpAmps {
-		if u := s.unk[op.Plus]; u >= 0 {
+	for k := range ops {
+		if u := s.unk[ops[k].Plus]; u >= 0 {
 			tiny[u] = max(tiny[u], gmax)
 		}
-		if u := s.unk[op.Minus]; u >= 0 {
+		if u := s.unk[ops[k].Minus]; u >= 0 {
 			tiny[u] = max(tiny[u], gmax)
 		}
 	}
