@@ -6,6 +6,28 @@ import (
 	"testing"
 )
 
+// adjointOut factors n, solves its adjoint and returns V(out) as the sum of
+// every excitation times its transfer.
+func adjointOut(n *Netlist) (float64, error) {
+	s := NewSolver(n)
+	if err := s.Factor(); err != nil {
+		return 0, err
+	}
+	s.Adjoint()
+	out := 0.0
+	for k, v := range n.Sources {
+		out += s.SourceTransfer(k) * v.V
+	}
+	for k, i := range n.Currents {
+		out += s.CurrentTransfer(k) * i.A
+	}
+	for k, a := range n.OpAmps {
+		tv, tp, tm := s.AmpTransfers(k)
+		out += tv*a.Vos + tp*a.IbPlus + tm*a.IbMinus
+	}
+	return out, nil
+}
+
 // unitExcitation is one excitation of a netlist: a copy with it at 1 (V or
 // A) and every other excitation at 0, and the solver's transfer for it.
 type unitExcitation struct {
@@ -104,16 +126,9 @@ func TestAdjointAgainstGonumMNA(t *testing.T) {
 					}
 				}
 				// Superposition: Σ transfer x excitation = V(out) of the forward solve.
-				out := 0.0
-				for k, v := range n.Sources {
-					out += s.SourceTransfer(k) * v.V
-				}
-				for k, i := range n.Currents {
-					out += s.CurrentTransfer(k) * i.A
-				}
-				for k, a := range n.OpAmps {
-					tv, tp, tm := s.AmpTransfers(k)
-					out += tv*a.Vos + tp*a.IbPlus + tm*a.IbMinus
+				out, err := adjointOut(n)
+				if err != nil {
+					t.Fatal(err)
 				}
 				v := make([]float64, len(n.Nodes))
 				s.Solve(v)
