@@ -253,14 +253,13 @@ func (e *Evaluator) limits(sc *Score, npts int, pn *[4]point, res *Result) {
 		m.NoiseDensity, m.BandwidthHz, m.InputImpedanceOhm, m.HeadroomV, m.PowerRatio, m.VoltageRatio}
 	lims := [NumLimits]float64{l.GainError, l.CMRRdB, l.GainDrift * 1e6, l.OutputOffsetV, l.OffsetDriftVK, l.NoiseRMSV,
 		l.NoiseDensity, l.BandwidthHz, l.InputImpedance, 0, 1, 1}
-	units := [NumLimits]string{"", "dB", "ppm/K", "V", "V/K", "V", "V/rtHz", "Hz", "ohm", "V", "", ""}
 	isMax := [NumLimits]bool{true, false, true, true, true, true, true, false, false, false, true, true}
 	contrib := e.contributors(npts, pn)
 	for i := 0; i < NumLimits; i++ {
 		if !sc.Checked[i] {
 			continue
 		}
-		lim := Limit{Name: LimitNames[i], Value: values[i], Limit: lims[i], Max: isMax[i], Margin: finite(sc.Margin[i]), Pass: sc.Pass[i], Unit: units[i]}
+		lim := Limit{Name: LimitNames[i], Value: values[i], Limit: lims[i], Max: isMax[i], Margin: finite(sc.Margin[i]), Pass: sc.Pass[i], Unit: LimitUnits[i]}
 		lim.MarginText = marginText(lim, sc.Margin[i])
 		lim.Contributors = contrib[i]
 		res.Limits = append(res.Limits, lim)

@@ -27,6 +27,22 @@ const (
 var LimitNames = [NumLimits]string{LimitGainError, LimitCMRR, LimitGainDrift, LimitOutputOffset, LimitOffsetDrift,
 	LimitNoiseRMS, LimitNoiseDensity, LimitBandwidth, LimitInputImpedance, LimitHeadroom, LimitPower, LimitVoltage}
 
+// LimitUnits are the units of each limit's figures by index, in the words
+// of Limit.Unit ("" is a bare fraction: gain error, and resistor power and
+// voltage as fractions of their derated ratings).
+var LimitUnits = [NumLimits]string{"", "dB", "ppm/K", "V", "V/K", "V", "V/rtHz", "Hz", "ohm", "V", "", ""}
+
+// UnitOf returns the unit of the limit named name, as LimitUnits holds it;
+// "" for a name that is not a limit.
+func UnitOf(name string) string {
+	for i, n := range LimitNames {
+		if n == name {
+			return LimitUnits[i]
+		}
+	}
+	return ""
+}
+
 // Score is the allocation-free outcome of Evaluator.Score.
 type Score struct {
 	Metrics Metrics

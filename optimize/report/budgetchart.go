@@ -21,14 +21,18 @@ func budgetAxis(l budget.Limit) (axis string, conv func(float64) float64, limit,
 	case l.Name == budget.LimitCMRR:
 		inv := func(db float64) float64 { return 1e6 / math.Pow(10, db/20) }
 		return "common-mode gain / differential gain (ppm)", func(v float64) float64 { return 1e6 * v }, inv(l.Limit), inv(l.Value)
-	case limitUnit(l.Name, l.Unit) == "%":
+	case l.Unit == "": // fractions: gain error, or resistor stress of its rating
 		f := func(v float64) float64 { return 100 * v }
-		return "contribution to |gain error| (%)", f, f(l.Limit), f(l.Value)
+		axis := "contribution to |gain error| (%)"
+		if l.Name != budget.LimitGainError {
+			axis = "contribution (% of rating)"
+		}
+		return axis, f, f(l.Limit), f(l.Value)
 	case l.Unit == "ppm/K":
 		f := func(v float64) float64 { return v }
 		return "contribution (ppm/K)", f, l.Limit, l.Value
 	}
-	u := limitUnit(l.Name, l.Unit)
+	u := unitSymbol(l.Unit)
 	m, pu := scale(math.Max(math.Abs(l.Limit), math.Abs(l.Value)), u)
 	f := func(v float64) float64 { return m * v }
 	return "contribution (" + pu + ")", f, f(l.Limit), f(l.Value)
@@ -100,7 +104,7 @@ func budgetChart(method string, l budget.Limit) (Plot, Table, error) {
 	t.Rows = append(t.Rows, []Cell{{Text: "total, " + combine, Class: "total"}, {Text: sig(total), Class: "total"}, {Text: ""}})
 	t.Rows = append(t.Rows, []Cell{{Text: "limit", Class: "limit"}, {Text: sig(limit), Class: "limit"}, {Text: l.MarginText}})
 
-	title := fmt.Sprintf("%s: %s against %s%s (%s)", l.Name, fmtLimit(l.Name, l.Unit, l.Value), limitSide(l), fmtLimit(l.Name, l.Unit, l.Limit), l.MarginText)
+	title := fmt.Sprintf("%s: %s against %s%s (%s)", l.Name, budget.FormatFigure(l.Value, l.Unit), limitSide(l), budget.FormatFigure(l.Limit, l.Unit), l.MarginText)
 	p := newPlot(title, axis, "")
 	g := plotter.NewGrid()
 	g.Horizontal.Width, g.Vertical.Color = 0, colGreyLight
@@ -137,7 +141,7 @@ func budgetChart(method string, l budget.Limit) (Plot, Table, error) {
 		return Plot{}, Table{}, err
 	}
 	p.Add(line)
-	lab, err := plotter.NewLabels(plotter.XYLabels{XYs: plotter.XYs{{X: limit, Y: top}}, Labels: []string{" limit " + fmtLimit(l.Name, l.Unit, l.Limit)}})
+	lab, err := plotter.NewLabels(plotter.XYLabels{XYs: plotter.XYs{{X: limit, Y: top}}, Labels: []string{" limit " + budget.FormatFigure(l.Limit, l.Unit)}})
 	if err != nil {
 		return Plot{}, Table{}, err
 	}

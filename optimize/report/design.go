@@ -150,7 +150,7 @@ func limitTable(res *budget.Result) Table {
 			verdict += ", binding"
 			class += " binding"
 		}
-		t.Rows = append(t.Rows, []Cell{{Text: l.Name}, {Text: fmtLimit(l.Name, l.Unit, l.Value)}, {Text: limitSide(l) + fmtLimit(l.Name, l.Unit, l.Limit)},
+		t.Rows = append(t.Rows, []Cell{{Text: l.Name}, {Text: budget.FormatFigure(l.Value, l.Unit)}, {Text: limitSide(l) + budget.FormatFigure(l.Limit, l.Unit)},
 			{Text: l.MarginText}, {Text: verdict, Class: class}})
 	}
 	return t
@@ -199,7 +199,7 @@ func compareTable(ds []*Design) Table {
 		row(n, func(d *Design) Cell {
 			for _, l := range d.result.Limits {
 				if l.Name == n {
-					c := Cell{Text: fmt.Sprintf("%s / %s%s (%s)", fmtLimit(l.Name, l.Unit, l.Value), limitSide(l), fmtLimit(l.Name, l.Unit, l.Limit), l.MarginText), Class: "pass"}
+					c := Cell{Text: fmt.Sprintf("%s / %s%s (%s)", budget.FormatFigure(l.Value, l.Unit), limitSide(l), budget.FormatFigure(l.Limit, l.Unit), l.MarginText), Class: "pass"}
 					if !l.Pass {
 						c.Class = "fail"
 					}

@@ -11,29 +11,9 @@ import (
 	"plumb/optimize/spec"
 )
 
-// limitUnit is the display unit of a limit's figures, from its budget unit
-// or, for names whose budget unit is a bare ratio, from the name.
-func limitUnit(name, unit string) string {
-	switch name {
-	case budget.LimitGainError, "gain error initial":
-		return "%"
-	case budget.LimitPower, budget.LimitVoltage:
-		return "% of rating"
-	case budget.LimitCMRR:
-		return "dB"
-	case budget.LimitGainDrift:
-		return "ppm/K"
-	case budget.LimitOutputOffset, budget.LimitNoiseRMS, budget.LimitHeadroom:
-		return "V"
-	case budget.LimitOffsetDrift:
-		return "V/K"
-	case budget.LimitNoiseDensity:
-		return "V/√Hz"
-	case budget.LimitBandwidth:
-		return "Hz"
-	case budget.LimitInputImpedance:
-		return "Ω"
-	}
+// unitSymbol is the symbol a chart axis shows for a budget unit word
+// (Limit.Unit).
+func unitSymbol(unit string) string {
 	switch unit {
 	case "ohm":
 		return "Ω"
@@ -41,22 +21,6 @@ func limitUnit(name, unit string) string {
 		return "V/√Hz"
 	}
 	return unit
-}
-
-// fmtLimit writes a limit's figure in engineering notation with its unit.
-func fmtLimit(name, unit string, v float64) string {
-	u := limitUnit(name, unit)
-	switch u {
-	case "%", "% of rating":
-		return sig(100*v) + " " + u
-	case "dB":
-		return strconv.FormatFloat(v, 'f', 1, 64) + " dB"
-	case "ppm/K":
-		return sig(v) + " ppm/K"
-	case "":
-		return sig(v)
-	}
-	return units.Format(v, u)
 }
 
 // sig writes v to three significant figures, as a plain decimal between
@@ -151,7 +115,7 @@ func specRows(s *spec.Spec) []Row {
 	l := s.Limits
 	pct := func(v float64) string { return sig(100*v) + " %" }
 	opt("limit: gain error (max)", l.GainError, pct)
-	opt("limit: CMRR (min)", l.CMRRdB, func(v float64) string { return fmtLimit(budget.LimitCMRR, "", v) })
+	opt("limit: CMRR (min)", l.CMRRdB, func(v float64) string { return budget.FormatFigure(v, "dB") })
 	opt("limit: gain drift (max)", l.GainDrift, func(v float64) string { return sig(1e6*v) + " ppm/K" })
 	opt("limit: output offset (max)", l.OutputOffsetV, eng("V"))
 	opt("limit: offset drift (max)", l.OffsetDriftVK, eng("V/K"))

@@ -144,7 +144,7 @@ func histogram(hm histMetric, samples []float64, lim float64, mc *budget.MCSumma
 		return Plot{}, err
 	}
 	caption := fmt.Sprintf("Distribution of %s over %d Monte Carlo trials (seed %d); the dashed vermilion line is the limit %s.",
-		hm.title, mc.Trials, mc.Seed, fmtLimit(hm.limit, "", lim))
+		hm.title, mc.Trials, mc.Seed, budget.FormatFigure(lim, budget.UnitOf(hm.limit)))
 	if dropped > 0 {
 		caption += fmt.Sprintf(" %d trials with no finite value (a perfect match) are left out of the bins.", dropped)
 	}

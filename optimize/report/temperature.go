@@ -98,7 +98,7 @@ func temperatureCurve(s *spec.Spec, d *spec.Design, n int) (*Plot, *budget.TempC
 			p.Add(lab)
 			lines++
 		}
-		caption += "; the dashed vermilion lines bound the gain-error limit ±" + fmtLimit(budget.LimitGainError, "", lim) + "."
+		caption += "; the dashed vermilion lines bound the gain-error limit ±" + budget.FormatFigure(lim, "") + "."
 	} else {
 		caption += "; the spec sets no gain-error limit, so no limit band is drawn."
 	}
