@@ -2,7 +2,6 @@ package search
 
 import (
 	"fmt"
-	"strings"
 
 	"plumb/optimize/budget"
 	"plumb/optimize/spec"
@@ -81,34 +80,17 @@ func metricsOf(m budget.Metrics) Metrics {
 		NoiseDensity: m.NoiseDensity, NoiseRMSV: m.NoiseRMSV, BandwidthHz: m.BandwidthHz}
 }
 
-// budgetReasons rewrites the reason lines that quote figures (the limit
-// summary and the binding limit with its dominant contributor) from the
-// exact budget adopted by d; the other lines are kept.
-func budgetReasons(d *Design) {
-	br := d.budget
-	if br == nil {
-		return
+// budgetDominant returns the largest contributor to limit in the exact
+// budget d adopted, and its share; found is false without a budget or a
+// breakdown of that limit.
+func budgetDominant(d *Design, limit string) (name string, share float64, found bool) {
+	if d.budget == nil {
+		return "", 0, false
 	}
-	var bind string
-	for _, l := range br.Limits {
-		if l.Name != br.Binding {
-			continue
-		}
-		bind = fmt.Sprintf("binding limit: %s at margin %.2fx", l.Name, l.Margin)
-		if len(l.Contributors) > 0 {
-			c := l.Contributors[0]
-			bind += fmt.Sprintf(", dominated by %s (%.0f %% of it)", c.Name, 100*c.Share)
+	for _, l := range d.budget.Limits {
+		if l.Name == limit && len(l.Contributors) > 0 {
+			return l.Contributors[0].Name, l.Contributors[0].Share, true
 		}
 	}
-	out := []string{limitSummary(d.Limits)}
-	if bind != "" {
-		out = append(out, bind)
-	}
-	for _, r := range d.Reasons {
-		if strings.HasPrefix(r, "meets every limit") || strings.HasPrefix(r, "the spec sets no error limit") || strings.HasPrefix(r, "binding limit:") {
-			continue
-		}
-		out = append(out, r)
-	}
-	d.Reasons = out
+	return "", 0, false
 }

@@ -467,7 +467,6 @@ func rankMerged(res *Result, all []subDesign, top int, verify verifier, reasons 
 		}
 		c.d.Rank = len(res.Designs) + 1
 		c.d.Reasons = reasons(&c.d, res.Designs)
-		budgetReasons(&c.d)
 		if unverified != nil {
 			c.d.Reasons = append(c.d.Reasons, "not confirmed by the exact budget: "+unverified.Error())
 		}

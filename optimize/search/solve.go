@@ -213,7 +213,6 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 		d.Rank = len(res.Designs) + 1
 		d.ValueVariants = sp.variants(&top[i])
 		d.Reasons = sp.reasons(&top[i], &d, res.Designs)
-		budgetReasons(&d)
 		if unverified != nil {
 			d.Reasons = append(d.Reasons, "not confirmed by the exact budget: "+unverified.Error())
 		}
@@ -337,11 +336,15 @@ func findLimit(ls []Limit, name string) (Limit, bool) {
 }
 
 // reasons explains a ranked design: its limits, the binding limit and its
-// dominant contributor, and why it ranks below the design above.
+// dominant contributor (from the exact budget the design adopted, else
+// from the screening figures), and why it ranks below the design above.
 func (s *space) reasons(b *classBest, d *Design, above []Design) []string {
 	out := []string{limitSummary(d.Limits)}
 	if bl, ok := binding(d.Limits); ok {
-		name, share := s.dominant(b, bl.Name)
+		name, share, found := budgetDominant(d, bl.Name)
+		if !found {
+			name, share = s.dominant(b, bl.Name)
+		}
 		out = append(out, fmt.Sprintf("binding limit: %s at margin %.2fx, dominated by %s (%.0f %% of it)", bl.Name, bl.Margin, name, 100*share))
 	}
 	if len(above) == 0 {
