@@ -150,7 +150,7 @@ func writeCheckTable(w io.Writer, ios *IOStreams, sp *spec.Spec, r *budget.Resul
 		fmt.Fprintf(w, "binding limit: %s\n", r.Binding)
 	}
 	if r.WorstCorner != "" {
-		fmt.Fprintf(w, "worst corner: %s\n", r.WorstCorner)
+		writeHanging(w, ios, "", "  ", "worst corner: "+r.WorstCorner)
 	}
 	for _, l := range r.Limits {
 		if len(l.Contributors) == 0 {

@@ -190,15 +190,19 @@ func writeSolveTable(w io.Writer, ios *IOStreams, title string, r *search.Result
 
 // writeBullet writes "  - text", wrapped to the terminal width on a
 // terminal.
-func writeBullet(w io.Writer, ios *IOStreams, text string) {
+func writeBullet(w io.Writer, ios *IOStreams, text string) { writeHanging(w, ios, "  - ", "    ", text) }
+
+// writeHanging writes text after lead; on a terminal it wraps it to the
+// page with cont before each continuation line (lead and cont of the same
+// width). Piped output keeps one line per item, for grep.
+func writeHanging(w io.Writer, ios *IOStreams, lead, cont, text string) {
 	lines := []string{text}
 	if ios.IsStdoutTTY() {
-		lines = wrapText(text, ios.width-4)
+		lines = wrapText(text, ios.width-max(textWidth(lead), textWidth(cont)))
 	}
 	for i, l := range lines {
-		lead := "  - "
 		if i > 0 {
-			lead = "    "
+			lead = cont
 		}
 		fmt.Fprintln(w, lead+l)
 	}
