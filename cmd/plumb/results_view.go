@@ -13,23 +13,11 @@ import (
 	"plumb/optimize/search"
 )
 
-// searchLimitUnits gives the unit of each of the search's limit names, in
-// package budget's unit words ("" is a fraction).
-var searchLimitUnits = map[string]string{
-	"gain error": "", "gain error initial": "", "CMRR": "dB", "gain drift": "ppm/K",
-	"output offset": "V", "offset drift": "V/K", "noise density": "V/rtHz", "noise RMS": "V",
-	"bandwidth": "Hz", "input impedance": "ohm", "amplifier headroom": "V",
-	"resistor power": "", "resistor voltage": "",
-}
-
 // formatLimitValue prints a search limit figure in the unit its name
-// implies.
+// implies (budget.UnitOf; "gain error initial", the search's one name of
+// its own, is a fraction like gain error).
 func formatLimitValue(name string, v float64) string {
-	unit, ok := searchLimitUnits[name]
-	if !ok {
-		return strconv.FormatFloat(v, 'g', 4, 64)
-	}
-	return budget.FormatFigure(v, unit)
+	return budget.FormatFigure(v, budget.UnitOf(name))
 }
 
 // limitValue prints a figure of limit l in the limit's own unit, or in
@@ -190,7 +178,9 @@ func writeSolveTable(w io.Writer, ios *IOStreams, title string, r *search.Result
 
 // writeBullet writes "  - text", wrapped to the terminal width on a
 // terminal.
-func writeBullet(w io.Writer, ios *IOStreams, text string) { writeHanging(w, ios, "  - ", "    ", text) }
+func writeBullet(w io.Writer, ios *IOStreams, text string) {
+	writeHanging(w, ios, "  - ", "    ", text)
+}
 
 // writeHanging writes text after lead; on a terminal it wraps it to the
 // page with cont before each continuation line (lead and cont of the same

@@ -184,15 +184,15 @@ type InfeasibleLimit struct {
 
 // Limit names, shared with package budget's result.
 const (
-	limGain        = "gain error"
+	limGain        = budget.LimitGainError
 	limGainInitial = "gain error initial"
-	limCMRR        = "CMRR"
-	limDrift       = "gain drift"
-	limOffset      = "output offset"
-	limOffDrift    = "offset drift"
-	limNoise       = "noise density"
-	limNoiseRMS    = "noise RMS"
-	limBandwidth   = "bandwidth"
+	limCMRR        = budget.LimitCMRR
+	limDrift       = budget.LimitGainDrift
+	limOffset      = budget.LimitOutputOffset
+	limOffDrift    = budget.LimitOffsetDrift
+	limNoise       = budget.LimitNoiseDensity
+	limNoiseRMS    = budget.LimitNoiseRMS
+	limBandwidth   = budget.LimitBandwidth
 )
 
 // limitSet checks metrics against the problem's limits.
