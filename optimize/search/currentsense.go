@@ -198,9 +198,8 @@ func senseReasons(p *Problem, d *Design, above []Design) []string {
 	rs := d.Parts[0]
 	out := []string{fmt.Sprintf("shunt %s: %g ohm, %.3g %% %.3g ppm/K", rs.Part, rs.ValueOhm, 100*rs.Tolerance, rs.TCRppm),
 		limitSummary(d.Limits)}
-	if bl, ok := binding(d.Limits); ok {
-		txt := fmt.Sprintf("binding limit: %s at margin %.2fx", bl.Name, bl.Margin)
-		if bl.Name == limDrift && bl.Value > 0 {
+	if txt, ok := bindingLine(d, nil); ok {
+		if bl, _ := binding(d.Limits); bl.Name == limDrift && bl.Value > 0 {
 			txt += fmt.Sprintf("; the shunt's tempco is %.0f %% of it", 100*rs.TCRppm/bl.Value)
 		}
 		out = append(out, txt)

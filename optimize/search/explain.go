@@ -66,7 +66,7 @@ func adopt(d *Design, br *budget.Result) {
 	d.Metrics = metricsOf(br.Metrics)
 	d.Limits = d.Limits[:0:0]
 	for _, l := range br.Limits {
-		d.Limits = append(d.Limits, Limit{Name: l.Name, Value: l.Value, Limit: l.Limit, Margin: l.Margin, Pass: l.Pass, Unit: l.Unit})
+		d.Limits = append(d.Limits, Limit{Name: l.Name, Value: l.Value, Limit: l.Limit, Margin: l.Margin, Pass: l.Pass, Unit: l.Unit, MarginText: l.MarginText})
 	}
 	d.Binding = br.Binding
 	d.Cautions = br.Cautions
@@ -80,17 +80,40 @@ func metricsOf(m budget.Metrics) Metrics {
 		NoiseDensity: m.NoiseDensity, NoiseRMSV: m.NoiseRMSV, BandwidthHz: m.BandwidthHz}
 }
 
-// budgetDominant returns the largest contributor to limit in the exact
-// budget d adopted, and its share; found is false without a budget or a
-// breakdown of that limit.
-func budgetDominant(d *Design, limit string) (name string, share float64, found bool) {
-	if d.budget == nil {
-		return "", 0, false
+// bindingLine says which limit binds design d, with its margin and its
+// largest contributor: from the exact budget d adopted when it has one
+// (no contributor named when that budget does not break the limit down),
+// else from screen, the search's own estimate (nil: none). ok is false
+// when no limit applies.
+func bindingLine(d *Design, screen func(limit string) (string, float64)) (line string, ok bool) {
+	bl, ok := binding(d.Limits)
+	if !ok {
+		return "", false
 	}
-	for _, l := range d.budget.Limits {
-		if l.Name == limit && len(l.Contributors) > 0 {
-			return l.Contributors[0].Name, l.Contributors[0].Share, true
+	line = fmt.Sprintf("binding limit: %s, %s", bl.Name, marginWords(bl))
+	var name string
+	var share float64
+	switch {
+	case d.budget != nil:
+		for _, l := range d.budget.Limits {
+			if l.Name == bl.Name && len(l.Contributors) > 0 {
+				name, share = l.Contributors[0].Name, l.Contributors[0].Share
+			}
 		}
+	case screen != nil:
+		name, share = screen(bl.Name)
 	}
-	return "", 0, false
+	if name != "" {
+		line += fmt.Sprintf(", dominated by %s (%.0f %% of it)", name, 100*share)
+	}
+	return line, true
+}
+
+// marginWords is a limit's margin as plumb check words it when the exact
+// budget gave the words, else as a ratio (above 1 passes).
+func marginWords(l Limit) string {
+	if l.MarginText != "" {
+		return l.MarginText
+	}
+	return fmt.Sprintf("margin %.2fx", l.Margin)
 }

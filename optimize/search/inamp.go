@@ -484,8 +484,8 @@ func rankMerged(res *Result, all []subDesign, top int, verify verifier, reasons 
 // own notes (value variants, stock).
 func mergedReasons(p *Problem, d *Design, above []Design) []string {
 	out := []string{limitSummary(d.Limits)}
-	if bl, ok := binding(d.Limits); ok {
-		out = append(out, fmt.Sprintf("binding limit: %s at margin %.2fx", bl.Name, bl.Margin))
+	if line, ok := bindingLine(d, nil); ok {
+		out = append(out, line)
 	}
 	s := &space{p: p}
 	if len(above) == 0 {
@@ -494,8 +494,8 @@ func mergedReasons(p *Problem, d *Design, above []Design) []string {
 		out = append(out, s.rankLine(&above[len(above)-1], d))
 	}
 	for _, r := range d.Reasons {
-		if strings.HasPrefix(r, "binding limit:") {
-			out[1] = r
+		if strings.HasPrefix(r, "binding limit:") && d.budget == nil {
+			out[1] = r // the sub-search's line names the dominant term
 		}
 		if strings.Contains(r, "value variants") || strings.HasPrefix(r, "stock is short") {
 			out = append(out, r)

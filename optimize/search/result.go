@@ -129,6 +129,10 @@ type Limit struct {
 	// Unit of Value and Limit where the exact budget gives one ("", "V",
 	// "V/K", "Hz", "dB", "ppm/K", "V/rtHz", "ohm").
 	Unit string `json:"unit,omitempty"`
+	// MarginText is the margin in words where the exact budget gives it
+	// ("1.64x inside the limit", "+1.1 dB", "+0.702 V"), as plumb check
+	// prints it.
+	MarginText string `json:"margin_text,omitempty"`
 }
 
 // NearMiss is a design cheaper than the first rank that fails, with what

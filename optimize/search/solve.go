@@ -340,12 +340,8 @@ func findLimit(ls []Limit, name string) (Limit, bool) {
 // from the screening figures), and why it ranks below the design above.
 func (s *space) reasons(b *classBest, d *Design, above []Design) []string {
 	out := []string{limitSummary(d.Limits)}
-	if bl, ok := binding(d.Limits); ok {
-		name, share, found := budgetDominant(d, bl.Name)
-		if !found {
-			name, share = s.dominant(b, bl.Name)
-		}
-		out = append(out, fmt.Sprintf("binding limit: %s at margin %.2fx, dominated by %s (%.0f %% of it)", bl.Name, bl.Margin, name, 100*share))
+	if line, ok := bindingLine(d, func(limit string) (string, float64) { return s.dominant(b, limit) }); ok {
+		out = append(out, line)
 	}
 	if len(above) == 0 {
 		out = append(out, fmt.Sprintf("cheapest passing design of the %d classes in the search space", s.classCount()))
@@ -365,7 +361,7 @@ func (s *space) reasons(b *classBest, d *Design, above []Design) []string {
 func limitSummary(ls []Limit) string {
 	var sum []string
 	for _, l := range ls {
-		sum = append(sum, fmt.Sprintf("%s %s (limit %s, margin %.2fx)", l.Name, limitText(l), limitText(Limit{Name: l.Name, Value: l.Limit, Unit: l.Unit}), l.Margin))
+		sum = append(sum, fmt.Sprintf("%s %s (limit %s, %s)", l.Name, limitText(l), limitText(Limit{Name: l.Name, Value: l.Limit, Unit: l.Unit}), marginWords(l)))
 	}
 	if len(sum) == 0 {
 		return "the spec sets no error limit; only the hard limits apply"
@@ -516,7 +512,7 @@ func (s *space) dominant(b *classBest, limit string) (string, float64) {
 		case limNoise, limNoiseRMS:
 			ts = []term{{"amplifier voltage noise", a.a.NoiseVHz * a.a.NoiseVHz}, {"resistor thermal noise", 4 * boltzmann * s.tempK * o.rp},
 				{"amplifier current noise in the resistors", math.Pow(a.a.NoiseAHz*o.rp, 2)}}
-		default:
+		case limBandwidth:
 			ts = []term{{"the amplifier's gain-bandwidth", 1}}
 		}
 	}
