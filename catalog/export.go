@@ -12,7 +12,8 @@ import (
 
 // writeCSV writes the parts of one kind: a header of the JSON field names,
 // then one row per part in part-number order. Figures are SI (ohm, fraction,
-// ppm/K, W, V, A, Hz); a network's values and an amplifier's gains are
+// ppm/K, W, V, A, Hz), blank where an optional figure is not given (zero,
+// as the JSON snapshot omits it); a network's values and an amplifier's gains are
 // joined with ";"; price breaks are packed as FormatBreaks writes them.
 func (s *Store) writeCSV(ctx context.Context, w io.Writer, kind Kind) error {
 	var t *table
@@ -59,8 +60,14 @@ func (s *Store) writeCSV(ctx context.Context, w io.Writer, kind Kind) error {
 			switch x := columnValue(c, v).(type) {
 			case float64:
 				record[j] = formatFloat(x)
+				if x == 0 && c.optional {
+					record[j] = ""
+				}
 			case int64:
 				record[j] = strconv.FormatInt(x, 10)
+				if x == 0 && c.optional {
+					record[j] = ""
+				}
 			case string:
 				record[j] = x
 			}

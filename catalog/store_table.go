@@ -32,6 +32,9 @@ type column struct {
 	index  []int
 	kind   colKind
 	figure bool // part of the part's figures (not its offer or provenance)
+	// optional: zero means "not given" (the JSON field is omitempty), so the
+	// CSV export leaves it blank.
+	optional bool
 }
 
 // childTable holds a []float64 field of a part in its own table of
@@ -98,7 +101,7 @@ func (t *table) walk(typ reflect.Type, prefix []int, figure bool) {
 			}
 			continue
 		}
-		name, _, _ := strings.Cut(f.Tag.Get("json"), ",")
+		name, opts, _ := strings.Cut(f.Tag.Get("json"), ",")
 		if name == "-" {
 			if f.Name == "ID" {
 				t.id = index
@@ -108,7 +111,7 @@ func (t *table) walk(typ reflect.Type, prefix []int, figure bool) {
 		if f.Name == "Part" {
 			t.part = index
 		}
-		c := column{name: name, index: index, figure: figure}
+		c := column{name: name, index: index, figure: figure, optional: strings.Contains(opts, "omitempty")}
 		switch {
 		case f.Type == typeTime:
 			c.kind = colTime
