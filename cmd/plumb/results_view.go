@@ -8,6 +8,7 @@ import (
 	"strconv"
 	"strings"
 
+	"plumb/catalog"
 	"plumb/catalog/units"
 	"plumb/optimize/budget"
 	"plumb/optimize/search"
@@ -65,6 +66,7 @@ func cautionsBesideData(ios *IOStreams, format string, cautions []string) {
 // writeDesignParts prints a design's positions and parts.
 func writeDesignParts(w io.Writer, ios *IOStreams, d *search.Design) error {
 	t := newTable(ios, "POSITION", "KIND", "PART", "QTY", "VALUE", "TOL", "TCR", "UNIT PRICE").alignRight(3, 4, 5, 6, 7)
+	seen := map[string]bool{} // networks already listed: one network serves all its positions
 	for _, p := range d.Parts {
 		value := "-"
 		if p.ValueOhm > 0 {
@@ -78,7 +80,14 @@ func writeDesignParts(w io.Writer, ios *IOStreams, d *search.Design) error {
 		if p.TCRTracking > 0 {
 			tcr += " (track " + strconv.FormatFloat(p.TCRTracking, 'g', 3, 64) + ")"
 		}
-		t.row(p.Position, p.Kind, p.Part, strconv.Itoa(p.Quantity), value, tol, tcr, formatMoney(p.UnitPrice, d.Currency))
+		qty, price := strconv.Itoa(p.Quantity), formatMoney(p.UnitPrice, d.Currency)
+		if p.Kind == string(catalog.KindNetwork) {
+			if seen[p.Part] {
+				qty, price = "", "same network"
+			}
+			seen[p.Part] = true
+		}
+		t.row(p.Position, p.Kind, p.Part, qty, value, tol, tcr, price)
 	}
 	return t.render(w)
 }
