@@ -154,9 +154,8 @@ func (e *Evaluator) metricsAt(x []float64, signed bool, out *agg) error {
 	cal, calOff := e.s.Calibrate.Gain, e.s.Calibrate.Offset
 	*out = agg{worstT: pts[0].t}
 	out.gainErrInit = math.Abs(p0.gain/gt - 1)
-	out.gainSigned = p0.gain/gt - 1
 	if !cal {
-		out.gainErr = out.gainErrInit
+		out.gainErr, out.gainSigned = out.gainErrInit, p0.gain/gt-1
 	}
 	out.cmrr, out.cmrrRes = e.cmrrAt(x, &p0, signed)
 	off0 := p0.base - e.target

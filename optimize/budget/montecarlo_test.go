@@ -4,6 +4,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"slices"
+	"strings"
 	"testing"
 
 	"plumb/optimize/spec"
@@ -168,5 +169,31 @@ func TestSelectSampled(t *testing.T) {
 				}
 			}
 		}
+	}
+}
+
+// TestMonteCarloCalibratedZeroDrift: with gain calibration at 25 C and
+// resistors of 0 ppm/K, nothing is left of the gain error but what moves
+// with temperature, which is nothing: every trial's error is zero and the
+// gain-error limit passes in every trial (calibration removes the initial
+// error, domain notes §3; arithmetic). A trial once kept its uncalibrated
+// error when no temperature point moved the gain.
+func TestMonteCarloCalibratedZeroDrift(t *testing.T) {
+	src := strings.Replace(diffSpec(1, "monte-carlo"), "25..25C", "-40..85C", 1) +
+		"calibration: {gain: true}\n"
+	src = strings.Replace(src, "gain_error: 50%", "gain_error: 0.01%", 1)
+	s := mustSpec(t, src)
+	s.Analysis.Trials = 2000
+	res, err := Evaluate(s, mustDesign(t, diffDesign(1, "1%")))
+	if err != nil {
+		t.Fatal(err)
+	}
+	mc := res.MonteCarlo
+	pc := mc.Percentiles[MetricGainError]
+	if pc.Min != 0 || pc.Max != 0 {
+		t.Errorf("calibrated gain error over the trials %g..%g, want exactly 0", pc.Min, pc.Max)
+	}
+	if y := mc.PerLimitYield[LimitGainError]; y != 1 {
+		t.Errorf("gain-error yield %g, want 1", y)
 	}
 }
