@@ -103,6 +103,7 @@ type Evaluator struct {
 	cmSrcs         [2]int
 	refSrc         int
 	shunt          int // position index of the shunt, -1
+	raPos, rbPos   int // positions of a reference divider's Ra and Rb, -1
 	leak           int // current source of the load's leakage, -1
 	amps           []int
 	matched        bool
@@ -145,7 +146,7 @@ func NewEvaluator(s *spec.Spec, family string, opts spec.Options) (*Evaluator, e
 	if !s.HasFamily(family) {
 		return nil, fmt.Errorf("%w: %s (spec %s allows %v)", ErrFamily, family, s.Name, s.Families)
 	}
-	e := &Evaluator{s: s, family: family, opts: opts, shunt: -1, leak: -1, sigSrc: -1, sigNeg: -1, sigCur: -1, refSrc: -1, cmSrcs: [2]int{-1, -1}}
+	e := &Evaluator{s: s, family: family, opts: opts, shunt: -1, raPos: -1, rbPos: -1, leak: -1, sigSrc: -1, sigNeg: -1, sigCur: -1, refSrc: -1, cmSrcs: [2]int{-1, -1}}
 	e.differential = s.Differential || family == spec.CurrentSense
 	e.temps[0], e.ntemps = s.TempRef, 1
 	for _, t := range []float64{s.Temp.Min, s.Temp.Max} {
@@ -205,8 +206,13 @@ func (e *Evaluator) buildNetlist() error {
 		}
 		e.positions = append(e.positions, r.Name)
 		e.resIdx = append(e.resIdx, i)
-		if r.Name == "Rs" && e.family == spec.CurrentSense {
+		switch {
+		case r.Name == "Rs" && e.family == spec.CurrentSense:
 			e.shunt = len(e.positions) - 1
+		case r.Name == "Ra" && e.opts.RefDivider:
+			e.raPos = len(e.positions) - 1
+		case r.Name == "Rb" && e.opts.RefDivider:
+			e.rbPos = len(e.positions) - 1
 		}
 	}
 	if len(e.positions) > 64 {
@@ -295,6 +301,12 @@ func (e *Evaluator) SetCandidate(c *Candidate) error {
 	for k := range e.nom {
 		e.nom[k] = e.c.Figs[k].Ohm
 		e.heat[k] = 0
+	}
+	if e.raPos >= 0 && e.rbPos >= 0 && e.s.Reference != nil {
+		// The reference feeds a divider: the ideal output at zero input is
+		// the reference times the divider's nominal ratio Rb/(Ra+Rb).
+		ra, rb := e.nom[e.raPos], e.nom[e.rbPos]
+		e.target = e.s.Reference.V * rb / (ra + rb)
 	}
 	if err := e.stress(); err != nil {
 		return err

@@ -3,6 +3,7 @@ package budget
 import (
 	"math"
 	"math/rand/v2"
+	"strings"
 	"testing"
 
 	"plumb/optimize/spec"
@@ -150,5 +151,39 @@ func TestScoreDoesNotAllocate(t *testing.T) {
 	s.Analysis.Method = spec.RSS
 	if n := testing.AllocsPerRun(20, func() { _ = e.Score(c, &sc) }); n != 0 {
 		t.Errorf("Score (RSS) allocates %v times per call", n)
+	}
+}
+
+// TestReferenceDividerTarget: with the reference fed through a divider
+// Ra/Rb, the ideal output at zero input is the reference times Rb/(Ra+Rb),
+// and a stage whose R4 plus the divider's Thevenin resistance Ra||Rb
+// matches R2/R1 sits exactly there (Thevenin's theorem and the
+// difference-amplifier equation, domain notes §2; Franco ch. 1, from
+// memory). A design with a divider once had its whole divided-off
+// reference counted as output offset.
+func TestReferenceDividerTarget(t *testing.T) {
+	s := mustSpec(t, strings.Replace(diffSpec(1, "worst-case"), "limits:", "reference: {voltage: 2.5V}\nlimits:", 1))
+	for _, tc := range []struct {
+		ra, rb, r4 string
+		want       float64
+	}{
+		{"1k", "1k", "9.5k", 1.25},   // Ra||Rb = 500
+		{"1k", "3k", "9.25k", 1.875}, // Ra||Rb = 750
+	} {
+		src := "family: difference\noptions: {ref_divider: true}\npositions:\n" +
+			"  R1: {value: 10k, tolerance: 0.1%, tcr: 0ppm/K}\n  R2: {value: 10k, tolerance: 0.1%, tcr: 0ppm/K}\n" +
+			"  R3: {value: 10k, tolerance: 0.1%, tcr: 0ppm/K}\n  R4: {value: " + tc.r4 + ", tolerance: 0.1%, tcr: 0ppm/K}\n" +
+			"  Ra: {value: " + tc.ra + ", tolerance: 0.1%, tcr: 0ppm/K}\n  Rb: {value: " + tc.rb + ", tolerance: 0.1%, tcr: 0ppm/K}\n" + idealAmp
+		e, c := evaluatorOf(t, s, mustDesign(t, src))
+		if err := e.SetCandidate(c); err != nil {
+			t.Fatal(err)
+		}
+		var p point
+		if err := e.eval(e.x, s.TempRef, false, &p); err != nil {
+			t.Fatal(err)
+		}
+		if math.Abs(e.target-tc.want) > 1e-12 || math.Abs(p.base-tc.want) > 1e-9 {
+			t.Errorf("Ra %s Rb %s: target %.12g V, nominal output %.12g V, want %.12g V", tc.ra, tc.rb, e.target, p.base, tc.want)
+		}
 	}
 }
