@@ -197,8 +197,11 @@ func (e *Evaluator) buildNetlist() error {
 	for i, r := range net.Resistors {
 		if e.specResistor(r.Name) {
 			ohm := e.s.SourceOhm
-			if r.Name == "Rload" {
+			switch r.Name {
+			case "Rload":
 				ohm = e.s.LoadOhm
+			case "Rref":
+				ohm = e.s.Reference.SourceOhm
 			}
 			e.fixedIdx = append(e.fixedIdx, i)
 			e.fixedOhm = append(e.fixedOhm, ohm)
@@ -237,11 +240,7 @@ func (e *Evaluator) buildNetlist() error {
 	default:
 		e.sigSrc = net.SourceIndex("vin")
 	}
-	// The spec's reference drives the reference input of the stages that
-	// pass it to the output (difference, current sense, in-amp) or shift by
-	// it (level shift); inverting and non-inverting stages keep theirs at 0.
-	switch e.family {
-	case spec.Difference, spec.CurrentSense, spec.InAmp, spec.LevelShift:
+	if e.refDriven() {
 		e.refSrc = net.SourceIndex("vref")
 		if e.opts.RefDivider {
 			e.refSrc = net.SourceIndex("vrefsrc")
@@ -720,14 +719,27 @@ var ampKinds = [5]paramKind{pVos, pVosDrift, pIb, pIos, pCMRR}
 // onto the netlist's options.
 func (e *Evaluator) circuitOptions() circuit.Options {
 	return circuit.Options{RefDivider: e.opts.RefDivider, Buffer: e.opts.Buffer, OffsetToInverting: e.opts.OffsetToInverting,
-		Load: e.s.LoadOhm > 0, SourceImpedance: e.s.SourceOhm > 0 && e.family != spec.CurrentSense}
+		Load: e.s.LoadOhm > 0, SourceImpedance: e.s.SourceOhm > 0 && e.family != spec.CurrentSense,
+		RefImpedance: e.refDriven() && e.s.Reference != nil && e.s.Reference.SourceOhm > 0}
+}
+
+// refDriven reports whether the spec's reference drives the family's
+// reference input: the stages that pass it to the output (difference,
+// current sense, in-amp) or shift by it (level shift); inverting and
+// non-inverting stages keep theirs at 0, a divider has none.
+func (e *Evaluator) refDriven() bool {
+	switch e.family {
+	case spec.Difference, spec.CurrentSense, spec.InAmp, spec.LevelShift:
+		return true
+	}
+	return false
 }
 
 // specResistor reports whether a netlist resistor stands for something the
 // spec fixes (source impedance, load) rather than a position to fill.
 func (e *Evaluator) specResistor(name string) bool {
 	switch name {
-	case "Rload", "Rsrc", "Rsrcp", "Rsrcn":
+	case "Rload", "Rsrc", "Rsrcp", "Rsrcn", "Rref":
 		return true
 	}
 	return false

@@ -187,3 +187,24 @@ func TestReferenceDividerTarget(t *testing.T) {
 		}
 	}
 }
+
+// TestReferenceImpedance: the spec's reference.impedance sits in series
+// with R4 of a difference amplifier. At unity gain with 10k resistors and
+// 1k of source resistance the ideal-amplifier equation of domain notes §2
+// with R4' = 11k gives Vout = Vp (11/21) 2 - Vn: Adm = (22/21 + 1)/2 and
+// Acm = 22/21 - 1 (Franco ch. 1, from memory).
+func TestReferenceImpedance(t *testing.T) {
+	s := mustSpec(t, strings.Replace(diffSpec(1, "worst-case"), "limits:", "reference: {voltage: 2.5V, impedance: 1k}\nlimits:", 1))
+	e, c := evaluatorOf(t, s, mustDesign(t, diffDesign(1, "0.1%")))
+	if err := e.SetCandidate(c); err != nil {
+		t.Fatal(err)
+	}
+	var p point
+	if err := e.eval(e.x, s.TempRef, false, &p); err != nil {
+		t.Fatal(err)
+	}
+	wantDM, wantCM := (22.0/21+1)/2, 22.0/21-1
+	if math.Abs(p.gain-wantDM) > 1e-9 || math.Abs(p.acm-wantCM) > 1e-9 {
+		t.Errorf("with a 1k reference: Adm %.9g, Acm %.9g; want %.9g, %.9g", p.gain, p.acm, wantDM, wantCM)
+	}
+}

@@ -60,6 +60,12 @@ type Options struct {
 	// Buffer (divider): a unity-gain follower "A1" after the divider tap;
 	// the output is the follower's output.
 	Buffer bool
+	// RefImpedance (difference, current-sense, level-shift, inamp): the
+	// reference source drives the stage through its own output resistance
+	// "Rref", from the source's node to node "refz", where the stage's
+	// reference resistor (R4; R2 of a level shift; Ra of a reference
+	// divider) begins.
+	RefImpedance bool
 	// OffsetToInverting (level-shift): the reference enters the inverting
 	// side through R2, giving a negative offset, instead of being summed
 	// into the non-inverting node.
@@ -99,7 +105,9 @@ const (
 //	vn --[Rsrcn]-- inn --[R1]-- m --[R2]-- out      m = A1-
 //	vp --[Rsrcp]-- inp --[R3]-- p --[R4]-- ref      p = A1+
 //	ref = vref, or vrefsrc --[Ra]-- ref --[Rb]-- 0 with RefDivider
-//	(R4 then ends on node "ref", else on node "vref")
+//	(R4 then ends on node "ref", else on node "vref"); with RefImpedance
+//	the source drives the stage through vref (or vrefsrc) --[Rref]-- refz
+//	(likewise for the level shift's R2 and the in-amp's R4)
 //
 // Divider, Vout = Vin Rbot/(Rtop+Rbot) unloaded; iload leaves the tap:
 //
@@ -152,12 +160,12 @@ func New(f Family, o Options) (*Netlist, error) {
 	case Difference:
 		inp := b.input("vp", "Rsrcp", 0, o.SourceImpedance)
 		inn := b.input("vn", "Rsrcn", 0, o.SourceImpedance)
-		b.diffStage(inp, inn, "A1", o.RefDivider, 10e3, 10e3)
+		b.diffStage(inp, inn, "A1", o, 10e3, 10e3)
 	case CurrentSense:
 		b.source("vbus", "sn", 12)
 		b.current("isense", "0", "sp", 1)
 		b.res("Rs", "sp", "sn", 0.01)
-		b.diffStage("sp", "sn", "A1", o.RefDivider, 1e3, 20e3)
+		b.diffStage("sp", "sn", "A1", o, 1e3, 20e3)
 	case Divider:
 		in := b.input("vin", "Rsrc", 10, o.SourceImpedance)
 		tap := "out"
@@ -175,15 +183,16 @@ func New(f Family, o Options) (*Netlist, error) {
 		// and 0.5..4.5 V onto 0..3.3 V (OffsetToInverting).
 		in := b.input("vin", "Rsrc", 0, o.SourceImpedance)
 		b.source("vref", "vref", 2.5)
+		ref := b.refInput("vref", o.RefImpedance)
 		if o.OffsetToInverting {
 			b.res("R1", in, "p", 10e3)
 			b.res("R3", "p", "0", 16.337e3)
-			b.res("R2", "vref", "m", 100e3)
+			b.res("R2", ref, "m", 100e3)
 			b.res("Rg", "m", "0", 100e3)
 			b.res("Rf", "m", "out", 16.5e3)
 		} else {
 			b.res("R1", in, "p", 160e3)
-			b.res("R2", "vref", "p", 40e3)
+			b.res("R2", ref, "p", 40e3)
 			b.res("R3", "p", "0", 14.545e3)
 			b.res("Rg", "m", "0", 10e3)
 			b.res("Rf", "m", "out", 10e3)
@@ -193,6 +202,7 @@ func New(f Family, o Options) (*Netlist, error) {
 		inp := b.input("vp", "Rsrcp", 0, o.SourceImpedance)
 		inn := b.input("vn", "Rsrcn", 0, o.SourceImpedance)
 		b.source("vref", "vref", 0)
+		ref := b.refInput("vref", o.RefImpedance)
 		b.res("Rf1", "o1", "g1", 18e3)
 		b.res("Rg", "g1", "g2", 4e3)
 		b.res("Rf2", "o2", "g2", 18e3)
@@ -201,7 +211,7 @@ func New(f Family, o Options) (*Netlist, error) {
 		b.res("R1", "o2", "m", 10e3)
 		b.res("R2", "m", "out", 10e3)
 		b.res("R3", "o1", "p", 10e3)
-		b.res("R4", "p", "vref", 10e3)
+		b.res("R4", "p", ref, 10e3)
 		b.amp("A3", "p", "m", "out")
 	default:
 		_, err := ParseFamily(string(f))
@@ -227,6 +237,8 @@ func checkOptions(f Family, o Options) error {
 	switch {
 	case o.RefDivider && !refDiv:
 		return bad("RefDivider (reference divider)")
+	case o.RefImpedance && (f == Inverting || f == NonInverting || f == Divider):
+		return bad("RefImpedance (no reference input)")
 	case o.SourceImpedance && f == CurrentSense:
 		return bad("SourceImpedance (its input is a current)")
 	case o.Buffer && f != Divider:
@@ -264,6 +276,17 @@ func (b *builder) amp(name, plus, minus, out string) {
 	b.n.OpAmps = append(b.n.OpAmps, OpAmp{Name: name, Plus: b.node(plus), Minus: b.node(minus), Out: b.node(out), Gain: nominalGain})
 }
 
+// refInput returns the node the stage's reference resistor starts from:
+// the reference source's node src, or with withR the far end "refz" of the
+// source's resistance Rref.
+func (b *builder) refInput(src string, withR bool) string {
+	if !withR {
+		return src
+	}
+	b.res("Rref", src, "refz", nominalSrcOhm)
+	return "refz"
+}
+
 // input adds source src at a node of the same name and returns the node the
 // circuit sees: the source node itself, or with withR the far end of a
 // source resistance rname (node "in", "inp" or "inn").
@@ -279,19 +302,21 @@ func (b *builder) input(src, rname string, v float64, withR bool) string {
 
 // diffStage adds the four-resistor difference stage R1..R4 around op-amp
 // amp, inputs inp (through R3) and inn (through R1), gain g = r2/r1, and its
-// reference: source "vref" directly, or "vrefsrc" through Ra/Rb.
-func (b *builder) diffStage(inp, inn, amp string, refDiv bool, r1, r2 float64) {
+// reference: source "vref" directly, or "vrefsrc" through Ra/Rb, either
+// through the source's own resistance Rref with o.RefImpedance.
+func (b *builder) diffStage(inp, inn, amp string, o Options, r1, r2 float64) {
 	r4, ref := r2, "vref"
-	if refDiv {
+	if o.RefDivider {
 		ref = "ref"
 		// Ra = Rb = r2/5 give a Thevenin resistance of r2/10, taken out of R4
 		// so that R4 + Ra||Rb keeps the match R4'/R3 = R2/R1.
 		b.source("vrefsrc", "vrefsrc", 5)
-		b.res("Ra", "vrefsrc", "ref", r2/5)
+		b.res("Ra", b.refInput("vrefsrc", o.RefImpedance), "ref", r2/5)
 		b.res("Rb", "ref", "0", r2/5)
 		r4 = r2 - r2/10
 	} else {
 		b.source("vref", "vref", 0)
+		ref = b.refInput("vref", o.RefImpedance)
 	}
 	b.res("R1", inn, "m", r1)
 	b.res("R2", "m", "out", r2)

@@ -256,6 +256,60 @@ func TestReferenceDividerThevenin(t *testing.T) {
 	}
 }
 
+// TestReferenceImpedanceSeries: the reference source's resistance Rref
+// is in series with the stage's reference resistor (R4; R2 of a level
+// shift), so the stage with Rref solves as the stage without it whose
+// reference resistor is larger by Rref (series resistors add, Ohm's law).
+func TestReferenceImpedanceSeries(t *testing.T) {
+	tests := []struct {
+		f      Family
+		o      Options
+		series string
+	}{
+		{Difference, Options{}, "R4"},
+		{CurrentSense, Options{}, "R4"},
+		{InAmp, Options{}, "R4"},
+		{LevelShift, Options{}, "R2"},
+		{LevelShift, Options{OffsetToInverting: true}, "R2"},
+	}
+	for _, tc := range tests {
+		name := string(tc.f)
+		if tc.o.OffsetToInverting {
+			name += " inverting side"
+		}
+		t.Run(name, func(t *testing.T) {
+			wo := tc.o
+			wo.RefImpedance = true
+			d := mustNew(tc.f, wo)
+			randomize(d, rand.New(rand.NewPCG(6, 2)))
+			p := mustNew(tc.f, tc.o)
+			for i, r := range p.Resistors {
+				p.Resistors[i].Ohm = d.Resistors[d.Resistor(r.Name)].Ohm
+			}
+			p.Resistors[p.Resistor(tc.series)].Ohm += d.Resistors[d.Resistor("Rref")].Ohm
+			for i, src := range p.Sources {
+				p.Sources[i].V = d.Sources[d.SourceIndex(src.Name)].V
+			}
+			for i := range p.Currents {
+				p.Currents[i].A = d.Currents[i].A
+			}
+			for i, a := range d.OpAmps {
+				p.OpAmps[i].Gain, p.OpAmps[i].Vos = a.Gain, a.Vos
+				p.OpAmps[i].IbPlus, p.OpAmps[i].IbMinus = a.IbPlus, a.IbMinus
+			}
+			vd, err := solveAll(d)
+			if err != nil {
+				t.Fatal(err)
+			}
+			vp, err := solveAll(p)
+			if err != nil {
+				t.Fatal(err)
+			}
+			near(t, "Vout", vd[d.Out], vp[p.Out], 1e-12)
+		})
+	}
+}
+
 // Divider: Vout/Vin = Rbot/(Rtop+Rbot), loaded: Rbot||Rload in place of
 // Rbot (any circuits textbook); the ideal buffer changes nothing, and a
 // leakage current I out of the tap subtracts I (Rtop||Rbot).
@@ -427,6 +481,9 @@ func TestNewOptions(t *testing.T) {
 		{"difference reference divider", Difference, Options{RefDivider: true}, true},
 		{"level-shift inverting side", LevelShift, Options{OffsetToInverting: true}, true},
 		{"difference inverting side", Difference, Options{OffsetToInverting: true}, false},
+		{"inverting reference impedance", Inverting, Options{RefImpedance: true}, false},
+		{"divider reference impedance", Divider, Options{RefImpedance: true}, false},
+		{"inamp reference impedance", InAmp, Options{RefImpedance: true}, true},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {

@@ -9,13 +9,14 @@ import (
 // variants returns every valid option combination of family f.
 func variants(f Family) []Options {
 	var out []Options
-	for mask := 0; mask < 32; mask++ {
+	for mask := 0; mask < 64; mask++ {
 		o := Options{
 			RefDivider:        mask&1 != 0,
 			Load:              mask&2 != 0,
 			SourceImpedance:   mask&4 != 0,
 			Buffer:            mask&8 != 0,
 			OffsetToInverting: mask&16 != 0,
+			RefImpedance:      mask&32 != 0,
 		}
 		if checkOptions(f, o) == nil {
 			out = append(out, o)
