@@ -94,7 +94,7 @@ func (e *Evaluator) Evaluate(c *Candidate) (*Result, error) {
 		}
 	case spec.RSS:
 		e.rssAgg(npts, &pn, &w)
-		res.Notes = append(res.Notes, fmt.Sprintf("RSS: each tolerance is taken as %g sigma; figures are nominal error plus the root-sum-square of the solved sensitivities, at that many sigmas", s.Analysis.Sigmas))
+		res.Notes = append(res.Notes, fmt.Sprintf("RSS: each tolerance is taken as %g sigma; figures are the nominal error plus 3 sigma of the root-sum-square of the solved sensitivities (the coverage of Monte Carlo's p99.865 points); contributors are listed at their tolerances", s.Analysis.Sigmas))
 	case spec.MonteCarlo:
 		mc, err := e.MonteCarlo(s.Analysis.Trials, s.Analysis.Seed, true)
 		if err != nil {
@@ -102,8 +102,12 @@ func (e *Evaluator) Evaluate(c *Candidate) (*Result, error) {
 		}
 		res.MonteCarlo = mc
 		w = mcAgg(mc, e.differential)
-		res.Notes = append(res.Notes, fmt.Sprintf("Monte Carlo: %d trials, seed %d, %s distribution (normal: tolerance = %g sigma, truncated at the tolerance); figures are the p99.865 points (p0.135 for CMRR)",
-			mc.Trials, mc.Seed, mc.Distribution, s.Analysis.Sigmas))
+		dist := fmt.Sprintf("normal, tolerance = %g sigma, truncated at the tolerance", s.Analysis.Sigmas)
+		if s.Analysis.Distribution == spec.Uniform {
+			dist = "uniform over each tolerance"
+		}
+		res.Notes = append(res.Notes, fmt.Sprintf("Monte Carlo: %d trials, seed %d, %s; figures are the p99.865 points (p0.135 for CMRR)",
+			mc.Trials, mc.Seed, dist))
 	}
 	if err := e.fillMetrics(&w, &pn[0], &res.Metrics); err != nil {
 		return nil, err
@@ -385,13 +389,29 @@ func (e *Evaluator) contributors(npts int, pn *[4]point) [NumLimits][]Contributi
 		out[IGainDrift] = e.sorted(dl)
 	}
 	// Offset and offset drift.
-	tiO := worstTi(func(ti int) float64 { return math.Abs(pn[ti].base-e.target) + e.sumAbs(qBase, ti, pn) })
-	if calOff {
-		tiO = tiD
-	}
+	// The worst temperature points of the offset and of its drift, each
+	// with the amplifier's terms at their worst sign.
+	ampOff := func(ti int, driftOnly bool) float64 { return e.ampOffset(nil, &pn[ti], pts[ti].t, false, driftOnly) }
+	tiO := worstTi(func(ti int) float64 {
+		if calOff {
+			if ti == 0 {
+				return -1
+			}
+			return math.Abs(pn[ti].base-pn[0].base) + e.sumAbs(qBaseChange, ti, pn) + ampOff(ti, true)
+		}
+		return math.Abs(pn[ti].base-e.target) + e.sumAbs(qBase, ti, pn) + ampOff(ti, false)
+	})
+	rl := e.lifeRef()
+	tiOD := worstTi(func(ti int) float64 {
+		dt := math.Abs(pts[ti].t - e.s.TempRef)
+		if dt == 0 {
+			return -1
+		}
+		return (math.Abs(pn[ti].base-pn[rl].base) + e.sumAbs(qBaseDrift, ti, pn) + ampOff(ti, true)) / dt
+	})
 	var ol, odl []Contribution
 	dtO := math.Abs(pts[tiO].t - e.s.TempRef)
-	dtD := math.Abs(pts[tiD].t - e.s.TempRef)
+	dtD := math.Abs(pts[tiOD].t - e.s.TempRef)
 	for j := range e.params {
 		if e.params[j].kind.amplifierTerm() {
 			continue
@@ -402,7 +422,7 @@ func (e *Evaluator) contributors(npts int, pn *[4]point) [NumLimits][]Contributi
 		}
 		ol = append(ol, Contribution{Name: e.paramName(j), Value: math.Abs(e.sensOf(q, tiO, j, pn))})
 		if dtD > 0 {
-			odl = append(odl, Contribution{Name: e.paramName(j), Value: math.Abs(e.sensOf(qBaseChange, tiD, j, pn)) / dtD})
+			odl = append(odl, Contribution{Name: e.paramName(j), Value: math.Abs(e.sensOf(qBaseDrift, tiOD, j, pn)) / dtD})
 		}
 	}
 	if !calOff && math.Abs(pn[0].base-e.target) > 0 {
@@ -420,7 +440,7 @@ func (e *Evaluator) contributors(npts int, pn *[4]point) [NumLimits][]Contributi
 		}
 		ol = append(ol, Contribution{Name: name + " Vos drift", Value: a.VosDriftVK * dtO * math.Abs(p.tvos[i])})
 		if dtD > 0 {
-			odl = append(odl, Contribution{Name: name + " Vos drift", Value: a.VosDriftVK * math.Abs(pn[tiD].tvos[i])})
+			odl = append(odl, Contribution{Name: name + " Vos drift", Value: a.VosDriftVK * math.Abs(pn[tiOD].tvos[i])})
 		}
 	}
 	out[IOutputOffset], out[IOffsetDrift] = e.sorted(ol), e.sorted(odl)

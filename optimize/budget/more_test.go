@@ -93,6 +93,50 @@ limits: {gain_error: 1%, cmrr: 60dB}
 	}
 }
 
+// TestOffsetContributorsAddUp: under worst case the output offset is the
+// sum of its terms at the worst temperature, so its contributors must add
+// up to it. An amplifier with matched resistors inside has no resistor
+// terms: Vos (1 + G) plus the Vos drift (1 + G) over the 65 K from 25 C
+// to -40 C (domain notes §3, arithmetic). The table once took its
+// temperature from the resistor terms alone and left the drift out.
+func TestOffsetContributorsAddUp(t *testing.T) {
+	s := mustSpec(t, `name: t
+about: matched amplifier offset
+family: matched
+gain: 2
+input: {differential: ±1V, common_mode: -2..2V}
+supply: ±15V
+temperature: {range: -40..85C}
+limits: {output_offset: 10mV}
+`)
+	e, err := NewEvaluator(s, spec.Matched, spec.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	amp := catalog.Amplifier{Part: "M", Type: catalog.MatchedAmp, GainErrorMax: 0.0005, GainDriftPPM: 5, CMRRdB: 86,
+		GBWHz: 1e6, VosV: 100e-6, VosDriftVK: 1e-6, CMNegV: 1.5, CMPosV: 1.5, SwingNegV: 0.1, SwingPosV: 0.1, InNegV: -20, InPosV: -20, Gains: []float64{1, 2}}
+	res, err := e.Evaluate(&Candidate{Amp: &amp, MatchedGain: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := 3 * (100e-6 + 1e-6*65)
+	if got := res.Metrics.OutputOffsetV; math.Abs(got-want) > 1e-12 {
+		t.Errorf("output offset %.9g V, want %.9g V", got, want)
+	}
+	for _, l := range res.Limits {
+		if l.Name != LimitOutputOffset {
+			continue
+		}
+		sum := 0.0
+		for _, c := range l.Contributors {
+			sum += c.Value
+		}
+		if math.Abs(sum-want) > 1e-12 {
+			t.Errorf("offset contributors add up to %.9g V, the offset is %.9g V: %+v", sum, want, l.Contributors)
+		}
+	}
+}
+
 // TestGainErrorVsTemperature: two 25 ppm/K resistors of an inverting
 // amplifier, worst signs opposite, spread the gain by about ±3000 ppm at
 // 85 C (60 K from 25 C, common practice arithmetic) and by zero at 25 C.
@@ -283,5 +327,35 @@ limits: {output_offset: 10mV}
 	// 1.25 V x 20 ppm/K x 60 K = 1.5 mV outweighs 1.25 V x 0.1 % = 1.25 mV.
 	if len(names) < 2 || names[0] != "reference drift" || names[1] != "reference tolerance" {
 		t.Errorf("offset contributors %v, want the reference drift then its tolerance first", names)
+	}
+}
+
+// TestOffsetDriftWithoutLoadLife: load life is a shift at the reference
+// temperature, not a drift, so the offset drift (like the gain drift) is
+// measured from the point after load life under every method: adding a
+// load-life figure to every resistor leaves the RSS and worst-case offset
+// drift as they were, to second order (domain notes §3: drift is a change
+// with temperature). RSS once measured it from the point as built, which
+// put the whole 0.5 % life shift of the ratios into the drift.
+func TestOffsetDriftWithoutLoadLife(t *testing.T) {
+	for _, method := range []string{"rss", "worst-case"} {
+		src := strings.Replace(diffSpec(1, method), "25..25C", "-40..85C", 1)
+		src = strings.Replace(src, "limits:", "reference: {voltage: 2.5V}\nlimits:", 1)
+		src = strings.Replace(src, "limits: {", "limits: {offset_drift: 1mV/K, ", 1)
+		s := mustSpec(t, src)
+		drift := func(life string) float64 {
+			d := strings.ReplaceAll(diffDesign(1, "0.1%"), "tcr: 0ppm/K", "tcr: 25ppm/K"+life)
+			res, err := Evaluate(s, mustDesign(t, d))
+			if err != nil {
+				t.Fatal(err)
+			}
+			return res.Metrics.OffsetDriftVPerK
+		}
+		plain, aged := drift(""), drift(", load_life: 0.5%")
+		// Second order: the life shifts scale the ratios the tempcos move,
+		// by up to 2 x 0.5 % at the worst corner.
+		if plain <= 0 || math.Abs(aged-plain) > 0.011*plain {
+			t.Errorf("%s: offset drift %.4g V/K with load life, %.4g V/K without", method, aged, plain)
+		}
 	}
 }

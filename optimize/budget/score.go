@@ -107,6 +107,10 @@ const (
 	qBaseChange
 	qDrift
 	numQ
+	// qBaseDrift, the base output's change from the drift reference point
+	// (after load life), is not guided: its corners are qBaseChange's but
+	// for the load-life signs, which it does not see.
+	qBaseDrift = numQ
 )
 
 // sens returns the sensitivity of quantity q at temperature point ti to
@@ -125,6 +129,8 @@ func (e *Evaluator) sensOf(q, ti, j int, pn *[4]point) float64 {
 	case qDrift:
 		rl := e.lifeRef()
 		return r.g[ti]/pn[rl].gain - pn[ti].gain*r.g[rl]/(pn[rl].gain*pn[rl].gain)
+	case qBaseDrift:
+		return r.b[ti] - r.b[e.lifeRef()]
 	default:
 		return r.b[ti] - r.b[0]
 	}
@@ -309,13 +315,17 @@ func (e *Evaluator) climbDrift(npts int, pn *[4]point, w *agg) error {
 	return nil
 }
 
-// rssAgg combines the sensitivities in quadrature (each parameter's
-// tolerance stands for spec.Analysis.Sigmas standard deviations, so the
-// result is at that many sigmas) on top of the nominal error, with the
-// amplifier's Vos, drift, bias and offset currents and CMRR as further
-// independent terms.
+// rssAgg combines the sensitivities in quadrature on top of the nominal
+// error, with the amplifier's Vos, drift, bias and offset currents and CMRR
+// as further independent terms. Each parameter's tolerance stands for
+// spec.Analysis.Sigmas = N standard deviations, so the root-sum-square of
+// the tolerance-scaled terms is N sigma of the total; it is scaled by 3/N
+// to the 3 sigma figure, the coverage of Monte Carlo's p99.865 points, so
+// that the two methods report the same thing whatever N is.
 func (e *Evaluator) rssAgg(npts int, pn *[4]point, w *agg) {
 	gt := e.s.Gain
+	k := 3 / e.s.Analysis.Sigmas
+	root := func(v float64) float64 { return k * math.Sqrt(v) }
 	*w = agg{cmrr: math.Inf(1), cmrrRes: math.Inf(1)}
 	cal, calOff := e.s.Calibrate.Gain, e.s.Calibrate.Offset
 	a := &e.amp
@@ -324,13 +334,14 @@ func (e *Evaluator) rssAgg(npts int, pn *[4]point, w *agg) {
 	for ti := 0; ti < npts; ti++ {
 		p := &pn[ti]
 		t := pts[ti].t
-		var sg, sr, sa, sb, sbc, sd float64
+		var sg, sr, sa, sb, sbc, sd, sbd float64
 		for j := range e.params {
 			if e.params[j].kind.amplifierTerm() {
 				continue
 			}
 			g, r, c, b, bc, d := e.sensOf(qGain, ti, j, pn), e.sensOf(qRatio, ti, j, pn), e.sensOf(qCM, ti, j, pn), e.sensOf(qBase, ti, j, pn), e.sensOf(qBaseChange, ti, j, pn), e.sensOf(qDrift, ti, j, pn)
-			sg, sr, sa, sb, sbc, sd = sg+g*g, sr+r*r, sa+c*c, sb+b*b, sbc+bc*bc, sd+d*d
+			bd := e.sensOf(qBaseDrift, ti, j, pn)
+			sg, sr, sa, sb, sbc, sd, sbd = sg+g*g, sr+r*r, sa+c*c, sb+b*b, sbc+bc*bc, sd+d*d, sbd+bd*bd
 		}
 		dt := math.Abs(t - e.s.TempRef)
 		var amp2, drift2, cm2 float64
@@ -341,11 +352,11 @@ func (e *Evaluator) rssAgg(npts int, pn *[4]point, w *agg) {
 			amp2 += d*d + sq(a.VosV*tv) + sq(a.IbA*ts) + sq(a.IosA/2*td)
 			cm2 += sq(p.pinCM[i] * tv / e.cmrrAmp)
 		}
-		init := math.Abs(p.gain/gt-1) + math.Sqrt(sg)/math.Abs(gt)
+		init := math.Abs(p.gain/gt-1) + root(sg)/math.Abs(gt)
 		if ti == 0 {
 			w.gainErrInit = init
 		}
-		ratio := math.Abs(p.gain/pn[0].gain-1) + math.Sqrt(sr)
+		ratio := math.Abs(p.gain/pn[0].gain-1) + root(sr)
 		switch {
 		case !cal:
 			w.gainErr = math.Max(w.gainErr, init)
@@ -355,9 +366,11 @@ func (e *Evaluator) rssAgg(npts int, pn *[4]point, w *agg) {
 		if w.gainErr == init || w.gainErr == ratio {
 			w.worstT = t
 		}
-		off := math.Abs(p.base-e.target) + math.Sqrt(sb+amp2)
-		change := math.Abs(p.base-pn[0].base) + math.Sqrt(sbc+drift2)
-		drift := math.Abs(p.gain/pn[e.lifeRef()].gain-1) + math.Sqrt(sd)
+		off := math.Abs(p.base-e.target) + root(sb+amp2)
+		change := math.Abs(p.base-pn[0].base) + root(sbc+drift2)
+		drift := math.Abs(p.gain/pn[e.lifeRef()].gain-1) + root(sd)
+		// Offset drift, like gain drift, from the point after load life.
+		offDrift := math.Abs(p.base-pn[e.lifeRef()].base) + root(sbd+drift2)
 		if calOff {
 			if ti > 0 {
 				w.offset = math.Max(w.offset, change)
@@ -367,11 +380,11 @@ func (e *Evaluator) rssAgg(npts int, pn *[4]point, w *agg) {
 		}
 		if dt > 0 {
 			w.drift = math.Max(w.drift, drift/dt)
-			w.offsetDrift = math.Max(w.offsetDrift, change/dt)
+			w.offsetDrift = math.Max(w.offsetDrift, offDrift/dt)
 		}
 		if e.differential {
-			res := math.Min(capLin, math.Abs(p.adm)/(math.Abs(p.acm)+math.Sqrt(sa)+tinyTransfer))
-			tot := math.Min(capLin, math.Abs(p.adm)/(math.Abs(p.acm)+math.Sqrt(sa+cm2)+tinyTransfer))
+			res := math.Min(capLin, math.Abs(p.adm)/(math.Abs(p.acm)+root(sa)+tinyTransfer))
+			tot := math.Min(capLin, math.Abs(p.adm)/(math.Abs(p.acm)+root(sa+cm2)+tinyTransfer))
 			w.cmrr, w.cmrrRes = math.Min(w.cmrr, tot), math.Min(w.cmrrRes, res)
 		}
 	}
