@@ -109,7 +109,8 @@ const (
 //	the source drives the stage through vref (or vrefsrc) --[Rref]-- refz
 //	(likewise for the level shift's R2 and the in-amp's R4)
 //
-// Divider, Vout = Vin Rbot/(Rtop+Rbot) unloaded; iload leaves the tap:
+// Divider, Vout = Vin Rbot/(Rtop+Rbot) unloaded; iload leaves the output
+// (the tap, or the buffer's output):
 //
 //	vin --[Rsrc]-- in --[Rtop]-- tap --[Rbot]-- 0
 //	tap is "out", or with Buffer tap = A1+, A1- = A1 out = "out"
@@ -174,7 +175,9 @@ func New(f Family, o Options) (*Netlist, error) {
 		}
 		b.res("Rtop", in, tap, 90e3)
 		b.res("Rbot", tap, "0", 10e3)
-		b.current("iload", tap, "0", 0)
+		// The load's leakage leaves the output: the tap itself, or the
+		// buffer's output, which supplies it.
+		b.current("iload", "out", "0", 0)
 		if o.Buffer {
 			b.amp("A1", tap, "out", "out")
 		}
