@@ -139,9 +139,22 @@ func (e *Evaluator) cautions(res *Result) {
 func (e *Evaluator) commonNotes(res *Result) {
 	s := e.s
 	res.Notes = append(res.Notes,
-		fmt.Sprintf("temperature points %g C (reference) and the range ends %g..%g C; worst excursion %g K", s.TempRef, s.Temp.Min, s.Temp.Max, s.WorstExcursion()),
-		"open-loop gain at its datasheet minimum; bias currents taken as constant over temperature",
-		fmt.Sprintf("noise: white densities at %g C, RMS over the brick-wall bandwidth π/2 x f-3dB of a single pole (1/f noise not modelled)", s.Temp.Max))
+		fmt.Sprintf("temperature points %g C (reference) and the range ends %g..%g C; worst excursion %g K", s.TempRef, s.Temp.Min, s.Temp.Max, s.WorstExcursion()))
+	l := &s.Limits
+	switch {
+	case !e.passive():
+		res.Notes = append(res.Notes, "open-loop gain at its datasheet minimum; bias currents taken as constant over temperature",
+			fmt.Sprintf("noise: white densities at %g C, RMS over the brick-wall bandwidth π/2 x f-3dB of a single pole (1/f noise not modelled)", s.Temp.Max))
+	case l.BandwidthHz > 0:
+		res.Notes = append(res.Notes,
+			fmt.Sprintf("noise: thermal densities at %g C, RMS over the limit's bandwidth as a brick wall: a divider sets no bandwidth of its own", s.Temp.Max),
+			"bandwidth limit not checked: a resistive divider has none of its own (its source, the load's capacitance and any filter after it set it)")
+	case l.NoiseRMSV > 0:
+		res.Notes = append(res.Notes, "noise RMS limit not checked: a resistive divider sets no bandwidth to integrate its noise over; give limits.bandwidth, the bandwidth the filter or ADC after it passes")
+	}
+	if l.InputImpedance > 0 && e.family == spec.CurrentSense {
+		res.Notes = append(res.Notes, "input impedance limit not checked: a current-sense input is a current, and the shunt is the impedance it sees")
+	}
 	if s.Calibrate.Gain {
 		res.Notes = append(res.Notes, "gain calibrated once at the reference temperature: the initial gain error drops out; drift, load life and CMRR remain")
 	}

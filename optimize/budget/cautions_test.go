@@ -104,3 +104,60 @@ positions:
 		})
 	}
 }
+
+// TestPassiveDividerNoise: an unbuffered divider sets no bandwidth, so its
+// noise RMS is the thermal density of Rtop || Rbot, sqrt(4 k T R) (Horowitz
+// and Hill, noise chapter), over the bandwidth the spec asks for; without
+// one the noise RMS limit is not checked and a note says why, and a
+// bandwidth limit is never checked on it. Both once passed as "no error"
+// or vanished without a word.
+func TestPassiveDividerNoise(t *testing.T) {
+	d := mustDesign(t, `family: divider
+positions:
+  Rtop: {value: 90k, tolerance: 0.1%, tcr: 25ppm/K}
+  Rbot: {value: 10k, tolerance: 0.1%, tcr: 25ppm/K}
+`)
+	spec := func(limits string) string {
+		return "name: t\nabout: passive divider noise\nfamily: divider\ngain: 0.1\ninput: {single_ended: 0..10V}\nsupply: 0..5V\n" +
+			"temperature: {range: -40..85C}\nlimits: {" + limits + "}\n"
+	}
+	res, err := Evaluate(mustSpec(t, spec("noise_rms: 1mV, bandwidth: 10kHz")), d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := math.Sqrt(4*Boltzmann*(85+273.15)*9e3) * math.Sqrt(10e3)
+	if got := res.Metrics.NoiseRMSV; math.Abs(got-want) > 1e-9*want {
+		t.Errorf("noise RMS %.6g V, want %.6g V", got, want)
+	}
+	checked := map[string]bool{}
+	for _, l := range res.Limits {
+		checked[l.Name] = true
+	}
+	if !checked[LimitNoiseRMS] || checked[LimitBandwidth] {
+		t.Errorf("limits checked %v: want noise RMS and no bandwidth", checked)
+	}
+	if !hasNote(res, "bandwidth limit not checked") {
+		t.Errorf("no note on the unchecked bandwidth limit: %q", res.Notes)
+	}
+	res, err = Evaluate(mustSpec(t, spec("noise_rms: 1mV")), d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, l := range res.Limits {
+		if l.Name == LimitNoiseRMS {
+			t.Errorf("noise RMS checked without a bandwidth: %+v", l)
+		}
+	}
+	if !hasNote(res, "noise RMS limit not checked") {
+		t.Errorf("no note on the unchecked noise RMS limit: %q", res.Notes)
+	}
+}
+
+func hasNote(res *Result, prefix string) bool {
+	for _, n := range res.Notes {
+		if strings.HasPrefix(n, prefix) {
+			return true
+		}
+	}
+	return false
+}

@@ -155,8 +155,8 @@ func (e *Evaluator) nominal(m *Metrics, terms *[]noiseTerm) error {
 	pr, _, vr, _ := e.ratings()
 	m.PowerRatio, m.VoltageRatio = pr, vr
 	m.HeadroomV = e.headroom
-	if math.IsInf(m.HeadroomV, 1) {
-		m.HeadroomV = 0
+	if math.IsInf(m.HeadroomV, 1) || m.HeadroomV == 0 {
+		m.HeadroomV = 0 // also turns a -0 (a pin exactly at its limit) into 0
 	}
 	a := &e.amp
 	if e.matched {
@@ -211,9 +211,18 @@ func (e *Evaluator) nominal(m *Metrics, terms *[]noiseTerm) error {
 	}
 	m.NoiseDensity = math.Sqrt(d2)
 	m.NoiseRMSV = m.NoiseDensity * math.Sqrt(NoiseBandwidthFactor*m.BandwidthHz)
+	if e.passive() {
+		// No amplifier sets a bandwidth: the noise is integrated over the
+		// bandwidth the spec asks for, brick-wall (the filter or ADC after
+		// the divider sets the real one); without one it is not known.
+		m.NoiseRMSV = m.NoiseDensity * math.Sqrt(e.s.Limits.BandwidthHz)
+	}
 	m.InputImpedanceOhm = e.inputImpedance()
 	return nil
 }
+
+// passive reports a stage without an amplifier (an unbuffered divider).
+func (e *Evaluator) passive() bool { return !e.matched && len(e.amps) == 0 }
 
 // inputImpedance drives the unit signal at nominal values and returns the
 // smallest V/I seen at a signal source node (the current found from the

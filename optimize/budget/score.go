@@ -493,7 +493,7 @@ func (e *Evaluator) judge(m *Metrics, out *Score) {
 	if l.OffsetDriftVK > 0 {
 		set(IOffsetDrift, m.OffsetDriftVPerK, l.OffsetDriftVK, true)
 	}
-	if l.NoiseRMSV > 0 {
+	if l.NoiseRMSV > 0 && !(e.passive() && l.BandwidthHz == 0) {
 		set(INoiseRMS, m.NoiseRMSV, l.NoiseRMSV, true)
 	}
 	if l.NoiseDensity > 0 {
