@@ -116,6 +116,25 @@ func runCheck(ctx context.Context, opts *checkOptions) error {
 	return nil
 }
 
+// writeCheckFigures prints the figures a reviewer reads before the
+// limits: the nominal gain against its target and, for a differential
+// input, the resistors' own CMRR and the output error the common-mode
+// range adds on top of the offset.
+func writeCheckFigures(w io.Writer, sp *spec.Spec, r *budget.Result) {
+	m := &r.Metrics
+	unit := ""
+	if r.Family == spec.CurrentSense {
+		unit = " V/A"
+	}
+	g := func(v float64) string { return strconv.FormatFloat(v, 'g', 6, 64) + unit }
+	fmt.Fprintf(w, "nominal gain %s (target %s: %s off at nominal values)\n",
+		g(m.Gain), g(m.GainTarget), units.FormatPercent(m.GainNominalError))
+	if m.CommonModeErrorV > 0 || m.CMRRResistorsdB > 0 {
+		fmt.Fprintf(w, "CMRR of the resistors alone %s; over the common-mode range %g..%g V it adds up to %s at the output, on top of the output offset\n",
+			budget.FormatFigure(m.CMRRResistorsdB, "dB"), sp.CommonMode.Min, sp.CommonMode.Max, budget.FormatFigure(m.CommonModeErrorV, "V"))
+	}
+}
+
 func writeCheckTable(w io.Writer, ios *IOStreams, sp *spec.Spec, r *budget.Result) error {
 	printCautions(w, ios, r.Cautions)
 	verdict := ios.Green("PASS")
@@ -130,8 +149,9 @@ func writeCheckTable(w io.Writer, ios *IOStreams, sp *spec.Spec, r *budget.Resul
 		}
 		fmt.Fprintf(w, "  %s: %s%s %s\n", p.Position, p.Part, value, p.Grade)
 	}
+	writeCheckFigures(w, sp, r)
 	fmt.Fprintln(w)
-	t := newTable(ios, "LIMIT", "VALUE", "LIMIT", "MARGIN", "RESULT").alignRight(1, 2, 3)
+	t := newTable(ios, "METRIC", "VALUE", "LIMIT", "MARGIN", "RESULT").alignRight(1, 2, 3)
 	for _, l := range r.Limits {
 		res := ios.Green("pass")
 		if !l.Pass {

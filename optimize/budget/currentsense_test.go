@@ -2,6 +2,7 @@ package budget
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"plumb/optimize/spec"
@@ -142,4 +143,41 @@ func evaluatorOf(t *testing.T, s *spec.Spec, d *spec.Design) (*Evaluator, *Candi
 		t.Fatal(err)
 	}
 	return e, c
+}
+
+// TestCommonModeErrorApart: the output offset is taken at zero signal and
+// zero common mode, so it does not move with the common-mode range; the
+// range's own share is the common-mode error, max |Vcm| x |Adm| / CMRR.
+// For four 0.1 % resistors at gain 50 the worst-case CMRR is about
+// (1 + G)/(4t) = 12750 (Franco, difference-amplifier chapter, from memory),
+// so 12 V of common mode adds about 12 x 50/12750 = 47 mV at the output.
+// The offset once sat at the common-mode end nearest 0 V, so moving the
+// range from 0..12 V to 10..12 V moved it by 100 mV.
+func TestCommonModeErrorApart(t *testing.T) {
+	design := mustDesign(t, `family: current-sense
+positions:
+  Rs: {value: 0.01, tolerance: 1%, tcr: 0ppm/K, power: 1W}
+  R1: {value: 1k, tolerance: 0.1%, tcr: 0ppm/K}
+  R2: {value: 50k, tolerance: 0.1%, tcr: 0ppm/K}
+  R3: {value: 1k, tolerance: 0.1%, tcr: 0ppm/K}
+  R4: {value: 50k, tolerance: 0.1%, tcr: 0ppm/K}
+`+idealAmp)
+	run := func(cm string) Metrics {
+		src := strings.NewReplacer("-0.1..0.1V", cm, "supply: 0..5V", "supply: ±15V").Replace(csSpec)
+		res, err := Evaluate(mustSpec(t, src), design)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return res.Metrics
+	}
+	wide, high := run("0..12V"), run("10..12V")
+	if math.Abs(wide.OutputOffsetV-high.OutputOffsetV) > 1e-12 {
+		t.Errorf("output offset %.9g V over 0..12 V, %.9g V over 10..12 V: it must not depend on the range", wide.OutputOffsetV, high.OutputOffsetV)
+	}
+	if want := 12 * 50.0 / 12750; math.Abs(wide.CommonModeErrorV-want) > 0.02*want {
+		t.Errorf("common-mode error %.4g V, want about %.4g V", wide.CommonModeErrorV, want)
+	}
+	if math.Abs(wide.CommonModeErrorV-high.CommonModeErrorV) > 1e-12 {
+		t.Errorf("common-mode error %.6g V vs %.6g V for the same largest |Vcm|", wide.CommonModeErrorV, high.CommonModeErrorV)
+	}
 }

@@ -108,7 +108,7 @@ type Evaluator struct {
 	amps           []int
 	matched        bool
 	differential   bool
-	cmBase         float64
+	cmBase         float64 // common mode of the stress corners of a single-ended input
 	target         float64 // target output at zero signal
 	temps          [3]float64
 	ntemps         int
@@ -577,9 +577,11 @@ func (e *Evaluator) evalSpread(x []float64, t float64, life bool, p *point) erro
 	if e.shunt >= 0 {
 		p.adm = p.gain / e.net.Resistors[e.resIdx[e.shunt]].Ohm
 	}
-	// The output at zero signal: the inputs at the base common mode, the
-	// reference, the load's leakage.
-	p.base = e.cmBase * p.acm
+	// The output at zero signal and zero common mode: the reference and the
+	// load's leakage. The common mode's own share is CMRR's (see
+	// Metrics.CommonModeErrorV), so the offset does not depend on where the
+	// common-mode range lies.
+	p.base = 0
 	if e.refSrc >= 0 && e.s.Reference != nil {
 		p.base += sol.SourceTransfer(e.refSrc) * (e.s.Reference.V * ref)
 	}

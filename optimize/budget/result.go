@@ -66,9 +66,13 @@ type Metrics struct {
 	CMRRResistorsdB float64 `json:"cmrr_resistors_db"`
 	// DriftPPMPerK is the worst gain drift, ppm/K, over the worst excursion.
 	DriftPPMPerK float64 `json:"drift_ppm_per_k"`
-	// OutputOffsetV is the worst output offset error (with offset
-	// calibration: its change over temperature).
+	// OutputOffsetV is the worst output offset error at zero input and zero
+	// common mode (with offset calibration: its change over temperature).
 	OutputOffsetV float64 `json:"output_offset_v"`
+	// CommonModeErrorV is the output error the common-mode range adds at
+	// the worst CMRR: max |Vcm| x |Adm| / CMRR (differential stages), on
+	// top of OutputOffsetV at zero signal.
+	CommonModeErrorV float64 `json:"common_mode_error_v,omitempty"`
 	// OffsetDriftVPerK is the worst output offset drift.
 	OffsetDriftVPerK float64 `json:"offset_drift_v_per_k"`
 	// NoiseGain is the op-amp's noise gain (A1, or the first stage of an in-amp).
