@@ -53,8 +53,9 @@ func sign(v float64) string {
 var ohmPrefixes = [...]string{"", "k", "M", "G"}
 
 // FormatOhms writes a resistance in the trade's engineering notation with up
-// to three significant figures and no trailing zeros: 4990 is "4.99k",
-// 10000 "10k", 100 "100", 49.9 "49.9", 2.2e6 "2.2M". Values below 1 Ω are
+// to six significant figures and no trailing zeros: 4990 is "4.99k",
+// 10000 "10k", 100 "100", 49.9 "49.9", 2.2e6 "2.2M", and a computed or
+// inline value keeps its digits (19047.6 is "19.0476k", not "19k"). Values below 1 Ω are
 // written as plain decimals ("0.1", "0.05"), since "m" is easily misread as
 // "M"; values beyond the G range or below 1e-6 Ω use an exponent. The result
 // reads back with ParseResistance.
@@ -65,7 +66,7 @@ func FormatOhms(v float64) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return strconv.FormatFloat(v, 'g', -1, 64)
 	}
-	d, e := digits(v, 3)
+	d, e := digits(v, 6)
 	switch {
 	case e < -6 || e >= 12:
 		return sign(v) + place(d, 1) + "e" + strconv.Itoa(e)
