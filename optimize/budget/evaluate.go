@@ -126,6 +126,17 @@ func (e *Evaluator) Evaluate(c *Candidate) (*Result, error) {
 	return res, nil
 }
 
+// movesGain reports whether parameter j changes the gain at any of the
+// npts temperature points of the last sensitivities.
+func (e *Evaluator) movesGain(j, npts int) bool {
+	for ti := 0; ti < npts; ti++ {
+		if e.sens[j].g[ti] != 0 {
+			return true
+		}
+	}
+	return false
+}
+
 // mcAgg takes the ±3 sigma points of the Monte Carlo distributions as the
 // method's figures.
 func mcAgg(mc *MCSummary, diff bool) agg {
@@ -185,6 +196,9 @@ func (e *Evaluator) worstEnumerated(npts int, pn *[4]point, w *agg, res *Result)
 	res.Notes = append(res.Notes, fmt.Sprintf("worst case: all %d corners of %d varying parameters enumerated at %d temperature points; amplifier offset, bias-current and CMRR terms added at their worst sign", 1<<len(vary), len(vary), npts))
 	var corner []string
 	for _, j := range vary {
+		if !e.movesGain(j, npts) {
+			continue // a reference term: it does not touch the gain
+		}
 		sign := "+"
 		if best[j] < 0 {
 			sign = "-"
@@ -338,9 +352,19 @@ func (e *Evaluator) contributors(npts int, pn *[4]point) [NumLimits][]Contributi
 	}
 	if !cal && !e.matched {
 		ideal := e.idealGain()
+		var with []string
+		if e.shunt >= 0 {
+			with = append(with, "the shunt in series with R3")
+		}
+		if e.s.SourceOhm > 0 {
+			with = append(with, "source")
+		}
+		if e.s.LoadOhm > 0 {
+			with = append(with, "load")
+		}
 		name := "ratio quantization"
-		if e.s.SourceOhm > 0 || e.s.LoadOhm > 0 {
-			name = "nominal ratio with source and load"
+		if len(with) > 0 {
+			name = "nominal ratio with " + strings.Join(with, ", ")
 		}
 		gl = append(gl, Contribution{Name: name, Value: math.Abs(ideal/e.s.Gain - 1)})
 		for a := range e.amps {
@@ -426,7 +450,17 @@ func (e *Evaluator) contributors(npts int, pn *[4]point) [NumLimits][]Contributi
 		}
 	}
 	if !calOff && math.Abs(pn[0].base-e.target) > 0 {
-		ol = append(ol, Contribution{Name: "nominal offset (reference path)", Value: math.Abs(pn[0].base - e.target)})
+		var from []string
+		if e.refSrc >= 0 && e.s.Reference != nil {
+			from = append(from, "reference path")
+		}
+		if e.leak >= 0 && e.s.LeakageA != 0 {
+			from = append(from, "load leakage")
+		}
+		if len(from) == 0 {
+			from = append(from, "nominal values")
+		}
+		ol = append(ol, Contribution{Name: "nominal offset (" + strings.Join(from, ", ") + ")", Value: math.Abs(pn[0].base - e.target)})
 	}
 	a := &e.amp
 	for i := 0; i < e.nAmps(); i++ {
