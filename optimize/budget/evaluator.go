@@ -91,6 +91,7 @@ type Evaluator struct {
 
 	net       *circuit.Netlist
 	sol       *circuit.Solver
+	gbw       []float64 // per op-amp GBW for the AC solve (see bandwidth)
 	v         []float64
 	positions []string
 	resIdx    []int // netlist resistor per position
@@ -251,6 +252,7 @@ func (e *Evaluator) buildNetlist() error {
 		return fmt.Errorf("budget: %s netlist has no signal source", e.family)
 	}
 	e.sol = circuit.NewSolver(net)
+	e.gbw = make([]float64, len(net.OpAmps))
 	e.v = make([]float64, len(net.Nodes))
 	return nil
 }

@@ -208,3 +208,40 @@ func TestReferenceImpedance(t *testing.T) {
 		t.Errorf("with a 1k reference: Adm %.9g, Acm %.9g; want %.9g, %.9g", p.gain, p.acm, wantDM, wantCM)
 	}
 }
+
+// TestInAmpBandwidth: in differential mode the two input amplifiers of a
+// three-op-amp in-amp roll off together about the virtual ground in the
+// middle of Rg, so each closes its loop at the noise gain 1 + 2Rf/Rg = 201,
+// a single pole at GBW (1/201 + 1/Aol); the difference stage adds its own at
+// GBW (1/2 + 1/Aol) (single-pole closed loop, Franco ch. 6, from memory).
+// The -3 dB point of the two poles p1, p2 solves (1 + x/p1²)(1 + x/p2²) = 2
+// for x = f². The budget once took each input amplifier's own loop with the
+// other ideal, noise gain 101, and reported twice the bandwidth.
+func TestInAmpBandwidth(t *testing.T) {
+	s := mustSpec(t, `name: t
+about: in-amp bandwidth
+family: inamp
+gain: 201
+input: {differential: ±10mV, common_mode: -1..1V}
+supply: ±15V
+temperature: {range: 25..25C}
+limits: {bandwidth: 1kHz}
+`)
+	res := func(v string) string { return "{value: " + v + ", tolerance: 0.1%, tcr: 10ppm/K}" }
+	d := mustDesign(t, "family: inamp\npositions:\n  Rg: "+res("1k")+"\n  Rf1: "+res("100k")+"\n  Rf2: "+res("100k")+
+		"\n  R1: "+res("10k")+"\n  R2: "+res("10k")+"\n  R3: "+res("10k")+"\n  R4: "+res("10k")+
+		"\namplifier: {aol: 2e6, gbw: 600kHz, cm_neg: -1V, cm_pos: -1V, swing_neg: -1V, swing_pos: -1V}\n")
+	r, err := Evaluate(s, d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	p1, p2 := 600e3*(1.0/201+1/2e6), 600e3*(1.0/2+1/2e6)
+	a, b := 1/(p1*p1*p2*p2), 1/(p1*p1)+1/(p2*p2) // a x² + b x - 1 = 0
+	want := math.Sqrt((-b + math.Sqrt(b*b+4*a)) / (2 * a))
+	if got := r.Metrics.BandwidthHz; math.Abs(got-want) > 1e-6*want {
+		t.Errorf("in-amp bandwidth %.7g Hz, want %.7g Hz", got, want)
+	}
+	if ng := r.Metrics.NoiseGain; math.Abs(ng-600e3/want) > 1e-9*ng {
+		t.Errorf("noise gain %.6g, want GBW/bandwidth %.6g", ng, 600e3/want)
+	}
+}

@@ -1,6 +1,7 @@
 package budget
 
 import (
+	"fmt"
 	"math"
 
 	"plumb/optimize/spec"
@@ -192,14 +193,9 @@ func (e *Evaluator) nominal(m *Metrics, terms *[]noiseTerm) error {
 			*terms = append(*terms, noiseTerm{res: i, v: math.Abs(t)})
 		}
 	}
-	m.BandwidthHz = 0
 	for ai, i := range e.amps {
-		ng := e.ampT.ng[ai]
 		if ai == 0 {
-			m.NoiseGain = ng
-		}
-		if bw := a.GBWHz / ng; a.GBWHz > 0 && (m.BandwidthHz == 0 || bw < m.BandwidthHz) {
-			m.BandwidthHz = bw
+			m.NoiseGain = e.ampT.ng[ai]
 		}
 		tv, tp, tm := e.sol.AmpTransfers(i)
 		vn := a.NoiseVHz * tv
@@ -208,6 +204,9 @@ func (e *Evaluator) nominal(m *Metrics, terms *[]noiseTerm) error {
 		if terms != nil {
 			*terms = append(*terms, noiseTerm{res: -1, amp: ai, kind: 1, v: math.Abs(vn)}, noiseTerm{res: -1, amp: ai, kind: 2, v: math.Sqrt(in2)})
 		}
+	}
+	if err := e.bandwidth(m); err != nil {
+		return err
 	}
 	m.NoiseDensity = math.Sqrt(d2)
 	m.NoiseRMSV = m.NoiseDensity * math.Sqrt(NoiseBandwidthFactor*m.BandwidthHz)
@@ -218,6 +217,35 @@ func (e *Evaluator) nominal(m *Metrics, terms *[]noiseTerm) error {
 		m.NoiseRMSV = m.NoiseDensity * math.Sqrt(e.s.Limits.BandwidthHz)
 	}
 	m.InputImpedanceOhm = e.inputImpedance()
+	return nil
+}
+
+// bandwidth sets the closed-loop -3 dB bandwidth of the signal path at
+// nominal values from the exact AC solve with every op-amp a single pole at
+// its GBW (circuit.Solver.Bandwidth): GBW/NG for one op-amp, and for the
+// in-amp the differential mode's 1 + 2Rf/Rg, where both input amplifiers
+// roll off together, which no single loop's noise gain gives. The noise
+// gain reported is then GBW over that bandwidth, the loop gain the signal
+// sees. Without a GBW figure the bandwidth is 0 (unknown).
+func (e *Evaluator) bandwidth(m *Metrics) error {
+	m.BandwidthHz = 0
+	if e.passive() || !(e.amp.GBWHz > 0) {
+		return nil
+	}
+	for i := range e.gbw {
+		e.gbw[i] = e.amp.GBWHz
+	}
+	e.quiet()
+	e.driveSignal(1)
+	bw, err := e.sol.Bandwidth(e.gbw)
+	e.driveSignal(-1)
+	if err != nil {
+		return fmt.Errorf("budget: %s bandwidth: %w", e.family, err)
+	}
+	m.BandwidthHz = bw
+	if len(e.amps) > 1 && bw > 0 && !math.IsInf(bw, 1) {
+		m.NoiseGain = e.amp.GBWHz / bw
+	}
 	return nil
 }
 
