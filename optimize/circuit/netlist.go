@@ -8,8 +8,8 @@ import (
 // Sentinel errors. Callers branch on them with errors.Is.
 var (
 	// ErrSingular is returned by Factor when the nodal matrix cannot be
-	// factored: a node without a DC path, or a resistor whose value is zero,
-	// negative or NaN.
+	// factored: a node without a DC path, a resistor whose value is zero,
+	// negative or NaN, or an op-amp gain that is not positive.
 	ErrSingular = errors.New("circuit: singular nodal matrix")
 	// ErrFamily is returned for an unknown family name.
 	ErrFamily = errors.New("circuit: unknown circuit family")

@@ -242,8 +242,9 @@ func (s *Solver) compile() {
 // the constraint row V(Out)/Gain - V(Plus) + V(Minus) = Vos (exact for
 // Gain = +Inf). It returns an error wrapping ErrSingular, naming the
 // resistor or node, for a resistance that is zero, negative or NaN, a gain
-// that is zero or NaN, or a node without a DC path. +Inf ohm is an open
-// circuit. Factor does not allocate unless it fails.
+// that is not positive (zero, negative or NaN), or a node without a DC
+// path. +Inf ohm is an open circuit. Factor does not allocate unless it
+// fails.
 func (s *Solver) Factor() error {
 	s.factored = false
 	if s.topoErr != nil {
@@ -288,8 +289,10 @@ func (s *Solver) Factor() error {
 	ops := s.n.OpAmps
 	for k := range ops {
 		gain := ops[k].Gain
-		if gain == 0 || gain != gain {
-			return fmt.Errorf("%w: op-amp %q has open-loop gain %g; it must be non-zero (use +Inf for an ideal amplifier)", ErrSingular, ops[k].Name, gain)
+		if !(gain > 0) {
+			// Zero or NaN leaves no constraint; a negative gain is positive
+			// feedback, a latch, not an amplifier.
+			return fmt.Errorf("%w: op-amp %q has open-loop gain %g; it must be positive (use +Inf for an ideal amplifier)", ErrSingular, ops[k].Name, gain)
 		}
 		st := s.aStamps[k]
 		a[st.diag] += gmax / gain

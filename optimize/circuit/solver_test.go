@@ -28,6 +28,7 @@ func TestFactorErrors(t *testing.T) {
 			n.Resistors[n.Resistor("Rg")].Ohm = math.Inf(1)
 		}, ErrSingular, "has no DC path"},
 		{"zero gain", Inverting, func(n *Netlist) { n.OpAmps[0].Gain = 0 }, ErrSingular, `op-amp "A1" has open-loop gain 0`},
+		{"negative gain", Inverting, func(n *Netlist) { n.OpAmps[0].Gain = -1e5 }, ErrSingular, `op-amp "A1" has open-loop gain -100000; it must be positive`},
 		{"output on a source", Inverting, func(n *Netlist) { n.OpAmps[0].Out = n.Node("vin") }, ErrTopology, `op-amp "A1" drives node "vin"`},
 		{"two sources on a node", Difference, func(n *Netlist) { n.Sources[1].Node = n.Sources[0].Node }, ErrTopology, "is driven by both"},
 		{"source on ground", Inverting, func(n *Netlist) { n.Sources[0].Node = 0 }, ErrTopology, "must drive a node other than ground"},
