@@ -3,6 +3,7 @@ package budget
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"plumb/optimize/spec"
 )
@@ -152,6 +153,10 @@ func (e *Evaluator) commonNotes(res *Result) {
 	case l.NoiseRMSV > 0:
 		res.Notes = append(res.Notes, "noise RMS limit not checked: a resistive divider sets no bandwidth to integrate its noise over; give limits.bandwidth, the bandwidth the filter or ADC after it passes")
 	}
+	if missing := e.missingAmpFigures(); len(missing) > 0 {
+		res.Notes = append(res.Notes, "amplifier figures not given, taken as ideal (no error from them): "+strings.Join(missing, ", ")+
+			"; give the datasheet maximums for a budget that counts them")
+	}
 	if l.InputImpedance > 0 && e.family == spec.CurrentSense {
 		res.Notes = append(res.Notes, "input impedance limit not checked: a current-sense input is a current, and the shunt is the impedance it sees")
 	}
@@ -167,6 +172,33 @@ func (e *Evaluator) commonNotes(res *Result) {
 			break
 		}
 	}
+}
+
+// missingAmpFigures lists the error figures of the loaded amplifier that
+// are zero (not given), which the budget then treats as ideal; an
+// amplifier with matched resistors inside is judged by its own figures.
+func (e *Evaluator) missingAmpFigures() []string {
+	if e.passive() {
+		return nil
+	}
+	type fig struct {
+		name string
+		v    float64
+	}
+	a := &e.amp
+	figs := []fig{{"vos", a.VosV}, {"vos_drift", a.VosDriftVK}, {"ib", a.IbA}, {"ios", a.IosA}, {"aol", a.AolVV},
+		{"cmrr", a.CMRRdB}, {"gbw", a.GBWHz}, {"noise", a.NoiseVHz}, {"current_noise", a.NoiseAHz}}
+	if e.matched {
+		figs = []fig{{"vos", a.VosV}, {"vos_drift", a.VosDriftVK}, {"gain_error", a.GainErrorMax}, {"gain_drift", a.GainDriftPPM},
+			{"cmrr", a.CMRRdB}, {"gbw", a.GBWHz}, {"noise", a.NoiseVHz}}
+	}
+	var out []string
+	for _, f := range figs {
+		if f.v == 0 {
+			out = append(out, f.name)
+		}
+	}
+	return out
 }
 
 // TempCurve is a design's gain error over the spec's temperature range for

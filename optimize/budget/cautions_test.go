@@ -161,3 +161,17 @@ func hasNote(res *Result, prefix string) bool {
 	}
 	return false
 }
+
+// TestMissingAmplifierFigures: figures an inline amplifier leaves out
+// count as ideal, and the budget says which, so that a review does not
+// take "no error" from a missing Vos for a measured zero.
+func TestMissingAmplifierFigures(t *testing.T) {
+	res, err := Evaluate(mustSpec(t, diffSpec(1, "worst-case")), mustDesign(t, diffDesign(1, "0.1%")))
+	if err != nil {
+		t.Fatal(err)
+	}
+	const want = "amplifier figures not given, taken as ideal (no error from them): vos, vos_drift, ib, ios, cmrr, noise, current_noise;"
+	if !hasNote(res, want) {
+		t.Errorf("notes %q, want one starting %q", res.Notes, want)
+	}
+}
