@@ -145,7 +145,8 @@ type Evaluator struct {
 // spec's families) with the given circuit options.
 func NewEvaluator(s *spec.Spec, family string, opts spec.Options) (*Evaluator, error) {
 	if !s.HasFamily(family) {
-		return nil, fmt.Errorf("%w: %s (spec %s allows %v)", ErrFamily, family, s.Name, s.Families)
+		return nil, fmt.Errorf("%w: %s (spec %s allows %v): add %s to the spec's families, or check the design against a spec for its family",
+			ErrFamily, family, s.Name, s.Families, family)
 	}
 	e := &Evaluator{s: s, family: family, opts: opts, shunt: -1, raPos: -1, rbPos: -1, leak: -1, sigSrc: -1, sigNeg: -1, sigCur: -1, refSrc: -1, cmSrcs: [2]int{-1, -1}}
 	e.differential = s.Differential || family == spec.CurrentSense
