@@ -181,12 +181,15 @@ func ParseDesign(data []byte, name string) (*Design, error) {
 	case !slices.Contains(KnownFamilies, r.Family):
 		p.add("family", "%q is not a family; use one of %s", r.Family, strings.Join(KnownFamilies, ", "))
 	}
+	// Which positions and amplifier a design needs follows from its family;
+	// those checks are skipped when the family is wrong.
+	famOK := !p.failed("family")
 	names := make([]string, 0, len(r.Positions))
 	for n := range r.Positions {
 		names = append(names, n)
 	}
 	sort.Strings(names)
-	if len(names) == 0 && r.Family != Matched {
+	if famOK && len(names) == 0 && r.Family != Matched {
 		p.add("positions", "missing; give a part for every resistor position of the family")
 	}
 	if len(names) > 0 && r.Family == Matched {
@@ -195,11 +198,13 @@ func ParseDesign(data []byte, name string) (*Design, error) {
 	for _, n := range names {
 		d.Positions = append(d.Positions, parsePosition(p, "positions."+n, n, r.Positions[n]))
 	}
-	if r.Amplifier == (rawAmp{}) && r.Family == Divider && !r.Options.Buffer {
+	switch {
+	case r.Amplifier == (rawAmp{}) && r.Family == Divider && !r.Options.Buffer:
 		d.Amplifier.Resolved = true // an unbuffered divider has no amplifier
 		d.Amplifier.Amp.Part = ""
-	} else {
-		d.Amplifier = parseAmp(p, &r.Amplifier, r.Family == Matched)
+	case r.Amplifier == (rawAmp{}) && !famOK:
+	default:
+		d.Amplifier = parseAmp(p, &r.Amplifier, r.Family == Matched, famOK)
 	}
 	if err := p.err(); err != nil {
 		return nil, err
@@ -253,32 +258,27 @@ func parseElement(p *problems, path string, r rawElement) Element {
 			p.add(path+".value", "missing; give the resistance, e.g. 10k")
 		} else {
 			e.Ohm = field(p, path+".value", r.Value, uOhm)
-			if e.Ohm <= 0 {
-				p.add(path+".value", "%q must be positive", r.Value)
+			if e.Ohm <= 0 && !p.failed(path+".value") {
+				p.add(path+".value", "%q must be positive; give the resistance, e.g. 10k", r.Value)
 			}
 		}
 		if r.Tolerance == "" {
 			p.add(path+".tolerance", "missing; give the tolerance, e.g. 0.1%%")
 		} else {
-			e.Tolerance = fractionField(p, path+".tolerance", r.Tolerance)
+			e.Tolerance = magnitude(p, path+".tolerance", r.Tolerance, datasheetMax, fractionField(p, path+".tolerance", r.Tolerance))
+			if e.Tolerance >= 0.5 && !p.failed(path+".tolerance") {
+				p.add(path+".tolerance", "%q is not a usable tolerance; give one below 50 %%, e.g. 0.1%%", r.Tolerance)
+			}
 		}
 		if r.TCR == "" {
 			p.add(path+".tcr", "missing; give the temperature coefficient, e.g. 25ppm/K")
 		} else {
-			e.TCR = tempcoField(p, path+".tcr", r.TCR)
+			e.TCR = magnitude(p, path+".tcr", r.TCR, datasheetMax, tempcoField(p, path+".tcr", r.TCR))
 		}
-		if r.Power != "" {
-			e.PowerW = field(p, path+".power", r.Power, uWatt)
-		}
-		if r.MaxVoltage != "" {
-			e.MaxVoltageV = field(p, path+".max_voltage", r.MaxVoltage, uVolt)
-		}
-		if r.ThermalResistance != "" {
-			e.ThermalResistance = field(p, path+".thermal_resistance", r.ThermalResistance, uKPerW)
-		}
-		if r.LoadLife != "" {
-			e.LoadLife = fractionField(p, path+".load_life", r.LoadLife)
-		}
+		optMagnitude(p, path+".power", r.Power, rating, uWatt, &e.PowerW)
+		optMagnitude(p, path+".max_voltage", r.MaxVoltage, rating, uVolt, &e.MaxVoltageV)
+		optMagnitude(p, path+".thermal_resistance", r.ThermalResistance, datasheetMax, uKPerW, &e.ThermalResistance)
+		optMagnitude(p, path+".load_life", r.LoadLife, datasheetMax, uFraction, &e.LoadLife)
 	}
 	if !inline && (r.Power != "" || r.MaxVoltage != "" || r.ThermalResistance != "" || r.LoadLife != "") {
 		p.add(path, "rating figures belong to inline parts; a catalog part brings its own")
@@ -286,17 +286,16 @@ func parseElement(p *problems, path string, r rawElement) Element {
 	if r.RatioTolerance != "" || r.TCRTracking != "" {
 		p.add(path, "ratio_tolerance and tcr_tracking belong to a catalog network; name it with network and element")
 	}
-	if e.Tolerance < 0 || e.Tolerance >= 0.5 {
-		p.add(path+".tolerance", "%g is not a usable tolerance (0 to 50 %%)", e.Tolerance)
-	}
 	return e
 }
 
-func parseAmp(p *problems, r *rawAmp, matched bool) AmplifierChoice {
+// parseAmp reads the amplifier; famOK is false when the design's family is
+// wrong, and the checks that depend on it are skipped.
+func parseAmp(p *problems, r *rawAmp, matched, famOK bool) AmplifierChoice {
 	a := AmplifierChoice{Part: r.Part}
 	if r.Gain != "" {
 		a.Gain = field(p, "amplifier.gain", r.Gain, uGain)
-		if !matched {
+		if !matched && famOK {
 			p.add("amplifier.gain", "a chosen gain belongs to a matched amplifier; the resistors set the gain of an op-amp stage")
 		}
 	} else if matched {
@@ -321,39 +320,52 @@ func parseAmp(p *problems, r *rawAmp, matched bool) AmplifierChoice {
 	} else if r.Type != "" && r.Type != string(catalog.OpAmp) {
 		p.add("amplifier.type", "%q is not an amplifier type; use opamp or matched", r.Type)
 	}
+	// Input and output limits (cm_*, swing_*, in_*) are signed: negative
+	// reaches beyond the rail. The other figures are magnitudes.
 	q := func(path, t string, u unit, dst *float64) {
 		if t != "" {
 			*dst = field(p, "amplifier."+path, t, u)
 		}
 	}
-	q("vos", r.Vos, uVolt, &m.VosV)
-	q("vos_drift", r.VosDrift, uVPerK, &m.VosDriftVK)
-	q("ib", r.Ib, uAmp, &m.IbA)
-	q("ios", r.Ios, uAmp, &m.IosA)
+	mag := func(path, t, what string, u unit, dst *float64) { optMagnitude(p, "amplifier."+path, t, what, u, dst) }
+	mag("vos", r.Vos, datasheetMax, uVolt, &m.VosV)
+	mag("vos_drift", r.VosDrift, datasheetMax, uVPerK, &m.VosDriftVK)
+	mag("ib", r.Ib, datasheetMax, uAmp, &m.IbA)
+	mag("ios", r.Ios, datasheetMax, uAmp, &m.IosA)
 	q("cmrr", r.CMRR, uDB, &m.CMRRdB)
-	q("gbw", r.GBW, uHertz, &m.GBWHz)
-	q("noise", r.Noise, uNoise, &m.NoiseVHz)
-	q("current_noise", r.CurNoise, uCurNoise, &m.NoiseAHz)
+	mag("gbw", r.GBW, "a gain-bandwidth product", uHertz, &m.GBWHz)
+	mag("noise", r.Noise, datasheetMax, uNoise, &m.NoiseVHz)
+	mag("current_noise", r.CurNoise, datasheetMax, uCurNoise, &m.NoiseAHz)
 	q("cm_neg", r.CMNeg, uVolt, &m.CMNegV)
 	q("cm_pos", r.CMPos, uVolt, &m.CMPosV)
 	q("swing_neg", r.SwingNeg, uVolt, &m.SwingNegV)
 	q("swing_pos", r.SwingPos, uVolt, &m.SwingPosV)
-	q("supply_max", r.SupplyMax, uVolt, &m.SupplyMaxV)
-	q("internal_resistance", r.Internal, uOhm, &m.InternalOhm)
+	mag("supply_max", r.SupplyMax, rating, uVolt, &m.SupplyMaxV)
+	mag("internal_resistance", r.Internal, aResistance, uOhm, &m.InternalOhm)
 	q("in_neg", r.InNeg, uVolt, &m.InNegV)
 	q("in_pos", r.InPos, uVolt, &m.InPosV)
-	if r.GainError != "" {
-		m.GainErrorMax = fractionField(p, "amplifier.gain_error", r.GainError)
-	}
+	mag("gain_error", r.GainError, datasheetMax, uFraction, &m.GainErrorMax)
 	if r.GainDrift != "" {
-		m.GainDriftPPM = 1e6 * tempcoField(p, "amplifier.gain_drift", r.GainDrift)
+		m.GainDriftPPM = 1e6 * magnitude(p, "amplifier.gain_drift", r.GainDrift, datasheetMax, tempcoField(p, "amplifier.gain_drift", r.GainDrift))
 	}
 	q("aol", r.Aol, uAol, &m.AolVV)
-	if m.Type == catalog.OpAmp {
-		if m.AolVV <= 0 {
+	// CMRR and open-loop gain are datasheet minimums, levels above 0 dB; at
+	// or below 0 dB (1 V/V) the budget would read no rejection as infinite
+	// rejection, or the op-amp would not amplify.
+	if r.CMRR != "" && m.CMRRdB <= 0 && !p.failed("amplifier.cmrr") {
+		p.add("amplifier.cmrr", "%q must be above 0 dB: CMRR is the datasheet's minimum rejection, a magnitude; write %s", r.CMRR, positiveLevel(r.CMRR, m.CMRRdB, "90dB"))
+	}
+	if r.Aol != "" && m.AolVV <= 1 && !p.failed("amplifier.aol") {
+		p.add("amplifier.aol", "%q must be above 0 dB (1 V/V): the open-loop gain is the datasheet's minimum, a magnitude; write %s", r.Aol, positiveLevel(r.Aol, m.AolVV, "120dB"))
+	}
+	if r.GBW != "" && m.GBWHz == 0 && !p.failed("amplifier.gbw") {
+		p.add("amplifier.gbw", "%q must be positive; give the gain-bandwidth product, e.g. 1MHz", r.GBW)
+	}
+	if m.Type == catalog.OpAmp && famOK {
+		if r.Aol == "" {
 			p.add("amplifier.aol", "missing; an op-amp needs its minimum open-loop gain, e.g. 120dB")
 		}
-		if m.GBWHz <= 0 {
+		if r.GBW == "" {
 			p.add("amplifier.gbw", "missing; give the gain-bandwidth product, e.g. 1MHz")
 		}
 	}
@@ -361,6 +373,15 @@ func parseAmp(p *problems, r *rawAmp, matched bool) AmplifierChoice {
 		m.Gains = []float64{a.Gain}
 	}
 	return a
+}
+
+// positiveLevel suggests how to write a level that must be above 0 dB: the
+// text without its minus sign when v is negative, else example.
+func positiveLevel(text string, v float64, example string) string {
+	if v < 0 {
+		return unsigned(text)
+	}
+	return "e.g. " + example
 }
 
 // Lookup finds a part by part number, returning its kind and the part

@@ -150,3 +150,109 @@ func FuzzDesignRoundTrip(f *testing.F) {
 		}
 	})
 }
+
+// inlineDesign has an inline amplifier and an inline pair the error cases edit.
+const inlineDesign = `family: difference
+positions:
+  R1: {part: TEST-R-10K}
+  R2: {value: 10k, tolerance: 0.1%, tcr: 25ppm/K}
+  R3: {network: TEST-NET, element: 1}
+  R4:
+    series:
+      - {value: 3.9k, tolerance: 1%, tcr: 100ppm/K}
+      - {part: TEST-R-10K}
+amplifier: {aol: 120dB, gbw: 1MHz}
+`
+
+// matchedDesign has an inline matched amplifier.
+const matchedDesign = `family: matched
+amplifier: {gain: 2, gain_error: 0.02%, gain_drift: 1ppm/K, cmrr: 90dB}
+`
+
+func TestDesignFieldErrors(t *testing.T) {
+	amp := func(extra string) func(string) string { return rep("gbw: 1MHz}", "gbw: 1MHz, "+extra+"}") }
+	r2 := func(extra string) func(string) string { return rep("tcr: 25ppm/K}", "tcr: 25ppm/K, "+extra+"}") }
+	const neg = "must not be negative: a datasheet maximum is a magnitude; write "
+	cases := []struct {
+		name   string
+		src    string
+		edit   func(string) string
+		field  string // the exact field path of the one error
+		advice string // a fragment of its message
+	}{
+		// A negative maximum would cancel terms that add in the budget.
+		{"negative vos", inlineDesign, amp("vos: -100uV"), "amplifier.vos", `"-100uV" ` + neg + "100uV"},
+		{"negative vos drift", inlineDesign, amp("vos_drift: -1uV/K"), "amplifier.vos_drift", neg + "1uV/K"},
+		{"negative ib", inlineDesign, amp("ib: -1nA"), "amplifier.ib", neg + "1nA"},
+		{"negative ios", inlineDesign, amp("ios: -0.5nA"), "amplifier.ios", neg + "0.5nA"},
+		{"negative noise", inlineDesign, amp("noise: -10nV/rtHz"), "amplifier.noise", "cannot be negative"},
+		{"negative current noise", inlineDesign, amp("current_noise: -1pA/rtHz"), "amplifier.current_noise", "cannot be negative"},
+		{"negative supply maximum", inlineDesign, amp("supply_max: -36V"), "amplifier.supply_max", "must not be negative: a rating is a magnitude; write 36V"},
+		{"negative gbw", inlineDesign, rep("gbw: 1MHz", "gbw: -1MHz"), "amplifier.gbw", "a frequency cannot be negative"},
+		{"zero gbw", inlineDesign, rep("gbw: 1MHz", "gbw: 0Hz"), "amplifier.gbw", `"0Hz" must be positive; give the gain-bandwidth product`},
+		{"negative cmrr", inlineDesign, amp("cmrr: -10dB"), "amplifier.cmrr", `"-10dB" must be above 0 dB: CMRR is the datasheet's minimum rejection, a magnitude; write 10dB`},
+		{"zero cmrr", inlineDesign, amp("cmrr: 0dB"), "amplifier.cmrr", "must be above 0 dB: CMRR is the datasheet's minimum rejection, a magnitude; write e.g. 90dB"},
+		{"negative aol", inlineDesign, rep("aol: 120dB", "aol: -1000"), "amplifier.aol", `"-1000" must be above 0 dB (1 V/V): the open-loop gain is the datasheet's minimum, a magnitude; write 1000`},
+		{"zero aol", inlineDesign, rep("aol: 120dB", "aol: 0"), "amplifier.aol", "must be above 0 dB (1 V/V)"},
+		{"aol of 0 dB", inlineDesign, rep("aol: 120dB", "aol: 0dB"), "amplifier.aol", "write e.g. 120dB"},
+		{"negative aol in dB", inlineDesign, rep("aol: 120dB", "aol: -20dB"), "amplifier.aol", "cannot be below 0 dB"},
+		{"negative matched gain error", matchedDesign, rep("gain_error: 0.02%", "gain_error: -0.02%"), "amplifier.gain_error", neg + "0.02%"},
+		{"negative matched gain drift", matchedDesign, rep("gain_drift: 1ppm/K", "gain_drift: -1ppm/K"), "amplifier.gain_drift", neg + "1ppm/K"},
+		{"negative matched cmrr", matchedDesign, rep("cmrr: 90dB", "cmrr: -90dB"), "amplifier.cmrr", "write 90dB"},
+		{"negative internal resistance", matchedDesign, rep("cmrr: 90dB", "cmrr: 90dB, internal_resistance: -10k"), "amplifier.internal_resistance", "cannot be negative"},
+		{"negative tolerance", inlineDesign, rep("tolerance: 0.1%", "tolerance: -0.1%"), "positions.R2.tolerance", neg + "0.1%"},
+		{"tolerance too wide", inlineDesign, rep("tolerance: 0.1%", "tolerance: 60%"), "positions.R2.tolerance", `"60%" is not a usable tolerance; give one below 50 %`},
+		{"negative tcr", inlineDesign, rep("tcr: 25ppm/K", "tcr: -25ppm/K"), "positions.R2.tcr", `"-25ppm/K" ` + neg + "25ppm/K"},
+		// U+2212 is the minus sign catalog/units reads as one.
+		{"negative tcr with a minus sign", inlineDesign, rep("tcr: 25ppm/K", "tcr: \u221225ppm/K"), "positions.R2.tcr", neg + "25ppm/K"},
+		{"negative tcr in a pair", inlineDesign, rep("tcr: 100ppm/K", "tcr: -100ppm/K"), "positions.R4.series[0].tcr", neg + "100ppm/K"},
+		{"negative load life", inlineDesign, r2("load_life: -0.1%"), "positions.R2.load_life", neg + "0.1%"},
+		{"negative voltage rating", inlineDesign, r2("max_voltage: -75V"), "positions.R2.max_voltage", "must not be negative: a rating is a magnitude; write 75V"},
+		{"negative power rating", inlineDesign, r2("power: -0.1W"), "positions.R2.power", "cannot be negative"},
+		{"negative thermal resistance", inlineDesign, r2("thermal_resistance: -250K/W"), "positions.R2.thermal_resistance", "cannot be negative"},
+		// One bad field, one error.
+		{"bad value", inlineDesign, rep("value: 10k", "value: 10x"), "positions.R2.value", "is not a resistance"},
+		{"zero value", inlineDesign, rep("value: 10k", "value: 0"), "positions.R2.value", `"0" must be positive; give the resistance`},
+		{"bad aol", inlineDesign, rep("aol: 120dB", "aol: lots"), "amplifier.aol", "is not an open-loop gain"},
+		{"bad gbw", inlineDesign, rep("gbw: 1MHz", "gbw: fast"), "amplifier.gbw", "is not a frequency"},
+		{"bad family of a divider", baseDesign, func(s string) string {
+			return rep("amplifier: {part: TEST-AMP}\n", "")(rep("family: difference", "family: dividr")(s))
+		}, "family", `"dividr" is not a family`},
+		{"bad family of a matched amplifier", matchedDesign, rep("family: matched", "family: matchd"), "family", `"matchd" is not a family`},
+		// YAML type errors, placed at their field.
+		{"bool not true or false", baseDesign, add("options: {buffer: maybe}\n"), "options.buffer", `"maybe" is not a yes-or-no value; write true or false`},
+		{"element not a number", baseDesign, rep("element: 1", "element: one"), "positions.R3.element", `"one" is not a whole number; write it in digits`},
+		{"part number for a position's group", baseDesign, rep("R1: {part: TEST-R-10K}", "R1: TEST-R-10K"), "positions.R1",
+			"e.g. {part: TEST-R-10K}"},
+		{"part number for the amplifier", baseDesign, rep("amplifier: {part: TEST-AMP}", "amplifier: TEST-AMP"), "amplifier", "e.g. {part: TEST-AMP}"},
+		{"scalar for positions", baseDesign, func(string) string { return "family: inverting\npositions: R1\namplifier: {part: TEST-AMP}\n" }, "positions",
+			"one entry per resistor position belongs"},
+		{"mapping for a pair", inlineDesign, rep("    series:\n      - {value: 3.9k, tolerance: 1%, tcr: 100ppm/K}\n      - {part: TEST-R-10K}", "    series: {part: TEST-R-10K}"),
+			"positions.R4.series", "is given where a list belongs"},
+		{"unknown field of a position", baseDesign, rep("R1: {part: TEST-R-10K}", "R1: {part: TEST-R-10K, colour: red}"), "positions.R1.colour",
+			"the fields here are part, network, element, value, tolerance, tcr, power, max_voltage, thermal_resistance, load_life, ratio_tolerance, tcr_tracking, series, parallel"},
+		{"unknown field of a pair element", inlineDesign, rep("{part: TEST-R-10K}\namplifier", "{part: TEST-R-10K, tcr_max: 5ppm/K}\namplifier"), "positions.R4.series[1].tcr_max",
+			"is not a known field"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			_, err := ParseDesign([]byte(c.edit(c.src)), "d.yaml")
+			checkOneFieldError(t, err, "d.yaml", c.field, c.advice)
+		})
+	}
+}
+
+// The figures these cases start from parse; signed input and output limits
+// stay signed (negative reaches beyond the rail, data/examples README).
+func TestDesignSignedFiguresAccepted(t *testing.T) {
+	d, err := ParseDesign([]byte(rep("gbw: 1MHz}", "gbw: 1MHz, cm_neg: -0.1V, swing_pos: -0.05V}")(inlineDesign)), "d.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a := d.Amplifier.Amp; a.CMNegV != -0.1 || a.SwingPosV != -0.05 || a.AolVV != 1e6 {
+		t.Errorf("amplifier figures: %+v", a)
+	}
+	if _, err := ParseDesign([]byte(matchedDesign), "m.yaml"); err != nil {
+		t.Fatal(err)
+	}
+}

@@ -179,25 +179,32 @@ func parseSignal(p *problems, r *rawSpec, s *Spec) {
 	if given > 1 {
 		p.add("input", "give one of differential, single_ended or current, not several")
 	}
+	// Checks of the input, gain and output against the family are skipped
+	// when the family itself is wrong: they would only repeat that error.
+	famOK := !p.failed("family", "families")
 	cs := slices.Contains(s.Families, CurrentSense)
+	inField := ""
 	switch {
 	case in.Current != "":
-		if !cs || len(s.Families) > 1 {
-			p.add("input.current", "a current input needs family current-sense alone")
+		inField = "input.current"
+		if famOK && (!cs || len(s.Families) > 1) {
+			p.add(inField, "a current input needs family current-sense alone")
 		}
-		s.Input = rangeField(p, "input.current", in.Current, uAmp)
+		s.Input = rangeField(p, inField, in.Current, uAmp)
 	case in.Differential != "":
+		inField = "input.differential"
 		s.Differential = true
-		s.Input = rangeField(p, "input.differential", in.Differential, uVolt)
+		s.Input = rangeField(p, inField, in.Differential, uVolt)
 	case in.SingleEnded != "":
-		s.Input = rangeField(p, "input.single_ended", in.SingleEnded, uVolt)
+		inField = "input.single_ended"
+		s.Input = rangeField(p, inField, in.SingleEnded, uVolt)
 	default:
 		p.add("input", "missing; give differential, single_ended or current with its range, e.g. ±10V")
 	}
 	if cs && in.Current == "" && given == 1 {
 		p.add("input", "family current-sense takes input.current (the shunt current), e.g. 0..5A")
 	}
-	if in.Differential != "" || in.SingleEnded != "" {
+	if famOK && (in.Differential != "" || in.SingleEnded != "") {
 		for _, f := range s.Families {
 			if f != CurrentSense && differentialFamily(f) != s.Differential {
 				want := "single_ended"
@@ -211,8 +218,8 @@ func parseSignal(p *problems, r *rawSpec, s *Spec) {
 	if in.CommonMode != "" {
 		s.CommonMode = rangeField(p, "input.common_mode", in.CommonMode, uVolt)
 	}
-	if s.Input.Min == s.Input.Max && given == 1 {
-		p.add("input", "range is a single value; give the span the stage must handle, e.g. -10..10V")
+	if given == 1 && !p.failed(inField) && s.Input.Min == s.Input.Max {
+		p.add(inField, "range is a single value; give the span the stage must handle, e.g. -10..10V")
 	}
 
 	ls := slices.Contains(s.Families, LevelShift)
@@ -220,7 +227,7 @@ func parseSignal(p *problems, r *rawSpec, s *Spec) {
 		p.add("families", "level-shift derives its gain from the ranges; list it alone")
 	}
 	if r.Output != "" {
-		if !ls {
+		if famOK && !ls {
 			p.add("output", "only a level-shift spec gives an output range; others give gain")
 		}
 		s.Output = rangeField(p, "output", r.Output, uVolt)
@@ -231,20 +238,31 @@ func parseSignal(p *problems, r *rawSpec, s *Spec) {
 	case ls && r.Output == "":
 		p.add("output", "missing; a level-shift spec maps the input range onto an output range, e.g. 0..2.5V")
 	case ls:
-		if s.Input.Span() > 0 {
+		if s.Input.Span() > 0 && !p.failed("output") {
 			s.Gain = s.Output.Span() / s.Input.Span()
 			s.Offset = s.Output.Min - s.Gain*s.Input.Min
 		}
 	case r.Gain == "":
-		p.add("gain", "missing; give the target gain, e.g. 10 or -2")
+		if famOK {
+			p.add("gain", "missing; give the target gain, e.g. 10 or -2")
+		}
+	case !famOK:
+		// Without a family the unit of the gain is open: V/V, or V/A for
+		// current sense.
+		g, err := parseQuantity(r.Gain, uGain)
+		if err != nil {
+			if g, err = parseQuantity(r.Gain, uTransR); err != nil {
+				p.add("gain", "%v", err)
+			}
+		}
+		s.Gain = g
 	default:
 		u := uGain
 		if cs {
 			u = uTransR
 		}
-		n := len(p.errs)
 		s.Gain = field(p, "gain", r.Gain, u)
-		if s.Gain == 0 && len(p.errs) == n {
+		if s.Gain == 0 && !p.failed("gain") {
 			p.add("gain", "is zero; a stage needs a non-zero gain")
 		}
 	}
@@ -287,15 +305,14 @@ func parseEnvironment(p *problems, r *rawSpec, s *Spec) {
 		p.add("supply", "missing; give the rails, e.g. ±15V or 0..5V")
 	} else {
 		s.Supply = rangeField(p, "supply", r.Supply, uVolt)
-		if s.Supply.Min == s.Supply.Max {
-			if s.Supply.Max > 0 {
-				s.Supply.Min = 0 // "5V" is a single supply against ground
-			} else {
-				p.add("supply", "%q gives no supply span; write e.g. ±15V or 0..5V", r.Supply)
-			}
-		}
-		if s.Supply.Min > 0 || s.Supply.Max < 0 {
-			p.add("supply", "%q does not include ground (0 V) between its rails", r.Supply)
+		switch {
+		case p.failed("supply"):
+		case s.Supply.Min == s.Supply.Max && s.Supply.Max > 0:
+			s.Supply.Min = 0 // "5V" is a single supply against ground
+		case s.Supply.Min == s.Supply.Max:
+			p.add("supply", "%q gives no supply span; write e.g. ±15V or 0..5V", r.Supply)
+		case s.Supply.Min > 0 || s.Supply.Max < 0:
+			p.add("supply", "%q does not include ground (0 V) between its rails; write e.g. 0..5V or ±15V", r.Supply)
 		}
 	}
 	if ref := r.Reference; ref != nil {
@@ -306,23 +323,23 @@ func parseEnvironment(p *problems, r *rawSpec, s *Spec) {
 			s.Reference.V = field(p, "reference.voltage", ref.Voltage, uVolt)
 		}
 		if ref.Tolerance != "" {
-			s.Reference.Tolerance = fractionField(p, "reference.tolerance", ref.Tolerance)
+			s.Reference.Tolerance = magnitude(p, "reference.tolerance", ref.Tolerance, datasheetMax, fractionField(p, "reference.tolerance", ref.Tolerance))
 		}
 		if ref.Drift != "" {
-			s.Reference.Drift = tempcoField(p, "reference.drift", ref.Drift)
+			s.Reference.Drift = magnitude(p, "reference.drift", ref.Drift, datasheetMax, tempcoField(p, "reference.drift", ref.Drift))
 		}
 		if ref.Impedance != "" {
-			s.Reference.SourceOhm = field(p, "reference.impedance", ref.Impedance, uOhm)
+			s.Reference.SourceOhm = magnitude(p, "reference.impedance", ref.Impedance, aResistance, field(p, "reference.impedance", ref.Impedance, uOhm))
 		}
 	} else if slices.Contains(s.Families, LevelShift) {
 		p.add("reference", "missing; a level shift takes its offset from a reference: give reference.voltage (and its tolerance and drift)")
 	}
 	if r.SourceImpedance != "" {
-		s.SourceOhm = field(p, "source_impedance", r.SourceImpedance, uOhm)
+		s.SourceOhm = magnitude(p, "source_impedance", r.SourceImpedance, aResistance, field(p, "source_impedance", r.SourceImpedance, uOhm))
 	}
 	if r.Load.Resistance != "" {
 		s.LoadOhm = field(p, "load.resistance", r.Load.Resistance, uOhm)
-		if s.LoadOhm <= 0 {
+		if s.LoadOhm <= 0 && !p.failed("load.resistance") {
 			p.add("load.resistance", "must be positive; leave it out for an unloaded output")
 		}
 	}
@@ -337,11 +354,18 @@ func parseEnvironment(p *problems, r *rawSpec, s *Spec) {
 		p.add("temperature.range", "missing; give the operating range, e.g. -40..85C")
 	} else {
 		s.Temp = rangeField(p, "temperature.range", r.Temperature.Range, uCelsius)
-		if s.Temp.Min < -273.15 {
-			p.add("temperature.range", "goes below absolute zero")
+		switch {
+		case p.failed("temperature.range"):
+		case s.Temp.Min < -273.15:
+			p.add("temperature.range", "%q goes below absolute zero (-273.15 C)", r.Temperature.Range)
+		case singleValue(r.Temperature.Range, uCelsius):
+			// "25C" alone is likely a slip: it would give a 0 K excursion
+			// and hide every drift. Two equal ends ("25..25C") are written
+			// on purpose, to evaluate at one temperature only.
+			p.add("temperature.range", "%q is a single temperature; a range needs two ends, e.g. -40..85C", r.Temperature.Range)
 		}
-		if s.TempRef < s.Temp.Min || s.TempRef > s.Temp.Max {
-			p.add("temperature.reference", "%g C lies outside the range %g..%g C", s.TempRef, s.Temp.Min, s.Temp.Max)
+		if !p.failed("temperature.range", "temperature.reference") && (s.TempRef < s.Temp.Min || s.TempRef > s.Temp.Max) {
+			p.add("temperature.reference", "%g C lies outside the range %g..%g C; give a reference inside the operating range, usually 25C", s.TempRef, s.Temp.Min, s.Temp.Max)
 		}
 	}
 	if r.Impedance.Min != "" {
@@ -350,13 +374,13 @@ func parseEnvironment(p *problems, r *rawSpec, s *Spec) {
 	if r.Impedance.Max != "" {
 		s.Impedance.Max = field(p, "impedance.max", r.Impedance.Max, uOhm)
 	}
-	if s.Impedance.Min < 0 || (s.Impedance.Max > 0 && s.Impedance.Min > s.Impedance.Max) {
+	if !p.failed("impedance") && (s.Impedance.Min < 0 || (s.Impedance.Max > 0 && s.Impedance.Min > s.Impedance.Max)) {
 		p.add("impedance", "min %g ohm is above max %g ohm (or negative)", s.Impedance.Min, s.Impedance.Max)
 	}
 	s.Derating = DefaultDerating
 	if r.Derating != "" {
 		s.Derating = fractionField(p, "derating", r.Derating)
-		if s.Derating <= 0 || s.Derating > 1 {
+		if !p.failed("derating") && (s.Derating <= 0 || s.Derating > 1) {
 			p.add("derating", "%q must lie between 0 %% and 100 %% of rated power", r.Derating)
 		}
 	}
@@ -431,16 +455,16 @@ func parseAnalysis(p *problems, r *rawSpec, s *Spec) {
 	}
 	if r.Analysis.Sigmas != "" {
 		a.Sigmas = field(p, "analysis.sigmas", r.Analysis.Sigmas, uPlain)
-		if a.Sigmas < 1 || a.Sigmas > 6 {
+		if !p.failed("analysis.sigmas") && (a.Sigmas < 1 || a.Sigmas > 6) {
 			p.add("analysis.sigmas", "%q must lie between 1 and 6 (a tolerance stands for this many standard deviations)", r.Analysis.Sigmas)
 		}
 	}
 	if r.Analysis.Yield != "" {
 		a.Yield = fractionField(p, "analysis.yield", r.Analysis.Yield)
-		if a.Yield <= 0 || a.Yield >= 1 {
+		if !p.failed("analysis.yield") && (a.Yield <= 0 || a.Yield >= 1) {
 			p.add("analysis.yield", "%q must lie between 0%% and 100%%, e.g. 99%%", r.Analysis.Yield)
 		}
-		if a.Method != MonteCarlo {
+		if a.Method != MonteCarlo && !p.failed("analysis.method") {
 			p.add("analysis.yield", "a yield target needs method monte-carlo")
 		}
 	}
@@ -465,7 +489,7 @@ func parseBuild(p *problems, r *rawSpec, s *Spec) {
 	}
 	if r.Build.Attrition != "" {
 		b.Attrition = fractionField(p, "build.attrition", r.Build.Attrition)
-		if b.Attrition < 0 || b.Attrition >= 1 {
+		if !p.failed("build.attrition") && (b.Attrition < 0 || b.Attrition >= 1) {
 			p.add("build.attrition", "%q must lie between 0%% and 100%%", r.Build.Attrition)
 		}
 	}
@@ -558,4 +582,34 @@ func tempcoField(p *problems, path, text string) float64 {
 		p.add(path, "%v", err)
 	}
 	return v
+}
+
+// What a figure that must not be negative is, for the message.
+const (
+	datasheetMax = "a datasheet maximum"
+	rating       = "a rating"
+	aResistance  = "a resistance"
+)
+
+// magnitude returns v, the figure read from text at path, refusing it if it
+// is negative. Datasheet maximums, ratings and resistances are magnitudes:
+// a sign would cancel terms of an error budget that should add.
+func magnitude(p *problems, path, text, what string, v float64) float64 {
+	if v < 0 && !p.failed(path) {
+		p.add(path, "%q must not be negative: %s is a magnitude; write %s", text, what, unsigned(text))
+	}
+	return v
+}
+
+// optMagnitude reads an optional figure that must not be negative into
+// dst; an empty text leaves dst as it is.
+func optMagnitude(p *problems, path, text, what string, u unit, dst *float64) {
+	if text != "" {
+		*dst = magnitude(p, path, text, what, field(p, path, text, u))
+	}
+}
+
+// unsigned is text without its leading minus sign.
+func unsigned(text string) string {
+	return strings.TrimLeft(strings.TrimSpace(text), "-\u2212 ")
 }

@@ -3,6 +3,7 @@ package spec
 import (
 	"errors"
 	"fmt"
+	"strings"
 
 	"plumb/catalog/units"
 )
@@ -56,7 +57,11 @@ func (e *quantityError) Unwrap() error { return e.err }
 // newQuantityError says in the spec's words why units refused s as a what:
 // empty, without its unit, or not a what (with the reason units gives).
 func newQuantityError(s string, u unit, what string, err error) error {
-	reason := "is not a " + what
+	article := "a "
+	if strings.ContainsRune("aeiou", rune(what[0])) {
+		article = "an "
+	}
+	reason := "is not " + article + what
 	var ue *units.Error
 	switch {
 	case errors.Is(err, units.ErrBlank):
@@ -64,7 +69,13 @@ func newQuantityError(s string, u unit, what string, err error) error {
 	case errors.Is(err, units.ErrNoUnit):
 		reason = "has no unit"
 	case errors.As(err, &ue):
-		reason += " (" + ue.Reason + ")"
+		why := ue.Reason
+		if strings.HasPrefix(why, `unknown unit or prefix "K`) {
+			// catalog/units reads a capital K as kilo only in resistances
+			// and frequencies; elsewhere K is the kelvin.
+			why += ": kilo is a small k here; a capital K means kilo only in resistances and frequencies"
+		}
+		reason += " (" + why + ")"
 	}
 	return &quantityError{s, u, reason, err}
 }
@@ -104,6 +115,13 @@ func parseRange(s string, u unit) (lo, hi float64, err error) {
 		return 0, 0, newQuantityError(s, u, u.what+" range", err)
 	}
 	return lo, hi, nil
+}
+
+// singleValue reports whether s reads as one value of u rather than as a
+// range: "25C", not "25..25C" or "±5V".
+func singleValue(s string, u unit) bool {
+	_, err := units.ParseStrict(s, u.q)
+	return err == nil
 }
 
 // parseAol reads an open-loop gain in dB, V/V, V/mV or V/µV; a bare number

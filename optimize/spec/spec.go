@@ -1,11 +1,16 @@
 package spec
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"os"
+	"reflect"
+	"regexp"
 	"slices"
+	"strconv"
 	"strings"
 
 	"go.yaml.in/yaml/v3"
@@ -191,35 +196,300 @@ func (p *problems) err() error {
 	return errors.Join(p.errs...)
 }
 
-// decodeStrict unmarshals YAML refusing unknown fields.
+// failed reports whether a problem is already recorded for any of fields or
+// a field beneath one ("input" covers "input.differential", "families"
+// covers "families[1]"). Checks that depend on a field skip it once it has
+// failed, so one mistake gives one error.
+func (p *problems) failed(fields ...string) bool {
+	for _, err := range p.errs {
+		fe, ok := err.(*FieldError)
+		if !ok {
+			continue
+		}
+		for _, f := range fields {
+			if fe.Field == f || strings.HasPrefix(fe.Field, f+".") || strings.HasPrefix(fe.Field, f+"[") {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+// decodeStrict unmarshals YAML refusing unknown fields. The decoder reports
+// type errors and unknown fields by line only; each is recorded at its field
+// path, found by walking the document's node tree, with advice on how to
+// write the field.
 func decodeStrict(data []byte, v any, kind, file string) error {
-	dec := yaml.NewDecoder(strings.NewReader(string(data)))
+	dec := yaml.NewDecoder(bytes.NewReader(data))
 	dec.KnownFields(true)
-	if err := dec.Decode(v); err != nil {
-		return &FieldError{Kind: kind, File: file, Msg: cleanYAMLError(err).Error()}
+	err := dec.Decode(v)
+	if err == nil {
+		return nil
+	}
+	p := &problems{kind: kind, file: file}
+	var te *yaml.TypeError
+	switch {
+	case errors.Is(err, io.EOF):
+		p.add("", "file is empty; write the fields described in the README of the examples")
+	case errors.As(err, &te):
+		// The decoder has just read the document, so it parses; were it
+		// not to, the messages would stay as the decoder wrote them.
+		var root yaml.Node
+		_ = yaml.Unmarshal(data, &root)
+		nodes := pathNodes(&root, reflect.TypeOf(v))
+		types := structTypes(reflect.TypeOf(v))
+		for _, msg := range te.Errors {
+			translateYAMLError(p, msg, nodes, types)
+		}
+	case strings.HasPrefix(err.Error(), "yaml: line "):
+		p.add("", "%s; check the indentation and quoting of that line", strings.TrimPrefix(err.Error(), "yaml: "))
+	default:
+		p.add("", "%v", err)
+	}
+	return p.err()
+}
+
+// nodeAt is one node of a YAML document with its field path and the Go
+// type it decodes into (nil for an unknown field); key is nil for sequence
+// entries and the document itself.
+type nodeAt struct {
+	path     string
+	key, val *yaml.Node
+	into     reflect.Type
+}
+
+// pathNodes lists every node of a document decoded into a value of type t
+// with its path, in document order: "" for the document, "limits.cmrr",
+// "families[1]", "positions.R4.series[0].tcr".
+func pathNodes(root *yaml.Node, t reflect.Type) []nodeAt {
+	var out []nodeAt
+	var walk func(n *yaml.Node, path string, t reflect.Type)
+	walk = func(n *yaml.Node, path string, t reflect.Type) {
+		for t != nil && t.Kind() == reflect.Pointer {
+			t = t.Elem()
+		}
+		switch n.Kind {
+		case yaml.DocumentNode:
+			for _, c := range n.Content {
+				out = append(out, nodeAt{path: path, val: c, into: t})
+				walk(c, path, t)
+			}
+		case yaml.MappingNode:
+			for i := 0; i+1 < len(n.Content); i += 2 {
+				k, v := n.Content[i], n.Content[i+1]
+				child := k.Value
+				if path != "" {
+					child = path + "." + k.Value
+				}
+				ct := fieldType(t, k.Value)
+				out = append(out, nodeAt{path: child, key: k, val: v, into: ct})
+				walk(v, child, ct)
+			}
+		case yaml.SequenceNode:
+			var et reflect.Type
+			if t != nil && t.Kind() == reflect.Slice {
+				et = t.Elem()
+			}
+			for i, c := range n.Content {
+				child := fmt.Sprintf("%s[%d]", path, i)
+				out = append(out, nodeAt{path: child, val: c, into: et})
+				walk(c, child, et)
+			}
+		}
+	}
+	walk(root, "", t)
+	return out
+}
+
+// fieldType is the type the YAML key name decodes into within a value of
+// type t (a struct, inline structs included, or a map), or nil.
+func fieldType(t reflect.Type, name string) reflect.Type {
+	switch {
+	case t == nil:
+		return nil
+	case t.Kind() == reflect.Map:
+		return t.Elem()
+	case t.Kind() != reflect.Struct:
+		return nil
+	}
+	for i := range t.NumField() {
+		f := t.Field(i)
+		tag, opts, _ := strings.Cut(f.Tag.Get("yaml"), ",")
+		switch {
+		case strings.Contains(opts, "inline"):
+			if ft := fieldType(f.Type, name); ft != nil {
+				return ft
+			}
+		case tag == name, tag == "" && strings.ToLower(f.Name) == name:
+			return f.Type
+		}
 	}
 	return nil
 }
 
-// cleanYAMLError rewrites the decoder's "field x not found in type spec.raw"
-// into words a spec writer can act on.
-func cleanYAMLError(err error) error {
-	msg := err.Error()
-	if strings.Contains(msg, "not found in type") {
-		var lines []string
-		for _, l := range strings.Split(msg, "\n") {
-			l = strings.TrimSpace(l)
-			if i := strings.Index(l, " not found in type"); i >= 0 {
-				l = l[:i] + " is not a known field (check the spelling against the README of the examples)"
-			}
-			if l = strings.TrimPrefix(l, "yaml: unmarshal errors:"); l != "" {
-				lines = append(lines, l)
-			}
+// structTypes maps the name the decoder prints for each struct type reached
+// from t ("spec.rawLimits") to its type, so that errors can list the fields
+// a mapping takes.
+func structTypes(t reflect.Type) map[string]reflect.Type {
+	m := map[string]reflect.Type{}
+	var visit func(t reflect.Type)
+	visit = func(t reflect.Type) {
+		for t.Kind() == reflect.Pointer || t.Kind() == reflect.Slice || t.Kind() == reflect.Map {
+			t = t.Elem()
 		}
-		return errors.New(strings.Join(lines, "; "))
+		if t.Kind() != reflect.Struct || m[t.String()] != nil {
+			return
+		}
+		m[t.String()] = t
+		for i := range t.NumField() {
+			visit(t.Field(i).Type)
+		}
 	}
-	if err.Error() == "EOF" {
-		return errors.New("file is empty")
+	visit(t)
+	return m
+}
+
+// yamlFields lists the field names a struct takes in YAML, inline structs
+// expanded, in declaration order.
+func yamlFields(t reflect.Type) []string {
+	var out []string
+	for i := range t.NumField() {
+		f := t.Field(i)
+		name, opts, _ := strings.Cut(f.Tag.Get("yaml"), ",")
+		switch {
+		case name == "-":
+		case strings.Contains(opts, "inline") && f.Type.Kind() == reflect.Struct:
+			out = append(out, yamlFields(f.Type)...)
+		case name == "":
+			out = append(out, strings.ToLower(f.Name))
+		default:
+			out = append(out, name)
+		}
 	}
-	return err
+	return out
+}
+
+// The decoder's messages (go.yaml.in/yaml/v3, decode.go).
+var (
+	reCannot     = regexp.MustCompile("^line ([0-9]+): cannot unmarshal (!![a-z]+)(?: `(.*)`)? into (.+)$")
+	reUnknown    = regexp.MustCompile(`^line ([0-9]+): field (.+) not found in type (.+)$`)
+	reDuplicate  = regexp.MustCompile(`^line ([0-9]+): mapping key (".*") already defined at line ([0-9]+)$`)
+	reAlreadySet = regexp.MustCompile(`^line ([0-9]+): field (.+) already set in type (.+)$`)
+)
+
+// translateYAMLError records one decoder message at the field it is about.
+// A message it cannot place is kept as the decoder wrote it.
+func translateYAMLError(p *problems, msg string, nodes []nodeAt, types map[string]reflect.Type) {
+	line := func(s string) int { n, _ := strconv.Atoi(s); return n }
+	if m := reCannot.FindStringSubmatch(msg); m != nil {
+		if at, ok := findValue(nodes, line(m[1]), m[2], m[3], m[4]); ok {
+			p.add(at.path, "%s", typeAdvice(at, m[4], types))
+			return
+		}
+	}
+	if m := reUnknown.FindStringSubmatch(msg); m != nil {
+		if at, ok := findKey(nodes, line(m[1]), m[2]); ok {
+			known := ""
+			if t := types[m[3]]; t != nil {
+				known = "; the fields here are " + strings.Join(yamlFields(t), ", ")
+			}
+			p.add(at.path, "is not a known field (check the spelling against the README of the examples)%s", known)
+			return
+		}
+	}
+	if m := reDuplicate.FindStringSubmatch(msg); m != nil {
+		key, _ := strconv.Unquote(m[2])
+		if at, ok := findKey(nodes, line(m[1]), key); ok {
+			p.add(at.path, "given twice (also at line %s); keep one", m[3])
+			return
+		}
+	}
+	if m := reAlreadySet.FindStringSubmatch(msg); m != nil {
+		if at, ok := findKey(nodes, line(m[1]), m[2]); ok {
+			p.add(at.path, "given twice; keep one")
+			return
+		}
+	}
+	p.add("", "%s", msg)
+}
+
+// findKey finds the mapping key name written on line.
+func findKey(nodes []nodeAt, line int, name string) (nodeAt, bool) {
+	for _, n := range nodes {
+		if n.key != nil && n.key.Line == line && n.key.Value == name {
+			return n, true
+		}
+	}
+	return nodeAt{}, false
+}
+
+// findValue finds the value on line that the decoder could not read into
+// Go type into: of the tag it names, for a scalar starting with the text it
+// quotes (cut to seven characters and "..." when long), and, among several
+// such (a flow mapping holds several values on one line), the one that
+// decodes into that type.
+func findValue(nodes []nodeAt, line int, tag, text, into string) (nodeAt, bool) {
+	var match []nodeAt
+	for _, n := range nodes {
+		if n.val.Line != line || n.val.ShortTag() != tag {
+			continue
+		}
+		if prefix, cut := strings.CutSuffix(text, "..."); n.val.Kind != yaml.ScalarNode ||
+			n.val.Value == text || (cut && len(n.val.Value) > 10 && strings.HasPrefix(n.val.Value, prefix)) {
+			match = append(match, n)
+		}
+	}
+	for _, n := range match {
+		if n.into != nil && strings.TrimPrefix(n.into.String(), "*") == strings.TrimPrefix(into, "*") {
+			return n, true
+		}
+	}
+	if len(match) > 0 {
+		return match[0], true
+	}
+	return nodeAt{}, false
+}
+
+// typeAdvice says what was written where the decoder wanted a value of Go
+// type into, and how to write it.
+func typeAdvice(at nodeAt, into string, types map[string]reflect.Type) string {
+	v := at.val
+	given := fmt.Sprintf("%q", v.Value)
+	switch v.Kind {
+	case yaml.SequenceNode:
+		given = "a list"
+	case yaml.MappingNode:
+		given = "a group of fields"
+	}
+	name := at.path
+	if name == "" {
+		name = "the file"
+	}
+	switch into = strings.TrimPrefix(into, "*"); {
+	case into == "bool":
+		return given + " is not a yes-or-no value; write true or false"
+	case strings.HasPrefix(into, "int") || strings.HasPrefix(into, "uint"):
+		return given + " is not a whole number; write it in digits, e.g. 2"
+	case into == "string":
+		return given + " is given where one value belongs; write a single value (quote it if it holds a colon, brackets or braces)"
+	case into == "[]string" && v.Kind == yaml.ScalarNode:
+		return fmt.Sprintf("%s is given where a list belongs; write a list, e.g. [%s]", given, v.Value)
+	case strings.HasPrefix(into, "[]"):
+		return given + " is given where a list belongs; write a list in brackets, e.g. [a, b], or one entry per line starting with -"
+	case strings.HasPrefix(into, "map["):
+		return given + " is given where one entry per resistor position belongs; write e.g. R1: {value: 10k, tolerance: 0.1%, tcr: 25ppm/K} on an indented line below"
+	}
+	if t := types[into]; t != nil {
+		fields := yamlFields(t)
+		if name == "the file" {
+			return fmt.Sprintf("is %s, not a mapping of fields; write one field per line (%s)", given, strings.Join(fields, ", "))
+		}
+		eg := ""
+		if v.Kind == yaml.ScalarNode && len(fields) > 0 {
+			eg = fmt.Sprintf(", e.g. {%s: %s}", fields[0], v.Value)
+		}
+		return fmt.Sprintf("%s is given where a group of fields belongs; %s takes %s, written as {field: value, ...} or on indented lines below%s",
+			given, name, strings.Join(fields, ", "), eg)
+	}
+	return fmt.Sprintf("%s cannot be read here (the decoder wanted %s); see the layout in the README of the examples", given, into)
 }

@@ -247,3 +247,144 @@ func FuzzParse(f *testing.F) {
 		}
 	})
 }
+
+// fieldErrors lists the problems of an error from Parse or ParseDesign.
+func fieldErrors(t *testing.T, err error) []*FieldError {
+	t.Helper()
+	var out []*FieldError
+	var walk func(error)
+	walk = func(err error) {
+		if j, ok := err.(interface{ Unwrap() []error }); ok {
+			for _, e := range j.Unwrap() {
+				walk(e)
+			}
+			return
+		}
+		var fe *FieldError
+		if !errors.As(err, &fe) {
+			t.Fatalf("%v is not a *FieldError", err)
+		}
+		out = append(out, fe)
+	}
+	walk(err)
+	return out
+}
+
+// checkOneFieldError requires err to hold exactly one problem, in file, at
+// field, whose message holds advice: a bad field gives one error, not one
+// more for every check that depended on it.
+func checkOneFieldError(t *testing.T, err error, file, field, advice string) {
+	t.Helper()
+	if err == nil {
+		t.Fatal("no error")
+	}
+	if !errors.Is(err, ErrInvalid) {
+		t.Errorf("error does not wrap ErrInvalid: %v", err)
+	}
+	fes := fieldErrors(t, err)
+	if len(fes) != 1 {
+		t.Fatalf("%d errors, want 1 at %q:\n%v", len(fes), field, err)
+	}
+	fe := fes[0]
+	if fe.File != file || fe.Field != field || !strings.Contains(fe.Msg, advice) {
+		t.Errorf("error %q: want file %s, field %q and advice %q", fe, file, field, advice)
+	}
+}
+
+func TestParseFieldErrors(t *testing.T) {
+	cases := []struct {
+		name   string
+		edit   func(string) string
+		field  string // the exact field path of the one error
+		advice string // a fragment of its message
+	}{
+		// Datasheet maximums are magnitudes.
+		{"negative reference tolerance", add("reference: {voltage: 2V, tolerance: -0.1%}\n"),
+			"reference.tolerance", `"-0.1%" must not be negative: a datasheet maximum is a magnitude; write 0.1%`},
+		{"negative reference drift", add("reference: {voltage: 2V, drift: -10ppm/K}\n"),
+			"reference.drift", "must not be negative: a datasheet maximum is a magnitude; write 10ppm/K"},
+		{"negative source impedance", add("source_impedance: -100\n"), "source_impedance", "cannot be negative"},
+		// A single temperature is no range (item 4 of the review).
+		{"single temperature", rep("range: -40..85C", "range: 25C"),
+			"temperature.range", `"25C" is a single temperature; a range needs two ends, e.g. -40..85C`},
+		{"single temperature away from the reference", rep("range: -40..85C", "range: 85C"),
+			"temperature.range", "a range needs two ends"},
+		{"single temperature with a degree sign", rep("range: -40..85C", "range: 25 °C"), "temperature.range", "a range needs two ends"},
+		{"below absolute zero", rep("range: -40..85C", "range: -300..85C"), "temperature.range", "below absolute zero"},
+		// One bad field, one error.
+		{"bad temperature range", rep("range: -40..85C", "range: hot"), "temperature.range", "write it like 25C or -40C"},
+		{"temperature range without unit", rep("range: -40..85C", "range: -40..85"), "temperature.range", "has no unit"},
+		{"bad reference temperature", rep("{range: -40..85C}", "{range: 30..85C, reference: warm}"), "temperature.reference", "is not a temperature"},
+		{"reference temperature outside", rep("{range: -40..85C}", "{range: 30..85C}"), "temperature.reference", "25 C lies outside the range 30..85 C; give a reference inside"},
+		{"supply without unit", rep("supply: ±15V", "supply: ±15"), "supply", `"±15" has no unit`},
+		{"supply of zero", rep("supply: ±15V", "supply: 0V"), "supply", "gives no supply span; write e.g. ±15V"},
+		{"supply away from ground", rep("supply: ±15V", "supply: 5..15V"), "supply", "does not include ground"},
+		{"input without unit", rep("±1V", "±1"), "input.differential", "has no unit"},
+		{"input single value", rep("±1V", "1V"), "input.differential", "range is a single value"},
+		{"bad family", rep("family: difference", "family: diff"), "family", `"diff" is not a family; use one of`},
+		{"bad family with a transimpedance", func(s string) string {
+			return rep("family: difference", "family: current-sens")(rep("gain: 1", "gain: 0.5V/A")(s))
+		}, "family", `"current-sens" is not a family`},
+		{"bad family without gain", func(s string) string {
+			return rep("family: difference", "family: level-shfit")(rep("gain: 1\n", "")(s))
+		}, "family", "is not a family"},
+		{"bad entry of families", rep("family: difference", "families: [difference, inampp]"), "families[1]", `"inampp" is not a family`},
+		{"bad gain", rep("gain: 1", "gain: one"), "gain", "is not a gain"},
+		{"bad load", add("load: {resistance: 10x}\n"), "load.resistance", "is not a resistance"},
+		{"bad derating", add("derating: half\n"), "derating", "is not a fraction"},
+		{"bad sigmas", add("analysis: {sigmas: three}\n"), "analysis.sigmas", "is not a number"},
+		{"bad yield", add("analysis: {method: monte-carlo, yield: most}\n"), "analysis.yield", "is not a fraction"},
+		{"bad method with a yield", add("analysis: {method: monte-carl, yield: 99%}\n"), "analysis.method", `"monte-carl" is not a method`},
+		{"bad attrition", add("build: {attrition: some}\n"), "build.attrition", "is not a fraction"},
+		{"bad impedance window", add("impedance: {min: 1x, max: 1k}\n"), "impedance.min", "is not a resistance"},
+		// K is kilo only in resistances and frequencies (catalog/units doc).
+		{"capital K on volts", rep("supply: ±15V", "supply: ±1KV"), "supply", "kilo is a small k here; a capital K means kilo only in resistances and frequencies"},
+		// YAML type errors, placed at their field.
+		{"bool not true or false", add("calibration: {gain: maybe}\n"), "calibration.gain", `"maybe" is not a yes-or-no value; write true or false`},
+		{"bool on its own line", add("calibration:\n  offset: sometimes\n"), "calibration.offset", "write true or false"},
+		{"scalar for families", rep("family: difference", "families: difference"), "families", "is given where a list belongs; write a list, e.g. [difference]"},
+		{"scalar for a group", rep("input: {differential: ±1V, common_mode: -5..5V}", "input: ±1V"), "input",
+			"input takes differential, single_ended, current, common_mode, written as {field: value, ...} or on indented lines below, e.g. {differential: ±1V}"},
+		{"list for a quantity", rep("supply: ±15V", "supply: [-15V, 15V]"), "supply", "a list is given where one value belongs; write a single value"},
+		{"mapping for a quantity", rep("gain: 1", "gain: {value: 1}"), "gain", "a group of fields is given where one value belongs"},
+		{"unknown nested field", rep("limits: {cmrr: 60dB}", "limits: {cmrr: 60dB, cmr: 3dB}"), "limits.cmr",
+			"is not a known field (check the spelling against the README of the examples); the fields here are gain_error, cmrr,"},
+		{"unknown top-level field", add("colour: red\n"), "colour", "the fields here are name, about, family, families"},
+		{"field given twice", add("name: u\n"), "name", "given twice (also at line 1); keep one"},
+		{"not a mapping", func(string) string { return "just words\n" }, "", "is \"just words\", not a mapping of fields; write one field per line (name, about,"},
+		{"empty file", func(string) string { return "" }, "", "file is empty"},
+		{"syntax error", func(string) string { return "name: [t\n" }, "", "check the indentation and quoting"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			_, err := Parse([]byte(c.edit(base)), "x.yaml")
+			checkOneFieldError(t, err, "x.yaml", c.field, c.advice)
+		})
+	}
+}
+
+// Two equal ends are a deliberate one-temperature range (optimize/budget's
+// tests evaluate at 25..25C to see the tolerances alone); only a single
+// value is refused.
+func TestParseOneTemperatureRange(t *testing.T) {
+	s, err := Parse([]byte(rep("range: -40..85C", "range: 25..25C")(base)), "x.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s.Temp.Min != 25 || s.Temp.Max != 25 || s.WorstExcursion() != 0 {
+		t.Errorf("temperature %v, excursion %g; want 25..25 and 0 K", s.Temp, s.WorstExcursion())
+	}
+}
+
+// Signed figures stay signed: rails and range ends may be negative.
+func TestParseSignedFiguresAccepted(t *testing.T) {
+	src := rep("reference: {voltage: 20V}\n", "reference: {voltage: -2.5V, tolerance: 0.1%}\n")(add("reference: {voltage: 20V}\n")(base))
+	src = rep("range: -40..85C", "range: -55..-10C, reference: -20C")(src)
+	s, err := Parse([]byte(src), "x.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s.Reference.V != -2.5 || s.Temp.Min != -55 || s.Temp.Max != -10 || s.TempRef != -20 || s.Supply.Min != -15 {
+		t.Errorf("signed figures changed: ref %g, temp %v ref %g, supply %v", s.Reference.V, s.Temp, s.TempRef, s.Supply)
+	}
+}
