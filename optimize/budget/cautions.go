@@ -153,6 +153,9 @@ func (e *Evaluator) commonNotes(res *Result) {
 	case l.NoiseRMSV > 0:
 		res.Notes = append(res.Notes, "noise RMS limit not checked: a resistive divider sets no bandwidth to integrate its noise over; give limits.bandwidth, the bandwidth the filter or ADC after it passes")
 	}
+	if !e.passive() && l.NoiseRMSV > 0 && !e.noiseBandKnown(&res.Metrics) {
+		res.Notes = append(res.Notes, "noise RMS limit not checked: the stage's bandwidth is not known (no gbw figure, or no signal reaches the output)")
+	}
 	if missing := e.missingAmpFigures(); len(missing) > 0 {
 		res.Notes = append(res.Notes, "amplifier figures not given, taken as ideal (no error from them): "+strings.Join(missing, ", ")+
 			"; give the datasheet maximums for a budget that counts them")

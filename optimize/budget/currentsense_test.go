@@ -1,6 +1,7 @@
 package budget
 
 import (
+	"errors"
 	"math"
 	"strings"
 	"testing"
@@ -179,5 +180,31 @@ positions:
 	}
 	if math.Abs(wide.CommonModeErrorV-high.CommonModeErrorV) > 1e-12 {
 		t.Errorf("common-mode error %.6g V vs %.6g V for the same largest |Vcm|", wide.CommonModeErrorV, high.CommonModeErrorV)
+	}
+}
+
+// TestImpossibleFiguresRefused: a tempco or a self-heating that would take
+// a resistance to zero or below at a corner is refused, naming the part,
+// instead of reaching the solver as a negative resistor. 5 A through 10 mΩ
+// is 0.25 W (P = I²R); at 100000 K/W that is 25000 K of rise.
+func TestImpossibleFiguresRefused(t *testing.T) {
+	s := mustSpec(t, csSpec)
+	tests := []struct {
+		name, from, to, want string
+	}{
+		{"tempco", "R1: {value: 1k, tolerance: 0.1%, tcr: 25ppm/K}", "R1: {value: 1k, tolerance: 0.1%, tcr: 20000ppm/K}", "R1: tolerance 0.1 %, load life 0 % and TCR 20000 ppm/K over the 65 K excursion"},
+		{"self-heating", "power: 1W}", "power: 1W, thermal_resistance: 100000K/W}", "Rs: its self-heating of 2.5e+04 K"},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			src := strings.Replace(csDesign, tc.from, tc.to, 1)
+			if src == csDesign {
+				t.Fatalf("fixture has no %q", tc.from)
+			}
+			_, err := Evaluate(s, mustDesign(t, src))
+			if err == nil || !errors.Is(err, ErrCandidate) || !strings.Contains(err.Error(), tc.want) {
+				t.Errorf("error %v, want ErrCandidate with %q", err, tc.want)
+			}
+		})
 	}
 }

@@ -280,6 +280,12 @@ func (e *Evaluator) SetCandidate(c *Candidate) error {
 		if !(f.Ohm > 0) || math.IsInf(f.Ohm, 0) || f.Tolerance < 0 || f.TCR < 0 {
 			return fmt.Errorf("%w: %s: value %g ohm, tolerance %g, TCR %g", ErrCandidate, e.positions[k], f.Ohm, f.Tolerance, f.TCR)
 		}
+		// A resistance must stay positive at every corner: 1 - tolerance -
+		// load life and 1 - TCR x excursion both above zero.
+		if dt := e.s.WorstExcursion(); f.Tolerance+f.LoadLife >= 1 || f.TCR*dt >= 1 {
+			return fmt.Errorf("%w: %s: tolerance %g %%, load life %g %% and TCR %g ppm/K over the %g K excursion take its value to zero or below; check those figures",
+				ErrCandidate, e.positions[k], 100*f.Tolerance, 100*f.LoadLife, 1e6*f.TCR, dt)
+		}
 	}
 	copy(e.c.Figs, c.Figs)
 	e.c.Amp, e.c.MatchedGain = c.Amp, c.MatchedGain
@@ -312,6 +318,12 @@ func (e *Evaluator) SetCandidate(c *Candidate) error {
 	}
 	if err := e.stress(); err != nil {
 		return err
+	}
+	for k, f := range e.c.Figs {
+		if dt := e.s.WorstExcursion() + e.heat[k]; f.TCR*dt >= 1 {
+			return fmt.Errorf("%w: %s: its self-heating of %.3g K on top of the %g K excursion, at TCR %g ppm/K, takes its value to zero or below; check its thermal resistance and TCR",
+				ErrCandidate, e.positions[k], e.heat[k], e.s.WorstExcursion(), 1e6*f.TCR)
+		}
 	}
 	return e.ampTransfers()
 }

@@ -1,9 +1,11 @@
 package budget
 
 import (
+	"errors"
 	"fmt"
 	"math"
 
+	"plumb/optimize/circuit"
 	"plumb/optimize/spec"
 )
 
@@ -239,6 +241,9 @@ func (e *Evaluator) bandwidth(m *Metrics) error {
 	e.driveSignal(1)
 	bw, err := e.sol.Bandwidth(e.gbw)
 	e.driveSignal(-1)
+	if errors.Is(err, circuit.ErrNoResponse) {
+		return nil // no signal reaches the output: the gain checks say so
+	}
 	if err != nil {
 		return fmt.Errorf("budget: %s bandwidth: %w", e.family, err)
 	}
@@ -247,6 +252,15 @@ func (e *Evaluator) bandwidth(m *Metrics) error {
 		m.NoiseGain = e.amp.GBWHz / bw
 	}
 	return nil
+}
+
+// noiseBandKnown reports whether there is a bandwidth to integrate the
+// noise over: the stage's own, or for a passive divider the spec's.
+func (e *Evaluator) noiseBandKnown(m *Metrics) bool {
+	if e.passive() {
+		return e.s.Limits.BandwidthHz > 0
+	}
+	return m.BandwidthHz > 0 && !math.IsInf(m.BandwidthHz, 1)
 }
 
 // passive reports a stage without an amplifier (an unbuffered divider).

@@ -495,7 +495,7 @@ func (e *Evaluator) judge(m *Metrics, out *Score) {
 	if l.OffsetDriftVK > 0 {
 		set(IOffsetDrift, m.OffsetDriftVPerK, l.OffsetDriftVK, true)
 	}
-	if l.NoiseRMSV > 0 && !(e.passive() && l.BandwidthHz == 0) {
+	if l.NoiseRMSV > 0 && e.noiseBandKnown(m) {
 		set(INoiseRMS, m.NoiseRMSV, l.NoiseRMSV, true)
 	}
 	if l.NoiseDensity > 0 {
