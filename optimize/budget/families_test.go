@@ -245,3 +245,22 @@ limits: {bandwidth: 1kHz}
 		t.Errorf("noise gain %.6g, want GBW/bandwidth %.6g", ng, 600e3/want)
 	}
 }
+
+// TestInputImpedanceWithoutSource: the input impedance is what the stage
+// presents, past the source's own resistance: an inverting stage's Rg
+// (virtual ground at the inverting input, Franco ch. 1, from memory),
+// whatever source resistance the spec gives. It once counted the source.
+func TestInputImpedanceWithoutSource(t *testing.T) {
+	for _, src := range []string{"", "source_impedance: 100k\n"} {
+		s := mustSpec(t, "name: t\nabout: inverting input impedance\nfamily: inverting\ngain: -10\ninput: {single_ended: ±1V}\nsupply: ±15V\n"+
+			"temperature: {range: 25..25C}\n"+src+"limits: {input_impedance: 5k}\n")
+		d := mustDesign(t, "family: inverting\npositions:\n  Rf: {value: 100k, tolerance: 0.1%, tcr: 0ppm/K}\n  Rg: {value: 10k, tolerance: 0.1%, tcr: 0ppm/K}\n"+idealAmp)
+		res, err := Evaluate(s, d)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if z := res.Metrics.InputImpedanceOhm; math.Abs(z-10e3) > 1e-3 {
+			t.Errorf("source %q: input impedance %.9g ohm, want Rg = 10k", src, z)
+		}
+	}
+}

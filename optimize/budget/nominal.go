@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 
 	"plumb/optimize/circuit"
 	"plumb/optimize/spec"
@@ -267,8 +268,9 @@ func (e *Evaluator) noiseBandKnown(m *Metrics) bool {
 func (e *Evaluator) passive() bool { return !e.matched && len(e.amps) == 0 }
 
 // inputImpedance drives the unit signal at nominal values and returns the
-// smallest V/I seen at a signal source node (the current found from the
-// resistors meeting the node), capped at zinCap.
+// smallest V/I the stage presents at an input (the current found from the
+// resistors meeting the source node; the voltage past the source's own
+// resistance), capped at zinCap.
 func (e *Evaluator) inputImpedance() float64 {
 	if e.sigSrc < 0 {
 		return 0 // current input: the shunt is the impedance, not a limit
@@ -292,8 +294,16 @@ func (e *Evaluator) inputImpedance() float64 {
 				cur += (e.v[r.B] - e.v[r.A]) / r.Ohm
 			}
 		}
+		// The stage's own input is past the source's resistance, if the
+		// spec gives one: the same current, at the far end's voltage.
+		at := node
+		for _, r := range n.Resistors {
+			if strings.HasPrefix(r.Name, "Rsrc") && (r.A == node || r.B == node) {
+				at = r.A + r.B - node
+			}
+		}
 		if cur != 0 {
-			z = math.Min(z, math.Abs(e.v[node]/cur))
+			z = math.Min(z, math.Abs(e.v[at]/cur))
 		}
 	}
 	return z
