@@ -148,10 +148,11 @@ func mcAgg(mc *MCSummary, diff bool) agg {
 		offsetDrift: mc.Percentiles[MetricOffsetDrift].P99865,
 		cmrr:        1, cmrrRes: 1,
 	}
-	w.gainErrInit = w.gainErr
+	gi := mc.Percentiles[MetricGainErrorInitial]
+	w.gainErrInit = math.Max(math.Abs(gi.P0135), math.Abs(gi.P99865))
 	if diff {
-		c := mc.Percentiles[MetricCMRR].P0135
-		w.cmrr, w.cmrrRes = math.Pow(10, c/20), math.Pow(10, c/20)
+		w.cmrr = math.Pow(10, mc.Percentiles[MetricCMRR].P0135/20)
+		w.cmrrRes = math.Pow(10, mc.Percentiles[MetricCMRRResistors].P0135/20)
 	}
 	return w
 }

@@ -32,12 +32,14 @@ type agg struct {
 	gainErr     float64 // worst |error| (calibrated: against the Tref gain)
 	gainErrInit float64 // |error| at Tref before calibration
 	gainSigned  float64 // signed error at the worst point
-	worstT      float64
-	drift       float64 // per K
-	offset      float64
-	offsetDrift float64
-	cmrr        float64 // linear, worst (smallest)
-	cmrrRes     float64 // linear, resistors only, smallest
+	// gainInitSigned is the signed error at Tref before calibration.
+	gainInitSigned float64
+	worstT         float64
+	drift          float64 // per K
+	offset         float64
+	offsetDrift    float64
+	cmrr           float64 // linear, worst (smallest)
+	cmrrRes        float64 // linear, resistors only, smallest
 }
 
 // ampIdx gives the parameter index of each amplifier term (-1: absent).
@@ -153,7 +155,8 @@ func (e *Evaluator) metricsAt(x []float64, signed bool, out *agg) error {
 	gt := e.s.Gain
 	cal, calOff := e.s.Calibrate.Gain, e.s.Calibrate.Offset
 	*out = agg{worstT: pts[0].t}
-	out.gainErrInit = math.Abs(p0.gain/gt - 1)
+	out.gainInitSigned = p0.gain/gt - 1
+	out.gainErrInit = math.Abs(out.gainInitSigned)
 	if !cal {
 		out.gainErr, out.gainSigned = out.gainErrInit, p0.gain/gt-1
 	}

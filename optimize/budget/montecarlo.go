@@ -15,9 +15,13 @@ const (
 	MetricDrift       = "drift_ppm_per_k" // ppm/K
 	MetricOffset      = "output_offset_v" // |V|
 	MetricOffsetDrift = "offset_drift_v_per_k"
+	// MetricGainErrorInitial is the signed gain error at the reference
+	// temperature as built, before any calibration.
+	MetricGainErrorInitial = "gain_error_initial"
+	MetricCMRRResistors    = "cmrr_resistors_db" // dB, the resistors' share alone
 )
 
-var mcMetrics = [5]string{MetricGainError, MetricCMRR, MetricDrift, MetricOffset, MetricOffsetDrift}
+var mcMetrics = [7]string{MetricGainError, MetricCMRR, MetricDrift, MetricOffset, MetricOffsetDrift, MetricGainErrorInitial, MetricCMRRResistors}
 
 // drawAll fills x with parameter values in [-1, 1]: uniform, or normal
 // with standard deviation 1/sigmas truncated at ±1 (the tolerance), drawn
@@ -73,7 +77,7 @@ func (e *Evaluator) MonteCarlo(trials int, seed uint64, samples bool) (*MCSummar
 	} else {
 		buf = e.mcBuf[:n]
 	}
-	var cols [5][]float64
+	var cols [len(mcMetrics)][]float64
 	for i := range cols {
 		cols[i] = buf[i*trials : (i+1)*trials]
 	}
@@ -90,6 +94,7 @@ func (e *Evaluator) MonteCarlo(trials int, seed uint64, samples bool) (*MCSummar
 		}
 		cmrrDB := 20 * math.Log10(a.cmrr)
 		cols[0][t], cols[1][t], cols[2][t], cols[3][t], cols[4][t] = a.gainSigned, cmrrDB, a.drift*1e6, a.offset, a.offsetDrift
+		cols[5][t], cols[6][t] = a.gainInitSigned, 20*math.Log10(a.cmrrRes)
 		ok := true
 		for i, passed := range e.trialPass(&a, cmrrDB, &nominal) {
 			if nominal.Checked[i] {
@@ -112,7 +117,7 @@ func (e *Evaluator) MonteCarlo(trials int, seed uint64, samples bool) (*MCSummar
 		}
 	}
 	for i, name := range mcMetrics {
-		if name == MetricCMRR && !e.differential {
+		if (name == MetricCMRR || name == MetricCMRRResistors) && !e.differential {
 			continue
 		}
 		if samples {

@@ -200,3 +200,27 @@ func TestMonteCarloCalibratedZeroDrift(t *testing.T) {
 		t.Errorf("gain-error yield %g, want 1", y)
 	}
 }
+
+// TestMonteCarloResistorCMRR: under Monte Carlo the resistors' own CMRR
+// and the initial gain error are figures of their own: with an amplifier
+// of 80 dB the total CMRR lies below the resistors' share (1/CMRR_total =
+// 1/CMRR_res + 1/CMRR_amp at worst, domain notes §2), and with gain
+// calibration the initial error stays the uncalibrated one while the gain
+// error drops to the drift's. They were once copies of the total figures.
+func TestMonteCarloResistorCMRR(t *testing.T) {
+	src := strings.Replace(diffSpec(1, "monte-carlo"), "25..25C", "-40..85C", 1) + "calibration: {gain: true}\n"
+	s := mustSpec(t, src)
+	s.Analysis.Trials = 4000
+	d := strings.Replace(diffDesign(1, "0.01%"), "aol: 1e12,", "aol: 1e12, cmrr: 80dB,", 1)
+	res, err := Evaluate(s, mustDesign(t, d))
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := res.Metrics
+	if !(m.CMRRResistorsdB > m.CMRRdB+1) || m.CMRRdB > 80 {
+		t.Errorf("CMRR %.2f dB total, %.2f dB resistors alone: want the resistors above the total, the total at most 80 dB", m.CMRRdB, m.CMRRResistorsdB)
+	}
+	if !(m.GainErrorInitial > 2*m.GainError) {
+		t.Errorf("initial gain error %.4g, calibrated %.4g: want the initial one well above", m.GainErrorInitial, m.GainError)
+	}
+}
