@@ -175,3 +175,28 @@ func TestMissingAmplifierFigures(t *testing.T) {
 		t.Errorf("notes %q, want one starting %q", res.Notes, want)
 	}
 }
+
+// TestOutputHeadroomWithErrors: the output's headroom is what is left once
+// the worst-case gain error on the full-scale signal and the output offset
+// have moved it: an inverting gain of -10 on ±1 V reaches ±10 V nominally,
+// 10 mV inside a swing limit of ±(12 - 1.99) V, and 0.1 % resistors take
+// that away (arithmetic on the budget's own figures). The headroom was
+// once judged at nominal values only.
+func TestOutputHeadroomWithErrors(t *testing.T) {
+	s := mustSpec(t, "name: t\nabout: output headroom\nfamily: inverting\ngain: -10\ninput: {single_ended: ±1V}\nsupply: ±12V\n"+
+		"temperature: {range: 25..25C}\nlimits: {gain_error: 1%}\n")
+	d := mustDesign(t, "family: inverting\npositions:\n  Rf: {value: 100k, tolerance: 0.1%, tcr: 0ppm/K}\n  Rg: {value: 10k, tolerance: 0.1%, tcr: 0ppm/K}\n"+
+		"amplifier: {aol: 1e12, gbw: 10MHz, vos: 100uV, cm_neg: 1V, cm_pos: 1V, swing_neg: 1.99V, swing_pos: 1.99V}\n")
+	res, err := Evaluate(s, d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := res.Metrics
+	want := 0.01 - (m.GainError*1*math.Abs(m.Gain) + m.OutputOffsetV)
+	if math.Abs(m.HeadroomV-want) > 1e-9 || want >= 0 {
+		t.Errorf("headroom %.6g V, want %.6g V (negative)", m.HeadroomV, want)
+	}
+	if res.Pass {
+		t.Error("a stage whose worst-case output passes its swing limit passes")
+	}
+}

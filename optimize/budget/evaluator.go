@@ -134,6 +134,7 @@ type Evaluator struct {
 	// Stress at the range corners, nominal values (see stress).
 	pmax, vmax []float64
 	headroom   float64
+	headOut    float64 // least headroom of the stage's output pin (see outputHeadroom)
 	headAmp    int // amplifier and pin of the least headroom
 	headPin    int
 	sens       []sensRow

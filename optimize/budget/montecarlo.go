@@ -62,10 +62,19 @@ func (e *Evaluator) MonteCarlo(trials int, seed uint64, samples bool) (*MCSummar
 	if err := e.eval(e.x, s.TempRef, false, &pn); err != nil {
 		return nil, err
 	}
-	if err := e.fillMetrics(&agg{cmrr: 1, cmrrRes: 1}, &pn, &m); err != nil {
+	// The nominal parts, without errors: the trials add their own.
+	if err := e.fillMetrics(&agg{cmrr: capLin, cmrrRes: capLin}, &pn, &m); err != nil {
 		return nil, err
 	}
 	e.judge(&m, &nominal)
+	// Each trial's output moves by its own gain error on the full-scale
+	// signal, its offset and its common-mode error (see outputHeadroom).
+	headroom := nominal.Checked[IHeadroom] && !math.IsInf(e.headOut, 1)
+	fullScale := math.Max(math.Abs(s.Input.Min), math.Abs(s.Input.Max)) * math.Abs(pn.gain)
+	cmScale := math.Max(math.Abs(s.CommonMode.Min), math.Abs(s.CommonMode.Max)) * math.Abs(pn.adm)
+	if !e.differential {
+		cmScale = 0
+	}
 	// Columns returned as samples belong to the caller; otherwise the
 	// evaluator keeps one buffer for every run.
 	var buf []float64
@@ -95,8 +104,12 @@ func (e *Evaluator) MonteCarlo(trials int, seed uint64, samples bool) (*MCSummar
 		cmrrDB := 20 * math.Log10(a.cmrr)
 		cols[0][t], cols[1][t], cols[2][t], cols[3][t], cols[4][t] = a.gainSigned, cmrrDB, a.drift*1e6, a.offset, a.offsetDrift
 		cols[5][t], cols[6][t] = a.gainInitSigned, 20*math.Log10(a.cmrrRes)
+		verdicts := e.trialPass(&a, cmrrDB, &nominal)
+		if headroom {
+			verdicts[IHeadroom] = verdicts[IHeadroom] && e.headOut-(math.Abs(a.gainSigned)*fullScale+a.offset+cmScale/a.cmrr) >= 0
+		}
 		ok := true
-		for i, passed := range e.trialPass(&a, cmrrDB, &nominal) {
+		for i, passed := range verdicts {
 			if nominal.Checked[i] {
 				if passed {
 					pass[i]++

@@ -44,10 +44,22 @@ func (e *Evaluator) stress() error {
 	corners := e.corners(&buf)
 	vneg, vpos := e.s.Supply.Min, e.s.Supply.Max
 	a := &e.amp
+	e.headOut = math.Inf(1)
+	outAmp := 0 // the amplifier that drives the stage's output
+	if !e.matched {
+		for ai, i := range e.amps {
+			if e.net.OpAmps[i].Out == e.net.Out {
+				outAmp = ai
+			}
+		}
+	}
 	check := func(v, lo, hi float64, amp, pin int) {
 		m := math.Min(v-lo, hi-v)
 		if m < e.headroom {
 			e.headroom, e.headAmp, e.headPin = m, amp, pin
+		}
+		if pin == pinOut && amp == outAmp {
+			e.headOut = math.Min(e.headOut, m)
 		}
 	}
 	if e.matched {
@@ -97,6 +109,30 @@ func (e *Evaluator) stress() error {
 		e.heat[k] = e.pmax[k] * e.c.Figs[k].ThermalResistance
 	}
 	return nil
+}
+
+// outputHeadroom lowers m.HeadroomV, the nominal parts' least headroom,
+// to what the stage's output keeps once its worst-case errors move it:
+// the gain error on the full-scale signal plus the output offset (the
+// common mode's share on top for a differential input). The pins inside
+// the stage move with the tolerances only by their fraction of these.
+func (e *Evaluator) outputHeadroom(w *agg, p0 *point, m *Metrics) {
+	if math.IsInf(e.headOut, 1) {
+		return
+	}
+	in := math.Max(math.Abs(e.s.Input.Min), math.Abs(e.s.Input.Max))
+	moved := e.headOut - (w.gainErr*in*math.Abs(p0.gain) + w.offset + m.CommonModeErrorV)
+	if moved < m.HeadroomV {
+		m.HeadroomV = moved
+		e.headAmp, e.headPin = 0, pinOut
+		if !e.matched {
+			for ai, i := range e.amps {
+				if e.net.OpAmps[i].Out == e.net.Out {
+					e.headAmp = ai
+				}
+			}
+		}
+	}
 }
 
 // derating is the spec's fraction of rated power a resistor may dissipate;

@@ -456,6 +456,7 @@ func (e *Evaluator) fillMetrics(w *agg, p0 *point, m *Metrics) error {
 		cm := math.Max(math.Abs(e.s.CommonMode.Min), math.Abs(e.s.CommonMode.Max))
 		m.CommonModeErrorV = cm * math.Abs(p0.adm) / w.cmrr
 	}
+	e.outputHeadroom(w, p0, m)
 	return nil
 }
 

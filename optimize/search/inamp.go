@@ -456,7 +456,7 @@ func rankMerged(res *Result, all []subDesign, top int, verify verifier, reasons 
 				adopt(&c.d, br)
 			}
 			if err == nil && len(fails) > 0 {
-				nm := NearMiss{Design: c.d, Fails: fails}
+				nm := NearMiss{Design: c.d, Fails: fails, sd: c.sd}
 				nm.Reasons = []string{"passes the search's screening figures, but the exact budget fails it: " + failText(fails)}
 				if rejected < maxNearMisses {
 					res.NearMisses = append(res.NearMisses, nm)

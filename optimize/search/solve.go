@@ -201,7 +201,7 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 				adopt(&d, br)
 			}
 			if err == nil && len(fails) > 0 {
-				nm := NearMiss{Design: d, Fails: fails}
+				nm := NearMiss{Design: d, Fails: fails, sd: sd}
 				nm.Reasons = []string{"passes the search's screening figures, but the exact budget fails it: " + failText(fails)}
 				rejected = append(rejected, nm)
 				continue
