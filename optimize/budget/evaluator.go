@@ -135,7 +135,7 @@ type Evaluator struct {
 	pmax, vmax []float64
 	headroom   float64
 	headOut    float64 // least headroom of the stage's output pin (see outputHeadroom)
-	headAmp    int // amplifier and pin of the least headroom
+	headAmp    int     // amplifier and pin of the least headroom
 	headPin    int
 	sens       []sensRow
 	ampT       point     // pin common mode and noise gains at nominal values
