@@ -129,9 +129,13 @@ func writeCheckFigures(w io.Writer, sp *spec.Spec, r *budget.Result) {
 	g := func(v float64) string { return strconv.FormatFloat(v, 'g', 6, 64) + unit }
 	fmt.Fprintf(w, "nominal gain %s (target %s: %s off at nominal values)\n",
 		g(m.Gain), g(m.GainTarget), units.FormatPercent(m.GainNominalError))
-	if m.CommonModeErrorV > 0 || m.CMRRResistorsdB > 0 {
-		fmt.Fprintf(w, "CMRR of the resistors alone %s; over the common-mode range %g..%g V it adds up to %s at the output, on top of the output offset\n",
-			budget.FormatFigure(m.CMRRResistorsdB, "dB"), sp.CommonMode.Min, sp.CommonMode.Max, budget.FormatFigure(m.CommonModeErrorV, "V"))
+	if m.CMRRResistorsdB > 0 {
+		line := "CMRR of the resistors alone " + budget.FormatFigure(m.CMRRResistorsdB, "dB")
+		if m.CommonModeErrorV > 0 {
+			line += fmt.Sprintf("; the common mode over %g..%g V adds up to %s at the output (at the total CMRR), on top of the output offset",
+				sp.CommonMode.Min, sp.CommonMode.Max, budget.FormatFigure(m.CommonModeErrorV, "V"))
+		}
+		fmt.Fprintln(w, line)
 	}
 }
 

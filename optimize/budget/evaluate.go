@@ -306,8 +306,12 @@ func marginText(l Limit, margin float64) string {
 		return fmt.Sprintf("%+.1f dB", l.Value-l.Limit)
 	case math.IsInf(margin, 1) || margin > 1e12:
 		return "no error"
-	case margin >= 1:
+	case margin >= 1.005:
 		return fmt.Sprintf("%.2fx inside the limit", margin)
+	case margin >= 1:
+		return fmt.Sprintf("%.4fx inside the limit", margin) // on the limit: enough digits to see which side
+	case margin > 1/1.005:
+		return fmt.Sprintf("fails by %.4fx", 1/margin)
 	default:
 		return fmt.Sprintf("fails by %.2fx", 1/margin)
 	}
@@ -368,10 +372,12 @@ func (e *Evaluator) contributors(npts int, pn *[4]point) [NumLimits][]Contributi
 			name = "nominal ratio with " + strings.Join(with, ", ")
 		}
 		gl = append(gl, Contribution{Name: name, Value: math.Abs(ideal/e.s.Gain - 1)})
-		for a := range e.amps {
-			name := e.net.OpAmps[e.amps[a]].Name
-			gl = append(gl, Contribution{Name: name + " open-loop gain", Value: math.Abs(pn[0].gain/ideal - 1)})
-			break
+		if len(e.amps) > 0 {
+			name := e.net.OpAmps[e.amps[0]].Name + " open-loop gain"
+			if len(e.amps) > 1 {
+				name = "the amplifiers' open-loop gain"
+			}
+			gl = append(gl, Contribution{Name: name, Value: math.Abs(pn[0].gain/ideal - 1)})
 		}
 	}
 	out[IGainError] = e.sorted(gl)

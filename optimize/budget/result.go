@@ -174,7 +174,7 @@ const (
 
 // FormatFigure writes a figure in the unit words of Limit.Unit, as every
 // command and report prints them: a bare fraction ("") as percent, dB to a
-// tenth, ppm/K to three figures, resistance in R-notation with "ohm", and
+// tenth, ppm/K to four figures, resistance in R-notation with "ohm", and
 // the rest in engineering notation with an SI prefix (4.275 mV, 3.334 MHz).
 func FormatFigure(v float64, unit string) string {
 	switch unit {
@@ -183,7 +183,7 @@ func FormatFigure(v float64, unit string) string {
 	case "dB":
 		return strconv.FormatFloat(v, 'f', 1, 64) + " dB"
 	case "ppm/K":
-		return strconv.FormatFloat(v, 'g', 3, 64) + " ppm/K"
+		return strconv.FormatFloat(v, 'g', 4, 64) + " ppm/K"
 	case "V/rtHz":
 		return units.Format(v, "V/√Hz")
 	case "ohm":
