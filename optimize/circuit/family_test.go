@@ -225,33 +225,10 @@ func TestReferenceDividerThevenin(t *testing.T) {
 			randomize(d, rand.New(rand.NewPCG(4, 4)))
 			ra, rb := d.Resistors[d.Resistor("Ra")].Ohm, d.Resistors[d.Resistor("Rb")].Ohm
 			p := mustNew(f, Options{})
-			for i, r := range p.Resistors {
-				p.Resistors[i].Ohm = d.Resistors[d.Resistor(r.Name)].Ohm
-			}
+			copyValues(p, d)
 			p.Resistors[p.Resistor("R4")].Ohm += ra * rb / (ra + rb)
-			for i, s := range p.Sources {
-				if s.Name == "vref" {
-					p.Sources[i].V = d.Sources[d.SourceIndex("vrefsrc")].V * rb / (ra + rb)
-				} else {
-					p.Sources[i].V = d.Sources[d.SourceIndex(s.Name)].V
-				}
-			}
-			for i := range p.Currents {
-				p.Currents[i].A = d.Currents[i].A
-			}
-			for i, a := range d.OpAmps {
-				p.OpAmps[i].Gain, p.OpAmps[i].Vos = a.Gain, a.Vos
-				p.OpAmps[i].IbPlus, p.OpAmps[i].IbMinus = a.IbPlus, a.IbMinus
-			}
-			vd, err := solveAll(d)
-			if err != nil {
-				t.Fatal(err)
-			}
-			vp, err := solveAll(p)
-			if err != nil {
-				t.Fatal(err)
-			}
-			near(t, "Vout", vd[d.Out], vp[p.Out], 1e-12)
+			p.Sources[p.SourceIndex("vref")].V = d.Sources[d.SourceIndex("vrefsrc")].V * rb / (ra + rb)
+			sameOut(t, d, p)
 		})
 	}
 }
@@ -283,29 +260,9 @@ func TestReferenceImpedanceSeries(t *testing.T) {
 			d := mustNew(tc.f, wo)
 			randomize(d, rand.New(rand.NewPCG(6, 2)))
 			p := mustNew(tc.f, tc.o)
-			for i, r := range p.Resistors {
-				p.Resistors[i].Ohm = d.Resistors[d.Resistor(r.Name)].Ohm
-			}
+			copyValues(p, d)
 			p.Resistors[p.Resistor(tc.series)].Ohm += d.Resistors[d.Resistor("Rref")].Ohm
-			for i, src := range p.Sources {
-				p.Sources[i].V = d.Sources[d.SourceIndex(src.Name)].V
-			}
-			for i := range p.Currents {
-				p.Currents[i].A = d.Currents[i].A
-			}
-			for i, a := range d.OpAmps {
-				p.OpAmps[i].Gain, p.OpAmps[i].Vos = a.Gain, a.Vos
-				p.OpAmps[i].IbPlus, p.OpAmps[i].IbMinus = a.IbPlus, a.IbMinus
-			}
-			vd, err := solveAll(d)
-			if err != nil {
-				t.Fatal(err)
-			}
-			vp, err := solveAll(p)
-			if err != nil {
-				t.Fatal(err)
-			}
-			near(t, "Vout", vd[d.Out], vp[p.Out], 1e-12)
+			sameOut(t, d, p)
 		})
 	}
 }
@@ -520,4 +477,41 @@ func TestNewTopologies(t *testing.T) {
 			}
 		}
 	}
+}
+
+// copyValues gives netlist p the values of d, element by element: resistors
+// and sources by name (where d has one of that name), currents and op-amps
+// by index (the two netlists are variants of one family).
+func copyValues(p, d *Netlist) {
+	for i, r := range p.Resistors {
+		if k := d.Resistor(r.Name); k >= 0 {
+			p.Resistors[i].Ohm = d.Resistors[k].Ohm
+		}
+	}
+	for i, src := range p.Sources {
+		if k := d.SourceIndex(src.Name); k >= 0 {
+			p.Sources[i].V = d.Sources[k].V
+		}
+	}
+	for i := range p.Currents {
+		p.Currents[i].A = d.Currents[i].A
+	}
+	for i, a := range d.OpAmps {
+		p.OpAmps[i].Gain, p.OpAmps[i].Vos = a.Gain, a.Vos
+		p.OpAmps[i].IbPlus, p.OpAmps[i].IbMinus = a.IbPlus, a.IbMinus
+	}
+}
+
+// sameOut solves d and p and requires the same output voltage.
+func sameOut(t *testing.T, d, p *Netlist) {
+	t.Helper()
+	vd, err := solveAll(d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	vp, err := solveAll(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	near(t, "Vout", vd[d.Out], vp[p.Out], 1e-12)
 }
