@@ -135,6 +135,7 @@ type Evaluator struct {
 	pmax, vmax []float64
 	headroom   float64
 	headOut    float64 // least headroom of the stage's output pin (see outputHeadroom)
+	outAmp     int     // the amplifier that drives the stage's output
 	headAmp    int     // amplifier and pin of the least headroom
 	headPin    int
 	sens       []sensRow
@@ -229,6 +230,9 @@ func (e *Evaluator) buildNetlist() error {
 	}
 	for i := range net.OpAmps {
 		e.amps = append(e.amps, i)
+		if net.OpAmps[i].Out == net.Out {
+			e.outAmp = len(e.amps) - 1
+		}
 	}
 	if len(e.amps) > maxAmps {
 		return fmt.Errorf("budget: %s has %d op-amps, more than %d", e.family, len(e.amps), maxAmps)
@@ -281,12 +285,6 @@ func (e *Evaluator) SetCandidate(c *Candidate) error {
 		if !(f.Ohm > 0) || math.IsInf(f.Ohm, 0) || f.Tolerance < 0 || f.TCR < 0 {
 			return fmt.Errorf("%w: %s: value %g ohm, tolerance %g, TCR %g", ErrCandidate, e.positions[k], f.Ohm, f.Tolerance, f.TCR)
 		}
-		// A resistance must stay positive at every corner: 1 - tolerance -
-		// load life and 1 - TCR x excursion both above zero.
-		if dt := e.s.WorstExcursion(); f.Tolerance+f.LoadLife >= 1 || f.TCR*dt >= 1 {
-			return fmt.Errorf("%w: %s: tolerance %g %%, load life %g %% and TCR %g ppm/K over the %g K excursion take its value to zero or below; check those figures",
-				ErrCandidate, e.positions[k], 100*f.Tolerance, 100*f.LoadLife, 1e6*f.TCR, dt)
-		}
 	}
 	copy(e.c.Figs, c.Figs)
 	e.c.Amp, e.c.MatchedGain = c.Amp, c.MatchedGain
@@ -320,10 +318,18 @@ func (e *Evaluator) SetCandidate(c *Candidate) error {
 	if err := e.stress(); err != nil {
 		return err
 	}
+	// A resistance must stay positive at every corner: 1 - tolerance - load
+	// life and 1 - TCR x (excursion + self-heating) both above zero. The
+	// stress solve above is at nominal values, so it is safe to run first.
+	dt := e.s.WorstExcursion()
 	for k, f := range e.c.Figs {
-		if dt := e.s.WorstExcursion() + e.heat[k]; f.TCR*dt >= 1 {
+		switch {
+		case e.heat[k] > 0 && f.TCR*(dt+e.heat[k]) >= 1:
 			return fmt.Errorf("%w: %s: its self-heating of %.3g K on top of the %g K excursion, at TCR %g ppm/K, takes its value to zero or below; check its thermal resistance and TCR",
-				ErrCandidate, e.positions[k], e.heat[k], e.s.WorstExcursion(), 1e6*f.TCR)
+				ErrCandidate, e.positions[k], e.heat[k], dt, 1e6*f.TCR)
+		case f.Tolerance+f.LoadLife >= 1 || f.TCR*dt >= 1:
+			return fmt.Errorf("%w: %s: tolerance %g %%, load life %g %% and TCR %g ppm/K over the %g K excursion take its value to zero or below; check those figures",
+				ErrCandidate, e.positions[k], 100*f.Tolerance, 100*f.LoadLife, 1e6*f.TCR, dt)
 		}
 	}
 	return e.ampTransfers()

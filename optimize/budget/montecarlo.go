@@ -67,14 +67,8 @@ func (e *Evaluator) MonteCarlo(trials int, seed uint64, samples bool) (*MCSummar
 		return nil, err
 	}
 	e.judge(&m, &nominal)
-	// Each trial's output moves by its own gain error on the full-scale
-	// signal, its offset and its common-mode error (see outputHeadroom).
+	// Each trial's output moves by its own errors (see outputHeadroom).
 	headroom := nominal.Checked[IHeadroom] && !math.IsInf(e.headOut, 1)
-	fullScale := math.Max(math.Abs(s.Input.Min), math.Abs(s.Input.Max)) * math.Abs(pn.gain)
-	cmScale := math.Max(math.Abs(s.CommonMode.Min), math.Abs(s.CommonMode.Max)) * math.Abs(pn.adm)
-	if !e.differential {
-		cmScale = 0
-	}
 	// Columns returned as samples belong to the caller; otherwise the
 	// evaluator keeps one buffer for every run.
 	var buf []float64
@@ -106,7 +100,7 @@ func (e *Evaluator) MonteCarlo(trials int, seed uint64, samples bool) (*MCSummar
 		cols[5][t], cols[6][t] = a.gainInitSigned, 20*math.Log10(a.cmrrRes)
 		verdicts := e.trialPass(&a, cmrrDB, &nominal)
 		if headroom {
-			verdicts[IHeadroom] = verdicts[IHeadroom] && e.headOut-(math.Abs(a.gainSigned)*fullScale+a.offset+cmScale/a.cmrr) >= 0
+			verdicts[IHeadroom] = verdicts[IHeadroom] && e.headOut-e.outputMove(&pn, math.Abs(a.gainSigned), a.offset, a.cmrr) >= 0
 		}
 		ok := true
 		for i, passed := range verdicts {

@@ -45,20 +45,12 @@ func (e *Evaluator) stress() error {
 	vneg, vpos := e.s.Supply.Min, e.s.Supply.Max
 	a := &e.amp
 	e.headOut = math.Inf(1)
-	outAmp := 0 // the amplifier that drives the stage's output
-	if !e.matched {
-		for ai, i := range e.amps {
-			if e.net.OpAmps[i].Out == e.net.Out {
-				outAmp = ai
-			}
-		}
-	}
 	check := func(v, lo, hi float64, amp, pin int) {
 		m := math.Min(v-lo, hi-v)
 		if m < e.headroom {
 			e.headroom, e.headAmp, e.headPin = m, amp, pin
 		}
-		if pin == pinOut && amp == outAmp {
+		if pin == pinOut && amp == e.outAmp {
 			e.headOut = math.Min(e.headOut, m)
 		}
 	}
@@ -112,27 +104,30 @@ func (e *Evaluator) stress() error {
 }
 
 // outputHeadroom lowers m.HeadroomV, the nominal parts' least headroom,
-// to what the stage's output keeps once its worst-case errors move it:
-// the gain error on the full-scale signal plus the output offset (the
-// common mode's share on top for a differential input). The pins inside
-// the stage move with the tolerances only by their fraction of these.
+// to what the stage's output keeps once its worst-case errors move it (see
+// outputMove). The pins inside the stage move with the tolerances only by
+// their fraction of these.
 func (e *Evaluator) outputHeadroom(w *agg, p0 *point, m *Metrics) {
 	if math.IsInf(e.headOut, 1) {
 		return
 	}
-	in := math.Max(math.Abs(e.s.Input.Min), math.Abs(e.s.Input.Max))
-	moved := e.headOut - (w.gainErr*in*math.Abs(p0.gain) + w.offset + m.CommonModeErrorV)
-	if moved < m.HeadroomV {
-		m.HeadroomV = moved
-		e.headAmp, e.headPin = 0, pinOut
-		if !e.matched {
-			for ai, i := range e.amps {
-				if e.net.OpAmps[i].Out == e.net.Out {
-					e.headAmp = ai
-				}
-			}
-		}
+	if moved := e.headOut - e.outputMove(p0, w.gainErr, w.offset, w.cmrr); moved < m.HeadroomV {
+		m.HeadroomV, e.headAmp, e.headPin = moved, e.outAmp, pinOut
 	}
+}
+
+// outputMove is how far errors move the stage's output from its nominal
+// value at the range corners: the gain error on the full-scale signal, the
+// output offset, and for a differential input the common mode's share at
+// the largest |Vcm|, |Adm| |Vcm|/CMRR (cmrr linear). p0 is the nominal
+// point.
+func (e *Evaluator) outputMove(p0 *point, gainErr, offset, cmrr float64) float64 {
+	s := e.s
+	move := gainErr*math.Max(math.Abs(s.Input.Min), math.Abs(s.Input.Max))*math.Abs(p0.gain) + offset
+	if e.differential {
+		move += math.Max(math.Abs(s.CommonMode.Min), math.Abs(s.CommonMode.Max)) * math.Abs(p0.adm) / cmrr
+	}
+	return move
 }
 
 // derating is the spec's fraction of rated power a resistor may dissipate;

@@ -453,8 +453,7 @@ func (e *Evaluator) fillMetrics(w *agg, p0 *point, m *Metrics) error {
 	m.OutputOffsetV, m.OffsetDriftVPerK = w.offset, w.offsetDrift
 	if e.differential {
 		m.CMRRdB, m.CMRRResistorsdB = 20*math.Log10(w.cmrr), 20*math.Log10(w.cmrrRes)
-		cm := math.Max(math.Abs(e.s.CommonMode.Min), math.Abs(e.s.CommonMode.Max))
-		m.CommonModeErrorV = cm * math.Abs(p0.adm) / w.cmrr
+		m.CommonModeErrorV = e.outputMove(p0, 0, 0, w.cmrr)
 	}
 	e.outputHeadroom(w, p0, m)
 	return nil
