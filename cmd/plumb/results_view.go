@@ -94,13 +94,17 @@ func writeDesignParts(w io.Writer, ios *IOStreams, d *search.Design) error {
 
 // writeLimits prints the limits a design is checked against.
 func writeLimits(w io.Writer, ios *IOStreams, ls []search.Limit) error {
-	t := newTable(ios, "LIMIT", "VALUE", "LIMIT", "MARGIN", "RESULT").alignRight(1, 2, 3)
+	t := newTable(ios, "METRIC", "VALUE", "LIMIT", "MARGIN", "RESULT").alignRight(1, 2, 3)
 	for _, l := range ls {
 		res := ios.Green("pass")
 		if !l.Pass {
 			res = ios.Red("FAIL")
 		}
-		t.row(l.Name, limitValue(l, l.Value), limitValue(l, l.Limit), formatMargin(l.Margin), res)
+		margin := l.MarginText // check's words, where the exact budget gave them
+		if margin == "" {
+			margin = formatMargin(l.Margin)
+		}
+		t.row(l.Name, limitValue(l, l.Value), limitValue(l, l.Limit), margin, res)
 	}
 	return t.render(w)
 }
