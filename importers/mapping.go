@@ -1,13 +1,16 @@
 package importers
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"regexp"
 	"slices"
 	"sort"
+	"strconv"
 	"strings"
 	"unicode"
 
@@ -562,14 +565,134 @@ func LoadMapping(dir, nameOrFile string) (*Mapping, error) {
 	if err != nil {
 		return nil, fmt.Errorf("importers: reading mapping: %w", err)
 	}
-	var m Mapping
-	dec := yaml.NewDecoder(strings.NewReader(string(b)))
-	dec.KnownFields(true)
-	if err := dec.Decode(&m); err != nil {
-		return nil, fmt.Errorf("%s: %w: %v", path, ErrMapping, err)
+	m, err := parseMapping(path, b)
+	if err != nil {
+		return nil, err
 	}
 	if err := m.validate(path); err != nil {
 		return nil, err
+	}
+	return m, nil
+}
+
+// maxMappingBytes caps a mapping file: a real one is a few dozen lines.
+const maxMappingBytes = 256 << 10
+
+// parseMapping reads a mapping file's YAML. The node tree is checked
+// before anything is decoded, so a file of the wrong shape gets messages in
+// the file's own terms (line, column, key) rather than Go type names, and
+// anchors and aliases, which no mapping needs and which can expand a small
+// file into a huge one, are refused.
+func parseMapping(path string, b []byte) (*Mapping, error) {
+	fail := func(format string, args ...any) error {
+		return fmt.Errorf("%s: %w: %s", path, ErrMapping, fmt.Sprintf(format, args...))
+	}
+	if len(b) > maxMappingBytes {
+		return nil, fail("the file is %d bytes; a mapping is a few dozen lines (at most %d bytes are read)", len(b), maxMappingBytes)
+	}
+	dec := yaml.NewDecoder(bytes.NewReader(b))
+	var doc yaml.Node
+	if err := dec.Decode(&doc); err != nil {
+		if errors.Is(err, io.EOF) {
+			return nil, fail("the file is empty; see plumb help mapping")
+		}
+		return nil, fail("not YAML: %v", strings.TrimPrefix(err.Error(), "yaml: "))
+	}
+	var extra yaml.Node
+	if err := dec.Decode(&extra); err == nil {
+		return nil, fail("line %d: a second YAML document (after ---); a mapping file holds one", extra.Line)
+	}
+	var probs []string
+	add := func(n *yaml.Node, format string, args ...any) {
+		probs = append(probs, fmt.Sprintf("line %d, column %d: %s", n.Line, n.Column, fmt.Sprintf(format, args...)))
+	}
+	var walk func(n *yaml.Node) bool
+	walk = func(n *yaml.Node) bool {
+		if n.Kind == yaml.AliasNode || n.Anchor != "" {
+			add(n, "anchors and aliases (& and *) are not used in a mapping file; write each value out")
+			return false
+		}
+		for _, c := range n.Content {
+			if !walk(c) {
+				return false
+			}
+		}
+		return true
+	}
+	if !walk(&doc) {
+		return nil, fail("%s", probs[0])
+	}
+	root := &doc
+	if root.Kind == yaml.DocumentNode && len(root.Content) == 1 {
+		root = root.Content[0]
+	}
+	kindName := map[yaml.Kind]string{yaml.ScalarNode: "a single value", yaml.SequenceNode: "a list", yaml.MappingNode: "key: value lines"}
+	pairs := func(n *yaml.Node, what string, each func(k, v *yaml.Node)) {
+		if n.Kind != yaml.MappingNode {
+			add(n, "%s must be key: value lines, not %s", what, kindName[n.Kind])
+			return
+		}
+		seen := map[string]bool{}
+		for i := 0; i+1 < len(n.Content); i += 2 {
+			k, v := n.Content[i], n.Content[i+1]
+			if k.Kind != yaml.ScalarNode {
+				add(k, "a key under %s must be a plain word", what)
+				continue
+			}
+			if seen[k.Value] {
+				add(k, "%s is given twice under %s", k.Value, what)
+				continue
+			}
+			seen[k.Value] = true
+			each(k, v)
+		}
+	}
+	scalar := func(v *yaml.Node, what string) {
+		if v.Kind != yaml.ScalarNode {
+			add(v, "%s must be a single value, not %s", what, kindName[v.Kind])
+		}
+	}
+	pairs(root, "the file", func(k, v *yaml.Node) {
+		switch k.Value {
+		case "kind":
+			scalar(v, "kind")
+		case "columns", "fixed":
+			pairs(v, k.Value, func(f, h *yaml.Node) { scalar(h, k.Value+"."+f.Value) })
+		case "decimal_comma":
+			scalar(v, "decimal_comma")
+			if v.Kind == yaml.ScalarNode && v.Value != "true" && v.Value != "false" {
+				add(v, "decimal_comma must be true or false, not %q", v.Value)
+			}
+		case "price_breaks":
+			if v.Kind != yaml.SequenceNode {
+				add(v, "price_breaks must be a list of {column: HEADER, min_qty: N}, not %s", kindName[v.Kind])
+				return
+			}
+			for _, e := range v.Content {
+				pairs(e, "a price break", func(bk, bv *yaml.Node) {
+					switch bk.Value {
+					case "column":
+						scalar(bv, "price_breaks.column")
+					case "min_qty":
+						scalar(bv, "price_breaks.min_qty")
+						if n, err := strconv.Atoi(bv.Value); bv.Kind == yaml.ScalarNode && (err != nil || n < 1 || n > maxPieces) {
+							add(bv, "min_qty must be a whole number of pieces from 1, not %q", bv.Value)
+						}
+					default:
+						add(bk, "unknown key %q in a price break (known: column, min_qty)", bk.Value)
+					}
+				})
+			}
+		default:
+			add(k, "unknown key %q (known: kind, columns, price_breaks, fixed, decimal_comma; see plumb help mapping)", k.Value)
+		}
+	})
+	if len(probs) > 0 {
+		return nil, fail("%s", strings.Join(probs, "; "))
+	}
+	var m Mapping
+	if err := root.Decode(&m); err != nil {
+		return nil, fail("%v", strings.TrimPrefix(err.Error(), "yaml: "))
 	}
 	return &m, nil
 }

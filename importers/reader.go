@@ -7,6 +7,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"strings"
 	"unicode/utf8"
 
 	"golang.org/x/text/encoding/charmap"
@@ -40,6 +41,9 @@ type Shape struct {
 	DecimalComma bool
 	// Encoding is "UTF-8", "UTF-8 with BOM", "UTF-16" or "Windows-1252".
 	Encoding string
+	// CROnly is true when lines end with a bare carriage return (old
+	// spreadsheet exports); they are read as line ends.
+	CROnly bool
 }
 
 // Reader streams the records of one export file. It is not safe for
@@ -51,6 +55,9 @@ type Reader struct {
 	guard  *recordGuard
 	header []string
 	line   int
+	// queue holds records re-read on their own after an unclosed quote
+	// ran over them, with their lines; they come before the next record.
+	queue []queued
 	// Preamble holds the lines of title records skipped above the header.
 	Preamble []int
 }
@@ -96,7 +103,15 @@ func newReader(name string, r io.Reader, sep rune) (*Reader, error) {
 		head, _ = charmap.Windows1252.NewDecoder().Bytes(head)
 		enc = "Windows-1252"
 	}
+	crOnly := bytes.IndexByte(head, '\n') < 0 && bytes.IndexByte(head, '\r') >= 0
+	if crOnly {
+		// Classic Mac line ends: encoding/csv keeps a lone CR inside the
+		// field, so the whole file would read as one line.
+		text = transform.NewReader(text, crToLF{})
+		head = bytes.ReplaceAll(head, []byte{'\r'}, []byte{'\n'})
+	}
 	shape, bestScore := sniff(head)
+	shape.CROnly = crOnly
 	if sep != 0 && sep != shape.Separator {
 		shape.Separator = sep
 		bestScore = -1 // the sniffed field counts are for another separator
@@ -149,6 +164,11 @@ func (r *Reader) Read() ([]string, int, error) {
 }
 
 func (r *Reader) next() ([]string, int, error) {
+	if len(r.queue) > 0 {
+		q := r.queue[0]
+		r.queue = r.queue[1:]
+		return q.rec, q.line, q.err
+	}
 	if r.guard.err != nil {
 		return nil, 0, io.EOF
 	}
@@ -166,15 +186,85 @@ func (r *Reader) next() ([]string, int, error) {
 		}
 		var ce *csv.ParseError
 		if errors.As(err, &ce) {
+			if ce.Line > ce.StartLine {
+				return nil, ce.StartLine, r.unclosed(ce.StartLine, ce.Line)
+			}
+			r.guard.prune(ce.Line)
 			return nil, ce.StartLine, &ParseError{File: r.name, Line: ce.StartLine, Err: fmt.Errorf("%w: %w; check the quotes in this row", ErrBadQuotes, ce.Err)}
 		}
 		return nil, line, &ParseError{File: r.name, Line: line, Err: err}
 	}
+	if end := recordEnd(r.csv, rec, line); end > line && r.header != nil && len(rec) != len(r.header) {
+		// A quote that opened a field and closed on a later line before a
+		// separator joined lines into one record of the wrong width: the
+		// same unclosed quote, which must not take the next rows with it.
+		return nil, line, r.unclosed(line, end)
+	}
+	r.guard.prune(line)
 	if len(rec) > MaxColumns {
 		r.guard.err = fmt.Errorf("%w: %d fields, at most %d are read", ErrTooManyColumns, len(rec), MaxColumns)
 		return nil, line, &ParseError{File: r.name, Line: line, Err: r.guard.err}
 	}
 	return rec, line, nil
+}
+
+// queued is a record (or its error) waiting in Reader.queue.
+type queued struct {
+	rec  []string
+	line int
+	err  error
+}
+
+// recordEnd is the line a record read by cr ends on.
+func recordEnd(cr *csv.Reader, rec []string, line int) int {
+	if len(rec) == 0 {
+		return line
+	}
+	l, _ := cr.FieldPos(len(rec) - 1)
+	return l + strings.Count(rec[len(rec)-1], "\n")
+}
+
+// unclosed reports the quote opened on line start that ran to line end,
+// and queues lines start+1..end to be read on their own, so the rows an
+// unclosed quote ran over are read (or reported) instead of lost.
+func (r *Reader) unclosed(start, end int) error {
+	for l := start + 1; l <= end; l++ {
+		raw, ok := r.guard.cont[l]
+		if !ok || len(bytes.TrimSpace(raw)) == 0 {
+			continue
+		}
+		cr := csv.NewReader(bytes.NewReader(raw))
+		cr.Comma = r.shape.Separator
+		cr.FieldsPerRecord = -1
+		rec, err := cr.Read()
+		var ce *csv.ParseError
+		switch {
+		case errors.As(err, &ce):
+			err = &ParseError{File: r.name, Line: l, Err: fmt.Errorf("%w: %w; check the quotes in this row", ErrBadQuotes, ce.Err)}
+		case err != nil:
+			err = &ParseError{File: r.name, Line: l, Err: err}
+		}
+		r.queue = append(r.queue, queued{rec: rec, line: l, err: err})
+	}
+	r.guard.prune(end + 1)
+	return &ParseError{File: r.name, Line: start, Err: fmt.Errorf("%w: a quote opened on this line is not closed where its field ends (it ran on to line %d); this row is left out and the lines after it are read on their own; check the quotes in this row", ErrBadQuotes, end)}
+}
+
+// crToLF turns every carriage return into a line feed, for files whose
+// lines end with a bare CR.
+type crToLF struct{ transform.NopResetter }
+
+func (crToLF) Transform(dst, src []byte, atEOF bool) (nDst, nSrc int, err error) {
+	n := copy(dst, src)
+	for i := range n {
+		if dst[i] == '\r' {
+			dst[i] = '\n'
+		}
+	}
+	if n < len(src) {
+		return n, n, transform.ErrShortDst
+	}
+	return n, n, nil
 }
 
 // recordGuard passes bytes through while following CSV quoting just enough
@@ -191,6 +281,37 @@ type recordGuard struct {
 	fields  int
 	line    int
 	err     error
+	// cont holds the raw text of each line that starts inside a quoted
+	// field, by line number, until the reader has passed it: what an
+	// unclosed quote ran over, to be read again on its own.
+	cont      map[int][]byte
+	capturing bool
+	capLine   int
+	capBuf    []byte
+}
+
+// newline ends the captured line, if any, and starts capturing the next one
+// when it begins inside a quoted field.
+func (g *recordGuard) newline() {
+	if g.capturing {
+		if g.cont == nil {
+			g.cont = map[int][]byte{}
+		}
+		g.cont[g.capLine] = bytes.TrimRight(g.capBuf, "\r")
+		g.capturing, g.capBuf = false, nil
+	}
+	if g.inQuote && !g.pending {
+		g.capturing, g.capLine = true, g.line
+	}
+}
+
+// prune forgets captured lines before line.
+func (g *recordGuard) prune(line int) {
+	for l := range g.cont {
+		if l < line {
+			delete(g.cont, l)
+		}
+	}
 }
 
 func (g *recordGuard) Read(p []byte) (int, error) {
@@ -204,6 +325,11 @@ func (g *recordGuard) Read(p []byte) (int, error) {
 	for i := 0; i < n; i++ {
 		c := p[i]
 		g.n++
+		if g.capturing && c != '\n' {
+			if len(g.capBuf) < MaxRecordBytes {
+				g.capBuf = append(g.capBuf, c)
+			}
+		}
 		if g.pending {
 			g.pending = false
 			if c == '"' { // escaped quote
@@ -217,6 +343,7 @@ func (g *recordGuard) Read(p []byte) (int, error) {
 				g.pending = true
 			} else if c == '\n' {
 				g.line++
+				g.newline()
 			}
 		case c == '"' && g.atStart:
 			g.inQuote = true
@@ -232,6 +359,7 @@ func (g *recordGuard) Read(p []byte) (int, error) {
 			g.line++
 			g.n, g.fields = 0, 0
 			g.atStart = true
+			g.newline()
 			continue
 		}
 		if c != ' ' {

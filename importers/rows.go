@@ -201,6 +201,9 @@ func (r *rowReader) read(rec []string, line int) (parsed, error) {
 	if part == "" {
 		return parsed{}, r.skip(FieldPart, "", fmt.Errorf("%w: no part number", ErrMissingValue))
 	}
+	if err := r.plainText(FieldPart, part, "part number"); err != nil {
+		return parsed{}, err
+	}
 	r.part = part
 	offer, err := r.offer()
 	if err != nil {
@@ -208,6 +211,9 @@ func (r *rowReader) read(rec []string, line int) (parsed, error) {
 	}
 	if strings.IndexFunc(part, unicode.IsSpace) >= 0 || strings.Contains(part, ",") {
 		return parsed{}, r.skip(FieldPart, part, fmt.Errorf("%w: part number %q contains a space or comma, which no order code has; check the column", ErrBadValue, part))
+	}
+	if err := r.plainText(FieldMaker, r.text(FieldMaker), "maker"); err != nil {
+		return parsed{}, err
 	}
 	if r.text(FieldMaker) == "" {
 		return parsed{}, r.skip(FieldMaker, "", fmt.Errorf("%w: no maker; fill the column or set fixed maker in a mapping", ErrMissingValue))
@@ -248,6 +254,27 @@ func (r *rowReader) read(rec []string, line int) (parsed, error) {
 	return p, nil
 }
 
+// plainText refuses a part number or maker holding a control, format or
+// bidirectional character (ESC, U+202E RIGHT-TO-LEFT OVERRIDE, a zero-width
+// space ...): printed raw, they can recolour a terminal or show a part
+// number other than the one stored.
+func (r *rowReader) plainText(f Field, s, what string) error {
+	pos := 0
+	for _, c := range s {
+		pos++
+		if unicode.IsControl(c) || unicode.In(c, unicode.Cf, unicode.Zl, unicode.Zp) {
+			kind := "a control character"
+			if unicode.Is(unicode.Bidi_Control, c) {
+				kind = "a bidirectional control character"
+			} else if !unicode.IsControl(c) {
+				kind = "an invisible formatting character"
+			}
+			return r.skip(f, s, fmt.Errorf("%w: character %d of the %s is U+%04X, %s, which no %s holds; correct the cell", ErrBadValue, pos, what, c, kind, what))
+		}
+	}
+	return nil
+}
+
 // rowRefRE cuts the store's "(resistor row 1)", which would point at the
 // one-part batch a row is checked in, not at the file.
 var rowRefRE = regexp.MustCompile(` \([a-z]+ row \d+\)`)
@@ -269,17 +296,30 @@ func (r *rowReader) checkWidth() error {
 	return r.skip("", strings.Join(r.rec, string(',')), fmt.Errorf("%w: %d fields, the header has %d (an unquoted separator inside a value?)", ErrRagged, n, want))
 }
 
+// maxPieces bounds stock and order counts: far above any distributor's
+// stock of one part (common practice), and well inside an int, so a
+// 19-digit count is refused instead of wrapping negative.
+const maxPieces = 1e12
+
 // offer reads stock, minimum order and prices.
 func (r *rowReader) offer() (catalog.Offer, error) {
 	o := catalog.Offer{Stock: -1}
 	if v, ok, _, err := r.count(FieldStock); err != nil {
 		return o, err
 	} else if ok {
+		if v > maxPieces {
+			s, _ := r.raw(FieldStock)
+			return o, r.skip(FieldStock, s, fmt.Errorf("%w: a stock of %s pieces is beyond any real stock (at most %.0e are taken); check the column", ErrBadValue, s, maxPieces))
+		}
 		o.Stock = int(v)
 	}
 	if v, ok, _, err := r.count(FieldMinOrder); err != nil {
 		return o, err
 	} else if ok {
+		if v > maxPieces {
+			s, _ := r.raw(FieldMinOrder)
+			return o, r.skip(FieldMinOrder, s, fmt.Errorf("%w: a minimum order of %s pieces is beyond any real order (at most %.0e are taken); check the column", ErrBadValue, s, maxPieces))
+		}
 		o.MinOrder = int(v)
 	}
 	first := max(o.MinOrder, 1)

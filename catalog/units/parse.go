@@ -518,7 +518,7 @@ func ParseCount(s string) (int, error) {
 		c := t[i]
 		switch {
 		case isDigit(c):
-			if n > maxCount {
+			if n > maxCount || n*10 > math.MaxInt64-int(c-'0') {
 				return fail("number too large")
 			}
 			n = n*10 + int(c-'0')

@@ -412,6 +412,10 @@ func TestParseCount(t *testing.T) {
 		{name: "rejects negative", in: "-5", err: "negative"},
 		{name: "rejects text", in: "plenty", err: "unexpected character"},
 		{name: "rejects overflow", in: "99999999999999999999", err: "too large"},
+		// 2^63 - 1 is the largest int64; one more wrapped negative.
+		{name: "largest int64", in: "9223372036854775807", want: 9223372036854775807},
+		{name: "rejects int64 plus one", in: "9223372036854775808", err: "too large"},
+		{name: "rejects nineteen nines", in: "9999999999999999999", err: "too large"},
 		{name: "rejects trailing separator", in: "12,", err: "expected digits"},
 	}
 	for _, tc := range tests {
