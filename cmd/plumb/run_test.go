@@ -32,8 +32,14 @@ func useFixtureCatalog(t *testing.T, f *Factory) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	useSnapshotCatalog(f, "fixture", func() (*catalog.Snapshot, error) { return catalog.ReadSnapshotJSON(bytes.NewReader(b)) })
+}
+
+// useSnapshotCatalog makes f open a fresh in-memory catalog holding the
+// snapshot load returns, imported from source, on every call.
+func useSnapshotCatalog(f *Factory, source string, load func() (*catalog.Snapshot, error)) {
 	f.Catalog = func(ctx context.Context) (*catalog.Store, error) {
-		snap, err := catalog.ReadSnapshotJSON(bytes.NewReader(b))
+		snap, err := load()
 		if err != nil {
 			return nil, err
 		}
@@ -41,7 +47,7 @@ func useFixtureCatalog(t *testing.T, f *Factory) {
 		if err != nil {
 			return nil, err
 		}
-		if _, err := st.Upsert(ctx, snap, catalog.UpsertOptions{Source: "fixture", Now: fixtureTime}); err != nil {
+		if _, err := st.Upsert(ctx, snap, catalog.UpsertOptions{Source: source, Now: fixtureTime}); err != nil {
 			return nil, err
 		}
 		return st, nil

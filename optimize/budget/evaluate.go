@@ -123,6 +123,9 @@ func (e *Evaluator) Evaluate(c *Candidate) (*Result, error) {
 	}
 	e.cautions(res)
 	e.commonNotes(res)
+	if err := CheckFinite("budget of "+e.family+" design", res); err != nil {
+		return nil, err
+	}
 	return res, nil
 }
 
@@ -291,9 +294,14 @@ func (e *Evaluator) limits(sc *Score, npts int, pn *[4]point, res *Result) {
 	}
 }
 
+// MaxMargin is the margin written for a limit with no error at all (a
+// figure of zero against a maximum): large, but finite, so that every
+// output can carry it.
+const MaxMargin = 1e12
+
 func finite(v float64) float64 {
-	if math.IsInf(v, 1) || v > 1e12 {
-		return 1e12
+	if math.IsInf(v, 1) || v > MaxMargin {
+		return MaxMargin
 	}
 	return v
 }
@@ -304,7 +312,7 @@ func marginText(l Limit, margin float64) string {
 		return fmt.Sprintf("%+.3g V", l.Value)
 	case l.Unit == "dB":
 		return fmt.Sprintf("%+.1f dB", l.Value-l.Limit)
-	case math.IsInf(margin, 1) || margin > 1e12:
+	case math.IsInf(margin, 1) || margin > MaxMargin:
 		return "no error"
 	case margin >= 1.005:
 		return fmt.Sprintf("%.2fx inside the limit", margin)

@@ -211,7 +211,7 @@ func senseReasons(p *Problem, d *Design, above []Design) []string {
 		out = append(out, s.rankLine(&above[len(above)-1], d))
 	}
 	for _, r := range d.Reasons {
-		if strings.Contains(r, "value variants") || strings.HasPrefix(r, "stock is short") || strings.HasPrefix(r, "not confirmed") {
+		if strings.Contains(r, "value variants") || strings.HasPrefix(r, "stock is short") {
 			out = append(out, r)
 		}
 	}
@@ -272,6 +272,9 @@ func solveCurrentSense(ctx context.Context, parts *Parts, p Problem, opt Options
 		res.Cautions = append(res.Cautions, hazardCaution)
 	}
 	res.Notes = append(res.Notes, fmt.Sprintf("%d shunt candidates searched; the reasons below each design compare it within its shunt", len(shunts)))
+	if err := res.checkFinite(); err != nil {
+		return nil, err
+	}
 	if len(res.Designs) == 0 {
 		res.Infeasible = &Infeasible{Message: ErrInfeasible.Error() + "; no shunt and difference amplifier in the catalog meet every limit together"}
 		return res, ErrInfeasible

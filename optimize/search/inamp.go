@@ -398,6 +398,9 @@ func solveInAmp(ctx context.Context, parts *Parts, p Problem, opt Options, verif
 		res.Cautions = append(res.Cautions, hazardCaution)
 	}
 	res.Notes = append(res.Notes, fmt.Sprintf("second-stage gains searched: %v; the first stage makes up the rest of the gain", gains))
+	if err := res.checkFinite(); err != nil {
+		return nil, err
+	}
 	if len(res.Designs) == 0 {
 		res.Infeasible = inf
 		if inf == nil {
@@ -431,9 +434,7 @@ func addNear(res *Result, near []NearMiss, rejected int, verify verifier) {
 			res.NearMisses = append(res.NearMisses, nm)
 		}
 	}
-	if n := check.note(); n != "" {
-		res.Notes = append(res.Notes, n)
-	}
+	res.Notes = append(res.Notes, check.notes()...)
 }
 
 // rankMerged ranks the designs of exact sub-searches by cost: each is
@@ -444,18 +445,19 @@ func addNear(res *Result, near []NearMiss, rejected int, verify verifier) {
 func rankMerged(res *Result, all []subDesign, top int, verify verifier, reasons func(d *Design, above []Design) []string) int {
 	sort.SliceStable(all, func(i, j int) bool { return all[i].d.TotalCost < all[j].d.TotalCost })
 	rejected := 0
+	var broken unchecked
 	for _, c := range all {
 		if len(res.Designs) >= top {
 			break
 		}
-		var unverified error
 		if verify != nil {
 			br, fails, err := verify(c.sd)
-			unverified = err
-			if err == nil {
-				adopt(&c.d, br)
+			if err != nil {
+				broken.add(err)
+				continue
 			}
-			if err == nil && len(fails) > 0 {
+			adopt(&c.d, br)
+			if len(fails) > 0 {
 				nm := NearMiss{Design: c.d, Fails: fails, sd: c.sd}
 				nm.Reasons = []string{"passes the search's screening figures, but the exact budget fails it: " + failText(fails)}
 				if rejected < maxNearMisses {
@@ -467,14 +469,14 @@ func rankMerged(res *Result, all []subDesign, top int, verify verifier, reasons 
 		}
 		c.d.Rank = len(res.Designs) + 1
 		c.d.Reasons = reasons(&c.d, res.Designs)
-		if unverified != nil {
-			c.d.Reasons = append(c.d.Reasons, "not confirmed by the exact budget: "+unverified.Error())
-		}
 		res.Designs = append(res.Designs, c.d)
 		res.designs = append(res.designs, c.sd)
 	}
 	if rejected > 0 {
 		res.Notes = append(res.Notes, fmt.Sprintf("%d design(s) that pass the screening figures fail the exact budget; they are listed first among the near misses", rejected))
+	}
+	if n := broken.note("design(s) that pass the screening figures are not ranked"); n != "" {
+		res.Notes = append(res.Notes, n)
 	}
 	return min(rejected, maxNearMisses)
 }

@@ -276,17 +276,24 @@ func (s *space) evalMatched(a *amp, m *metrics) {
 }
 
 // pass reports whether metrics m meet every limit.
+// Every maximum bounds a magnitude: a figure that came out negative (a
+// resistance driven through zero by an absurd tempco) must not pass, and
+// NaN passes nothing.
 func (s *space) pass(m *metrics) bool {
 	l := &s.p.Limits
-	return (l.GainError == 0 || m.gainErr <= l.GainError) &&
-		(l.TotalGainError == 0 || m.totalErr <= l.TotalGainError) &&
-		(l.DriftPPM == 0 || m.drift <= l.DriftPPM) &&
+	return withinMax(m.gainErr, l.GainError) &&
+		withinMax(m.totalErr, l.TotalGainError) &&
+		withinMax(m.drift, l.DriftPPM) &&
 		(l.CMRRdB == 0 || m.cmrrDB >= l.CMRRdB) &&
-		(l.OffsetV == 0 || m.offset <= l.OffsetV) &&
-		(l.OffsetDriftVK == 0 || m.offDrift <= l.OffsetDriftVK) &&
-		(l.NoiseDensity == 0 || m.noise <= l.NoiseDensity) &&
-		(l.NoiseRMS == 0 || m.noiseRMS <= l.NoiseRMS)
+		withinMax(m.offset, l.OffsetV) &&
+		withinMax(m.offDrift, l.OffsetDriftVK) &&
+		withinMax(m.noise, l.NoiseDensity) &&
+		withinMax(m.noiseRMS, l.NoiseRMS)
 }
+
+// withinMax reports whether |v| meets maximum lim (0: no limit; a NaN v
+// meets none).
+func withinMax(v, lim float64) bool { return lim == 0 || math.Abs(v) <= lim }
 
 // boundSafety shrinks a lower bound by a few parts in 10^12 so that
 // rounding in the bound's arithmetic never prunes a design that passes.

@@ -2,6 +2,7 @@ package search
 
 import (
 	"fmt"
+	"slices"
 	"strings"
 )
 
@@ -19,11 +20,15 @@ type nearCheck struct {
 	// pessimistic counts near misses the screening failed and the exact
 	// budget passes; they are not listed.
 	pessimistic int
+	// broken counts near misses the exact budget could not evaluate; they
+	// are not listed either.
+	broken unchecked
 }
 
 // confirm evaluates near miss nm with the exact budget and adopts its
 // figures and failures. It returns false when the budget passes the design
-// (the screening was pessimistic for it: it is no near miss). Once
+// (the screening was pessimistic for it: it is no near miss) or cannot
+// evaluate it (its screening figures would be all there is to show). Once
 // maxNearEvals evaluations have run, or without a spec, nm keeps its
 // screening figures and a reason says so.
 func (c *nearCheck) confirm(nm *NearMiss) bool {
@@ -37,8 +42,8 @@ func (c *nearCheck) confirm(nm *NearMiss) bool {
 	c.evals++
 	br, fails, err := c.verify(nm.sd)
 	if err != nil {
-		nm.Reasons = append(nm.Reasons, "screening figures: the exact budget could not be run: "+err.Error())
-		return true
+		c.broken.add(err)
+		return false
 	}
 	if len(fails) == 0 {
 		c.pessimistic++
@@ -65,7 +70,10 @@ func (c *nearCheck) checkFix(nm *NearMiss) {
 	_, fails, err := c.verify(nm.fixSD)
 	switch {
 	case err != nil:
-		nm.Reasons = append(nm.Reasons, "the fix passes the screening figures; the exact budget could not be run on it: "+err.Error())
+		// A fix the exact budget cannot evaluate is no fix.
+		nm.Reasons = slices.DeleteFunc(nm.Reasons, func(r string) bool { return strings.HasPrefix(r, fixReason) })
+		nm.Reasons = append(nm.Reasons, fmt.Sprintf("the cheapest single change the screening found (%s) could not be checked by the exact budget: %v", nm.Fix.Change, err))
+		nm.Fix, nm.fixSD = nil, nil
 	case len(fails) > 0:
 		var names []string
 		for _, f := range fails {
@@ -75,13 +83,17 @@ func (c *nearCheck) checkFix(nm *NearMiss) {
 	}
 }
 
-// note says how many near-miss candidates the screening failed and the budget
-// passes ("" when none).
-func (c *nearCheck) note() string {
-	if c.pessimistic == 0 {
-		return ""
+// notes say how many near-miss candidates the screening failed and the
+// budget passes, and how many the budget could not evaluate (none: no note).
+func (c *nearCheck) notes() []string {
+	var out []string
+	if c.pessimistic > 0 {
+		out = append(out, fmt.Sprintf("%d near-miss candidate(s) fail the screening figures but pass the exact budget (the screening is pessimistic for them); they are not listed as near misses", c.pessimistic))
 	}
-	return fmt.Sprintf("%d near-miss candidate(s) fail the screening figures but pass the exact budget (the screening is pessimistic for them); they are not listed as near misses", c.pessimistic)
+	if n := c.broken.note("near-miss candidate(s) are not listed"); n != "" {
+		out = append(out, n)
+	}
+	return out
 }
 
 // failText joins the failures' texts.

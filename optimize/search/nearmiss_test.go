@@ -3,6 +3,7 @@ package search
 import (
 	"context"
 	"errors"
+	"fmt"
 	"path/filepath"
 	"regexp"
 	"strconv"
@@ -139,7 +140,11 @@ func slicesContainsPrefix(ss []string, prefix string) bool {
 func TestNearCheck(t *testing.T) {
 	pass := &spec.Design{Name: "pass"}
 	fail := &spec.Design{Name: "fail"}
+	broken := &spec.Design{Name: "broken"}
 	verify := func(sd *spec.Design) (*budget.Result, []Failure, error) {
+		if sd == broken {
+			return nil, nil, fmt.Errorf("%w: R1 reaches zero", budget.ErrCandidate)
+		}
 		br := &budget.Result{Pass: sd == pass, Binding: "gain error"}
 		if sd == pass {
 			return br, nil, nil
@@ -155,6 +160,10 @@ func TestNearCheck(t *testing.T) {
 		{"budget passes the candidate", pass, nil, false, false},
 		{"budget fails it, fix passes", fail, pass, true, false},
 		{"budget fails it and its fix", fail, fail, true, true},
+		// One verdict per design: a near miss or fix the exact budget
+		// cannot evaluate is not shown with its screening figures.
+		{"budget cannot run the candidate", broken, nil, false, false},
+		{"budget cannot run the fix", fail, broken, true, false},
 	}
 	for _, tc := range tests {
 		c := nearCheck{verify: verify}
@@ -167,10 +176,16 @@ func TestNearCheck(t *testing.T) {
 			continue
 		}
 		if !tc.listed {
-			if c.pessimistic != 1 || c.note() == "" {
-				t.Errorf("%s: pessimistic %d, note %q", tc.name, c.pessimistic, c.note())
+			if c.pessimistic+c.broken.n != 1 || len(c.notes()) != 1 {
+				t.Errorf("%s: pessimistic %d, broken %d, notes %q", tc.name, c.pessimistic, c.broken.n, c.notes())
+			}
+			if tc.sd == broken && !strings.Contains(c.notes()[0], "R1 reaches zero") {
+				t.Errorf("%s: the note does not quote the budget: %q", tc.name, c.notes())
 			}
 			continue
+		}
+		if tc.fix == broken && (nm.Fix != nil || !slicesContainsPrefix(nm.Reasons, "the cheapest single change the screening found (amplifier X instead of Y) could not be checked")) {
+			t.Errorf("%s: fix %+v kept, reasons %q", tc.name, nm.Fix, nm.Reasons)
 		}
 		if len(nm.Fails) != 1 || !strings.Contains(nm.Reasons[0], "exact budget fails 1 limit") {
 			t.Errorf("%s: fails %+v reasons %q", tc.name, nm.Fails, nm.Reasons)

@@ -205,25 +205,27 @@ func (s *space) limitSet(m *metrics) []Limit {
 	var out []Limit
 	max := func(name string, v, lim float64, unit string) {
 		if lim > 0 {
-			mg := math.Inf(1)
-			if v > 0 {
-				mg = lim / v
+			mg := budget.MaxMargin
+			if v != 0 {
+				mg = math.Min(lim/math.Abs(v), budget.MaxMargin)
 			}
-			out = append(out, Limit{Name: name, Value: v, Limit: lim, Margin: mg, Pass: v <= lim, Unit: unit})
+			out = append(out, Limit{Name: name, Value: v, Limit: lim, Margin: mg, Pass: withinMax(v, lim), Unit: unit})
 		}
 	}
 	max(limGain, m.totalErr, l.TotalGainError, "")
 	max(limGainInitial, m.gainErr, l.GainError, "")
 	if l.CMRRdB > 0 {
-		out = append(out, Limit{Name: limCMRR, Value: m.cmrrDB, Limit: l.CMRRdB, Margin: math.Pow(10, (m.cmrrDB-l.CMRRdB)/20), Pass: m.cmrrDB >= l.CMRRdB, Unit: "dB"})
+		out = append(out, Limit{Name: limCMRR, Value: m.cmrrDB, Limit: l.CMRRdB, Margin: math.Min(math.Pow(10, (m.cmrrDB-l.CMRRdB)/20), budget.MaxMargin), Pass: m.cmrrDB >= l.CMRRdB, Unit: "dB"})
 	}
 	max(limDrift, m.drift, l.DriftPPM, "ppm/K")
 	max(limOffset, m.offset, l.OffsetV, "V")
 	max(limOffDrift, m.offDrift, l.OffsetDriftVK, "V/K")
 	max(limNoise, m.noise, l.NoiseDensity, "V/rtHz")
 	max(limNoiseRMS, m.noiseRMS, l.NoiseRMS, "V")
-	if s.p.BandwidthHz > 0 {
-		out = append(out, Limit{Name: limBandwidth, Value: m.bw, Limit: s.p.BandwidthHz, Margin: m.bw / s.p.BandwidthHz, Pass: m.bw >= s.p.BandwidthHz, Unit: "Hz"})
+	// An unbounded bandwidth (a divider: no amplifier sets it) is not
+	// checked here, as the budget leaves it unchecked.
+	if s.p.BandwidthHz > 0 && !math.IsInf(m.bw, 1) {
+		out = append(out, Limit{Name: limBandwidth, Value: m.bw, Limit: s.p.BandwidthHz, Margin: math.Min(m.bw/s.p.BandwidthHz, budget.MaxMargin), Pass: m.bw >= s.p.BandwidthHz, Unit: "Hz"})
 	}
 	return out
 }
@@ -238,9 +240,15 @@ func binding(ls []Limit) (Limit, bool) {
 	return best, ok
 }
 
+// toMetrics is the screening figures in the result contract; an unbounded
+// bandwidth (no amplifier sets it) is written as 0, unknown.
 func toMetrics(m *metrics) Metrics {
+	bw := m.bw
+	if math.IsInf(bw, 1) {
+		bw = 0
+	}
 	return Metrics{Gain: m.gain, GainError: m.totalErr, GainErrorInitial: m.gainErr, CMRRdB: m.cmrrDB,
-		DriftPPMPerK: m.drift, OutputOffsetV: m.offset, OffsetDriftVPerK: m.offDrift, NoiseDensity: m.noise, NoiseRMSV: m.noiseRMS, BandwidthHz: m.bw}
+		DriftPPMPerK: m.drift, OutputOffsetV: m.offset, OffsetDriftVPerK: m.offDrift, NoiseDensity: m.noise, NoiseRMSV: m.noiseRMS, BandwidthHz: bw}
 }
 
 // famName is the spec family a search family builds.

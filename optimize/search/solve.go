@@ -177,6 +177,7 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 		res.Notes = append(res.Notes, "the search screens Monte Carlo specs with root-sum-square figures; run the budget of a design for its yield")
 	}
 	var rejected []NearMiss
+	var broken unchecked
 	limit := math.Inf(1)
 	folded := map[string]int{} // grade key -> index in res.Designs
 	for i := range top {
@@ -192,15 +193,16 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 			above.Reasons = append(above.Reasons, fmt.Sprintf("the same grades from other price lists (%s) cost %.4g more per stage", partList(&d), d.UnitCost-above.UnitCost))
 			continue
 		}
-		var unverified error
 		if verify != nil {
 			br, fails, err := verify(sd)
 			if err != nil {
-				unverified = err
-			} else {
-				adopt(&d, br)
+				// One verdict per design: what the exact budget cannot
+				// evaluate is not ranked.
+				broken.add(err)
+				continue
 			}
-			if err == nil && len(fails) > 0 {
+			adopt(&d, br)
+			if len(fails) > 0 {
 				nm := NearMiss{Design: d, Fails: fails, sd: sd}
 				nm.Reasons = []string{"passes the search's screening figures, but the exact budget fails it: " + failText(fails)}
 				rejected = append(rejected, nm)
@@ -213,9 +215,6 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 		d.Rank = len(res.Designs) + 1
 		d.ValueVariants = sp.variants(&top[i])
 		d.Reasons = sp.reasons(&top[i], &d, res.Designs)
-		if unverified != nil {
-			d.Reasons = append(d.Reasons, "not confirmed by the exact budget: "+unverified.Error())
-		}
 		folded[gradeKey(&d)] = len(res.Designs)
 		res.Designs = append(res.Designs, d)
 		res.designs = append(res.designs, sd)
@@ -223,6 +222,9 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 	if len(rejected) > 0 {
 		res.Notes = append(res.Notes, fmt.Sprintf("%d design(s) that pass the screening figures fail the exact budget; they are listed first among the near misses", len(rejected)))
 		res.NearMisses = append(res.NearMisses, rejected[:min(len(rejected), maxNearMisses)]...)
+	}
+	if n := broken.note("design(s) that pass the screening figures are not ranked"); n != "" {
+		res.Notes = append(res.Notes, n)
 	}
 	// At most one near miss per resistor configuration, so they show
 	// different grades rather than one grade with several amplifiers; at
@@ -260,13 +262,16 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 			res.NearMisses = append(res.NearMisses, nm)
 		}
 	}
-	if n := check.note(); n != "" {
-		res.Notes = append(res.Notes, n)
+	res.Notes = append(res.Notes, check.notes()...)
+	if err := res.checkFinite(); err != nil {
+		return nil, err
 	}
 	if len(res.Designs) == 0 {
 		res.Infeasible = sp.infeasible()
 		if len(rejected) > 0 {
 			res.Infeasible.Message += "; the designs that pass the screening figures all fail the exact budget (see the near misses)"
+		} else if broken.n > 0 {
+			res.Infeasible.Message += "; the exact budget could not be run on the designs that pass the screening figures (see the notes)"
 		}
 		return res, ErrInfeasible
 	}
@@ -581,12 +586,15 @@ func (s *space) nearMiss(f *classBest) (NearMiss, error) {
 			part = partAt(bd.Parts, at)
 		}
 		nm.Fix = &Fix{Kind: kind, Change: change, Part: part, TotalCost: bd.TotalCost, ExtraCost: bd.UnitCost - d.UnitCost}
-		nm.Reasons = append(nm.Reasons, fmt.Sprintf("cheapest single change that passes: %s (%.4g more per stage)", change, nm.Fix.ExtraCost))
+		nm.Reasons = append(nm.Reasons, fmt.Sprintf("%s: %s (%.4g more per stage)", fixReason, change, nm.Fix.ExtraCost))
 	} else {
 		nm.Reasons = append(nm.Reasons, "no single change of grade, part or amplifier makes it pass")
 	}
 	return nm, nil
 }
+
+// fixReason starts the reason line that names a near miss's fix.
+const fixReason = "cheapest single change that passes"
 
 // fixCand is one single change to a failing class.
 type fixCand struct {

@@ -1,0 +1,72 @@
+package search
+
+import (
+	"fmt"
+	"slices"
+	"strings"
+
+	"plumb/optimize/budget"
+)
+
+// maxUncheckedTexts is how many distinct budget errors a note quotes.
+const maxUncheckedTexts = 2
+
+// unchecked counts the designs the exact budget could not evaluate (a part
+// figure the model refuses, a figure that is not finite). A design is
+// ranked, listed, exported or reported only when the exact budget passed
+// it with finite figures, so these are dropped, and a note counts them and
+// quotes the budget's messages.
+type unchecked struct {
+	n     int
+	texts []string
+}
+
+func (u *unchecked) add(err error) {
+	u.n++
+	if t := err.Error(); len(u.texts) < maxUncheckedTexts && !slices.Contains(u.texts, t) {
+		u.texts = append(u.texts, t)
+	}
+}
+
+// note says how many designs were dropped and why, after what (which
+// designs, and what happened to them); "" when none was.
+func (u *unchecked) note(what string) string {
+	if u.n == 0 {
+		return ""
+	}
+	txt := fmt.Sprintf("%d %s: the exact budget could not be run on them: %s", u.n, what, strings.Join(u.texts, "; "))
+	if u.n > len(u.texts) {
+		txt += " (and the like)"
+	}
+	return txt
+}
+
+// checkFinite is the last check of a result before it is returned: no
+// figure of a ranked design may be infinite or NaN (an error naming it),
+// and a near miss with such a figure is dropped with a note.
+func (r *Result) checkFinite() error {
+	for i := range r.Designs {
+		if err := budget.CheckFinite(fmt.Sprintf("design %d (%s)", r.Designs[i].Rank, r.Designs[i].Family), &r.Designs[i]); err != nil {
+			return fmt.Errorf("search: %w", err)
+		}
+	}
+	var broken unchecked
+	kept := r.NearMisses[:0]
+	for i := range r.NearMisses {
+		if err := budget.CheckFinite("near miss "+r.NearMisses[i].Family, &r.NearMisses[i]); err != nil {
+			broken.add(err)
+			continue
+		}
+		kept = append(kept, r.NearMisses[i])
+	}
+	r.NearMisses = kept
+	if n := broken.note("near miss(es) are not listed"); n != "" {
+		r.Notes = append(r.Notes, n)
+	}
+	if r.Infeasible != nil {
+		if err := budget.CheckFinite("the infeasibility report", r.Infeasible); err != nil {
+			return fmt.Errorf("search: %w", err)
+		}
+	}
+	return nil
+}
