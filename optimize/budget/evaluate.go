@@ -112,6 +112,14 @@ func (e *Evaluator) Evaluate(c *Candidate) (*Result, error) {
 	if err := e.fillMetrics(&w, &pn[0], &res.Metrics); err != nil {
 		return nil, err
 	}
+	if s.Analysis.Method == spec.WorstCase && s.Limits.InputImpedance > 0 {
+		// Worst case is worst case for every limit, the input impedance too.
+		z, err := e.worstInputImpedance(res.Metrics.InputImpedanceOhm)
+		if err != nil {
+			return nil, err
+		}
+		res.Metrics.InputImpedanceOhm = z
+	}
 	var sc Score
 	sc.Binding = -1
 	e.judge(&res.Metrics, &sc)

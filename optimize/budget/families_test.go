@@ -259,8 +259,45 @@ func TestInputImpedanceWithoutSource(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if z := res.Metrics.InputImpedanceOhm; math.Abs(z-10e3) > 1e-3 {
-			t.Errorf("source %q: input impedance %.9g ohm, want Rg = 10k", src, z)
+		// Worst case takes Rg at the low end of its 0.1 % tolerance.
+		if z := res.Metrics.InputImpedanceOhm; math.Abs(z-10e3*(1-0.001)) > 1e-3 {
+			t.Errorf("source %q: input impedance %.9g ohm, want Rg(1 - 0.1 %%) = 9.99k", src, z)
+		}
+	}
+}
+
+// TestInputImpedanceWorstCorner: under worst case the input impedance is
+// taken at its worst corner, not at nominal values: an inverting stage's
+// Rg at the low end of its tolerance and at the temperature end where its
+// tempco lowers it most, Rg(1 - t)(1 - α·ΔT) (the driving-point resistance
+// of a virtual-ground input, Franco ch. 1, from memory). Under RSS it stays
+// the nominal value.
+func TestInputImpedanceWorstCorner(t *testing.T) {
+	for _, tc := range []struct {
+		method string
+		want   float64
+	}{
+		{"worst-case", 5230 * (1 - 0.01) * (1 - 100e-6*65)}, // Tref 25 C, range -40..85 C: ΔT = 65 K at -40 C
+		{"rss", 5230},
+	} {
+		s := mustSpec(t, "name: t\nabout: inverting input impedance\nfamily: inverting\ngain: -10\ninput: {single_ended: ±1V}\nsupply: ±15V\n"+
+			"temperature: {range: -40..85C}\nlimits: {input_impedance: 5.2k}\nanalysis: {method: "+tc.method+"}\n")
+		d := mustDesign(t, "family: inverting\npositions:\n  Rf: {value: 52.3k, tolerance: 1%, tcr: 100ppm/K}\n  Rg: {value: 5.23k, tolerance: 1%, tcr: 100ppm/K}\n"+idealAmp)
+		res, err := Evaluate(s, d)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if z := res.Metrics.InputImpedanceOhm; math.Abs(z-tc.want) > 1e-6*tc.want {
+			t.Errorf("%s: input impedance %.9g ohm, want %.9g", tc.method, z, tc.want)
+		}
+		var pass bool
+		for _, l := range res.Limits {
+			if l.Name == LimitInputImpedance {
+				pass = l.Pass
+			}
+		}
+		if want := tc.want >= 5.2e3; pass != want {
+			t.Errorf("%s: input impedance limit pass = %v, want %v", tc.method, pass, want)
 		}
 	}
 }

@@ -357,3 +357,63 @@ func (e *Evaluator) headWhere() string {
 	name := e.ampName(e.headAmp)
 	return name + [...]string{" + input", " - input", " output", " input", " internal input"}[e.headPin]
 }
+
+// worstInputImpedance is the input impedance at its worst corner: at each
+// temperature point (tpoints, load life included), the sign of each resistor
+// parameter (tolerance, tempco, load life) that lowers V/I is found by
+// moving that parameter alone to ±1, and the impedance is solved at the
+// corner of those signs (the sensitivity-guided vertex of the tolerance box;
+// exact when the impedance is monotonic in each value, as a driving-point
+// resistance of a resistive network is, Rayleigh's monotonicity law). The
+// lowest of these, and of the nominal value, is returned. It leaves the
+// netlist factored at nominal values.
+func (e *Evaluator) worstInputImpedance(nominal float64) (float64, error) {
+	if e.matched || e.sigSrc < 0 {
+		return nominal, nil
+	}
+	x := make([]float64, len(e.params))
+	corner := make([]float64, len(e.params))
+	var buf [4]tpoint
+	worst := nominal
+	at := func(x []float64, tp tpoint) (float64, error) {
+		if _, err := e.factorAt(x, tp.t, tp.life); err != nil {
+			return 0, err
+		}
+		return e.inputImpedance(), nil
+	}
+	for _, tp := range e.tpoints(&buf) {
+		clear(corner)
+		for j := range e.params {
+			switch e.params[j].kind {
+			case pDev, pTC, pLife:
+			default:
+				continue
+			}
+			clear(x)
+			x[j] = 1
+			up, err := at(x, tp)
+			if err != nil {
+				return 0, err
+			}
+			x[j] = -1
+			down, err := at(x, tp)
+			if err != nil {
+				return 0, err
+			}
+			corner[j] = 1
+			if down < up {
+				corner[j] = -1
+			}
+		}
+		z, err := at(corner, tp)
+		if err != nil {
+			return 0, err
+		}
+		worst = math.Min(worst, z)
+	}
+	clear(x)
+	if _, err := e.factorAt(x, e.s.TempRef, false); err != nil {
+		return 0, err
+	}
+	return worst, nil
+}

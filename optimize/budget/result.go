@@ -83,7 +83,9 @@ type Metrics struct {
 	// NoiseRMSV is NoiseDensity over the brick-wall equivalent bandwidth
 	// (π/2 x f-3dB for a single pole).
 	NoiseRMSV float64 `json:"noise_rms_v"`
-	// InputImpedanceOhm is the lowest input resistance seen by the source.
+	// InputImpedanceOhm is the lowest input resistance seen by the source:
+	// under worst case at the worst corner of tolerances, tempcos and load
+	// life, otherwise at nominal values.
 	InputImpedanceOhm float64 `json:"input_impedance_ohm"`
 	// HeadroomV is the least margin of any op-amp pin or output to its
 	// range over the input and common-mode corners (negative: out of range).

@@ -15,12 +15,17 @@ type classBest struct {
 	cost     float64
 	m        metrics
 	pass     bool
+	key      tieKey // orders equal costs: margin first, then stress
 }
 
-// less orders designs by cost, then by class id.
+// less orders designs by cost, then among equal costs by the larger worst
+// margin and the lower resistor stress (tieKey), then by class id.
 func (a *classBest) less(b *classBest) bool {
 	if a.cost != b.cost {
 		return a.cost < b.cost
+	}
+	if a.key != b.key {
+		return a.key.better(b.key)
 	}
 	return a.id < b.id
 }
@@ -33,18 +38,29 @@ func (s *space) classID(cfg, amp int) uint64 {
 }
 
 // evalClass finds the cheapest passing option of configuration ci with
-// op-amp ai. Options are sorted by cost, so the first that passes is it.
+// op-amp ai. Options are sorted by cost, so the first that passes is the
+// cheapest; the passing options of that same cost are then compared by
+// their tie key (the worst margin first, then resistor stress).
 func (s *space) evalClass(ci, ai int) (classBest, bool) {
 	c := &s.cfgs[ci]
 	a := &s.amps[ai]
 	var m metrics
-	for i, o := range s.options(c) {
-		s.evalOpt(c, &o, a, &m)
-		if s.pass(&m) {
-			return classBest{id: s.classID(ci, ai), cfg: ci, amp: ai, opt: i, cost: o.cost + a.cost, m: m, pass: true}, true
+	best := classBest{opt: -1}
+	opts := s.options(c)
+	for i := range opts {
+		o := &opts[i]
+		if best.opt >= 0 && o.cost != opts[best.opt].cost {
+			break
+		}
+		s.evalOpt(c, o, a, &m)
+		if !s.pass(&m) {
+			continue
+		}
+		if k := s.tie(c, o, &m); best.opt < 0 || k.better(best.key) {
+			best = classBest{id: s.classID(ci, ai), cfg: ci, amp: ai, opt: i, cost: o.cost + a.cost, m: m, pass: true, key: k}
 		}
 	}
-	return classBest{}, false
+	return best, best.opt >= 0
 }
 
 // cheapestClass returns the cheapest option of a class whether it passes
@@ -59,6 +75,7 @@ func (s *space) cheapestClass(ci, ai int) (classBest, bool) {
 	b := classBest{id: s.classID(ci, ai), cfg: ci, amp: ai, opt: 0, cost: opts[0].cost + a.cost}
 	s.evalOpt(c, &opts[0], a, &b.m)
 	b.pass = s.pass(&b.m)
+	b.key = s.tie(c, &opts[0], &b.m)
 	return b, true
 }
 
@@ -67,6 +84,7 @@ func (s *space) evalMatchedClass(mi int) classBest {
 	b := classBest{id: s.classID(-1, mi), cfg: -1, amp: mi, opt: -1, cost: a.cost}
 	s.evalMatched(a, &b.m)
 	b.pass = s.pass(&b.m)
+	b.key = s.tie(nil, nil, &b.m)
 	return b
 }
 
@@ -130,14 +148,19 @@ func (s *space) exhaustive(ctx context.Context, n int) ([]classBest, error) {
 		for ai := range s.amps {
 			a := &s.amps[ai]
 			best := -1
+			var bestKey tieKey
 			for i := range opts {
 				s.evalOpt(c, &opts[i], a, &m)
-				if s.pass(&m) && (best < 0 || opts[i].cost < opts[best].cost) {
-					best = i
+				if !s.pass(&m) {
+					continue
+				}
+				k := s.tie(c, &opts[i], &m)
+				if best < 0 || opts[i].cost < opts[best].cost || (opts[i].cost == opts[best].cost && k.better(bestKey)) {
+					best, bestKey = i, k
 				}
 			}
 			if best >= 0 {
-				b := classBest{id: s.classID(ci, ai), cfg: ci, amp: ai, opt: best, cost: opts[best].cost + a.cost, pass: true}
+				b := classBest{id: s.classID(ci, ai), cfg: ci, amp: ai, opt: best, cost: opts[best].cost + a.cost, pass: true, key: bestKey}
 				s.evalOpt(c, &opts[best], a, &b.m)
 				t.add(b)
 			}

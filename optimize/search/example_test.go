@@ -34,9 +34,9 @@ func ExampleSolveProblem() {
 	}
 	// Output:
 	// difference-discrete 0.60 EUR per stage, binding gain drift
-	// R1 TF-1K00
-	// R2 TF-2K00
-	// R3 TF-1K00
-	// R4 TF-2K00
+	// R1 TF-18K0
+	// R2 TF-36K0
+	// R3 TF-18K0
+	// R4 TF-36K0
 	// U1 OPX
 }

@@ -137,9 +137,9 @@ type Problem struct {
 	SourceOhm float64
 	// LoadOhm loads a divider's output (0: none), ohm.
 	LoadOhm float64
-	// RMinOhm and RMaxOhm bound every resistor value (default 100 Ω to
-	// 1 MΩ: below, dissipation and loading; above, bias-current error and
-	// noise).
+	// RMinOhm and RMaxOhm bound every resistor value (default 1 kΩ to
+	// 1 MΩ, as the spec layout documents: below, dissipation and loading;
+	// above, bias-current error and noise).
 	RMinOhm, RMaxOhm float64
 	// Derating is the usable fraction of a resistor's rated power (default
 	// 0.5, common practice for film resistors).
@@ -166,7 +166,7 @@ type Problem struct {
 
 // Defaults for a zero Problem field.
 const (
-	defaultRMin     = 100.0
+	defaultRMin     = 1e3
 	defaultRMax     = 1e6
 	defaultDerating = 0.5
 	// quantWindow is the largest ratio quantization |k/k0 - 1| a value pair
