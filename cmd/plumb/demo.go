@@ -67,11 +67,11 @@ func runDemo(cmd *cobra.Command, opts *demoOptions) error {
 		return fmt.Errorf("opening the embedded demo catalog: %w", err)
 	}
 	defer st.Close()
-	snap, err := st.Snapshot(ctx)
+	stats, err := st.Stats(ctx)
 	if err != nil {
 		return fmt.Errorf("reading the embedded demo catalog: %w", err)
 	}
-	res, err := solveSpec(cmd, opts.IO, opts.Quiet, opts.Now, snap, sp, search.Options{Top: demoTop})
+	res, err := solveSpec(cmd, opts.IO, opts.Quiet, opts.Now, st, sp, search.Options{Top: demoTop})
 	if res == nil {
 		return err
 	}
@@ -84,7 +84,7 @@ func runDemo(cmd *cobra.Command, opts *demoOptions) error {
 		err = writeCSV(opts.IO.Out, solveCSVHeader, solveCSVRows(res))
 	default:
 		fmt.Fprintf(opts.IO.Out, "plumb demo: the example spec %s solved on the embedded demo catalog (%d series, %d resistors, %d networks, %d amplifiers; invented parts)\n\n",
-			demoSpec, len(snap.ResistorSeries), len(snap.Resistors), len(snap.Networks), len(snap.Amplifiers))
+			demoSpec, stats.Series, stats.Resistors, stats.Networks, stats.Amplifiers)
 		err = writeSolveTable(opts.IO.Out, opts.IO, solveTitle(sp), res, 0)
 		if err == nil && !infeasible {
 			fmt.Fprintf(opts.IO.Out, "\nnext: `plumb solve %s --explain 1` for the limits of design 1, `plumb solve %s --bom bom.csv` for its purchasing list\n", demoSpec, demoSpec)

@@ -97,12 +97,8 @@ func runSolve(cmd *cobra.Command, opts *solveOptions) error {
 		return err
 	}
 	defer st.Close()
-	snap, err := st.Snapshot(ctx)
-	if err != nil {
-		return fmt.Errorf("reading the catalog: %w", err)
-	}
 	start := opts.Now()
-	res, err := solveSpec(cmd, opts.IO, opts.Quiet, opts.Now, snap, sp, search.Options{Top: opts.Top, Combos: opts.Combos})
+	res, err := solveSpec(cmd, opts.IO, opts.Quiet, opts.Now, st, sp, search.Options{Top: opts.Top, Combos: opts.Combos})
 	if res == nil {
 		return err
 	}
@@ -158,11 +154,12 @@ func runSolve(cmd *cobra.Command, opts *solveOptions) error {
 	return nil
 }
 
-// solveSpec runs the search with a progress bar on a terminal.
-func solveSpec(cmd *cobra.Command, ios *IOStreams, quiet bool, now func() time.Time, snap *catalog.Snapshot, sp *spec.Spec, o search.Options) (*search.Result, error) {
+// solveSpec runs the search on catalog st with a progress bar on a
+// terminal; the search reads only the rows the spec can use.
+func solveSpec(cmd *cobra.Command, ios *IOStreams, quiet bool, now func() time.Time, st *catalog.Store, sp *spec.Spec, o search.Options) (*search.Result, error) {
 	pr := newProgress(ios, quiet, now)
 	o.Progress = pr.update
-	res, err := search.Solve(cmd.Context(), snap, sp, o)
+	res, err := search.SolveCatalog(cmd.Context(), st, sp, o)
 	pr.finish()
 	if err != nil && !errors.Is(err, search.ErrInfeasible) {
 		return nil, fmt.Errorf("solving %s: %w", specName(sp), err)

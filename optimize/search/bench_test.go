@@ -33,7 +33,7 @@ func bigParts() (*Parts, int) {
 	p.normalize()
 	seriesRows := 0
 	for i := range ps.Series {
-		s, _ := newSpace(&Parts{Series: ps.Series[i : i+1]}, &Problem{Circuit: Difference, Gain: 1, SupplyPos: 1, RMinOhm: 1e-3, RMaxOhm: 1e12, Method: WorstCase, Build: cost.Build{Quantity: 1}}, false)
+		s, _ := newSpace(context.Background(), &Parts{Series: ps.Series[i : i+1]}, &Problem{Circuit: Difference, Gain: 1, SupplyPos: 1, RMinOhm: 1e-3, RMaxOhm: 1e12, Method: WorstCase, Build: cost.Build{Quantity: 1}}, false)
 		for _, g := range s.groups {
 			seriesRows += len(g.values)
 		}
@@ -89,7 +89,7 @@ func BenchmarkExhaustiveVsSearch(b *testing.B) {
 	if err := p.normalize(); err != nil {
 		b.Fatal(err)
 	}
-	s, err := newSpace(ps, &p, false)
+	s, err := newSpace(context.Background(), ps, &p, false)
 	if err != nil {
 		b.Fatal(err)
 	}

@@ -1,6 +1,7 @@
 package search
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"sort"
@@ -55,11 +56,12 @@ type option struct {
 	k0, rp      float64
 	rg, rf, rf2 int32 // value indexes in the groups; rf2 = -1 without a combination
 	par         bool  // rf and rf2 in parallel (else in series)
+	far         bool  // rf is not one of the two values either side of the target
 	cost        float64
 	short       bool
 }
 
-func newSpace(parts *Parts, p *Problem, combos bool) (*space, error) {
+func newSpace(ctx context.Context, parts *Parts, p *Problem, combos bool) (*space, error) {
 	s := &space{p: p, rss: p.Method != WorstCase, k: p.ratio(), w: p.window(), dT: p.deltaT(), tempK: p.TMax + 273.15, series: combos || p.SeriesPairs, parallel: combos || p.ParallelPairs, perG: 1, perF: 1}
 	switch p.Circuit {
 	case Difference:
@@ -78,7 +80,7 @@ func newSpace(parts *Parts, p *Problem, combos bool) (*space, error) {
 	var err error
 	disc := fams[DiscreteDifference] || fams[DiscreteNonInverting] || fams[DiscreteInverting] || fams[DiscreteDivider] || fams[DiscreteInAmp] || fams[NetworkInAmp] || fams[DiscreteLevelShift]
 	if disc {
-		if s.groups, err = buildGroups(parts, p); err != nil {
+		if s.groups, err = buildGroups(ctx, parts, p); err != nil {
 			return nil, err
 		}
 	}
@@ -121,6 +123,19 @@ func (s *space) checkCurrency(parts *Parts) error {
 		return nil
 	}
 	first, firstPart := "", ""
+	// The resistors agree among themselves (buildGroups checked); one
+	// picked part stands for them.
+	for _, g := range s.groups {
+		for i := range g.buy {
+			if pk := &g.buy[i]; pk.part != nil {
+				first, firstPart = currencyOf(&pk.part.offer), pk.part.part
+				break
+			}
+		}
+		if first != "" {
+			break
+		}
+	}
 	see := func(part string, o *catalog.Offer) error {
 		for _, b := range o.PriceBreaks {
 			if first == "" {
@@ -130,11 +145,6 @@ func (s *space) checkCurrency(parts *Parts) error {
 			}
 		}
 		return nil
-	}
-	for _, g := range s.groups {
-		if err := see(g.parts[0], &g.offer); err != nil {
-			return err
-		}
 	}
 	for _, lst := range [][]amp{s.amps, s.matched} {
 		for i := range lst {
@@ -255,7 +265,7 @@ func (s *space) discreteLB(ga, gb *group, same bool) float64 {
 func (g *group) extFrom(p int) float64 {
 	m := math.NaN()
 	for q := p; q <= maxPlace; q++ {
-		if e := g.ext[q]; !math.IsNaN(e) && (math.IsNaN(m) || e < m) {
+		if e := g.lb[q]; !math.IsNaN(e) && (math.IsNaN(m) || e < m) {
 			m = e
 		}
 	}
@@ -321,6 +331,9 @@ func (s *space) options(c *config) []option {
 			if c.opts[i].cost != c.opts[j].cost {
 				return c.opts[i].cost < c.opts[j].cost
 			}
+			if c.opts[i].far != c.opts[j].far {
+				return !c.opts[i].far
+			}
 			return off(&c.opts[i]) < off(&c.opts[j])
 		})
 		return c.opts
@@ -333,59 +346,132 @@ func (s *space) options(c *config) []option {
 		target := s.target(rg)
 		j := sort.SearchFloat64s(gb.values, target)
 		bestErr := math.Inf(1)
-		for _, jj := range [2]int{j - 1, j} {
-			if jj < 0 || jj >= len(gb.values) {
-				continue
-			}
+		// The two values either side of the target first, then every
+		// farther value inside the window: values are priced part by part,
+		// so a farther value can be the cheaper one.
+		try := func(jj int, far bool) bool {
 			rf := gb.values[jj]
 			e := s.quant(rg, rf)
 			bestErr = math.Min(bestErr, e)
-			if e > s.w || !s.zinOK(rg, rf) || !s.ratingOK(gb.grade.PowerW, gb.grade.MaxVoltageV, rf, s.vF) {
-				continue
+			if e > s.w {
+				return false
 			}
-			s.addOption(c, ga, gb, i, jj, -1, rg, rf)
+			if s.zinOK(rg, rf) && s.ratingOK(gb.grade.PowerW, gb.grade.MaxVoltageV, rf, s.vF) {
+				if n := len(c.opts); s.addOption(c, ga, gb, i, jj, -1, rg, rf) {
+					c.opts[n].far = far
+				}
+			}
+			return true
+		}
+		for _, jj := range [2]int{j - 1, j} {
+			if jj >= 0 && jj < len(gb.values) {
+				try(jj, false)
+			}
+		}
+		for jj := j - 2; jj >= 0 && try(jj, true); jj-- {
+		}
+		for jj := j + 1; jj < len(gb.values) && try(jj, true); jj++ {
 		}
 		if bestErr == 0 {
 			continue
 		}
 		if s.series && j > 0 {
-			// x the largest value below the target, y nearest the rest.
-			x := gb.values[j-1]
-			s.pairOptions(c, ga, gb, i, j-1, rg, target-x, bestErr, false)
+			// x the largest value below the target, and each smaller one
+			// down to half the target that is cheaper than every value
+			// between it and the target; y nearest the rest.
+			s.cheaper(gb, j-1, -1, func(x float64) bool { return x >= target/2 }, func(jx int) {
+				s.pairOptions(c, ga, gb, i, jx, rg, target-gb.values[jx], bestErr, false)
+			})
 		}
 		if s.parallel && j < len(gb.values) {
-			// x the smallest value above the target, y with x∥y = target.
-			x := gb.values[j]
-			s.pairOptions(c, ga, gb, i, j, rg, x*target/(x-target), bestErr, true)
+			// x the smallest value above the target (and each larger,
+			// cheaper one up to twice the target), y with x∥y = target.
+			s.cheaper(gb, j, 1, func(x float64) bool { return x <= 2*target }, func(jx int) {
+				x := gb.values[jx]
+				s.pairOptions(c, ga, gb, i, jx, rg, x*target/(x-target), bestErr, true)
+			})
 		}
 	}
-	sort.SliceStable(c.opts, func(i, j int) bool { return c.opts[i].cost < c.opts[j].cost })
+	sort.SliceStable(c.opts, func(i, j int) bool {
+		if c.opts[i].cost != c.opts[j].cost {
+			return c.opts[i].cost < c.opts[j].cost
+		}
+		return !c.opts[i].far && c.opts[j].far
+	})
 	return c.opts
+}
+
+// cheaper calls f with index from of group g and with each index beyond
+// it in direction dir (while in(value) holds) whose value is cheaper at the
+// feedback placements than every value passed: values are priced part by
+// part, so a value farther from the ideal can be the cheaper choice.
+func (s *space) cheaper(g *group, from, dir int, in func(float64) bool, f func(int)) {
+	best := math.Inf(1)
+	for j := from; j >= 0 && j < len(g.values) && in(g.values[j]); j += dir {
+		e := g.at(j, s.perF).ext
+		if j == from || e < best {
+			f(j)
+		}
+		if e < best {
+			best = e
+		}
+	}
 }
 
 // pairOptions adds the options with gb value x (index jx) and the gb
 // values just below and above want, in series or in parallel, when the pair
-// is nearer the target than the best single value.
+// is nearer the target than the best single value; farther values of y
+// are added where cheaper than every value nearer want.
 func (s *space) pairOptions(c *config, ga, gb *group, i, jx int, rg, want, bestErr float64, par bool) {
 	x := gb.values[jx]
 	m := sort.SearchFloat64s(gb.values, want)
-	for _, mm := range [2]int{m - 1, m} {
-		if mm < 0 || mm >= len(gb.values) {
-			continue
-		}
-		y := gb.values[mm]
-		rf, vx, vy := x+y, s.vF*x/(x+y), s.vF*y/(x+y)
+	pair := func(y float64) (rf, vx, vy float64) {
 		if par {
-			rf, vx, vy = x*y/(x+y), s.vF, s.vF
+			return x * y / (x + y), s.vF, s.vF
 		}
+		return x + y, s.vF * x / (x + y), s.vF * y / (x + y)
+	}
+	inside := func(mm int) bool {
+		rf, _, _ := pair(gb.values[mm])
 		e := s.quant(rg, rf)
-		if e >= bestErr || e > s.w || !s.zinOK(rg, rf) ||
-			!s.ratingOK(gb.grade.PowerW, gb.grade.MaxVoltageV, x, vx) ||
+		return e < bestErr && e <= s.w
+	}
+	try := func(mm int) bool {
+		y := gb.values[mm]
+		rf, vx, vy := pair(y)
+		if !inside(mm) {
+			return false
+		}
+		if !s.zinOK(rg, rf) || !s.ratingOK(gb.grade.PowerW, gb.grade.MaxVoltageV, x, vx) ||
 			!s.ratingOK(gb.grade.PowerW, gb.grade.MaxVoltageV, y, vy) {
-			continue
+			return true
 		}
 		if n := len(c.opts); s.addOption(c, ga, gb, i, jx, mm, rg, rf) && par {
 			c.opts[n].par = true
+		}
+		return true
+	}
+	for _, mm := range [2]int{m - 1, m} {
+		if mm >= 0 && mm < len(gb.values) {
+			try(mm)
+		}
+	}
+	for _, dir := range [2]int{-1, 1} {
+		start := m - 2
+		if dir > 0 {
+			start = m + 1
+		}
+		best := math.Inf(1)
+		for _, mm := range [2]int{m - 1, m} {
+			if mm >= 0 && mm < len(gb.values) {
+				best = math.Min(best, gb.at(mm, s.perF).ext)
+			}
+		}
+		for mm := start; mm >= 0 && mm < len(gb.values) && inside(mm); mm += dir {
+			if e := gb.at(mm, s.perF).ext; e < best {
+				best = e
+				try(mm)
+			}
 		}
 	}
 }
@@ -496,17 +582,17 @@ func (s *space) priceLines(o *option, in []line) bool {
 	place := 0
 	for k := 0; k < n; k++ {
 		ln := lines[k]
-		o.cost += ln.g.ext[ln.place]
-		place += ln.place
-		if st := ln.g.stock[ln.idx]; st >= 0 && st < ln.g.qty[ln.place] && s.p.Build.Stock != cost.StockIgnore {
-			if s.p.Build.Stock == cost.StockExclude {
-				return false
-			}
-			o.short = true
+		if ln.place > maxPlace {
+			return false
 		}
-	}
-	if math.IsNaN(o.cost) {
-		return false
+		pk := ln.g.at(ln.idx, ln.place)
+		if math.IsNaN(pk.ext) {
+			// No part of the value can be bought so (stock).
+			return false
+		}
+		o.cost += pk.ext
+		o.short = o.short || pk.short
+		place += ln.place
 	}
 	o.cost += s.assembly(place, n)
 	return true

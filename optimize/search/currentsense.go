@@ -9,7 +9,6 @@ import (
 	"strings"
 
 	"plumb/catalog"
-	"plumb/catalog/eseries"
 	"plumb/optimize/cost"
 	"plumb/optimize/spec"
 )
@@ -37,59 +36,47 @@ type shunt struct {
 
 // shuntCandidates lists the resistors that can be the shunt: inside the
 // shunt window, dissipating I²·Rs within the derated power, one part per
-// grade, price list and value (the one with most stock).
-func shuntCandidates(parts *Parts, p *Problem) []shunt {
+// grade and value (the cheapest at the build quantity, then the one with
+// most stock, then the lower part number), read from the catalog through
+// the same query as the search's resistors.
+func shuntCandidates(ctx context.Context, parts *Parts, p *Problem) ([]shunt, error) {
 	imax := math.Max(math.Abs(p.InMin), math.Abs(p.InMax))
 	type key struct {
-		grade string
+		grade groupKey
 		value float64
 	}
 	best := map[key]shunt{}
-	add := func(part string, v float64, g catalog.ResistorGrade, o catalog.Offer) {
-		if v < shuntMinOhm || v > shuntMaxOhm || g.Tolerance >= 0.5 {
-			return
-		}
+	add := func(r *catalog.ResistorRow) error {
+		v, g := r.ValueOhm, &r.Grade
 		pw := imax * imax * v
 		if g.PowerW > 0 && pw > p.Derating*g.PowerW*ratingSlack {
-			return
+			return nil
 		}
 		if gs := p.Gain / v; gs < minSenseGain || gs > maxSenseGain {
-			return
+			return nil
 		}
-		if p.Build.Currency != "" && !offerIn(&o, p.Build.Currency) {
-			return
-		}
-		ext, _, _, err := p.Build.LineCost(&o, 1)
+		ext, _, _, err := p.Build.LineCost(&r.Offer, 1)
 		if err != nil {
-			return
+			return nil
+		}
+		k := key{keyOf(g), v}
+		c := ext + float64(p.Build.Quantity)*p.Build.PerPlacement + p.Build.PerLineItem
+		if old, ok := best[k]; ok && (old.cost < c || (old.cost == c && (stockRank(old.offer.Stock) > stockRank(r.Offer.Stock) ||
+			(old.offer.Stock == r.Offer.Stock && old.part < r.Part)))) {
+			return nil
 		}
 		heat := pw * g.ThermalResistance
-		sh := shunt{part: part, value: v, grade: g, offer: o,
-			cost:  ext + float64(p.Build.Quantity)*p.Build.PerPlacement + p.Build.PerLineItem,
+		o := r.Offer
+		o.PriceBreaks = append([]catalog.PriceBreak(nil), o.PriceBreaks...)
+		best[k] = shunt{part: r.Part, value: v, grade: *g, offer: o, cost: c,
 			err:   (1+g.Tolerance)*(1+g.LoadLife)*(1+g.TCR*1e-6*(p.deltaT()+heat)) - 1,
 			errT0: g.Tolerance}
-		k := key{string(appendGradeKey(nil, &g, &o)), v}
-		if old, ok := best[k]; !ok || stockRank(o.Stock) > stockRank(old.offer.Stock) || (o.Stock == old.offer.Stock && part < old.part) {
-			best[k] = sh
-		}
+		return nil
 	}
-	for i := range parts.Resistors {
-		r := &parts.Resistors[i]
-		add(r.Part, r.ValueOhm, r.ResistorGrade, r.Offer)
-	}
-	for i := range parts.Series {
-		rs := &parts.Series[i]
-		es, err := eseries.ByName(rs.ESeries)
-		if err != nil {
-			continue
-		}
-		lo, hi := math.Max(rs.MinOhm, shuntMinOhm), math.Min(rs.MaxOhm, shuntMaxOhm)
-		if lo > hi {
-			continue
-		}
-		for _, v := range es.Values(lo, hi) {
-			add(rs.PartNumber(v), v, rs.ResistorGrade, rs.Offer)
-		}
+	q := catalog.ResistorQuery{MinOhm: shuntMinOhm, MaxOhm: shuntMaxOhm, BelowTolerance: 0.5, Currency: p.Build.Currency,
+		InStock: p.Build.Stock == cost.StockExclude}
+	if err := parts.resistorRows().EachResistor(ctx, q, add); err != nil {
+		return nil, err
 	}
 	out := make([]shunt, 0, len(best))
 	for _, sh := range best {
@@ -101,7 +88,7 @@ func shuntCandidates(parts *Parts, p *Problem) []shunt {
 		}
 		return out[i].part < out[j].part
 	})
-	return out
+	return out, nil
 }
 
 // senseProblem is the difference-amplifier problem behind shunt sh: gain
@@ -238,7 +225,10 @@ func solveCurrentSense(ctx context.Context, parts *Parts, p Problem, opt Options
 	var all []subDesign
 	var near []NearMiss
 	res := &Result{Method: string(p.Method), Designs: []Design{}, NearMisses: []NearMiss{}}
-	shunts := shuntCandidates(parts, &p)
+	shunts, err := shuntCandidates(ctx, parts, &p)
+	if err != nil {
+		return nil, err
+	}
 	for i := range shunts {
 		sh := &shunts[i]
 		q, ok := senseProblem(p, sh)

@@ -52,7 +52,7 @@ func TestInAmpBranchAndBoundMatchesExhaustive(t *testing.T) {
 		for _, k2 := range inampStage2Gains(parts, &p) {
 			q := p
 			q.k2 = k2
-			s, err := newSpace(parts, &q, combos)
+			s, err := newSpace(context.Background(), parts, &q, combos)
 			if err != nil {
 				t.Fatalf("seed %d: %v", seed, err)
 			}

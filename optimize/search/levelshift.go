@@ -372,9 +372,23 @@ func (s *space) levelShiftOptions(c *config) {
 	if inv {
 		g2, pw2, mv2 = gf, gf.grade.PowerW, gf.grade.MaxVoltageV
 	}
-	near := func(g *group, t float64) [2]int {
+	// near lists the values of g inside the window about t: the two
+	// either side of t first (far false), then the farther ones, since
+	// values are priced part by part and a farther one can be cheaper.
+	type cand struct {
+		j   int
+		far bool
+	}
+	near := func(g *group, t float64) []cand {
 		j := sort.SearchFloat64s(g.values, t)
-		return [2]int{j - 1, j}
+		out := []cand{{j - 1, false}, {j, false}}
+		lo, hi := sort.SearchFloat64s(g.values, t*(1-s.w)), sort.SearchFloat64s(g.values, t*(1+s.w))
+		for x := max(lo-1, 0); x <= min(hi, len(g.values)-1); x++ {
+			if x != j-1 && x != j {
+				out = append(out, cand{x, true})
+			}
+		}
+		return out
 	}
 	rfb := gf.values[c.fbv]
 	for i, r1 := range gi.values {
@@ -385,7 +399,8 @@ func (s *space) levelShiftOptions(c *config) {
 		if inv {
 			base = rfb
 		}
-		for _, j := range near(g2, q2*base) {
+		for _, cj := range near(g2, q2*base) {
+			j := cj.j
 			if j < 0 || j >= len(g2.values) || math.Abs(g2.values[j]/base/q2-1) > s.w || !s.ratingOK(pw2, mv2, g2.values[j], v2) {
 				continue
 			}
@@ -393,11 +408,12 @@ func (s *space) levelShiftOptions(c *config) {
 			if inv {
 				q3 = lsDivider(s.p.Gain / (lsNoiseGain + rfb/g2.values[j]))
 			}
-			for _, k := range near(gi, q3*r1) {
+			for _, ck := range near(gi, q3*r1) {
+				k := ck.j
 				if k < 0 || k >= len(gi.values) || math.Abs(gi.values[k]/r1/q3-1) > s.w || !s.ratingOK(pw, mv, gi.values[k], v3) {
 					continue
 				}
-				o := option{rg: int32(i), rf: int32(j), rf2: int32(k), k0: g2.values[j] / r1, rp: gi.values[k] / r1}
+				o := option{rg: int32(i), rf: int32(j), rf2: int32(k), k0: g2.values[j] / r1, rp: gi.values[k] / r1, far: cj.far || ck.far}
 				lines := [4]line{{gi, i, 1}, {g2, j, 1}, {gi, k, 1}, {gf, int(c.fbv), 2}}
 				if s.priceLines(&o, lines[:]) {
 					c.opts = append(c.opts, o)

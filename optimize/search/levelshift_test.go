@@ -75,7 +75,7 @@ func levelShiftMatchesExhaustive(t *testing.T, gen func(*rand.Rand) Problem, str
 		if err := p.normalize(); err != nil {
 			t.Fatalf("seed %d: %v", seed, err)
 		}
-		s, err := newSpace(parts, &p, false)
+		s, err := newSpace(context.Background(), parts, &p, false)
 		if err != nil {
 			t.Fatalf("seed %d: %v", seed, err)
 		}

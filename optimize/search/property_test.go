@@ -32,7 +32,7 @@ func TestBranchAndBoundMatchesExhaustive(t *testing.T) {
 		if err := p.normalize(); err != nil {
 			t.Fatalf("seed %d: %v", seed, err)
 		}
-		s, err := newSpace(parts, &p, combos)
+		s, err := newSpace(context.Background(), parts, &p, combos)
 		if err != nil {
 			t.Fatalf("seed %d: %v", seed, err)
 		}

@@ -301,13 +301,20 @@ func (s *space) describe(b *classBest) (Design, *spec.Design, error) {
 		fam = c.fam
 		a = s.amps[b.amp].a
 		rgPos, rfPos := s.positions()
-		add := func(pos string, g *group, i int32) spec.Element {
-			gr := g.grade
-			uses = append(uses, cost.Use{Part: g.parts[i], Offer: s.offerWithStock(g, int(i)), Placements: 1})
-			parts = append(parts, Part{Position: pos, Kind: string(catalog.KindResistor), Part: g.parts[i], Quantity: 1,
-				ValueOhm: g.values[i], Tolerance: gr.Tolerance, TCRppm: gr.TCR})
-			return spec.Element{Part: g.parts[i], Ohm: g.values[i], Tolerance: gr.Tolerance, TCR: gr.TCR * 1e-6,
-				PowerW: gr.PowerW, MaxVoltageV: gr.MaxVoltageV, ThermalResistance: gr.ThermalResistance, LoadLife: gr.LoadLife, Resolved: true}
+		// Positions that take one value of one group share a part number,
+		// bought as one line: the part is the group's pick at the line's
+		// placements, as priceLines priced it. The elements are filled in
+		// once every position is known.
+		type slot struct {
+			g *group
+			i int32
+		}
+		placed := map[slot]int{}
+		var slots []slot
+		add := func(_ string, g *group, i int32) spec.Element {
+			placed[slot{g, i}]++
+			slots = append(slots, slot{g, i})
+			return spec.Element{}
 		}
 		switch c.fam {
 		case NetworkDifference:
@@ -357,6 +364,28 @@ func (s *space) describe(b *classBest) (Design, *spec.Design, error) {
 				parts, sd.Positions = networkParts(n, st.r1, st.r2, parts, sd.Positions)
 			}
 		}
+		k := 0
+		for pi := range sd.Positions {
+			for ei := range sd.Positions[pi].Elements {
+				e := &sd.Positions[pi].Elements[ei]
+				if e.Network != "" {
+					continue
+				}
+				sl := slots[k]
+				k++
+				pk := sl.g.at(int(sl.i), placed[sl])
+				gr, part, v := sl.g.grade, pk.part.part, sl.g.values[sl.i]
+				name := sd.Positions[pi].Name
+				if len(sd.Positions[pi].Elements) > 1 {
+					name += "." + string(rune('a'+ei))
+				}
+				uses = append(uses, cost.Use{Part: part, Offer: &pk.part.offer, Placements: 1})
+				parts = append(parts, Part{Position: name, Kind: string(catalog.KindResistor), Part: part, Quantity: 1,
+					ValueOhm: v, Tolerance: gr.Tolerance, TCRppm: gr.TCR})
+				*e = spec.Element{Part: part, Ohm: v, Tolerance: gr.Tolerance, TCR: gr.TCR * 1e-6,
+					PowerW: gr.PowerW, MaxVoltageV: gr.MaxVoltageV, ThermalResistance: gr.ThermalResistance, LoadLife: gr.LoadLife, Resolved: true}
+			}
+		}
 	} else {
 		a = s.matched[b.amp].a
 		sd.Amplifier.Gain = s.matched[b.amp].k0
@@ -392,13 +421,6 @@ func (s *space) describe(b *classBest) (Design, *spec.Design, error) {
 		d.Binding = bl.Name
 	}
 	return d, sd, nil
-}
-
-// offerWithStock is a group's price list with the stock of one value.
-func (s *space) offerWithStock(g *group, i int) *catalog.Offer {
-	o := g.offer
-	o.Stock = g.stock[i]
-	return &o
 }
 
 // networkParts appends the four difference-amplifier positions R1..R4 on

@@ -29,7 +29,32 @@ func Solve(ctx context.Context, snap *catalog.Snapshot, s *spec.Spec, opt Option
 		return nil, err
 	}
 	parts := &Parts{Series: snap.ResistorSeries, Resistors: snap.Resistors, Networks: snap.Networks, Amplifiers: snap.Amplifiers}
-	r, err := solve(ctx, parts, p, opt, budgetVerifier(s), false)
+	return solveSpec(ctx, parts, p, s, opt)
+}
+
+// SolveCatalog is Solve reading the catalog file itself: the resistors
+// through indexed queries of the spec's value window, streamed and reduced
+// to what the search keeps (per grade, each value's cheapest part), so that
+// time and memory follow the candidate rows, not the catalog; the networks
+// and amplifiers are read whole.
+func SolveCatalog(ctx context.Context, st *catalog.Store, s *spec.Spec, opt Options) (*Result, error) {
+	p, err := FromSpec(s)
+	if err != nil {
+		return nil, err
+	}
+	nets, err := st.Networks(ctx)
+	if err != nil {
+		return nil, err
+	}
+	amps, err := st.Amplifiers(ctx)
+	if err != nil {
+		return nil, err
+	}
+	return solveSpec(ctx, &Parts{Networks: nets, Amplifiers: amps, rows: st}, p, s, opt)
+}
+
+func solveSpec(ctx context.Context, parts *Parts, p Problem, s *spec.Spec, opt Options) (*Result, error) {
+	r, err := solve(ctx, parts.forSearch(), p, opt, budgetVerifier(s), false)
 	if r != nil {
 		r.spec = s
 	}
@@ -106,7 +131,7 @@ func FromSpec(s *spec.Spec) (Problem, error) {
 // search's terms. Without a spec it has no exact budget to confirm the
 // designs with: they are ranked on the screening figures alone.
 func SolveProblem(ctx context.Context, parts *Parts, p Problem, opt Options) (*Result, error) {
-	return solve(ctx, parts, p, opt, nil, false)
+	return solve(ctx, parts.forSearch(), p, opt, nil, false)
 }
 
 // Exhaustive is SolveProblem with the branch and bound replaced by the
@@ -114,7 +139,7 @@ func SolveProblem(ctx context.Context, parts *Parts, p Problem, opt Options) (*R
 // space. It returns the same designs, much more slowly; it is the oracle
 // the search is tested and measured against.
 func Exhaustive(ctx context.Context, parts *Parts, p Problem, opt Options) (*Result, error) {
-	return solve(ctx, parts, p, opt, nil, true)
+	return solve(ctx, parts.forSearch(), p, opt, nil, true)
 }
 
 // verifier confirms a design with an exact method and returns the limits
@@ -141,7 +166,7 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 	if err := ctx.Err(); err != nil {
 		return nil, fmt.Errorf("search: %w", err)
 	}
-	sp, err := newSpace(parts, &p, opt.Combos)
+	sp, err := newSpace(ctx, parts, &p, opt.Combos)
 	if err != nil {
 		return nil, err
 	}

@@ -1,13 +1,12 @@
 package search
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"sort"
-	"strconv"
 
 	"plumb/catalog"
-	"plumb/catalog/eseries"
 	"plumb/optimize/cost"
 )
 
@@ -17,155 +16,290 @@ type Parts struct {
 	Resistors  []catalog.Resistor
 	Networks   []catalog.Network
 	Amplifiers []catalog.Amplifier
+
+	// rows, when set, streams the resistors in place of Series and
+	// Resistors (a catalog file, read by indexed queries).
+	rows catalog.ResistorSource
+	// tables holds the grade tables one search has built, so that its
+	// sub-searches (one per shunt or second-stage gain) read the catalog
+	// once; nil outside a search.
+	tables map[tableKey][]*group
 }
 
-// group is a set of resistor values sold at one grade and one price list:
-// within a group only the value changes, so grade choice and value choice
-// separate.
+// forSearch returns a copy of ps with its own table cache, for one search.
+func (ps *Parts) forSearch() *Parts {
+	c := *ps
+	c.tables = map[tableKey][]*group{}
+	return &c
+}
+
+// resistorRows returns the source of the resistor rows.
+func (ps *Parts) resistorRows() catalog.ResistorSource {
+	if ps.rows != nil {
+		return ps.rows
+	}
+	return &catalog.Snapshot{ResistorSeries: ps.Series, Resistors: ps.Resistors}
+}
+
+// group is every resistor value the catalog sells in one grade: the
+// figures the error budget and the ratings depend on (technology, size,
+// tolerance, tempco, power, voltage, thermal resistance, load life).
+// Prices never split a group: for each value and each number of
+// placements per stage it keeps the cheapest part at the build quantity,
+// so grade choice and value choice separate and the number of classes does
+// not grow with the number of price lists.
 type group struct {
-	key    string
 	grade  catalog.ResistorGrade
-	offer  catalog.Offer // the shared price list and minimum order
-	values []float64     // ascending, inside the resistor window
-	parts  []string
-	stock  []int
-	// ext[p] and qty[p] are the extended price and pieces bought of one part
-	// number placed p times per stage (NaN when it cannot be priced).
-	ext [maxPlace + 1]float64
-	qty [maxPlace + 1]int
+	values []float64 // ascending, inside the resistor window
+	// buy[i*places+p] is the cheapest way to buy value i placed p times per
+	// stage (ext NaN: no part can be bought so).
+	buy []pick
+	// lb[p] is the least extended price of any value placed p times.
+	lb [maxPlace + 1]float64
 }
 
-// appendGradeKey appends the key that groups resistors: every grade
-// figure, the minimum order and the whole price list.
-func appendGradeKey(b []byte, g *catalog.ResistorGrade, o *catalog.Offer) []byte {
-	b = append(b, g.Technology...)
-	b = append(b, '|')
-	b = append(b, g.Package...)
-	for _, x := range [...]float64{g.Tolerance, g.TCR, g.PowerW, g.MaxVoltageV, g.ThermalResistance, g.LoadLife} {
-		b = append(b, '|')
-		b = strconv.AppendFloat(b, x, 'g', -1, 64)
-	}
-	b = append(b, '|')
-	b = strconv.AppendInt(b, int64(o.MinOrder), 10)
-	for _, pb := range o.PriceBreaks {
-		b = append(b, '|')
-		b = strconv.AppendInt(b, int64(pb.MinQty), 10)
-		b = append(b, ':')
-		b = strconv.AppendFloat(b, pb.UnitPrice, 'g', -1, 64)
-		b = append(b, pb.Currency...)
-	}
-	return b
+// places is the stride of group.buy: placements 0..maxPlace.
+const places = maxPlace + 1
+
+// pick is the part bought for one value at one number of placements: the
+// cheapest that can be bought at the quantity, ties going to a part whose
+// stock covers it, then to more stock, then to the lower part number.
+type pick struct {
+	ext   float64 // extended price of the pieces bought
+	qty   int32   // pieces bought
+	short bool    // stock below qty (flagged, under cost.StockFlag)
+	part  *offered
 }
 
-// resistorRow is one orderable resistor value, from a row or a series.
-type resistorRow struct {
+// offered is one part number with its offer (price list, minimum order,
+// stock).
+type offered struct {
 	part  string
-	value float64
-	stock int
-	grade catalog.ResistorGrade
-	offer *catalog.Offer
+	offer catalog.Offer
 }
 
-// buildGroups groups every resistor row and series value inside the window
-// by grade and price list. A value offered twice in a group keeps the part
-// with more stock (unknown stock counts as plenty), then the lower part
-// number.
-func buildGroups(parts *Parts, p *Problem) ([]*group, error) {
-	byKey := map[string]*group{}
-	type entry struct {
-		part  string
-		stock int
+// at returns the pick of value i placed p times.
+func (g *group) at(i, p int) *pick { return &g.buy[i*places+p] }
+
+// worse reports whether a part (at extended price ext, short of stock
+// or not, with stock and part number) is preferred to y.
+func (y *pick) worse(ext float64, short bool, stock int, part string) bool {
+	if math.IsNaN(y.ext) {
+		return true
 	}
-	vals := map[*group]map[float64]entry{}
-	var kb []byte
-	// groupOf finds or makes the group of a grade and price list.
-	groupOf := func(gr *catalog.ResistorGrade, o *catalog.Offer) *group {
-		kb = appendGradeKey(kb[:0], gr, o)
-		if g, ok := byKey[string(kb)]; ok {
-			return g
-		}
-		g := &group{key: string(kb), grade: *gr, offer: catalog.Offer{PriceBreaks: o.PriceBreaks, MinOrder: o.MinOrder, Stock: -1}}
-		byKey[g.key] = g
-		vals[g] = map[float64]entry{}
-		return g
+	if ext != y.ext {
+		return ext < y.ext
 	}
-	add := func(g *group, r resistorRow) {
-		if r.value < p.RMinOhm || r.value > p.RMaxOhm || !(r.grade.Tolerance >= 0 && r.grade.Tolerance < 0.5) {
-			return
-		}
-		if p.Build.Currency != "" && !offerIn(r.offer, p.Build.Currency) {
-			return
-		}
-		if p.Build.Stock == cost.StockExclude && r.offer.Stock == 0 {
-			return
-		}
-		if g == nil {
-			g = groupOf(&r.grade, r.offer)
-		}
-		e, ok := vals[g][r.value]
-		better := !ok || stockRank(r.stock) > stockRank(e.stock) || (stockRank(r.stock) == stockRank(e.stock) && r.part < e.part)
-		if better {
-			vals[g][r.value] = entry{r.part, r.stock}
-		}
+	if short != y.short {
+		return !short
 	}
-	for i := range parts.Resistors {
-		r := &parts.Resistors[i]
-		add(nil, resistorRow{r.Part, r.ValueOhm, r.Stock, r.ResistorGrade, &r.Offer})
+	if a, b := stockRank(stock), stockRank(y.part.offer.Stock); a != b {
+		return a > b
 	}
-	for i := range parts.Series {
-		rs := &parts.Series[i]
-		es, err := eseries.ByName(rs.ESeries)
+	return part < y.part.part
+}
+
+// groupKey identifies a group: every grade figure. The strings are the
+// interned ones of the rows, so building a key allocates nothing.
+type groupKey struct {
+	tech, pkg                       string
+	tol, tcr, pw, maxV, therm, life float64
+}
+
+func keyOf(g *catalog.ResistorGrade) groupKey {
+	return groupKey{g.Technology, g.Package, g.Tolerance, g.TCR, g.PowerW, g.MaxVoltageV, g.ThermalResistance, g.LoadLife}
+}
+
+// tableKey is what a grade table depends on: the resistor window, the
+// build and the placement counts priced.
+type tableKey struct {
+	rmin, rmax float64
+	build      cost.Build
+	used       uint16
+}
+
+// usedPlacements is the set (bit p for p placements per stage) of the
+// numbers of placements one part number can have in a design of the
+// circuit: every sum of a subset of its positions' placements, since
+// positions that take one value of one grade share a part number.
+func usedPlacements(p *Problem) uint16 {
+	var lines []int
+	switch p.Circuit {
+	case Difference, CurrentSense:
+		lines = []int{2, 2, 2} // Rg, Rf and a combination's second value
+	case InAmp:
+		lines = []int{1, 2, 2, 4}
+	case LevelShift:
+		lines = []int{1, 1, 1, 2}
+	default:
+		lines = []int{1, 1, 1}
+	}
+	sums := uint16(1) // the empty sum
+	for _, n := range lines {
+		sums |= sums << n
+	}
+	return sums &^ 1 & (1<<places - 1)
+}
+
+// tableBuilder reduces streamed resistor rows to groups.
+type tableBuilder struct {
+	p      *Problem
+	used   []int // placement counts priced
+	need   [places]int
+	groups map[groupKey]*groupBuilder
+	// first is the first usable part and its currency, to refuse a
+	// catalog priced in two currencies when the build names none.
+	first, firstCur string
+	err             error
+}
+
+type groupBuilder struct {
+	grade catalog.ResistorGrade
+	index map[float64]int32
+	buy   []pick
+	vals  []float64
+}
+
+// add takes one row: per placement count, the part replaces the value's
+// pick when it is preferred.
+func (tb *tableBuilder) add(r *catalog.ResistorRow) error {
+	p := tb.p
+	var cand [places]pick
+	any := false
+	for _, pl := range tb.used {
+		c := &cand[pl]
+		c.ext = math.NaN()
+		q, unit, _, err := cost.Buy(&r.Offer, tb.need[pl], p.Build.ExactQuantity)
 		if err != nil {
-			return nil, fmt.Errorf("resistor series %s: %w", rs.Part, err)
-		}
-		lo, hi := math.Max(rs.MinOhm, p.RMinOhm), math.Min(rs.MaxOhm, p.RMaxOhm)
-		if lo > hi {
 			continue
 		}
-		var g *group
-		for _, v := range es.Values(lo, hi) {
-			r := resistorRow{rs.PartNumber(v), v, rs.Stock, rs.ResistorGrade, &rs.Offer}
-			if g == nil {
-				g = groupOf(&r.grade, r.offer)
+		short := p.Build.Stock != cost.StockIgnore && r.Offer.Stock >= 0 && r.Offer.Stock < q
+		if short && p.Build.Stock == cost.StockExclude {
+			continue
+		}
+		c.ext, c.qty, c.short = float64(q)*unit, int32(q), short
+		any = true
+	}
+	if !any {
+		return nil
+	}
+	if p.Build.Currency == "" {
+		for _, b := range r.Offer.PriceBreaks {
+			if tb.first == "" {
+				tb.first, tb.firstCur = r.Part, b.Currency
+			} else if b.Currency != tb.firstCur {
+				return fmt.Errorf("%w: %s is priced in %q and %s in %q; set the build currency or keep one currency in the catalog", cost.ErrMixedCurrency, tb.first, tb.firstCur, r.Part, b.Currency)
 			}
-			add(g, r)
 		}
 	}
-	keys := make([]string, 0, len(byKey))
-	for k := range byKey {
-		keys = append(keys, k)
+	key := keyOf(&r.Grade)
+	gb := tb.groups[key]
+	if gb == nil {
+		gb = &groupBuilder{grade: r.Grade, index: map[float64]int32{}}
+		tb.groups[key] = gb
 	}
-	sort.Strings(keys)
-	out := make([]*group, 0, len(keys))
-	for _, k := range keys {
-		g := byKey[k]
-		vs := make([]float64, 0, len(vals[g]))
-		for v := range vals[g] {
-			vs = append(vs, v)
+	i, ok := gb.index[r.ValueOhm]
+	if !ok {
+		i = int32(len(gb.vals))
+		gb.index[r.ValueOhm] = i
+		gb.vals = append(gb.vals, r.ValueOhm)
+		for range places {
+			gb.buy = append(gb.buy, pick{ext: math.NaN()})
 		}
-		sort.Float64s(vs)
-		g.values = vs
-		for _, v := range vs {
-			e := vals[g][v]
-			g.parts = append(g.parts, e.part)
-			g.stock = append(g.stock, e.stock)
+	}
+	// Only a part that wins somewhere is copied (the row is reused).
+	var o *offered
+	for _, pl := range tb.used {
+		c := &cand[pl]
+		if math.IsNaN(c.ext) {
+			continue
 		}
-		g.ext[0] = 0
-		priced := false
-		for pl := 1; pl <= maxPlace; pl++ {
-			q, unit, _, err := cost.Buy(&g.offer, p.Build.Needed(pl), p.Build.ExactQuantity)
-			if err != nil {
-				g.ext[pl] = math.NaN()
-				continue
+		cur := &gb.buy[int(i)*places+pl]
+		if !cur.worse(c.ext, c.short, r.Offer.Stock, r.Part) {
+			continue
+		}
+		if o == nil {
+			o = &offered{part: r.Part, offer: r.Offer}
+			o.offer.PriceBreaks = append([]catalog.PriceBreak(nil), r.Offer.PriceBreaks...)
+		}
+		c.part = o
+		*cur = *c
+	}
+	return nil
+}
+
+// build sorts each group's values and returns the groups in grade order.
+func (tb *tableBuilder) build() []*group {
+	out := make([]*group, 0, len(tb.groups))
+	for _, gb := range tb.groups {
+		order := make([]int, len(gb.vals))
+		for i := range order {
+			order[i] = i
+		}
+		sort.Slice(order, func(a, b int) bool { return gb.vals[order[a]] < gb.vals[order[b]] })
+		g := &group{grade: gb.grade, values: make([]float64, len(order)), buy: make([]pick, len(gb.buy))}
+		for pl := range g.lb {
+			g.lb[pl] = math.NaN()
+		}
+		for n, i := range order {
+			g.values[n] = gb.vals[i]
+			copy(g.buy[n*places:(n+1)*places], gb.buy[i*places:(i+1)*places])
+			for pl := range places {
+				if e := g.buy[n*places+pl].ext; !math.IsNaN(e) && (math.IsNaN(g.lb[pl]) || e < g.lb[pl]) {
+					g.lb[pl] = e
+				}
 			}
-			g.ext[pl], g.qty[pl] = float64(q)*unit, q
-			priced = true
 		}
-		if priced && len(vs) > 0 {
-			out = append(out, g)
+		out = append(out, g)
+	}
+	sort.Slice(out, func(a, b int) bool { return gradeLess(&out[a].grade, &out[b].grade) })
+	return out
+}
+
+// gradeLess orders grades by technology, package and then each figure.
+func gradeLess(a, b *catalog.ResistorGrade) bool {
+	if a.Technology != b.Technology {
+		return a.Technology < b.Technology
+	}
+	if a.Package != b.Package {
+		return a.Package < b.Package
+	}
+	x := [...]float64{a.Tolerance, a.TCR, a.PowerW, a.MaxVoltageV, a.ThermalResistance, a.LoadLife}
+	y := [...]float64{b.Tolerance, b.TCR, b.PowerW, b.MaxVoltageV, b.ThermalResistance, b.LoadLife}
+	for i := range x {
+		if x[i] != y[i] {
+			return x[i] < y[i]
 		}
 	}
-	return out, nil
+	return false
+}
+
+// buildGroups streams the resistor rows inside the problem's window
+// (tolerance below 50 %, the build's currency, stock on hand under
+// cost.StockExclude) and reduces them to grade groups. Within a search the
+// groups of one window and build are built once.
+func buildGroups(ctx context.Context, parts *Parts, p *Problem) ([]*group, error) {
+	key := tableKey{p.RMinOhm, p.RMaxOhm, p.Build, usedPlacements(p)}
+	if gs, ok := parts.tables[key]; ok {
+		return gs, nil
+	}
+	tb := &tableBuilder{p: p, groups: map[groupKey]*groupBuilder{}}
+	for pl := 1; pl < places; pl++ {
+		if key.used&(1<<pl) != 0 {
+			tb.used = append(tb.used, pl)
+			tb.need[pl] = p.Build.Needed(pl)
+		}
+	}
+	q := catalog.ResistorQuery{MinOhm: p.RMinOhm, MaxOhm: p.RMaxOhm, BelowTolerance: 0.5,
+		Currency: p.Build.Currency, InStock: p.Build.Stock == cost.StockExclude}
+	if err := parts.resistorRows().EachResistor(ctx, q, tb.add); err != nil {
+		return nil, err
+	}
+	gs := tb.build()
+	if parts.tables != nil {
+		parts.tables[key] = gs
+	}
+	return gs, nil
 }
 
 func stockRank(s int) int {
