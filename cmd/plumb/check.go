@@ -7,6 +7,7 @@ import (
 	"io"
 	"strconv"
 	"strings"
+	"time"
 
 	"github.com/spf13/cobra"
 
@@ -22,13 +23,15 @@ var errCheckFailed = errors.New("design fails the spec")
 type checkOptions struct {
 	IO      *IOStreams
 	Catalog catalogOpener
+	Now     func() time.Time
 	Spec    string
 	Design  string
 	Format  string
+	Quiet   bool
 }
 
 func newCheckCmd(f *Factory, runF func(*checkOptions) error) *cobra.Command {
-	opts := &checkOptions{IO: f.IO, Catalog: f.Catalog}
+	opts := &checkOptions{IO: f.IO, Catalog: f.Catalog, Now: f.Now}
 	cmd := &cobra.Command{
 		Use:   "check SPEC --design DESIGN",
 		Short: "Compute the error budget of a design against a spec",
@@ -53,6 +56,7 @@ budget.`,
 			if opts.Format, err = chooseFormat(cmd, f, opts.Format); err != nil {
 				return err
 			}
+			opts.Quiet = f.Quiet
 			if runF != nil {
 				return runF(opts)
 			}
@@ -84,7 +88,9 @@ func runCheck(ctx context.Context, opts *checkOptions) error {
 			return fmt.Errorf("%w: check the part numbers with `plumb catalog list --part PATTERN`", err)
 		}
 	}
-	res, err := budget.Evaluate(sp, d)
+	pr := newProgress(opts.IO, opts.Quiet, opts.Now)
+	res, err := budget.EvaluateContext(ctx, sp, d, pr.trials)
+	pr.finish()
 	if err != nil {
 		return fmt.Errorf("budget of %s against %s: %w", opts.Design, specName(sp), err)
 	}

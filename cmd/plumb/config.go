@@ -12,6 +12,8 @@ import (
 
 	"github.com/spf13/pflag"
 	"github.com/spf13/viper"
+
+	"plumb/optimize/search"
 )
 
 // Configuration keys. Each can be set by a flag of the same name (where the
@@ -203,8 +205,8 @@ func (s *Settings) validate() error {
 		return s.invalid(keyFormat, "is not one of %s", strings.Join(formats, ", "))
 	}
 	top, err := strconv.Atoi(strings.TrimSpace(s.values[keyTop]))
-	if err != nil || top < 1 {
-		return s.invalid(keyTop, "must be a whole number of at least 1")
+	if err != nil || top < 1 || top > search.MaxTop {
+		return s.invalid(keyTop, "must be a whole number from 1 to %d", search.MaxTop)
 	}
 	s.Top = top
 	s.Color = strings.ToLower(s.values[keyColor])

@@ -179,7 +179,7 @@ func TestSettingsErrors(t *testing.T) {
 		{
 			name:   "bad top from the config file names the file",
 			file:   "top: 0\n",
-			wantIn: []string{`top "0"`, "config file", "at least 1"},
+			wantIn: []string{`top "0"`, "config file", "from 1 to 50"},
 		},
 		{
 			name:   "bad colour",

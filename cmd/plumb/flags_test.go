@@ -246,6 +246,8 @@ func TestSearchCommandFlags(t *testing.T) {
 			want: "s.yaml top=3 combos=true explain=2 bom=b.csv format=csv", build: solveProbe},
 		{name: "solve explain beyond top", args: []string{"s.yaml", "--top", "2", "--explain", "3"}, wantUsage: true, build: solveProbe},
 		{name: "solve top 0", args: []string{"s.yaml", "--top", "0"}, wantUsage: true, build: solveProbe},
+		{name: "solve top beyond the bound", args: []string{"s.yaml", "--top", "51"}, wantUsage: true, build: solveProbe},
+		{name: "report top beyond the bound", args: []string{"s.yaml", "-o", "r.md", "--top", "1000000000"}, wantUsage: true, build: reportProbe},
 		{name: "solve top not a number", args: []string{"s.yaml", "--top", "many"}, wantUsage: true, build: solveProbe},
 		{name: "solve needs a spec", wantUsage: true, build: solveProbe},
 		{name: "check", args: []string{"s.yaml", "--design", "d.yaml", "--format", "json"}, want: "s.yaml d.yaml json", build: func(f *Factory, got *string) *cobra.Command {

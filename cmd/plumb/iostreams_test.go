@@ -70,3 +70,26 @@ func TestProgress(t *testing.T) {
 		})
 	}
 }
+
+// TestProgressTrials: a long Monte Carlo run gets its own bar on a
+// terminal's stderr after the class search's (hardening finding 2: a run
+// of 10^7 trials once ran for minutes without a sign of life).
+func TestProgressTrials(t *testing.T) {
+	ios, _, out, errOut := TestIO()
+	ios.SetTerminal(false, true)
+	start := time.Date(2026, 1, 1, 0, 0, 0, 0, time.UTC)
+	now := start
+	p := newProgress(ios, false, func() time.Time { return now })
+	now = start.Add(3 * time.Second)
+	p.update(5, 10)
+	p.update(10, 10)
+	p.trials(4096, 100000)
+	p.trials(100000, 100000)
+	p.finish()
+	if !strings.Contains(errOut.String(), "searching") || !strings.Contains(errOut.String(), "Monte Carlo trials") {
+		t.Errorf("bars %q", errOut.String())
+	}
+	if out.Len() > 0 {
+		t.Errorf("progress went to stdout: %q", out.String())
+	}
+}

@@ -58,8 +58,8 @@ and a failed report leaves no partial files.`,
 			if !cmd.Flags().Changed(keyTop) {
 				opts.Top = min(f.Settings().Top, report.DefaultTop)
 			}
-			if opts.Top < 1 {
-				return usagef("--top %d: report at least 1 design", opts.Top)
+			if opts.Top < 1 || opts.Top > search.MaxTop {
+				return usagef("--top %d: report from 1 to %d designs", opts.Top, search.MaxTop)
 			}
 			opts.Quiet = f.Quiet
 			if runF != nil {

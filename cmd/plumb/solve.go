@@ -57,8 +57,8 @@ catalog can reach and exits with code 3.`,
 			if !cmd.Flags().Changed(keyTop) {
 				opts.Top = f.Settings().Top
 			}
-			if opts.Top < 1 {
-				return usagef("--top %d: show at least 1 design", opts.Top)
+			if opts.Top < 1 || opts.Top > search.MaxTop {
+				return usagef("--top %d: show from 1 to %d designs", opts.Top, search.MaxTop)
 			}
 			if opts.Explain < 0 || opts.Explain > opts.Top {
 				return usagef("--explain %d: choose a rank from 1 to --top (%d)", opts.Explain, opts.Top)
@@ -158,7 +158,7 @@ func runSolve(cmd *cobra.Command, opts *solveOptions) error {
 // terminal; the search reads only the rows the spec can use.
 func solveSpec(cmd *cobra.Command, ios *IOStreams, quiet bool, now func() time.Time, st *catalog.Store, sp *spec.Spec, o search.Options) (*search.Result, error) {
 	pr := newProgress(ios, quiet, now)
-	o.Progress = pr.update
+	o.Progress, o.Trials = pr.update, pr.trials
 	res, err := search.SolveCatalog(cmd.Context(), st, sp, o)
 	pr.finish()
 	if err != nil && !errors.Is(err, search.ErrInfeasible) {

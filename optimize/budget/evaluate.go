@@ -1,6 +1,7 @@
 package budget
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -60,10 +61,18 @@ func CandidateOf(e *Evaluator, d *spec.Design) (*Candidate, error) {
 // amplifier's linear terms at their worst sign), RSS from the solved
 // sensitivities, or Monte Carlo.
 func Evaluate(s *spec.Spec, d *spec.Design) (*Result, error) {
+	return EvaluateContext(context.Background(), s, d, nil)
+}
+
+// EvaluateContext is Evaluate whose Monte Carlo run stops when ctx is done
+// and reports its trials to progress (nil: no report); see
+// Evaluator.Watch.
+func EvaluateContext(ctx context.Context, s *spec.Spec, d *spec.Design, progress func(done, total int)) (*Result, error) {
 	e, err := NewEvaluator(s, d.Family, d.Options)
 	if err != nil {
 		return nil, err
 	}
+	e.Watch(ctx, progress)
 	c, err := CandidateOf(e, d)
 	if err != nil {
 		return nil, err

@@ -1,6 +1,7 @@
 package budget
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -141,6 +142,17 @@ type Evaluator struct {
 	sens       []sensRow
 	ampT       point     // pin common mode and noise gains at nominal values
 	mcBuf      []float64 // Monte Carlo sample columns kept between runs without samples
+
+	// Set by Watch: what stops a long run and hears how far it is.
+	ctx      context.Context
+	progress func(done, total int)
+}
+
+// Watch makes the evaluator's Monte Carlo runs stop when ctx is done
+// (returning its error) and report their trials to progress (nil: no
+// report) every mcCheckEvery trials.
+func (e *Evaluator) Watch(ctx context.Context, progress func(done, total int)) {
+	e.ctx, e.progress = ctx, progress
 }
 
 // NewEvaluator prepares an evaluator for designs of family (one of the

@@ -1,6 +1,7 @@
 package budget
 
 import (
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -54,6 +55,9 @@ func drawAll(r *rand.Rand, x []float64, normal bool, sigmas float64) {
 // allocate.
 func (e *Evaluator) MonteCarlo(trials int, seed uint64, samples bool) (*MCSummary, error) {
 	s := e.s
+	if trials < 1 || trials > spec.MaxTrials {
+		return nil, fmt.Errorf("budget: %d Monte Carlo trials: run from 1 to %d", trials, spec.MaxTrials)
+	}
 	sum := &MCSummary{Trials: trials, Seed: seed, Distribution: s.Analysis.Distribution, YieldTarget: s.Analysis.Yield,
 		PerLimitYield: map[string]float64{}, Percentiles: map[string]Percentiles{}}
 	var nominal Score
@@ -90,6 +94,12 @@ func (e *Evaluator) MonteCarlo(trials int, seed uint64, samples bool) (*MCSummar
 	allPass := 0
 	var a agg
 	for t := 0; t < trials; t++ {
+		if t%mcCheckEvery == 0 {
+			if err := e.watch(t, trials); err != nil {
+				clear(e.x)
+				return nil, err
+			}
+		}
 		drawAll(r, e.x, normal, s.Analysis.Sigmas)
 		if err := e.metricsAt(e.x, true, &a); err != nil {
 			clear(e.x)
@@ -117,6 +127,9 @@ func (e *Evaluator) MonteCarlo(trials int, seed uint64, samples bool) (*MCSummar
 		}
 	}
 	clear(e.x)
+	if e.progress != nil {
+		e.progress(trials, trials)
+	}
 	sum.Yield = float64(allPass) / float64(trials)
 	for i := 0; i < NumLimits; i++ {
 		if nominal.Checked[i] {
@@ -138,6 +151,24 @@ func (e *Evaluator) MonteCarlo(trials int, seed uint64, samples bool) (*MCSummar
 		}
 	}
 	return sum, nil
+}
+
+// mcCheckEvery is how many trials run between looks at the context and
+// progress reports: a few milliseconds of work.
+const mcCheckEvery = 4096
+
+// watch reports trial done of total and returns the context's error once
+// the run is to stop.
+func (e *Evaluator) watch(done, total int) error {
+	if e.ctx != nil {
+		if err := e.ctx.Err(); err != nil {
+			return fmt.Errorf("budget: Monte Carlo stopped after %d of %d trials: %w", done, total, err)
+		}
+	}
+	if e.progress != nil {
+		e.progress(done, total)
+	}
+	return nil
 }
 
 // trialPass checks one trial's varying metrics against their limits and

@@ -1,6 +1,8 @@
 package budget
 
 import (
+	"context"
+	"errors"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -222,5 +224,49 @@ func TestMonteCarloResistorCMRR(t *testing.T) {
 	}
 	if !(m.GainErrorInitial > 2*m.GainError) {
 		t.Errorf("initial gain error %.4g, calibrated %.4g: want the initial one well above", m.GainErrorInitial, m.GainError)
+	}
+}
+
+// TestMonteCarloStopsAndReports is hardening finding 2: a long Monte Carlo
+// run reports its trials as it goes and stops when its context is done
+// (Ctrl-C), and a run beyond spec.MaxTrials is refused before it allocates
+// its samples.
+func TestMonteCarloStopsAndReports(t *testing.T) {
+	s := mustSpec(t, diffSpec(2, "monte-carlo"))
+	s.Analysis.Trials = 3*mcCheckEvery + 5
+	d := mustDesign(t, diffDesign(2, "1%"))
+	var seen []int
+	res, err := EvaluateContext(context.Background(), s, d, func(done, total int) {
+		if total != s.Analysis.Trials {
+			t.Errorf("progress total %d, want %d", total, s.Analysis.Trials)
+		}
+		seen = append(seen, done)
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := []int{0, mcCheckEvery, 2 * mcCheckEvery, 3 * mcCheckEvery, s.Analysis.Trials}; !slices.Equal(seen, want) {
+		t.Errorf("progress %v, want %v", seen, want)
+	}
+	if res.MonteCarlo.Trials != s.Analysis.Trials {
+		t.Errorf("%d trials run", res.MonteCarlo.Trials)
+	}
+
+	ctx, cancel := context.WithCancel(context.Background())
+	_, err = EvaluateContext(ctx, s, d, func(done, total int) {
+		if done >= mcCheckEvery {
+			cancel()
+		}
+	})
+	if !errors.Is(err, context.Canceled) || !strings.Contains(err.Error(), "stopped after 8192 of") {
+		t.Errorf("cancelled run: %v", err)
+	}
+
+	e, c := evaluatorOf(t, s, d)
+	if err := e.SetCandidate(c); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := e.MonteCarlo(spec.MaxTrials+1, 1, true); err == nil || !strings.Contains(err.Error(), "1000000") {
+		t.Errorf("%d trials: %v", spec.MaxTrials+1, err)
 	}
 }

@@ -285,6 +285,9 @@ func TestBuildOf(t *testing.T) {
 		{"no build section is one stage", spec.Build{}, Build{Quantity: 1, Stock: StockFlag}, nil},
 		{"unknown stock policy", spec.Build{Quantity: 1, Stock: "ignore"}, Build{}, ErrBuild},
 		{"negative attrition", spec.Build{Quantity: 1, Attrition: -0.1}, Build{}, ErrBuild},
+		// A build of 10^18 stages overflowed the piece counts (hardening
+		// finding 7); the spec reader refuses it, and so does the build.
+		{"quantity past the bound", spec.Build{Quantity: spec.MaxQuantity + 1}, Build{}, ErrBuild},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {

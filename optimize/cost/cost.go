@@ -7,6 +7,7 @@ import (
 	"sort"
 
 	"plumb/catalog"
+	"plumb/optimize/spec"
 )
 
 // Sentinel errors a caller can branch on.
@@ -70,6 +71,8 @@ func (b Build) Validate() error {
 	switch {
 	case b.Quantity < 1:
 		return fmt.Errorf("%w: quantity %d: build at least one stage", ErrBuild, b.Quantity)
+	case b.Quantity > spec.MaxQuantity:
+		return fmt.Errorf("%w: quantity %d: plumb prices builds of at most %d stages", ErrBuild, b.Quantity, spec.MaxQuantity)
 	case b.Attrition < 0 || math.IsNaN(b.Attrition) || b.Attrition > 10:
 		return fmt.Errorf("%w: attrition %g: give a fraction between 0 and 10", ErrBuild, b.Attrition)
 	case b.PerPlacement < 0 || math.IsNaN(b.PerPlacement):

@@ -262,7 +262,7 @@ func solveCurrentSense(ctx context.Context, parts *Parts, p Problem, opt Options
 		res.Cautions = append(res.Cautions, hazardCaution)
 	}
 	res.Notes = append(res.Notes, fmt.Sprintf("%d shunt candidates searched; the reasons below each design compare it within its shunt", len(shunts)))
-	if err := res.checkFinite(); err != nil {
+	if err := res.finish(ctx); err != nil {
 		return nil, err
 	}
 	if len(res.Designs) == 0 {

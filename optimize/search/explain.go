@@ -1,6 +1,7 @@
 package search
 
 import (
+	"context"
 	"fmt"
 
 	"plumb/optimize/budget"
@@ -23,9 +24,9 @@ func (r *Result) ExplainN(n int) (*budget.Result, error) {
 
 // budgetVerifier confirms designs with the exact budget of spec s: the
 // search ranks on its screening figures, the budget has the last word.
-func budgetVerifier(s *spec.Spec) verifier {
+func budgetVerifier(ctx context.Context, s *spec.Spec, trials func(done, total int)) verifier {
 	return func(sd *spec.Design) (*budget.Result, []Failure, error) {
-		br, err := budget.Evaluate(s, sd)
+		br, err := budget.EvaluateContext(ctx, s, sd, trials)
 		if err != nil {
 			return nil, nil, err
 		}

@@ -398,7 +398,7 @@ func solveInAmp(ctx context.Context, parts *Parts, p Problem, opt Options, verif
 		res.Cautions = append(res.Cautions, hazardCaution)
 	}
 	res.Notes = append(res.Notes, fmt.Sprintf("second-stage gains searched: %v; the first stage makes up the rest of the gain", gains))
-	if err := res.checkFinite(); err != nil {
+	if err := res.finish(ctx); err != nil {
 		return nil, err
 	}
 	if len(res.Designs) == 0 {

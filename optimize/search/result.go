@@ -29,9 +29,17 @@ type Options struct {
 	// Progress, when set, is called now and then with the classes visited
 	// and the classes in the search space.
 	Progress func(done, total int)
+	// Trials, when set, is called now and then during each Monte Carlo run
+	// of the exact budget with the trials run and the trials of the run.
+	Trials func(done, total int)
 }
 
 const defaultTop = 5
+
+// MaxTop is the most designs one search ranks: each ranked design (and a
+// few spares) gets its own exact budget, a Monte Carlo run under that
+// method, so Top sizes the work.
+const MaxTop = 50
 
 // Result is the outcome of a search: the ranked designs and the near
 // misses, and when nothing passes, why. Its JSON field names are a

@@ -24,6 +24,9 @@ const hazardCaution = "voltages above 60 V DC (or 30 V rms) are treated as hazar
 // under its analysis method. When none does it returns a Result that says
 // why, together with an error wrapping ErrInfeasible.
 func Solve(ctx context.Context, snap *catalog.Snapshot, s *spec.Spec, opt Options) (*Result, error) {
+	if err := opt.check(); err != nil {
+		return nil, err
+	}
 	p, err := FromSpec(s)
 	if err != nil {
 		return nil, err
@@ -38,6 +41,9 @@ func Solve(ctx context.Context, snap *catalog.Snapshot, s *spec.Spec, opt Option
 // time and memory follow the candidate rows, not the catalog; the networks
 // and amplifiers are read whole.
 func SolveCatalog(ctx context.Context, st *catalog.Store, s *spec.Spec, opt Options) (*Result, error) {
+	if err := opt.check(); err != nil {
+		return nil, err
+	}
 	p, err := FromSpec(s)
 	if err != nil {
 		return nil, err
@@ -54,7 +60,7 @@ func SolveCatalog(ctx context.Context, st *catalog.Store, s *spec.Spec, opt Opti
 }
 
 func solveSpec(ctx context.Context, parts *Parts, p Problem, s *spec.Spec, opt Options) (*Result, error) {
-	r, err := solve(ctx, parts.forSearch(), p, opt, budgetVerifier(s), false)
+	r, err := solve(ctx, parts.forSearch(), p, opt, budgetVerifier(ctx, s, opt.Trials), false)
 	if r != nil {
 		r.spec = s
 	}
@@ -131,7 +137,18 @@ func FromSpec(s *spec.Spec) (Problem, error) {
 // search's terms. Without a spec it has no exact budget to confirm the
 // designs with: they are ranked on the screening figures alone.
 func SolveProblem(ctx context.Context, parts *Parts, p Problem, opt Options) (*Result, error) {
+	if err := opt.check(); err != nil {
+		return nil, err
+	}
 	return solve(ctx, parts.forSearch(), p, opt, nil, false)
+}
+
+// check refuses options that would size the work beyond its bounds.
+func (o *Options) check() error {
+	if o.Top > MaxTop {
+		return fmt.Errorf("%w: %d designs asked for: a search ranks at most %d", ErrProblem, o.Top, MaxTop)
+	}
+	return nil
 }
 
 // Exhaustive is SolveProblem with the branch and bound replaced by the
@@ -139,6 +156,9 @@ func SolveProblem(ctx context.Context, parts *Parts, p Problem, opt Options) (*R
 // space. It returns the same designs, much more slowly; it is the oracle
 // the search is tested and measured against.
 func Exhaustive(ctx context.Context, parts *Parts, p Problem, opt Options) (*Result, error) {
+	if err := opt.check(); err != nil {
+		return nil, err
+	}
 	return solve(ctx, parts.forSearch(), p, opt, nil, true)
 }
 
@@ -288,7 +308,7 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 		}
 	}
 	res.Notes = append(res.Notes, check.notes()...)
-	if err := res.checkFinite(); err != nil {
+	if err := res.finish(ctx); err != nil {
 		return nil, err
 	}
 	if len(res.Designs) == 0 {

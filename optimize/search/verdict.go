@@ -1,6 +1,7 @@
 package search
 
 import (
+	"context"
 	"fmt"
 	"slices"
 	"strings"
@@ -41,10 +42,15 @@ func (u *unchecked) note(what string) string {
 	return txt
 }
 
-// checkFinite is the last check of a result before it is returned: no
-// figure of a ranked design may be infinite or NaN (an error naming it),
-// and a near miss with such a figure is dropped with a note.
-func (r *Result) checkFinite() error {
+// finish is the last check of a result before it is returned: a
+// search stopped by ctx returns its error (the budgets it could not finish
+// are not to be read as designs the budget refused); no figure of a ranked
+// design may be infinite or NaN (an error naming it), and a near miss with
+// such a figure is dropped with a note.
+func (r *Result) finish(ctx context.Context) error {
+	if err := ctx.Err(); err != nil {
+		return fmt.Errorf("search: stopped: %w", err)
+	}
 	for i := range r.Designs {
 		if err := budget.CheckFinite(fmt.Sprintf("design %d (%s)", r.Designs[i].Rank, r.Designs[i].Family), &r.Designs[i]); err != nil {
 			return fmt.Errorf("search: %w", err)

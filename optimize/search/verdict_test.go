@@ -231,3 +231,24 @@ func TestExtremeCatalogsEveryDesignPassesCheck(t *testing.T) {
 		}
 	}
 }
+
+// TestSearchBounds: Top sizes the exact budgets a search runs, so it is
+// bounded (hardening finding 2); a search stopped by its context returns
+// the context's error, not a ranking short of the designs whose budgets it
+// could not finish.
+func TestSearchBounds(t *testing.T) {
+	snap := demoSnapshot(t)
+	s := loadExample(t, "logger-calibrated") // Monte Carlo
+	if _, err := Solve(context.Background(), snap, s, Options{Top: MaxTop + 1}); !errors.Is(err, ErrProblem) || !strings.Contains(err.Error(), "at most 50") {
+		t.Errorf("Top %d: %v", MaxTop+1, err)
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	trials := 0
+	_, err := Solve(ctx, snap, s, Options{Top: 2, Trials: func(done, total int) {
+		trials = total
+		cancel()
+	}})
+	if !errors.Is(err, context.Canceled) || trials != s.Analysis.Trials {
+		t.Errorf("cancelled during the budget's Monte Carlo run (%d trials): %v", trials, err)
+	}
+}

@@ -1,6 +1,7 @@
 package spec
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"slices"
@@ -105,6 +106,26 @@ const (
 	DefaultSeed     = 1
 )
 
+// Bounds on the numbers of a spec that size work or memory. Each is far
+// beyond what a design review needs and keeps one command's time and
+// memory within what a workstation gives it; a spec past one is refused
+// with the bound in the message.
+const (
+	// MinTrials and MaxTrials bound analysis.trials. Each trial keeps its
+	// seven figures (56 bytes) for the exact order statistics and the
+	// report's histograms, so a run holds at most about 56 MB of samples
+	// and takes about a second per design (BenchmarkMonteCarlo100k: 0.7
+	// µs a trial for a difference amplifier). At a million trials the p99.865 point rests on 1350
+	// trials beyond it, a rank known to about ±3 %; more trials change no
+	// verdict a review reads.
+	MinTrials = 100
+	MaxTrials = 1_000_000
+	// MaxQuantity bounds build.quantity: ten million stages is beyond any
+	// one build a selection aid prices, and keeps every piece count (per
+	// stage placements x quantity x attrition) exact.
+	MaxQuantity = 10_000_000
+)
+
 // Parse reads a spec from YAML. name is the file name used in errors. Every
 // problem found is reported, each naming the file and the field path.
 func Parse(data []byte, name string) (*Spec, error) {
@@ -144,6 +165,9 @@ func parseFamilies(p *problems, r *rawSpec, s *Spec) {
 		return
 	case r.Family != "":
 		s.Families = []string{strings.TrimSpace(r.Family)}
+	case len(r.Families) > len(KnownFamilies):
+		p.add("families", "lists %d entries; there are %d families, each listed at most once", len(r.Families), len(KnownFamilies))
+		return
 	case len(r.Families) > 0:
 		s.Families = r.Families
 	default:
@@ -384,9 +408,15 @@ func parseEnvironment(p *problems, r *rawSpec, s *Spec) {
 			p.add("derating", "%q must lie between 0 %% and 100 %% of rated power", r.Derating)
 		}
 	}
-	for i, c := range r.Combos {
-		if c != "series" && c != "parallel" {
-			p.add(fmt.Sprintf("combos[%d]", i), "%q is not a combination; use series or parallel", c)
+	if len(r.Combos) > 2 {
+		p.add("combos", "lists %d entries; give series, parallel or both, each once", len(r.Combos))
+	} else {
+		for i, c := range r.Combos {
+			if c != Series && c != Parallel {
+				p.add(fmt.Sprintf("combos[%d]", i), "%q is not a combination; use series or parallel", c)
+			} else if i > 0 && r.Combos[0] == c {
+				p.add(fmt.Sprintf("combos[%d]", i), "%q is listed twice", c)
+			}
 		}
 	}
 	s.Combos = r.Combos
@@ -434,11 +464,7 @@ func parseAnalysis(p *problems, r *rawSpec, s *Spec) {
 	}
 	a.Trials, a.Seed, a.Distribution, a.Sigmas = DefaultTrials, DefaultSeed, Normal, DefaultSigmas
 	if r.Analysis.Trials != "" {
-		n, err := strconv.Atoi(r.Analysis.Trials)
-		if err != nil || n < 100 {
-			p.add("analysis.trials", "%q must be a whole number of at least 100", r.Analysis.Trials)
-		}
-		a.Trials = n
+		a.Trials = count(p, "analysis.trials", r.Analysis.Trials, MinTrials, MaxTrials, "trials")
 	}
 	if r.Analysis.Seed != "" {
 		n, err := strconv.ParseUint(r.Analysis.Seed, 10, 64)
@@ -481,11 +507,7 @@ func parseBuild(p *problems, r *rawSpec, s *Spec) {
 	b := &s.Build
 	b.Quantity, b.Stock, b.Currency = 1, "flag", strings.TrimSpace(r.Build.Currency)
 	if r.Build.Quantity != "" {
-		n, err := strconv.Atoi(r.Build.Quantity)
-		if err != nil || n < 1 {
-			p.add("build.quantity", "%q must be a whole number of boards, at least 1", r.Build.Quantity)
-		}
-		b.Quantity = n
+		b.Quantity = count(p, "build.quantity", r.Build.Quantity, 1, MaxQuantity, "stages")
 	}
 	if r.Build.Attrition != "" {
 		b.Attrition = fractionField(p, "build.attrition", r.Build.Attrition)
@@ -549,6 +571,23 @@ func (s *Spec) OutputSwing() Range {
 	}
 	a, b := s.Gain*s.Input.Min+off, s.Gain*s.Input.Max+off
 	return Range{Min: math.Min(a, b), Max: math.Max(a, b)}
+}
+
+// count reads a whole number from lo to hi (what names what it counts),
+// recording a problem under path when it is not one.
+func count(p *problems, path, text string, lo, hi int, what string) int {
+	n, err := strconv.Atoi(strings.TrimSpace(text))
+	switch {
+	case err != nil && errors.Is(err, strconv.ErrRange) && !strings.HasPrefix(strings.TrimSpace(text), "-"), err == nil && n > hi:
+		p.add(path, "%q is more than %d %s, the most plumb runs; give at most %d", text, hi, what, hi)
+	case err != nil:
+		p.add(path, "%q must be a whole number of %s, from %d to %d", text, what, lo, hi)
+	case n < lo:
+		p.add(path, "%q is fewer than %d %s; give at least %d", text, lo, what, lo)
+	default:
+		return n
+	}
+	return lo
 }
 
 // field reads one quantity, recording a problem under path on failure.

@@ -134,6 +134,16 @@ func TestParseErrors(t *testing.T) {
 		{"derating above one", add("derating: 150%\n"), "derating"},
 		{"bad stock", add("build: {stock: maybe}\n"), "build.stock"},
 		{"quantity zero", add("build: {quantity: 0}\n"), "build.quantity"},
+		// Bounds on the numbers that size work or memory (hardening
+		// finding 2): a billion trials once aborted the Go runtime out of
+		// memory; a build of 10^18 stages was accepted.
+		{"a billion trials", add("analysis: {method: monte-carlo, trials: 1000000000}\n"), `analysis.trials: "1000000000" is more than 1000000 trials, the most plumb runs`},
+		{"trials past int64", add("analysis: {method: monte-carlo, trials: 99999999999999999999}\n"), "more than 1000000 trials"},
+		{"negative trials", add("analysis: {method: monte-carlo, trials: -99999999999999999999}\n"), "whole number of trials, from 100 to 1000000"},
+		{"quantity 10^18", add("build: {quantity: 1000000000000000000}\n"), `build.quantity: "1000000000000000000" is more than 10000000 stages`},
+		{"too many families", rep("family: difference", "families: [difference, difference, difference, difference, difference, difference, difference, difference, difference]"), "families: lists 9 entries"},
+		{"too many combos", add("combos: [series, parallel, series]\n"), "combos: lists 3 entries"},
+		{"repeated combo", add("combos: [series, series]\n"), `combos[1]: "series" is listed twice`},
 		{"level shift without output", func(s string) string {
 			return rep("family: difference\ngain: 1\ninput: {differential: ±1V, common_mode: -5..5V}", "family: level-shift\ninput: {single_ended: ±1V}\nreference: {voltage: 2.5V}")(s)
 		}, "output: missing"},
