@@ -420,20 +420,24 @@ func (st *Stats) add(o Stats) {
 	st.Evaluated += o.Evaluated
 }
 
-// addNear appends the sub-searches' near misses cheaper than rank 1, by
-// cost, up to maxNearMisses besides the rejected designs listed first;
-// with verify, each is confirmed by the exact budget first (nearCheck).
+// addNear appends the sub-searches' near misses cheaper than rank 1, the
+// closest first (least shortfall), up to maxNearMisses besides the rejected
+// designs; with verify, each is confirmed by the exact budget first
+// (nearCheck).
 func addNear(res *Result, near []NearMiss, rejected int, verify verifier) {
-	sort.SliceStable(near, func(i, j int) bool { return near[i].TotalCost < near[j].TotalCost })
 	check := nearCheck{verify: verify}
+	var kept []NearMiss
 	for _, nm := range near {
-		if len(res.NearMisses) >= maxNearMisses+rejected || (len(res.Designs) > 0 && nm.TotalCost >= res.Designs[0].TotalCost) {
-			break
+		if len(kept) >= 2*maxNearMisses || (len(res.Designs) > 0 && nm.TotalCost >= res.Designs[0].TotalCost) {
+			continue
 		}
 		if check.confirm(&nm) {
-			res.NearMisses = append(res.NearMisses, nm)
+			kept = append(kept, nm)
 		}
 	}
+	sort.SliceStable(kept, func(i, j int) bool { return kept[i].Shortfall < kept[j].Shortfall })
+	res.NearMisses = append(res.NearMisses, kept[:min(len(kept), maxNearMisses)]...)
+	sort.SliceStable(res.NearMisses, func(i, j int) bool { return res.NearMisses[i].Shortfall < res.NearMisses[j].Shortfall })
 	res.Notes = append(res.Notes, check.notes()...)
 }
 

@@ -2,21 +2,33 @@ package search
 
 import (
 	"fmt"
+	"math"
 	"slices"
+	"sort"
 	"strings"
+
+	"plumb/optimize/budget"
+	"plumb/optimize/spec"
 )
 
 // maxNearEvals bounds the exact budgets a solve runs for its near misses
-// (the design and its fix each take one), so that reporting near misses
-// costs at most this many budget evaluations beyond the ranked designs.
-const maxNearEvals = 12
+// (confirming candidates, their fixes and the cheapest failing designs), so
+// that reporting near misses costs at most this many budget evaluations
+// beyond the ranked designs.
+const maxNearEvals = 40
+
+// maxNearConfirm is how many of the closest candidates (by the screening
+// figures) the exact budget confirms before the closest are chosen by the
+// exact figures.
+const maxNearConfirm = 8
 
 // nearCheck confirms near misses with the exact budget: the screening
 // figures find them, the budget has the last word on their figures, their
 // failures and whether their fix really passes.
 type nearCheck struct {
-	verify verifier // nil: no spec, near misses keep the screening figures
-	evals  int      // budget evaluations run so far
+	verify verifier   // nil: no spec, near misses keep the screening figures
+	spec   *spec.Spec // for changes on the spec's side (nil: none tried)
+	evals  int        // budget evaluations run so far
 	// pessimistic counts near misses the screening failed and the exact
 	// budget passes; they are not listed.
 	pessimistic int
@@ -26,11 +38,10 @@ type nearCheck struct {
 }
 
 // confirm evaluates near miss nm with the exact budget and adopts its
-// figures and failures. It returns false when the budget passes the design
-// (the screening was pessimistic for it: it is no near miss) or cannot
-// evaluate it (its screening figures would be all there is to show). Once
-// maxNearEvals evaluations have run, or without a spec, nm keeps its
-// screening figures and a reason says so.
+// figures, failures and shortfall. It returns false when the budget passes
+// the design (the screening was pessimistic for it: it is no near miss) or
+// cannot evaluate it. Once maxNearEvals evaluations have run, or without a
+// spec, nm keeps its screening figures and a reason says so.
 func (c *nearCheck) confirm(nm *NearMiss) bool {
 	if c.verify == nil || nm.sd == nil {
 		return true
@@ -51,36 +62,28 @@ func (c *nearCheck) confirm(nm *NearMiss) bool {
 	}
 	adopt(&nm.Design, br)
 	nm.Fails = fails
+	nm.Shortfall = exactShortfall(nm.Limits)
 	rest := nm.Reasons
-	if len(rest) > 0 && strings.HasPrefix(rest[0], "cheaper than rank 1") {
+	if len(rest) > 0 && strings.HasPrefix(rest[0], "fails ") {
 		rest = rest[1:]
 	}
-	nm.Reasons = append([]string{fmt.Sprintf("cheaper than rank 1 but the exact budget fails %d limit(s): %s", len(fails), failText(fails))}, rest...)
-	c.checkFix(nm)
+	nm.Reasons = append([]string{fmt.Sprintf("the exact budget fails %d limit(s): %s", len(fails), failText(fails))}, rest...)
 	return true
 }
 
-// checkFix runs the exact budget on nm's fixed design and says so in the
-// reasons when it still fails.
-func (c *nearCheck) checkFix(nm *NearMiss) {
-	if nm.Fix == nil || nm.fixSD == nil || c.evals >= maxNearEvals {
-		return
+// passes reports whether spec design sd passes the exact budget (true
+// without a verifier: the screening figures decided). It spends one of the
+// near misses' budget runs; none left counts as not passing.
+func (c *nearCheck) passes(sd *spec.Design) bool {
+	if c.verify == nil {
+		return true
+	}
+	if c.evals >= maxNearEvals || sd == nil {
+		return false
 	}
 	c.evals++
-	_, fails, err := c.verify(nm.fixSD)
-	switch {
-	case err != nil:
-		// A fix the exact budget cannot evaluate is no fix.
-		nm.Reasons = slices.DeleteFunc(nm.Reasons, func(r string) bool { return strings.HasPrefix(r, fixReason) })
-		nm.Reasons = append(nm.Reasons, fmt.Sprintf("the cheapest single change the screening found (%s) could not be checked by the exact budget: %v", nm.Fix.Change, err))
-		nm.Fix, nm.fixSD = nil, nil
-	case len(fails) > 0:
-		var names []string
-		for _, f := range fails {
-			names = append(names, f.Name)
-		}
-		nm.Reasons = append(nm.Reasons, "the fix passes the screening figures; the exact budget still fails "+strings.Join(names, ", "))
-	}
+	_, fails, err := c.verify(sd)
+	return err == nil && len(fails) == 0
 }
 
 // notes say how many near-miss candidates the screening failed and the
@@ -104,3 +107,402 @@ func failText(fails []Failure) string {
 	}
 	return strings.Join(names, "; ")
 }
+
+// exactShortfall is the normalised shortfall of a failing design: the
+// product over its failing limits of 1/margin (value/limit for a maximum,
+// limit/value for a minimum, the linear ratio for dB), so 1.4 means one
+// limit missed by 1.4x, or two by about 1.18x each. It is 1 for a design
+// that fails nothing and at most budget.MaxMargin.
+func exactShortfall(ls []Limit) float64 {
+	sum := 0.0
+	for _, l := range ls {
+		if l.Pass {
+			continue
+		}
+		if !(l.Margin > 0) {
+			return budget.MaxMargin
+		}
+		if l.Margin < 1 {
+			sum -= math.Log(l.Margin)
+		}
+	}
+	return math.Min(math.Exp(sum), budget.MaxMargin)
+}
+
+// shortfall is exactShortfall of screening metrics m as a sum of logs (0:
+// passes), without allocating.
+func (s *space) shortfall(m *metrics) float64 {
+	var k tieKey
+	s.margins(m, &k)
+	sum := 0.0
+	for _, mg := range k.margins {
+		if mg >= 1 {
+			break
+		}
+		if !(mg > 0) {
+			return math.Inf(1)
+		}
+		sum -= math.Log(mg)
+	}
+	return sum
+}
+
+// nearPool is how many configurations and how many amplifiers, each the
+// closest to passing on its own bound, the near-miss search pairs up.
+const nearPool = 16
+
+// closestOption returns the option of class (ci, ai) nearest to passing
+// (least shortfall, then least cost); pass is true when some option of the
+// class passes (it is then no near miss).
+func (s *space) closestOption(ci, ai int) (best classBest, short float64, pass bool) {
+	c := &s.cfgs[ci]
+	a := &s.amps[ai]
+	short = math.Inf(1)
+	var m metrics
+	opts := s.options(c)
+	for i := range opts {
+		s.evalOpt(c, &opts[i], a, &m)
+		if s.pass(&m) {
+			return classBest{}, 0, true
+		}
+		sf := s.shortfall(&m)
+		if sf < short || (sf == short && opts[i].cost+a.cost < best.cost) {
+			short = sf
+			best = classBest{id: s.classID(ci, ai), cfg: ci, amp: ai, opt: i, cost: opts[i].cost + a.cost, m: m, key: s.tie(c, &opts[i], &m)}
+		}
+	}
+	return best, short, false
+}
+
+// closeCandidates returns failing classes cheaper than limit, each at its
+// option nearest to passing, the nearest first: every matched amplifier,
+// the pairs of the nearPool configurations and the nearPool amplifiers
+// whose own error bounds come closest to the limits, and the cheapest
+// classes (as nearCandidates looks at them). A class some option of which
+// passes is no near miss and is left out.
+func (s *space) closeCandidates(limit float64) []classBest {
+	type scored struct {
+		b  classBest
+		sf float64
+	}
+	var out []scored
+	for mi := range s.matched {
+		if b := s.evalMatchedClass(mi); !b.pass && b.cost < limit {
+			out = append(out, scored{b, s.shortfall(&b.m)})
+		}
+	}
+	var m metrics
+	pool := func(n int, score func(i int) (float64, float64)) []int {
+		idx := make([]int, n)
+		sf := make([]float64, n)
+		cost := make([]float64, n)
+		for i := range idx {
+			idx[i] = i
+			sf[i], cost[i] = score(i)
+		}
+		sort.SliceStable(idx, func(a, b int) bool {
+			if sf[idx[a]] != sf[idx[b]] {
+				return sf[idx[a]] < sf[idx[b]]
+			}
+			return cost[idx[a]] < cost[idx[b]]
+		})
+		return idx[:min(n, nearPool)]
+	}
+	cfgs := pool(len(s.cfgs), func(ci int) (float64, float64) {
+		s.bound(&s.cfgs[ci].g, nil, &m)
+		return s.shortfall(&m), s.cfgs[ci].costLB
+	})
+	amps := pool(len(s.amps), func(ai int) (float64, float64) {
+		s.bound(nil, &s.amps[ai], &m)
+		return s.shortfall(&m), s.amps[ai].cost
+	})
+	seen := map[[2]int]bool{}
+	try := func(ci, ai int) {
+		if seen[[2]int{ci, ai}] {
+			return
+		}
+		seen[[2]int{ci, ai}] = true
+		if b, sf, pass := s.closestOption(ci, ai); !pass && !math.IsInf(sf, 1) && b.cost < limit {
+			out = append(out, scored{b, sf})
+		}
+	}
+	for _, ci := range cfgs {
+		for _, ai := range amps {
+			try(ci, ai)
+		}
+	}
+	for _, b := range s.nearCandidates(limit) {
+		if b.cfg >= 0 {
+			try(b.cfg, b.amp)
+		}
+	}
+	sort.SliceStable(out, func(i, j int) bool {
+		if out[i].sf != out[j].sf {
+			return out[i].sf < out[j].sf
+		}
+		return out[i].b.less(&out[j].b)
+	})
+	res := make([]classBest, len(out))
+	for i := range out {
+		res[i] = out[i].b
+	}
+	return res
+}
+
+// findFix finds the cheapest change that makes near miss nm pass and sets
+// nm.Fix: a single change of amplifier, grade or network; a pair of them
+// when no single one passes; or, on the spec's side, a calibration. Each
+// change the screening passes is confirmed by the exact budget, cheapest
+// first. A ranked design of the same family that differs from nm by one or
+// two changes counts as such a change (the exact budget passed it).
+// Calibrations that pass are kept as alternatives beside a part change.
+func (s *space) findFix(nm *NearMiss, res *Result, c *nearCheck) error {
+	ranked := res.Designs
+	f := &nm.class
+	singles, doubles := s.fixCandidates(f, true)
+	var fixSD *spec.Design
+	try := func(list []fixOpt, kind string) (*Fix, *spec.Design, error) {
+		for _, o := range list {
+			bd, fsd, err := s.describe(&o.b)
+			if err != nil {
+				return nil, nil, err
+			}
+			if !c.passes(fsd) {
+				continue
+			}
+			change, part, at := s.fixChange(f, o)
+			if part == "" {
+				part = partAt(bd.Parts, at)
+			}
+			k := o.cand.kind
+			if kind != "" {
+				k = kind
+			}
+			return &Fix{Kind: k, Change: change, Part: part, TotalCost: bd.TotalCost, ExtraCost: bd.UnitCost - nm.UnitCost}, fsd, nil
+		}
+		return nil, nil, nil
+	}
+	fromRanked := func(n int) (*Fix, *spec.Design) {
+		var best *Fix
+		var bestSD *spec.Design
+		for i := range ranked {
+			r := &ranked[i]
+			if r.Family != nm.Family {
+				continue
+			}
+			items := s.differences(&nm.Design, r)
+			if len(items) != n || (best != nil && r.TotalCost >= best.TotalCost) {
+				continue
+			}
+			kind := "pair"
+			if n == 1 {
+				kind = fixKind(items[0])
+			}
+			best = &Fix{Kind: kind, Change: strings.Join(items, "; ") + fmt.Sprintf(" (design %d)", r.Rank), Part: changedPart(&nm.Design, r),
+				TotalCost: r.TotalCost, ExtraCost: r.UnitCost - nm.UnitCost}
+			bestSD = res.designs[i]
+		}
+		return best, bestSD
+	}
+	cheaper := func(n int, a *Fix, asd *spec.Design) (*Fix, *spec.Design) {
+		b, bsd := fromRanked(n)
+		if a == nil || (b != nil && b.TotalCost < a.TotalCost) {
+			return b, bsd
+		}
+		return a, asd
+	}
+	fix, fsd, err := try(singles, "")
+	if err != nil {
+		return err
+	}
+	fix, fixSD = cheaper(1, fix, fsd)
+	if fix == nil {
+		if fix, fsd, err = try(doubles, "pair"); err != nil {
+			return err
+		}
+		fix, fixSD = cheaper(2, fix, fsd)
+	}
+	cal := c.calibration(nm)
+	switch {
+	case fix != nil:
+		nm.Fix, nm.fixSD = fix, fixSD
+		if cal != nil {
+			nm.Alternatives = append(nm.Alternatives, *cal)
+		}
+	case cal != nil:
+		nm.Fix = cal
+	}
+	switch {
+	case nm.Fix != nil && nm.Fix.ExtraCost == 0 && nm.Fix.Kind == kindCalibration:
+		nm.Reasons = append(nm.Reasons, "no part change found; passes with "+nm.Fix.Change)
+	case nm.Fix != nil:
+		nm.Reasons = append(nm.Reasons, fmt.Sprintf("cheapest change that passes: %s (%s more per stage)", nm.Fix.Change, units4(nm.Fix.ExtraCost)))
+	default:
+		nm.Reasons = append(nm.Reasons, "no change found: no other amplifier, grade or network, alone or in pairs, and no calibration makes it pass")
+	}
+	return nil
+}
+
+// kindCalibration is the kind of a fix on the spec's side.
+const kindCalibration = "calibration"
+
+// calibration returns the spec-side change that makes near miss nm pass
+// with the same parts: a one-time gain calibration, an offset calibration,
+// or both, where nm fails gain error or output offset and the spec does not
+// calibrate them yet (nil: none passes, or no spec to try it on). The exact
+// budget of the same design under the changed spec decides.
+func (c *nearCheck) calibration(nm *NearMiss) *Fix {
+	if c.spec == nil || nm.sd == nil {
+		return nil
+	}
+	var gain, offset bool
+	for _, f := range nm.Fails {
+		switch f.Name {
+		case limGain, limGainInitial, limDrift:
+			gain = f.Name != limDrift && !c.spec.Calibrate.Gain
+		case limOffset:
+			offset = !c.spec.Calibrate.Offset
+		}
+	}
+	type try struct {
+		gain, offset bool
+		text         string
+	}
+	var tries []try
+	if gain {
+		tries = append(tries, try{true, false, "gain"})
+	}
+	if offset {
+		tries = append(tries, try{false, true, "offset"})
+	}
+	if gain && offset {
+		tries = append(tries, try{true, true, "gain and offset"})
+	}
+	for _, t := range tries {
+		if c.evals >= maxNearEvals {
+			return nil
+		}
+		c.evals++
+		s2 := *c.spec
+		s2.Calibrate.Gain = s2.Calibrate.Gain || t.gain
+		s2.Calibrate.Offset = s2.Calibrate.Offset || t.offset
+		br, err := budget.Evaluate(&s2, nm.sd)
+		if err != nil || !br.Pass {
+			continue
+		}
+		return &Fix{Kind: kindCalibration, Change: fmt.Sprintf("calibrate the %s once at %g °C (spec: calibration), same parts; the calibration step is not priced", t.text, c.spec.TempRef),
+			TotalCost: nm.TotalCost}
+	}
+	return nil
+}
+
+// fixKind is the kind of a single change from its description.
+func fixKind(item string) string {
+	switch {
+	case strings.HasPrefix(item, "amplifier"):
+		return "amplifier"
+	case strings.HasPrefix(item, "network"):
+		return "network"
+	}
+	return "grade"
+}
+
+// changedPart is the first part of d that differs from the near miss's.
+func changedPart(nm, d *Design) string {
+	pp := map[string]string{}
+	for _, p := range nm.Parts {
+		pp[p.Position] = p.Part
+	}
+	for _, p := range d.Parts {
+		if pp[p.Position] != p.Part {
+			return p.Part
+		}
+	}
+	return ""
+}
+
+// units4 prints a price difference to four figures.
+func units4(v float64) string { return fmt.Sprintf("%.4g", v) }
+
+// addNearMisses fills res.NearMisses with the closest failing designs
+// cheaper than limit (rank 1's cost; +Inf when nothing passes), nearest
+// first by their exact shortfall, each with its fix, and
+// res.CheapestFailing with the cheapest failing designs the near misses do
+// not already show. rejected are designs the screening passed and the
+// exact budget failed; they compete with the others on their shortfall.
+// One near miss per resistor configuration, so that they show different
+// grades rather than one grade with several amplifiers.
+func (s *space) addNearMisses(res *Result, rejected []NearMiss, limit float64, check *nearCheck) error {
+	near := append([]NearMiss(nil), rejected...)
+	seen := map[int]bool{}
+	for _, nm := range rejected {
+		if nm.class.cfg >= 0 {
+			seen[nm.class.cfg] = true
+		}
+	}
+	confirmed := 0
+	for _, f := range s.closeCandidates(limit) {
+		if confirmed >= maxNearConfirm {
+			break
+		}
+		if f.cfg >= 0 && seen[f.cfg] {
+			continue
+		}
+		nm, err := s.nearMiss(&f)
+		if err != nil {
+			return err
+		}
+		if !check.confirm(&nm) {
+			continue
+		}
+		confirmed++
+		if f.cfg >= 0 {
+			seen[f.cfg] = true
+		}
+		near = append(near, nm)
+	}
+	sort.SliceStable(near, func(i, j int) bool {
+		if near[i].Shortfall != near[j].Shortfall {
+			return near[i].Shortfall < near[j].Shortfall
+		}
+		return near[i].TotalCost < near[j].TotalCost
+	})
+	// Designs that differ only in price list show once, the cheaper.
+	byGrades := map[string]bool{}
+	near = slices.DeleteFunc(near, func(nm NearMiss) bool {
+		k := gradeKey(&nm.Design)
+		dup := byGrades[k]
+		byGrades[k] = true
+		return dup
+	})
+	near = near[:min(len(near), maxNearMisses)]
+	for i := range near {
+		if err := s.findFix(&near[i], res, check); err != nil {
+			return err
+		}
+	}
+	res.NearMisses = append(res.NearMisses, near...)
+	shown := map[string]bool{}
+	for i := range near {
+		shown[gradeKey(&near[i].Design)] = true
+	}
+	for _, f := range s.nearCandidates(limit) {
+		if len(res.CheapestFailing) >= maxCheapestFailing {
+			break
+		}
+		nm, err := s.nearMiss(&f)
+		if err != nil {
+			return err
+		}
+		if shown[gradeKey(&nm.Design)] || !check.confirm(&nm) {
+			continue
+		}
+		shown[gradeKey(&nm.Design)] = true
+		res.CheapestFailing = append(res.CheapestFailing, nm)
+	}
+	return nil
+}
+
+// maxCheapestFailing is how many of the cheapest failing designs a result
+// lists beside the near misses.
+const maxCheapestFailing = 2

@@ -32,6 +32,10 @@ type Options struct {
 	// Trials, when set, is called now and then during each Monte Carlo run
 	// of the exact budget with the trials run and the trials of the run.
 	Trials func(done, total int)
+
+	// spec is the spec Solve searches for: near misses try changes on its
+	// side (a calibration) with the exact budget (nil: none tried).
+	spec *spec.Spec
 }
 
 const defaultTop = 5
@@ -45,13 +49,16 @@ const MaxTop = 50
 // misses, and when nothing passes, why. Its JSON field names are a
 // contract documented in the README.
 type Result struct {
-	Designs    []Design    `json:"designs"`
-	NearMisses []NearMiss  `json:"near_misses"`
-	Infeasible *Infeasible `json:"infeasible,omitempty"`
-	Method     string      `json:"method"`
-	Cautions   []string    `json:"cautions,omitempty"`
-	Notes      []string    `json:"notes,omitempty"`
-	Search     Stats       `json:"search"`
+	Designs    []Design   `json:"designs"`
+	NearMisses []NearMiss `json:"near_misses"`
+	// CheapestFailing are the cheapest failing designs (cheaper than rank
+	// 1), beside the near misses, which are the closest.
+	CheapestFailing []NearMiss  `json:"cheapest_failing,omitempty"`
+	Infeasible      *Infeasible `json:"infeasible,omitempty"`
+	Method          string      `json:"method"`
+	Cautions        []string    `json:"cautions,omitempty"`
+	Notes           []string    `json:"notes,omitempty"`
+	Search          Stats       `json:"search"`
 
 	spec    *spec.Spec
 	designs []*spec.Design
@@ -143,15 +150,25 @@ type Limit struct {
 	MarginText string `json:"margin_text,omitempty"`
 }
 
-// NearMiss is a design cheaper than the first rank that fails, with what
-// it fails and the cheapest single change that makes it pass.
+// NearMiss is a failing design (cheaper than the first rank when there is
+// one), with what it fails, how far it is from passing and the cheapest
+// change that makes it pass.
 type NearMiss struct {
 	Design
 	Fails []Failure `json:"fails"`
-	Fix   *Fix      `json:"fix"`
+	// Shortfall is how far the design is from passing: the product over
+	// its failing limits of 1/margin (1.4: one limit missed by 1.4x).
+	Shortfall float64 `json:"shortfall"`
+	Fix       *Fix    `json:"fix"`
+	// Alternatives are other changes that pass, on the spec's side (a
+	// calibration) where Fix changes parts.
+	Alternatives []Fix `json:"alternatives,omitempty"`
+
+	// class is the search's class of the near miss (for its fix).
+	class classBest
 
 	// sd and fixSD are the near miss and its fix as spec designs, for the
-	// exact budget (nil when not built).
+	// exact budget (nil when not built; fixSD nil for a calibration).
 	sd, fixSD *spec.Design
 }
 
@@ -166,10 +183,12 @@ type Failure struct {
 	Text string  `json:"text"`
 }
 
-// Fix is the cheapest single change that turns a near miss into a passing
-// design.
+// Fix is the cheapest change that turns a near miss into a passing design.
 type Fix struct {
-	// Kind is grade, part, network or amplifier.
+	// Kind is grade, network or amplifier (one change), pair (two
+	// changes: an amplifier with a grade or a network) or calibration
+	// (the same parts with a one-time calibration the spec does not ask
+	// for yet).
 	Kind      string  `json:"kind"`
 	Change    string  `json:"change"`
 	Part      string  `json:"part"`

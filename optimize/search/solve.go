@@ -60,6 +60,7 @@ func SolveCatalog(ctx context.Context, st *catalog.Store, s *spec.Spec, opt Opti
 }
 
 func solveSpec(ctx context.Context, parts *Parts, p Problem, s *spec.Spec, opt Options) (*Result, error) {
+	opt.spec = s
 	r, err := solve(ctx, parts.forSearch(), p, opt, budgetVerifier(ctx, s, opt.Trials), false)
 	if r != nil {
 		r.spec = s
@@ -248,7 +249,7 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 			}
 			adopt(&d, br)
 			if len(fails) > 0 {
-				nm := NearMiss{Design: d, Fails: fails, sd: sd}
+				nm := NearMiss{Design: d, Fails: fails, sd: sd, class: top[i], Shortfall: exactShortfall(d.Limits)}
 				nm.Reasons = []string{"passes the search's screening figures, but the exact budget fails it: " + failText(fails)}
 				rejected = append(rejected, nm)
 				continue
@@ -265,47 +266,14 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 		res.designs = append(res.designs, sd)
 	}
 	if len(rejected) > 0 {
-		res.Notes = append(res.Notes, fmt.Sprintf("%d design(s) that pass the screening figures fail the exact budget; they are listed first among the near misses", len(rejected)))
-		res.NearMisses = append(res.NearMisses, rejected[:min(len(rejected), maxNearMisses)]...)
+		res.Notes = append(res.Notes, fmt.Sprintf("%d design(s) that pass the screening figures fail the exact budget; they are among the near misses", len(rejected)))
 	}
 	if n := broken.note("design(s) that pass the screening figures are not ranked"); n != "" {
 		res.Notes = append(res.Notes, n)
 	}
-	// At most one near miss per resistor configuration, so they show
-	// different grades rather than one grade with several amplifiers; at
-	// most maxFixTries fix searches.
-	// With a spec, each is confirmed by the exact budget (nearCheck).
-	var fixless []NearMiss
-	seen := map[int]bool{}
-	tries := 0
-	check := nearCheck{verify: verify}
-	for _, f := range sp.nearCandidates(limit) {
-		if len(res.NearMisses) >= maxNearMisses+len(rejected) || tries >= maxFixTries {
-			break
-		}
-		if f.cfg >= 0 && seen[f.cfg] {
-			continue
-		}
-		tries++
-		nm, err := sp.nearMiss(&f)
-		if err != nil {
-			return nil, err
-		}
-		if !check.confirm(&nm) {
-			continue
-		}
-		if nm.Fix != nil {
-			res.NearMisses = append(res.NearMisses, nm)
-			seen[f.cfg] = true
-		} else if len(fixless) < maxNearMisses {
-			fixless = append(fixless, nm)
-		}
-	}
-	// Near misses with a single fix come first; fill up with the others.
-	for _, nm := range fixless {
-		if len(res.NearMisses) < maxNearMisses+len(rejected) {
-			res.NearMisses = append(res.NearMisses, nm)
-		}
+	check := nearCheck{verify: verify, spec: opt.spec}
+	if err := sp.addNearMisses(res, rejected, limit, &check); err != nil {
+		return nil, err
 	}
 	res.Notes = append(res.Notes, check.notes()...)
 	if err := res.finish(ctx); err != nil {
@@ -425,7 +393,7 @@ func (s *space) rankLine(prev, d *Design) string {
 	diff := d.UnitCost - prev.UnitCost
 	txt := fmt.Sprintf("costs %.4g more per stage than rank %d", diff, prev.Rank)
 	if diff == 0 {
-		txt = fmt.Sprintf("costs the same as rank %d and follows it in catalog order", prev.Rank)
+		txt = fmt.Sprintf("costs the same as rank %d and follows it on margin (the worst normalised margin first, then resistor stress)", prev.Rank)
 	}
 	if bl, ok := findLimit(d.Limits, prev.Binding); ok {
 		if pl, ok := findLimit(prev.Limits, prev.Binding); ok {
@@ -446,11 +414,25 @@ func (s *space) difference(prev, d *Design) string {
 	if prev.Family != d.Family {
 		return fmt.Sprintf("%s instead of %s", d.Family, prev.Family)
 	}
+	ch := s.differences(prev, d)
+	if len(ch) == 0 {
+		return "same grades, other price list"
+	}
+	return strings.Join(ch, ", ")
+}
+
+// differences lists the changes from design prev to design d of the same
+// family, one item per change: an amplifier, a network, one grade change
+// at the positions it covers ("R2, R4: 0.05 % 10 ppm/K instead of 0.1 %
+// 25 ppm/K"), a price list.
+func (s *space) differences(prev, d *Design) []string {
 	var ch []string
 	pp := map[string]Part{}
 	for _, p := range prev.Parts {
 		pp[p.Position] = p
 	}
+	grades := map[string][]string{} // grade change -> positions
+	var order []string
 	seen := map[string]bool{}
 	for _, p := range d.Parts {
 		q, ok := pp[p.Position]
@@ -463,7 +445,11 @@ func (s *space) difference(prev, d *Design) string {
 		case p.Kind == string(catalog.KindNetwork) && p.Part != q.Part:
 			c = fmt.Sprintf("network %s (%s) instead of %s (%s)", p.Part, gradeText(p), q.Part, gradeText(q))
 		case p.Kind == string(catalog.KindResistor) && (p.Tolerance != q.Tolerance || p.TCRppm != q.TCRppm):
-			c = fmt.Sprintf("%s %s instead of %s", p.Position, gradeText(p), gradeText(q))
+			g := fmt.Sprintf("%s instead of %s", gradeText(p), gradeText(q))
+			if _, ok := grades[g]; !ok {
+				order = append(order, g)
+			}
+			grades[g] = append(grades[g], p.Position)
 		case p.Kind == string(catalog.KindResistor) && p.Part != q.Part && p.ValueOhm == q.ValueOhm:
 			c = fmt.Sprintf("%s from %s (same grade, other price list)", p.Position, p.Part)
 		}
@@ -472,10 +458,11 @@ func (s *space) difference(prev, d *Design) string {
 			ch = append(ch, c)
 		}
 	}
-	if len(ch) == 0 {
-		return "same grades, other price list"
+	var out []string
+	for _, g := range order {
+		out = append(out, strings.Join(grades[g], ", ")+": "+g)
 	}
-	return strings.Join(ch, ", ")
+	return append(out, ch...)
 }
 
 func gradeText(p Part) string {
@@ -597,15 +584,14 @@ func (s *space) idealGain(k0 float64) float64 {
 	return k0
 }
 
-// nearMiss describes a failing class and searches for the cheapest single
-// change that makes it pass: another amplifier, another grade group at the
-// Rg or the Rf positions, or another network.
+// nearMiss describes a failing class: its parts, its figures and the
+// limits it fails, by how much. Its fix is found by findFix.
 func (s *space) nearMiss(f *classBest) (NearMiss, error) {
 	d, sd, err := s.describe(f)
 	if err != nil {
 		return NearMiss{}, err
 	}
-	nm := NearMiss{Design: d, sd: sd}
+	nm := NearMiss{Design: d, sd: sd, class: *f}
 	for _, l := range d.Limits {
 		if l.Pass {
 			continue
@@ -619,29 +605,14 @@ func (s *space) nearMiss(f *classBest) (NearMiss, error) {
 		txt := fmt.Sprintf("%s %s against a limit of %s", l.Name, limitText(l), limitText(Limit{Name: l.Name, Value: l.Limit, Unit: l.Unit}))
 		nm.Fails = append(nm.Fails, Failure{Name: l.Name, Value: l.Value, Limit: l.Limit, By: by, Text: txt})
 	}
-	nm.Reasons = []string{fmt.Sprintf("cheaper than rank 1 but fails %d limit(s)", len(nm.Fails))}
-	best, kind, change, part, at := s.cheapestFix(f)
-	if kind != "" {
-		bd, fsd, err := s.describe(&best)
-		if err != nil {
-			return NearMiss{}, err
-		}
-		nm.fixSD = fsd
-		if part == "" {
-			part = partAt(bd.Parts, at)
-		}
-		nm.Fix = &Fix{Kind: kind, Change: change, Part: part, TotalCost: bd.TotalCost, ExtraCost: bd.UnitCost - d.UnitCost}
-		nm.Reasons = append(nm.Reasons, fmt.Sprintf("%s: %s (%.4g more per stage)", fixReason, change, nm.Fix.ExtraCost))
-	} else {
-		nm.Reasons = append(nm.Reasons, "no single change of grade, part or amplifier makes it pass")
-	}
+	nm.Shortfall = exactShortfall(d.Limits)
+	nm.Reasons = []string{fmt.Sprintf("fails %d limit(s)", len(nm.Fails))}
 	return nm, nil
 }
 
-// fixReason starts the reason line that names a near miss's fix.
-const fixReason = "cheapest single change that passes"
-
-// fixCand is one single change to a failing class.
+// fixCand is one change to a failing class: a single change (another
+// amplifier, grade or network) or a pair (another amplifier with another
+// grade or network).
 type fixCand struct {
 	ci, ai int // the changed class (ci < 0: matched amplifier ai)
 	lb     float64
@@ -662,14 +633,30 @@ func partAt(parts []Part, at []string) string {
 	return ""
 }
 
-// cheapestFix searches the single changes of a failing class in order of
-// their cost lower bound, skipping those whose error bound fails, and
-// returns the cheapest that passes with its kind, a description and the
-// part it brings in ("" kind when none passes); for a grade change, part is
-// "" and at lists the positions changed.
-func (s *space) cheapestFix(f *classBest) (best classBest, kind, change, part string, at []string) {
-	best = classBest{cost: math.Inf(1)}
-	var cands []fixCand
+// maxFixCands is how many passing changes of each size (single, pair) the
+// fix search collects for the exact budget to confirm in cost order;
+// maxPairLook bounds the (configuration, amplifier) pairs a pair search
+// looks at.
+const (
+	maxFixCands = 3
+	maxPairLook = 4096
+)
+
+// fixOpt is a change that passes the screening figures, with the design it
+// makes.
+type fixOpt struct {
+	b    classBest
+	cand fixCand
+}
+
+// fixCandidates returns the changes of failing class f that pass the
+// screening figures, cheapest first: up to maxFixCands single changes and,
+// with pairs, up to maxFixCands pairs of changes (an amplifier together
+// with a grade or a network). Candidates are visited in order of their
+// cost lower bound and skipped when their error bound fails, as in the
+// search itself.
+func (s *space) fixCandidates(f *classBest, pairs bool) (singles, doubles []fixOpt) {
+	var cands, related []fixCand
 	if f.cfg < 0 {
 		for mi := range s.matched {
 			if mi != f.amp {
@@ -689,22 +676,37 @@ func (s *space) cheapestFix(f *classBest) (best classBest, kind, change, part st
 				continue
 			}
 			lb := o.costLB + s.amps[f.amp].cost
+			kind := ""
 			switch {
 			case c.fam == NetworkDifference:
-				cands = append(cands, fixCand{ci, f.amp, lb, "network"})
+				kind = "network"
 			case o.g.s2 != c.g.s2:
 				// Another second stage is not a grade change.
 			case o.gb == c.gb || o.ga == c.ga || (c.ga == c.gb && o.ga == o.gb):
 				// One grade at one set of positions, or one grade for all.
-				cands = append(cands, fixCand{ci, f.amp, lb, "grade"})
+				kind = "grade"
+			}
+			if kind != "" {
+				cands = append(cands, fixCand{ci, f.amp, lb, kind})
+				related = append(related, fixCand{ci, -1, o.costLB, kind})
 			}
 		}
 	}
+	singles = s.passingFixes(cands)
+	if pairs && f.cfg >= 0 && len(related) > 0 {
+		doubles = s.passingPairs(f, related)
+	}
+	return singles, doubles
+}
+
+// passingFixes evaluates candidate changes in order of their cost lower
+// bound and returns up to maxFixCands that pass, cheapest first.
+func (s *space) passingFixes(cands []fixCand) []fixOpt {
 	sort.SliceStable(cands, func(i, j int) bool { return cands[i].lb < cands[j].lb })
+	var out []fixOpt
 	var m metrics
-	var won fixCand
 	for _, cd := range cands {
-		if cd.lb > best.cost {
+		if len(out) >= maxFixCands && cd.lb > out[len(out)-1].b.cost {
 			break
 		}
 		var b classBest
@@ -718,34 +720,90 @@ func (s *space) cheapestFix(f *classBest) (best classBest, kind, change, part st
 			}
 			b, ok = s.evalClass(cd.ci, cd.ai)
 		}
-		if ok && b.pass && b.less(&best) {
-			best, won = b, cd
+		if ok && b.pass {
+			out = insertFix(out, fixOpt{b, cd})
 		}
 	}
-	if math.IsInf(best.cost, 1) {
-		return best, "", "", "", nil
+	return out
+}
+
+// passingPairs walks (related configuration, other amplifier) pairs in
+// order of their cost lower bound and returns up to maxFixCands that pass.
+func (s *space) passingPairs(f *classBest, related []fixCand) []fixOpt {
+	var cfgs []int32
+	sort.SliceStable(related, func(i, j int) bool { return related[i].lb < related[j].lb })
+	kinds := map[int]string{}
+	for _, r := range related {
+		cfgs = append(cfgs, int32(r.ci))
+		kinds[r.ci] = r.kind
 	}
+	amps := s.sortedAmps(func(ai int) bool { return ai != f.amp })
+	var out []fixOpt
+	var m metrics
+	looked := 0
+	s.walkPairs(cfgs, amps, func(ci, ai int, lb float64) bool {
+		looked++
+		if looked > maxPairLook || (len(out) >= maxFixCands && lb > out[len(out)-1].b.cost) {
+			return true
+		}
+		s.bound(&s.cfgs[ci].g, &s.amps[ai], &m)
+		if !s.pass(&m) {
+			return false
+		}
+		if b, ok := s.evalClass(ci, ai); ok {
+			out = insertFix(out, fixOpt{b, fixCand{ci, ai, lb, kinds[ci] + " and amplifier"}})
+		}
+		return false
+	})
+	return out
+}
+
+// insertFix keeps the maxFixCands cheapest fixes in cost order.
+func insertFix(out []fixOpt, f fixOpt) []fixOpt {
+	i := sort.Search(len(out), func(i int) bool { return f.b.less(&out[i].b) })
+	out = slices.Insert(out, i, f)
+	return out[:min(len(out), maxFixCands)]
+}
+
+// fixChange describes fix o of failing class f in words, with the part it
+// brings in ("" for a grade change, where at lists the positions changed).
+func (s *space) fixChange(f *classBest, o fixOpt) (change, part string, at []string) {
+	won := o.cand
 	rgPos, rfPos := s.positions()
+	var amp string
+	if won.ci >= 0 && won.ai != f.amp && f.cfg >= 0 {
+		a := s.amps[won.ai].a
+		amp = "amplifier " + a.Part + " instead of " + s.amps[f.amp].a.Part
+		part = a.Part
+	}
+	join := func(c string) string {
+		if amp == "" {
+			return c
+		}
+		if c == "" {
+			return amp
+		}
+		return c + "; " + amp
+	}
 	switch {
 	case won.ci < 0:
 		a := s.matched[won.ai].a
-		return best, won.kind, "matched amplifier " + a.Part + " instead of " + s.matched[f.amp].a.Part, a.Part, nil
-	case won.kind == "amplifier":
-		a := s.amps[won.ai].a
-		return best, won.kind, "amplifier " + a.Part + " instead of " + s.amps[f.amp].a.Part, a.Part, nil
-	case won.kind == "network":
+		return "matched amplifier " + a.Part + " instead of " + s.matched[f.amp].a.Part, a.Part, nil
+	case won.ci == f.cfg:
+		return join(""), part, nil
+	case strings.HasPrefix(won.kind, "network"):
 		n := s.nets[s.cfgs[won.ci].net]
-		return best, won.kind, "network " + n.Part + " instead of " + s.nets[s.cfgs[f.cfg].net].Part, n.Part, nil
+		return join("network " + n.Part + " instead of " + s.nets[s.cfgs[f.cfg].net].Part), n.Part, nil
 	}
-	c, o := &s.cfgs[f.cfg], &s.cfgs[won.ci]
-	if o.ga != c.ga && o.gb != c.gb {
+	c, o2 := &s.cfgs[f.cfg], &s.cfgs[won.ci]
+	switch {
+	case o2.ga != c.ga && o2.gb != c.gb:
 		all := append(append([]string{}, rgPos...), rfPos...)
-		return best, won.kind, fmt.Sprintf("%s: %s instead of %s", strings.Join(all, ", "), groupText(s.groups[o.ga]), groupText(s.groups[c.ga])), "", all
+		return join(fmt.Sprintf("%s: %s instead of %s", strings.Join(all, ", "), groupText(s.groups[o2.ga]), groupText(s.groups[c.ga]))), part, all
+	case o2.ga != c.ga:
+		return join(fmt.Sprintf("%s: %s instead of %s", strings.Join(rgPos, ", "), groupText(s.groups[o2.ga]), groupText(s.groups[c.ga]))), part, rgPos
 	}
-	if o.ga != c.ga {
-		return best, won.kind, fmt.Sprintf("%s: %s instead of %s", strings.Join(rgPos, ", "), groupText(s.groups[o.ga]), groupText(s.groups[c.ga])), "", rgPos
-	}
-	return best, won.kind, fmt.Sprintf("%s: %s instead of %s", strings.Join(rfPos, ", "), groupText(s.groups[o.gb]), groupText(s.groups[c.gb])), "", rfPos
+	return join(fmt.Sprintf("%s: %s instead of %s", strings.Join(rfPos, ", "), groupText(s.groups[o2.gb]), groupText(s.groups[c.gb]))), part, rfPos
 }
 
 func groupText(g *group) string {

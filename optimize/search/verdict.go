@@ -57,15 +57,8 @@ func (r *Result) finish(ctx context.Context) error {
 		}
 	}
 	var broken unchecked
-	kept := r.NearMisses[:0]
-	for i := range r.NearMisses {
-		if err := budget.CheckFinite("near miss "+r.NearMisses[i].Family, &r.NearMisses[i]); err != nil {
-			broken.add(err)
-			continue
-		}
-		kept = append(kept, r.NearMisses[i])
-	}
-	r.NearMisses = kept
+	r.NearMisses = keepFinite(r.NearMisses, "near miss ", &broken)
+	r.CheapestFailing = keepFinite(r.CheapestFailing, "failing design ", &broken)
 	if n := broken.note("near miss(es) are not listed"); n != "" {
 		r.Notes = append(r.Notes, n)
 	}
@@ -75,4 +68,18 @@ func (r *Result) finish(ctx context.Context) error {
 		}
 	}
 	return nil
+}
+
+// keepFinite drops the failing designs with a figure that is not finite,
+// counting them in broken.
+func keepFinite(list []NearMiss, what string, broken *unchecked) []NearMiss {
+	kept := list[:0]
+	for i := range list {
+		if err := budget.CheckFinite(what+list[i].Family, &list[i]); err != nil {
+			broken.add(err)
+			continue
+		}
+		kept = append(kept, list[i])
+	}
+	return kept
 }
