@@ -85,6 +85,10 @@ func ReadSnapshotJSON(r io.Reader) (*Snapshot, error) {
 		return nil, fmt.Errorf("%w: \"format\" is %q, want %q: give a file written by plumb's catalog export",
 			ErrSnapshot, head.Format, SnapshotFormat)
 	}
+	if head.SchemaVersion < 1 {
+		return nil, fmt.Errorf("%w: \"schema_version\" is %d, which no plumb writes: give a file written by plumb's catalog export",
+			ErrSnapshot, head.SchemaVersion)
+	}
 	if head.SchemaVersion > SchemaVersionCurrent {
 		return nil, fmt.Errorf("%w: %w: snapshot has schema version %d, this plumb knows up to %d: upgrade plumb",
 			ErrSnapshot, ErrNewerSchema, head.SchemaVersion, SchemaVersionCurrent)

@@ -21,6 +21,13 @@ var (
 	ErrExists = errors.New("catalog: file exists")
 	// ErrMissing: Open was asked to open a file that does not exist.
 	ErrMissing = errors.New("catalog: no catalog file")
+	// ErrDamaged: the file is a plumb catalog whose content SQLite or plumb
+	// cannot read: a schema version out of range, a table missing, pages
+	// of garbage.
+	ErrDamaged = errors.New("catalog: the catalog file is damaged")
+	// ErrReadOnly: a change was asked of a catalog opened read-only (a
+	// file, or a directory, this process may not write).
+	ErrReadOnly = errors.New("catalog: the catalog is read-only")
 	// ErrInvalid: a part in a batch or snapshot fails validation.
 	ErrInvalid = errors.New("catalog: invalid part")
 )
@@ -38,10 +45,16 @@ const KindSeries Kind = "series"
 // mode, writes run in BEGIN IMMEDIATE transactions and wait up to
 // BusyTimeout for another writer.
 type Store struct {
-	db      *sqlx.DB
-	path    string
-	version int
+	db       *sqlx.DB
+	path     string
+	version  int
+	readOnly bool
 }
+
+// ReadOnly reports whether the catalog was opened read-only: Open does so
+// when this process may not write the file or its directory, and every
+// change is then refused with ErrReadOnly.
+func (s *Store) ReadOnly() bool { return s.readOnly }
 
 // Path returns the catalog file path ("" for an in-memory catalog).
 func (s *Store) Path() string { return s.path }
@@ -152,7 +165,10 @@ func Create(path string, force bool) (*Store, error) { return create(path, force
 
 // Open opens an existing catalog file, migrating an older schema forward.
 // A missing file wraps ErrMissing, a file that is not a plumb catalog wraps
-// ErrNotCatalog, a newer schema wraps ErrNewerSchema.
+// ErrNotCatalog, a newer schema wraps ErrNewerSchema, a damaged file
+// (schema version out of range, a table missing, pages SQLite cannot read)
+// wraps ErrDamaged. A file or directory this process may not write is
+// opened read-only (see ReadOnly).
 func Open(path string) (*Store, error) { return open(path) }
 
 // OpenMemory returns a fresh, empty in-memory catalog.

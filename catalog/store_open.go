@@ -9,12 +9,15 @@ import (
 	"io/fs"
 	"os"
 	"path/filepath"
+	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
 
 	"github.com/jmoiron/sqlx"
-	_ "modernc.org/sqlite" // registers the "sqlite" driver
+	"modernc.org/sqlite" // registers the "sqlite" driver
+	sqlite3 "modernc.org/sqlite/lib"
 )
 
 // BusyTimeout is how long a writer waits for another writer's lock before
@@ -37,6 +40,20 @@ var sqliteMagic = []byte("SQLite format 3\x00")
 func dsn(path string) string {
 	return path + "?_pragma=busy_timeout(" + strconv.Itoa(int(BusyTimeout/time.Millisecond)) + ")" +
 		"&_pragma=cache_size(-65536)&_pragma=temp_store(MEMORY)&_pragma=foreign_keys(1)&_pragma=synchronous(NORMAL)&_txlock=immediate"
+}
+
+// readOnlyDSN is the data source name of a catalog opened read-only: a
+// file: URI with mode=ro. In a directory this process cannot write, SQLite
+// cannot make the WAL index (-shm) a WAL-mode reader needs, so the file is
+// opened immutable as well, which needs no lock or index file; that is
+// safe only while no -wal file holds changes not yet in the catalog, and
+// open refuses the catalog when one does.
+func readOnlyDSN(path string, immutable bool) string {
+	uri := "file:" + strings.ReplaceAll(path, "%", "%25") + "?mode=ro"
+	if immutable {
+		uri += "&immutable=1"
+	}
+	return uri + "&_pragma=busy_timeout(" + strconv.Itoa(int(BusyTimeout/time.Millisecond)) + ")&_pragma=foreign_keys(1)"
 }
 
 func checkPath(path string) error {
@@ -137,17 +154,29 @@ func open(path string) (*Store, error) {
 	if err := checkMagic(path); err != nil {
 		return nil, err
 	}
-	db, err := sqlx.Open("sqlite", dsn(path))
+	// A catalog this process may not write (a shared one) is opened
+	// read-only: every command that only reads works on it.
+	source, readOnly := dsn(path), false
+	if dirOK := canWrite(filepath.Dir(path)); !dirOK || !canWrite(path) {
+		readOnly = true
+		immutable := !dirOK
+		if _, err := os.Stat(path + "-wal"); immutable && err == nil {
+			return nil, fmt.Errorf("%w: %s is read-only here and its %s-wal file holds changes not yet written into it: ask its owner to run any plumb command on it (that merges them), or copy the catalog to a folder you can write",
+				ErrReadOnly, path, filepath.Base(path))
+		}
+		source = readOnlyDSN(path, immutable)
+	}
+	db, err := sqlx.Open("sqlite", source)
 	if err != nil {
 		return nil, fmt.Errorf("catalog: open %s: %w", path, err)
 	}
 	db.SetMaxOpenConns(maxFileConns)
-	version, err := checkCatalog(db, path)
+	version, err := checkCatalog(db, path, readOnly)
 	if err != nil {
 		db.Close()
 		return nil, err
 	}
-	return &Store{db: db, path: path, version: version}, nil
+	return &Store{db: db, path: path, version: version, readOnly: readOnly}, nil
 }
 
 // checkMagic refuses a file that is not SQLite before the driver touches it.
@@ -166,10 +195,13 @@ func checkMagic(path string) error {
 
 // checkCatalog checks the application_id and schema version, migrating an
 // older catalog forward, and returns the version.
-func checkCatalog(db *sqlx.DB, path string) (int, error) {
+func checkCatalog(db *sqlx.DB, path string, readOnly bool) (int, error) {
 	ctx := context.Background()
 	var appID, version int
 	if err := db.GetContext(ctx, &appID, "PRAGMA application_id"); err != nil {
+		if d := damaged(path, err); d != err {
+			return 0, d
+		}
 		return 0, fmt.Errorf("%w: %s is not a plumb catalog (%v)", ErrNotCatalog, path, err)
 	}
 	if appID != ApplicationID {
@@ -182,12 +214,61 @@ func checkCatalog(db *sqlx.DB, path string) (int, error) {
 		return 0, fmt.Errorf("%w: catalog %s has schema version %d, this plumb knows up to %d: upgrade plumb",
 			ErrNewerSchema, path, version, SchemaVersionCurrent)
 	}
+	if version < 0 {
+		return 0, fmt.Errorf("%w: %s has schema version %d, which no plumb writes: %s", ErrDamaged, path, version, restoreAdvice)
+	}
+	if version < SchemaVersionCurrent && readOnly {
+		return 0, fmt.Errorf("%w: %s has schema version %d, and this plumb reads version %d: it cannot upgrade a catalog it may not write; ask its owner to open it once with this plumb",
+			ErrReadOnly, path, version, SchemaVersionCurrent)
+	}
 	if version < SchemaVersionCurrent {
 		if err := migrate(ctx, db, path, version); err != nil {
-			return 0, err
+			return 0, damaged(path, err)
 		}
 	}
+	if err := checkTables(ctx, db, path); err != nil {
+		return 0, err
+	}
 	return SchemaVersionCurrent, nil
+}
+
+// restoreAdvice ends the message of a damaged catalog.
+const restoreAdvice = "restore it from a backup, or make a new one with plumb catalog init and import the parts again"
+
+// tableRE finds the tables the migrations create.
+var tableRE = regexp.MustCompile(`(?i)CREATE TABLE (?:IF NOT EXISTS )?(\w+)`)
+
+// checkTables refuses a catalog that lacks a table its schema creates, so
+// that a damaged file is named as such once, on open, not as an SQL error
+// in whatever command reads the table first.
+func checkTables(ctx context.Context, db *sqlx.DB, path string) error {
+	var have []string
+	if err := db.SelectContext(ctx, &have, "SELECT name FROM sqlite_master WHERE type = 'table'"); err != nil {
+		return damaged(path, fmt.Errorf("catalog: open %s: list tables: %w", path, err))
+	}
+	for _, m := range migrations {
+		for _, t := range tableRE.FindAllStringSubmatch(m, -1) {
+			if !slices.Contains(have, t[1]) {
+				return fmt.Errorf("%w: %s: table %s is missing: %s", ErrDamaged, path, t[1], restoreAdvice)
+			}
+		}
+	}
+	return nil
+}
+
+// damaged turns an SQLite error saying the file is corrupt (SQLITE_CORRUPT,
+// SQLITE_NOTADB) into one wrapping ErrDamaged that names the catalog at
+// path and says what to do; other errors come back as they are.
+func damaged(path string, err error) error {
+	var se *sqlite.Error
+	if err == nil || errors.Is(err, ErrDamaged) || !errors.As(err, &se) {
+		return err
+	}
+	switch se.Code() & 0xff {
+	case sqlite3.SQLITE_CORRUPT, sqlite3.SQLITE_NOTADB:
+		return fmt.Errorf("%w: %s (%w): %s; plumb catalog export may still read the parts that are intact", ErrDamaged, path, err, restoreAdvice)
+	}
+	return err
 }
 
 // migrate applies migrations[from:], each step in its own BEGIN IMMEDIATE

@@ -15,10 +15,10 @@ import (
 func (s *Store) readTx(ctx context.Context, f func(q querier) error) error {
 	tx, err := s.db.BeginTxx(ctx, &sql.TxOptions{ReadOnly: true})
 	if err != nil {
-		return fmt.Errorf("catalog: read %s: %w", s.name(), err)
+		return damaged(s.name(), fmt.Errorf("catalog: read %s: %w", s.name(), err))
 	}
 	defer tx.Rollback()
-	return f(tx)
+	return damaged(s.name(), f(tx))
 }
 
 // where builds the SQL condition of f for table t; skip is true when the

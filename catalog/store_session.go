@@ -71,6 +71,9 @@ func (k *kindState) seen(id int64) bool {
 // no-op, so a deferred Rollback is safe).
 func (s *Store) BeginUpsert(ctx context.Context, opt UpsertOptions) (*UpsertSession, error) {
 	where := "catalog " + s.name()
+	if s.readOnly {
+		return nil, fmt.Errorf("%w: %s: this process may not write the file or its folder; import into a catalog you can write, or ask its owner", ErrReadOnly, s.name())
+	}
 	u := &upsertRun{opt: opt, now: opt.Now.UTC()}
 	if opt.Now.IsZero() {
 		u.now = time.Now().UTC()

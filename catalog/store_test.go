@@ -574,6 +574,7 @@ func TestReadSnapshotJSONErrors(t *testing.T) {
 		{"bad syntax", "bad_syntax.json", ErrSnapshot, []string{"line 4"}},
 		{"wrong type", "wrong_type.json", ErrSnapshot, []string{"line 6", "value_ohm"}},
 		{"newer schema", "newer_schema.json", ErrNewerSchema, []string{"schema version 99", "upgrade plumb"}},
+		{"negative schema", "negative_schema.json", ErrSnapshot, []string{`"schema_version" is -1`}},
 		{"invalid part", "invalid_part.json", ErrInvalid, []string{"BAD-1", "tolerance", "0.001 for 0.1 %"}},
 	}
 	for _, tc := range tests {

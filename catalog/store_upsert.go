@@ -124,15 +124,15 @@ func (s *Store) upsert(ctx context.Context, b *Batch, opt UpsertOptions) ([]Upse
 	}
 	us, err := s.BeginUpsert(ctx, opt)
 	if err != nil {
-		return nil, err
+		return nil, damaged(s.name(), err)
 	}
 	defer us.Rollback()
 	res, err := us.Add(ctx, b)
 	if err != nil {
-		return nil, err
+		return nil, damaged(s.name(), err)
 	}
 	if err := us.Commit(); err != nil {
-		return nil, err
+		return nil, damaged(s.name(), err)
 	}
 	return res, nil
 }
