@@ -180,10 +180,13 @@ func (s *Store) EachResistor(ctx context.Context, q ResistorQuery, fn func(*Resi
 			}
 			return fn(&row)
 		}
-		g := &row.Grade
+		// Each result row is scanned into next; a new part id emits the
+		// part before it.
+		var next ResistorRow
+		g := &next.Grade
 		n := 0
 		for rows.Next() {
-			if err := rows.Scan(&id, &part, &row.ValueOhm, &tech, &pkg, &g.Tolerance, &g.TCR, &g.PowerW, &g.MaxVoltageV,
+			if err := rows.Scan(&id, &part, &next.ValueOhm, &tech, &pkg, &g.Tolerance, &g.TCR, &g.PowerW, &g.MaxVoltageV,
 				&g.ThermalResistance, &g.LoadLife, &minOrder, &stock, &qty, &pb.UnitPrice, &c); err != nil {
 				return err
 			}
@@ -197,7 +200,8 @@ func (s *Store) EachResistor(ctx context.Context, q ResistorQuery, fn func(*Resi
 					}
 				}
 				cur = id
-				row.Part, g.Technology, g.Package = part, in(tech), in(pkg)
+				row.Part, row.ValueOhm, row.Grade = part, next.ValueOhm, next.Grade
+				row.Grade.Technology, row.Grade.Package = in(tech), in(pkg)
 				row.Offer.MinOrder, row.Offer.Stock = int(minOrder), int(stock)
 				row.Offer.PriceBreaks = row.Offer.PriceBreaks[:0]
 			}

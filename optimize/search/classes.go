@@ -1,9 +1,11 @@
 package search
 
 import (
+	"cmp"
 	"context"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 
 	"plumb/catalog"
@@ -29,6 +31,9 @@ type space struct {
 	byLB             []int32 // configuration indexes by cost lower bound
 	why              hardReason
 	nets             []*catalog.Network
+	// gainFrom is, per configuration and open-loop gain, the first option
+	// that meets the gain and drift limits (see evalClass).
+	gainFrom map[aolKey]int32
 	// Instrumentation amplifier: the second-stage gain of this sub-search,
 	// its choices and the largest voltages across R1/R3 and R2/R4.
 	k2     float64
@@ -57,6 +62,7 @@ type option struct {
 	rg, rf, rf2 int32 // value indexes in the groups; rf2 = -1 without a combination
 	par         bool  // rf and rf2 in parallel (else in series)
 	far         bool  // rf is not one of the two values either side of the target
+	seq         int32 // generation order, the last sort key
 	cost        float64
 	short       bool
 }
@@ -327,15 +333,7 @@ func (s *space) options(c *config) []option {
 		// reference heavily nor adds much bias-current error.
 		gi, mid := s.groups[c.ga], math.Sqrt(s.p.RMinOhm*s.p.RMaxOhm)
 		off := func(o *option) float64 { return math.Abs(math.Log(gi.values[o.rg] / mid)) }
-		sort.SliceStable(c.opts, func(i, j int) bool {
-			if c.opts[i].cost != c.opts[j].cost {
-				return c.opts[i].cost < c.opts[j].cost
-			}
-			if c.opts[i].far != c.opts[j].far {
-				return !c.opts[i].far
-			}
-			return off(&c.opts[i]) < off(&c.opts[j])
-		})
+		sortOptions(c.opts, off)
 		return c.opts
 	}
 	ga, gb := s.groups[c.ga], s.groups[c.gb]
@@ -392,13 +390,42 @@ func (s *space) options(c *config) []option {
 			})
 		}
 	}
-	sort.SliceStable(c.opts, func(i, j int) bool {
-		if c.opts[i].cost != c.opts[j].cost {
-			return c.opts[i].cost < c.opts[j].cost
-		}
-		return !c.opts[i].far && c.opts[j].far
-	})
+	sortOptions(c.opts, nil)
 	return c.opts
+}
+
+// sortOptions orders options by cost, then the two values either side of
+// the target before farther ones, then by off (nil: none), then in the
+// order they were made: a stable sort without its cost on long lists.
+func sortOptions(opts []option, off func(*option) float64) {
+	for i := range opts {
+		opts[i].seq = int32(i)
+	}
+	slices.SortFunc(opts, func(a, b option) int {
+		if a.cost != b.cost {
+			return cmp.Compare(a.cost, b.cost)
+		}
+		if a.far != b.far {
+			return boolOrder(a.far, b.far)
+		}
+		if off != nil {
+			if x, y := off(&a), off(&b); x != y {
+				return cmp.Compare(x, y)
+			}
+		}
+		return cmp.Compare(a.seq, b.seq)
+	})
+}
+
+// boolOrder orders false before true.
+func boolOrder(a, b bool) int {
+	if a == b {
+		return 0
+	}
+	if a {
+		return 1
+	}
+	return -1
 }
 
 // cheaper calls f with index from of group g and with each index beyond
@@ -519,6 +546,7 @@ func (s *space) quant(rg, rf float64) float64 {
 // resetOptions forgets the value options of the discrete configurations
 // (benchmarks measure a fresh search with it).
 func (s *space) resetOptions() {
+	s.gainFrom = nil
 	for i := range s.cfgs {
 		if s.cfgs[i].fam != NetworkDifference {
 			s.cfgs[i].opts, s.cfgs[i].built = s.cfgs[i].opts[:0], false

@@ -41,18 +41,36 @@ func (s *space) classID(cfg, amp int) uint64 {
 // op-amp ai. Options are sorted by cost, so the first that passes is the
 // cheapest; the passing options of that same cost are then compared by
 // their tie key (the worst margin first, then resistor stress).
+//
+// The gain errors and the drift of an option depend on the amplifier only
+// through its open-loop gain, so the first option that meets those limits
+// is remembered per configuration and open-loop gain (s.gainFrom): with any
+// other amplifier of that gain the options before it fail too, and a
+// configuration none of whose options meets them is not evaluated again.
 func (s *space) evalClass(ci, ai int) (classBest, bool) {
 	c := &s.cfgs[ci]
 	a := &s.amps[ai]
 	var m metrics
 	best := classBest{opt: -1}
 	opts := s.options(c)
-	for i := range opts {
+	key := aolKey{int32(ci), a.a.AolVV}
+	from, known := s.gainFrom[key]
+	if !known {
+		from = int32(len(opts))
+	}
+	start := 0
+	if known {
+		start = int(from)
+	}
+	for i := start; i < len(opts); i++ {
 		o := &opts[i]
 		if best.opt >= 0 && o.cost != opts[best.opt].cost {
 			break
 		}
 		s.evalOpt(c, o, a, &m)
+		if !known && int32(i) < from && s.passGain(&m) {
+			from = int32(i)
+		}
 		if !s.pass(&m) {
 			continue
 		}
@@ -60,7 +78,26 @@ func (s *space) evalClass(ci, ai int) (classBest, bool) {
 			best = classBest{id: s.classID(ci, ai), cfg: ci, amp: ai, opt: i, cost: o.cost + a.cost, m: m, pass: true, key: k}
 		}
 	}
+	if !known {
+		if s.gainFrom == nil {
+			s.gainFrom = map[aolKey]int32{}
+		}
+		s.gainFrom[key] = from
+	}
 	return best, best.opt >= 0
+}
+
+// aolKey is a configuration and an open-loop gain (see evalClass).
+type aolKey struct {
+	cfg int32
+	aol float64
+}
+
+// passGain reports whether m meets the limits that depend on the
+// amplifier only through its open-loop gain: the gain errors and drift.
+func (s *space) passGain(m *metrics) bool {
+	l := &s.p.Limits
+	return withinMax(m.gainErr, l.GainError) && withinMax(m.totalErr, l.TotalGainError) && withinMax(m.drift, l.DriftPPM)
 }
 
 // cheapestClass returns the cheapest option of a class whether it passes

@@ -191,23 +191,38 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 	if err != nil {
 		return nil, err
 	}
-	// Keep more classes than ranked: the same grades from another price
-	// list fold into the design above (see gradeKey), and designs the exact
-	// budget fails are replaced.
+	// Keep more classes than ranked: the same grades in another size,
+	// technology or part fold into the design above (see gradeKey), and
+	// designs the exact budget fails are replaced.
 	keep := foldExtra * opt.Top
 	if verify != nil {
 		keep += verifyExtra(opt.Top)
 	}
 	var top []classBest
 	var st stats
-	if exhaustive {
-		st = stats{classes: sp.classCount(), visited: sp.classCount(), evaluated: sp.classCount()}
-		top, err = sp.exhaustive(ctx, keep)
-	} else {
-		top, st, err = sp.branchAndBound(ctx, keep, opt.Progress)
-	}
-	if err != nil {
-		return nil, fmt.Errorf("search: %w", err)
+	for {
+		if exhaustive {
+			st = stats{classes: sp.classCount(), visited: sp.classCount(), evaluated: sp.classCount()}
+			top, err = sp.exhaustive(ctx, keep)
+		} else {
+			top, st, err = sp.branchAndBound(ctx, keep, opt.Progress)
+		}
+		if err != nil {
+			return nil, fmt.Errorf("search: %w", err)
+		}
+		// Classes of the same grades in other sizes or technologies fold
+		// into one design: where they crowd the list, look further.
+		if len(top) < keep || keep >= maxKeep*opt.Top {
+			break
+		}
+		distinct, err := sp.distinctDesigns(top)
+		if err != nil {
+			return nil, err
+		}
+		if distinct >= opt.Top+verifyExtra(opt.Top) || (verify == nil && distinct >= opt.Top) {
+			break
+		}
+		keep *= 4
 	}
 	if opt.Progress != nil {
 		opt.Progress(st.classes, st.classes)
@@ -226,6 +241,12 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 	var broken unchecked
 	limit := math.Inf(1)
 	folded := map[string]int{} // grade key -> index in res.Designs
+	type fold struct {
+		n        int
+		min, max float64
+		parts    string
+	}
+	folds := map[int]*fold{}
 	for i := range top {
 		if len(res.Designs) >= opt.Top {
 			break
@@ -235,8 +256,13 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 			return nil, err
 		}
 		if j, ok := folded[gradeKey(&d)]; ok {
-			above := &res.Designs[j]
-			above.Reasons = append(above.Reasons, fmt.Sprintf("the same grades from other price lists (%s) cost %.4g more per stage", partList(&d), d.UnitCost-above.UnitCost))
+			more := d.UnitCost - res.Designs[j].UnitCost
+			if f := folds[j]; f == nil {
+				folds[j] = &fold{1, more, more, partList(&d)}
+			} else {
+				f.n++
+				f.min, f.max = math.Min(f.min, more), math.Max(f.max, more)
+			}
 			continue
 		}
 		if verify != nil {
@@ -265,6 +291,15 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 		res.Designs = append(res.Designs, d)
 		res.designs = append(res.designs, sd)
 	}
+	// One line per design for the classes folded into it.
+	for j, f := range folds {
+		d := &res.Designs[j]
+		if f.n == 1 {
+			d.Reasons = append(d.Reasons, fmt.Sprintf("the same grades in another size, technology or part (%s) cost %.4g more per stage", f.parts, f.min))
+		} else {
+			d.Reasons = append(d.Reasons, fmt.Sprintf("the same grades in %d other sizes, technologies or parts cost %.4g to %.4g more per stage (the cheapest: %s)", f.n, f.min, f.max, f.parts))
+		}
+	}
 	if len(rejected) > 0 {
 		res.Notes = append(res.Notes, fmt.Sprintf("%d design(s) that pass the screening figures fail the exact budget; they are among the near misses", len(rejected)))
 	}
@@ -291,9 +326,27 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 	return res, nil
 }
 
-// foldExtra is how many classes per ranked design the search keeps, so
-// that designs differing only in price list can fold into one row.
-const foldExtra = 4
+// foldExtra is how many classes per ranked design the search keeps at
+// first, so that designs differing only in resistor size, technology or
+// part can fold into one row; where they crowd the list the search keeps
+// four times as many, up to maxKeep per ranked design.
+const (
+	foldExtra = 4
+	maxKeep   = 256
+)
+
+// distinctDesigns counts the designs the classes fold into (gradeKey).
+func (s *space) distinctDesigns(top []classBest) (int, error) {
+	seen := map[string]bool{}
+	for i := range top {
+		d, _, err := s.describe(&top[i])
+		if err != nil {
+			return 0, err
+		}
+		seen[gradeKey(&d)] = true
+	}
+	return len(seen), nil
+}
 
 // gradeKey identifies what makes designs really different: the family,
 // each position's kind and grade (tolerance and tempco, or the network or

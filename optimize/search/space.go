@@ -274,6 +274,14 @@ func gradeLess(a, b *catalog.ResistorGrade) bool {
 	return false
 }
 
+// resistorQuery selects the resistor rows a problem can use: inside its
+// value window, tolerance below 50 %, in the build's currency, with stock
+// on hand under cost.StockExclude.
+func resistorQuery(p *Problem) catalog.ResistorQuery {
+	return catalog.ResistorQuery{MinOhm: p.RMinOhm, MaxOhm: p.RMaxOhm, BelowTolerance: 0.5,
+		Currency: p.Build.Currency, InStock: p.Build.Stock == cost.StockExclude}
+}
+
 // buildGroups streams the resistor rows inside the problem's window
 // (tolerance below 50 %, the build's currency, stock on hand under
 // cost.StockExclude) and reduces them to grade groups. Within a search the
@@ -290,9 +298,7 @@ func buildGroups(ctx context.Context, parts *Parts, p *Problem) ([]*group, error
 			tb.need[pl] = p.Build.Needed(pl)
 		}
 	}
-	q := catalog.ResistorQuery{MinOhm: p.RMinOhm, MaxOhm: p.RMaxOhm, BelowTolerance: 0.5,
-		Currency: p.Build.Currency, InStock: p.Build.Stock == cost.StockExclude}
-	if err := parts.resistorRows().EachResistor(ctx, q, tb.add); err != nil {
+	if err := parts.resistorRows().EachResistor(ctx, resistorQuery(p), tb.add); err != nil {
 		return nil, err
 	}
 	gs := tb.build()
