@@ -170,10 +170,10 @@ func LoadDesign(path string) (*Design, error) {
 // ParseDesign reads a design from YAML; name is the file name used in errors.
 func ParseDesign(data []byte, name string) (*Design, error) {
 	var r rawDesign
-	if err := decodeStrict(data, &r, "design", name); err != nil {
+	p, err := decodeStrict(data, &r, "design", name)
+	if err != nil {
 		return nil, err
 	}
-	p := &problems{kind: "design", file: name}
 	d := &Design{Name: r.Name, Family: r.Family, Options: r.Options, SourceFile: name}
 	switch {
 	case r.Family == "":

@@ -29,7 +29,7 @@ limits: {gain_error: 0.5%, cmrr: 60dB, gain_drift: 20ppm/K}
 	fmt.Println(err)
 	// Output:
 	// 0.2 {-10 10} 0.005 60 2e-05 25
-	// spec x.yaml: limits.cmrr: "80" has no unit; write it like 80dB
+	// spec x.yaml:8:10: limits.cmrr: "80" has no unit; write it like 80dB
 }
 
 // Write a design back in the design-file layout.

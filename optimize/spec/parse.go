@@ -130,10 +130,10 @@ const (
 // problem found is reported, each naming the file and the field path.
 func Parse(data []byte, name string) (*Spec, error) {
 	var r rawSpec
-	if err := decodeStrict(data, &r, "spec", name); err != nil {
+	p, err := decodeStrict(data, &r, "spec", name)
+	if err != nil {
 		return nil, err
 	}
-	p := &problems{kind: "spec", file: name}
 	s := &Spec{SourceFile: name, Name: strings.TrimSpace(r.Name), About: strings.TrimSpace(r.About)}
 	if s.Name == "" {
 		p.add("name", "missing; give the spec a short name")

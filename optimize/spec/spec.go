@@ -159,31 +159,57 @@ func Load(path string) (*Spec, error) {
 	return Parse(data, path)
 }
 
-// problems collects every error found in one file.
+// problems collects every error found in one file, each at the line and
+// column of its field when the file's index knows it.
 type problems struct {
 	kind, file string
 	errs       []error
+	index      *docIndex
+	// more counts the problems past maxProblems, which are not kept.
+	more int
 }
 
+// maxProblems is how many problems one file reports: past it, a count.
+// A file with thousands of mistakes is fixed from its first ones.
+const maxProblems = 50
+
 func (p *problems) add(field, format string, args ...any) {
-	p.errs = append(p.errs, &FieldError{Kind: p.kind, File: p.file, Field: field, Msg: fmt.Sprintf(format, args...)})
+	line, col := p.index.position(field)
+	p.addAt(field, line, col, format, args...)
+}
+
+func (p *problems) addAt(field string, line, col int, format string, args ...any) {
+	if len(p.errs) >= maxProblems {
+		p.more++
+		return
+	}
+	p.errs = append(p.errs, &FieldError{Kind: p.kind, File: p.file, Line: line, Column: col, Field: field, Msg: fmt.Sprintf(format, args...)})
 }
 
 // FieldError is one problem in a spec or design file. It matches ErrInvalid
 // under errors.Is.
 type FieldError struct {
-	Kind  string // "spec" or "design"
-	File  string
-	Field string // path such as limits.cmrr or positions.R1.tolerance
-	Msg   string
+	Kind string // "spec" or "design"
+	File string
+	// Line and Column locate the field in the file, from 1 (0: the field
+	// is missing, or the problem is the file's as a whole).
+	Line, Column int
+	Field        string // path such as limits.cmrr or positions.R1.tolerance
+	Msg          string
 }
 
-// Error returns "spec FILE: FIELD: MESSAGE".
+// Error returns "spec FILE:LINE:COLUMN: FIELD: MESSAGE" (without the line
+// and column when there are none, without the field when the problem is
+// the file's).
 func (e *FieldError) Error() string {
-	if e.Field == "" {
-		return fmt.Sprintf("%s %s: %s", e.Kind, e.File, e.Msg)
+	at := e.File
+	if e.Line > 0 {
+		at = fmt.Sprintf("%s:%d:%d", e.File, e.Line, e.Column)
 	}
-	return fmt.Sprintf("%s %s: %s: %s", e.Kind, e.File, e.Field, e.Msg)
+	if e.Field == "" {
+		return fmt.Sprintf("%s %s: %s", e.Kind, at, e.Msg)
+	}
+	return fmt.Sprintf("%s %s: %s: %s", e.Kind, at, e.Field, e.Msg)
 }
 
 // Is reports true for ErrInvalid.
@@ -193,7 +219,12 @@ func (p *problems) err() error {
 	if len(p.errs) == 0 {
 		return nil
 	}
-	return errors.Join(p.errs...)
+	errs := p.errs
+	if p.more > 0 {
+		errs = append(errs[:len(errs):len(errs)], &FieldError{Kind: p.kind, File: p.file,
+			Msg: fmt.Sprintf("and %d more problems, not listed: fix the ones above first", p.more)})
+	}
+	return errors.Join(errs...)
 }
 
 // failed reports whether a problem is already recorded for any of fields or
@@ -215,38 +246,161 @@ func (p *problems) failed(fields ...string) bool {
 	return false
 }
 
-// decodeStrict unmarshals YAML refusing unknown fields. The decoder reports
-// type errors and unknown fields by line only; each is recorded at its field
-// path, found by walking the document's node tree, with advice on how to
-// write the field.
-func decodeStrict(data []byte, v any, kind, file string) error {
+// decodeStrict unmarshals YAML refusing unknown fields and a second
+// document, and returns a problems list for the file whose entries carry
+// the line and column of their field. The decoder reports type errors and
+// unknown fields by line only; each is recorded at its field path, found
+// through an index of the document's node tree (built once, so the work
+// grows with the file, not with the file times its errors), with advice on
+// how to write the field.
+func decodeStrict(data []byte, v any, kind, file string) (*problems, error) {
+	p := &problems{kind: kind, file: file}
+	var root yaml.Node
+	if yaml.Unmarshal(data, &root) == nil {
+		p.index = indexDoc(pathNodes(&root, reflect.TypeOf(v)))
+		if wideMappings(p, &root, "", reflect.TypeOf(v)) {
+			return p, p.err()
+		}
+	}
 	dec := yaml.NewDecoder(bytes.NewReader(data))
 	dec.KnownFields(true)
 	err := dec.Decode(v)
-	if err == nil {
-		return nil
-	}
-	p := &problems{kind: kind, file: file}
 	var te *yaml.TypeError
+	errors.As(err, &te)
 	switch {
+	case err == nil:
+		var extra yaml.Node
+		if derr := dec.Decode(&extra); !errors.Is(derr, io.EOF) {
+			line := extra.Line
+			if derr != nil {
+				line = 0
+			}
+			p.addAt("", line, 1, "a second YAML document follows the first (after a --- line); a %s file holds one document: remove it, or put it in a file of its own", kind)
+		}
 	case errors.Is(err, io.EOF):
 		p.add("", "file is empty; write the fields described in the README of the examples")
-	case errors.As(err, &te):
-		// The decoder has just read the document, so it parses; were it
-		// not to, the messages would stay as the decoder wrote them.
-		var root yaml.Node
-		_ = yaml.Unmarshal(data, &root)
-		nodes := pathNodes(&root, reflect.TypeOf(v))
+	case te != nil:
 		types := structTypes(reflect.TypeOf(v))
 		for _, msg := range te.Errors {
-			translateYAMLError(p, msg, nodes, types)
+			translateYAMLError(p, msg, types)
 		}
 	case strings.HasPrefix(err.Error(), "yaml: line "):
 		p.add("", "%s; check the indentation and quoting of that line", strings.TrimPrefix(err.Error(), "yaml: "))
 	default:
 		p.add("", "%v", err)
 	}
-	return p.err()
+	return p, p.err()
+}
+
+// maxMappingKeys is the most keys one mapping of a spec or design file may
+// hold. The YAML decoder checks a mapping's keys for repeats pair by pair,
+// so its time grows with the square of their number; no layout of ours has
+// a tenth of this many fields or positions.
+const maxMappingKeys = 256
+
+// wideMappings reports every mapping of the document under n with more
+// than maxMappingKeys keys without running the decoder on it: its unknown
+// and repeated keys for a layout, its size for a list of named entries. It
+// returns whether there was one.
+func wideMappings(p *problems, n *yaml.Node, path string, t reflect.Type) bool {
+	for t != nil && t.Kind() == reflect.Pointer {
+		t = t.Elem()
+	}
+	found := false
+	switch n.Kind {
+	case yaml.DocumentNode:
+		for _, c := range n.Content {
+			found = wideMappings(p, c, path, t) || found
+		}
+	case yaml.SequenceNode:
+		var et reflect.Type
+		if t != nil && t.Kind() == reflect.Slice {
+			et = t.Elem()
+		}
+		for i, c := range n.Content {
+			found = wideMappings(p, c, fmt.Sprintf("%s[%d]", path, i), et) || found
+		}
+	case yaml.MappingNode:
+		wide := len(n.Content)/2 > maxMappingKeys
+		if wide && (t == nil || t.Kind() != reflect.Struct) {
+			p.add(path, "has %d entries; a %s file takes at most %d here", len(n.Content)/2, p.kind, maxMappingKeys)
+		}
+		seen := map[string]int{}
+		known := ""
+		if wide && t != nil && t.Kind() == reflect.Struct {
+			known = strings.Join(yamlFields(t), ", ")
+		}
+		for i := 0; i+1 < len(n.Content); i += 2 {
+			k := n.Content[i]
+			child := k.Value
+			if path != "" {
+				child = path + "." + k.Value
+			}
+			ct := fieldType(t, k.Value)
+			if wide && t != nil && t.Kind() == reflect.Struct {
+				if ct == nil {
+					p.addAt(child, k.Line, k.Column, "is not a known field (check the spelling against the README of the examples); the fields here are %s", known)
+				} else if line, dup := seen[k.Value]; dup {
+					p.addAt(child, k.Line, k.Column, "given twice (also at line %d); keep one", line)
+				}
+				seen[k.Value] = k.Line
+			}
+			found = wideMappings(p, n.Content[i+1], child, ct) || found
+		}
+		found = found || wide
+	}
+	return found
+}
+
+// docIndex finds the nodes of one document by field path, by key and line,
+// and by value line, each in constant time.
+type docIndex struct {
+	byPath map[string]nodeAt
+	keys   map[keyAt]nodeAt
+	vals   map[int][]nodeAt
+}
+
+// keyAt is a mapping key by its text and line.
+type keyAt struct {
+	line int
+	name string
+}
+
+func indexDoc(nodes []nodeAt) *docIndex {
+	ix := &docIndex{byPath: map[string]nodeAt{}, keys: map[keyAt]nodeAt{}, vals: map[int][]nodeAt{}}
+	for _, n := range nodes {
+		if _, dup := ix.byPath[n.path]; !dup {
+			ix.byPath[n.path] = n
+		}
+		if n.key != nil {
+			k := keyAt{n.key.Line, n.key.Value}
+			if _, dup := ix.keys[k]; !dup {
+				ix.keys[k] = n
+			}
+		}
+		ix.vals[n.val.Line] = append(ix.vals[n.val.Line], n)
+	}
+	return ix
+}
+
+// position returns the line and column of the field at path, or of the
+// nearest field above it that the file holds (0, 0: none).
+func (ix *docIndex) position(path string) (line, col int) {
+	for ix != nil && path != "" {
+		if n, ok := ix.byPath[path]; ok {
+			at := n.val
+			if n.key != nil {
+				at = n.key
+			}
+			return at.Line, at.Column
+		}
+		i := strings.LastIndexAny(path, ".[")
+		if i < 0 {
+			break
+		}
+		path = path[:i]
+	}
+	return 0, 0
 }
 
 // nodeAt is one node of a YAML document with its field path and the Go
@@ -379,16 +533,16 @@ var (
 
 // translateYAMLError records one decoder message at the field it is about.
 // A message it cannot place is kept as the decoder wrote it.
-func translateYAMLError(p *problems, msg string, nodes []nodeAt, types map[string]reflect.Type) {
+func translateYAMLError(p *problems, msg string, types map[string]reflect.Type) {
 	line := func(s string) int { n, _ := strconv.Atoi(s); return n }
 	if m := reCannot.FindStringSubmatch(msg); m != nil {
-		if at, ok := findValue(nodes, line(m[1]), m[2], m[3], m[4]); ok {
+		if at, ok := p.index.findValue(line(m[1]), m[2], m[3], m[4]); ok {
 			p.add(at.path, "%s", typeAdvice(at, m[4], types))
 			return
 		}
 	}
 	if m := reUnknown.FindStringSubmatch(msg); m != nil {
-		if at, ok := findKey(nodes, line(m[1]), m[2]); ok {
+		if at, ok := p.index.findKey(line(m[1]), m[2]); ok {
 			known := ""
 			if t := types[m[3]]; t != nil {
 				known = "; the fields here are " + strings.Join(yamlFields(t), ", ")
@@ -399,13 +553,13 @@ func translateYAMLError(p *problems, msg string, nodes []nodeAt, types map[strin
 	}
 	if m := reDuplicate.FindStringSubmatch(msg); m != nil {
 		key, _ := strconv.Unquote(m[2])
-		if at, ok := findKey(nodes, line(m[1]), key); ok {
+		if at, ok := p.index.findKey(line(m[1]), key); ok {
 			p.add(at.path, "given twice (also at line %s); keep one", m[3])
 			return
 		}
 	}
 	if m := reAlreadySet.FindStringSubmatch(msg); m != nil {
-		if at, ok := findKey(nodes, line(m[1]), m[2]); ok {
+		if at, ok := p.index.findKey(line(m[1]), m[2]); ok {
 			p.add(at.path, "given twice; keep one")
 			return
 		}
@@ -414,13 +568,9 @@ func translateYAMLError(p *problems, msg string, nodes []nodeAt, types map[strin
 }
 
 // findKey finds the mapping key name written on line.
-func findKey(nodes []nodeAt, line int, name string) (nodeAt, bool) {
-	for _, n := range nodes {
-		if n.key != nil && n.key.Line == line && n.key.Value == name {
-			return n, true
-		}
-	}
-	return nodeAt{}, false
+func (ix *docIndex) findKey(line int, name string) (nodeAt, bool) {
+	n, ok := ix.keys[keyAt{line, name}]
+	return n, ok
 }
 
 // findValue finds the value on line that the decoder could not read into
@@ -428,10 +578,10 @@ func findKey(nodes []nodeAt, line int, name string) (nodeAt, bool) {
 // quotes (cut to seven characters and "..." when long), and, among several
 // such (a flow mapping holds several values on one line), the one that
 // decodes into that type.
-func findValue(nodes []nodeAt, line int, tag, text, into string) (nodeAt, bool) {
+func (ix *docIndex) findValue(line int, tag, text, into string) (nodeAt, bool) {
 	var match []nodeAt
-	for _, n := range nodes {
-		if n.val.Line != line || n.val.ShortTag() != tag {
+	for _, n := range ix.vals[line] {
+		if n.val.ShortTag() != tag {
 			continue
 		}
 		if prefix, cut := strings.CutSuffix(text, "..."); n.val.Kind != yaml.ScalarNode ||
