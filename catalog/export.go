@@ -12,8 +12,8 @@ import (
 
 // writeCSV writes the parts of one kind: a header of the JSON field names,
 // then one row per part in part-number order. Figures are SI (ohm, fraction,
-// ppm/K, W, V, A, Hz), blank where an optional figure is not given (zero,
-// as the JSON snapshot omits it); a network's values and an amplifier's gains are
+// ppm/K, W, V, A, Hz), blank where a figure is unknown or an optional one
+// is zero (as the JSON snapshot omits both); a network's values and an amplifier's gains are
 // joined with ";"; price breaks are packed as FormatBreaks writes them.
 func (s *Store) writeCSV(ctx context.Context, w io.Writer, kind Kind) error {
 	var t *table
@@ -58,6 +58,8 @@ func (s *Store) writeCSV(ctx context.Context, w io.Writer, kind Kind) error {
 		for j := range t.cols {
 			c := &t.cols[j]
 			switch x := columnValue(c, v).(type) {
+			case nil:
+				record[j] = "" // unknown
 			case float64:
 				record[j] = formatFloat(x)
 				if x == 0 && c.optional {

@@ -2,6 +2,7 @@ package catalog
 
 import (
 	"errors"
+	"math"
 	"time"
 )
 
@@ -44,6 +45,13 @@ type Offer struct {
 
 // ResistorGrade holds the figures shared by every value of a resistor
 // product line at one tolerance and tempco grade.
+//
+// A figure tagged catalog:"unknown" (here and in Network and Amplifier) may
+// be unknown: it holds NaN (see Unknown), is stored as NULL, written absent
+// from JSON, blank in CSV and "-" in tables. NaN makes any arithmetic on a
+// figure nobody gave come out NaN, so a budget cannot rest on it by
+// accident; optimize resolves unknown figures to stated defaults at the one
+// place catalog parts enter it. Technology and Package are "" when unknown.
 type ResistorGrade struct {
 	// Technology is a trade word: thick-film, thin-film, metal-film, foil,
 	// wirewound, metal-strip (for shunts).
@@ -53,17 +61,16 @@ type ResistorGrade struct {
 	// Tolerance is the initial tolerance as a fraction (0.001 for ±0.1 %).
 	Tolerance float64 `json:"tolerance" yaml:"tolerance"`
 	// TCR is the temperature coefficient box, ±ppm/K about 25 °C.
-	TCR float64 `json:"tcr_ppm" yaml:"tcr_ppm"`
+	TCR float64 `json:"tcr_ppm" yaml:"tcr_ppm" catalog:"unknown"`
 	// PowerW is the rated power at the rated ambient, W.
-	PowerW float64 `json:"power_w" yaml:"power_w"`
-	// MaxVoltageV is the limiting element voltage, V (0 = unknown).
-	MaxVoltageV float64 `json:"max_voltage_v" yaml:"max_voltage_v"`
-	// ThermalResistance is the part's thermal resistance to ambient, K/W
-	// (0 = unknown).
-	ThermalResistance float64 `json:"thermal_resistance_k_per_w,omitempty" yaml:"thermal_resistance_k_per_w,omitempty"`
+	PowerW float64 `json:"power_w" yaml:"power_w" catalog:"unknown"`
+	// MaxVoltageV is the limiting element voltage, V.
+	MaxVoltageV float64 `json:"max_voltage_v" yaml:"max_voltage_v" catalog:"unknown"`
+	// ThermalResistance is the part's thermal resistance to ambient, K/W.
+	ThermalResistance float64 `json:"thermal_resistance_k_per_w,omitempty" yaml:"thermal_resistance_k_per_w,omitempty" catalog:"unknown"`
 	// LoadLife is the load-life stability as a fraction of value over the
-	// rated life (0 = unknown).
-	LoadLife float64 `json:"load_life,omitempty" yaml:"load_life,omitempty"`
+	// rated life.
+	LoadLife float64 `json:"load_life,omitempty" yaml:"load_life,omitempty" catalog:"unknown"`
 }
 
 // ResistorSeries is a maker's product line offering every value of one
@@ -109,12 +116,12 @@ type Network struct {
 	Values         []float64 `json:"values_ohm" yaml:"values_ohm"`
 	Technology     string    `json:"technology" yaml:"technology"`
 	Package        string    `json:"package" yaml:"package"`
-	Tolerance      float64   `json:"tolerance" yaml:"tolerance"`             // absolute, fraction
-	RatioTolerance float64   `json:"ratio_tolerance" yaml:"ratio_tolerance"` // any element to any other, fraction
-	TCR            float64   `json:"tcr_ppm" yaml:"tcr_ppm"`                 // absolute, ±ppm/K
-	TCRTracking    float64   `json:"tcr_tracking_ppm" yaml:"tcr_tracking_ppm"`
-	PowerW         float64   `json:"power_w" yaml:"power_w"` // per element
-	MaxVoltageV    float64   `json:"max_voltage_v" yaml:"max_voltage_v"`
+	Tolerance      float64   `json:"tolerance" yaml:"tolerance"`               // absolute, fraction
+	RatioTolerance float64   `json:"ratio_tolerance" yaml:"ratio_tolerance"`   // any element to any other, fraction
+	TCR            float64   `json:"tcr_ppm" yaml:"tcr_ppm" catalog:"unknown"` // absolute, ±ppm/K
+	TCRTracking    float64   `json:"tcr_tracking_ppm" yaml:"tcr_tracking_ppm" catalog:"unknown"`
+	PowerW         float64   `json:"power_w" yaml:"power_w" catalog:"unknown"` // per element
+	MaxVoltageV    float64   `json:"max_voltage_v" yaml:"max_voltage_v" catalog:"unknown"`
 	Offer          `yaml:",inline"`
 	Provenance     `yaml:",inline"`
 }
@@ -144,38 +151,55 @@ type Amplifier struct {
 
 	SupplyMinV float64 `json:"supply_min_v" yaml:"supply_min_v"` // total supply span V+ - V-
 	SupplyMaxV float64 `json:"supply_max_v" yaml:"supply_max_v"`
-	CMNegV     float64 `json:"cm_neg_v" yaml:"cm_neg_v"`
-	CMPosV     float64 `json:"cm_pos_v" yaml:"cm_pos_v"`
-	SwingNegV  float64 `json:"swing_neg_v" yaml:"swing_neg_v"`
-	SwingPosV  float64 `json:"swing_pos_v" yaml:"swing_pos_v"`
+	CMNegV     float64 `json:"cm_neg_v" yaml:"cm_neg_v" catalog:"unknown"`
+	CMPosV     float64 `json:"cm_pos_v" yaml:"cm_pos_v" catalog:"unknown"`
+	SwingNegV  float64 `json:"swing_neg_v" yaml:"swing_neg_v" catalog:"unknown"`
+	SwingPosV  float64 `json:"swing_pos_v" yaml:"swing_pos_v" catalog:"unknown"`
 
-	VosV        float64  `json:"vos_v" yaml:"vos_v"`                         // max input offset voltage
-	VosDriftVK  float64  `json:"vos_drift_v_per_k" yaml:"vos_drift_v_per_k"` // max offset drift, V/K
-	IbA         float64  `json:"ib_a" yaml:"ib_a"`                           // max input bias current
-	IosA        float64  `json:"ios_a" yaml:"ios_a"`                         // max input offset current
-	AolVV       float64  `json:"aol_v_per_v" yaml:"aol_v_per_v"`             // min open-loop gain
-	CMRRdB      float64  `json:"cmrr_db" yaml:"cmrr_db"`                     // min CMRR
-	GBWHz       float64  `json:"gbw_hz" yaml:"gbw_hz"`
-	SlewVs      float64  `json:"slew_v_per_s" yaml:"slew_v_per_s"`
-	NoiseVHz    float64  `json:"noise_v_per_rthz" yaml:"noise_v_per_rthz"`             // voltage noise density, V/√Hz
-	NoiseAHz    float64  `json:"noise_a_per_rthz" yaml:"noise_a_per_rthz"`             // current noise density, A/√Hz
-	IqA         float64  `json:"iq_a" yaml:"iq_a"`                                     // quiescent current per channel
-	TypicalOnly []string `json:"typical_only,omitempty" yaml:"typical_only,omitempty"` // JSON names of figures given only as typical
+	VosV        float64  `json:"vos_v" yaml:"vos_v" catalog:"unknown"`                         // max input offset voltage
+	VosDriftVK  float64  `json:"vos_drift_v_per_k" yaml:"vos_drift_v_per_k" catalog:"unknown"` // max offset drift, V/K
+	IbA         float64  `json:"ib_a" yaml:"ib_a" catalog:"unknown"`                           // max input bias current
+	IosA        float64  `json:"ios_a" yaml:"ios_a" catalog:"unknown"`                         // max input offset current
+	AolVV       float64  `json:"aol_v_per_v" yaml:"aol_v_per_v" catalog:"unknown"`             // min open-loop gain
+	CMRRdB      float64  `json:"cmrr_db" yaml:"cmrr_db" catalog:"unknown"`                     // min CMRR
+	GBWHz       float64  `json:"gbw_hz" yaml:"gbw_hz" catalog:"unknown"`
+	SlewVs      float64  `json:"slew_v_per_s" yaml:"slew_v_per_s" catalog:"unknown"`
+	NoiseVHz    float64  `json:"noise_v_per_rthz" yaml:"noise_v_per_rthz" catalog:"unknown"` // voltage noise density, V/√Hz
+	NoiseAHz    float64  `json:"noise_a_per_rthz" yaml:"noise_a_per_rthz" catalog:"unknown"` // current noise density, A/√Hz
+	IqA         float64  `json:"iq_a" yaml:"iq_a" catalog:"unknown"`                         // quiescent current per channel
+	TypicalOnly []string `json:"typical_only,omitempty" yaml:"typical_only,omitempty"`       // JSON names of figures given only as typical
+	// RailToRail is what the maker calls rail-to-rail: RailIn, RailOut,
+	// RailInOut, or "" (not stated, or not rail-to-rail). It matters where
+	// the range figures are unknown.
+	RailToRail string `json:"rail_to_rail,omitempty" yaml:"rail_to_rail,omitempty"`
 
 	// Matched-resistor amplifiers only.
 	Gains        []float64 `json:"gains,omitempty" yaml:"gains,omitempty"`
-	GainErrorMax float64   `json:"gain_error_max,omitempty" yaml:"gain_error_max,omitempty"` // fraction
-	GainDriftPPM float64   `json:"gain_drift_ppm,omitempty" yaml:"gain_drift_ppm,omitempty"` // ±ppm/K
+	GainErrorMax float64   `json:"gain_error_max,omitempty" yaml:"gain_error_max,omitempty" catalog:"unknown"` // fraction
+	GainDriftPPM float64   `json:"gain_drift_ppm,omitempty" yaml:"gain_drift_ppm,omitempty" catalog:"unknown"` // ±ppm/K
 	// InNegV and InPosV bound the input voltage range relative to the
 	// rails, as CMNegV and CMPosV do for the op-amp pins.
-	InNegV float64 `json:"in_neg_v,omitempty" yaml:"in_neg_v,omitempty"`
-	InPosV float64 `json:"in_pos_v,omitempty" yaml:"in_pos_v,omitempty"`
+	InNegV float64 `json:"in_neg_v,omitempty" yaml:"in_neg_v,omitempty" catalog:"unknown"`
+	InPosV float64 `json:"in_pos_v,omitempty" yaml:"in_pos_v,omitempty" catalog:"unknown"`
 	// InternalOhm is the internal resistor value (for noise), ohm.
-	InternalOhm float64 `json:"internal_ohm,omitempty" yaml:"internal_ohm,omitempty"`
+	InternalOhm float64 `json:"internal_ohm,omitempty" yaml:"internal_ohm,omitempty" catalog:"unknown"`
 
 	Offer      `yaml:",inline"`
 	Provenance `yaml:",inline"`
 }
+
+// Rail-to-rail claims of an amplifier (Amplifier.RailToRail).
+const (
+	RailIn    = "in"
+	RailOut   = "out"
+	RailInOut = "in-out"
+)
+
+// Unknown returns the value of a figure nobody gave: NaN.
+func Unknown() float64 { return math.NaN() }
+
+// Known reports whether a figure was given (is not NaN).
+func Known(x float64) bool { return !math.IsNaN(x) }
 
 // UnitPrice returns the unit price that applies when qty pieces are bought:
 // the price of the largest break whose MinQty is at most qty. ok is false

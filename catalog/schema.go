@@ -170,7 +170,182 @@ CREATE TABLE part_history (
 );
 CREATE INDEX part_history_part ON part_history(part, kind);
 `,
+	// 2: a figure nobody gave is NULL (unknown), not 0. The part tables are
+	// rebuilt with nullable figure columns (SQLite cannot drop NOT NULL in
+	// place); zeros that schema 1 used for "unknown" become NULL; amplifiers
+	// get rail_to_rail. Child tables are rebuilt first so dropping a parent
+	// cascades nothing, and its price-break trigger is dropped so no price
+	// is lost.
+	`
+CREATE TABLE resistor_series_new (
+	id            INTEGER PRIMARY KEY,
+	part          TEXT NOT NULL UNIQUE,
+	maker         TEXT NOT NULL,
+	line          TEXT NOT NULL DEFAULT '',
+	e_series      TEXT NOT NULL,
+	min_ohm       REAL NOT NULL,         -- ohm
+	max_ohm       REAL NOT NULL,         -- ohm
+	technology    TEXT NOT NULL,         -- '' = unknown
+	package       TEXT NOT NULL,         -- '' = unknown
+	tolerance     REAL NOT NULL,         -- fraction
+	tcr_ppm       REAL,                  -- ±ppm/K (NULL = unknown, as below)
+	power_w       REAL,                  -- W
+	max_voltage_v REAL,                  -- V, limiting element voltage
+	thermal_resistance_k_per_w REAL,     -- K/W to ambient
+	load_life     REAL,                  -- fraction over rated life
+	min_order     INTEGER NOT NULL DEFAULT 0,
+	stock         INTEGER NOT NULL DEFAULT -1,
+	source        TEXT NOT NULL DEFAULT '',
+	imported_at   TEXT NOT NULL DEFAULT ''
+);
+INSERT INTO resistor_series_new SELECT id, part, maker, line, e_series, min_ohm, max_ohm, technology, package,
+	tolerance, tcr_ppm, power_w, NULLIF(max_voltage_v, 0), NULLIF(thermal_resistance_k_per_w, 0), NULLIF(load_life, 0),
+	min_order, stock, source, imported_at FROM resistor_series;
+DROP TRIGGER resistor_series_breaks;
+DROP TABLE resistor_series;
+ALTER TABLE resistor_series_new RENAME TO resistor_series;
+CREATE TRIGGER resistor_series_breaks AFTER DELETE ON resistor_series
+	BEGIN DELETE FROM price_breaks WHERE kind = 'series' AND part_id = OLD.id; END;
+
+CREATE TABLE resistors_new (
+	id            INTEGER PRIMARY KEY,
+	part          TEXT NOT NULL UNIQUE,
+	maker         TEXT NOT NULL,
+	line          TEXT NOT NULL DEFAULT '',
+	value_ohm     REAL NOT NULL,         -- ohm
+	series_part   TEXT NOT NULL DEFAULT '',
+	technology    TEXT NOT NULL,
+	package       TEXT NOT NULL,
+	tolerance     REAL NOT NULL,         -- fraction
+	tcr_ppm       REAL,                  -- ±ppm/K (NULL = unknown, as below)
+	power_w       REAL,                  -- W
+	max_voltage_v REAL,                  -- V
+	thermal_resistance_k_per_w REAL,     -- K/W
+	load_life     REAL,                  -- fraction
+	min_order     INTEGER NOT NULL DEFAULT 0,
+	stock         INTEGER NOT NULL DEFAULT -1,
+	source        TEXT NOT NULL DEFAULT '',
+	imported_at   TEXT NOT NULL DEFAULT ''
+);
+INSERT INTO resistors_new SELECT id, part, maker, line, value_ohm, series_part, technology, package,
+	tolerance, tcr_ppm, power_w, NULLIF(max_voltage_v, 0), NULLIF(thermal_resistance_k_per_w, 0), NULLIF(load_life, 0),
+	min_order, stock, source, imported_at FROM resistors;
+DROP TRIGGER resistors_breaks;
+DROP TABLE resistors;
+ALTER TABLE resistors_new RENAME TO resistors;
+CREATE INDEX resistors_value ON resistors(value_ohm);
+CREATE TRIGGER resistors_breaks AFTER DELETE ON resistors
+	BEGIN DELETE FROM price_breaks WHERE kind = 'resistor' AND part_id = OLD.id; END;
+
+CREATE TABLE networks_new (
+	id               INTEGER PRIMARY KEY,
+	part             TEXT NOT NULL UNIQUE,
+	maker            TEXT NOT NULL,
+	technology       TEXT NOT NULL,
+	package          TEXT NOT NULL,
+	tolerance        REAL NOT NULL,      -- absolute, fraction
+	ratio_tolerance  REAL NOT NULL,      -- fraction
+	tcr_ppm          REAL,               -- absolute, ±ppm/K (NULL = unknown, as below)
+	tcr_tracking_ppm REAL,               -- ratio drift, ±ppm/K
+	power_w          REAL,               -- W per element
+	max_voltage_v    REAL,               -- V per element
+	min_order        INTEGER NOT NULL DEFAULT 0,
+	stock            INTEGER NOT NULL DEFAULT -1,
+	source           TEXT NOT NULL DEFAULT '',
+	imported_at      TEXT NOT NULL DEFAULT ''
+);
+INSERT INTO networks_new SELECT id, part, maker, technology, package, tolerance, ratio_tolerance, tcr_ppm,
+	tcr_tracking_ppm, power_w, NULLIF(max_voltage_v, 0), min_order, stock, source, imported_at FROM networks;
+CREATE TABLE network_elements_new (
+	network_id INTEGER NOT NULL REFERENCES networks_new(id) ON DELETE CASCADE,
+	position   INTEGER NOT NULL,
+	value_ohm  REAL NOT NULL,
+	PRIMARY KEY (network_id, position)
+) WITHOUT ROWID;
+INSERT INTO network_elements_new SELECT network_id, position, value_ohm FROM network_elements;
+DROP TABLE network_elements;
+DROP TRIGGER networks_breaks;
+DROP TABLE networks;
+ALTER TABLE networks_new RENAME TO networks;
+ALTER TABLE network_elements_new RENAME TO network_elements;
+CREATE TRIGGER networks_breaks AFTER DELETE ON networks
+	BEGIN DELETE FROM price_breaks WHERE kind = 'network' AND part_id = OLD.id; END;
+
+-- Schema 1 imports stored an op-amp figure nobody gave as 0; no op-amp has
+-- zero bias current, noise or drift, so those zeros become unknown, and the
+-- matched-only figures of an op-amp do not apply to it.
+CREATE TABLE amplifiers_new (
+	id                INTEGER PRIMARY KEY,
+	part              TEXT NOT NULL UNIQUE,
+	maker             TEXT NOT NULL,
+	type              TEXT NOT NULL CHECK (type IN ('opamp', 'matched')),
+	channels          INTEGER NOT NULL,
+	package           TEXT NOT NULL,     -- '' = unknown
+	supply_min_v      REAL NOT NULL,     -- V, total span V+ - V-
+	supply_max_v      REAL NOT NULL,     -- V, total span
+	cm_neg_v          REAL,              -- V above V- (NULL = unknown, as below)
+	cm_pos_v          REAL,              -- V below V+ (negative = above V+)
+	swing_neg_v       REAL,              -- V above V-
+	swing_pos_v       REAL,              -- V below V+
+	vos_v             REAL,              -- V, max input offset
+	vos_drift_v_per_k REAL,              -- V/K
+	ib_a              REAL,              -- A
+	ios_a             REAL,              -- A
+	aol_v_per_v       REAL,              -- V/V, min
+	cmrr_db           REAL,              -- dB, min
+	gbw_hz            REAL,              -- Hz
+	slew_v_per_s      REAL,              -- V/s
+	noise_v_per_rthz  REAL,              -- V/√Hz
+	noise_a_per_rthz  REAL,              -- A/√Hz
+	iq_a              REAL,              -- A per channel
+	typical_only      TEXT NOT NULL DEFAULT '',
+	rail_to_rail      TEXT NOT NULL DEFAULT '' CHECK (rail_to_rail IN ('', 'in', 'out', 'in-out')),
+	gain_error_max    REAL,              -- fraction (matched only)
+	gain_drift_ppm    REAL,              -- ±ppm/K (matched only)
+	in_neg_v          REAL,              -- V above V- (matched only)
+	in_pos_v          REAL,              -- V below V+ (matched only)
+	internal_ohm      REAL,              -- ohm (matched only)
+	min_order         INTEGER NOT NULL DEFAULT 0,
+	stock             INTEGER NOT NULL DEFAULT -1,
+	source            TEXT NOT NULL DEFAULT '',
+	imported_at       TEXT NOT NULL DEFAULT ''
+);
+INSERT INTO amplifiers_new SELECT id, part, maker, type, channels, package, supply_min_v, supply_max_v,
+	cm_neg_v, cm_pos_v, swing_neg_v, swing_pos_v, vos_v,
+	CASE WHEN type = 'opamp' THEN NULLIF(vos_drift_v_per_k, 0) ELSE vos_drift_v_per_k END,
+	CASE WHEN type = 'opamp' THEN NULLIF(ib_a, 0) ELSE ib_a END,
+	CASE WHEN type = 'opamp' THEN NULLIF(ios_a, 0) ELSE ios_a END,
+	aol_v_per_v, cmrr_db, gbw_hz, slew_v_per_s,
+	CASE WHEN type = 'opamp' THEN NULLIF(noise_v_per_rthz, 0) ELSE noise_v_per_rthz END,
+	CASE WHEN type = 'opamp' THEN NULLIF(noise_a_per_rthz, 0) ELSE noise_a_per_rthz END,
+	NULLIF(iq_a, 0), typical_only, '',
+	CASE WHEN type = 'opamp' THEN NULL ELSE gain_error_max END,
+	CASE WHEN type = 'opamp' THEN NULL ELSE NULLIF(gain_drift_ppm, 0) END,
+	CASE WHEN type = 'opamp' THEN NULL ELSE in_neg_v END,
+	CASE WHEN type = 'opamp' THEN NULL ELSE in_pos_v END,
+	CASE WHEN type = 'opamp' THEN NULL ELSE NULLIF(internal_ohm, 0) END,
+	min_order, stock, source, imported_at FROM amplifiers;
+CREATE TABLE amplifier_gains_new (
+	amplifier_id INTEGER NOT NULL REFERENCES amplifiers_new(id) ON DELETE CASCADE,
+	position     INTEGER NOT NULL,
+	gain         REAL NOT NULL,          -- V/V
+	PRIMARY KEY (amplifier_id, position)
+) WITHOUT ROWID;
+INSERT INTO amplifier_gains_new SELECT amplifier_id, position, gain FROM amplifier_gains;
+DROP TABLE amplifier_gains;
+DROP TRIGGER amplifiers_breaks;
+DROP TABLE amplifiers;
+ALTER TABLE amplifiers_new RENAME TO amplifiers;
+ALTER TABLE amplifier_gains_new RENAME TO amplifier_gains;
+CREATE TRIGGER amplifiers_breaks AFTER DELETE ON amplifiers
+	BEGIN DELETE FROM price_breaks WHERE kind = 'amplifier' AND part_id = OLD.id; END;
+`,
 }
+
+// schemaUnknownNull is the first schema version that stores an unknown
+// figure as NULL (JSON: absent or null); before it, some figures wrote 0
+// for unknown (legacyZeroUnknown).
+const schemaUnknownNull = 2
 
 // SchemaVersionCurrent is the schema version this code writes and knows.
 var SchemaVersionCurrent = len(migrations)

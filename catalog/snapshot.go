@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"reflect"
 	"strconv"
 	"strings"
 
@@ -99,6 +100,21 @@ func ReadSnapshotJSON(r io.Reader) (*Snapshot, error) {
 	if err := dec.Decode(&s); err != nil {
 		return nil, jsonError(data, err)
 	}
+	// Which figures each part gives: one left out or null is unknown.
+	var given struct {
+		ResistorSeries []map[string]json.RawMessage `json:"resistor_series"`
+		Resistors      []map[string]json.RawMessage `json:"resistors"`
+		Networks       []map[string]json.RawMessage `json:"networks"`
+		Amplifiers     []map[string]json.RawMessage `json:"amplifiers"`
+	}
+	if err := json.Unmarshal(data, &given); err != nil {
+		return nil, jsonError(data, err)
+	}
+	legacy := head.SchemaVersion < schemaUnknownNull
+	markUnknown(seriesTable, reflect.ValueOf(s.ResistorSeries), given.ResistorSeries, legacy)
+	markUnknown(resistorTable, reflect.ValueOf(s.Resistors), given.Resistors, legacy)
+	markUnknown(networkTable, reflect.ValueOf(s.Networks), given.Networks, legacy)
+	markUnknown(amplifierTable, reflect.ValueOf(s.Amplifiers), given.Amplifiers, legacy)
 	if err := s.Validate(); err != nil {
 		return nil, err
 	}

@@ -46,9 +46,11 @@ func sampleBatch() *Snapshot {
 			SupplyMinV: 2.7, SupplyMaxV: 36, CMNegV: 0.1, CMPosV: 1.5, SwingNegV: 0.05, SwingPosV: 0.1,
 			VosV: 25e-6, VosDriftVK: 0.3e-6, IbA: 1e-9, IosA: 0.5e-9, AolVV: 1e6, CMRRdB: 120,
 			GBWHz: 10e6, SlewVs: 5e6, NoiseVHz: 8e-9, NoiseAHz: 0.3e-12, IqA: 1.2e-3,
-			TypicalOnly: []string{"noise_a_per_rthz", "vos_drift_v_per_k"},
-			Offer:       Offer{PriceBreaks: breaks(1.8), MinOrder: 5, Stock: 250},
-			Provenance:  Provenance{Source: "sample amplifier", ImportedAt: testTime},
+			TypicalOnly: []string{"noise_a_per_rthz", "vos_drift_v_per_k"}, RailToRail: RailOut,
+			// The matched-only figures do not apply to an op-amp: unknown.
+			GainErrorMax: Unknown(), GainDriftPPM: Unknown(), InNegV: Unknown(), InPosV: Unknown(), InternalOhm: Unknown(),
+			Offer:      Offer{PriceBreaks: breaks(1.8), MinOrder: 5, Stock: 250},
+			Provenance: Provenance{Source: "sample amplifier", ImportedAt: testTime},
 		}, {
 			Part: "TS-DA1", Maker: "Testmaker Analog", Type: MatchedAmp, Channels: 1, Package: "MSOP-8",
 			SupplyMinV: 2.7, SupplyMaxV: 36, CMNegV: 0.1, CMPosV: -0.2, SwingNegV: 0.05, SwingPosV: 0.05,

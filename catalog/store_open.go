@@ -235,8 +235,28 @@ func checkCatalog(db *sqlx.DB, path string, readOnly bool) (int, error) {
 // restoreAdvice ends the message of a damaged catalog.
 const restoreAdvice = "restore it from a backup, or make a new one with plumb catalog init and import the parts again"
 
-// tableRE finds the tables the migrations create.
-var tableRE = regexp.MustCompile(`(?i)CREATE TABLE (?:IF NOT EXISTS )?(\w+)`)
+// tableRE finds the tables the migrations create, drop and rename.
+var tableRE = regexp.MustCompile(`(?i)CREATE TABLE (?:IF NOT EXISTS )?(\w+)|DROP TABLE (?:IF EXISTS )?(\w+)|ALTER TABLE (\w+) RENAME TO (\w+)`)
+
+// schemaTables lists the tables the migrations leave, in order of creation.
+func schemaTables() []string {
+	var out []string
+	for _, m := range migrations {
+		for _, t := range tableRE.FindAllStringSubmatch(m, -1) {
+			switch {
+			case t[1] != "":
+				out = append(out, t[1])
+			case t[2] != "":
+				out = slices.DeleteFunc(out, func(n string) bool { return n == t[2] })
+			default:
+				if i := slices.Index(out, t[3]); i >= 0 {
+					out[i] = t[4]
+				}
+			}
+		}
+	}
+	return out
+}
 
 // checkTables refuses a catalog that lacks a table its schema creates, so
 // that a damaged file is named as such once, on open, not as an SQL error
@@ -246,11 +266,9 @@ func checkTables(ctx context.Context, db *sqlx.DB, path string) error {
 	if err := db.SelectContext(ctx, &have, "SELECT name FROM sqlite_master WHERE type = 'table'"); err != nil {
 		return damaged(path, fmt.Errorf("catalog: open %s: list tables: %w", path, err))
 	}
-	for _, m := range migrations {
-		for _, t := range tableRE.FindAllStringSubmatch(m, -1) {
-			if !slices.Contains(have, t[1]) {
-				return fmt.Errorf("%w: %s: table %s is missing: %s", ErrDamaged, path, t[1], restoreAdvice)
-			}
+	for _, t := range schemaTables() {
+		if !slices.Contains(have, t) {
+			return fmt.Errorf("%w: %s: table %s is missing: %s", ErrDamaged, path, t, restoreAdvice)
 		}
 	}
 	return nil

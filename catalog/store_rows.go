@@ -2,6 +2,7 @@ package catalog
 
 import (
 	"context"
+	"database/sql"
 	"fmt"
 	"math"
 
@@ -184,11 +185,19 @@ func (s *Store) EachResistor(ctx context.Context, q ResistorQuery, fn func(*Resi
 		// part before it.
 		var next ResistorRow
 		g := &next.Grade
+		var figs [5]sql.NullFloat64
 		n := 0
 		for rows.Next() {
-			if err := rows.Scan(&id, &part, &next.ValueOhm, &tech, &pkg, &g.Tolerance, &g.TCR, &g.PowerW, &g.MaxVoltageV,
-				&g.ThermalResistance, &g.LoadLife, &minOrder, &stock, &qty, &pb.UnitPrice, &c); err != nil {
+			if err := rows.Scan(&id, &part, &next.ValueOhm, &tech, &pkg, &g.Tolerance, &figs[0], &figs[1], &figs[2],
+				&figs[3], &figs[4], &minOrder, &stock, &qty, &pb.UnitPrice, &c); err != nil {
 				return err
+			}
+			// NULL: a figure nobody gave, unknown (NaN).
+			for i, dst := range [...]*float64{&g.TCR, &g.PowerW, &g.MaxVoltageV, &g.ThermalResistance, &g.LoadLife} {
+				*dst = math.NaN()
+				if figs[i].Valid {
+					*dst = figs[i].Float64
+				}
 			}
 			if id != cur {
 				if err := emit(); err != nil {

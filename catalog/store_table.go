@@ -5,6 +5,7 @@ import (
 	"database/sql"
 	"encoding/json"
 	"fmt"
+	"math"
 	"reflect"
 	"strconv"
 	"strings"
@@ -35,6 +36,9 @@ type column struct {
 	// optional: zero means "not given" (the JSON field is omitempty), so the
 	// CSV export leaves it blank.
 	optional bool
+	// unknown: the figure may be unknown (tag catalog:"unknown"): NaN in
+	// Go, NULL in the table.
+	unknown bool
 }
 
 // childTable holds a []float64 field of a part in its own table of
@@ -111,7 +115,8 @@ func (t *table) walk(typ reflect.Type, prefix []int, figure bool) {
 		if f.Name == "Part" {
 			t.part = index
 		}
-		c := column{name: name, index: index, figure: figure, optional: strings.Contains(opts, "omitempty")}
+		c := column{name: name, index: index, figure: figure, optional: strings.Contains(opts, "omitempty"),
+			unknown: f.Tag.Get("catalog") == "unknown"}
 		switch {
 		case f.Type == typeTime:
 			c.kind = colTime
@@ -163,7 +168,11 @@ func columnValue(c *column, v reflect.Value) any {
 	case colString:
 		return f.String()
 	case colFloat:
-		return f.Float()
+		x := f.Float()
+		if c.unknown && math.IsNaN(x) {
+			return nil // NULL: not given
+		}
+		return x
 	case colInt:
 		return f.Int()
 	case colTime:
@@ -232,6 +241,7 @@ func loadRows[T any](ctx context.Context, q querier, t *table, where string, arg
 	dest := make([]any, len(t.cols)+1)
 	scratch := make([]string, len(t.cols))
 	ints := make([]int64, len(t.cols))
+	nulls := make([]sql.NullFloat64, len(t.cols))
 	for rows.Next() {
 		out = append(out, *new(T))
 		v := reflect.ValueOf(&out[len(out)-1]).Elem()
@@ -245,7 +255,11 @@ func loadRows[T any](ctx context.Context, q querier, t *table, where string, arg
 					dest[i+1] = &scratch[i]
 				}
 			case colFloat:
-				dest[i+1] = v.FieldByIndex(c.index).Addr().Interface()
+				if c.unknown {
+					dest[i+1] = &nulls[i]
+				} else {
+					dest[i+1] = v.FieldByIndex(c.index).Addr().Interface()
+				}
 			case colInt:
 				// Scanning into an int goes through a string in
 				// database/sql; into an int64 it does not.
@@ -261,6 +275,12 @@ func loadRows[T any](ctx context.Context, q querier, t *table, where string, arg
 			c := &t.cols[i]
 			f := v.FieldByIndex(c.index)
 			switch {
+			case c.kind == colFloat && c.unknown:
+				if nulls[i].Valid {
+					f.SetFloat(nulls[i].Float64)
+				} else {
+					f.SetFloat(math.NaN())
+				}
 			case c.kind == colInt:
 				f.SetInt(ints[i])
 			case c.kind == colString && dest[i+1] == &scratch[i]:
@@ -396,6 +416,9 @@ func (t *table) appendFigures(buf []byte, v reflect.Value) []byte {
 			key(c.name)
 			buf = appendJSONString(buf, f.String())
 		case colFloat:
+			if math.IsNaN(f.Float()) {
+				continue // unknown: absent, as in snapshot JSON
+			}
 			key(c.name)
 			buf = strconv.AppendFloat(buf, f.Float(), 'g', -1, 64)
 		case colInt:

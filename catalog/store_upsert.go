@@ -360,6 +360,8 @@ func diffOffer(t *table, old, new reflect.Value) []string {
 
 func show(v any) string {
 	switch x := v.(type) {
+	case nil:
+		return "unknown"
 	case float64:
 		return formatFloat(x)
 	case int64:

@@ -58,16 +58,29 @@ func (c *checker) positive(field string, v float64) {
 	}
 }
 
-// nonNegative checks a figure that must be finite and >= 0 (0 = unknown or none).
+// nonNegative checks a figure that may be unknown (NaN) and is otherwise
+// finite and >= 0.
 func (c *checker) nonNegative(field string, v float64) {
+	if math.IsNaN(v) {
+		return
+	}
 	if !(v >= 0) || math.IsInf(v, 0) {
 		c.fail(field, "%s must be zero or a positive number in SI units", formatFloat(v))
 	}
 }
 
+// finite checks a figure that may be unknown (NaN) and is otherwise finite.
 func (c *checker) finite(field string, v float64) {
-	if math.IsNaN(v) || math.IsInf(v, 0) {
+	if math.IsInf(v, 0) {
 		c.fail(field, "%s is not a finite number", formatFloat(v))
+	}
+}
+
+// positiveOrUnknown checks a figure that may be unknown (NaN) and is
+// otherwise finite and > 0.
+func (c *checker) positiveOrUnknown(field string, v float64) {
+	if !math.IsNaN(v) {
+		c.positive(field, v)
 	}
 }
 
@@ -78,12 +91,12 @@ func (c *checker) fraction(field string, v float64) {
 	}
 }
 
+// grade checks a resistor grade: only the tolerance is required; every
+// other figure may be unknown.
 func (c *checker) grade(g *ResistorGrade) {
-	c.text("technology", g.Technology)
-	c.text("package", g.Package)
 	c.fraction("tolerance", g.Tolerance)
 	c.nonNegative("tcr_ppm", g.TCR)
-	c.positive("power_w", g.PowerW)
+	c.positiveOrUnknown("power_w", g.PowerW)
 	c.nonNegative("max_voltage_v", g.MaxVoltageV)
 	c.nonNegative("thermal_resistance_k_per_w", g.ThermalResistance)
 	c.nonNegative("load_life", g.LoadLife)
@@ -154,13 +167,11 @@ func checkNetwork(row int, n *Network) error {
 	for _, v := range n.Values {
 		c.positive("values_ohm", v)
 	}
-	c.text("technology", n.Technology)
-	c.text("package", n.Package)
 	c.fraction("tolerance", n.Tolerance)
 	c.fraction("ratio_tolerance", n.RatioTolerance)
 	c.nonNegative("tcr_ppm", n.TCR)
 	c.nonNegative("tcr_tracking_ppm", n.TCRTracking)
-	c.positive("power_w", n.PowerW)
+	c.positiveOrUnknown("power_w", n.PowerW)
 	c.nonNegative("max_voltage_v", n.MaxVoltageV)
 	c.offer(&n.Offer)
 	return c.err
@@ -170,7 +181,6 @@ func checkAmplifier(row int, a *Amplifier) error {
 	c := checker{kind: KindAmplifier, row: row, part: a.Part}
 	c.partNumber(a.Part)
 	c.text("maker", a.Maker)
-	c.text("package", a.Package)
 	switch a.Type {
 	case OpAmp:
 		if len(a.Gains) > 0 {
@@ -209,10 +219,15 @@ func checkAmplifier(row int, a *Amplifier) error {
 		{"gain_error_max", a.GainErrorMax}, {"gain_drift_ppm", a.GainDriftPPM}, {"internal_ohm", a.InternalOhm}} {
 		c.nonNegative(f.name, f.v)
 	}
-	c.positive("aol_v_per_v", a.AolVV)
-	c.positive("cmrr_db", a.CMRRdB)
-	c.positive("gbw_hz", a.GBWHz)
-	c.positive("slew_v_per_s", a.SlewVs)
+	c.positiveOrUnknown("aol_v_per_v", a.AolVV)
+	c.positiveOrUnknown("cmrr_db", a.CMRRdB)
+	c.positiveOrUnknown("gbw_hz", a.GBWHz)
+	c.positiveOrUnknown("slew_v_per_s", a.SlewVs)
+	switch a.RailToRail {
+	case "", RailIn, RailOut, RailInOut:
+	default:
+		c.fail("rail_to_rail", "%q is not %q, %q, %q or empty", a.RailToRail, RailIn, RailOut, RailInOut)
+	}
 	for _, name := range a.TypicalOnly {
 		if !amplifierFigure(name) {
 			c.fail("typical_only", "%q is not the JSON name of an amplifier figure (e.g. \"vos_drift_v_per_k\")", name)

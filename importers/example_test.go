@@ -51,5 +51,6 @@ func ExampleImport() {
 	// Output:
 	// rows 17, parts 6 (series 1), added 6, skipped 0
 	// file,line,column,part,severity,raw,reason
+	// testdata/resistors_b.csv,,,,info,,"not given, stored as unknown: thermal resistance (17 rows), load life (17 rows), voltage rating (1 row); a solve takes each at its documented default (README, ""Unknown figures"") and lists it"
 	// testdata/resistors_b.csv,2,,TFA0603B25,info,,"lines 2-13 grouped as series TFA0603B25: E12, 12 values from 1000 to 8200 ohm; stock per value runs from 1000 to 1407, the series keeps the least"
 }

@@ -30,7 +30,7 @@ type Group struct {
 // sameGroup reports whether two rows share what every row of a series
 // shares: maker, line, grade and price list.
 func sameGroup(a, b *catalog.Resistor) bool {
-	return a.Maker == b.Maker && a.Line == b.Line && a.ResistorGrade == b.ResistorGrade && a.MinOrder == b.MinOrder &&
+	return a.Maker == b.Maker && a.Line == b.Line && catalog.SameGrade(a.ResistorGrade, b.ResistorGrade) && a.MinOrder == b.MinOrder &&
 		slices.Equal(a.PriceBreaks, b.PriceBreaks)
 }
 

@@ -23,6 +23,15 @@ func (r *rowReader) ranges(a *catalog.Amplifier) error {
 			return r.skip(FieldRailToRail, s, err)
 		}
 	}
+	switch {
+	case in && out:
+		a.RailToRail = catalog.RailInOut
+	case in:
+		a.RailToRail = catalog.RailIn
+	case out:
+		a.RailToRail = catalog.RailOut
+	}
+	a.CMNegV, a.CMPosV, a.SwingNegV, a.SwingPosV = catalog.Unknown(), catalog.Unknown(), catalog.Unknown(), catalog.Unknown()
 	cm, err := r.headroom(FieldCMRange, FieldCMNeg, FieldCMPos, &a.CMNegV, &a.CMPosV)
 	if err != nil {
 		return err
@@ -31,18 +40,13 @@ func (r *rowReader) ranges(a *catalog.Amplifier) error {
 	if err != nil {
 		return err
 	}
-	var assumed []string
-	if !cm && !in {
-		a.CMNegV, a.CMPosV = defaultHeadroomV, defaultHeadroomV
-		assumed = append(assumed, "input common-mode range")
+	// A range not given stays unknown: a solve takes it at a stated default
+	// (rail-to-rail or not) and lists the assumption.
+	if !cm {
+		r.unknown = append(r.unknown, "input common-mode range")
 	}
-	if !sw && !out {
-		a.SwingNegV, a.SwingPosV = defaultHeadroomV, defaultHeadroomV
-		assumed = append(assumed, "output swing")
-	}
-	if len(assumed) > 0 {
-		s, _ := r.raw(FieldRailToRail)
-		r.note(Doubt, FieldRailToRail, s, fmt.Errorf("not rail-to-rail or not stated: %s taken as %g V inside each rail; check the datasheet", strings.Join(assumed, " and "), defaultHeadroomV))
+	if !sw {
+		r.unknown = append(r.unknown, "output swing")
 	}
 	return nil
 }

@@ -1,6 +1,7 @@
 package importers
 
 import (
+	"bufio"
 	"context"
 	"errors"
 	"fmt"
@@ -181,8 +182,14 @@ func (sc *scan) file(name string) error {
 		return &ParseError{File: name, Err: fmt.Errorf("opening: %w", err)}
 	}
 	defer f.Close()
-	return sc.stream(name, f)
+	br := bufio.NewReaderSize(f, sniffBytes)
+	if looksJSON(br) {
+		return sc.snapshot(name, br)
+	}
+	return sc.stream(name, br)
 }
+
+func baseName(name string) string { return filepath.Base(name) }
 
 func (sc *scan) stream(name string, in io.Reader) error {
 	ctx, opt, rep := sc.ctx, sc.opt, sc.rep
@@ -365,6 +372,9 @@ func (sc *scan) stream(name string, in io.Reader) error {
 	}
 	if err := sc.flush(); err != nil {
 		return err
+	}
+	if p, ok := rr.unknownNote(); ok {
+		rep.Problems = append(rep.Problems, p)
 	}
 	fr.Rows = fileRows
 	rep.Files = append(rep.Files, fr)

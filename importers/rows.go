@@ -38,6 +38,24 @@ type rowReader struct {
 	line     int
 	problems []Problem
 	part     string
+	// unknown lists the figures the row does not give, stored as unknown;
+	// unknownRows counts the rows that leave each out, for one note per
+	// file (unknownOrder: first seen first).
+	unknown      []string
+	unknownRows  map[string]int
+	unknownOrder []string
+}
+
+// unknownNote is the file's one note on the figures its rows leave out.
+func (r *rowReader) unknownNote() (Problem, bool) {
+	if len(r.unknownOrder) == 0 {
+		return Problem{}, false
+	}
+	parts := make([]string, len(r.unknownOrder))
+	for i, u := range r.unknownOrder {
+		parts[i] = fmt.Sprintf("%s (%d row%s)", u, r.unknownRows[u], map[bool]string{true: "s"}[r.unknownRows[u] != 1])
+	}
+	return newProblem(Info, &ParseError{File: r.file, Err: fmt.Errorf("not given, stored as unknown: %s; a solve takes each at its documented default (README, \"Unknown figures\") and lists it", strings.Join(parts, ", "))}, ""), true
 }
 
 // parsed is one row read into a part of the file's kind.
@@ -192,7 +210,7 @@ func (r *rowReader) text(f Field) string {
 
 // read turns one record into a part.
 func (r *rowReader) read(rec []string, line int) (parsed, error) {
-	r.rec, r.line, r.part = rec, line, ""
+	r.rec, r.line, r.part, r.unknown = rec, line, "", r.unknown[:0]
 	if err := r.checkWidth(); err != nil {
 		return parsed{}, err
 	}
@@ -250,6 +268,15 @@ func (r *rowReader) read(rec []string, line int) (parsed, error) {
 	// applied here row by row, turn that into one skipped row.
 	if err := snap.Validate(); err != nil {
 		return parsed{}, r.skip("", "", fmt.Errorf("the catalog refuses it: %s", rowRefRE.ReplaceAllString(err.Error(), "")))
+	}
+	for _, u := range r.unknown {
+		if r.unknownRows == nil {
+			r.unknownRows = map[string]int{}
+		}
+		if r.unknownRows[u] == 0 {
+			r.unknownOrder = append(r.unknownOrder, u)
+		}
+		r.unknownRows[u]++
 	}
 	return p, nil
 }
@@ -391,6 +418,9 @@ func (r *rowReader) grade() (g catalog.ResistorGrade, ohm float64, err error) {
 		if err != nil {
 			return 0, err
 		}
+		if !ok {
+			v = catalog.Unknown()
+		}
 		words, inDesc := d.words(f)
 		switch {
 		case ok && inDesc && !closeTo(v, fromDesc):
@@ -401,8 +431,18 @@ func (r *rowReader) grade() (g catalog.ResistorGrade, ohm float64, err error) {
 		case !ok && need:
 			s, _ := r.raw(f)
 			return 0, r.skip(f, s, fmt.Errorf("%w: no %s in its column or the description; fill it or set a fixed value in the mapping", ErrMissingValue, what))
+		case !ok:
+			r.unknown = append(r.unknown, what)
 		}
 		return v, nil
+	}
+	optional := func(f Field, q quantity, what string) (float64, error) {
+		v, ok, _, err := r.value(f, q)
+		if err != nil || ok {
+			return v, err
+		}
+		r.unknown = append(r.unknown, what)
+		return catalog.Unknown(), nil
 	}
 	if r.kind == catalog.KindResistor {
 		if ohm, err = pick(FieldResistance, units.ParseResistance, d.resistance, "resistance", true); err != nil {
@@ -416,7 +456,7 @@ func (r *rowReader) grade() (g catalog.ResistorGrade, ohm float64, err error) {
 	if g.Tolerance, err = pick(FieldTolerance, parseTolerance, d.tolerance, "tolerance", true); err != nil {
 		return g, 0, err
 	}
-	if g.TCR, err = pick(FieldTCR, units.ParsePPM, d.tcr, "temperature coefficient", true); err != nil {
+	if g.TCR, err = pick(FieldTCR, units.ParsePPM, d.tcr, "temperature coefficient", false); err != nil {
 		return g, 0, err
 	}
 	if g.PowerW, err = pick(FieldPower, units.ParsePower, d.power, "power rating", false); err != nil {
@@ -429,14 +469,16 @@ func (r *rowReader) grade() (g catalog.ResistorGrade, ohm float64, err error) {
 	if g.TCR < 0 {
 		g.TCR = -g.TCR
 	}
-	if g.MaxVoltageV, _, _, err = r.value(FieldMaxVoltage, units.ParseVoltage); err != nil {
+	if g.MaxVoltageV, err = optional(FieldMaxVoltage, units.ParseVoltage, "voltage rating"); err != nil {
 		return g, 0, err
 	}
-	if g.ThermalResistance, _, _, err = r.value(FieldThermalRes, units.ParseThermalResistance); err != nil {
-		return g, 0, err
-	}
-	if g.LoadLife, _, _, err = r.value(FieldLoadLife, parseTolerance); err != nil {
-		return g, 0, err
+	if r.kind != catalog.KindNetwork { // figures a network does not have
+		if g.ThermalResistance, err = optional(FieldThermalRes, units.ParseThermalResistance, "thermal resistance"); err != nil {
+			return g, 0, err
+		}
+		if g.LoadLife, err = optional(FieldLoadLife, parseTolerance, "load life"); err != nil {
+			return g, 0, err
+		}
 	}
 	g.Package = r.intern(r.text(FieldPackage))
 	if g.Package == "" && d.pkg != "" {
@@ -449,13 +491,14 @@ func (r *rowReader) grade() (g catalog.ResistorGrade, ohm float64, err error) {
 		r.note(Info, FieldTechnology, desc, fmt.Errorf("technology %s taken from the description", d.tech))
 	}
 	if g.Technology == "" {
-		return g, 0, r.skip(FieldTechnology, "", fmt.Errorf("%w: no technology (thin-film, thick-film, ...) in a column or the description; set fixed technology in a mapping", ErrMissingValue))
+		r.unknown = append(r.unknown, "technology")
 	}
 	if g.Package == "" {
-		return g, 0, r.skip(FieldPackage, "", fmt.Errorf("%w: no package or size code in a column or the description; set fixed package in a mapping", ErrMissingValue))
+		r.unknown = append(r.unknown, "package")
 	}
 	if g.PowerW <= 0 {
-		return g, 0, r.skip(FieldPower, "", fmt.Errorf("%w: no power rating in its column or the description; set fixed power in a mapping", ErrMissingValue))
+		s, _ := r.raw(FieldPower)
+		return g, 0, r.skip(FieldPower, s, fmt.Errorf("%w: a power rating must be above zero", ErrBadValue))
 	}
 	return g, ohm, nil
 }
@@ -521,13 +564,10 @@ func (r *rowReader) network(part string, o catalog.Offer) (*catalog.Network, err
 	if err != nil {
 		return nil, err
 	}
-	if ok {
-		n.TCRTracking = math.Abs(v)
-	} else {
-		// Two elements at opposite corners of the ±TCR box move their ratio
-		// by 2·TCR (domain notes §6, common practice arithmetic).
-		n.TCRTracking = 2 * n.TCR
-		r.note(Doubt, FieldTCRTracking, "", fmt.Errorf("no TCR tracking: taken as 2 × TCR = %g ppm/K, the worst case of two independent elements", n.TCRTracking))
+	n.TCRTracking = math.Abs(v)
+	if !ok {
+		n.TCRTracking = catalog.Unknown()
+		r.unknown = append(r.unknown, "TCR tracking")
 	}
 	return n, nil
 }
@@ -626,14 +666,14 @@ func (r *rowReader) amplifier(part string, o catalog.Offer) (*catalog.Amplifier,
 	figs := []ampFigure{
 		{FieldSupplyMin, parseSupply, &a.SupplyMinV, "supply_min_v", "minimum supply", true},
 		{FieldSupplyMax, parseSupply, &a.SupplyMaxV, "supply_max_v", "maximum supply", true},
-		{FieldVos, units.ParseVoltage, &a.VosV, "vos_v", "input offset voltage", true},
+		{FieldVos, units.ParseVoltage, &a.VosV, "vos_v", "input offset voltage", false},
 		{FieldVosDrift, units.ParseDrift, &a.VosDriftVK, "vos_drift_v_per_k", "offset drift", false},
 		{FieldIb, units.ParseCurrent, &a.IbA, "ib_a", "input bias current", false},
 		{FieldIos, units.ParseCurrent, &a.IosA, "ios_a", "input offset current", false},
-		{FieldAol, units.ParseOpenLoopGain, &a.AolVV, "aol_v_per_v", "open-loop gain", true},
-		{FieldCMRR, units.ParseDB, &a.CMRRdB, "cmrr_db", "CMRR", true},
-		{FieldGBW, units.ParseFrequency, &a.GBWHz, "gbw_hz", "gain-bandwidth product", true},
-		{FieldSlew, units.ParseSlewRate, &a.SlewVs, "slew_v_per_s", "slew rate", true},
+		{FieldAol, units.ParseOpenLoopGain, &a.AolVV, "aol_v_per_v", "open-loop gain", false},
+		{FieldCMRR, units.ParseDB, &a.CMRRdB, "cmrr_db", "CMRR", false},
+		{FieldGBW, units.ParseFrequency, &a.GBWHz, "gbw_hz", "gain-bandwidth product", false},
+		{FieldSlew, units.ParseSlewRate, &a.SlewVs, "slew_v_per_s", "slew rate", false},
 		{FieldNoiseV, units.ParseVoltageNoise, &a.NoiseVHz, "noise_v_per_rthz", "voltage noise density", false},
 		{FieldNoiseI, units.ParseCurrentNoise, &a.NoiseAHz, "noise_a_per_rthz", "current noise density", false},
 		{FieldIq, units.ParseCurrent, &a.IqA, "iq_a", "quiescent current", false},
@@ -649,6 +689,7 @@ func (r *rowReader) amplifier(part string, o catalog.Offer) (*catalog.Amplifier,
 				s, _ := r.raw(f.field)
 				return nil, r.skip(f.field, s, fmt.Errorf("%w: no %s; fill the column or set a fixed value in the mapping", ErrMissingValue, f.what))
 			}
+			*f.dst = catalog.Unknown()
 			missing = append(missing, f.what)
 			continue
 		}
@@ -657,9 +698,13 @@ func (r *rowReader) amplifier(part string, o catalog.Offer) (*catalog.Amplifier,
 			a.TypicalOnly = append(a.TypicalOnly, f.json)
 		}
 	}
-	if len(missing) > 0 {
-		r.note(Doubt, "", "", fmt.Errorf("not given, stored as 0 (the budget leaves them out): %s", strings.Join(missing, ", ")))
+	r.unknown = append(r.unknown, missing...)
+	if a.Package == "" {
+		r.unknown = append(r.unknown, "package")
 	}
+	// The matched-resistor figures do not apply to an op-amp; matched reads
+	// them for an amplifier with fixed gains.
+	a.GainErrorMax, a.GainDriftPPM, a.InNegV, a.InPosV, a.InternalOhm = catalog.Unknown(), catalog.Unknown(), catalog.Unknown(), catalog.Unknown(), catalog.Unknown()
 	if len(a.TypicalOnly) > 0 {
 		r.note(Doubt, "", "", fmt.Errorf("typical figures only for %s: a worst-case budget needs maximums", strings.Join(a.TypicalOnly, ", ")))
 	}
@@ -732,24 +777,28 @@ func (r *rowReader) matched(a *catalog.Amplifier) error {
 	if a.GainErrorMax, err = r.need(FieldGainError, parseTolerance, "gain error (the matched resistors' worst case)"); err != nil {
 		return err
 	}
-	v, ok, _, err := r.value(FieldGainDrift, units.ParsePPM)
+	opt := func(f Field, q quantity, what string) (float64, error) {
+		v, ok, _, err := r.value(f, q)
+		if err == nil && !ok {
+			v = catalog.Unknown()
+			r.unknown = append(r.unknown, what)
+		}
+		return v, err
+	}
+	v, err := opt(FieldGainDrift, units.ParsePPM, "gain drift")
 	if err != nil {
 		return err
 	}
-	if !ok {
-		r.note(Doubt, FieldGainDrift, "", errors.New("no gain drift: stored as 0, the budget leaves it out"))
-	}
 	a.GainDriftPPM = math.Abs(v)
 	// Headroom may be negative (the inputs work beyond the rails).
-	if a.InNegV, _, _, err = r.value(FieldInNeg, units.ParseVoltage); err != nil {
+	if a.InNegV, err = opt(FieldInNeg, units.ParseVoltage, "input range from V-"); err != nil {
 		return err
 	}
-	if a.InPosV, _, _, err = r.value(FieldInPos, units.ParseVoltage); err != nil {
+	if a.InPosV, err = opt(FieldInPos, units.ParseVoltage, "input range from V+"); err != nil {
 		return err
 	}
-	if v, _, _, err = r.value(FieldInternalR, units.ParseResistance); err != nil {
+	if a.InternalOhm, err = opt(FieldInternalR, units.ParseResistance, "internal resistor value"); err != nil {
 		return err
 	}
-	a.InternalOhm = v
 	return nil
 }

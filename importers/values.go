@@ -157,7 +157,7 @@ func trimCountMark(s string) string {
 func railToRail(s string) (in, out bool, err error) {
 	t := strings.ToLower(cleanCell(s))
 	switch t {
-	case "yes", "y", "true", "rrio", "in/out", "input/output", "both", "i/o", "rri/o", "in and out", "rail-to-rail in/out":
+	case "yes", "y", "true", "rrio", "in/out", "input/output", "both", "i/o", "rri/o", "in and out", "rail-to-rail in/out", "in-out", "rail-to-rail", "rail to rail":
 		return true, true, nil
 	case "no", "n", "false", "none":
 		return false, false, nil

@@ -2,6 +2,7 @@ package main
 
 import (
 	"fmt"
+	"math"
 	"strconv"
 	"strings"
 
@@ -95,16 +96,16 @@ func partFields(kind catalog.Kind, v any) []field {
 		add("technology", g.Technology)
 		add("package", g.Package)
 		add("tolerance", "±"+units.FormatPercent(g.Tolerance))
-		add("tcr", "±"+units.FormatPPM(g.TCR))
-		add("power", formatPower(g.PowerW))
-		if g.MaxVoltageV > 0 {
-			add("max voltage", units.Format(g.MaxVoltageV, "V"))
+		add("tcr", orUnknown(g.TCR, func(x float64) string { return "±" + units.FormatPPM(x) }))
+		add("power", orUnknown(g.PowerW, formatPower))
+		if !(g.MaxVoltageV <= 0) {
+			add("max voltage", orUnknown(g.MaxVoltageV, func(x float64) string { return units.Format(x, "V") }))
 		}
-		if g.ThermalResistance > 0 {
-			add("thermal resistance", strconv.FormatFloat(g.ThermalResistance, 'g', 4, 64)+" K/W")
+		if !(g.ThermalResistance <= 0) {
+			add("thermal resistance", orUnknown(g.ThermalResistance, func(x float64) string { return strconv.FormatFloat(x, 'g', 4, 64) + " K/W" }))
 		}
-		if g.LoadLife > 0 {
-			add("load life", units.FormatPercent(g.LoadLife))
+		if !(g.LoadLife <= 0) {
+			add("load life", orUnknown(g.LoadLife, units.FormatPercent))
 		}
 	}
 	offer := func(o catalog.Offer, p catalog.Provenance) {
@@ -150,11 +151,11 @@ func partFields(kind catalog.Kind, v any) []field {
 		add("package", p.Package)
 		add("tolerance", "±"+units.FormatPercent(p.Tolerance))
 		add("ratio tolerance", "±"+units.FormatPercent(p.RatioTolerance))
-		add("tcr", "±"+units.FormatPPM(p.TCR))
-		add("tcr tracking", "±"+units.FormatPPM(p.TCRTracking))
-		add("power per element", formatPower(p.PowerW))
-		if p.MaxVoltageV > 0 {
-			add("max voltage", units.Format(p.MaxVoltageV, "V"))
+		add("tcr", orUnknown(p.TCR, func(x float64) string { return "±" + units.FormatPPM(x) }))
+		add("tcr tracking", orUnknown(p.TCRTracking, func(x float64) string { return "±" + units.FormatPPM(x) }))
+		add("power per element", orUnknown(p.PowerW, formatPower))
+		if !(p.MaxVoltageV <= 0) {
+			add("max voltage", orUnknown(p.MaxVoltageV, func(x float64) string { return units.Format(x, "V") }))
 		}
 		offer(p.Offer, p.Provenance)
 	case *catalog.Amplifier:
@@ -175,7 +176,7 @@ func amplifierFields(add func(string, string), a *catalog.Amplifier) {
 		if v == 0 {
 			return
 		}
-		s := units.Format(v, unit)
+		s := orUnknown(v, func(x float64) string { return units.Format(x, unit) })
 		if typical[jsonName] {
 			s += " (typical only)"
 		}
@@ -187,15 +188,16 @@ func amplifierFields(add func(string, string), a *catalog.Amplifier) {
 	add("channels", strconv.Itoa(a.Channels))
 	add("package", a.Package)
 	add("supply span", units.Format(a.SupplyMinV, "V")+" to "+units.Format(a.SupplyMaxV, "V"))
-	add("input common mode", fmt.Sprintf("V- %+g V to V+ %+g V", a.CMNegV, -a.CMPosV))
-	add("output swing", fmt.Sprintf("V- %+g V to V+ %+g V", a.SwingNegV, -a.SwingPosV))
+	add("input common mode", railRange(a.CMNegV, a.CMPosV))
+	add("output swing", railRange(a.SwingNegV, a.SwingPosV))
+	add("rail-to-rail", a.RailToRail)
 	num("offset voltage", "vos_v", a.VosV, "V")
 	num("offset drift", "vos_drift_v_per_k", a.VosDriftVK, "V/K")
 	num("bias current", "ib_a", a.IbA, "A")
 	num("offset current", "ios_a", a.IosA, "A")
 	num("open-loop gain", "aol_v_per_v", a.AolVV, "V/V")
 	if a.CMRRdB != 0 {
-		add("CMRR", strconv.FormatFloat(a.CMRRdB, 'g', 4, 64)+" dB")
+		add("CMRR", orUnknown(a.CMRRdB, func(x float64) string { return strconv.FormatFloat(x, 'g', 4, 64) + " dB" }))
 	}
 	num("gain-bandwidth", "gbw_hz", a.GBWHz, "Hz")
 	num("slew rate", "slew_v_per_s", a.SlewVs, "V/s")
@@ -208,15 +210,38 @@ func amplifierFields(add func(string, string), a *catalog.Amplifier) {
 			gains[i] = strconv.FormatFloat(g, 'g', 6, 64)
 		}
 		add("gains", strings.Join(gains, ", "))
-		if a.GainErrorMax > 0 {
-			add("gain error", "±"+units.FormatPercent(a.GainErrorMax))
+		if !(a.GainErrorMax <= 0) {
+			add("gain error", orUnknown(a.GainErrorMax, func(x float64) string { return "±" + units.FormatPercent(x) }))
 		}
-		if a.GainDriftPPM > 0 {
-			add("gain drift", "±"+units.FormatPPM(a.GainDriftPPM))
+		if !(a.GainDriftPPM <= 0) {
+			add("gain drift", orUnknown(a.GainDriftPPM, func(x float64) string { return "±" + units.FormatPPM(x) }))
 		}
-		add("input range", fmt.Sprintf("V- %+g V to V+ %+g V", a.InNegV, -a.InPosV))
-		if a.InternalOhm > 0 {
-			add("internal resistors", units.FormatOhms(a.InternalOhm)+" ohm")
+		add("input range", railRange(a.InNegV, a.InPosV))
+		if !(a.InternalOhm <= 0) {
+			add("internal resistors", orUnknown(a.InternalOhm, func(x float64) string { return units.FormatOhms(x) + " ohm" }))
 		}
 	}
+}
+
+// orUnknown formats a figure, or "-" when it is unknown (NaN).
+func orUnknown(v float64, format func(float64) string) string {
+	if math.IsNaN(v) {
+		return "-"
+	}
+	return format(v)
+}
+
+// railRange writes a range given as headroom from each rail, "-" for a side
+// that is unknown.
+func railRange(neg, pos float64) string {
+	side := func(v float64) string {
+		if math.IsNaN(v) {
+			return "-"
+		}
+		return fmt.Sprintf("%+g V", v)
+	}
+	if math.IsNaN(neg) && math.IsNaN(pos) {
+		return "-"
+	}
+	return "V- " + side(neg) + " to V+ " + side(-pos)
 }

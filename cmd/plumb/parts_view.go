@@ -79,8 +79,8 @@ func amplifierRow(a catalog.Amplifier) partRow {
 		a.Maker, a.Package,
 		keep(fmt.Sprintf("%d ch", a.Channels)),
 		keep("supply " + units.Format(a.SupplyMinV, "") + "-" + units.Format(a.SupplyMaxV, "V")),
-		keep("Vos " + units.Format(a.VosV, "V")),
-		keep("GBW " + units.Format(a.GBWHz, "Hz")),
+		keep("Vos " + orUnknown(a.VosV, func(x float64) string { return units.Format(x, "V") })),
+		keep("GBW " + orUnknown(a.GBWHz, func(x float64) string { return units.Format(x, "Hz") })),
 	}
 	if a.Type == catalog.MatchedAmp {
 		r.Tolerance, r.TCR = a.GainErrorMax, a.GainDriftPPM
@@ -90,7 +90,7 @@ func amplifierRow(a catalog.Amplifier) partRow {
 		}
 		detail = append(detail[:2:2], append([]string{keep("gain " + strings.Join(gains, "/"))}, detail[2:]...)...)
 	}
-	r.Detail = strings.Join(detail, ", ")
+	r.Detail = joinNonEmpty(detail...)
 	return r
 }
 
@@ -114,7 +114,7 @@ func (r partRow) table() []string {
 		price = formatMoney(b.UnitPrice, b.Currency)
 	}
 	tcr := "-"
-	if r.TCR != 0 {
+	if r.TCR != 0 && !math.IsNaN(r.TCR) {
 		tcr = strconv.FormatFloat(r.TCR, 'g', 4, 64)
 	}
 	return []string{r.Part, string(r.Kind), r.Value, optPercent(r.Tolerance), tcr, price, formatStock(r.Offer.Stock), r.Detail}
@@ -129,27 +129,33 @@ func (r partRow) csv() []string {
 	if r.ValueOhm > 0 {
 		valueOhm = strconv.FormatFloat(r.ValueOhm, 'g', -1, 64)
 	}
+	figure := func(x float64) string {
+		if math.IsNaN(x) {
+			return "" // unknown
+		}
+		return strconv.FormatFloat(x, 'g', -1, 64)
+	}
 	return []string{string(r.Kind), r.Part, r.Maker, r.Value, valueOhm,
-		strconv.FormatFloat(r.Tolerance, 'g', -1, 64), strconv.FormatFloat(r.TCR, 'g', -1, 64),
+		figure(r.Tolerance), figure(r.TCR),
 		r.Package, r.Technology, price, cur, qty, strconv.Itoa(r.Offer.Stock), r.Detail}
 }
 
 func optPercent(f float64) string {
-	if f == 0 {
+	if f == 0 || math.IsNaN(f) {
 		return "-"
 	}
 	return units.FormatPercent(f)
 }
 
 func optPPM(p float64) string {
-	if p == 0 {
+	if p == 0 || math.IsNaN(p) {
 		return "-"
 	}
 	return strconv.FormatFloat(p, 'g', 4, 64) + " ppm/K"
 }
 
 func formatPower(w float64) string {
-	if w == 0 {
+	if w == 0 || math.IsNaN(w) {
 		return ""
 	}
 	return keep(units.Format(w, "W"))

@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"plumb/optimize/assume"
 	"slices"
 	"sort"
 	"strings"
@@ -77,7 +78,41 @@ func EvaluateContext(ctx context.Context, s *spec.Spec, d *spec.Design, progress
 	if err != nil {
 		return nil, err
 	}
-	return e.Evaluate(c)
+	res, err := e.Evaluate(c)
+	if err != nil {
+		return nil, err
+	}
+	applyAssumptions(res, s, d.Assumptions)
+	return res, nil
+}
+
+// applyAssumptions lists on the result the catalog figures it rests on
+// that nobody gave (taken at their defaults by package assume), and under
+// assumptions: strict refuses to call met a limit that depends on one.
+func applyAssumptions(res *Result, s *spec.Spec, as []assume.Assumption) {
+	if len(as) == 0 {
+		return
+	}
+	res.Assumptions = as
+	res.Notes = append(res.Notes, assume.Notes(as)...)
+	if s.Assumptions != spec.AssumeStrict {
+		return
+	}
+	for i := range res.Limits {
+		l := &res.Limits[i]
+		on := assume.Touching(as, l.Name)
+		if !l.Pass || len(on) == 0 {
+			continue
+		}
+		var what []string
+		for _, a := range on {
+			what = append(what, a.Part+" "+a.Figure)
+		}
+		l.Pass = false
+		l.MarginText = "not proven: rests on assumed figures"
+		res.Pass = false
+		res.Notes = append(res.Notes, fmt.Sprintf("assumptions: strict: %s is not called met, it rests on figures the catalog does not give (%s); add them to the catalog", l.Name, strings.Join(what, ", ")))
+	}
 }
 
 // Evaluate computes the full budget of candidate c (see the package

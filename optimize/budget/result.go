@@ -4,6 +4,7 @@ import (
 	"strconv"
 
 	"plumb/catalog/units"
+	"plumb/optimize/assume"
 )
 
 // Contribution is one term of a metric's budget: a part's tolerance, a
@@ -156,22 +157,25 @@ type Result struct {
 	Cautions    []string   `json:"cautions"`
 	Notes       []string   `json:"notes"`
 	MonteCarlo  *MCSummary `json:"monte_carlo,omitempty"`
+	// Assumptions are the catalog figures the result rests on that nobody
+	// gave, taken at their documented defaults (package assume).
+	Assumptions []assume.Assumption `json:"assumptions,omitempty"`
 }
 
 // Limit names used in Result.Limits, Score and MCSummary.
 const (
-	LimitGainError      = "gain error"
-	LimitCMRR           = "CMRR"
-	LimitGainDrift      = "gain drift"
-	LimitOutputOffset   = "output offset"
-	LimitOffsetDrift    = "offset drift"
-	LimitNoiseRMS       = "noise RMS"
-	LimitNoiseDensity   = "noise density"
-	LimitBandwidth      = "bandwidth"
-	LimitInputImpedance = "input impedance"
-	LimitHeadroom       = "amplifier headroom"
-	LimitPower          = "resistor power"
-	LimitVoltage        = "resistor voltage"
+	LimitGainError      = assume.LimitGainError
+	LimitCMRR           = assume.LimitCMRR
+	LimitGainDrift      = assume.LimitGainDrift
+	LimitOutputOffset   = assume.LimitOutputOffset
+	LimitOffsetDrift    = assume.LimitOffsetDrift
+	LimitNoiseRMS       = assume.LimitNoiseRMS
+	LimitNoiseDensity   = assume.LimitNoiseDensity
+	LimitBandwidth      = assume.LimitBandwidth
+	LimitInputImpedance = assume.LimitInputImpedance
+	LimitHeadroom       = assume.LimitHeadroom
+	LimitPower          = assume.LimitPower
+	LimitVoltage        = assume.LimitVoltage
 )
 
 // FormatFigure writes a figure in the unit words of Limit.Unit, as every

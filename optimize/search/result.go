@@ -3,6 +3,7 @@ package search
 import (
 	"fmt"
 	"math"
+	"plumb/optimize/assume"
 	"sort"
 
 	"plumb/catalog"
@@ -92,6 +93,9 @@ type Design struct {
 	// near their ratings, amplifier pins near their limits, hazardous
 	// voltage.
 	Cautions []string `json:"cautions,omitempty"`
+	// Assumptions are the figures of this design's parts that the catalog
+	// does not give and the search took at their documented defaults.
+	Assumptions []assume.Assumption `json:"assumptions,omitempty"`
 
 	// budget is the exact budget adopted for the design (nil: screening
 	// figures only, as in SolveProblem and Exhaustive).

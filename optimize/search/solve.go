@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"plumb/optimize/assume"
 	"slices"
 	"sort"
 	"strings"
@@ -31,15 +32,27 @@ func Solve(ctx context.Context, snap *catalog.Snapshot, s *spec.Spec, opt Option
 	if err != nil {
 		return nil, err
 	}
+	// One of the two places catalog parts enter the search (SolveCatalog
+	// is the other): unknown figures get their documented defaults here,
+	// and each design lists those it rests on.
+	snap, assumed := assume.Snapshot(snap)
+	var strictNote string
+	if s.Assumptions == spec.AssumeStrict {
+		snap, strictNote = withoutAssumed(snap, assumed, constrained(s))
+	}
 	parts := &Parts{Series: snap.ResistorSeries, Resistors: snap.Resistors, Networks: snap.Networks, Amplifiers: snap.Amplifiers}
-	return solveSpec(ctx, parts, p, s, opt)
+	r, err := solveSpec(ctx, parts, p, s, opt)
+	r.attachAssumptions(assumed.For, strictNote)
+	return r, err
 }
 
 // SolveCatalog is Solve reading the catalog file itself: the resistors
 // through indexed queries of the spec's value window, streamed and reduced
 // to what the search keeps (per grade, each value's cheapest part), so that
 // time and memory follow the candidate rows, not the catalog; the networks
-// and amplifiers are read whole.
+// and amplifiers are read whole. Unknown figures get their defaults as in
+// Solve: the streamed rows as they pass, and the assumptions of the parts
+// of the designs found are looked up afterwards.
 func SolveCatalog(ctx context.Context, st *catalog.Store, s *spec.Spec, opt Options) (*Result, error) {
 	if err := opt.check(); err != nil {
 		return nil, err
@@ -56,7 +69,26 @@ func SolveCatalog(ctx context.Context, st *catalog.Store, s *spec.Spec, opt Opti
 	if err != nil {
 		return nil, err
 	}
-	return solveSpec(ctx, &Parts{Networks: nets, Amplifiers: amps, rows: st}, p, s, opt)
+	snap, assumed := assume.Snapshot(&catalog.Snapshot{Networks: nets, Amplifiers: amps})
+	rows := &assumedRows{src: st}
+	var strictNote string
+	if s.Assumptions == spec.AssumeStrict {
+		rows.limits = constrained(s)
+		snap, strictNote = withoutAssumed(snap, assumed, rows.limits)
+	}
+	r, err := solveSpec(ctx, &Parts{Networks: snap.Networks, Amplifiers: snap.Amplifiers, rows: rows}, p, s, opt)
+	of := func(parts ...string) []assume.Assumption {
+		out := assumed.For(parts...)
+		for _, part := range parts {
+			if kind, v, err := st.Find(ctx, part); err == nil && kind == catalog.KindResistor {
+				_, as := assume.Part(v)
+				out = append(out, as...)
+			}
+		}
+		return out
+	}
+	r.attachAssumptions(of, strings.TrimSpace(strictNote+" "+rows.note()))
+	return r, err
 }
 
 func solveSpec(ctx context.Context, parts *Parts, p Problem, s *spec.Spec, opt Options) (*Result, error) {
@@ -66,6 +98,130 @@ func solveSpec(ctx context.Context, parts *Parts, p Problem, s *spec.Spec, opt O
 		r.spec = s
 	}
 	return r, err
+}
+
+// assumedRows streams resistor rows with their unknown figures filled
+// (assume.FillGrade); with limits set (assumptions: strict) it leaves out
+// the rows whose filled figures feed one of them, and counts them.
+type assumedRows struct {
+	src    catalog.ResistorSource
+	limits map[string]bool
+	left   []string // the first parts left out
+	nLeft  int
+}
+
+func (a *assumedRows) EachResistor(ctx context.Context, q catalog.ResistorQuery, fn func(*catalog.ResistorRow) error) error {
+	return a.src.EachResistor(ctx, q, func(r *catalog.ResistorRow) error {
+		filled := assume.FillGrade(&r.Grade)
+		if a.limits != nil && feedsAny(filled, a.limits) {
+			if a.nLeft++; len(a.left) < 10 {
+				a.left = append(a.left, r.Part)
+			}
+			return nil
+		}
+		return fn(r)
+	})
+}
+
+// note says which rows strict assumptions left out.
+func (a *assumedRows) note() string {
+	if a.nLeft == 0 {
+		return ""
+	}
+	return fmt.Sprintf("assumptions: strict: %d resistor row(s) read for the search left out because a limit would rest on a figure the catalog does not give: %s",
+		a.nLeft, strings.Join(a.left, ", "))
+}
+
+func feedsAny(figures []string, limits map[string]bool) bool {
+	for _, f := range figures {
+		for _, l := range assume.Feeds(f) {
+			if limits[l] {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+// constrained lists the limits a spec sets, with those every design is
+// checked against (headroom and resistor ratings).
+func constrained(s *spec.Spec) map[string]bool {
+	l := s.Limits
+	set := map[string]bool{assume.LimitHeadroom: true, assume.LimitPower: true, assume.LimitVoltage: true}
+	for name, on := range map[string]bool{assume.LimitGainError: l.GainError > 0, assume.LimitCMRR: l.CMRRdB > 0,
+		assume.LimitGainDrift: l.GainDrift > 0, assume.LimitOutputOffset: l.OutputOffsetV > 0, assume.LimitOffsetDrift: l.OffsetDriftVK > 0,
+		assume.LimitNoiseRMS: l.NoiseRMSV > 0, assume.LimitNoiseDensity: l.NoiseDensity > 0, assume.LimitBandwidth: l.BandwidthHz > 0,
+		assume.LimitInputImpedance: l.InputImpedance > 0} {
+		set[name] = on
+	}
+	return set
+}
+
+// withoutAssumed leaves out of the snapshot every part with an assumed
+// figure that feeds one of the limits (assumptions: strict), and says how
+// many and which.
+func withoutAssumed(snap *catalog.Snapshot, set assume.Set, limits map[string]bool) (*catalog.Snapshot, string) {
+	var out []string
+	touches := func(part string) bool {
+		for _, a := range set[part] {
+			for _, l := range assume.Feeds(a.Figure) {
+				if limits[l] {
+					out = append(out, part)
+					return true
+				}
+			}
+		}
+		return false
+	}
+	s := *snap
+	s.ResistorSeries = slices.DeleteFunc(slices.Clone(s.ResistorSeries), func(p catalog.ResistorSeries) bool { return touches(p.Part) })
+	s.Resistors = slices.DeleteFunc(slices.Clone(s.Resistors), func(p catalog.Resistor) bool { return touches(p.Part) })
+	s.Networks = slices.DeleteFunc(slices.Clone(s.Networks), func(p catalog.Network) bool { return touches(p.Part) })
+	s.Amplifiers = slices.DeleteFunc(slices.Clone(s.Amplifiers), func(p catalog.Amplifier) bool { return touches(p.Part) })
+	if len(out) == 0 {
+		return &s, ""
+	}
+	sort.Strings(out)
+	shown := out
+	if len(shown) > 10 {
+		shown = append(slices.Clone(shown[:10]), fmt.Sprintf("and %d more", len(out)-10))
+	}
+	return &s, fmt.Sprintf("assumptions: strict: %d part(s) left out because a limit would rest on a figure the catalog does not give: %s", len(out), strings.Join(shown, ", "))
+}
+
+// attachAssumptions lists on each design and near miss the assumptions its
+// parts rest on (of gives them for a list of part numbers), notes those of
+// the ranked designs once, and adds the note of what strict assumptions
+// left out. A nil result is left alone.
+func (r *Result) attachAssumptions(of func(parts ...string) []assume.Assumption, strictNote string) {
+	if r == nil {
+		return
+	}
+	partsOf := func(d *Design) []assume.Assumption {
+		var parts []string
+		for _, p := range d.Parts {
+			parts = append(parts, p.Part)
+		}
+		return of(parts...)
+	}
+	var all []assume.Assumption
+	seen := map[string]bool{}
+	for i := range r.Designs {
+		r.Designs[i].Assumptions = partsOf(&r.Designs[i])
+		for _, a := range r.Designs[i].Assumptions {
+			if k := a.Part + "|" + a.Figure; !seen[k] {
+				seen[k] = true
+				all = append(all, a)
+			}
+		}
+	}
+	for i := range r.NearMisses {
+		r.NearMisses[i].Assumptions = partsOf(&r.NearMisses[i].Design)
+	}
+	r.Notes = append(r.Notes, assume.Notes(all)...)
+	if strictNote != "" {
+		r.Notes = append(r.Notes, strictNote)
+	}
 }
 
 // FromSpec turns a spec into the search's requirement. Families the search

@@ -3,6 +3,7 @@ package spec
 import (
 	"fmt"
 	"os"
+	"plumb/optimize/assume"
 	"slices"
 	"sort"
 	"strings"
@@ -91,6 +92,10 @@ type Design struct {
 	Positions  []Position      `json:"positions"` // sorted by name
 	Amplifier  AmplifierChoice `json:"amplifier"`
 	SourceFile string          `json:"-"`
+	// Assumptions are the figures of the design's catalog parts that the
+	// catalog does not give, taken at their documented defaults when
+	// Resolve looked the parts up.
+	Assumptions []assume.Assumption `json:"assumptions,omitempty"`
 }
 
 // Position returns the named position or nil.
@@ -394,6 +399,19 @@ type Lookup func(part string) (catalog.Kind, any, error)
 // every reference resolves.
 func (d *Design) Resolve(lookup Lookup) error {
 	p := &problems{kind: "design", file: d.SourceFile}
+	// The one place a design's catalog parts enter: unknown figures get
+	// their documented defaults, and the design lists them.
+	var assumed []assume.Assumption
+	raw := lookup
+	lookup = func(part string) (catalog.Kind, any, error) {
+		kind, v, err := raw(part)
+		if err != nil {
+			return kind, v, err
+		}
+		v, as := assume.Part(v)
+		assumed = append(assumed, as...)
+		return kind, v, nil
+	}
 	positions := slices.Clone(d.Positions)
 	for i := range positions {
 		pos := &positions[i]
@@ -432,6 +450,14 @@ func (d *Design) Resolve(lookup Lookup) error {
 		return err
 	}
 	d.Positions, d.Amplifier = positions, amp
+	set := assume.Set{}
+	set.Add(d.Assumptions)
+	set.Add(assumed)
+	var parts []string
+	for part := range set {
+		parts = append(parts, part)
+	}
+	d.Assumptions = set.For(parts...)
 	return nil
 }
 

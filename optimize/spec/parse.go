@@ -31,6 +31,7 @@ type rawSpec struct {
 	Build           rawBuild    `yaml:"build"`
 	Combos          []string    `yaml:"combos"`
 	Derating        string      `yaml:"derating"`
+	Assumptions     string      `yaml:"assumptions"`
 }
 
 type rawInput struct {
@@ -407,6 +408,13 @@ func parseEnvironment(p *problems, r *rawSpec, s *Spec) {
 		if !p.failed("derating") && (s.Derating <= 0 || s.Derating > 1) {
 			p.add("derating", "%q must lie between 0 %% and 100 %% of rated power", r.Derating)
 		}
+	}
+	switch s.Assumptions = strings.TrimSpace(r.Assumptions); s.Assumptions {
+	case "":
+		s.Assumptions = AssumeDefaults
+	case AssumeDefaults, AssumeStrict:
+	default:
+		p.add("assumptions", "%q is not a choice; use defaults (unknown catalog figures are taken at their documented defaults) or strict (no limit is met on an unknown figure)", r.Assumptions)
 	}
 	if len(r.Combos) > 2 {
 		p.add("combos", "lists %d entries; give series, parallel or both, each once", len(r.Combos))

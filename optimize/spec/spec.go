@@ -124,23 +124,36 @@ type Spec struct {
 	// CommonMode is the input common-mode range, V.
 	CommonMode Range `json:"common_mode"`
 	// Output is the wanted output range (level-shift), V.
-	Output     Range       `json:"output"`
-	Supply     Range       `json:"supply"` // Min is the negative rail, Max the positive
-	Reference  *Reference  `json:"reference,omitempty"`
-	SourceOhm  float64     `json:"source_ohm"`
-	LoadOhm    float64     `json:"load_ohm"`  // 0 = unloaded
-	LeakageA   float64     `json:"leakage_a"` // current drawn by the load, A
-	Temp       Range       `json:"temperature_c"`
-	TempRef    float64     `json:"temperature_ref_c"`
-	Limits     Limits      `json:"limits"`
-	Analysis   Analysis    `json:"analysis"`
-	Calibrate  Calibration `json:"calibration"`
-	Impedance  Range       `json:"impedance_ohm"`
-	Build      Build       `json:"build"`
-	Combos     []string    `json:"combos"` // "series", "parallel"
-	Derating   float64     `json:"derating"`
-	SourceFile string      `json:"-"`
+	Output    Range       `json:"output"`
+	Supply    Range       `json:"supply"` // Min is the negative rail, Max the positive
+	Reference *Reference  `json:"reference,omitempty"`
+	SourceOhm float64     `json:"source_ohm"`
+	LoadOhm   float64     `json:"load_ohm"`  // 0 = unloaded
+	LeakageA  float64     `json:"leakage_a"` // current drawn by the load, A
+	Temp      Range       `json:"temperature_c"`
+	TempRef   float64     `json:"temperature_ref_c"`
+	Limits    Limits      `json:"limits"`
+	Analysis  Analysis    `json:"analysis"`
+	Calibrate Calibration `json:"calibration"`
+	Impedance Range       `json:"impedance_ohm"`
+	Build     Build       `json:"build"`
+	Combos    []string    `json:"combos"` // "series", "parallel"
+	Derating  float64     `json:"derating"`
+	// Assumptions is AssumeDefaults or AssumeStrict: what a catalog figure
+	// nobody gave may do for a limit.
+	Assumptions string `json:"assumptions"`
+	SourceFile  string `json:"-"`
 }
+
+// What unknown catalog figures may do (Spec.Assumptions).
+const (
+	// AssumeDefaults takes an unknown figure at its documented default
+	// (package assume) and lists the assumption with the result.
+	AssumeDefaults = "defaults"
+	// AssumeStrict refuses to call a limit met when a figure it depends on
+	// is unknown.
+	AssumeStrict = "strict"
+)
 
 // WorstExcursion is max(|Tmax-Tref|, |Tmin-Tref|), K (domain notes §3).
 func (s *Spec) WorstExcursion() float64 {
