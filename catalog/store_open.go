@@ -74,12 +74,17 @@ func create(path string, force bool) (*Store, error) {
 	if err := checkPath(path); err != nil {
 		return nil, err
 	}
-	if fi, err := os.Stat(path); err == nil {
+	if fi, err := os.Lstat(path); err == nil {
 		if fi.IsDir() {
 			return nil, fmt.Errorf("%w: %s is a directory: give a file name for the catalog", ErrExists, path)
 		}
 		if !force {
 			return nil, fmt.Errorf("%w: %s already exists: open it, or use --force to replace it with an empty catalog", ErrExists, path)
+		}
+		if !fi.Mode().IsRegular() {
+			// Renaming the new catalog over a link, a device or a FIFO
+			// would destroy it or leave the catalog somewhere unnamed.
+			return nil, fmt.Errorf("%w: %s is not a regular file (a link, a device or a FIFO): only a regular file is replaced", ErrExists, path)
 		}
 	}
 	// Build the new catalog beside the target and rename it into place, so

@@ -4,7 +4,6 @@ import (
 	"context"
 	"errors"
 	"fmt"
-	"io/fs"
 	"os"
 	"path/filepath"
 
@@ -73,10 +72,10 @@ with ` + "`plumb import`" + `.`,
 }
 
 func runCatalogInit(ctx context.Context, opts *catalogInitOptions) error {
-	if _, err := os.Stat(opts.Path); err == nil && !opts.Force {
+	if err := replaceable(opts.Path, opts.Force); errors.Is(err, errFileExists) {
 		return fmt.Errorf("catalog %s already exists: use it with --catalog %s, or add --force to replace it (its parts are lost)", opts.Path, opts.Path)
-	} else if err != nil && !errors.Is(err, fs.ErrNotExist) {
-		return fmt.Errorf("catalog %s: %w", opts.Path, err)
+	} else if err != nil {
+		return fmt.Errorf("catalog: %w", err)
 	}
 	if err := os.MkdirAll(filepath.Dir(opts.Path), 0o755); err != nil {
 		return fmt.Errorf("creating the directory for catalog %s: %w", opts.Path, err)

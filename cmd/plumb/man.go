@@ -2,6 +2,7 @@ package main
 
 import (
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"sort"
@@ -56,7 +57,8 @@ func runMan(opts *manOptions) error {
 		}
 		name := strings.ReplaceAll(c.CommandPath(), " ", "-") + ".1"
 		path := filepath.Join(opts.Dir, name)
-		if err := os.WriteFile(path, []byte(manPage(c, date)), 0o644); err != nil {
+		page := manPage(c, date)
+		if err := writeFileAtomic(path, true, func(w io.Writer) error { _, err := io.WriteString(w, page); return err }); err != nil {
 			return fmt.Errorf("writing manual page: %w", err)
 		}
 		if !opts.Quiet {

@@ -2,10 +2,7 @@ package main
 
 import (
 	"context"
-	"errors"
 	"fmt"
-	"io/fs"
-	"os"
 	"path/filepath"
 	"strings"
 	"time"
@@ -87,10 +84,10 @@ func runReport(ctx context.Context, opts *reportOptions) error {
 			return err
 		}
 	}
-	if _, err := os.Stat(opts.Output); err == nil && !opts.Force {
-		return fmt.Errorf("%w: %s: choose another name or add --force to replace it", errFileExists, opts.Output)
-	} else if err != nil && !errors.Is(err, fs.ErrNotExist) {
-		return fmt.Errorf("report %s: %w", opts.Output, err)
+	// Refuse before the work, not after it; the plot files of a Markdown
+	// report are checked once their names are known.
+	if err := replaceable(opts.Output, opts.Force); err != nil {
+		return err
 	}
 	st, err := opts.Catalog(ctx)
 	if err != nil {
@@ -109,9 +106,12 @@ func runReport(ctx context.Context, opts *reportOptions) error {
 		if dir == "" {
 			dir = "."
 		}
-		err = rep.WriteMarkdown(dir, name)
+		var files []report.File
+		if files, err = rep.MarkdownFiles(name); err == nil {
+			err = writeMarkdownReport(dir, files, opts.Force)
+		}
 	} else {
-		err = writeFileAtomic(opts.Output, true, rep.WriteHTML)
+		err = writeFileAtomic(opts.Output, opts.Force, rep.WriteHTML)
 	}
 	if err != nil {
 		return fmt.Errorf("writing report %s: %w", opts.Output, err)

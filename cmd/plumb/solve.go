@@ -3,7 +3,6 @@ package main
 import (
 	"errors"
 	"fmt"
-	"os"
 	"strings"
 	"time"
 
@@ -86,10 +85,10 @@ func runSolve(cmd *cobra.Command, opts *solveOptions) error {
 	if err != nil {
 		return err
 	}
-	if opts.BOM != "" && !opts.Force {
+	if opts.BOM != "" {
 		// Refuse before searching, not after printing the whole result.
-		if _, err := os.Stat(opts.BOM); err == nil {
-			return fmt.Errorf("%w: --bom %s: choose another name or add --force to replace it", errFileExists, opts.BOM)
+		if err := replaceable(opts.BOM, opts.Force); err != nil {
+			return fmt.Errorf("--bom: %w", err)
 		}
 	}
 	st, err := opts.Catalog(ctx)

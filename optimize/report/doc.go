@@ -20,8 +20,9 @@
 // WriteHTML writes one self-contained XHTML-clean file: inline CSS (with a
 // print style sheet and a page break before each design), inline SVG plots
 // drawn with gonum.org/v1/plot's vgsvg backend, no scripts and no fetches;
-// a Content-Security-Policy meta element forbids any. WriteMarkdown writes
-// the same content as Markdown with the plots as .svg files beside it.
+// a Content-Security-Policy meta element forbids any. MarkdownFiles gives
+// the same content as Markdown with the plots as .svg files to write beside
+// it, and a list of them (Sidecars) so that a later report knows its own.
 //
 // Plot colours are the Okabe–Ito palette (M. Okabe and K. Ito, "Color
 // Universal Design", 2008), which stays distinguishable under the common

@@ -2,10 +2,7 @@ package report
 
 import (
 	"bytes"
-	"errors"
 	"fmt"
-	"os"
-	"path/filepath"
 	"slices"
 	"strings"
 )
@@ -73,21 +70,24 @@ func mdList(b *bytes.Buffer, heading string, items []string, mark string) {
 	b.WriteString("\n")
 }
 
-// WriteMarkdown writes the report as dir/name.md with every plot as
-// dir/name-PLOT.svg beside it, linked by relative paths. All files are
-// written under temporary names first and renamed at the end, so a failure
-// leaves no partial report behind.
-func (r *Report) WriteMarkdown(dir, name string) (err error) {
+// File is one file of a report: a plain file name and its content.
+type File struct {
+	Name string
+	Data []byte
+}
+
+// MarkdownFiles returns the report as Markdown: the plots as NAME-PLOT.svg
+// files, then NAME.md linking them by relative path. The Markdown ends
+// with a comment that lists the plot files (see Sidecars), so that a later
+// report of the same name knows which files beside it are its own. The
+// caller writes the files; nothing here touches the file system.
+func (r *Report) MarkdownFiles(name string) ([]File, error) {
 	name = strings.TrimSuffix(name, ".md")
 	if name == "" || strings.ContainsAny(name, `/\`) {
-		return fmt.Errorf("%w: Markdown report name %q: give a plain file name without directories", ErrInput, name)
+		return nil, fmt.Errorf("%w: Markdown report name %q: give a plain file name without directories", ErrInput, name)
 	}
-	files := map[string][]byte{}
-	var order []string
-	put := func(file string, data []byte) {
-		files[file] = data
-		order = append(order, file)
-	}
+	var files []File
+	put := func(file string, data []byte) { files = append(files, File{file, data}) }
 	var b bytes.Buffer
 	fig := func(p *Plot) {
 		file := name + "-" + p.Name + ".svg"
@@ -167,38 +167,36 @@ func (r *Report) WriteMarkdown(dir, name string) (err error) {
 	mdList(&b, "", r.Cautions, "")
 	mdList(&b, "## Notes", append(slices.Clip(r.Notes), fixedNotes...), "")
 	fmt.Fprintf(&b, "*%s*\n", md(r.Disclaimer))
+	var plots []string
+	for _, f := range files {
+		plots = append(plots, f.Name)
+	}
+	fmt.Fprintf(&b, "\n%s %s -->\n", sidecarMark, strings.Join(plots, " "))
 	put(name+".md", b.Bytes())
-	return writeAll(dir, order, files)
+	return files, nil
 }
 
-// writeAll writes every file under a temporary name in dir, then renames
-// them into place; on any failure the temporary files are removed.
-func writeAll(dir string, order []string, files map[string][]byte) (err error) {
-	var tmps []string
-	defer func() {
-		if err != nil {
-			for _, t := range tmps {
-				os.Remove(t)
-			}
-		}
-	}()
-	for _, f := range order {
-		tf, err := os.CreateTemp(dir, "."+f+".*.tmp")
-		if err != nil {
-			return fmt.Errorf("report: writing Markdown report in %s: %w", dir, err)
-		}
-		tmps = append(tmps, tf.Name())
-		merr := tf.Chmod(0o644)
-		_, werr := tf.Write(files[f])
-		cerr := tf.Close()
-		if err := errors.Join(merr, werr, cerr); err != nil {
-			return fmt.Errorf("report: writing %s: %w", filepath.Join(dir, f), err)
+// sidecarMark starts the comment at the end of a Markdown report that
+// lists its plot files.
+const sidecarMark = "<!-- plumb report files:"
+
+// Sidecars returns the plot files that the Markdown report md lists as its
+// own: plain .svg file names, nothing else (a file that is no plumb report,
+// or a name with a directory in it, gives none).
+func Sidecars(md []byte) []string {
+	i := bytes.LastIndex(md, []byte(sidecarMark))
+	if i < 0 {
+		return nil
+	}
+	rest, _, ok := strings.Cut(string(md[i+len(sidecarMark):]), "-->")
+	if !ok {
+		return nil
+	}
+	var out []string
+	for _, f := range strings.Fields(rest) {
+		if strings.HasSuffix(f, ".svg") && !strings.ContainsAny(f, `/\`) && !strings.HasPrefix(f, ".") {
+			out = append(out, f)
 		}
 	}
-	for i, f := range order {
-		if err := os.Rename(tmps[i], filepath.Join(dir, f)); err != nil {
-			return fmt.Errorf("report: writing %s: %w", filepath.Join(dir, f), err)
-		}
-	}
-	return nil
+	return out
 }

@@ -10,6 +10,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -534,9 +535,7 @@ func TestTemperatureEnvelope(t *testing.T) {
 func TestMarkdown(t *testing.T) {
 	r := buildFixture(t, "testdata/channel.yaml")
 	dir := t.TempDir()
-	if err := r.WriteMarkdown(dir, "channel.md"); err != nil {
-		t.Fatal(err)
-	}
+	writeMarkdown(t, r, dir, "channel.md")
 	text, err := os.ReadFile(filepath.Join(dir, "channel.md"))
 	if err != nil {
 		t.Fatal(err)
@@ -612,12 +611,9 @@ func TestBuildErrors(t *testing.T) {
 	}
 	r := buildFixture(t, "testdata/channel.yaml")
 	for _, name := range []string{"", "sub/report", `a\b`} {
-		if err := r.WriteMarkdown(t.TempDir(), name); !errors.Is(err, ErrInput) {
-			t.Errorf("WriteMarkdown name %q: error %v, want ErrInput", name, err)
+		if _, err := r.MarkdownFiles(name); !errors.Is(err, ErrInput) {
+			t.Errorf("MarkdownFiles name %q: error %v, want ErrInput", name, err)
 		}
-	}
-	if err := r.WriteMarkdown(filepath.Join(t.TempDir(), "missing"), "r"); err == nil || !strings.Contains(err.Error(), "missing") {
-		t.Errorf("WriteMarkdown into a missing directory: %v, want an error naming it", err)
 	}
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()
@@ -733,9 +729,7 @@ func TestEscaping(t *testing.T) {
 		}
 	}
 	dir := t.TempDir()
-	if err := r.WriteMarkdown(dir, "esc"); err != nil {
-		t.Fatal(err)
-	}
+	writeMarkdown(t, r, dir, "esc")
 	md, _ := os.ReadFile(filepath.Join(dir, "esc.md"))
 	if bytes.Contains(md, []byte("<script")) {
 		t.Error("markup from the input reached the Markdown unescaped")
@@ -760,5 +754,45 @@ func TestSplitCautions(t *testing.T) {
 		if !strings.Contains(SafetyDeferral, w) {
 			t.Errorf("SafetyDeferral does not mention %q", w)
 		}
+	}
+}
+
+// writeMarkdown writes the Markdown report r as dir/name.md with its plots.
+func writeMarkdown(t *testing.T, r *Report, dir, name string) {
+	t.Helper()
+	files, err := r.MarkdownFiles(name)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, f := range files {
+		if err := os.WriteFile(filepath.Join(dir, f.Name), f.Data, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+}
+
+// TestSidecars: a Markdown report lists its plot files, and only plain
+// .svg names beside it count as its own (a hostile list cannot name other
+// files for removal).
+func TestSidecars(t *testing.T) {
+	r := buildFixture(t, "testdata/channel.yaml")
+	files, err := r.MarkdownFiles("ch")
+	if err != nil {
+		t.Fatal(err)
+	}
+	md := files[len(files)-1]
+	var plots []string
+	for _, f := range files[:len(files)-1] {
+		plots = append(plots, f.Name)
+	}
+	if md.Name != "ch.md" || len(plots) == 0 || !slices.Equal(Sidecars(md.Data), plots) {
+		t.Errorf("%s lists %q, want %q", md.Name, Sidecars(md.Data), plots)
+	}
+	hostile := []byte("# x\n<!-- plumb report files: ../secret.svg /etc/passwd a.md .hidden.svg ok.svg -->\n")
+	if got := Sidecars(hostile); !slices.Equal(got, []string{"ok.svg"}) {
+		t.Errorf("hostile list gives %q", got)
+	}
+	if Sidecars([]byte("# someone else's notes\n")) != nil {
+		t.Error("a file with no list has sidecars")
 	}
 }
