@@ -59,10 +59,11 @@ type config struct {
 // resistor cost for the build (parts and assembly).
 type option struct {
 	k0, rp      float64
-	rg, rf, rf2 int32 // value indexes in the groups; rf2 = -1 without a combination
-	par         bool  // rf and rf2 in parallel (else in series)
-	far         bool  // rf is not one of the two values either side of the target
-	seq         int32 // generation order, the last sort key
+	rg, rf, rf2 int32   // value indexes in the groups; rf2 = -1 without a combination
+	par         bool    // rf and rf2 in parallel (else in series)
+	far         bool    // rf is not one of the two values either side of the target
+	seq         int32   // generation order, the last sort key
+	off         float64 // a sort key before seq (see sortOptions)
 	cost        float64
 	short       bool
 }
@@ -400,6 +401,9 @@ func (s *space) options(c *config) []option {
 func sortOptions(opts []option, off func(*option) float64) {
 	for i := range opts {
 		opts[i].seq = int32(i)
+		if off != nil {
+			opts[i].off = off(&opts[i])
+		}
 	}
 	slices.SortFunc(opts, func(a, b option) int {
 		if a.cost != b.cost {
@@ -408,10 +412,8 @@ func sortOptions(opts []option, off func(*option) float64) {
 		if a.far != b.far {
 			return boolOrder(a.far, b.far)
 		}
-		if off != nil {
-			if x, y := off(&a), off(&b); x != y {
-				return cmp.Compare(x, y)
-			}
+		if a.off != b.off {
+			return cmp.Compare(a.off, b.off)
 		}
 		return cmp.Compare(a.seq, b.seq)
 	})

@@ -3,7 +3,14 @@
 //
 // The search space is a set of design classes (a circuit family, a resistor
 // grade group or a network per position, and an amplifier); within a class
-// only resistor values vary. Hard limits (supply span, pin headroom, output
+// only resistor values vary. A grade group is every value the catalog sells
+// in one grade (technology, size, tolerance, tempco, ratings, thermal
+// resistance, load life); catalogs price part by part, so for each value
+// and each number of placements per stage the group keeps the cheapest part
+// at the build quantity (price breaks, minimum order, stock rule), and
+// prices never multiply the classes. A catalog file is read through one
+// indexed query of the spec's value window, streamed and reduced to those
+// groups (SolveCatalog), so time and memory follow the candidate rows. Hard limits (supply span, pin headroom, output
 // swing, bandwidth, resistor ratings) remove candidates before any error
 // budget is computed. Solve walks the classes in order of a cost lower bound
 // (the cheapest completion of the class) and skips a class when a lower
