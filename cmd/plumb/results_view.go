@@ -212,13 +212,18 @@ func writeHanging(w io.Writer, ios *IOStreams, lead, cont, text string) {
 }
 
 func writeInfeasible(w io.Writer, ios *IOStreams, inf *search.Infeasible) {
-	fmt.Fprintf(w, "%s %s\n", ios.Red("No design meets the spec:"), inf.Message)
-	if len(inf.Limits) > 0 {
-		t := newTable(ios, "LIMIT", "LIMIT VALUE", "BEST REACHABLE", "NEEDED").alignRight(1, 2)
-		for _, l := range inf.Limits {
-			t.row(l.Name, formatLimitValue(l.Name, l.Limit), formatLimitValue(l.Name, l.Best), l.Needed)
+	lines := inf.Lines()
+	if why := strings.TrimLeft(strings.TrimPrefix(lines[0], search.NoDesign), ": "); why != "" {
+		writeHanging(w, ios, ios.Red("No design meets the spec:")+" ", "  ", why)
+	} else {
+		fmt.Fprintln(w, ios.Red("No design meets the spec."))
+	}
+	for _, l := range lines[1:] {
+		lead, cont := "  ", "    "
+		if strings.HasPrefix(l, "  ") {
+			lead, cont, l = "    ", "      ", strings.TrimPrefix(l, "  ")
 		}
-		_ = t.render(w)
+		writeHanging(w, ios, lead, cont, l)
 	}
 	for _, name := range slices.Sorted(maps.Keys(inf.HardLimits)) {
 		fmt.Fprintf(w, "  %d amplifier(s) removed by %s\n", inf.HardLimits[name], name)

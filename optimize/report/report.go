@@ -335,9 +335,5 @@ func nearMisses(nms []search.NearMiss) []NearMiss {
 }
 
 func infeasibleText(inf *search.Infeasible) []string {
-	out := []string{inf.Message}
-	for _, l := range inf.Limits {
-		out = append(out, fmt.Sprintf("%s: limit %s, best reachable %s; needs %s", l.Name, budget.FormatFigure(l.Limit, budget.UnitOf(l.Name)), budget.FormatFigure(l.Best, budget.UnitOf(l.Name)), l.Needed))
-	}
-	return out
+	return inf.Lines()
 }

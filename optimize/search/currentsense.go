@@ -236,7 +236,7 @@ func solveCurrentSense(ctx context.Context, parts *Parts, p Problem, opt Options
 			continue
 		}
 		q.Families = []Family{DiscreteDifference, NetworkDifference}
-		r, err := solve(ctx, parts, q, Options{Top: keep, Combos: opt.Combos}, nil, exhaustive)
+		r, err := solve(ctx, parts, q, Options{Top: keep, Combos: opt.Combos, quick: opt.quick}, nil, exhaustive)
 		if errors.Is(err, ErrProblem) {
 			continue
 		}

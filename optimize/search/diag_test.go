@@ -3,6 +3,7 @@ package search
 import (
 	"context"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 
@@ -215,5 +216,169 @@ build: {quantity: 100}
 	}
 	if checked == 0 {
 		t.Fatalf("no near miss is a ranked design with another amplifier; near misses %d, designs %d", len(res.NearMisses), len(res.Designs))
+	}
+}
+
+// causeNamed returns the cause of il whose name starts with prefix.
+func causeNamed(il InfeasibleLimit, prefix string) (Cause, bool) {
+	for _, c := range il.SetBy {
+		if strings.HasPrefix(c.Name, prefix) {
+			return c, true
+		}
+	}
+	return Cause{}, false
+}
+
+func solveInfeasible(t *testing.T, snap *catalog.Snapshot, yaml string) *Result {
+	t.Helper()
+	res, err := Solve(context.Background(), snap, mustParseSpec(t, yaml), Options{})
+	if !IsInfeasible(err) {
+		t.Fatalf("error %v, want an infeasible spec", err)
+	}
+	if res == nil || res.Infeasible == nil {
+		t.Fatal("no diagnosis")
+	}
+	return res
+}
+
+// TestDiagnoseSourceImpedance: a gain-10 difference amplifier whose
+// resistors must stay within 1 k..20 k: R2 = R4 <= 20 k puts R1 + Rs near
+// 2 k, so a 2 k source leaves no room for R1 at all. No design exists even
+// with every limit taken away, and the diagnosis says that with no source
+// impedance (or a wider window) one does.
+func TestDiagnoseSourceImpedance(t *testing.T) {
+	res := solveInfeasible(t, diagSnapshot(), `name: src
+about: source impedance
+family: difference
+gain: 10
+input: {differential: ±0.5V, common_mode: -1..1V}
+supply: ±12V
+source_impedance: 2k
+temperature: {range: 20..30C}
+limits: {gain_error: 0.1%}
+impedance: {min: 1k, max: 20k}
+build: {quantity: 100}
+`)
+	hard := strings.Join(res.Infeasible.Hard, "\n")
+	if !strings.Contains(hard, "with no source impedance (the spec gives "+budget.FormatFigure(2000, "ohm")+") a design exists") {
+		t.Errorf("the diagnosis does not name the source impedance: %q", res.Infeasible.Hard)
+	}
+	if !strings.Contains(hard, "impedance window widened") {
+		t.Errorf("the diagnosis does not offer a wider impedance window: %q", res.Infeasible.Hard)
+	}
+}
+
+// TestDiagnoseReference: a level shift of ±5 V onto 0.5..3 V (slope 0.25,
+// offset b = 1.75 V from a 2.5 V reference) with a 2 mV offset limit over
+// -40..85 °C. The reference's 0.05 % tolerance alone moves the offset by
+// b·0.05 % = 0.875 mV and its 10 ppm/K drift by b·10 ppm/K·65 K = 1.14 mV
+// (the shift is proportional to the reference, domain notes on the level
+// shift; hand arithmetic): no catalog part reaches 2 mV, and the diagnosis
+// must name both reference figures on the spec's side with those sizes.
+func TestDiagnoseReference(t *testing.T) {
+	res := solveInfeasible(t, diagSnapshot(), `name: ref
+about: level shift whose reference error takes the offset budget
+family: level-shift
+input: {single_ended: ±5V}
+output: 0.5..3V
+supply: ±12V
+reference: {voltage: 2.5V, tolerance: 0.05%, drift: 10ppm/K}
+temperature: {range: -40..85C}
+limits: {gain_error: 1%, output_offset: 2mV}
+build: {quantity: 100}
+`)
+	if len(res.Infeasible.Limits) != 1 || res.Infeasible.Limits[0].Name != budget.LimitOutputOffset {
+		t.Fatalf("limits %+v, want the output offset alone", res.Infeasible.Limits)
+	}
+	il := res.Infeasible.Limits[0]
+	if il.Best <= 0.002 {
+		t.Errorf("best offset %.4g V, want above the 2 mV limit", il.Best)
+	}
+	b := 1.75
+	for _, tc := range []struct {
+		prefix string
+		want   float64
+	}{
+		{"reference tolerance", b * 0.0005},
+		{"reference drift", b * 10e-6 * 65},
+	} {
+		c, ok := causeNamed(il, tc.prefix)
+		if !ok || c.Side != "spec" || !within(c.Value, tc.want, 0.05) {
+			t.Errorf("%s: cause %+v (found %v), want the spec side at about %.4g V", tc.prefix, c, ok, tc.want)
+		}
+	}
+	if il.Relax == nil || il.Relax.To < il.Best*0.999 {
+		t.Errorf("relaxation %+v, want one at or above the best %.4g V", il.Relax, il.Best)
+	}
+}
+
+// TestDiagnoseRails: a non-inverting gain of 5 from 0..1 V on a single
+// 5 V supply must swing its output to both rails; the catalog's op-amps
+// come no nearer than 1 V, so the diagnosis says the output stops at 4 V
+// and V+ must be 5 V + 1 V at least.
+func TestDiagnoseRails(t *testing.T) {
+	res := solveInfeasible(t, diagSnapshot(), `name: rails
+about: output range against the rails
+family: noninverting
+gain: 5
+input: {single_ended: 0..1V}
+supply: 0..5V
+temperature: {range: 0..50C}
+limits: {gain_error: 1%}
+build: {quantity: 100}
+`)
+	hard := strings.Join(res.Infeasible.Hard, "\n")
+	for _, want := range []string{
+		"the output must reach " + budget.FormatFigure(5, "V"),
+		"stops at " + budget.FormatFigure(4, "V"),
+		"raise V+ to at least " + budget.FormatFigure(6, "V"),
+	} {
+		if !strings.Contains(hard, want) {
+			t.Errorf("the diagnosis lacks %q: %q", want, res.Infeasible.Hard)
+		}
+	}
+}
+
+// TestDiagnoseConflict: an inverting gain of -10 must show at least 50 k
+// to its source (Rg >= 50 k, so Rf >= 500 k) and stay under 200 nV/√Hz at
+// the output; Rf's thermal noise alone at 500 k is sqrt(4kT·500k) = 91
+// nV/√Hz, times the noise gain the resistors' share exceeds the limit (at
+// 50 k, 11·sqrt(4kT·45k) = 300 nV/√Hz, Johnson noise, common practice).
+// Each limit is met alone; the pair is named, with the design closest to
+// both, and each limit's smallest relaxation.
+func TestDiagnoseConflict(t *testing.T) {
+	res := solveInfeasible(t, diagSnapshot(), `name: conf
+about: input impedance against noise
+family: inverting
+gain: -10
+input: {single_ended: ±1V}
+supply: ±12V
+temperature: {range: 0..50C}
+limits: {input_impedance: 50k, noise_density: 200nV/rtHz}
+build: {quantity: 100}
+`)
+	inf := res.Infeasible
+	if len(inf.Limits) != 0 || len(inf.Conflicts) != 1 {
+		t.Fatalf("limits %+v conflicts %+v, want one conflict", inf.Limits, inf.Conflicts)
+	}
+	c := inf.Conflicts[0]
+	if !slices.Equal(c.Limits, []string{budget.LimitNoiseDensity, budget.LimitInputImpedance}) || c.Closest == nil {
+		t.Fatalf("conflict %+v", c)
+	}
+	for _, nm := range res.NearMisses {
+		if nm.Shortfall < c.Closest.Shortfall*(1-1e-9) {
+			t.Errorf("near miss %s (%.4g) is closer than the conflict's closest design (%.4g)", partList(&nm.Design), nm.Shortfall, c.Closest.Shortfall)
+		}
+	}
+	if len(inf.Relaxations) != 2 {
+		t.Fatalf("relaxations %+v, want one per limit", inf.Relaxations)
+	}
+	for _, r := range inf.Relaxations {
+		if r.Limit == budget.LimitNoiseDensity && !(r.To > 200e-9) || r.Limit == budget.LimitInputImpedance && !(r.To < 50e3) {
+			t.Errorf("relaxation %+v does not relax", r)
+		}
+	}
+	if !strings.Contains(inf.Message, "noise density and input impedance together") {
+		t.Errorf("message %q", inf.Message)
 	}
 }

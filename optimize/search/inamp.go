@@ -376,7 +376,7 @@ func solveInAmp(ctx context.Context, parts *Parts, p Problem, opt Options, verif
 	for _, k2 := range gains {
 		q := p
 		q.k2 = k2
-		r, err := solve(ctx, parts, q, Options{Top: keep, Combos: opt.Combos}, nil, exhaustive)
+		r, err := solve(ctx, parts, q, Options{Top: keep, Combos: opt.Combos, quick: opt.quick}, nil, exhaustive)
 		if err != nil && !errors.Is(err, ErrInfeasible) {
 			return nil, err
 		}

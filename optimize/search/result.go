@@ -37,6 +37,9 @@ type Options struct {
 	// spec is the spec Solve searches for: near misses try changes on its
 	// side (a calibration) with the exact budget (nil: none tried).
 	spec *spec.Spec
+	// quick skips the near misses: the diagnosis of an infeasible spec
+	// only asks whether a design passes.
+	quick bool
 }
 
 const defaultTop = 5
@@ -202,19 +205,78 @@ type Fix struct {
 
 // Infeasible explains a spec no design meets.
 type Infeasible struct {
-	Message string            `json:"message"`
-	Limits  []InfeasibleLimit `json:"limits"`
+	Message string `json:"message"`
+	// Limits are the limits no design meets even alone, each with the best
+	// value reached, what sets it and the smallest relaxation that lets a
+	// design pass.
+	Limits []InfeasibleLimit `json:"limits"`
+	// Conflicts are pairs of limits each met alone but never together,
+	// with the design closest to both.
+	Conflicts []Conflict `json:"conflicts,omitempty"`
+	// Relaxations are, where limits conflict, the smallest relaxation of
+	// each limit (the others kept) that lets a design pass.
+	Relaxations []Relaxation `json:"relaxations,omitempty"`
 	// HardLimits counts the amplifiers removed per hard limit.
 	HardLimits map[string]int `json:"hard_limits,omitempty"`
+	// Hard explains, with the figures, each hard limit that removed every
+	// amplifier (output range against the rails, input headroom, supply,
+	// bandwidth).
+	Hard []string `json:"hard,omitempty"`
 }
 
-// InfeasibleLimit is a limit no combination meets, the best value any
-// class could reach (an optimistic bound) and the class of part needed.
+// InfeasibleLimit is a limit no design meets, with the best value any
+// design reaches, the design that reaches it, what sets that value and the
+// smallest relaxation that lets a design pass.
 type InfeasibleLimit struct {
-	Name   string  `json:"name"`
-	Limit  float64 `json:"limit"`
-	Best   float64 `json:"best"`
-	Needed string  `json:"needed"`
+	Name  string  `json:"name"`
+	Limit float64 `json:"limit"`
+	Best  float64 `json:"best"`
+	// Unit of Limit and Best, as in a design's limits.
+	Unit string `json:"unit,omitempty"`
+	// BestParts are the parts of the design that reaches Best.
+	BestParts string `json:"best_parts,omitempty"`
+	// SetBy are the causes of Best, largest first.
+	SetBy []Cause `json:"set_by,omitempty"`
+	// Relax is the smallest relaxation of this limit, every other limit
+	// kept, that lets a design pass (nil: none up to 10^4x).
+	Relax  *Relaxation `json:"relax,omitempty"`
+	Needed string      `json:"needed"`
+}
+
+// Cause is one thing that sets a limit's best value: on the catalog's side
+// an exact-budget contributor of the best design (a grade's tolerance or
+// tempco, an amplifier figure); on the spec's side the reference's
+// tolerance or drift (contributors too), or what the value improves when a
+// spec figure is made ideal with the same parts (source impedance 0, no
+// load, the temperature range shrunk to the reference temperature).
+type Cause struct {
+	Name string `json:"name"`
+	// Side is "catalog" or "spec".
+	Side  string  `json:"side"`
+	Value float64 `json:"value"`
+	// Share is the cause's part of the best value (0..1).
+	Share float64 `json:"share"`
+	Unit  string  `json:"unit,omitempty"`
+}
+
+// Relaxation is a limit relaxed just enough for a design to pass, with
+// that design's parts and cost.
+type Relaxation struct {
+	Limit     string  `json:"limit"`
+	From      float64 `json:"from"`
+	To        float64 `json:"to"`
+	Unit      string  `json:"unit,omitempty"`
+	Parts     string  `json:"parts"`
+	TotalCost float64 `json:"total_cost"`
+	UnitCost  float64 `json:"unit_cost"`
+	Currency  string  `json:"currency"`
+}
+
+// Conflict is a pair of limits each met alone but never together.
+type Conflict struct {
+	Limits []string `json:"limits"`
+	// Closest is the design closest to meeting both.
+	Closest *NearMiss `json:"closest,omitempty"`
 }
 
 // Limit names, shared with package budget's result.

@@ -92,8 +92,22 @@ func SolveCatalog(ctx context.Context, st *catalog.Store, s *spec.Spec, opt Opti
 }
 
 func solveSpec(ctx context.Context, parts *Parts, p Problem, s *spec.Spec, opt Options) (*Result, error) {
+	ps := parts.forSearch()
+	r, err := solveOn(ctx, ps, p, s, opt)
+	if IsInfeasible(err) && r != nil {
+		// Why: re-solves of the spec with limits taken away or relaxed.
+		if derr := diagnose(ctx, ps, s, opt, r); derr != nil {
+			return nil, fmt.Errorf("diagnosing the infeasible spec: %w", derr)
+		}
+	}
+	return r, err
+}
+
+// solveOn is solveSpec on parts already prepared for the search, without
+// the diagnosis of an infeasible spec.
+func solveOn(ctx context.Context, parts *Parts, p Problem, s *spec.Spec, opt Options) (*Result, error) {
 	opt.spec = s
-	r, err := solve(ctx, parts.forSearch(), p, opt, budgetVerifier(ctx, s, opt.Trials), false)
+	r, err := solve(ctx, parts, p, opt, budgetVerifier(ctx, s, opt.Trials), false)
 	if r != nil {
 		r.spec = s
 	}
@@ -354,6 +368,11 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 	if verify != nil {
 		keep += verifyExtra(opt.Top)
 	}
+	if opt.quick {
+		// A diagnosis asks whether any design passes: look further down
+		// the ranking for one the exact budget confirms.
+		keep += quickExtra
+	}
 	var top []classBest
 	var st stats
 	for {
@@ -463,8 +482,10 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 		res.Notes = append(res.Notes, n)
 	}
 	check := nearCheck{verify: verify, spec: opt.spec}
-	if err := sp.addNearMisses(res, rejected, limit, &check); err != nil {
-		return nil, err
+	if !opt.quick {
+		if err := sp.addNearMisses(res, rejected, limit, &check); err != nil {
+			return nil, err
+		}
 	}
 	res.Notes = append(res.Notes, check.notes()...)
 	if err := res.finish(ctx); err != nil {
@@ -472,6 +493,9 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 	}
 	if len(res.Designs) == 0 {
 		res.Infeasible = sp.infeasible()
+		if len(sp.amps)+len(sp.matched) == 0 {
+			res.Infeasible.Hard = hardCauses(parts, &p)
+		}
 		if len(rejected) > 0 {
 			res.Infeasible.Message += "; the designs that pass the screening figures all fail the exact budget (see the near misses)"
 		} else if broken.n > 0 {
@@ -503,6 +527,10 @@ func (s *space) distinctDesigns(top []classBest) (int, error) {
 	}
 	return len(seen), nil
 }
+
+// quickExtra is how many more classes a diagnosis's re-solve keeps, so
+// that designs the exact budget fails do not hide one it passes.
+const quickExtra = 24
 
 // gradeKey identifies what makes designs really different: the family,
 // each position's kind and grade (tolerance and tempco, or the network or
@@ -1061,7 +1089,7 @@ func (s *space) infeasible() *Infeasible {
 	G := s.p.Gain
 	add := func(name string, lim, bestV float64, fails bool, needed string) {
 		if lim > 0 && fails {
-			inf.Limits = append(inf.Limits, InfeasibleLimit{Name: name, Limit: lim, Best: bestV, Needed: needed})
+			inf.Limits = append(inf.Limits, InfeasibleLimit{Name: name, Limit: lim, Best: bestV, Unit: budget.UnitOf(name), Needed: needed})
 		}
 	}
 	dT := math.Max(s.dT, 1)
