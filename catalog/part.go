@@ -217,3 +217,7 @@ func (o Offer) UnitPrice(qty int) (price float64, currency string, ok bool) {
 	b := o.PriceBreaks[best]
 	return b.UnitPrice, b.Currency, true
 }
+
+// IsCurrencyCode reports whether s has the shape of an ISO 4217 code: three
+// letters A-Z, as every price break's currency must.
+func IsCurrencyCode(s string) bool { return currencyCode(s) }

@@ -36,6 +36,16 @@ var (
 	ErrMissingValue = errors.New("importers: required value missing")
 	// ErrDuplicate marks a part number seen twice in one import.
 	ErrDuplicate = errors.New("importers: part number repeated")
+	// ErrNoCurrency is returned for a file whose prices carry no currency
+	// in their cells, headers or mapping when no --currency is given.
+	ErrNoCurrency = errors.New("importers: prices carry no currency")
+	// ErrUnusual marks a figure outside what the trade makes (a unit slip).
+	ErrUnusual = errors.New("importers: value outside what the trade makes")
+	// ErrNothingImported: every row of the files was skipped.
+	ErrNothingImported = errors.New("importers: nothing imported")
+	// ErrRowsSkipped is returned under Options.Strict when any row was
+	// skipped; nothing is written, and the report lists every problem.
+	ErrRowsSkipped = errors.New("importers: rows skipped under --strict")
 	// ErrMapping is returned for a mapping file that cannot be used.
 	ErrMapping = errors.New("importers: invalid mapping")
 )

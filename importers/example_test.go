@@ -25,7 +25,7 @@ func ExampleGuessMapping() {
 	// kind: resistor
 	// part         <- "Mfr Part #"       1.00 exact
 	// maker        <- "Manufacturer"     1.00 exact
-	// resistance   <- "Resistance (Ohms)" 1.00 exact
+	// resistance   <- "Resistance (Ohms)" 1.00 exact, bare numbers in Ω
 	// tolerance    <- "Tol."             1.00 exact
 	// tcr          <- "Tempco"           1.00 exact
 	// stock        <- "Qty on hand"      1.00 exact

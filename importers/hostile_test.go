@@ -159,3 +159,70 @@ func TestHostileMappings(t *testing.T) {
 		})
 	}
 }
+
+func TestPlausibility(t *testing.T) {
+	const header = "Part Number,Manufacturer,Resistance,Tolerance,TCR,Price (USD)\n"
+	tests := []struct {
+		name, row, column, want string
+		unusual                 bool // kept with --allow-unusual
+	}{
+		// A unit slip: 50000 ppm/K is 5 %/K; carbon composition, the worst
+		// fixed resistor, stays near ±1500 ppm/K (common practice).
+		{"tempco slip", "P-1,Orrin,1k,1%,50000ppm/K,0.10", "TCR", "50000 ppm/K", true},
+		{"tolerance above 50 %", "P-1,Orrin,1k,60%,100ppm,0.10", "Tolerance", "60 %", true},
+		{"resistance 1e308", "P-1,Orrin,1e308,1%,100ppm,0.10", "Resistance", "1e+308 ohm", true},
+		{"resistance below 1 mohm", "P-1,Orrin,0.0001,1%,100ppm,0.10", "Resistance", "0.0001 ohm", true},
+		{"zero price", "P-1,Orrin,1k,1%,100ppm,0", "Price (USD)", "no part is free", true},
+		{"negative price", "P-1,Orrin,1k,1%,100ppm,-0.10", "Price (USD)", "", false},
+		// 0.001 could be 0.001 % or the fraction 0.001 (0.1 %).
+		{"bare tolerance", "P-1,Orrin,1k,0.001,100ppm,0.10", "Tolerance", "ambiguous", false},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			p := writeFile(t, "p.csv", header+tc.row+"\n")
+			b, rep := mustRead(t, p)
+			pr := problemAt(rep, 2)
+			if len(b.Resistors) != 0 || pr == nil || pr.Column != tc.column || !strings.Contains(pr.Reason, tc.want) {
+				t.Fatalf("kept %d; problem %+v", len(b.Resistors), pr)
+			}
+			b, rep, err := Read(t.Context(), []string{p}, Options{AllowUnusual: true})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if kept := len(b.Resistors) == 1; kept != tc.unusual {
+				t.Errorf("--allow-unusual kept it: %v, want %v (%s)", kept, tc.unusual, problemText(rep))
+			}
+			if tc.unusual && rep.Count(Doubt) == 0 {
+				t.Errorf("kept without a flag: %s", problemText(rep))
+			}
+		})
+	}
+	// The header or the mapping says how to read a bare tolerance.
+	for _, tc := range []struct {
+		header string
+		units  map[Field]string
+		want   float64
+	}{
+		{"Tolerance (%)", nil, 0.00001},
+		{"Tolerance", map[Field]string{FieldTolerance: "%"}, 0.00001},
+		{"Tolerance", map[Field]string{FieldTolerance: unitFraction}, 0.001},
+	} {
+		p := writeFile(t, "b.csv", strings.Replace(header, "Tolerance", tc.header, 1)+"P-2,Orrin,1k,0.001,100ppm,0.10\n")
+		var m *Mapping
+		if tc.units != nil {
+			g, err := GuessMapping(strings.Split(strings.TrimSpace(header), ","), "")
+			if err != nil {
+				t.Fatal(err)
+			}
+			g.Units = tc.units
+			m = g
+		}
+		b, rep, err := Read(t.Context(), []string{p}, Options{Mapping: m})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(b.Resistors) != 1 || !near(b.Resistors[0].Tolerance, tc.want) {
+			t.Errorf("%s %v: %+v %s", tc.header, tc.units, b.Resistors, problemText(rep))
+		}
+	}
+}

@@ -58,6 +58,13 @@ func Import(ctx context.Context, st Store, files []string, opt Options) (*Report
 	if err := sc.files(files); err != nil {
 		return nil, err
 	}
+	if opt.Strict {
+		sc.finish()
+		if n := sc.rep.Summary.Skipped; n > 0 {
+			sc.rep.Summary.DryRun = opt.DryRun
+			return sc.rep, fmt.Errorf("%w: %d row(s) skipped, so nothing was written; fix them (see the report) or import without --strict", ErrRowsSkipped, n)
+		}
+	}
 	if us != nil {
 		if err := us.Commit(); err != nil {
 			return nil, fmt.Errorf("importers: writing %d parts to the catalog (nothing was written): %w", written, err)

@@ -40,6 +40,10 @@ type Mapping struct {
 	PriceBreaks  []BreakColumn    `yaml:"price_breaks,omitempty"`
 	Fixed        map[Field]string `yaml:"fixed,omitempty"`
 	DecimalComma *bool            `yaml:"decimal_comma,omitempty"`
+	// Units says how bare numbers of a field are read, where the header
+	// does not say: units: {tolerance: "%"} or {tolerance: fraction},
+	// {vos: mV}.
+	Units map[Field]string `yaml:"units,omitempty"`
 	// Guesses says, for a guessed mapping, how sure each column choice is.
 	Guesses []Guess `yaml:"-"`
 }
@@ -85,6 +89,29 @@ type headerInfo struct {
 	curr    string // currency code from the header: "EUR"
 	typical bool   // "typ", "typical"
 	breakQ  int    // >0: a price-break column for this quantity
+	// rail is "+" or "-" when the header gives its figure relative to a
+	// rail ("V from V+", "below V+", "above V-"); railSigned is true for
+	// a signed offset from the rail (bound - rail: "-1.5 from V+" is 1.5 V
+	// below it), false for a distance inwards ("1.5 below V+").
+	rail       string
+	railSigned bool
+}
+
+// railRE finds a figure given relative to a supply rail in a header.
+var railRE = regexp.MustCompile(`(?i)\b(from|relative\s+to|rel\.?\s*to|re|vs\.?|below|under|above|over|to)\s*\(?\s*(v\s*\+|v\s*-|v\s*−|vcc|vdd|vee|vss|\+\s*vs|-\s*vs|vs\s*\+|vs\s*-|positive\s+rail|negative\s+rail|pos(?:itive)?\s+supply|neg(?:ative)?\s+supply)\s*\)?`)
+
+// railOf reads the rail and its sign convention from a railRE match.
+func railOf(m []string) (rail string, signed bool) {
+	r := strings.ToLower(strings.Join(strings.Fields(m[2]), ""))
+	rail = "+"
+	if strings.Contains(r, "-") || strings.Contains(r, "−") || r == "vee" || r == "vss" || strings.Contains(r, "negative") || strings.HasPrefix(r, "neg") {
+		rail = "-"
+	}
+	switch strings.ToLower(strings.Fields(m[1])[0]) {
+	case "from", "relative", "rel", "rel.", "re", "vs", "vs.":
+		signed = true
+	}
+	return rail, signed
 }
 
 var qualifierTokens = map[string]bool{"typ": true, "typical": true, "max": true, "maximum": true,
@@ -102,6 +129,14 @@ var (
 // analyseHeader splits a header cell into words, unit and currency hints.
 func analyseHeader(h string) headerInfo {
 	hi := headerInfo{text: h}
+	if m := railRE.FindStringSubmatchIndex(h); m != nil {
+		sub := []string{h[m[0]:m[1]], h[m[2]:m[3]], h[m[4]:m[5]]}
+		hi.rail, hi.railSigned = railOf(sub)
+		h = h[:m[0]] + " " + h[m[1]:]
+		if hi.unit == "" {
+			hi.unit = "V"
+		}
+	}
 	rest := bracketRE.ReplaceAllStringFunc(h, func(m string) string {
 		inner := strings.TrimSpace(m[1 : len(m)-1])
 		toks := words(inner)
@@ -310,6 +345,35 @@ type candidate struct {
 	how   string
 }
 
+// railField is the headroom field of a rail-relative header: the input
+// common-mode range or the output swing, at the rail named.
+func railField(hi headerInfo) Field {
+	if hi.rail == "" {
+		return ""
+	}
+	has := func(ws ...string) bool {
+		for _, t := range hi.tokens {
+			if slices.Contains(ws, t) {
+				return true
+			}
+		}
+		return false
+	}
+	switch {
+	case has("swing", "output", "out", "vo", "voh", "vol", "vout"):
+		if hi.rail == "+" {
+			return FieldSwingPos
+		}
+		return FieldSwingNeg
+	case has("cm", "common", "input", "in", "vicm", "icmr", "cmvr", "vcm"):
+		if hi.rail == "+" {
+			return FieldCMPos
+		}
+		return FieldCMNeg
+	}
+	return ""
+}
+
 // GuessMapping guesses the kind (unless kind is set) and the column of each
 // field from the header words. Price-break columns are found by their
 // quantity. Each column serves at most one field; the best-scored pairs
@@ -357,7 +421,14 @@ func GuessMapping(header []string, kind catalog.Kind) (*Mapping, error) {
 			continue
 		}
 		m.Columns[c.field] = header[c.col]
-		m.Guesses = append(m.Guesses, Guess{Field: c.field, Column: header[c.col], Index: c.col, Confidence: c.conf, How: c.how})
+		how := c.how
+		if u := infos[c.col].unit; u != "" && !strings.HasPrefix(how, "rail-relative") {
+			how += ", bare numbers in " + u
+		}
+		if cur := infos[c.col].curr; cur != "" {
+			how += ", prices in " + cur
+		}
+		m.Guesses = append(m.Guesses, Guess{Field: c.field, Column: header[c.col], Index: c.col, Confidence: c.conf, How: how})
 	}
 	sort.SliceStable(m.Guesses, func(a, b int) bool { return m.Guesses[a].Index < m.Guesses[b].Index })
 	return m, nil
@@ -369,6 +440,17 @@ func candidates(infos []headerInfo, kind catalog.Kind) []candidate {
 	var out []candidate
 	for col, hi := range infos {
 		if hi.breakQ > 0 || len(hi.tokens) == 0 {
+			continue
+		}
+		if f := railField(hi); f != "" && (kind == "" || kind == catalog.KindAmplifier) {
+			how := "distance inwards from V" + hi.rail
+			if hi.railSigned {
+				how = "signed offset from V" + hi.rail + " (below it is negative)"
+				if hi.rail == "-" {
+					how = "signed offset from V- (above it is positive)"
+				}
+			}
+			out = append(out, candidate{f, col, ConfExact, "rail-relative: " + how})
 			continue
 		}
 		for _, fi := range fieldTable {
@@ -525,6 +607,11 @@ func (m *Mapping) validate(src string) error {
 			return fmt.Errorf("%s: %w: unknown field %q under fixed (known: %s)", src, ErrMapping, f, knownFields())
 		}
 	}
+	for f := range m.Units {
+		if !knownField(f) {
+			return fmt.Errorf("%s: %w: unknown field %q under units (known: %s)", src, ErrMapping, f, knownFields())
+		}
+	}
 	return nil
 }
 
@@ -656,7 +743,7 @@ func parseMapping(path string, b []byte) (*Mapping, error) {
 		switch k.Value {
 		case "kind":
 			scalar(v, "kind")
-		case "columns", "fixed":
+		case "columns", "fixed", "units":
 			pairs(v, k.Value, func(f, h *yaml.Node) { scalar(h, k.Value+"."+f.Value) })
 		case "decimal_comma":
 			scalar(v, "decimal_comma")
@@ -684,7 +771,7 @@ func parseMapping(path string, b []byte) (*Mapping, error) {
 				})
 			}
 		default:
-			add(k, "unknown key %q (known: kind, columns, price_breaks, fixed, decimal_comma; see plumb help mapping)", k.Value)
+			add(k, "unknown key %q (known: kind, columns, price_breaks, fixed, units, decimal_comma; see plumb help mapping)", k.Value)
 		}
 	})
 	if len(probs) > 0 {

@@ -145,6 +145,8 @@ func TestMappingSaveLoadAndUse(t *testing.T) {
 		Columns: map[Field]string{FieldPart: "code", FieldResistance: "OHMIC VALUE", FieldTolerance: "Grade", FieldTCR: "Drift", FieldStock: "Lager"},
 		Fixed: map[Field]string{FieldMaker: "Orrin Resistive", FieldTechnology: "thin film", FieldCurrency: "EUR", FieldPrice: "0.30",
 			FieldPackage: "0603", FieldPower: "0.1W"},
+		// The Grade column's bare numbers are percent.
+		Units: map[Field]string{FieldTolerance: "%"},
 	}
 	path, err := SaveMapping(dir, "odd-export", m)
 	if err != nil {
@@ -158,7 +160,7 @@ func TestMappingSaveLoadAndUse(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if !reflect.DeepEqual(got.Columns, m.Columns) || !reflect.DeepEqual(got.Fixed, m.Fixed) || got.Kind != m.Kind {
+		if !reflect.DeepEqual(got.Columns, m.Columns) || !reflect.DeepEqual(got.Fixed, m.Fixed) || !reflect.DeepEqual(got.Units, m.Units) || got.Kind != m.Kind {
 			t.Fatalf("LoadMapping(%s) = %+v, want %+v", name, got, m)
 		}
 		b, rep, err := Read(context.Background(), []string{f}, Options{Mapping: got})

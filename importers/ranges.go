@@ -63,6 +63,11 @@ func (r *rowReader) headroom(both, negF, posF Field, neg, pos *float64) (given b
 	if err != nil {
 		return false, err
 	}
+	// A signed offset from V+ ("-1.5 V from V+") is the negative of the
+	// headroom below it; a signed offset from V- is the headroom above it.
+	if i, ok := r.cols[posF]; ok && r.info[i].railSigned {
+		p = -p
+	}
 	switch {
 	case nok && pok:
 		*neg, *pos = n, p

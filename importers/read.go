@@ -39,6 +39,18 @@ type Options struct {
 	// Preview is how many parsed rows per file the report keeps (default
 	// 5; negative keeps none).
 	Preview int
+	// Currency is the ISO 4217 code of prices that carry none in their
+	// cells, headers or mapping (--currency, else import.currency in the
+	// config). With none anywhere, a file with prices is refused before
+	// its rows are read.
+	Currency string
+	// AllowUnusual keeps rows whose figures lie outside what the trade
+	// makes (see plausibleGrade), flagged as doubtful, instead of
+	// skipping them.
+	AllowUnusual bool
+	// Strict makes Import write nothing and return ErrRowsSkipped (with
+	// the full report) when any row is skipped.
+	Strict bool
 }
 
 // ProgressEvery is how often Options.Progress is called, in rows.
@@ -169,8 +181,15 @@ func (sc *scan) finish() {
 	sortProblems(rep.Problems)
 	rep.Summary.Rows = sc.rows
 	rep.Summary.Skipped = 0
+	// A row may have several problems: it is skipped once.
+	type place struct {
+		file string
+		line int
+	}
+	skipped := map[place]bool{}
 	for _, p := range rep.Problems {
-		if p.Severity == Skip && p.Line > 0 {
+		if p.Severity == Skip && p.Line > 0 && !skipped[place{p.File, p.Line}] {
+			skipped[place{p.File, p.Line}] = true
 			rep.Summary.Skipped++
 		}
 	}
@@ -255,7 +274,13 @@ func (sc *scan) stream(name string, in io.Reader) error {
 		rr.currency = c
 	} else if c := m.Fixed[FieldCurrency]; len(c) == 3 {
 		rr.currency = strings.ToUpper(c)
+	} else if opt.Currency != "" {
+		rr.currency = opt.Currency
 	}
+	rr.allowUnusual, rr.units = opt.AllowUnusual, m.Units
+	// Prices with no currency anywhere: refuse the file before its rows,
+	// once, instead of every row (checked on the first priced row).
+	rr.checkCurrency = rr.currency == "" && !rr.si && rr.pricesLackCurrency(cols, breaks)
 	fr := FileReport{File: name, Kind: kind, Shape: shape, Mapping: m}
 	if len(rd.Preamble) > 0 {
 		rep.Problems = append(rep.Problems, newProblem(Info, &ParseError{File: name, Line: rd.Preamble[0],
@@ -315,6 +340,11 @@ func (sc *scan) stream(name string, in io.Reader) error {
 			}
 			if opt.Progress != nil {
 				opt.Progress(sc.rows)
+			}
+		}
+		if rr.checkCurrency {
+			if err := rr.currencyInCells(rec, line, cols, breaks); err != nil {
+				return err
 			}
 		}
 		p, err := rr.read(rec, line)

@@ -25,7 +25,14 @@ type rowReader struct {
 	breaks       []breakCol
 	fixed        map[Field]string
 	decimalComma bool
-	currency     string // from the mapping, the header, or ""
+	currency     string // from the mapping, the options, or ""
+	// checkCurrency: no currency is known but from the cells; the first
+	// priced row must show one.
+	checkCurrency bool
+	allowUnusual  bool
+	units         map[Field]string // the mapping's unit words by field
+	fixedTol      float64          // a bare tolerance read as a fraction
+	haveFixedTol  bool
 	// si is set for the catalog's own export: a bare number is the figure
 	// in SI units (a fraction for a tolerance), read exactly.
 	si   bool
@@ -135,6 +142,9 @@ func (r *rowReader) raw(f Field) (string, bool) {
 }
 
 func (r *rowReader) unitHint(f Field) string {
+	if u, ok := r.units[f]; ok {
+		return u
+	}
 	if i, ok := r.cols[f]; ok {
 		return r.info[i].unit
 	}
@@ -219,22 +229,28 @@ func (r *rowReader) read(rec []string, line int) (parsed, error) {
 	if part == "" {
 		return parsed{}, r.skip(FieldPart, "", fmt.Errorf("%w: no part number", ErrMissingValue))
 	}
+	// Every problem of the row is reported in one pass: a failed check
+	// is recorded (r.skip) and the others still run; the row is skipped
+	// at the end.
+	var failed error
+	keep := func(err error) {
+		if err != nil && failed == nil {
+			failed = err
+		}
+	}
 	if err := r.plainText(FieldPart, part, "part number"); err != nil {
 		return parsed{}, err
 	}
 	r.part = part
 	offer, err := r.offer()
-	if err != nil {
-		return parsed{}, err
-	}
+	keep(err)
 	if strings.IndexFunc(part, unicode.IsSpace) >= 0 || strings.Contains(part, ",") {
-		return parsed{}, r.skip(FieldPart, part, fmt.Errorf("%w: part number %q contains a space or comma, which no order code has; check the column", ErrBadValue, part))
+		keep(r.skip(FieldPart, part, fmt.Errorf("%w: part number %q contains a space or comma, which no order code has; check the column", ErrBadValue, part)))
 	}
 	if err := r.plainText(FieldMaker, r.text(FieldMaker), "maker"); err != nil {
-		return parsed{}, err
-	}
-	if r.text(FieldMaker) == "" {
-		return parsed{}, r.skip(FieldMaker, "", fmt.Errorf("%w: no maker; fill the column or set fixed maker in a mapping", ErrMissingValue))
+		keep(err)
+	} else if r.text(FieldMaker) == "" {
+		keep(r.skip(FieldMaker, "", fmt.Errorf("%w: no maker; fill the column or set fixed maker in a mapping", ErrMissingValue)))
 	}
 	p := parsed{line: line}
 	snap := &r.check
@@ -261,8 +277,9 @@ func (r *rowReader) read(rec []string, line int) (parsed, error) {
 			snap.Amplifiers = append(snap.Amplifiers, *p.amplifier)
 		}
 	}
-	if err != nil {
-		return parsed{}, err
+	keep(err)
+	if failed != nil {
+		return parsed{}, failed
 	}
 	// The store refuses a whole batch for one invalid part; its own rules,
 	// applied here row by row, turn that into one skipped row.
@@ -279,6 +296,69 @@ func (r *rowReader) read(rec []string, line int) (parsed, error) {
 		r.unknownRows[u]++
 	}
 	return p, nil
+}
+
+// Bounds of what the trade makes (common practice): beyond them a figure
+// is far more likely a unit slip than a real part.
+const (
+	// maxTolerance: no resistor is sold looser than ±50 %.
+	maxTolerance = 0.5
+	// maxTempcoPPM: carbon-composition parts reach about ±1500 ppm/K;
+	// a few thousand is a unit slip (ppm for %/K, or per-mille).
+	maxTempcoPPM = 3000
+	// minOhm, maxOhm: current-sense shunts go down to about 1 mΩ,
+	// high-value resistors up to about 1 TΩ.
+	minOhm, maxOhm = 1e-3, 1e12
+)
+
+// plausibleGrade refuses (or with --allow-unusual flags) a resistor or
+// network grade outside what the trade makes.
+func (r *rowReader) plausibleGrade(g *catalog.ResistorGrade, ohm float64) error {
+	if g.Tolerance > maxTolerance {
+		s, _ := r.raw(FieldTolerance)
+		if err := r.unusual(FieldTolerance, s, fmt.Sprintf("a tolerance of %g %%, looser than any resistor sold (at most %g %%)", 100*g.Tolerance, 100*maxTolerance)); err != nil {
+			return err
+		}
+	}
+	if g.TCR > maxTempcoPPM {
+		s, _ := r.raw(FieldTCR)
+		if err := r.unusual(FieldTCR, s, fmt.Sprintf("a tempco of %g ppm/K, beyond the %g ppm/K of any fixed resistor", g.TCR, float64(maxTempcoPPM))); err != nil {
+			return err
+		}
+	}
+	if r.kind == catalog.KindResistor && (ohm < minOhm || ohm > maxOhm) {
+		s, _ := r.raw(FieldResistance)
+		if err := r.unusual(FieldResistance, s, fmt.Sprintf("a resistance of %g ohm, outside the 1 mΩ to 1 TΩ resistors are made in", ohm)); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// unitFraction is the unit word of a mapping that reads bare tolerances as
+// fractions (0.001 = 0.1 %).
+const unitFraction = "fraction"
+
+// bareNumber reports whether a cell is a number with no unit or mark.
+func bareNumber(s string, decimalComma bool) bool {
+	t := strings.TrimSpace(strings.TrimPrefix(strings.TrimPrefix(strings.TrimSpace(s), "±"), "+/-"))
+	_, err := parseNumber(t, decimalComma)
+	return err == nil
+}
+
+func mustFloat(s string, decimalComma bool) float64 {
+	v, _ := parseNumber(strings.TrimSpace(strings.TrimPrefix(strings.TrimSpace(s), "±")), decimalComma)
+	return v
+}
+
+// unusual refuses a row whose figure lies outside what the trade makes
+// (ErrUnusual, with the reason), or with allowUnusual keeps it, flagged.
+func (r *rowReader) unusual(f Field, raw, why string) error {
+	if r.allowUnusual {
+		r.note(Doubt, f, raw, fmt.Errorf("%w: %s; kept because of --allow-unusual", ErrUnusual, why))
+		return nil
+	}
+	return r.skip(f, raw, fmt.Errorf("%w: %s; check the cell (a unit slip?), or pass --allow-unusual to keep such rows, flagged", ErrUnusual, why))
 }
 
 // plainText refuses a part number or maker holding a control, format or
@@ -321,6 +401,63 @@ func (r *rowReader) checkWidth() error {
 		}
 	}
 	return r.skip("", strings.Join(r.rec, string(',')), fmt.Errorf("%w: %d fields, the header has %d (an unquoted separator inside a value?)", ErrRagged, n, want))
+}
+
+// pricesLackCurrency reports whether the file has price columns and
+// neither a currency column nor a currency in any price header.
+func (r *rowReader) pricesLackCurrency(cols map[Field]int, breaks []breakCol) bool {
+	if _, ok := cols[FieldCurrency]; ok {
+		return false
+	}
+	i, ok := cols[FieldPrice]
+	if !ok && len(breaks) == 0 {
+		return false
+	}
+	if ok && r.info[i].curr != "" {
+		return false
+	}
+	for _, b := range breaks {
+		if b.curr != "" {
+			return false
+		}
+	}
+	return true
+}
+
+// currencyInCells checks the first row with a price: its cells must name
+// a currency, or the file is refused before any row is taken.
+func (r *rowReader) currencyInCells(rec []string, line int, cols map[Field]int, breaks []breakCol) error {
+	var cells []int
+	if i, ok := cols[FieldPrice]; ok {
+		cells = append(cells, i)
+	}
+	for _, b := range breaks {
+		cells = append(cells, b.col)
+	}
+	for _, i := range cells {
+		if i >= len(rec) || isBlank(cleanCell(rec[i])) {
+			continue
+		}
+		r.checkCurrency = false
+		if _, cur, err := parseMoney(cleanCell(rec[i]), r.decimalComma); err == nil && cur == "" || err != nil && !hasCurrencyMark(rec[i]) {
+			return &ParseError{File: r.file, Line: line, Column: r.header[i], Raw: cleanCell(rec[i]),
+				Err: fmt.Errorf("%w (not in the cells, the headers or a mapping): pass --currency CODE, for example --currency EUR, or set import.currency in the config", ErrNoCurrency)}
+		}
+		return nil
+	}
+	return nil
+}
+
+func hasCurrencyMark(s string) bool {
+	if strings.IndexFunc(s, isCurrencySymbol) >= 0 {
+		return true
+	}
+	for _, w := range strings.Fields(strings.ToLower(s)) {
+		if c, ok := currencyMap[w]; ok && len(c) == 3 {
+			return true
+		}
+	}
+	return false
 }
 
 // maxPieces bounds stock and order counts: far above any distributor's
@@ -395,6 +532,13 @@ func (r *rowReader) offer() (catalog.Offer, error) {
 			return o, r.skip(FieldPrice, "", err)
 		}
 		for _, pb := range b {
+			if pb.UnitPrice <= 0 {
+				if err := r.unusual(FieldPrice, fmt.Sprintf("%g", pb.UnitPrice), fmt.Sprintf("a unit price of %g %s from %d pieces: no part is free", pb.UnitPrice, pb.Currency, pb.MinQty)); err != nil {
+					return o, err
+				}
+			}
+		}
+		for _, pb := range b {
 			if pb.Currency == "" {
 				r.note(Doubt, FieldPrice, "", errors.New("no currency in the cell, the header or the mapping: prices kept without one; set fixed currency in a mapping"))
 				break
@@ -444,41 +588,73 @@ func (r *rowReader) grade() (g catalog.ResistorGrade, ohm float64, err error) {
 		r.unknown = append(r.unknown, what)
 		return catalog.Unknown(), nil
 	}
+	// Each figure is read even when an earlier one failed, so a row's
+	// problems are reported together; the first failure is returned.
+	var failed error
+	keep := func(err error) bool {
+		if err != nil && failed == nil {
+			failed = err
+		}
+		return err == nil
+	}
 	if r.kind == catalog.KindResistor {
-		if ohm, err = pick(FieldResistance, units.ParseResistance, d.resistance, "resistance", true); err != nil {
-			return g, 0, err
-		}
-		if ohm <= 0 {
+		if ohm, err = pick(FieldResistance, units.ParseResistance, d.resistance, "resistance", true); keep(err) && ohm <= 0 {
 			s, _ := r.raw(FieldResistance)
-			return g, 0, r.skip(FieldResistance, s, fmt.Errorf("%w: resistance must be above zero (a 0 Ω jumper is not a resistor for a budget)", ErrBadValue))
+			keep(r.skip(FieldResistance, s, fmt.Errorf("%w: resistance must be above zero (a 0 Ω jumper is not a resistor for a budget)", ErrBadValue)))
 		}
 	}
-	if g.Tolerance, err = pick(FieldTolerance, parseTolerance, d.tolerance, "tolerance", true); err != nil {
-		return g, 0, err
+	tolOK := true
+	if s, ok := r.raw(FieldTolerance); ok && !r.si && bareNumber(s, r.decimalComma) {
+		switch r.unitHint(FieldTolerance) {
+		case "%":
+		case unitFraction:
+			v, err := parseNumber(strings.TrimLeft(strings.TrimSpace(s), "±"), r.decimalComma)
+			if err != nil {
+				tolOK = keep(r.skip(FieldTolerance, s, fmt.Errorf("%w: %v", ErrBadValue, err)))
+			}
+			r.fixedTol, r.haveFixedTol = v, true
+		default:
+			tolOK = keep(r.skip(FieldTolerance, s, fmt.Errorf("%w: a bare tolerance %s is ambiguous (%s %% or a fraction, %g %%?); write it with %%, name the unit in the header (\"Tolerance (%%)\"), or say in the mapping: units: {tolerance: \"%%\"} or {tolerance: fraction}", ErrBadValue, s, s, 100*mustFloat(s, r.decimalComma))))
+		}
 	}
-	if g.TCR, err = pick(FieldTCR, units.ParsePPM, d.tcr, "temperature coefficient", false); err != nil {
-		return g, 0, err
+	if tolOK {
+		if g.Tolerance, err = pick(FieldTolerance, parseTolerance, d.tolerance, "tolerance", true); keep(err) {
+			if r.haveFixedTol {
+				g.Tolerance = r.fixedTol
+			}
+			if g.Tolerance <= 0 || g.Tolerance >= 1 {
+				s, _ := r.raw(FieldTolerance)
+				tolOK = keep(r.skip(FieldTolerance, s, fmt.Errorf("%w: tolerance %g %% is not between 0 and 100 %%", ErrBadValue, g.Tolerance*100)))
+			}
+		} else {
+			tolOK = false
+		}
 	}
-	if g.PowerW, err = pick(FieldPower, units.ParsePower, d.power, "power rating", false); err != nil {
-		return g, 0, err
-	}
-	if g.Tolerance <= 0 || g.Tolerance >= 0.5 {
-		s, _ := r.raw(FieldTolerance)
-		return g, 0, r.skip(FieldTolerance, s, fmt.Errorf("%w: tolerance %g %% is outside (0, 50) %%", ErrBadValue, g.Tolerance*100))
-	}
-	if g.TCR < 0 {
+	r.haveFixedTol = false
+	g.TCR, err = pick(FieldTCR, units.ParsePPM, d.tcr, "temperature coefficient", false)
+	tcrOK := keep(err)
+	if tcrOK && g.TCR < 0 {
 		g.TCR = -g.TCR
 	}
-	if g.MaxVoltageV, err = optional(FieldMaxVoltage, units.ParseVoltage, "voltage rating"); err != nil {
-		return g, 0, err
-	}
+	g.PowerW, err = pick(FieldPower, units.ParsePower, d.power, "power rating", false)
+	keep(err)
+	g.MaxVoltageV, err = optional(FieldMaxVoltage, units.ParseVoltage, "voltage rating")
+	keep(err)
 	if r.kind != catalog.KindNetwork { // figures a network does not have
-		if g.ThermalResistance, err = optional(FieldThermalRes, units.ParseThermalResistance, "thermal resistance"); err != nil {
-			return g, 0, err
-		}
-		if g.LoadLife, err = optional(FieldLoadLife, parseTolerance, "load life"); err != nil {
-			return g, 0, err
-		}
+		g.ThermalResistance, err = optional(FieldThermalRes, units.ParseThermalResistance, "thermal resistance")
+		keep(err)
+		g.LoadLife, err = optional(FieldLoadLife, parseTolerance, "load life")
+		keep(err)
+	}
+	if !tolOK {
+		g.Tolerance = 0 // not checked for plausibility
+	}
+	if !tcrOK {
+		g.TCR = 0
+	}
+	keep(r.plausibleGrade(&g, ohm))
+	if failed != nil {
+		return g, 0, failed
 	}
 	g.Package = r.intern(r.text(FieldPackage))
 	if g.Package == "" && d.pkg != "" {

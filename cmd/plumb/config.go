@@ -13,6 +13,7 @@ import (
 	"github.com/spf13/pflag"
 	"github.com/spf13/viper"
 
+	"plumb/catalog"
 	"plumb/optimize/search"
 )
 
@@ -24,10 +25,13 @@ const (
 	keyFormat  = "format"
 	keyTop     = "top"
 	keyColor   = "color"
+	// keyImportCurrency is the currency of imported prices that carry none
+	// (plumb import --currency overrides it).
+	keyImportCurrency = "import.currency"
 )
 
 // configKeys lists the keys in the order `plumb config show` prints them.
-var configKeys = []string{keyCatalog, keyFormat, keyTop, keyColor}
+var configKeys = []string{keyCatalog, keyFormat, keyTop, keyColor, keyImportCurrency}
 
 // envPrefix is the prefix of plumb's environment variables.
 const envPrefix = "PLUMB"
@@ -36,10 +40,11 @@ const envPrefix = "PLUMB"
 const configFileName = "plumb.yaml"
 
 var defaults = map[string]string{
-	keyCatalog: "",
-	keyFormat:  "table",
-	keyTop:     "5",
-	keyColor:   "auto",
+	keyCatalog:        "",
+	keyFormat:         "table",
+	keyTop:            "5",
+	keyColor:          "auto",
+	keyImportCurrency: "",
 }
 
 var (
@@ -59,6 +64,9 @@ type Settings struct {
 	Top int
 	// Color is auto, always or never.
 	Color string
+	// ImportCurrency is the ISO 4217 code of imported prices that carry
+	// none; "" for none.
+	ImportCurrency string
 
 	// File is the config file read, "" if none.
 	File string
@@ -151,7 +159,7 @@ func loadSettings(src configSource, flags *pflag.FlagSet) (*Settings, error) {
 func resolveSettings(v *viper.Viper, flags *pflag.FlagSet, file string) (*Settings, error) {
 	s := &Settings{File: file, values: map[string]string{}, sources: map[string]string{}}
 	for _, k := range configKeys {
-		env := envPrefix + "_" + strings.ToUpper(k)
+		env := envPrefix + "_" + strings.ToUpper(strings.ReplaceAll(k, ".", "_"))
 		v.SetDefault(k, defaults[k])
 		if err := v.BindEnv(k, env); err != nil {
 			return nil, fmt.Errorf("binding %s: %w", env, err)
@@ -209,6 +217,10 @@ func (s *Settings) validate() error {
 		return s.invalid(keyTop, "must be a whole number from 1 to %d", search.MaxTop)
 	}
 	s.Top = top
+	s.ImportCurrency = strings.ToUpper(strings.TrimSpace(s.values[keyImportCurrency]))
+	if s.ImportCurrency != "" && !catalog.IsCurrencyCode(s.ImportCurrency) {
+		return s.invalid(keyImportCurrency, "is not a three-letter ISO 4217 code such as EUR")
+	}
 	s.Color = strings.ToLower(s.values[keyColor])
 	if !slices.Contains(colorModes, s.Color) {
 		return s.invalid(keyColor, "is not one of %s", strings.Join(colorModes, ", "))

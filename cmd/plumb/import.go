@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"path/filepath"
@@ -33,6 +34,11 @@ type importOptions struct {
 	Force       bool
 	Format      string
 	Quiet       bool
+	// Currency is --currency, else import.currency from the config.
+	Currency     string
+	AllowUnusual bool
+	// Strict makes a skipped row fail the import (exit 1).
+	Strict bool
 }
 
 func newImportCmd(f *Factory, runF func(*importOptions) error) *cobra.Command {
@@ -78,6 +84,13 @@ writing, and works on the demo catalog too.`,
 				opts.MappingDir = filepath.Join(dir, "plumb", "mappings")
 			}
 			opts.Quiet = f.Quiet
+			if opts.Currency == "" {
+				opts.Currency = f.Settings().ImportCurrency
+			}
+			opts.Currency = strings.ToUpper(strings.TrimSpace(opts.Currency))
+			if opts.Currency != "" && !catalog.IsCurrencyCode(opts.Currency) {
+				return usagef("--currency %q: give a three-letter ISO 4217 code such as EUR or USD", opts.Currency)
+			}
 			if runF != nil {
 				return runF(opts)
 			}
@@ -92,6 +105,9 @@ writing, and works on the demo catalog too.`,
 	fl.StringVar(&opts.Source, "source", "", "provenance `LABEL` for the rows (default: each file's name)")
 	fl.StringVar(&opts.Report, "report", "", "write the row report (every skipped or doubtful row) to `FILE`.csv")
 	fl.BoolVar(&opts.Force, "force", false, "replace an existing --report file")
+	fl.StringVar(&opts.Currency, "currency", "", "ISO 4217 `CODE` of prices that name no currency in their cells, headers or mapping (default: import.currency from the config)")
+	fl.BoolVar(&opts.AllowUnusual, "allow-unusual", false, "keep rows with figures outside what the trade makes (flagged), instead of skipping them")
+	fl.BoolVar(&opts.Strict, "strict", false, "fail (exit 1) when any row is skipped; nothing is written")
 	addFormatFlag(cmd, &opts.Format)
 	return cmd
 }
@@ -100,7 +116,8 @@ func runImport(ctx context.Context, opts *importOptions) error {
 	if opts.CatalogPath == "" && !opts.DryRun {
 		return fmt.Errorf("import writes to a catalog file, and none is configured (the demo catalog is read-only): create one with `plumb catalog init parts.db` and import with `plumb --catalog parts.db import ...`, or add --dry-run")
 	}
-	io := importers.Options{Kind: opts.Kind, DryRun: opts.DryRun, Source: opts.Source, Now: opts.Now()}
+	io := importers.Options{Kind: opts.Kind, DryRun: opts.DryRun, Source: opts.Source, Now: opts.Now(),
+		Currency: opts.Currency, AllowUnusual: opts.AllowUnusual, Strict: opts.Strict}
 	if opts.Mapping != "" {
 		m, err := importers.LoadMapping(opts.MappingDir, opts.Mapping)
 		if err != nil {
@@ -114,6 +131,13 @@ func runImport(ctx context.Context, opts *importOptions) error {
 	}
 	defer st.Close()
 	rep, err := importers.Import(ctx, st, opts.Files, io)
+	if errors.Is(err, importers.ErrRowsSkipped) && rep != nil {
+		// Every problem still goes to the user, then the refusal.
+		if opts.Format == "table" {
+			_ = writeImportTable(opts.IO.Out, opts.IO, rep)
+		}
+		return err
+	}
 	if err != nil {
 		return err
 	}
@@ -132,11 +156,46 @@ func runImport(ctx context.Context, opts *importOptions) error {
 	}
 	switch opts.Format {
 	case "json":
-		return writeJSON(opts.IO.Out, importView(rep))
+		err = writeJSON(opts.IO.Out, importView(rep))
 	case "csv":
-		return rep.WriteCSV(opts.IO.Out)
+		err = rep.WriteCSV(opts.IO.Out)
+	default:
+		if opts.Quiet {
+			writeImportSummary(opts.IO.Out, rep)
+		} else {
+			err = writeImportTable(opts.IO.Out, opts.IO, rep)
+		}
 	}
-	return writeImportTable(opts.IO.Out, opts.IO, rep)
+	if err != nil {
+		return err
+	}
+	return importOutcome(rep)
+}
+
+// importOutcome is the import's error for the exit status: none when a
+// row was imported (or the files held no rows to import), else one saying
+// why nothing was.
+func importOutcome(rep *importers.Report) error {
+	s := rep.Summary
+	if s.Rows > 0 && s.Imported == 0 && s.Parts == 0 {
+		what := "imported"
+		if s.DryRun {
+			what = "importable (dry run)"
+		}
+		return fmt.Errorf("%w: no row of %d was %s: see the reasons above, fix the file or pass --mapping", importers.ErrNothingImported, s.Rows, what)
+	}
+	return nil
+}
+
+// writeImportSummary prints the one summary line of an import (-q).
+func writeImportSummary(w io.Writer, rep *importers.Report) {
+	s := rep.Summary
+	verb := "imported"
+	if s.DryRun {
+		verb = "would import (dry run, nothing written)"
+	}
+	fmt.Fprintf(w, "%s %d part(s) from %d row(s): %d added, %d updated, %d unchanged, %d spec-changed; %d row(s) skipped\n",
+		verb, s.Imported, s.Rows, s.Added, s.Updated, s.Unchanged, s.SpecChanged, s.Skipped)
 }
 
 func saveImportMapping(opts *importOptions, rep *importers.Report) error {
@@ -214,12 +273,7 @@ func importView(rep *importers.Report) importJSON {
 
 func writeImportTable(w io.Writer, ios *IOStreams, rep *importers.Report) error {
 	s := rep.Summary
-	verb := "imported"
-	if s.DryRun {
-		verb = "would import (dry run, nothing written)"
-	}
-	fmt.Fprintf(w, "%s %d part(s) from %d row(s): %d added, %d updated, %d unchanged, %d spec-changed; %d row(s) skipped\n",
-		verb, s.Imported, s.Rows, s.Added, s.Updated, s.Unchanged, s.SpecChanged, s.Skipped)
+	writeImportSummary(w, rep)
 	if s.Series > 0 {
 		fmt.Fprintf(w, "%d resistor series grouped from runs of rows\n", s.Series)
 	}

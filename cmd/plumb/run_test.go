@@ -535,6 +535,7 @@ func TestConfigShowSources(t *testing.T) {
 		{Key: "format", Value: "json", Source: "flag --format"},
 		{Key: "top", Value: "8", Source: "env PLUMB_TOP"},
 		{Key: "color", Value: "auto", Source: "default"},
+		{Key: "import.currency", Value: "", Source: "default"},
 	}
 	_ = file
 	if len(got) != len(want) {
