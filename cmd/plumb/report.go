@@ -9,6 +9,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"plumb/catalog"
 	"plumb/optimize/report"
 	"plumb/optimize/search"
 )
@@ -94,8 +95,19 @@ func runReport(ctx context.Context, opts *reportOptions) error {
 		return err
 	}
 	defer st.Close()
-	if in.Snapshot, err = st.Snapshot(ctx); err != nil {
-		return fmt.Errorf("reading the catalog: %w", err)
+	// The catalog is read through its indexes: the search streams the rows
+	// the spec can use, and the parts list finds its part numbers.
+	in.Lookup = func(part string) (catalog.Kind, any, error) { return st.Find(ctx, part) }
+	if in.Design == nil {
+		top := opts.Top
+		if top <= 0 {
+			top = report.DefaultTop
+		}
+		res, err := search.SolveCatalog(ctx, st, sp, search.Options{Top: top})
+		if res == nil {
+			return fmt.Errorf("building the report for %s: searching for designs: %w", specName(sp), err)
+		}
+		in.Search = res
 	}
 	rep, err := report.Build(ctx, in)
 	if err != nil {

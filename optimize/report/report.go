@@ -46,8 +46,12 @@ type Input struct {
 	// Snapshot is the catalog: searched when Search and Design are nil, and
 	// used to price parts and resolve a design's part numbers.
 	Snapshot *catalog.Snapshot
-	Search   *search.Result
-	Design   *spec.Design
+	// Lookup, when Snapshot is nil, finds the part numbers instead (for
+	// example a catalog file's Find), so a large catalog need not be read
+	// whole.
+	Lookup spec.Lookup
+	Search *search.Result
+	Design *spec.Design
 	// Top is the number of designs to search for (default DefaultTop).
 	Top int
 	// Combos is passed to the search (search.Options.Combos): two values in
@@ -189,7 +193,7 @@ func Build(ctx context.Context, in Input) (*Report, error) {
 	if s.SourceFile != "" {
 		r.SpecFile = filepath.Base(s.SourceFile)
 	}
-	var lookup spec.Lookup
+	lookup := in.Lookup
 	if in.Snapshot != nil {
 		var err error
 		if lookup, err = spec.SnapshotLookup(in.Snapshot); err != nil {

@@ -535,7 +535,7 @@ const quickExtra = 24
 // gradeKey identifies what makes designs really different: the family,
 // each position's kind and grade (tolerance and tempco, or the network or
 // amplifier part) and the amplifier. Designs with one key differ only in
-// resistor values or in which price list a grade is bought from.
+// resistor values, sizes, technologies or part numbers.
 func gradeKey(d *Design) string {
 	var b strings.Builder
 	b.WriteString(d.Family)

@@ -165,7 +165,7 @@ type groupBuilder struct {
 func (tb *tableBuilder) add(r *catalog.ResistorRow) error {
 	p := tb.p
 	var cand [places]pick
-	any := false
+	priced := false
 	for _, pl := range tb.used {
 		c := &cand[pl]
 		c.ext = math.NaN()
@@ -178,9 +178,9 @@ func (tb *tableBuilder) add(r *catalog.ResistorRow) error {
 			continue
 		}
 		c.ext, c.qty, c.short = float64(q)*unit, int32(q), short
-		any = true
+		priced = true
 	}
-	if !any {
+	if !priced {
 		return nil
 	}
 	if p.Build.Currency == "" {
