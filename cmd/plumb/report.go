@@ -21,9 +21,11 @@ type reportOptions struct {
 	Spec    string
 	Design  string
 	Top     int
-	Output  string
-	Force   bool
-	Quiet   bool
+	// Frontier draws the cost-versus-margin frontier.
+	Frontier bool
+	Output   string
+	Force    bool
+	Quiet    bool
 }
 
 func newReportCmd(f *Factory, runF func(*reportOptions) error) *cobra.Command {
@@ -69,6 +71,7 @@ and a failed report leaves no partial files.`,
 	fl := cmd.Flags()
 	fl.StringVar(&opts.Design, "design", "", "report on this `DESIGN` (file or example name) instead of searching")
 	fl.IntVar(&opts.Top, keyTop, 0, "number of designs searched for and compared (default: the configured top, at most 3)")
+	fl.BoolVar(&opts.Frontier, "frontier", false, "also plot the designs on the cost-versus-margin frontier")
 	fl.StringVarP(&opts.Output, "output", "o", "", "report `FILE`: .html or .md")
 	fl.BoolVar(&opts.Force, "force", false, "replace an existing report")
 	return cmd
@@ -79,7 +82,7 @@ func runReport(ctx context.Context, opts *reportOptions) error {
 	if err != nil {
 		return err
 	}
-	in := report.Input{Spec: sp, Top: opts.Top, Now: opts.Now}
+	in := report.Input{Spec: sp, Top: opts.Top, Now: opts.Now, Frontier: opts.Frontier}
 	if opts.Design != "" {
 		if in.Design, err = loadDesignArg(opts.Design); err != nil {
 			return err

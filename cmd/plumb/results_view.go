@@ -161,6 +161,9 @@ func writeSolveTable(w io.Writer, ios *IOStreams, title string, r *search.Result
 			fmt.Fprintf(w, "  %s short of stock for the build: %s\n", ios.Yellow("!"), strings.Join(d.ShortStock, ", "))
 		}
 	}
+	if err := writeFrontier(w, ios, r.Frontier); err != nil {
+		return err
+	}
 	if len(r.NearMisses) > 0 {
 		title := "Near misses (cheaper than rank 1, but failing):"
 		if len(r.Designs) == 0 {
@@ -244,4 +247,36 @@ func solveCSVRows(r *search.Result) [][]string {
 		}
 	}
 	return rows
+}
+
+// writeFrontier prints the cost-versus-margin frontier: each design's cost,
+// its binding limit and margin, and its parts (wrapped).
+func writeFrontier(w io.Writer, ios *IOStreams, f []search.Design) error {
+	if len(f) == 0 {
+		return nil
+	}
+	fmt.Fprintf(w, "\n%s\n", ios.Bold("Cost against margin (no cheaper design has as much margin on every limit):"))
+	t := newTable(ios, "RANK", "PER STAGE", "BINDING", "MARGIN", "PARTS").alignRight(0, 1, 3).wrapColumns(4)
+	for _, d := range f {
+		rank := "-"
+		if d.Rank > 0 {
+			rank = strconv.Itoa(d.Rank)
+		}
+		margin := ""
+		if l, ok := limitNamed(d.Limits, d.Binding); ok {
+			margin = formatMargin(l.Margin)
+		}
+		t.row(rank, formatMoney(d.UnitCost, d.Currency), d.Binding, margin, d.PartsText())
+	}
+	return t.render(w)
+}
+
+// limitNamed returns the limit of ls named name.
+func limitNamed(ls []search.Limit, name string) (search.Limit, bool) {
+	for _, l := range ls {
+		if l.Name == name {
+			return l, true
+		}
+	}
+	return search.Limit{}, false
 }

@@ -20,12 +20,14 @@ type solveOptions struct {
 	Spec    string
 	Top     int
 	Combos  bool
-	Format  string
-	Explain int
-	BOM     string
-	Force   bool
-	Quiet   bool
-	Verbose bool
+	// Frontier lists the cost-versus-margin frontier after the ranking.
+	Frontier bool
+	Format   string
+	Explain  int
+	BOM      string
+	Force    bool
+	Quiet    bool
+	Verbose  bool
 }
 
 func newSolveCmd(f *Factory, runF func(*solveOptions) error) *cobra.Command {
@@ -72,6 +74,7 @@ catalog can reach and exits with code 3.`,
 	fl := cmd.Flags()
 	fl.IntVar(&opts.Top, keyTop, 0, "number of ranked designs (default: the configured top, 5 unless set)")
 	fl.BoolVar(&opts.Combos, "combos", false, "allow two resistors in series or in parallel at a feedback position to close a ratio gap")
+	fl.BoolVar(&opts.Frontier, "frontier", false, "also list the designs on the cost-versus-margin frontier (none cheaper has as much margin on every limit)")
 	fl.IntVar(&opts.Explain, "explain", 0, "show the limits and reasons of design `N` only")
 	fl.StringVar(&opts.BOM, "bom", "", "write the purchasing list of design 1 (or --explain N) to `FILE`.csv")
 	fl.BoolVar(&opts.Force, "force", false, "replace an existing --bom file")
@@ -97,7 +100,7 @@ func runSolve(cmd *cobra.Command, opts *solveOptions) error {
 	}
 	defer st.Close()
 	start := opts.Now()
-	res, err := solveSpec(cmd, opts.IO, opts.Quiet, opts.Now, st, sp, search.Options{Top: opts.Top, Combos: opts.Combos})
+	res, err := solveSpec(cmd, opts.IO, opts.Quiet, opts.Now, st, sp, search.Options{Top: opts.Top, Combos: opts.Combos, Frontier: opts.Frontier})
 	if res == nil {
 		return err
 	}

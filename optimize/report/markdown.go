@@ -114,6 +114,9 @@ func (r *Report) MarkdownFiles(name string) ([]File, error) {
 		fmt.Fprintf(&b, "**%s**\n\n", md(s))
 	}
 	mdTable(&b, r.Compare)
+	if r.Frontier != nil {
+		fig(r.Frontier)
+	}
 	for _, d := range r.Designs {
 		fmt.Fprintf(&b, "## Design %d: %s\n\n", d.Rank, md(d.Title))
 		verdict := "Meets every limit."

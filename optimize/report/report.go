@@ -64,6 +64,9 @@ type Input struct {
 	// TempPoints is the number of temperatures solved for the temperature
 	// plot (default DefaultTempPoints).
 	TempPoints int
+	// Frontier asks the search for the cost-versus-margin frontier and
+	// draws it (search.Options.Frontier).
+	Frontier bool
 	// Now stamps the report (default time.Now); tests inject a fixed clock.
 	Now func() time.Time
 }
@@ -78,6 +81,8 @@ type Report struct {
 	Method    string
 	// Spec lists every spec field in engineering notation.
 	Spec []Row
+	// Frontier is the cost-versus-margin plot (nil: not asked for).
+	Frontier *Plot
 	// Safety holds the hazardous-voltage cautions, shown first and boxed.
 	Safety []string
 	// Cautions holds the other cautions (ratings, headroom, stock).
@@ -228,7 +233,7 @@ func Build(ctx context.Context, in Input) (*Report, error) {
 			top = DefaultTop
 		}
 		var err error
-		res, err = search.Solve(ctx, in.Snapshot, s, search.Options{Top: top, Combos: in.Combos})
+		res, err = search.Solve(ctx, in.Snapshot, s, search.Options{Top: top, Combos: in.Combos, Frontier: in.Frontier})
 		if res == nil {
 			return nil, fmt.Errorf("report: searching for designs: %w", err)
 		}
@@ -244,6 +249,11 @@ func Build(ctx context.Context, in Input) (*Report, error) {
 		r.Cautions = append(r.Cautions, res.Cautions...)
 		r.Notes = append(r.Notes, res.Notes...)
 		r.NearMisses = nearMisses(res.NearMisses)
+		fp, err := frontierPlot(res)
+		if err != nil {
+			return nil, fmt.Errorf("report: frontier plot: %w", err)
+		}
+		r.Frontier = fp
 		if res.Infeasible != nil {
 			r.Infeasible = infeasibleText(res.Infeasible)
 		}

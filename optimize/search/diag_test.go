@@ -382,3 +382,53 @@ build: {quantity: 100}
 		t.Errorf("message %q", inf.Message)
 	}
 }
+
+// TestFrontier: the cost-versus-margin frontier holds designs that pass,
+// ordered by cost, none of which another matches in margin on every limit
+// at no more cost (Pareto dominance, the definition of the frontier); it
+// starts at rank 1, the cheapest design, and each costlier entry buys more
+// margin on some limit than every cheaper one.
+func TestFrontier(t *testing.T) {
+	snap, s := loadFixture(t, "diff_g10.yaml")
+	res, err := Solve(context.Background(), snap, s, Options{Frontier: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	f := res.Frontier
+	if len(f) < 2 {
+		t.Fatalf("frontier of %d design(s), want several", len(f))
+	}
+	if f[0].TotalCost != res.Designs[0].TotalCost {
+		t.Errorf("frontier starts at %.4g, rank 1 costs %.4g", f[0].TotalCost, res.Designs[0].TotalCost)
+	}
+	for i := range f {
+		for _, l := range f[i].Limits {
+			if !l.Pass {
+				t.Errorf("frontier design %d fails %s", i+1, l.Name)
+			}
+		}
+		if i > 0 && f[i].TotalCost < f[i-1].TotalCost {
+			t.Errorf("frontier not ordered by cost: %.4g after %.4g", f[i].TotalCost, f[i-1].TotalCost)
+		}
+		for j := range f {
+			if i == j || f[j].TotalCost > f[i].TotalCost {
+				continue
+			}
+			better := f[j].TotalCost < f[i].TotalCost
+			all := true
+			for _, li := range f[i].Limits {
+				lj, ok := findLimit(f[j].Limits, li.Name)
+				all = all && ok && lj.Margin >= li.Margin
+				better = better || (ok && lj.Margin > li.Margin)
+			}
+			if all && better {
+				t.Errorf("frontier design %d (%.4g) is dominated by design %d (%.4g)", i+1, f[i].TotalCost, j+1, f[j].TotalCost)
+			}
+		}
+	}
+	// Without the option there is no frontier.
+	res2, err := Solve(context.Background(), snap, s, Options{})
+	if err != nil || res2.Frontier != nil {
+		t.Errorf("frontier without the option: %v, %v", res2.Frontier, err)
+	}
+}

@@ -271,6 +271,10 @@ func relaxation(l specLimit, s *spec.Spec, to float64, r *Result) Relaxation {
 		Parts: partsText(d), TotalCost: d.TotalCost, UnitCost: d.UnitCost, Currency: d.Currency}
 }
 
+// PartsText names the design's parts by position, one grade or part per
+// group of positions (see partsText).
+func (d *Design) PartsText() string { return partsText(d) }
+
 // partsText names a design's parts by position, one grade or part per
 // group of positions: "R1, R3: AR-TP1-59K0 (0.1 % 25 ppm/K); U1: IM-JH36".
 func partsText(d *Design) string {

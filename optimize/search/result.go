@@ -34,6 +34,11 @@ type Options struct {
 	// of the exact budget with the trials run and the trials of the run.
 	Trials func(done, total int)
 
+	// Frontier asks for the designs on the cost-versus-margin frontier
+	// (Result.Frontier): those no cheaper design matches in margin on every
+	// limit, among the FrontierPool cheapest passing classes.
+	Frontier bool
+
 	// spec is the spec Solve searches for: near misses try changes on its
 	// side (a calibration) with the exact budget (nil: none tried).
 	spec *spec.Spec
@@ -55,6 +60,9 @@ const MaxTop = 50
 type Result struct {
 	Designs    []Design   `json:"designs"`
 	NearMisses []NearMiss `json:"near_misses"`
+	// Frontier are the designs on the cost-versus-margin frontier, by
+	// cost (Options.Frontier).
+	Frontier []Design `json:"frontier,omitempty"`
 	// CheapestFailing are the cheapest failing designs (cheaper than rank
 	// 1), beside the near misses, which are the closest.
 	CheapestFailing []NearMiss  `json:"cheapest_failing,omitempty"`

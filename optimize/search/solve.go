@@ -488,6 +488,11 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 		}
 	}
 	res.Notes = append(res.Notes, check.notes()...)
+	if opt.Frontier && !opt.quick && len(res.Designs) > 0 {
+		if err := sp.addFrontier(ctx, res, verify); err != nil {
+			return nil, err
+		}
+	}
 	if err := res.finish(ctx); err != nil {
 		return nil, err
 	}
