@@ -28,7 +28,6 @@ type space struct {
 	amps             []amp // op-amps
 	matched          []amp
 	cfgs             []config
-	byLB             []int32 // configuration indexes by cost lower bound
 	why              hardReason
 	nets             []*catalog.Network
 	// gainFrom is, per configuration and open-loop gain, the first option
@@ -335,6 +334,7 @@ func (s *space) options(c *config) []option {
 		gi, mid := s.groups[c.ga], math.Sqrt(s.p.RMinOhm*s.p.RMaxOhm)
 		off := func(o *option) float64 { return math.Abs(math.Log(gi.values[o.rg] / mid)) }
 		sortOptions(c.opts, off)
+		c.raiseLB()
 		return c.opts
 	}
 	ga, gb := s.groups[c.ga], s.groups[c.gb]
@@ -392,7 +392,18 @@ func (s *space) options(c *config) []option {
 		}
 	}
 	sortOptions(c.opts, nil)
+	c.raiseLB()
 	return c.opts
+}
+
+// raiseLB lifts the configuration's cost lower bound to its cheapest
+// option (no option: it can build nothing), once the options are known.
+func (c *config) raiseLB() {
+	if len(c.opts) == 0 {
+		c.costLB = math.Inf(1)
+	} else if c.opts[0].cost > c.costLB {
+		c.costLB = c.opts[0].cost
+	}
 }
 
 // sortOptions orders options by cost, then the two values either side of

@@ -1,8 +1,10 @@
 package search
 
 import (
+	"cmp"
 	"container/heap"
 	"context"
+	"slices"
 	"sort"
 )
 
@@ -208,8 +210,9 @@ func (s *space) exhaustive(ctx context.Context, n int) ([]classBest, error) {
 
 // pairHeap orders (configuration, op-amp) pairs by their cost lower bound.
 type pair struct {
-	lb   float64
-	i, j int32 // ranks in the sorted configuration and op-amp lists
+	lb    float64
+	i, j  int32 // ranks in the sorted configuration and op-amp lists
+	again bool  // pushed back with a raised bound (its successors are in)
 }
 
 type pairHeap []pair
@@ -243,42 +246,54 @@ type stats struct {
 // those costs, until visit returns true. A heap holds the frontier: after
 // (i, j) come (i, j+1) and, from the first column, (i+1, 0), so every pair
 // is visited once.
+//
+// A configuration's costLB rises to its cheapest option's cost once its
+// options are built (options), which only tightens the bound: a pair
+// popped with a bound below its configuration's present one goes back
+// into the heap with the present bound (its successors already pushed),
+// so the pairs still come out in nondecreasing order of a valid bound and
+// the walk stops sooner.
 func (s *space) walkPairs(cfgs, amps []int32, visit func(ci, ai int, lb float64) (stop bool)) {
 	if len(cfgs) == 0 || len(amps) == 0 {
 		return
 	}
 	lb := func(i, j int32) float64 { return s.cfgs[cfgs[i]].costLB + s.amps[amps[j]].cost }
-	h := pairHeap{{lb(0, 0), 0, 0}}
+	h := pairHeap{{lb(0, 0), 0, 0, false}}
 	for h.Len() > 0 {
 		pr := heap.Pop(&h).(pair)
+		if !pr.again {
+			if int(pr.j)+1 < len(amps) {
+				heap.Push(&h, pair{lb(pr.i, pr.j+1), pr.i, pr.j + 1, false})
+			}
+			if pr.j == 0 && int(pr.i)+1 < len(cfgs) {
+				heap.Push(&h, pair{lb(pr.i+1, 0), pr.i + 1, 0, false})
+			}
+		}
+		if now := lb(pr.i, pr.j); now > pr.lb {
+			heap.Push(&h, pair{now, pr.i, pr.j, true})
+			continue
+		}
 		if visit(int(cfgs[pr.i]), int(amps[pr.j]), pr.lb) {
 			return
-		}
-		if int(pr.j)+1 < len(amps) {
-			heap.Push(&h, pair{lb(pr.i, pr.j+1), pr.i, pr.j + 1})
-		}
-		if pr.j == 0 && int(pr.i)+1 < len(cfgs) {
-			heap.Push(&h, pair{lb(pr.i+1, 0), pr.i + 1, 0})
 		}
 	}
 }
 
 // sortedConfigs returns the indexes of the configurations that keep(ci)
-// accepts, sorted by cost lower bound.
+// accepts, sorted by their present cost lower bound (then by index).
 func (s *space) sortedConfigs(keep func(ci int) bool) []int32 {
-	if s.byLB == nil {
-		s.byLB = make([]int32, len(s.cfgs))
-		for i := range s.byLB {
-			s.byLB[i] = int32(i)
-		}
-		sort.SliceStable(s.byLB, func(a, b int) bool { return s.cfgs[s.byLB[a]].costLB < s.cfgs[s.byLB[b]].costLB })
-	}
 	var out []int32
-	for _, ci := range s.byLB {
-		if keep(int(ci)) {
-			out = append(out, ci)
+	for ci := range s.cfgs {
+		if keep(ci) {
+			out = append(out, int32(ci))
 		}
 	}
+	slices.SortFunc(out, func(a, b int32) int {
+		if x, y := s.cfgs[a].costLB, s.cfgs[b].costLB; x != y {
+			return cmp.Compare(x, y)
+		}
+		return cmp.Compare(a, b)
+	})
 	return out
 }
 
