@@ -2,7 +2,6 @@ package catalog
 
 import (
 	"context"
-	"encoding/csv"
 	"fmt"
 	"io"
 	"reflect"
@@ -40,7 +39,7 @@ func (s *Store) writeCSV(ctx context.Context, w io.Writer, kind Kind) error {
 	default:
 		parts = reflect.ValueOf(snap.Amplifiers)
 	}
-	cw := csv.NewWriter(w)
+	cw := NewCSVWriter(w)
 	header := make([]string, 0, len(t.cols)+2)
 	for _, c := range t.cols {
 		header = append(header, c.name)
@@ -89,8 +88,7 @@ func (s *Store) writeCSV(ctx context.Context, w io.Writer, kind Kind) error {
 			return fmt.Errorf("catalog: CSV export: %w", err)
 		}
 	}
-	cw.Flush()
-	if err := cw.Error(); err != nil {
+	if err := cw.Flush(); err != nil {
 		return fmt.Errorf("catalog: CSV export: %w", err)
 	}
 	return nil

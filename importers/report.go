@@ -1,7 +1,6 @@
 package importers
 
 import (
-	"encoding/csv"
 	"fmt"
 	"io"
 	"strconv"
@@ -60,7 +59,7 @@ func (r *Report) Count(s Severity) int {
 // WriteCSV writes the row report: one line per problem with file, line,
 // column, part, severity, raw text and reason, after a header line.
 func (r *Report) WriteCSV(w io.Writer) error {
-	cw := csv.NewWriter(w)
+	cw := catalog.NewCSVWriter(w)
 	if err := cw.Write([]string{"file", "line", "column", "part", "severity", "raw", "reason"}); err != nil {
 		return fmt.Errorf("importers: writing report: %w", err)
 	}
@@ -73,8 +72,7 @@ func (r *Report) WriteCSV(w io.Writer) error {
 			return fmt.Errorf("importers: writing report: %w", err)
 		}
 	}
-	cw.Flush()
-	if err := cw.Error(); err != nil {
+	if err := cw.Flush(); err != nil {
 		return fmt.Errorf("importers: writing report: %w", err)
 	}
 	return nil

@@ -369,7 +369,7 @@ func (r *rowReader) plainText(f Field, s, what string) error {
 	pos := 0
 	for _, c := range s {
 		pos++
-		if unicode.IsControl(c) || unicode.In(c, unicode.Cf, unicode.Zl, unicode.Zp) {
+		if catalog.UnsafeRune(c) {
 			kind := "a control character"
 			if unicode.Is(unicode.Bidi_Control, c) {
 				kind = "a bidirectional control character"

@@ -7,15 +7,18 @@ import (
 	"regexp"
 	"strings"
 
+	"plumb/catalog"
 	"plumb/catalog/units"
 )
 
 // cleanCell trims the spaces spreadsheets leave around a cell, including
-// no-break and zero-width spaces.
+// no-break and zero-width spaces, and drops the apostrophe that plumb's own
+// CSV files put before a cell a spreadsheet would read as a formula
+// (catalog.SpreadsheetSafe), so that an export imports as it was.
 func cleanCell(s string) string {
-	return strings.TrimFunc(s, func(r rune) bool {
+	return catalog.ReadSpreadsheetSafe(strings.TrimFunc(s, func(r rune) bool {
 		return r == ' ' || r == '\t' || r == '\r' || r == '\n' || r == '\u00a0' || r == '\u200b' || r == '\ufeff'
-	})
+	}))
 }
 
 // isBlank reports a cell that means "unknown": blank, "-", "—", "n/a".

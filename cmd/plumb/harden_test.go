@@ -1,7 +1,9 @@
 package main
 
 import (
+	"bytes"
 	"database/sql"
+	"fmt"
 	"os"
 	"path/filepath"
 	"slices"
@@ -9,6 +11,7 @@ import (
 	"syscall"
 	"testing"
 
+	"plumb/catalog"
 	"plumb/optimize/report"
 )
 
@@ -195,5 +198,95 @@ func TestReportSidecars(t *testing.T) {
 	}
 	if _, err := os.Stat(stray); err != nil {
 		t.Errorf("a file the report never listed was removed: %v", err)
+	}
+}
+
+// hostileSnapshot is the fixture catalog plus a resistor whose text cells
+// start with formula leads and hold terminal control and bidirectional
+// characters, as a hostile or careless export could leave them.
+func hostileSnapshot() (*catalog.Snapshot, error) {
+	b, err := os.ReadFile(filepath.Join("testdata", "catalog.json"))
+	if err != nil {
+		return nil, err
+	}
+	snap, err := catalog.ReadSnapshotJSON(bytes.NewReader(b))
+	if err != nil {
+		return nil, err
+	}
+	r := snap.Resistors[0]
+	r.Part, r.Maker, r.Line = "@EVIL-1", "=HYPERLINK(\"x\")", "Fake\x1b[2J\u202eenil"
+	snap.Resistors = append(snap.Resistors, r)
+	return snap, nil
+}
+
+// TestCSVCellsNeutralised is hardening finding 5: catalog export, catalog
+// list --format csv and the import row report wrote cells starting with
+// =, + or @ verbatim. Every CSV plumb writes now goes through one writer
+// (catalog.CSVWriter) that marks them with a leading apostrophe.
+func TestCSVCellsNeutralised(t *testing.T) {
+	clearPlumbEnv(t)
+	dir := t.TempDir()
+	for _, line := range []string{"catalog export --format csv --kind resistor", "catalog list --format csv --kind resistor"} {
+		f, _, _ := testFactory(t)
+		useSnapshotCatalog(f, "hostile", hostileSnapshot)
+		out, errOut, code := runPlumb(t, f, line)
+		if code != exitOK {
+			t.Fatalf("%s: exit %d: %s", line, code, errOut)
+		}
+		if !strings.Contains(out, "'@EVIL-1") || !strings.Contains(out, `'=HYPERLINK(""x"")`) || strings.Contains(out, ",@EVIL") || strings.Contains(out, "\n@EVIL") {
+			t.Errorf("%s: formula cells not neutralised:\n%s", line, out)
+		}
+	}
+	// The import row report quotes the raw cell of a refused row.
+	csvFile := filepath.Join(dir, "in.csv")
+	if err := os.WriteFile(csvFile, []byte("part,maker,value,tolerance,tcr,power,price\nR-1,Acme,=cmd|' /C calc'!A0,1%,100ppm/K,0.1W,0.1\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	rep := filepath.Join(dir, "rows.csv")
+	f, _, _ := testFactory(t)
+	runPlumb(t, f, "catalog init "+filepath.Join(dir, "c.db"))
+	f, _, _ = testFactory(t)
+	runPlumb(t, f, "import --catalog "+filepath.Join(dir, "c.db")+" --dry-run --report "+rep+" "+csvFile)
+	b, err := os.ReadFile(rep)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(b), "'=cmd") || strings.Contains(string(b), ",=cmd") {
+		t.Errorf("import report does not neutralise the raw cell:\n%s", b)
+	}
+}
+
+// TestTerminalTextEscaped is hardening finding 5: part numbers and makers
+// with ESC or U+202E were printed raw to the terminal. Tables escape every
+// cell, and whatever goes to a terminal is escaped, keeping plumb's own
+// colours.
+func TestTerminalTextEscaped(t *testing.T) {
+	clearPlumbEnv(t)
+	for _, tty := range []bool{false, true} {
+		ios, _, out, _ := TestIO()
+		ios.SetTerminal(tty, tty)
+		ios.guardTerminals()
+		f := newFactory(ios)
+		cfg := t.TempDir()
+		f.ConfigDir = func() (string, error) { return cfg, nil }
+		useSnapshotCatalog(f, "hostile", hostileSnapshot)
+		root := newRootCmd(f)
+		root.SetArgs(strings.Fields("catalog show @EVIL-1"))
+		if code := reportError(f.IO, root.Execute()); code != exitOK {
+			t.Fatalf("exit %d", code)
+		}
+		text := out.String()
+		if strings.Contains(text, "\x1b[2J") || strings.Contains(text, "\u202e") || !strings.Contains(text, `Fake\x1b[2J\u202eenil`) {
+			t.Errorf("terminal %v: control characters reach the output: %q", tty, text)
+		}
+	}
+	// The terminal guard keeps plumb's own colour and line ends.
+	var b bytes.Buffer
+	w := &terminalWriter{w: &b}
+	fmt.Fprint(w, sgrBold+"ok"+sgrReset+"\n\x1b]0;title\x07\u202e")
+	w.Write([]byte("\xe2\x80")) // half of U+202E: held back
+	w.Write([]byte("\xaeend\n"))
+	if want := sgrBold + "ok" + sgrReset + "\n" + `\x1b]0;title\x07\u202e\u202eend` + "\n"; b.String() != want {
+		t.Errorf("terminal writer wrote %q, want %q", b.String(), want)
 	}
 }

@@ -26,6 +26,8 @@ type IOStreams struct {
 	colorMode string
 	// width is the terminal width tables are fitted to.
 	width int
+	// rawErr is stderr without the terminal guard (see guardTerminals).
+	rawErr io.Writer
 }
 
 // maxTableWidth is the width tables are fitted to on a terminal; a
@@ -42,7 +44,7 @@ func SystemIO() *IOStreams {
 	if w, _, err := term.GetSize(int(os.Stdout.Fd())); err == nil && w >= minTerminalWidth && w < width {
 		width = w
 	}
-	return &IOStreams{
+	s := &IOStreams{
 		In:        os.Stdin,
 		Out:       os.Stdout,
 		ErrOut:    os.Stderr,
@@ -52,6 +54,31 @@ func SystemIO() *IOStreams {
 		colorMode: "auto",
 		width:     width,
 	}
+	s.guardTerminals()
+	return s
+}
+
+// guardTerminals routes whatever goes to a terminal through a
+// terminalWriter, so that no text from a catalog or a file reaches it
+// with its control or bidirectional characters; a pipe or a file gets the
+// bytes as they are. The progress bar, which redraws its line with a
+// carriage return, writes to the raw stderr.
+func (s *IOStreams) guardTerminals() {
+	s.rawErr = s.ErrOut
+	if s.outTTY {
+		s.Out = &terminalWriter{w: s.Out}
+	}
+	if s.errTTY {
+		s.ErrOut = &terminalWriter{w: s.ErrOut}
+	}
+}
+
+// progressOut is where progress bars are drawn: the raw stderr.
+func (s *IOStreams) progressOut() io.Writer {
+	if s.rawErr != nil {
+		return s.rawErr
+	}
+	return s.ErrOut
 }
 
 func isTerminal(f *os.File) bool {

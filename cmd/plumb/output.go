@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/csv"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -9,6 +8,8 @@ import (
 	"strings"
 
 	"github.com/spf13/cobra"
+
+	"plumb/catalog"
 )
 
 // addFormatFlag adds --format to a command that prints data. The default
@@ -60,11 +61,13 @@ func writeCSV(w io.Writer, header []string, rows [][]string) error {
 			r[i] = strings.ReplaceAll(c, nbsp, " ")
 		}
 	}
-	cw := csv.NewWriter(w)
-	if err := cw.Write(header); err != nil {
-		return fmt.Errorf("writing CSV: %w", err)
+	cw := catalog.NewCSVWriter(w)
+	for _, r := range append([][]string{header}, rows...) {
+		if err := cw.Write(r); err != nil {
+			return fmt.Errorf("writing CSV: %w", err)
+		}
 	}
-	if err := cw.WriteAll(rows); err != nil {
+	if err := cw.Flush(); err != nil {
 		return fmt.Errorf("writing CSV: %w", err)
 	}
 	return nil

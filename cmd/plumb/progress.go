@@ -49,7 +49,7 @@ func (p *progress) set(desc string, done, total int) {
 		}
 		p.desc = desc
 		p.bar = progressbar.NewOptions(total,
-			progressbar.OptionSetWriter(p.io.ErrOut),
+			progressbar.OptionSetWriter(p.io.progressOut()),
 			progressbar.OptionSetDescription(desc),
 			progressbar.OptionShowCount(),
 			progressbar.OptionSetWidth(30),

@@ -66,7 +66,10 @@ func (t *table) row(cells ...string) {
 		panic(fmt.Sprintf("plumb: table row has %d cells for %d columns", len(cells), len(t.header)))
 	}
 	r := make([]string, len(t.header))
-	copy(r, cells)
+	for i, c := range cells {
+		// A cell is one line of text: even a line end is escaped.
+		r[i] = escapeText(c, "")
+	}
 	t.rows = append(t.rows, r)
 }
 
