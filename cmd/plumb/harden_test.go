@@ -239,7 +239,7 @@ func TestCSVCellsNeutralised(t *testing.T) {
 	}
 	// The import row report quotes the raw cell of a refused row.
 	csvFile := filepath.Join(dir, "in.csv")
-	if err := os.WriteFile(csvFile, []byte("part,maker,value,tolerance,tcr,power,price\nR-1,Acme,=cmd|' /C calc'!A0,1%,100ppm/K,0.1W,0.1\n"), 0o644); err != nil {
+	if err := os.WriteFile(csvFile, []byte("part,maker,value,tolerance,tcr,power,price\nR-1,Acme,=cmd|' /C calc'!A0,1%,100ppm/K,0.1W,0.1 USD\n"), 0o644); err != nil {
 		t.Fatal(err)
 	}
 	rep := filepath.Join(dir, "rows.csv")
