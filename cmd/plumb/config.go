@@ -14,6 +14,7 @@ import (
 	"github.com/spf13/viper"
 
 	"plumb/catalog"
+	"plumb/optimize/cost"
 	"plumb/optimize/search"
 )
 
@@ -28,10 +29,14 @@ const (
 	// keyImportCurrency is the currency of imported prices that carry none
 	// (plumb import --currency overrides it).
 	keyImportCurrency = "import.currency"
+	// keyCurrencyRates are the exchange rates a solve converts prices
+	// with: entries "FROM TO RATE DATE" (a YAML list, or one text with
+	// entries separated by ';').
+	keyCurrencyRates = "currency.rates"
 )
 
 // configKeys lists the keys in the order `plumb config show` prints them.
-var configKeys = []string{keyCatalog, keyFormat, keyTop, keyColor, keyImportCurrency}
+var configKeys = []string{keyCatalog, keyFormat, keyTop, keyColor, keyImportCurrency, keyCurrencyRates}
 
 // envPrefix is the prefix of plumb's environment variables.
 const envPrefix = "PLUMB"
@@ -45,6 +50,7 @@ var defaults = map[string]string{
 	keyTop:            "5",
 	keyColor:          "auto",
 	keyImportCurrency: "",
+	keyCurrencyRates:  "",
 }
 
 var (
@@ -67,6 +73,8 @@ type Settings struct {
 	// ImportCurrency is the ISO 4217 code of imported prices that carry
 	// none; "" for none.
 	ImportCurrency string
+	// Rates are the exchange rates of currency.rates.
+	Rates cost.Rates
 
 	// File is the config file read, "" if none.
 	File string
@@ -187,6 +195,13 @@ func resolveSettings(v *viper.Viper, flags *pflag.FlagSet, file string) (*Settin
 			s.sources[k] = "default"
 		}
 		s.values[k] = v.GetString(k)
+		if list, ok := v.Get(k).([]any); ok {
+			var entries []string
+			for _, e := range list {
+				entries = append(entries, fmt.Sprint(e))
+			}
+			s.values[k] = strings.Join(entries, "; ")
+		}
 	}
 	if err := s.validate(); err != nil {
 		return nil, err
@@ -221,6 +236,11 @@ func (s *Settings) validate() error {
 	if s.ImportCurrency != "" && !catalog.IsCurrencyCode(s.ImportCurrency) {
 		return s.invalid(keyImportCurrency, "is not a three-letter ISO 4217 code such as EUR")
 	}
+	rates, err := cost.ParseRates(s.values[keyCurrencyRates])
+	if err != nil {
+		return s.invalid(keyCurrencyRates, "%v", strings.TrimPrefix(err.Error(), "cost: "))
+	}
+	s.Rates = rates
 	s.Color = strings.ToLower(s.values[keyColor])
 	if !slices.Contains(colorModes, s.Color) {
 		return s.invalid(keyColor, "is not one of %s", strings.Join(colorModes, ", "))

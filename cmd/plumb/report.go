@@ -10,11 +10,14 @@ import (
 	"github.com/spf13/cobra"
 
 	"plumb/catalog"
+	"plumb/optimize/cost"
 	"plumb/optimize/report"
 	"plumb/optimize/search"
 )
 
 type reportOptions struct {
+	// Rates are the exchange rates of the configuration (currency.rates).
+	Rates   cost.Rates
 	IO      *IOStreams
 	Catalog catalogOpener
 	Now     func() time.Time
@@ -46,6 +49,7 @@ and a failed report leaves no partial files.`,
 		Args: exactArgs("SPEC"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			opts.Spec = args[0]
+			opts.Rates = f.Settings().Rates
 			if opts.Output == "" {
 				return usagef("%s needs -o FILE.html or -o FILE.md", cmd.CommandPath())
 			}
@@ -82,7 +86,7 @@ func runReport(ctx context.Context, opts *reportOptions) error {
 	if err != nil {
 		return err
 	}
-	in := report.Input{Spec: sp, Top: opts.Top, Now: opts.Now, Frontier: opts.Frontier}
+	in := report.Input{Spec: sp, Top: opts.Top, Now: opts.Now, Frontier: opts.Frontier, Rates: opts.Rates}
 	if opts.Design != "" {
 		if in.Design, err = loadDesignArg(opts.Design); err != nil {
 			return err

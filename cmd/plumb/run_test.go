@@ -536,6 +536,7 @@ func TestConfigShowSources(t *testing.T) {
 		{Key: "top", Value: "8", Source: "env PLUMB_TOP"},
 		{Key: "color", Value: "auto", Source: "default"},
 		{Key: "import.currency", Value: "", Source: "default"},
+		{Key: "currency.rates", Value: "", Source: "default"},
 	}
 	_ = file
 	if len(got) != len(want) {

@@ -9,11 +9,14 @@ import (
 	"github.com/spf13/cobra"
 
 	"plumb/catalog"
+	"plumb/optimize/cost"
 	"plumb/optimize/search"
 	"plumb/optimize/spec"
 )
 
 type solveOptions struct {
+	// Rates are the exchange rates of the configuration (currency.rates).
+	Rates   cost.Rates
 	IO      *IOStreams
 	Catalog catalogOpener
 	Now     func() time.Time
@@ -65,6 +68,7 @@ catalog can reach and exits with code 3.`,
 				return usagef("--explain %d: choose a rank from 1 to --top (%d)", opts.Explain, opts.Top)
 			}
 			opts.Quiet, opts.Verbose = f.Quiet, f.Verbose
+			opts.Rates = f.Settings().Rates
 			if runF != nil {
 				return runF(opts)
 			}
@@ -100,7 +104,7 @@ func runSolve(cmd *cobra.Command, opts *solveOptions) error {
 	}
 	defer st.Close()
 	start := opts.Now()
-	res, err := solveSpec(cmd, opts.IO, opts.Quiet, opts.Now, st, sp, search.Options{Top: opts.Top, Combos: opts.Combos, Frontier: opts.Frontier})
+	res, err := solveSpec(cmd, opts.IO, opts.Quiet, opts.Now, st, sp, search.Options{Top: opts.Top, Combos: opts.Combos, Frontier: opts.Frontier, Rates: opts.Rates})
 	if res == nil {
 		return err
 	}

@@ -10,6 +10,7 @@ import (
 
 	"plumb/catalog"
 	"plumb/optimize/budget"
+	"plumb/optimize/cost"
 	"plumb/optimize/search"
 	"plumb/optimize/spec"
 )
@@ -57,6 +58,9 @@ type Input struct {
 	// Combos is passed to the search (search.Options.Combos): two values in
 	// series or parallel at a position. Off by default, as in the search.
 	Combos bool
+	// Rates are passed to the search (search.Options.Rates): exchange
+	// rates into the spec's build currency.
+	Rates cost.Rates
 	// Trials is the Monte Carlo trial count for the histograms when the
 	// spec's method is not Monte Carlo (default: the spec's trials, at most
 	// DefaultTrials).
@@ -233,7 +237,7 @@ func Build(ctx context.Context, in Input) (*Report, error) {
 			top = DefaultTop
 		}
 		var err error
-		res, err = search.Solve(ctx, in.Snapshot, s, search.Options{Top: top, Combos: in.Combos, Frontier: in.Frontier})
+		res, err = search.Solve(ctx, in.Snapshot, s, search.Options{Top: top, Combos: in.Combos, Frontier: in.Frontier, Rates: in.Rates})
 		if res == nil {
 			return nil, fmt.Errorf("report: searching for designs: %w", err)
 		}

@@ -33,6 +33,11 @@ type Options struct {
 	// Trials, when set, is called now and then during each Monte Carlo run
 	// of the exact budget with the trials run and the trials of the run.
 	Trials func(done, total int)
+	// Rates are the exchange rates (currency.rates of the configuration)
+	// that turn prices in other currencies into the spec's build currency;
+	// a part priced in a currency with no rate is left out, counted and
+	// named in the notes.
+	Rates cost.Rates
 
 	// Frontier asks for the designs on the cost-versus-margin frontier
 	// (Result.Frontier): those no cheaper design matches in margin on every
@@ -70,7 +75,10 @@ type Result struct {
 	Method          string      `json:"method"`
 	Cautions        []string    `json:"cautions,omitempty"`
 	Notes           []string    `json:"notes,omitempty"`
-	Search          Stats       `json:"search"`
+	// Conversions lists the prices turned into the build currency, per
+	// currency, with the rate and the date it was set.
+	Conversions []cost.Conversion `json:"currency_conversions,omitempty"`
+	Search      Stats             `json:"search"`
 
 	spec    *spec.Spec
 	designs []*spec.Design

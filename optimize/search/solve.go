@@ -40,10 +40,59 @@ func Solve(ctx context.Context, snap *catalog.Snapshot, s *spec.Spec, opt Option
 	if s.Assumptions == spec.AssumeStrict {
 		snap, strictNote = withoutAssumed(snap, assumed, constrained(s))
 	}
+	conv := converterFor(s, opt)
+	snap = convertSnapshot(snap, conv)
 	parts := &Parts{Series: snap.ResistorSeries, Resistors: snap.Resistors, Networks: snap.Networks, Amplifiers: snap.Amplifiers}
 	r, err := solveSpec(ctx, parts, p, s, opt)
 	r.attachAssumptions(assumed.For, strictNote)
+	r.attachConversions(conv)
 	return r, err
+}
+
+// converterFor returns the converter into the spec's build currency, or
+// nil when the spec names none (then the catalog must hold one currency).
+func converterFor(s *spec.Spec, opt Options) *cost.Converter {
+	if s.Build.Currency == "" {
+		return nil
+	}
+	return &cost.Converter{To: s.Build.Currency, Rates: opt.Rates}
+}
+
+// convertSnapshot returns snap with every price in the converter's
+// currency, leaving out the parts priced in a currency it has no rate for.
+func convertSnapshot(snap *catalog.Snapshot, c *cost.Converter) *catalog.Snapshot {
+	if c == nil {
+		return snap
+	}
+	out := *snap
+	out.ResistorSeries = convertParts(snap.ResistorSeries, c, func(p *catalog.ResistorSeries) (string, *catalog.Offer) { return p.Part, &p.Offer })
+	out.Resistors = convertParts(snap.Resistors, c, func(p *catalog.Resistor) (string, *catalog.Offer) { return p.Part, &p.Offer })
+	out.Networks = convertParts(snap.Networks, c, func(p *catalog.Network) (string, *catalog.Offer) { return p.Part, &p.Offer })
+	out.Amplifiers = convertParts(snap.Amplifiers, c, func(p *catalog.Amplifier) (string, *catalog.Offer) { return p.Part, &p.Offer })
+	return &out
+}
+
+func convertParts[T any](parts []T, c *cost.Converter, offer func(*T) (string, *catalog.Offer)) []T {
+	out := make([]T, 0, len(parts))
+	for _, p := range parts {
+		part, o := offer(&p)
+		conv, ok := c.Offer(part, *o)
+		if !ok {
+			continue
+		}
+		*o = conv
+		out = append(out, p)
+	}
+	return out
+}
+
+// attachConversions reports what the converter did.
+func (r *Result) attachConversions(c *cost.Converter) {
+	if r == nil || c == nil {
+		return
+	}
+	r.Conversions = c.Conversions()
+	r.Notes = append(r.Notes, c.Notes()...)
 }
 
 // SolveCatalog is Solve reading the catalog file itself: the resistors
@@ -70,12 +119,14 @@ func SolveCatalog(ctx context.Context, st *catalog.Store, s *spec.Spec, opt Opti
 		return nil, err
 	}
 	snap, assumed := assume.Snapshot(&catalog.Snapshot{Networks: nets, Amplifiers: amps})
-	rows := &assumedRows{src: st}
+	conv := converterFor(s, opt)
+	rows := &assumedRows{src: st, conv: conv}
 	var strictNote string
 	if s.Assumptions == spec.AssumeStrict {
 		rows.limits = constrained(s)
 		snap, strictNote = withoutAssumed(snap, assumed, rows.limits)
 	}
+	snap = convertSnapshot(snap, conv)
 	r, err := solveSpec(ctx, &Parts{Networks: snap.Networks, Amplifiers: snap.Amplifiers, rows: rows}, p, s, opt)
 	of := func(parts ...string) []assume.Assumption {
 		out := assumed.For(parts...)
@@ -88,6 +139,7 @@ func SolveCatalog(ctx context.Context, st *catalog.Store, s *spec.Spec, opt Opti
 		return out
 	}
 	r.attachAssumptions(of, strings.TrimSpace(strictNote+" "+rows.note()))
+	r.attachConversions(conv)
 	return r, err
 }
 
@@ -118,14 +170,27 @@ func solveOn(ctx context.Context, parts *Parts, p Problem, s *spec.Spec, opt Opt
 // (assume.FillGrade); with limits set (assumptions: strict) it leaves out
 // the rows whose filled figures feed one of them, and counts them.
 type assumedRows struct {
-	src    catalog.ResistorSource
+	src catalog.ResistorSource
+	// conv, when set, turns each row's prices into the build currency
+	// (the query then asks for every currency).
+	conv   *cost.Converter
 	limits map[string]bool
 	left   []string // the first parts left out
 	nLeft  int
 }
 
 func (a *assumedRows) EachResistor(ctx context.Context, q catalog.ResistorQuery, fn func(*catalog.ResistorRow) error) error {
+	if a.conv != nil {
+		q.Currency = ""
+	}
 	return a.src.EachResistor(ctx, q, func(r *catalog.ResistorRow) error {
+		if a.conv != nil {
+			o, ok := a.conv.Offer(r.Part, r.Offer)
+			if !ok {
+				return nil
+			}
+			r.Offer = o
+		}
 		filled := assume.FillGrade(&r.Grade)
 		if a.limits != nil && feedsAny(filled, a.limits) {
 			if a.nLeft++; len(a.left) < 10 {
