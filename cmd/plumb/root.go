@@ -85,6 +85,7 @@ func newRootCmd(f *Factory) *cobra.Command {
 		newReportCmd(f, nil),
 		newCompletionCmd(f, nil),
 		newManCmd(f, nil),
+		newMappingHelpTopic(),
 	)
 	cmd.CompletionOptions.DisableDefaultCmd = true
 	return cmd
