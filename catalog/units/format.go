@@ -87,6 +87,11 @@ var siPrefixes = [...]string{"f", "p", "n", "µ", "m", "", "k", "M", "G"}
 // range use an exponent ("1.5e-18 A").
 func Format(v float64, unit string) string { return formatSI(v, unit, 4) }
 
+// FormatSlewRate writes a slew rate given in V/s in the datasheet's V/µs,
+// with an SI prefix where it is small: 6e6 is "6 V/µs", 5e5 "500 mV/µs".
+// ParseSlewRate reads it back.
+func FormatSlewRate(v float64) string { return formatSI(v*1e-6, "V/µs", 4) }
+
 // FormatExact is Format with all the digits float64 needs to be read back
 // exactly (the shortest that do, as strconv gives them): FormatExact(1e-5,
 // "V") is "10 µV", FormatExact(1.2345678e-9, "A") "1.2345678 nA". Values

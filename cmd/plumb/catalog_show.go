@@ -176,7 +176,12 @@ func amplifierFields(add func(string, string), a *catalog.Amplifier) {
 		if v == 0 {
 			return
 		}
-		s := orUnknown(v, func(x float64) string { return units.Format(x, unit) })
+		s := orUnknown(v, func(x float64) string {
+			if unit == "V/s" {
+				return units.FormatSlewRate(x)
+			}
+			return units.Format(x, unit)
+		})
 		if typical[jsonName] {
 			s += " (typical only)"
 		}

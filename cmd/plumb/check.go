@@ -126,22 +126,22 @@ func runCheck(ctx context.Context, opts *checkOptions) error {
 // limits: the nominal gain against its target and, for a differential
 // input, the resistors' own CMRR and the output error the common-mode
 // range adds on top of the offset.
-func writeCheckFigures(w io.Writer, sp *spec.Spec, r *budget.Result) {
+func writeCheckFigures(w io.Writer, ios *IOStreams, sp *spec.Spec, r *budget.Result) {
 	m := &r.Metrics
 	unit := ""
 	if r.Family == spec.CurrentSense {
 		unit = " V/A"
 	}
 	g := func(v float64) string { return strconv.FormatFloat(v, 'g', 6, 64) + unit }
-	fmt.Fprintf(w, "nominal gain %s (target %s: %s off at nominal values)\n",
-		g(m.Gain), g(m.GainTarget), units.FormatPercent(m.GainNominalError))
+	writeHanging(w, ios, "", "  ", fmt.Sprintf("nominal gain %s (target %s: %s off at nominal values)",
+		g(m.Gain), g(m.GainTarget), units.FormatPercent(m.GainNominalError)))
 	if m.CMRRResistorsdB > 0 {
 		line := "CMRR of the resistors alone " + budget.FormatFigure(m.CMRRResistorsdB, "dB")
 		if m.CommonModeErrorV > 0 {
 			line += fmt.Sprintf("; the common mode over %g..%g V adds up to %s at the output (at the total CMRR), on top of the output offset",
 				sp.CommonMode.Min, sp.CommonMode.Max, budget.FormatFigure(m.CommonModeErrorV, "V"))
 		}
-		fmt.Fprintln(w, line)
+		writeHanging(w, ios, "", "  ", line)
 	}
 }
 
@@ -159,9 +159,9 @@ func writeCheckTable(w io.Writer, ios *IOStreams, sp *spec.Spec, r *budget.Resul
 		}
 		fmt.Fprintf(w, "  %s: %s%s %s\n", p.Position, p.Part, value, p.Grade)
 	}
-	writeCheckFigures(w, sp, r)
+	writeCheckFigures(w, ios, sp, r)
 	fmt.Fprintln(w)
-	t := newTable(ios, "METRIC", "VALUE", "LIMIT", "MARGIN", "RESULT").alignRight(1, 2, 3)
+	t := newPageTable(ios, "METRIC", "VALUE", "LIMIT", "MARGIN", "RESULT").alignRight(1, 2, 3)
 	for _, l := range r.Limits {
 		res := ios.Green("pass")
 		if !l.Pass {
@@ -187,7 +187,7 @@ func writeCheckTable(w io.Writer, ios *IOStreams, sp *spec.Spec, r *budget.Resul
 			continue
 		}
 		fmt.Fprintf(w, "\n%s\n", ios.Bold("Contributors to "+l.Name+":"))
-		ct := newTable(ios, "CONTRIBUTOR", "SIZE", "SHARE").alignRight(1, 2)
+		ct := newPageTable(ios, "CONTRIBUTOR", "SIZE", "SHARE").alignRight(1, 2)
 		for _, c := range l.Contributors {
 			size := budget.FormatFigure(c.Value, l.Unit)
 			if l.Unit == "dB" {

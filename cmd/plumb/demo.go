@@ -83,11 +83,13 @@ func runDemo(cmd *cobra.Command, opts *demoOptions) error {
 	case "csv":
 		err = writeCSV(opts.IO.Out, solveCSVHeader, solveCSVRows(res))
 	default:
-		fmt.Fprintf(opts.IO.Out, "plumb demo: the example spec %s solved on the embedded demo catalog (%d series, %d resistors, %d networks, %d amplifiers; invented parts)\n\n",
-			demoSpec, stats.Series, stats.Resistors, stats.Networks, stats.Amplifiers)
+		writeHanging(opts.IO.Out, opts.IO, "", "  ", fmt.Sprintf("plumb demo: the example spec %s solved on the embedded demo catalog (%d series, %d resistors, %d networks, %d amplifiers; invented parts)",
+			demoSpec, stats.Series, stats.Resistors, stats.Networks, stats.Amplifiers))
+		fmt.Fprintln(opts.IO.Out)
 		err = writeSolveTable(opts.IO.Out, opts.IO, solveTitle(sp), res, 0)
 		if err == nil && !infeasible {
-			fmt.Fprintf(opts.IO.Out, "\nnext: `plumb solve %s --explain 1` for the limits of design 1, `plumb solve %s --bom bom.csv` for its purchasing list\n", demoSpec, demoSpec)
+			fmt.Fprintln(opts.IO.Out)
+			writeHanging(opts.IO.Out, opts.IO, "next: ", "  ", fmt.Sprintf("`plumb solve %s --explain 1` for the limits of design 1, `plumb solve %s --bom bom.csv` for its purchasing list", demoSpec, demoSpec))
 		}
 	}
 	if err != nil {

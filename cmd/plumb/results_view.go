@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"maps"
+	"math"
 	"slices"
 	"strconv"
 	"strings"
@@ -48,7 +49,7 @@ func printCautions(w io.Writer, ios *IOStreams, cautions []string) {
 		return
 	}
 	for _, c := range cautions {
-		fmt.Fprintln(w, ios.Bold(ios.Yellow("CAUTION:"))+" "+c)
+		writeHanging(w, ios, ios.Bold(ios.Yellow("CAUTION:"))+" ", "  ", c)
 	}
 	if len(cautions) > 0 {
 		fmt.Fprintln(w)
@@ -65,7 +66,7 @@ func cautionsBesideData(ios *IOStreams, format string, cautions []string) {
 
 // writeDesignParts prints a design's positions and parts.
 func writeDesignParts(w io.Writer, ios *IOStreams, d *search.Design) error {
-	t := newTable(ios, "POSITION", "KIND", "PART", "QTY", "VALUE", "TOL", "TCR", "UNIT PRICE").alignRight(3, 4, 5, 6, 7)
+	t := newPageTable(ios, "POSITION", "KIND", "PART", "QTY", "VALUE", "TOL", "TCR", "UNIT PRICE").alignRight(3, 4, 5, 6, 7)
 	seen := map[string]bool{} // networks already listed: one network serves all its positions
 	for _, p := range d.Parts {
 		value := "-"
@@ -92,40 +93,32 @@ func writeDesignParts(w io.Writer, ios *IOStreams, d *search.Design) error {
 	return t.render(w)
 }
 
-// writeLimits prints the limits a design is checked against.
-func writeLimits(w io.Writer, ios *IOStreams, ls []search.Limit) error {
-	t := newTable(ios, "METRIC", "VALUE", "LIMIT", "MARGIN", "RESULT").alignRight(1, 2, 3)
-	for _, l := range ls {
-		res := ios.Green("pass")
-		if !l.Pass {
-			res = ios.Red("FAIL")
-		}
-		margin := l.MarginText // check's words, where the exact budget gave them
-		if margin == "" {
-			margin = formatMargin(l.Margin)
-		}
-		t.row(l.Name, limitValue(l, l.Value), limitValue(l, l.Limit), margin, res)
-	}
-	return t.render(w)
-}
-
-// writeSolveTable prints a search result for a terminal or a pipe.
+// writeSolveTable prints a search result for a terminal or a pipe, fitted
+// to the page (100 columns unless the terminal is narrower). With explain
+// N > 0 it prints design N alone; the caller adds its full budget.
 func writeSolveTable(w io.Writer, ios *IOStreams, title string, r *search.Result, explain int) error {
 	printCautions(w, ios, r.Cautions)
-	fmt.Fprintf(w, "%s\n", ios.Bold(title))
-	fmt.Fprintf(w, "method %s; %d design classes, %d evaluated, %d skipped by bound\n\n",
+	writeHanging(w, ios, "", "  ", ios.Bold(title))
+	fmt.Fprintf(w, "method %s; %d design classes, %d evaluated, %d skipped by bound\n",
 		r.Method, r.Search.Classes, r.Search.Evaluated, r.Search.BoundPruned)
+	if explain > 0 {
+		for i := range r.Designs {
+			if r.Designs[i].Rank == explain {
+				return writeDesign(w, ios, r, &r.Designs[i])
+			}
+		}
+		return nil
+	}
+	fmt.Fprintln(w)
 	if r.Infeasible != nil {
 		writeInfeasible(w, ios, r.Infeasible)
 	}
 	if len(r.Designs) > 0 {
-		t := newTable(ios, "RANK", "FAMILY", "PER STAGE", "BUILD", "BINDING", "MARGIN").alignRight(0, 2, 3, 5)
+		t := newPageTable(ios, "RANK", "FAMILY", "PER STAGE", "BUILD", "BINDING", "MARGIN").alignRight(0, 2, 3, 5)
 		for _, d := range r.Designs {
 			margin := ""
-			for _, l := range d.Limits {
-				if l.Name == d.Binding {
-					margin = formatMargin(l.Margin)
-				}
+			if l, ok := limitNamed(d.Limits, d.Binding); ok {
+				margin = formatMargin(l.Margin)
 			}
 			t.row(strconv.Itoa(d.Rank), d.Family, formatMoney(d.UnitCost, d.Currency), formatMoney(d.TotalCost, d.Currency), d.Binding, margin)
 		}
@@ -134,62 +127,126 @@ func writeSolveTable(w io.Writer, ios *IOStreams, title string, r *search.Result
 		}
 	}
 	for i := range r.Designs {
-		d := &r.Designs[i]
-		if explain > 0 && d.Rank != explain {
-			continue
-		}
-		fmt.Fprintf(w, "\n%s %s, %s per stage, %s for the build\n", ios.Bold("#"+strconv.Itoa(d.Rank)), d.Family,
-			formatMoney(d.UnitCost, d.Currency), formatMoney(d.TotalCost, d.Currency))
-		if err := writeDesignParts(w, ios, d); err != nil {
+		if err := writeDesign(w, ios, r, &r.Designs[i]); err != nil {
 			return err
-		}
-		if explain > 0 {
-			fmt.Fprintln(w)
-			if err := writeLimits(w, ios, d.Limits); err != nil {
-				return err
-			}
-		}
-		for _, why := range d.Reasons {
-			writeBullet(w, ios, why)
-		}
-		for _, c := range d.Cautions {
-			if !slices.Contains(r.Cautions, c) {
-				fmt.Fprintf(w, "  %s %s\n", ios.Yellow("CAUTION:"), c)
-			}
-		}
-		if len(d.ShortStock) > 0 {
-			fmt.Fprintf(w, "  %s short of stock for the build: %s\n", ios.Yellow("!"), strings.Join(d.ShortStock, ", "))
 		}
 	}
 	if err := writeFrontier(w, ios, r.Frontier); err != nil {
 		return err
 	}
 	if len(r.NearMisses) > 0 {
-		title := "Near misses (cheaper than rank 1, but failing):"
+		title := "Near misses (the closest designs cheaper than rank 1, failing):"
 		if len(r.Designs) == 0 {
 			title = "Near misses (the closest designs, failing):"
 		}
-		fmt.Fprintf(w, "\n%s\n", ios.Bold(title))
-		t := newTable(ios, "FAMILY", "PER STAGE", "FAILS", "FIX").alignRight(1).wrapColumns(2, 3)
-		for _, nm := range r.NearMisses {
-			var fails []string
-			for _, f := range nm.Fails {
-				fails = append(fails, f.Text)
-			}
-			fix := "no single change found"
-			if nm.Fix != nil {
-				fix = fmt.Sprintf("%s (+%s per stage)", nm.Fix.Change, formatMoney(nm.Fix.ExtraCost, nm.Currency))
-			}
-			t.row(nm.Family, formatMoney(nm.UnitCost, nm.Currency), strings.Join(fails, "; "), fix)
-		}
-		if err := t.render(w); err != nil {
+		if err := writeFailing(w, ios, title, r.NearMisses, true); err != nil {
 			return err
 		}
 	}
+	if len(r.CheapestFailing) > 0 {
+		if err := writeFailing(w, ios, "Cheapest failing designs:", r.CheapestFailing, false); err != nil {
+			return err
+		}
+	}
+	if len(r.Notes) > 0 {
+		fmt.Fprintln(w)
+	}
 	for _, n := range r.Notes {
-		fmt.Fprintf(w, "\nnote: %s\n", n)
+		writeHanging(w, ios, "note: ", "  ", n)
 	}
 	return nil
+}
+
+// writeDesign prints one ranked design: its cost, its parts, its limits in
+// a few short lines, the reasons and its own cautions.
+func writeDesign(w io.Writer, ios *IOStreams, r *search.Result, d *search.Design) error {
+	fmt.Fprintf(w, "\n%s %s, %s per stage, %s for the build\n", ios.Bold("#"+strconv.Itoa(d.Rank)), d.Family,
+		formatMoney(d.UnitCost, d.Currency), formatMoney(d.TotalCost, d.Currency))
+	if err := writeDesignParts(w, ios, d); err != nil {
+		return err
+	}
+	for _, why := range d.Reasons {
+		if strings.HasPrefix(why, "meets every limit: ") {
+			fmt.Fprintln(w, "  - meets every limit:")
+			writeHanging(w, ios, "    ", "    ", limitsText(d.Limits))
+			continue
+		}
+		writeBullet(w, ios, why)
+	}
+	for _, c := range d.Cautions {
+		if !slices.Contains(r.Cautions, c) {
+			writeHanging(w, ios, "  "+ios.Yellow("CAUTION:")+" ", "    ", c)
+		}
+	}
+	if len(d.ShortStock) > 0 {
+		writeHanging(w, ios, "  "+ios.Yellow("!")+" ", "    ", "short of stock for the build: "+strings.Join(d.ShortStock, ", "))
+	}
+	return nil
+}
+
+// limitsText lists limits compactly: "gain error 0.6113% of 1% (1.64x);
+// CMRR 41.1 dB of 40 dB (+1.1 dB)", each value and limit printed by
+// budget.FormatFigure, the margin in check's words.
+func limitsText(ls []search.Limit) string {
+	var items []string
+	for _, l := range ls {
+		margin := l.MarginText
+		if margin == "" {
+			margin = formatMargin(l.Margin)
+		}
+		margin = strings.TrimSuffix(margin, " inside the limit")
+		items = append(items, fmt.Sprintf("%s %s of %s (%s)", l.Name, keep(limitValue(l, l.Value)), keep(limitValue(l, l.Limit)), keep(margin)))
+	}
+	return strings.Join(items, "; ")
+}
+
+// writeFailing prints failing designs: their parts, cost, what they fail
+// and, with fixes, the cheapest change that makes each pass.
+func writeFailing(w io.Writer, ios *IOStreams, title string, nms []search.NearMiss, fixes bool) error {
+	fmt.Fprintf(w, "\n%s\n", ios.Bold(title))
+	header := []string{"PER STAGE", "PARTS", "FAILS"}
+	if fixes {
+		header = append(header, "CHANGE THAT PASSES")
+	}
+	t := newPageTable(ios, header...).alignRight(0).wrapColumns(1, 2)
+	if fixes {
+		t.wrapColumns(1, 2, 3)
+	}
+	for _, nm := range nms {
+		var fails []string
+		for _, f := range nm.Fails {
+			l := search.Limit{Name: f.Name, Unit: budget.UnitOf(f.Name)}
+			if ll, ok := limitNamed(nm.Limits, f.Name); ok {
+				l = ll
+			}
+			margin := l.MarginText
+			if margin == "" {
+				margin = fmt.Sprintf("by %s", formatMargin(1/math.Max(l.Margin, 1e-12)))
+			}
+			fails = append(fails, fmt.Sprintf("%s %s of %s (%s)", f.Name, keep(limitValue(l, f.Value)), keep(limitValue(l, f.Limit)), margin))
+		}
+		row := []string{formatMoney(nm.UnitCost, nm.Currency), nm.PartsText(), strings.Join(fails, "; ")}
+		if fixes {
+			row = append(row, fixText(&nm))
+		}
+		t.row(row...)
+	}
+	return t.render(w)
+}
+
+// fixText words a near miss's fix and its alternatives.
+func fixText(nm *search.NearMiss) string {
+	if nm.Fix == nil {
+		return "none found: no amplifier, grade or network change, alone or in pairs, and no calibration"
+	}
+	txt := nm.Fix.Change
+	if nm.Fix.Kind != "calibration" {
+		txt += fmt.Sprintf(" (+%s per stage)", formatMoney(nm.Fix.ExtraCost, nm.Currency))
+	}
+	for _, a := range nm.Alternatives {
+		txt += "; or " + a.Change
+	}
+	return txt
 }
 
 // writeBullet writes "  - text", wrapped to the terminal width on a
@@ -198,19 +255,18 @@ func writeBullet(w io.Writer, ios *IOStreams, text string) {
 	writeHanging(w, ios, "  - ", "    ", text)
 }
 
-// writeHanging writes text after lead; on a terminal it wraps it to the
-// page with cont before each continuation line (lead and cont of the same
-// width). Piped output keeps one line per item, for grep.
+// writeHanging writes text after lead, wrapped to the page (the terminal's
+// width, else 100 columns) with cont before each continuation line.
 func writeHanging(w io.Writer, ios *IOStreams, lead, cont, text string) {
 	lines := []string{text}
-	if ios.IsStdoutTTY() {
+	if ios.width > 0 {
 		lines = wrapText(text, ios.width-max(textWidth(lead), textWidth(cont)))
 	}
 	for i, l := range lines {
 		if i > 0 {
 			lead = cont
 		}
-		fmt.Fprintln(w, lead+l)
+		fmt.Fprintln(w, lead+strings.ReplaceAll(l, nbsp, " "))
 	}
 }
 
@@ -256,7 +312,7 @@ func writeFrontier(w io.Writer, ios *IOStreams, f []search.Design) error {
 		return nil
 	}
 	fmt.Fprintf(w, "\n%s\n", ios.Bold("Cost against margin (no cheaper design has as much margin on every limit):"))
-	t := newTable(ios, "RANK", "PER STAGE", "BINDING", "MARGIN", "PARTS").alignRight(0, 1, 3).wrapColumns(4)
+	t := newPageTable(ios, "RANK", "PER STAGE", "BINDING", "MARGIN", "PARTS").alignRight(0, 1, 3).wrapColumns(4)
 	for _, d := range f {
 		rank := "-"
 		if d.Rank > 0 {

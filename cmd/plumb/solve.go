@@ -79,7 +79,7 @@ catalog can reach and exits with code 3.`,
 	fl.IntVar(&opts.Top, keyTop, 0, "number of ranked designs (default: the configured top, 5 unless set)")
 	fl.BoolVar(&opts.Combos, "combos", false, "allow two resistors in series or in parallel at a feedback position to close a ratio gap")
 	fl.BoolVar(&opts.Frontier, "frontier", false, "also list the designs on the cost-versus-margin frontier (none cheaper has as much margin on every limit)")
-	fl.IntVar(&opts.Explain, "explain", 0, "show the limits and reasons of design `N` only")
+	fl.IntVar(&opts.Explain, "explain", 0, "print design `N` alone, with its reasons and full budget")
 	fl.StringVar(&opts.BOM, "bom", "", "write the purchasing list of design 1 (or --explain N) to `FILE`.csv")
 	fl.BoolVar(&opts.Force, "force", false, "replace an existing --bom file")
 	addFormatFlag(cmd, &opts.Format)

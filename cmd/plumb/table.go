@@ -45,6 +45,19 @@ func newTable(io *IOStreams, header ...string) *table {
 	return t
 }
 
+// newPageTable is newTable fitted to the page (fitPage).
+func newPageTable(io *IOStreams, header ...string) *table {
+	return newTable(io, header...).fitPage(io)
+}
+
+// fitPage fits the table to the page even when stdout is not a terminal
+// (the terminal's width where known, else 100 columns): the results of
+// solve and check are read by people, and scripts read their CSV or JSON.
+func (t *table) fitPage(io *IOStreams) *table {
+	t.width = io.width
+	return t
+}
+
 // wrapColumns names the columns to narrow first when the table is too wide.
 func (t *table) wrapColumns(cols ...int) *table {
 	t.wrap = cols

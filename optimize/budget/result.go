@@ -180,8 +180,9 @@ const (
 
 // FormatFigure writes a figure in the unit words of Limit.Unit, as every
 // command and report prints them: a bare fraction ("") as percent, dB to a
-// tenth, ppm/K to four figures, resistance in R-notation with "ohm", and
-// the rest in engineering notation with an SI prefix (4.275 mV, 3.334 MHz).
+// tenth, ppm/K to four figures, a slew rate in V/µs, and the rest, resistance
+// too, in engineering notation with an SI prefix to four figures (4.275 mV,
+// 3.334 MHz, 50.57 kΩ), the units a datasheet uses.
 func FormatFigure(v float64, unit string) string {
 	switch unit {
 	case "":
@@ -193,7 +194,9 @@ func FormatFigure(v float64, unit string) string {
 	case "V/rtHz":
 		return units.Format(v, "V/√Hz")
 	case "ohm":
-		return units.FormatOhms(v) + " ohm"
+		return units.Format(v, "Ω")
+	case "V/s":
+		return units.FormatSlewRate(v)
 	}
 	return units.Format(v, unit)
 }

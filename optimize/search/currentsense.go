@@ -198,7 +198,7 @@ func senseReasons(p *Problem, d *Design, above []Design) []string {
 		out = append(out, s.rankLine(&above[len(above)-1], d))
 	}
 	for _, r := range d.Reasons {
-		if strings.Contains(r, "value variants") || strings.HasPrefix(r, "stock is short") {
+		if strings.Contains(r, "of values in these grades") || strings.HasPrefix(r, "stock is short") {
 			out = append(out, r)
 		}
 	}

@@ -503,7 +503,7 @@ func mergedReasons(p *Problem, d *Design, above []Design) []string {
 		if strings.HasPrefix(r, "binding limit:") && d.budget == nil {
 			out[1] = r // the sub-search's line names the dominant term
 		}
-		if strings.Contains(r, "value variants") || strings.HasPrefix(r, "stock is short") {
+		if strings.Contains(r, "of values in these grades") || strings.HasPrefix(r, "stock is short") {
 			out = append(out, r)
 		}
 	}

@@ -674,7 +674,11 @@ func (s *space) reasons(b *classBest, d *Design, above []Design) []string {
 		out = append(out, s.rankLine(&above[len(above)-1], d))
 	}
 	if d.ValueVariants > 1 {
-		out = append(out, fmt.Sprintf("%d value variants of this grade also pass", d.ValueVariants-1))
+		if n := d.ValueVariants - 1; n == 1 {
+			out = append(out, "1 other choice of values in these grades also passes")
+		} else {
+			out = append(out, fmt.Sprintf("%d other choices of values in these grades also pass", n))
+		}
 	}
 	if len(d.ShortStock) > 0 {
 		out = append(out, "stock is short for "+strings.Join(d.ShortStock, ", "))

@@ -108,7 +108,7 @@ func TestSolveHandWorked(t *testing.T) {
 	if d.Binding != limDrift || d.ValueVariants != 193 {
 		t.Errorf("binding %q, variants %d; want %q, 193", d.Binding, d.ValueVariants, limDrift)
 	}
-	if !strings.Contains(strings.Join(d.Reasons, "\n"), "192 value variants of this grade also pass") {
+	if !strings.Contains(strings.Join(d.Reasons, "\n"), "192 other choices of values in these grades also pass") {
 		t.Errorf("reasons lack the fold note: %q", d.Reasons)
 	}
 	if r := strings.Join(res.Designs[1].Reasons, "\n"); !strings.Contains(r, "costs 0.96 more per stage than rank 1") {
