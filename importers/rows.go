@@ -341,6 +341,16 @@ const unitFraction = "fraction"
 
 // bareNumber reports whether a cell is a number with no unit or mark.
 func bareNumber(s string, decimalComma bool) bool {
+	// Most cells carry a unit or mark: tell them apart without parsing
+	// (and without the error value a failed parse allocates).
+	for i := 0; i < len(s); i++ {
+		if c := s[i]; !(c >= '0' && c <= '9' || c == '.' || c == ',' || c == '+' || c == '-' || c == ' ' || c == 'e' || c == 'E' || c == '/' || c >= 0x80) {
+			return false
+		}
+	}
+	if strings.Contains(s, "%") || strings.ContainsRune(s, '‰') {
+		return false
+	}
 	t := strings.TrimSpace(strings.TrimPrefix(strings.TrimPrefix(strings.TrimSpace(s), "±"), "+/-"))
 	_, err := parseNumber(t, decimalComma)
 	return err == nil
