@@ -51,7 +51,7 @@ func TestSecondDocumentRefused(t *testing.T) {
 	for _, tc := range []struct{ name, src, want string }{
 		{"spec", base + "---\nname: other\n", "spec x.yaml:9:1: a second YAML document"},
 		{"spec, empty second document", base + "---\n", "a second YAML document"},
-		{"spec, broken second document", base + "---\n: : :\n", "a second YAML document"},
+		{"spec, broken second document", base + "---\n: : :\n", "after the first document"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			_, err := Parse([]byte(tc.src), "x.yaml")

@@ -283,12 +283,16 @@ func decodeStrict(data []byte, v any, kind, file string) (*problems, error) {
 	switch {
 	case err == nil:
 		var extra yaml.Node
-		if derr := dec.Decode(&extra); !errors.Is(derr, io.EOF) {
-			line := extra.Line
-			if derr != nil {
-				line = 0
+		switch derr := dec.Decode(&extra); {
+		case errors.Is(derr, io.EOF):
+		case derr != nil:
+			p.add("", "%s after the first document; check the indentation and quoting, and keep to one document", strings.TrimPrefix(derr.Error(), "yaml: "))
+		default:
+			line, col := extra.Line, 0
+			if line > 0 {
+				col = 1
 			}
-			p.addAt("", line, 1, "a second YAML document follows the first (after a --- line); a %s file holds one document: remove it, or put it in a file of its own", kind)
+			p.addAt("", line, col, "a second YAML document follows the first (after a --- line); a %s file holds one document: remove it, or put it in a file of its own", kind)
 		}
 	case errors.Is(err, io.EOF):
 		p.add("", "file is empty; write the fields described in the README of the examples")

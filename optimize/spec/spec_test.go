@@ -1,6 +1,7 @@
 package spec
 
 import (
+	"bytes"
 	"errors"
 	"math"
 	"os"
@@ -245,15 +246,32 @@ func TestQuantities(t *testing.T) {
 	}
 }
 
-// FuzzParse checks that no input panics and that accepted specs are sane.
+// FuzzParse checks that no input panics, that accepted specs are sane and
+// within the bounds on work, and that a refused one gets field errors of
+// the file, at most maxProblems of them and a count, each at a line of the
+// file or none. Its corpus (testdata/fuzz/FuzzParse) holds the examples
+// and files that once went wrong; .ci/run fuzzes it for 30 s.
 func FuzzParse(f *testing.F) {
 	f.Add([]byte(base))
 	data, _ := os.ReadFile("testdata/good.yaml")
 	f.Add(data)
 	f.Fuzz(func(t *testing.T, b []byte) {
 		s, err := Parse(b, "fuzz.yaml")
-		if err == nil && (s.Gain == 0 || s.Temp.Min > s.Temp.Max || len(s.Families) == 0) {
-			t.Errorf("accepted an inconsistent spec: %+v", s)
+		if err == nil {
+			if s.Gain == 0 || s.Temp.Min > s.Temp.Max || len(s.Families) == 0 || s.Analysis.Trials > MaxTrials || s.Build.Quantity > MaxQuantity {
+				t.Errorf("accepted an inconsistent spec: %+v", s)
+			}
+			return
+		}
+		fes := fieldErrors(t, err)
+		if len(fes) > maxProblems+1 {
+			t.Errorf("%d problems listed", len(fes))
+		}
+		lines := bytes.Count(b, []byte("\n")) + 1
+		for _, fe := range fes {
+			if fe.File != "fuzz.yaml" || fe.Line < 0 || fe.Line > lines || (fe.Line > 0) != (fe.Column > 0) {
+				t.Errorf("problem %q at %d:%d of a %d-line file", fe.Msg, fe.Line, fe.Column, lines)
+			}
 		}
 	})
 }
