@@ -24,6 +24,8 @@ type bomOptions struct {
 	Output  string
 	Force   bool
 	Quiet   bool
+	// Rates are the exchange rates of the configuration (currency.rates).
+	Rates cost.Rates
 }
 
 func newBOMCmd(f *Factory, runF func(*bomOptions) error) *cobra.Command {
@@ -50,6 +52,7 @@ it one stage is priced.`,
 				return err
 			}
 			opts.Quiet = f.Quiet
+			opts.Rates = f.Settings().Rates
 			if runF != nil {
 				return runF(opts)
 			}
@@ -83,7 +86,7 @@ func runBOM(ctx context.Context, opts *bomOptions) error {
 		return err
 	}
 	defer st.Close()
-	b, err := priceDesign(ctx, st, d, build)
+	b, err := priceDesign(ctx, st, d, build, opts.Rates)
 	if err != nil {
 		return fmt.Errorf("design %s: %w", opts.Design, err)
 	}
@@ -112,8 +115,21 @@ var bomCSVHeader = []string{"positions", "quantity_per_stage", "quantity_needed"
 
 // priceDesign prices a design for a build, taking each part's offer,
 // maker, package and source from the catalog.
-func priceDesign(ctx context.Context, st *catalog.Store, d *spec.Design, build cost.Build) (*cost.BOM, error) {
-	return cost.DesignBOM(d, func(part string) (catalog.Kind, any, error) { return st.Find(ctx, part) }, build)
+// Prices in other currencies than the build's are converted at rates, as
+// the search converts them.
+func priceDesign(ctx context.Context, st *catalog.Store, d *spec.Design, build cost.Build, rates cost.Rates) (*cost.BOM, error) {
+	find := func(part string) (catalog.Kind, any, error) {
+		kind, v, err := st.Find(ctx, part)
+		if err != nil || build.Currency == "" {
+			return kind, v, err
+		}
+		v, ok := (&cost.Converter{To: build.Currency, Rates: rates}).Part(v)
+		if !ok {
+			return kind, v, fmt.Errorf("%w: %s has a price in a currency with no rate to %s in currency.rates; add one to the config", cost.ErrMixedCurrency, part, build.Currency)
+		}
+		return kind, v, nil
+	}
+	return cost.DesignBOM(d, find, build)
 }
 
 func bomCSVRows(b *cost.BOM) [][]string {
@@ -149,7 +165,7 @@ func writeBOMTable(w io.Writer, ios *IOStreams, b *cost.BOM) error {
 }
 
 // writeSearchBOM writes the purchasing list of a ranked design as CSV.
-func writeSearchBOM(ctx context.Context, st *catalog.Store, sp *spec.Spec, res *search.Result, rank int, path string, force bool) error {
+func writeSearchBOM(ctx context.Context, st *catalog.Store, sp *spec.Spec, res *search.Result, rank int, path string, force bool, rates cost.Rates) error {
 	d, err := res.DesignN(rank)
 	if err != nil {
 		return fmt.Errorf("--bom: %w", err)
@@ -158,7 +174,7 @@ func writeSearchBOM(ctx context.Context, st *catalog.Store, sp *spec.Spec, res *
 	if err != nil {
 		return err
 	}
-	b, err := priceDesign(ctx, st, d, build)
+	b, err := priceDesign(ctx, st, d, build, rates)
 	if err != nil {
 		return fmt.Errorf("--bom: design %d: %w", rank, err)
 	}

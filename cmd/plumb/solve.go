@@ -150,7 +150,7 @@ func runSolve(cmd *cobra.Command, opts *solveOptions) error {
 		if rank > len(res.Designs) {
 			return fmt.Errorf("--bom: the search found %d design(s), not %d", len(res.Designs), rank)
 		}
-		if err := writeSearchBOM(ctx, st, sp, res, rank, opts.BOM, opts.Force); err != nil {
+		if err := writeSearchBOM(ctx, st, sp, res, rank, opts.BOM, opts.Force, opts.Rates); err != nil {
 			return err
 		}
 		if !opts.Quiet {

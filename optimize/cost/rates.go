@@ -199,3 +199,26 @@ func (c *Converter) Notes() []string {
 	}
 	return out
 }
+
+// Part returns a copy of a catalog part (a lookup's *Resistor, *Network or
+// *Amplifier) with its prices in c.To; ok is false when a price is in a
+// currency with no rate. Other values are returned as they are.
+func (c *Converter) Part(v any) (any, bool) {
+	conv := func(part string, o *catalog.Offer) bool {
+		out, ok := c.Offer(part, *o)
+		*o = out
+		return ok
+	}
+	switch p := v.(type) {
+	case *catalog.Resistor:
+		q := *p
+		return &q, conv(q.Part, &q.Offer)
+	case *catalog.Network:
+		q := *p
+		return &q, conv(q.Part, &q.Offer)
+	case *catalog.Amplifier:
+		q := *p
+		return &q, conv(q.Part, &q.Offer)
+	}
+	return v, true
+}
