@@ -17,6 +17,10 @@ const (
 	exitError      = 1
 	exitUsage      = 2
 	exitInfeasible = 3
+	// exitInterrupted is the shell's code for a process stopped by SIGINT
+	// (128 + 2, common practice): Ctrl-C stops a search or a Monte Carlo
+	// run through the command's context.
+	exitInterrupted = 130
 )
 
 // usageError marks a command line that cannot be run as written: an unknown
@@ -75,6 +79,9 @@ func exitCode(err error) int {
 		if errors.Is(err, s) {
 			return exitInfeasible
 		}
+	}
+	if errors.Is(err, context.Canceled) {
+		return exitInterrupted
 	}
 	var ue *usageError
 	if errors.As(err, &ue) {

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"context"
 	"database/sql"
 	"fmt"
 	"os"
@@ -288,5 +289,80 @@ func TestTerminalTextEscaped(t *testing.T) {
 	w.Write([]byte("\xaeend\n"))
 	if want := sgrBold + "ok" + sgrReset + "\n" + `\x1b]0;title\x07\u202e\u202eend` + "\n"; b.String() != want {
 		t.Errorf("terminal writer wrote %q, want %q", b.String(), want)
+	}
+}
+
+// TestExitCodesDocumented: the README's exit-code table lists exactly the
+// codes Main returns, and every command returns the code the table gives
+// for its outcome (hardening: "the README's exit-code table matches what
+// every command returns"; a panic's exit 2 once read as a usage error).
+func TestExitCodesDocumented(t *testing.T) {
+	readme, err := os.ReadFile(filepath.Join("..", "..", "README.md"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, table, ok := strings.Cut(string(readme), "## Exit codes")
+	if !ok {
+		t.Fatal("README has no exit-code section")
+	}
+	var documented []int
+	for _, line := range strings.Split(table, "\n") {
+		var code int
+		if _, err := fmt.Sscanf(line, "| %d |", &code); err == nil {
+			documented = append(documented, code)
+		}
+		if strings.HasPrefix(line, "## ") {
+			break
+		}
+	}
+	if want := []int{exitOK, exitError, exitUsage, exitInfeasible, exitInterrupted}; !slices.Equal(documented, want) {
+		t.Errorf("README documents exit codes %v, Main returns %v", documented, want)
+	}
+	if !strings.Contains(rootLong, "130  interrupted") {
+		t.Error("plumb --help does not list exit code 130")
+	}
+
+	clearPlumbEnv(t)
+	dir := t.TempDir()
+	bad := filepath.Join(dir, "bad.csv")
+	if err := os.WriteFile(bad, []byte("part,maker,value\nR-1,Acme,not a value\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	db := filepath.Join(dir, "c.db")
+	cases := []struct {
+		line string
+		code int
+	}{
+		{"series E12 --from 1 --to 2", exitOK},
+		{"solve testdata/diff-g10.yaml --top 1", exitOK},
+		{"catalog init " + db, exitOK},
+		{"solve testdata/missing.yaml", exitError},
+		{"check testdata/impossible.yaml --design testdata/design-network.yaml", exitError},
+		{"catalog list --catalog " + filepath.Join(dir, "none.db"), exitError},
+		{"import --catalog " + db + " " + bad, exitError},
+		{"frobnicate", exitUsage},
+		{"solve", exitUsage},
+		{"solve testdata/diff-g10.yaml --top 0", exitUsage},
+		{"solve testdata/diff-g10.yaml --no-such-flag", exitUsage},
+		{"solve testdata/impossible.yaml", exitInfeasible},
+		{"report testdata/impossible.yaml -o " + filepath.Join(dir, "r.html"), exitInfeasible},
+	}
+	for _, c := range cases {
+		f := fixtureFactory(t)
+		if strings.Contains(c.line, "--catalog") || strings.HasPrefix(c.line, "catalog init") {
+			f, _, _ = testFactory(t) // the catalog named on the line
+		}
+		if _, errOut, code := runPlumb(t, f, c.line); code != c.code {
+			t.Errorf("plumb %s: exit %d, the README gives %d: %s", c.line, code, c.code, errOut)
+		}
+	}
+	// Ctrl-C: the command's context is cancelled.
+	f := fixtureFactory(t)
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	root := newRootCmd(f)
+	root.SetArgs(strings.Fields("solve testdata/diff-g10.yaml"))
+	if code := reportError(f.IO, root.ExecuteContext(ctx)); code != exitInterrupted {
+		t.Errorf("interrupted solve: exit %d, want %d", code, exitInterrupted)
 	}
 }

@@ -21,10 +21,11 @@ config file (--config, PLUMB_CONFIG, or plumb.yaml in the user config
 directory under plumb/), else its default. ` + "`plumb config show`" + ` tells which.
 
 Exit codes:
-  0  success
-  1  error (missing file, bad spec or catalog data, failed import, failed check)
-  2  usage error (unknown command or flag, bad flag value, wrong arguments)
-  3  the spec is infeasible with the parts in the catalog`
+    0  success
+    1  error (missing file, bad spec or catalog data, failed import, failed check)
+    2  usage error (unknown command or flag, bad flag value, wrong arguments)
+    3  the spec is infeasible with the parts in the catalog
+  130  interrupted (Ctrl-C); nothing half-written is left behind`
 
 func newRootCmd(f *Factory) *cobra.Command {
 	var color string
