@@ -125,14 +125,14 @@ func (e *Evaluator) cautions(res *Result) {
 		if m.HeadroomV < 0 {
 			state = "beyond"
 		}
-		res.Cautions = append(res.Cautions, fmt.Sprintf("%s comes %s %.0f mV of its range (%.3g V headroom) at an input or common-mode corner",
-			e.headWhere(), state, 1e3*NearPinV, m.HeadroomV))
+		res.Cautions = append(res.Cautions, fmt.Sprintf("%s comes %s %s of its range (%s headroom) at an input or common-mode corner",
+			e.headWhere(), state, FormatFigure(NearPinV, "V"), FormatFigure(m.HeadroomV, "V")))
 	}
 	if a := e.c.Amp; a != nil && a.SupplyMaxV > 0 && s.Supply.Span() > a.SupplyMaxV {
-		res.Cautions = append(res.Cautions, fmt.Sprintf("the supply span %.3g V exceeds %s's maximum supply %.3g V", s.Supply.Span(), a.Part, a.SupplyMaxV))
+		res.Cautions = append(res.Cautions, fmt.Sprintf("the supply span %s exceeds %s's maximum supply %s", FormatFigure(s.Supply.Span(), "V"), a.Part, FormatFigure(a.SupplyMaxV, "V")))
 	}
 	if a := e.c.Amp; a != nil && a.SupplyMinV > 0 && s.Supply.Span() < a.SupplyMinV {
-		res.Cautions = append(res.Cautions, fmt.Sprintf("the supply span %.3g V is below %s's minimum supply %.3g V", s.Supply.Span(), a.Part, a.SupplyMinV))
+		res.Cautions = append(res.Cautions, fmt.Sprintf("the supply span %s is below %s's minimum supply %s", FormatFigure(s.Supply.Span(), "V"), a.Part, FormatFigure(a.SupplyMinV, "V")))
 	}
 }
 

@@ -1168,21 +1168,21 @@ func (s *space) infeasible() *Infeasible {
 	}
 	dT := math.Max(s.dT, 1)
 	add(limGain, l.TotalGainError, best.totalErr, best.totalErr > l.TotalGainError,
-		fmt.Sprintf("resistors of tolerance <= %.3g %% with tempco <= %.3g ppm/K, or gain calibration", 100*l.TotalGainError/4, 1e6*l.TotalGainError/(4*dT)))
+		fmt.Sprintf("resistors of tolerance <= %s with tempco <= %s, or gain calibration", budget.FormatFigure(l.TotalGainError/4, ""), budget.FormatFigure(1e6*l.TotalGainError/(4*dT), "ppm/K")))
 	add(limGainInitial, l.GainError, best.gainErr, best.gainErr > l.GainError,
-		fmt.Sprintf("resistors of tolerance <= %.3g %%, or gain calibration", 100*l.GainError/2))
+		fmt.Sprintf("resistors of tolerance <= %s, or gain calibration", budget.FormatFigure(l.GainError/2, "")))
 	cmNeed := (1 + G) * dbInv(l.CMRRdB)
 	add(limCMRR, l.CMRRdB, best.cmrrDB, best.cmrrDB < l.CMRRdB,
-		fmt.Sprintf("a network with ratio tolerance <= %.3g %% (or four resistors of tolerance <= %.3g %%) and an amplifier with CMRR above %.0f dB", 100*cmNeed/2, 100*cmNeed/4, l.CMRRdB))
+		fmt.Sprintf("a network with ratio tolerance <= %s (or four resistors of tolerance <= %s) and an amplifier with CMRR above %s", budget.FormatFigure(cmNeed/2, ""), budget.FormatFigure(cmNeed/4, ""), budget.FormatFigure(l.CMRRdB, "dB")))
 	add(limDrift, l.DriftPPM, best.drift, best.drift > l.DriftPPM,
 		fmt.Sprintf("resistors with tempco <= %.3g ppm/K each, or a network with tracking <= %.3g ppm/K", l.DriftPPM/2, l.DriftPPM))
 	ng := 1 + s.k*(1-s.w)
 	add(limOffset, l.OffsetV, best.offset, best.offset > l.OffsetV,
-		fmt.Sprintf("an amplifier with offset <= %.3g V and offset drift <= %.3g V/K, or offset calibration", l.OffsetV/ng/2, l.OffsetV/ng/2/dT))
+		fmt.Sprintf("an amplifier with offset <= %s and offset drift <= %s, or offset calibration", budget.FormatFigure(l.OffsetV/ng/2, "V"), budget.FormatFigure(l.OffsetV/ng/2/dT, "V/K")))
 	add(limOffDrift, l.OffsetDriftVK, best.offDrift, best.offDrift > l.OffsetDriftVK,
-		fmt.Sprintf("an amplifier with offset drift <= %.3g V/K", l.OffsetDriftVK/ng))
+		fmt.Sprintf("an amplifier with offset drift <= %s", budget.FormatFigure(l.OffsetDriftVK/ng, "V/K")))
 	add(limNoise, l.NoiseDensity, best.noise, best.noise > l.NoiseDensity,
-		fmt.Sprintf("an amplifier with voltage noise <= %.3g V/√Hz and lower resistor values", l.NoiseDensity/ng))
+		fmt.Sprintf("an amplifier with voltage noise <= %s and lower resistor values", budget.FormatFigure(l.NoiseDensity/ng, "V/rtHz")))
 	add(limNoiseRMS, l.NoiseRMS, best.noiseRMS, best.noiseRMS > l.NoiseRMS,
 		"an amplifier with lower voltage noise or less gain-bandwidth, and lower resistor values")
 	if len(inf.Limits) == 0 {
