@@ -108,8 +108,11 @@ func newSpace(ctx context.Context, parts *Parts, p *Problem, combos bool) (*spac
 		s.cfgs = make([]config, 0, len(s.groups)*len(s.groups)+4*len(parts.Networks))
 		for a, ga := range s.groups {
 			for b, gb := range s.groups {
-				c := config{fam: famDisc, ga: a, gb: b, net: -1,
-					g: discreteGrades(ga.grade.Tolerance, ga.grade.TCR, ga.grade.LoadLife, gb.grade.Tolerance, gb.grade.TCR, gb.grade.LoadLife, s.dT)}
+				// The class's figures take the largest dilution any of
+				// its values gets (see dilution), so that the bound they
+				// feed stays optimistic; evalOpt uses each option's own.
+				dg, df := s.classDilution(ga, gb)
+				c := config{fam: famDisc, ga: a, gb: b, net: -1, g: s.discreteFor(ga, gb, dg, df)}
 				if c.costLB = s.discreteLB(ga, gb, a == b); !math.IsNaN(c.costLB) {
 					s.cfgs = append(s.cfgs, c)
 				}
@@ -532,6 +535,83 @@ func (s *space) effective(rg, rf float64) (k0, rp float64) {
 		}
 	}
 	return rf / rg, rg * rf / (rg + rf)
+}
+
+// dilution returns the factors by which the spec's source and load shrink
+// the relative shifts of Rg and Rf in the effective ratio: a resistor R in
+// series with the source Rs moves R + Rs by R/(R+Rs) of its own shift
+// (difference, inverting: Rg; divider: Rtop = Rf), and Rbot in parallel
+// with a load RL moves Rbot∥RL by RL/(Rbot+RL) of its shift (first order,
+// from memory). Both factors fall with the Rg + Rs or Rbot∥RL the search
+// can pick: the smallest Rg (difference, inverting) or Rf (divider) and the
+// largest Rbot give the largest dilution, the optimistic figures a bound
+// needs. Without a source or load both are 1.
+func (s *space) dilution(rg, rf float64) (dg, df float64) {
+	p := s.p
+	dg, df = 1, 1
+	switch p.Circuit {
+	case Difference, Inverting:
+		if p.SourceOhm > 0 && rg > 0 {
+			dg = rg / (rg + p.SourceOhm)
+		}
+	case Divider:
+		if p.SourceOhm > 0 && rf > 0 {
+			df = rf / (rf + p.SourceOhm)
+		}
+		if p.LoadOhm > 0 && rg > 0 {
+			dg = p.LoadOhm / (rg + p.LoadOhm)
+		}
+	}
+	return dg, df
+}
+
+// classDilution returns the smallest dilution factors of any option of a
+// class with Rg from ga and Rf from gb: the smallest Rg, the largest Rbot,
+// the smallest Rtop (half of it where two in parallel may be taken).
+func (s *space) classDilution(ga, gb *group) (dg, df float64) {
+	if len(ga.values) == 0 || len(gb.values) == 0 {
+		return 1, 1
+	}
+	rg, rf := ga.values[0], gb.values[0]
+	if s.parallel {
+		rf /= 2
+	}
+	if s.p.Circuit == Divider {
+		rg = ga.values[len(ga.values)-1]
+	}
+	return s.dilution(rg, rf)
+}
+
+// discreteFor returns the ratio figures of grades ga (Rg) and gb (Rf) with
+// their tolerance, tempco and load life scaled by the dilutions dg and df.
+func (s *space) discreteFor(ga, gb *group, dg, df float64) grades {
+	a, b := &ga.grade, &gb.grade
+	return discreteGrades(dg*a.Tolerance, dg*a.TCR, dg*a.LoadLife, df*b.Tolerance, df*b.TCR, df*b.LoadLife, s.dT)
+}
+
+// optGrades returns the ratio figures of option o of configuration c: the
+// class's own for a network, else the grades diluted by the option's own
+// values (see dilution).
+func (s *space) optGrades(c *config, o *option) *grades {
+	if c.net >= 0 || c.ga < 0 || c.gb < 0 || (s.p.SourceOhm <= 0 && s.p.LoadOhm <= 0) || o.rg < 0 || o.rf < 0 {
+		return &c.g
+	}
+	ga, gb := s.groups[c.ga], s.groups[c.gb]
+	rf := gb.values[o.rf]
+	if o.rf2 >= 0 {
+		if o.par {
+			r2 := gb.values[o.rf2]
+			rf = rf * r2 / (rf + r2)
+		} else {
+			rf += gb.values[o.rf2]
+		}
+	}
+	dg, df := s.dilution(ga.values[o.rg], rf)
+	if dg == 1 && df == 1 {
+		return &c.g
+	}
+	g := s.discreteFor(ga, gb, dg, df)
+	return &g
 }
 
 // target is the Rf (divider: Rtop) value that gives the target ratio with
