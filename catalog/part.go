@@ -183,9 +183,43 @@ type Amplifier struct {
 	InPosV float64 `json:"in_pos_v,omitempty" yaml:"in_pos_v,omitempty" catalog:"unknown"`
 	// InternalOhm is the internal resistor value (for noise), ohm.
 	InternalOhm float64 `json:"internal_ohm,omitempty" yaml:"internal_ohm,omitempty" catalog:"unknown"`
+	// Network describes the matched resistors inside, when the maker
+	// publishes them: nil when only the gains are known. A strappable
+	// amplifier makes other gains than Gains by tying its pins.
+	Network *MatchedNetwork `json:"network,omitempty" yaml:"network,omitempty"`
 
 	Offer      `yaml:",inline"`
 	Provenance `yaml:",inline"`
+}
+
+// MatchedNetwork is the set of matched resistors inside an amplifier and
+// how they connect: to the package pins and to the internal op-amp. Node
+// names are the maker's pin names (Pins lists the ones reachable from
+// outside the package) or internal names; the internal op-amp's inverting
+// input, non-inverting input and output are the nodes OpAmpInv,
+// OpAmpNonInv and OpAmpOut (its output is normally also a pin).
+type MatchedNetwork struct {
+	Elements    []MatchedElement `json:"elements" yaml:"elements"`
+	Pins        []string         `json:"pins" yaml:"pins"`
+	OpAmpInv    string           `json:"opamp_inv" yaml:"opamp_inv"`
+	OpAmpNonInv string           `json:"opamp_noninv" yaml:"opamp_noninv"`
+	OpAmpOut    string           `json:"opamp_out" yaml:"opamp_out"`
+	// Tolerance is each element's absolute tolerance, a fraction.
+	Tolerance float64 `json:"tolerance" yaml:"tolerance" catalog:"unknown"`
+	// RatioTolerance is the largest error of the ratio of any two elements
+	// of the network (matching), a fraction.
+	RatioTolerance float64 `json:"ratio_tolerance" yaml:"ratio_tolerance" catalog:"unknown"`
+	// RatioDriftPPM is the ratio tracking between any two elements, ±ppm/K.
+	RatioDriftPPM float64 `json:"ratio_drift_ppm" yaml:"ratio_drift_ppm" catalog:"unknown"`
+}
+
+// MatchedElement is one resistor of a MatchedNetwork: its name (R1, R2, ...
+// as the datasheet draws it), nominal value and the two nodes it joins.
+type MatchedElement struct {
+	Name string  `json:"name" yaml:"name"`
+	Ohms float64 `json:"ohms" yaml:"ohms"`
+	A    string  `json:"a" yaml:"a"`
+	B    string  `json:"b" yaml:"b"`
 }
 
 // Rail-to-rail claims of an amplifier (Amplifier.RailToRail).
