@@ -14,6 +14,7 @@ import (
 	"plumb/catalog"
 	"plumb/catalog/units"
 	"plumb/optimize/budget"
+	"plumb/optimize/family"
 	"plumb/optimize/spec"
 )
 
@@ -129,8 +130,8 @@ func runCheck(ctx context.Context, opts *checkOptions) error {
 func writeCheckFigures(w io.Writer, ios *IOStreams, sp *spec.Spec, r *budget.Result) {
 	m := &r.Metrics
 	unit := ""
-	if r.Family == spec.CurrentSense {
-		unit = " V/A"
+	if f := family.Lookup(r.Family); f != nil && f.GainUnit() != "V/V" {
+		unit = " " + f.GainUnit()
 	}
 	g := func(v float64) string { return strconv.FormatFloat(v, 'g', 6, 64) + unit }
 	writeHanging(w, ios, "", "  ", fmt.Sprintf("nominal gain %s (target %s: %s off at nominal values)",

@@ -5,6 +5,7 @@ import (
 	"math"
 	"strings"
 
+	"plumb/optimize/family"
 	"plumb/optimize/spec"
 )
 
@@ -160,8 +161,8 @@ func (e *Evaluator) commonNotes(res *Result) {
 		res.Notes = append(res.Notes, "amplifier figures not given, taken as ideal (no error from them): "+strings.Join(missing, ", ")+
 			"; give the datasheet maximums for a budget that counts them")
 	}
-	if l.InputImpedance > 0 && e.family == spec.CurrentSense {
-		res.Notes = append(res.Notes, "input impedance limit not checked: a current-sense input is a current, and the shunt is the impedance it sees")
+	if l.InputImpedance > 0 && e.fam.Input == family.Current {
+		res.Notes = append(res.Notes, "input impedance limit not checked: the input is a current, and the shunt is the impedance it sees")
 	}
 	if s.Calibrate.Gain {
 		res.Notes = append(res.Notes, "gain calibrated once at the reference temperature: the initial gain error drops out; drift, load life and CMRR remain")

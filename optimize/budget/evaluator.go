@@ -10,6 +10,7 @@ import (
 
 	"plumb/catalog"
 	"plumb/optimize/circuit"
+	"plumb/optimize/family"
 	"plumb/optimize/spec"
 )
 
@@ -88,6 +89,7 @@ type point struct {
 type Evaluator struct {
 	s      *spec.Spec
 	family string
+	fam    *family.Family
 	opts   spec.Options
 
 	net       *circuit.Netlist
@@ -157,13 +159,14 @@ func (e *Evaluator) Watch(ctx context.Context, progress func(done, total int)) {
 
 // NewEvaluator prepares an evaluator for designs of family (one of the
 // spec's families) with the given circuit options.
-func NewEvaluator(s *spec.Spec, family string, opts spec.Options) (*Evaluator, error) {
-	if !s.HasFamily(family) {
+func NewEvaluator(s *spec.Spec, name string, opts spec.Options) (*Evaluator, error) {
+	fam := family.Lookup(name)
+	if !s.HasFamily(name) || fam == nil {
 		return nil, fmt.Errorf("%w: %s (spec %s allows %v): add %s to the spec's families, or check the design against a spec for its family",
-			ErrFamily, family, s.Name, s.Families, family)
+			ErrFamily, name, s.Name, s.Families, name)
 	}
-	e := &Evaluator{s: s, family: family, opts: opts, shunt: -1, raPos: -1, rbPos: -1, leak: -1, sigSrc: -1, sigNeg: -1, sigCur: -1, refSrc: -1, cmSrcs: [2]int{-1, -1}}
-	e.differential = s.Differential || family == spec.CurrentSense
+	e := &Evaluator{s: s, family: name, fam: fam, opts: opts, shunt: -1, raPos: -1, rbPos: -1, leak: -1, sigSrc: -1, sigNeg: -1, sigCur: -1, refSrc: -1, cmSrcs: [2]int{-1, -1}}
+	e.differential = s.Differential || fam.Input == family.Current
 	e.temps[0], e.ntemps = s.TempRef, 1
 	for _, t := range []float64{s.Temp.Min, s.Temp.Max} {
 		if t != s.TempRef && (e.ntemps == 1 || t != e.temps[1]) {
@@ -173,12 +176,12 @@ func NewEvaluator(s *spec.Spec, family string, opts spec.Options) (*Evaluator, e
 	}
 	e.cmBase = math.Max(s.CommonMode.Min, math.Min(s.CommonMode.Max, 0))
 	switch {
-	case family == spec.LevelShift:
+	case fam.Reference == family.RefShift:
 		e.target = s.Offset
-	case s.Reference != nil && family != spec.Inverting && family != spec.NonInverting && family != spec.Divider:
+	case s.Reference != nil && fam.Reference == family.RefOutput:
 		e.target = s.Reference.V
 	}
-	if family == spec.Matched {
+	if fam.Integrated() {
 		e.matched = true
 		e.positions = nil
 	} else if err := e.buildNetlist(); err != nil {
@@ -211,7 +214,7 @@ func (e *Evaluator) buildNetlist() error {
 	}
 	e.net = net
 	for i, r := range net.Resistors {
-		if e.specResistor(r.Name) {
+		if family.SpecResistor(r.Name) {
 			ohm := e.s.SourceOhm
 			switch r.Name {
 			case "Rload":
@@ -226,7 +229,7 @@ func (e *Evaluator) buildNetlist() error {
 		e.positions = append(e.positions, r.Name)
 		e.resIdx = append(e.resIdx, i)
 		switch {
-		case r.Name == "Rs" && e.family == spec.CurrentSense:
+		case r.Name == e.fam.Shunt:
 			e.shunt = len(e.positions) - 1
 		case r.Name == "Ra" && e.opts.RefDivider:
 			e.raPos = len(e.positions) - 1
@@ -250,7 +253,7 @@ func (e *Evaluator) buildNetlist() error {
 		return fmt.Errorf("budget: %s has %d op-amps, more than %d", e.family, len(e.amps), maxAmps)
 	}
 	switch {
-	case e.family == spec.CurrentSense:
+	case e.fam.Input == family.Current:
 		e.sigCur = net.CurrentIndex("isense")
 		e.cmSrcs[0] = net.SourceIndex("vbus")
 	case net.SourceIndex("vp") >= 0:
@@ -754,29 +757,16 @@ var ampKinds = [5]paramKind{pVos, pVosDrift, pIb, pIos, pCMRR}
 // circuitOptions maps the design's options and the spec's source and load
 // onto the netlist's options.
 func (e *Evaluator) circuitOptions() circuit.Options {
-	return circuit.Options{RefDivider: e.opts.RefDivider, Buffer: e.opts.Buffer, OffsetToInverting: e.opts.OffsetToInverting,
-		Load: e.s.LoadOhm > 0, SourceImpedance: e.s.SourceOhm > 0 && e.family != spec.CurrentSense,
-		RefImpedance: e.refDriven() && e.s.Reference != nil && e.s.Reference.SourceOhm > 0}
+	o := e.opts.Netlist()
+	o.Load = e.s.LoadOhm > 0
+	o.SourceImpedance = e.s.SourceOhm > 0 && e.fam.Input != family.Current
+	o.RefImpedance = e.refDriven() && e.s.Reference != nil && e.s.Reference.SourceOhm > 0
+	return o
 }
 
 // refDriven reports whether the spec's reference drives the family's
-// reference input: the stages that pass it to the output (difference,
-// current sense, in-amp) or shift by it (level shift); inverting and
-// non-inverting stages keep theirs at 0, a divider has none.
+// reference input: the stages that pass it to the output or shift by it
+// (family.RefUse); the others keep theirs at 0 or have none.
 func (e *Evaluator) refDriven() bool {
-	switch e.family {
-	case spec.Difference, spec.CurrentSense, spec.InAmp, spec.LevelShift:
-		return true
-	}
-	return false
-}
-
-// specResistor reports whether a netlist resistor stands for something the
-// spec fixes (source impedance, load) rather than a position to fill.
-func (e *Evaluator) specResistor(name string) bool {
-	switch name {
-	case "Rload", "Rsrc", "Rsrcp", "Rsrcn", "Rref":
-		return true
-	}
-	return false
+	return e.fam.Reference != family.RefNone
 }

@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"plumb/optimize/circuit"
+	"plumb/optimize/family"
 	"plumb/optimize/spec"
 )
 
@@ -20,7 +21,7 @@ import (
 // check holds; the referred stages (difference, current sense, in-amp,
 // matched) do give G Vin + Vref and keep the reference.
 func TestNonInvertingReference(t *testing.T) {
-	n, err := circuit.New(circuit.NonInverting, circuit.Options{})
+	n, err := circuit.New(circuit.Family(family.NonInverting.Name), circuit.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}

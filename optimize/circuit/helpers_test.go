@@ -4,6 +4,8 @@ import (
 	"math"
 	"math/rand/v2"
 	"strconv"
+
+	"plumb/optimize/family"
 )
 
 // variants returns every valid option combination of family f.
@@ -18,7 +20,7 @@ func variants(f Family) []Options {
 			OffsetToInverting: mask&16 != 0,
 			RefImpedance:      mask&32 != 0,
 		}
-		if checkOptions(f, o) == nil {
+		if family.Lookup(string(f)).CheckOptions(o) == nil {
 			out = append(out, o)
 		}
 	}
@@ -181,3 +183,14 @@ func randomCase(f Family, c int, r *rand.Rand) *Netlist {
 	}
 	return n
 }
+
+// The families the tests build, by their registry entries.
+var (
+	Inverting    = Family(family.Inverting.Name)
+	NonInverting = Family(family.NonInverting.Name)
+	Difference   = Family(family.Difference.Name)
+	Divider      = Family(family.Divider.Name)
+	CurrentSense = Family(family.CurrentSense.Name)
+	LevelShift   = Family(family.LevelShift.Name)
+	InAmp        = Family(family.InAmp.Name)
+)

@@ -3,6 +3,8 @@ package circuit
 import (
 	"errors"
 	"slices"
+
+	"plumb/optimize/family"
 )
 
 // Sentinel errors. Callers branch on them with errors.Is.
@@ -14,7 +16,7 @@ var (
 	// ErrFamily is returned for an unknown family name.
 	ErrFamily = errors.New("circuit: unknown circuit family")
 	// ErrOption is returned by New for an option the family does not have.
-	ErrOption = errors.New("circuit: option does not apply to this family")
+	ErrOption = family.ErrOption
 	// ErrTopology is returned by Factor for a netlist the solver cannot
 	// represent: a node index out of range, an op-amp output on ground or
 	// on a source-driven node, two op-amps driving one node, or a node
@@ -27,7 +29,7 @@ var (
 //
 // Resistor names are the position names used everywhere in plumb, for
 // example "Rf" and "Rg" of an inverting amplifier or "R1".."R4" of a
-// difference amplifier; see New for every family's positions.
+// difference amplifier; see each family's doc comment in package family.
 type Netlist struct {
 	Family    Family
 	Nodes     []string        // node names; index 0 is ground "0"

@@ -9,6 +9,7 @@ import (
 	"plumb/catalog"
 	"plumb/catalog/units"
 	"plumb/optimize/circuit"
+	"plumb/optimize/family"
 	"plumb/optimize/spec"
 )
 
@@ -206,13 +207,12 @@ func DesignBOM(d *spec.Design, find spec.Lookup, b Build) (*BOM, error) {
 }
 
 // amplifiers returns the number of op-amps in the circuit model of d's
-// family and options; a matched amplifier is one.
+// family and options; an integrated family (one catalog part) is one.
 func amplifiers(d *spec.Design) (int, error) {
-	if d.Family == spec.Matched {
+	if f := family.Lookup(d.Family); f != nil && f.Integrated() {
 		return 1, nil
 	}
-	net, err := circuit.New(circuit.Family(d.Family), circuit.Options{RefDivider: d.Options.RefDivider,
-		Buffer: d.Options.Buffer, OffsetToInverting: d.Options.OffsetToInverting})
+	net, err := circuit.New(circuit.Family(d.Family), d.Options.Netlist())
 	if err != nil {
 		return 0, fmt.Errorf("%w: design %s: %w", ErrDesign, d.Name, err)
 	}

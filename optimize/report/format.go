@@ -81,7 +81,7 @@ func specRows(s *spec.Spec) []Row {
 	add("families", strings.Join(s.Families, ", "))
 	signal := "V"
 	gainUnit := "V/V"
-	if s.HasFamily(spec.CurrentSense) {
+	if s.CurrentInput() {
 		signal, gainUnit = "A", "V/A"
 	}
 	add("gain", sig(s.Gain)+" "+gainUnit)

@@ -9,9 +9,10 @@ import (
 	"strings"
 
 	"plumb/catalog"
+	"plumb/optimize/family"
 )
 
-// Options are the circuit variants a design chooses (see optimize/circuit).
+// Options are the circuit variants a design chooses (see family.Options).
 type Options struct {
 	// RefDivider drives the reference of a difference amplifier through a
 	// divider Ra/Rb from vrefsrc instead of a stiff source.
@@ -21,6 +22,26 @@ type Options struct {
 	// OffsetToInverting feeds the level-shift offset into the inverting
 	// input instead of the non-inverting one.
 	OffsetToInverting bool `json:"offset_to_inverting" yaml:"offset_to_inverting"`
+}
+
+// Netlist returns the netlist options the design's choices select (the
+// spec's source, reference and load impedances add the others).
+func (o Options) Netlist() family.Options {
+	return family.Options{RefDivider: o.RefDivider, Buffer: o.Buffer, OffsetToInverting: o.OffsetToInverting}
+}
+
+// integrated reports whether family name is one catalog part with its
+// resistors inside (no positions).
+func integrated(name string) bool {
+	f := family.Lookup(name)
+	return f != nil && f.Integrated()
+}
+
+// amplified reports whether a design of family name with options o has an
+// amplifier (an unknown family is taken to have one).
+func amplified(name string, o Options) bool {
+	f := family.Lookup(name)
+	return f == nil || f.Amplified(o.Netlist())
 }
 
 // Element is one physical resistor with its figures in SI units. For an
@@ -194,22 +215,22 @@ func ParseDesign(data []byte, name string) (*Design, error) {
 		names = append(names, n)
 	}
 	sort.Strings(names)
-	if famOK && len(names) == 0 && r.Family != Matched {
+	if famOK && len(names) == 0 && !integrated(r.Family) {
 		p.add("positions", "missing; give a part for every resistor position of the family")
 	}
-	if len(names) > 0 && r.Family == Matched {
+	if len(names) > 0 && integrated(r.Family) {
 		p.add("positions", "a matched amplifier has its resistors inside; remove the positions")
 	}
 	for _, n := range names {
 		d.Positions = append(d.Positions, parsePosition(p, "positions."+n, n, r.Positions[n]))
 	}
 	switch {
-	case r.Amplifier == (rawAmp{}) && r.Family == Divider && !r.Options.Buffer:
-		d.Amplifier.Resolved = true // an unbuffered divider has no amplifier
+	case r.Amplifier == (rawAmp{}) && famOK && !amplified(r.Family, r.Options):
+		d.Amplifier.Resolved = true // a passive stage (an unbuffered divider) has no amplifier
 		d.Amplifier.Amp.Part = ""
 	case r.Amplifier == (rawAmp{}) && !famOK:
 	default:
-		d.Amplifier = parseAmp(p, &r.Amplifier, r.Family == Matched, famOK)
+		d.Amplifier = parseAmp(p, &r.Amplifier, integrated(r.Family), famOK)
 	}
 	if err := p.err(); err != nil {
 		return nil, err
@@ -437,14 +458,14 @@ func (d *Design) Resolve(lookup Lookup) error {
 			amp.Resolved = true
 		}
 	}
-	if amp.Resolved && amp.Amp.Type == catalog.MatchedAmp && d.Family == Matched {
+	if amp.Resolved && amp.Amp.Type == catalog.MatchedAmp && integrated(d.Family) {
 		if len(amp.Amp.Gains) > 0 && !slices.Contains(amp.Amp.Gains, amp.Gain) {
 			p.add("amplifier.gain", "%g is not one of the gains of %s (%v)", amp.Gain, amp.Part, amp.Amp.Gains)
 		}
-	} else if amp.Resolved && d.Family == Matched {
-		p.add("amplifier.part", "%s is an op-amp; family matched needs an amplifier with matched resistors inside", amp.Part)
+	} else if amp.Resolved && integrated(d.Family) {
+		p.add("amplifier.part", "%s is an op-amp; family %s needs an amplifier with matched resistors inside", amp.Part, d.Family)
 	} else if amp.Resolved && amp.Amp.Type == catalog.MatchedAmp {
-		p.add("amplifier.part", "%s has matched resistors inside; use family matched for it", amp.Part)
+		p.add("amplifier.part", "%s has matched resistors inside; use family %s for it", amp.Part, familyNames(familiesWith(&Spec{Families: KnownFamilies}, (*family.Family).Integrated)))
 	}
 	if err := p.err(); err != nil {
 		return err

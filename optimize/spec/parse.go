@@ -7,6 +7,8 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+
+	"plumb/optimize/family"
 )
 
 // The YAML layout of a spec file. Every quantity is read as text so that
@@ -188,9 +190,40 @@ func parseFamilies(p *problems, r *rawSpec, s *Spec) {
 	}
 }
 
-// differentialFamily reports whether a family takes a differential input.
-func differentialFamily(f string) bool {
-	return f == Difference || f == InAmp || f == Matched || f == CurrentSense
+// CurrentInput reports whether the spec's input is a current (gain in
+// V/A).
+func (s *Spec) CurrentInput() bool { return len(familiesWith(s, currentInput)) > 0 }
+
+// familiesWith returns the spec's families for which has is true.
+func familiesWith(s *Spec, has func(*family.Family) bool) []*family.Family {
+	var out []*family.Family
+	for _, name := range s.Families {
+		if f := family.Lookup(name); f != nil && has(f) {
+			out = append(out, f)
+		}
+	}
+	return out
+}
+
+// refShift reports whether a family shifts its output by the reference.
+func refShift(f *family.Family) bool { return f.Reference == family.RefShift }
+
+// currentInput reports whether a family takes a current.
+func currentInput(f *family.Family) bool { return f.Input == family.Current }
+
+// outputRange reports whether a family's spec gives an output range.
+func outputRange(f *family.Family) bool { return f.OutputRange }
+
+// familyNames lists the families' names as "a", "a or b", "a, b or c".
+func familyNames(fs []*family.Family) string {
+	names := make([]string, len(fs))
+	for i, f := range fs {
+		names[i] = f.Name
+	}
+	if len(names) < 2 {
+		return strings.Join(names, "")
+	}
+	return strings.Join(names[:len(names)-1], ", ") + " or " + names[len(names)-1]
 }
 
 func parseSignal(p *problems, r *rawSpec, s *Spec) {
@@ -207,13 +240,14 @@ func parseSignal(p *problems, r *rawSpec, s *Spec) {
 	// Checks of the input, gain and output against the family are skipped
 	// when the family itself is wrong: they would only repeat that error.
 	famOK := !p.failed("family", "families")
-	cs := slices.Contains(s.Families, CurrentSense)
+	current := familiesWith(s, currentInput)
+	cs := len(current) > 0
 	inField := ""
 	switch {
 	case in.Current != "":
 		inField = "input.current"
 		if famOK && (!cs || len(s.Families) > 1) {
-			p.add(inField, "a current input needs family current-sense alone")
+			p.add(inField, "a current input needs family %s alone", familyNames(familiesWith(&Spec{Families: KnownFamilies}, currentInput)))
 		}
 		s.Input = rangeField(p, inField, in.Current, uAmp)
 	case in.Differential != "":
@@ -227,16 +261,20 @@ func parseSignal(p *problems, r *rawSpec, s *Spec) {
 		p.add("input", "missing; give differential, single_ended or current with its range, e.g. ±10V")
 	}
 	if cs && in.Current == "" && given == 1 {
-		p.add("input", "family current-sense takes input.current (the shunt current), e.g. 0..5A")
+		p.add("input", "family %s takes input.current (the shunt current), e.g. 0..5A", familyNames(current))
 	}
 	if famOK && (in.Differential != "" || in.SingleEnded != "") {
-		for _, f := range s.Families {
-			if f != CurrentSense && differentialFamily(f) != s.Differential {
+		for _, name := range s.Families {
+			f := family.Lookup(name)
+			if f == nil || f.Input == family.Current {
+				continue
+			}
+			if diff := f.Input == family.Differential; diff != s.Differential {
 				want := "single_ended"
-				if differentialFamily(f) {
+				if diff {
 					want = "differential"
 				}
-				p.add("input", "family %s takes input.%s", f, want)
+				p.add("input", "family %s takes input.%s", f.Name, want)
 			}
 		}
 	}
@@ -247,9 +285,10 @@ func parseSignal(p *problems, r *rawSpec, s *Spec) {
 		p.add(inField, "range is a single value; give the span the stage must handle, e.g. -10..10V")
 	}
 
-	ls := slices.Contains(s.Families, LevelShift)
+	shifts := familiesWith(s, outputRange)
+	ls := len(shifts) > 0
 	if ls && len(s.Families) > 1 {
-		p.add("families", "level-shift derives its gain from the ranges; list it alone")
+		p.add("families", "%s derives its gain from the ranges; list it alone", familyNames(shifts))
 	}
 	if r.Output != "" {
 		if famOK && !ls {
@@ -259,9 +298,9 @@ func parseSignal(p *problems, r *rawSpec, s *Spec) {
 	}
 	switch {
 	case ls && r.Gain != "":
-		p.add("gain", "a level-shift gain follows from input and output; remove gain or the output range")
+		p.add("gain", "a %s gain follows from input and output; remove gain or the output range", familyNames(shifts))
 	case ls && r.Output == "":
-		p.add("output", "missing; a level-shift spec maps the input range onto an output range, e.g. 0..2.5V")
+		p.add("output", "missing; a %s spec maps the input range onto an output range, e.g. 0..2.5V", familyNames(shifts))
 	case ls:
 		if s.Input.Span() > 0 && !p.failed("output") {
 			s.Gain = s.Output.Span() / s.Input.Span()
@@ -291,38 +330,13 @@ func parseSignal(p *problems, r *rawSpec, s *Spec) {
 			p.add("gain", "is zero; a stage needs a non-zero gain")
 		}
 	}
-	for _, f := range s.Families {
-		if msg := gainSignProblem(f, s.Gain); msg != "" && s.Gain != 0 {
-			p.add("gain", "%g does not suit family %s: %s", s.Gain, f, msg)
+	for _, name := range s.Families {
+		if f := family.Lookup(name); f != nil && s.Gain != 0 {
+			if msg := f.GainProblem(s.Gain); msg != "" {
+				p.add("gain", "%g does not suit family %s: %s", s.Gain, f.Name, msg)
+			}
 		}
 	}
-}
-
-// gainSignProblem says why gain g cannot be made by family f ("" if it can).
-func gainSignProblem(f string, g float64) string {
-	switch f {
-	case Inverting:
-		if g >= 0 {
-			return "an inverting amplifier has a negative gain (-Rf/Rg)"
-		}
-	case NonInverting:
-		if g < 1 {
-			return "a non-inverting amplifier has gain 1 + Rf/Rg, at least 1"
-		}
-	case Divider:
-		if g <= 0 || g >= 1 {
-			return "a divider's gain R2/(R1+R2) lies between 0 and 1"
-		}
-	case InAmp:
-		if g < 1 {
-			return "an instrumentation amplifier's gain is at least 1"
-		}
-	case Difference, Matched, CurrentSense, LevelShift:
-		if g <= 0 {
-			return "give a positive gain; swap the inputs for a negative one"
-		}
-	}
-	return ""
 }
 
 func parseEnvironment(p *problems, r *rawSpec, s *Spec) {
@@ -356,8 +370,8 @@ func parseEnvironment(p *problems, r *rawSpec, s *Spec) {
 		if ref.Impedance != "" {
 			s.Reference.SourceOhm = magnitude(p, "reference.impedance", ref.Impedance, aResistance, field(p, "reference.impedance", ref.Impedance, uOhm))
 		}
-	} else if slices.Contains(s.Families, LevelShift) {
-		p.add("reference", "missing; a level shift takes its offset from a reference: give reference.voltage (and its tolerance and drift)")
+	} else if shifts := familiesWith(s, refShift); len(shifts) > 0 {
+		p.add("reference", "missing; family %s takes its offset from a reference: give reference.voltage (and its tolerance and drift)", familyNames(shifts))
 	}
 	if r.SourceImpedance != "" {
 		s.SourceOhm = magnitude(p, "source_impedance", r.SourceImpedance, aResistance, field(p, "source_impedance", r.SourceImpedance, uOhm))
@@ -545,7 +559,7 @@ func parseBuild(p *problems, r *rawSpec, s *Spec) {
 
 // checkConsistency finds contradictions between fields that each parsed.
 func checkConsistency(p *problems, s *Spec) {
-	if s.Differential || slices.Contains(s.Families, CurrentSense) {
+	if s.Differential || len(familiesWith(s, currentInput)) > 0 {
 		// Each input pin of a differential stage sees Vcm ± Vdiff/2.
 	} else if s.CommonMode != (Range{}) {
 		p.add("input.common_mode", "given for a single-ended stage; common mode belongs to differential and current-sense inputs")
@@ -555,13 +569,14 @@ func checkConsistency(p *problems, s *Spec) {
 		p.add("supply", "the output must reach %.4g..%.4g V (gain %g over the input range) but the rails are %g..%g V; widen the supply or lower the gain",
 			out.Min, out.Max, s.Gain, s.Supply.Min, s.Supply.Max)
 	}
-	if slices.Contains(s.Families, NonInverting) && (s.Input.Max > s.Supply.Max || s.Input.Min < s.Supply.Min) {
-		p.add("input.single_ended", "%g..%g V reaches beyond the rails %g..%g V, and a non-inverting amplifier's input pin sees it directly",
-			s.Input.Min, s.Input.Max, s.Supply.Min, s.Supply.Max)
+	if at := familiesWith(s, func(f *family.Family) bool { return f.InputAtPin }); len(at) > 0 && (s.Input.Max > s.Supply.Max || s.Input.Min < s.Supply.Min) {
+		p.add("input.single_ended", "%g..%g V reaches beyond the rails %g..%g V, and the input pin of family %s's amplifier sees it directly",
+			s.Input.Min, s.Input.Max, s.Supply.Min, s.Supply.Max, familyNames(at))
 	}
-	for _, f := range s.Families {
-		if s.Reference != nil && (f == Inverting || f == NonInverting || f == Divider) {
-			p.add("reference", "given, but family %s has no reference input here; use difference, current-sense, inamp, matched or level-shift for a referred output", f)
+	if s.Reference != nil {
+		referred := familiesWith(&Spec{Families: KnownFamilies}, func(f *family.Family) bool { return f.Reference != family.RefNone })
+		for _, f := range familiesWith(s, func(f *family.Family) bool { return f.Reference == family.RefNone }) {
+			p.add("reference", "given, but family %s has no reference input here; use %s for a referred output", f.Name, familyNames(referred))
 		}
 	}
 	if s.Reference != nil && (s.Reference.V > s.Supply.Max || s.Reference.V < s.Supply.Min) {
@@ -574,7 +589,7 @@ func checkConsistency(p *problems, s *Spec) {
 // reference).
 func (s *Spec) OutputSwing() Range {
 	off := s.Offset
-	if s.Reference != nil && !slices.Contains(s.Families, LevelShift) {
+	if s.Reference != nil && len(familiesWith(s, refShift)) == 0 {
 		off = s.Reference.V
 	}
 	a, b := s.Gain*s.Input.Min+off, s.Gain*s.Input.Max+off

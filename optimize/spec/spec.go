@@ -14,6 +14,8 @@ import (
 	"strings"
 
 	"go.yaml.in/yaml/v3"
+
+	"plumb/optimize/family"
 )
 
 // ErrInvalid is wrapped by every error about a spec or design file's content.
@@ -32,8 +34,9 @@ const (
 	Matched = "matched"
 )
 
-// KnownFamilies lists every family name in a stable order.
-var KnownFamilies = []string{Inverting, NonInverting, Difference, Divider, CurrentSense, LevelShift, InAmp, Matched}
+// KnownFamilies lists every family name in registry order (package
+// family).
+var KnownFamilies = family.Names()
 
 // Analysis methods.
 const (

@@ -42,7 +42,7 @@ func (d *Design) Marshal() ([]byte, error) {
 		}
 		r.Positions[p.Name] = rp
 	}
-	r.Amplifier = rawAmpOf(&d.Amplifier, d.Family)
+	r.Amplifier = rawAmpOf(&d.Amplifier, d)
 	return yaml.Marshal(&r)
 }
 
@@ -70,7 +70,7 @@ func rawOf(e Element) rawElement {
 	return r
 }
 
-func rawAmpOf(a *AmplifierChoice, family string) rawAmp {
+func rawAmpOf(a *AmplifierChoice, d *Design) rawAmp {
 	var r rawAmp
 	if a.Gain != 0 {
 		r.Gain = num(a.Gain)
@@ -80,8 +80,8 @@ func rawAmpOf(a *AmplifierChoice, family string) rawAmp {
 		return r
 	}
 	m := &a.Amp
-	if m.Part == "" && family == Divider {
-		return rawAmp{} // unbuffered divider
+	if m.Part == "" && !amplified(d.Family, d.Options) {
+		return rawAmp{} // a passive stage (an unbuffered divider)
 	}
 	opt := func(v float64, unit string) string {
 		if v == 0 {
@@ -98,7 +98,7 @@ func rawAmpOf(a *AmplifierChoice, family string) rawAmp {
 		}
 		return units.FormatExact(v, unit)
 	}
-	if m.Type == "matched" && family != Matched {
+	if m.Type == "matched" && !integrated(d.Family) {
 		r.Type = "matched"
 	}
 	r.Vos, r.VosDrift, r.Ib, r.Ios = si(m.VosV, "V"), si(m.VosDriftVK, "V/K"), si(m.IbA, "A"), si(m.IosA, "A")

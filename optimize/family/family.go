@@ -1,0 +1,244 @@
+package family
+
+import (
+	"errors"
+	"fmt"
+)
+
+// Sentinel errors. Callers branch on them with errors.Is.
+var (
+	// ErrUnknown is returned for a family name the registry does not list.
+	ErrUnknown = errors.New("family: unknown circuit family")
+	// ErrOption is returned for a netlist option the family does not have.
+	ErrOption = errors.New("family: option does not apply to this family")
+	// ErrNoNetlist is returned for a family built from one catalog part
+	// whose figures come from its data sheet (no positions to solve).
+	ErrNoNetlist = errors.New("family: no netlist, the stage is one catalog part")
+)
+
+// Input is the kind of signal a family's input takes.
+type Input int
+
+// Inputs.
+const (
+	// SingleEnded is one voltage against ground (spec input.single_ended).
+	SingleEnded Input = iota
+	// Differential is a voltage between two terminals riding on a common
+	// mode (spec input.differential and input.common_mode).
+	Differential
+	// Current is a current through a shunt whose low side sits at the
+	// common mode (spec input.current, gain in V/A).
+	Current
+)
+
+// RefUse says what a family does with the spec's reference voltage.
+type RefUse int
+
+// Uses of the reference.
+const (
+	// RefNone: the stage has no reference input; a spec giving one is
+	// refused.
+	RefNone RefUse = iota
+	// RefOutput: the reference is the ideal output at zero input.
+	RefOutput
+	// RefShift: the output is shifted by a fraction of the reference; the
+	// spec must give it, and derives gain and offset from its input and
+	// output ranges (Family.OutputRange).
+	RefShift
+)
+
+// Options select the optional parts of a family's netlist. The zero value
+// is the bare circuit. A family refuses (ErrOption) an option it does not
+// list in Family.Allows; Load applies to every family.
+type Options struct {
+	// RefDivider: the reference node is driven by source "vrefsrc" through
+	// divider "Ra" (vrefsrc to ref) and "Rb" (ref to ground), whose
+	// Thevenin resistance Ra||Rb is in series with the stage's reference
+	// resistor, instead of by the ideal source "vref".
+	RefDivider bool
+	// Load adds "Rload" from the output node to ground.
+	Load bool
+	// SourceImpedance puts a source resistance in series with each input
+	// source: "Rsrc" for a single input, "Rsrcp" and "Rsrcn" for the vp
+	// and vn inputs.
+	SourceImpedance bool
+	// Buffer: a unity-gain follower "A1" after a passive stage's output.
+	Buffer bool
+	// RefImpedance: the reference source drives the stage through its own
+	// output resistance "Rref", from the source's node to node "refz",
+	// where the stage's reference resistor begins.
+	RefImpedance bool
+	// OffsetToInverting: the reference enters the inverting side, giving a
+	// negative offset, instead of being summed into the non-inverting node.
+	OffsetToInverting bool
+}
+
+// Option is one optional part of a netlist, as a bit of Family.Allows.
+type Option uint8
+
+// Options a family may allow.
+const (
+	AllowRefDivider Option = 1 << iota
+	AllowSourceImpedance
+	AllowBuffer
+	AllowRefImpedance
+	AllowOffsetToInverting
+)
+
+// Builder receives a family's netlist, element by element, with nodes by
+// name (package circuit implements it and solves the result; a recorder
+// here lists positions). Node "0" is ground.
+type Builder interface {
+	// Resistor adds resistor name from node a to node b.
+	Resistor(name, a, b string, ohm float64)
+	// Source adds an ideal voltage source name fixing node at v volts.
+	Source(name, node string, v float64)
+	// Current adds a current source name of a amperes leaving node from
+	// and entering node to.
+	Current(name, from, to string, a float64)
+	// OpAmp adds op-amp name with inputs plus and minus driving node out.
+	OpAmp(name, plus, minus, out string)
+}
+
+// Family is one circuit family: everything about it that is particular to
+// it, so that the spec reader, the netlist solver, the budget and the
+// search work through these fields and never on a family's name.
+//
+// Netlist conventions every family keeps (the budget reads the netlist by
+// them): the output node is "out"; the signal is source "vin" (single
+// ended), sources "vp" and "vn" (differential) or current source "isense"
+// with the shunt's low side fixed by source "vbus" (current); the
+// reference is source "vref" (or "vrefsrc" behind a reference divider
+// "Ra"/"Rb"); current source "iload" is what the load draws from the
+// output; resistors "Rsrc", "Rsrcp", "Rsrcn", "Rref" and "Rload" stand for
+// the spec's source, reference and load impedances, every other resistor
+// is a position the design fills.
+//
+// To add a family, write one file in this package that declares a Family
+// value with its doc comment (topology, equations, sources) and list it in
+// the registry (registry.go).
+type Family struct {
+	// Name is the family's name in specs, designs and results.
+	Name string
+	// About is one line on what the family builds, for listings.
+	About string
+	// Input is the kind of signal the family takes.
+	Input Input
+	// Reference is what the family does with the spec's reference.
+	Reference RefUse
+	// OutputRange: the spec gives an output range instead of a gain (gain
+	// = output span / input span, offset = out.min - gain·in.min), and the
+	// family must be listed alone.
+	OutputRange bool
+	// InputAtPin: the input drives an amplifier pin directly, so its range
+	// must lie within the rails.
+	InputAtPin bool
+	// Shunt is the position that carries a current input (Input Current),
+	// "" for none.
+	Shunt string
+	// Allows lists the netlist options the family has besides Load.
+	Allows Option
+	// GainProblem says why the spec's gain g cannot be made by the family
+	// ("" when it can).
+	GainProblem func(g float64) string
+	// Netlist builds the family's topology with options o on b, with
+	// nominal values that give a working circuit of typical gain (callers
+	// overwrite them with a design's values). Nil for a family that is one
+	// catalog part (an amplifier with matched resistors inside), whose
+	// budget comes from its data sheet.
+	Netlist func(b Builder, o Options) error
+}
+
+// Build builds f's netlist with options o on b, after checking the options
+// against f.Allows.
+func (f *Family) Build(b Builder, o Options) error {
+	if f.Netlist == nil {
+		return fmt.Errorf("%w: %s", ErrNoNetlist, f.Name)
+	}
+	if err := f.CheckOptions(o); err != nil {
+		return err
+	}
+	return f.Netlist(b, o)
+}
+
+// CheckOptions refuses an option f does not allow.
+func (f *Family) CheckOptions(o Options) error {
+	for _, c := range []struct {
+		set   bool
+		allow Option
+		what  string
+	}{
+		{o.RefDivider, AllowRefDivider, "RefDivider (reference divider)"},
+		{o.RefImpedance, AllowRefImpedance, "RefImpedance (no reference input)"},
+		{o.SourceImpedance, AllowSourceImpedance, "SourceImpedance (no voltage input)"},
+		{o.Buffer, AllowBuffer, "Buffer"},
+		{o.OffsetToInverting, AllowOffsetToInverting, "OffsetToInverting"},
+	} {
+		if c.set && f.Allows&c.allow == 0 {
+			return fmt.Errorf("%w: %s is not available for family %q", ErrOption, c.what, f.Name)
+		}
+	}
+	return nil
+}
+
+// GainUnit is the unit of the family's gain: V/A for a current input,
+// else V/V.
+func (f *Family) GainUnit() string {
+	if f.Input == Current {
+		return "V/A"
+	}
+	return "V/V"
+}
+
+// Integrated reports whether the family is one catalog part with its
+// resistors inside (no netlist of positions).
+func (f *Family) Integrated() bool { return f.Netlist == nil }
+
+// Positions returns the positions a design of f with options o fills, in
+// netlist order (none for an integrated family).
+func (f *Family) Positions(o Options) ([]string, error) {
+	r := &recorder{}
+	if f.Integrated() {
+		return nil, nil
+	}
+	if err := f.Build(r, o); err != nil {
+		return nil, err
+	}
+	return r.positions, nil
+}
+
+// Amplified reports whether a design of f with options o has an amplifier
+// (an integrated family is one).
+func (f *Family) Amplified(o Options) bool {
+	if f.Integrated() {
+		return true
+	}
+	r := &recorder{}
+	return f.Build(r, o) == nil && r.amps > 0
+}
+
+// SpecResistor reports whether netlist resistor name stands for an
+// impedance the spec fixes (source, reference, load) rather than a
+// position a design fills.
+func SpecResistor(name string) bool {
+	switch name {
+	case "Rload", "Rsrc", "Rsrcp", "Rsrcn", "Rref":
+		return true
+	}
+	return false
+}
+
+// recorder is a Builder that notes positions and amplifiers.
+type recorder struct {
+	positions []string
+	amps      int
+}
+
+func (r *recorder) Resistor(name, _, _ string, _ float64) {
+	if !SpecResistor(name) {
+		r.positions = append(r.positions, name)
+	}
+}
+func (r *recorder) Source(string, string, float64)          {}
+func (r *recorder) Current(string, string, string, float64) {}
+func (r *recorder) OpAmp(string, string, string, string)    { r.amps++ }

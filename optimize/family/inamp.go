@@ -1,0 +1,47 @@
+package family
+
+// InAmp is the three-op-amp instrumentation amplifier: two non-inverting
+// input amplifiers sharing Rg (gain 1 + 2Rf/Rg on the difference, unity on
+// the common mode), then a difference amplifier R1..R4 (discrete or a
+// matched network) of gain R2/R1:
+//
+//	vp --[Rsrcp]-- inp = A1+   A1 -> o1 --[Rf1]-- g1 = A1-
+//	vn --[Rsrcn]-- inn = A2+   A2 -> o2 --[Rf2]-- g2 = A2-   g1 --[Rg]-- g2
+//	o2 --[R1]-- m --[R2]-- out   o1 --[R3]-- p --[R4]-- vref   A3: p, m -> out
+//
+//	Vout = (Vp - Vn)·(1 + 2Rf/Rg)·R2/R1 + Vref  with Rf1 = Rf2 = Rf and
+//	R4/R3 = R2/R1
+//
+// (S. Franco, "Design with Operational Amplifiers and Analog Integrated
+// Circuits", McGraw-Hill, instrumentation-amplifier section, from memory.)
+var InAmp = &Family{
+	Name:      "inamp",
+	About:     "three-op-amp instrumentation amplifier, G = (1 + 2Rf/Rg)·R2/R1",
+	Input:     Differential,
+	Reference: RefOutput,
+	Allows:    AllowSourceImpedance | AllowRefImpedance,
+	GainProblem: func(g float64) string {
+		if g < 1 {
+			return "an instrumentation amplifier's gain is at least 1"
+		}
+		return ""
+	},
+	Netlist: func(b Builder, o Options) error {
+		inp := input(b, "vp", "Rsrcp", 0, o.SourceImpedance)
+		inn := input(b, "vn", "Rsrcn", 0, o.SourceImpedance)
+		b.Source("vref", "vref", 0)
+		ref := refInput(b, "vref", o.RefImpedance)
+		b.Resistor("Rf1", "o1", "g1", 18e3)
+		b.Resistor("Rg", "g1", "g2", 4e3)
+		b.Resistor("Rf2", "o2", "g2", 18e3)
+		b.OpAmp("A1", inp, "g1", "o1")
+		b.OpAmp("A2", inn, "g2", "o2")
+		b.Resistor("R1", "o2", "m", 10e3)
+		b.Resistor("R2", "m", "out", 10e3)
+		b.Resistor("R3", "o1", "p", 10e3)
+		b.Resistor("R4", "p", ref, 10e3)
+		b.OpAmp("A3", "p", "m", "out")
+		load(b, o, nominalLoadOhm)
+		return nil
+	},
+}
