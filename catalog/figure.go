@@ -23,6 +23,10 @@ func (r Resistor) MarshalJSON() ([]byte, error) { return marshalPart(reflect.Val
 // MarshalJSON writes the network with unknown figures left out.
 func (n Network) MarshalJSON() ([]byte, error) { return marshalPart(reflect.ValueOf(n)) }
 
+// MarshalJSON writes the network inside a matched amplifier with unknown
+// figures left out.
+func (n MatchedNetwork) MarshalJSON() ([]byte, error) { return marshalPart(reflect.ValueOf(n)) }
+
 // MarshalJSON writes the amplifier with unknown figures left out.
 func (a Amplifier) MarshalJSON() ([]byte, error) { return marshalPart(reflect.ValueOf(a)) }
 
@@ -96,6 +100,8 @@ func emptyJSON(v reflect.Value) bool {
 		return v.IsZero()
 	case reflect.Bool:
 		return !v.Bool()
+	case reflect.Pointer, reflect.Interface:
+		return v.IsNil()
 	}
 	return false
 }

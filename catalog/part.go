@@ -186,7 +186,7 @@ type Amplifier struct {
 	// Network describes the matched resistors inside, when the maker
 	// publishes them: nil when only the gains are known. A strappable
 	// amplifier makes other gains than Gains by tying its pins.
-	Network *MatchedNetwork `json:"network,omitempty" yaml:"network,omitempty"`
+	Network *MatchedNetwork `json:"network,omitempty" yaml:"network,omitempty" catalog:"apart"`
 
 	Offer      `yaml:",inline"`
 	Provenance `yaml:",inline"`

@@ -112,6 +112,10 @@ func (t *table) walk(typ reflect.Type, prefix []int, figure bool) {
 			}
 			continue
 		}
+		if f.Tag.Get("catalog") == "apart" {
+			// Stored in tables of its own, by the code that owns them.
+			continue
+		}
 		if f.Name == "Part" {
 			t.part = index
 		}
