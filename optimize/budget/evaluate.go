@@ -82,7 +82,18 @@ func EvaluateContext(ctx context.Context, s *spec.Spec, d *spec.Design, progress
 	if err != nil {
 		return nil, err
 	}
-	applyAssumptions(res, s, d.Assumptions)
+	as := d.Assumptions
+	if s.ADC != nil {
+		adc, err := e.channel(ctx, c, res, progress)
+		if err != nil {
+			return nil, err
+		}
+		as = append(slices.Clone(as), adc...)
+		if err := CheckFinite("channel budget of "+e.family+" design", res); err != nil {
+			return nil, err
+		}
+	}
+	applyAssumptions(res, s, as)
 	return res, nil
 }
 
@@ -360,7 +371,7 @@ func finite(v float64) float64 {
 
 func marginText(l Limit, margin float64) string {
 	switch {
-	case l.Name == LimitHeadroom:
+	case l.Name == LimitHeadroom, l.Name == LimitADCRange:
 		return fmt.Sprintf("%+.3g V", l.Value)
 	case l.Unit == "dB":
 		return fmt.Sprintf("%+.1f dB", l.Value-l.Limit)

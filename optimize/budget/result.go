@@ -95,6 +95,15 @@ type Metrics struct {
 	PowerRatio float64 `json:"power_ratio"`
 	// VoltageRatio is the worst resistor voltage over its rated voltage.
 	VoltageRatio float64 `json:"voltage_ratio"`
+	// The channel into the ADC, when the spec has one (see Channel): its
+	// total error at full scale and the part the temperature range adds,
+	// as fractions of full scale and in LSB, and the output's least
+	// margin to the ADC's input range, V.
+	TotalErrorFS    float64 `json:"total_error_fs,omitempty"`
+	TotalErrorLSB   float64 `json:"total_error_lsb,omitempty"`
+	TotalDriftFS    float64 `json:"total_drift_fs,omitempty"`
+	TotalDriftLSB   float64 `json:"total_drift_lsb,omitempty"`
+	ADCRangeMarginV float64 `json:"adc_range_margin_v,omitempty"`
 }
 
 // MCSummary is the outcome of a Monte Carlo run.
@@ -160,6 +169,9 @@ type Result struct {
 	// Assumptions are the catalog figures the result rests on that nobody
 	// gave, taken at their documented defaults (package assume).
 	Assumptions []assume.Assumption `json:"assumptions,omitempty"`
+	// Channel is the error of the whole channel at the ADC (nil: the spec
+	// has no adc block).
+	Channel *Channel `json:"channel,omitempty"`
 }
 
 // Limit names used in Result.Limits, Score and MCSummary.
@@ -180,7 +192,8 @@ const (
 
 // FormatFigure writes a figure in the unit words of Limit.Unit, as every
 // command and report prints them: a bare fraction ("") as percent, dB to a
-// tenth, ppm/K to four figures, a slew rate in V/µs, and the rest, resistance
+// tenth, ppm/K to four figures, a slew rate in V/µs, LSB to four figures,
+// a fraction of an ADC's full scale as percent FS, and the rest, resistance
 // too, in engineering notation with an SI prefix to four figures (4.275 mV,
 // 3.334 MHz, 50.57 kΩ), the units a datasheet uses.
 func FormatFigure(v float64, unit string) string {
@@ -197,6 +210,10 @@ func FormatFigure(v float64, unit string) string {
 		return units.Format(v, "Ω")
 	case "V/s":
 		return units.FormatSlewRate(v)
+	case UnitLSB:
+		return strconv.FormatFloat(v, 'g', 4, 64) + " LSB"
+	case UnitFS:
+		return units.FormatPercent(v) + " FS"
 	}
 	return units.Format(v, unit)
 }

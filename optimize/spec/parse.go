@@ -34,6 +34,7 @@ type rawSpec struct {
 	Combos          []string    `yaml:"combos"`
 	Derating        string      `yaml:"derating"`
 	Assumptions     string      `yaml:"assumptions"`
+	ADC             *rawADC     `yaml:"adc"`
 }
 
 type rawInput struct {
@@ -70,6 +71,8 @@ type rawLimits struct {
 	NoiseDensity   string `yaml:"noise_density"`
 	Bandwidth      string `yaml:"bandwidth"`
 	InputImpedance string `yaml:"input_impedance"`
+	TotalError     string `yaml:"total_error"`
+	TotalDrift     string `yaml:"total_drift"`
 }
 
 type rawAnalysis struct {
@@ -150,6 +153,7 @@ func Parse(data []byte, name string) (*Spec, error) {
 	parseSignal(p, &r, s)
 	parseEnvironment(p, &r, s)
 	parseLimits(p, &r.Limits, &s.Limits)
+	parseADC(p, &r, s)
 	parseAnalysis(p, &r, s)
 	parseBuild(p, &r, s)
 	if len(p.errs) == 0 {
@@ -470,7 +474,7 @@ func parseLimits(p *problems, r *rawLimits, l *Limits) {
 	l.NoiseDensity = opt("limits.noise_density", r.NoiseDensity, q("limits.noise_density", uNoise))
 	l.BandwidthHz = opt("limits.bandwidth", r.Bandwidth, q("limits.bandwidth", uHertz))
 	l.InputImpedance = opt("limits.input_impedance", r.InputImpedance, q("limits.input_impedance", uOhm))
-	if !given {
+	if !given && r.TotalError == "" && r.TotalDrift == "" {
 		p.add("limits", "none given; a spec needs at least one limit, e.g. gain_error: 0.1%%")
 	}
 }
@@ -582,6 +586,7 @@ func checkConsistency(p *problems, s *Spec) {
 	if s.Reference != nil && (s.Reference.V > s.Supply.Max || s.Reference.V < s.Supply.Min) {
 		p.add("reference.voltage", "%g V lies outside the rails %g..%g V", s.Reference.V, s.Supply.Min, s.Supply.Max)
 	}
+	checkADC(p, s)
 }
 
 // OutputSwing is the ideal output range: gain times the input range plus the

@@ -79,6 +79,14 @@ type Limits struct {
 	NoiseDensity   float64 `json:"noise_v_per_rthz"`     // max, output referred
 	BandwidthHz    float64 `json:"bandwidth_hz"`         // min closed-loop -3 dB
 	InputImpedance float64 `json:"input_impedance_ohm"`  // min
+	// TotalError and TotalDrift limit the channel's error at the ADC
+	// (Spec.ADC), fractions of its full-scale range: the whole error, and
+	// the part the temperature range adds. InLSB says the spec wrote them
+	// in LSB, so results show them so.
+	TotalError      float64 `json:"total_error_fs,omitempty"`
+	TotalDrift      float64 `json:"total_drift_fs,omitempty"`
+	TotalErrorInLSB bool    `json:"total_error_in_lsb,omitempty"`
+	TotalDriftInLSB bool    `json:"total_drift_in_lsb,omitempty"`
 }
 
 // Analysis chooses the error-budget method.
@@ -145,7 +153,9 @@ type Spec struct {
 	// Assumptions is AssumeDefaults or AssumeStrict: what a catalog figure
 	// nobody gave may do for a limit.
 	Assumptions string `json:"assumptions"`
-	SourceFile  string `json:"-"`
+	// ADC is the converter the stage drives (nil: none given).
+	ADC        *ADC   `json:"adc,omitempty"`
+	SourceFile string `json:"-"`
 }
 
 // What unknown catalog figures may do (Spec.Assumptions).
