@@ -525,3 +525,74 @@ func specZero(s *spec.Spec) float64 {
 	}
 	return 0
 }
+
+// ChannelScreen is the channel's total error as a search screens it from
+// a stage's own figures: the fixed terms (reference, ADC) at each end of
+// the input range and what the stage's terms weigh there. It is optimistic
+// where it cannot be exact (the common-mode term is left out, and a
+// reference share the stage's offset may hold is taken off it), so it
+// prunes only designs the channel's budget fails.
+type ChannelScreen struct {
+	worst bool
+	// Per end of the input range: the signal's share |S|/FSR, and the
+	// fixed terms of the error and of the drift (sum, or root-sum-square).
+	sig, fixedE, fixedD [2]float64
+	fsr, dT, sigmas     float64
+	limitE, limitD      float64
+	// refShare and refShareDrift are the largest share of the stage's
+	// offset (V) and offset drift (V/K) the spec's reference can hold when
+	// the ADC shares it, which cancels at the ADC.
+	refShare, refShareDrift float64
+}
+
+// NewChannelScreen prepares the screening of s's channel limits (nil: the
+// spec has none, or its method is Monte Carlo).
+func NewChannelScreen(s *spec.Spec) *ChannelScreen {
+	a := s.ADC
+	if a == nil || s.Analysis.Method == spec.MonteCarlo || (s.Limits.TotalError <= 0 && s.Limits.TotalDrift <= 0) {
+		return nil
+	}
+	f, _ := adcFigures(a)
+	st := stageFigures{gain: s.Gain, zero: specZero(s), refInStage: true}
+	termsAt := channelTerms(s, &f, &st)
+	cs := &ChannelScreen{worst: s.Analysis.Method == spec.WorstCase, fsr: a.FullScale(), dT: s.WorstExcursion(),
+		sigmas: s.Analysis.Sigmas, limitE: s.Limits.TotalError, limitD: s.Limits.TotalDrift}
+	for i, vin := range []float64{s.Input.Min, s.Input.Max} {
+		cs.sig[i] = math.Abs(s.Gain*vin) / cs.fsr
+		cs.fixedE[i], cs.fixedD[i] = combine(termsAt(vin), cs.worst)
+	}
+	if a.SharedRef && s.Reference != nil {
+		cs.refShare = math.Abs(st.zero) * (s.Reference.Tolerance + s.Reference.Drift*cs.dT)
+		cs.refShareDrift = math.Abs(st.zero) * s.Reference.Drift
+	}
+	return cs
+}
+
+// Pass reports whether a stage of gain error gainErr (fraction, over the
+// temperature range), output offset offsetV, gain drift driftPPM (ppm/K),
+// offset drift offDriftVK and output noise noiseRMS may meet the channel's
+// limits. A nil screen passes everything.
+func (cs *ChannelScreen) Pass(gainErr, offsetV, driftPPM, offDriftVK, noiseRMS float64) bool {
+	if cs == nil {
+		return true
+	}
+	off := math.Max(0, math.Abs(offsetV)-cs.refShare) / cs.fsr
+	offD := math.Max(0, math.Abs(offDriftVK)-cs.refShareDrift) * cs.dT / cs.fsr
+	noise := cs.sigmas * noiseRMS / cs.fsr
+	for i := range cs.sig {
+		g := math.Abs(gainErr) * cs.sig[i]
+		d := math.Abs(driftPPM) * 1e-6 * cs.dT * cs.sig[i]
+		var e, dr float64
+		if cs.worst {
+			e, dr = g+off+noise+cs.fixedE[i], d+offD+cs.fixedD[i]
+		} else {
+			e = math.Sqrt(g*g + off*off + noise*noise + cs.fixedE[i]*cs.fixedE[i])
+			dr = math.Sqrt(d*d + offD*offD + cs.fixedD[i]*cs.fixedD[i])
+		}
+		// NaN figures pass nothing.
+		if (cs.limitE > 0 && !(e <= cs.limitE)) || (cs.limitD > 0 && !(dr <= cs.limitD)) {
+			return false
+		}
+	}
+	return true
+}

@@ -9,12 +9,15 @@ import (
 // no room for: every design fails it, and the exact budget says why.
 const unreachable = 1e-30
 
-// channelLimits tightens the stage's screening limits with what the
+// channelLimits sets the screening of the channel's total error and
+// tightens the stage's screening limits with what the
 // channel's limits (total_error, total_drift at the ADC) leave the stage
 // (budget.ChannelAllowance): each is necessary for the channel to pass, so
 // the search prunes with them without losing a design the exact budget,
 // which judges the channel itself, would pass.
-func channelLimits(s *spec.Spec, l *Limits) {
+func channelLimits(s *spec.Spec, p *Problem) {
+	p.Channel = budget.NewChannelScreen(s)
+	l := &p.Limits
 	al, ok := budget.ChannelAllowance(s)
 	if !ok {
 		return

@@ -288,7 +288,8 @@ func (s *space) pass(m *metrics) bool {
 		withinMax(m.offset, l.OffsetV) &&
 		withinMax(m.offDrift, l.OffsetDriftVK) &&
 		withinMax(m.noise, l.NoiseDensity) &&
-		withinMax(m.noiseRMS, l.NoiseRMS)
+		withinMax(m.noiseRMS, l.NoiseRMS) &&
+		s.p.Channel.Pass(m.totalErr, m.offset, m.drift, m.offDrift, m.noiseRMS)
 }
 
 // withinMax reports whether |v| meets maximum lim (0: no limit; a NaN v

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"plumb/optimize/budget"
 
 	"plumb/optimize/cost"
 )
@@ -149,7 +150,10 @@ type Problem struct {
 	// the budget (a one-time calibration at TRef); drift and CMRR remain.
 	CalGain, CalOffset bool
 	Limits             Limits
-	Build              cost.Build
+	// Channel screens the channel's limits at the ADC from the stage's
+	// figures (nil: the spec has none); see budget.ChannelScreen.
+	Channel *budget.ChannelScreen
+	Build   cost.Build
 	// SeriesPairs and ParallelPairs allow two values in series or in
 	// parallel at a feedback position (Options.Combos allows both).
 	SeriesPairs, ParallelPairs bool

@@ -366,7 +366,7 @@ func FromSpec(s *spec.Spec) (Problem, error) {
 			return p, fmt.Errorf("%w: families %v: an inverting, non-inverting, divider, current-sense, instrumentation-amplifier or level-shift stage is searched alone", ErrProblem, s.Families)
 		}
 	}
-	channelLimits(s, &p.Limits)
+	channelLimits(s, &p)
 	return p, nil
 }
 
