@@ -356,9 +356,9 @@ func limitNamed(ls []Limit, name string) (Limit, bool) {
 func (e *Evaluator) channelNotes(ch *Channel, res *Result, idealRef bool) {
 	s := e.s
 	a := s.ADC
-	res.Notes = append(res.Notes, fmt.Sprintf("ADC: %d bits over %s..%s, 1 LSB = %s; total error at full scale (input %s, the worse end) %s = %.3g LSB, of which the temperature range adds %s = %.3g LSB",
+	res.Notes = append(res.Notes, fmt.Sprintf("ADC: %d bits over %s..%s, 1 LSB = %s; total error at full scale (input %s, the worse end) %s = %s, of which the temperature range adds %s = %s",
 		a.Bits, FormatFigure(a.Range.Min, "V"), FormatFigure(a.Range.Max, "V"), FormatFigure(ch.LSBV, "V"), FormatFigure(ch.AtInput, inputUnit(s)),
-		FormatFigure(ch.TotalErrorFS, UnitFS), ch.TotalErrorLSB, FormatFigure(ch.TotalDriftFS, UnitFS), ch.TotalDriftLSB))
+		FormatFigure(ch.TotalErrorFS, UnitFS), FormatFigure(ch.TotalErrorLSB, UnitLSB), FormatFigure(ch.TotalDriftFS, UnitFS), FormatFigure(ch.TotalDriftLSB, UnitLSB)))
 	if a.SharedRef {
 		why := "the reference's tolerance and drift cancel from the share of the output it sets and remain on the signal's share (code ∝ Vout/Vref)"
 		if idealRef {
@@ -450,8 +450,8 @@ func (e *Evaluator) channelMC(stage *Result, terms []chanTerm) (errFS, driftFS f
 // a negative one that nothing passes. Offsets are left open when the ADC
 // shares a reference the stage's offset carries (its share cancels there,
 // and a stage's own offset figure still holds it). ok is false when the
-// spec has no ADC or its method is Monte Carlo (whose total is a
-// percentile of summed trials, not bounded by its terms this way).
+// spec has no ADC or no channel limit. Monte Carlo specs are screened in
+// the root-sum-square form, as the search screens their stages.
 type Allowance struct {
 	GainError, OffsetV, DriftPerK, OffsetDriftVK float64
 }
@@ -460,7 +460,7 @@ type Allowance struct {
 // (see Allowance).
 func ChannelAllowance(s *spec.Spec) (al Allowance, ok bool) {
 	a := s.ADC
-	if a == nil || s.Analysis.Method == spec.MonteCarlo || (s.Limits.TotalError <= 0 && s.Limits.TotalDrift <= 0) {
+	if a == nil || (s.Limits.TotalError <= 0 && s.Limits.TotalDrift <= 0) {
 		return al, false
 	}
 	f, _ := adcFigures(a)
@@ -546,10 +546,11 @@ type ChannelScreen struct {
 }
 
 // NewChannelScreen prepares the screening of s's channel limits (nil: the
-// spec has none, or its method is Monte Carlo).
+// spec has none). Monte Carlo specs are screened in the root-sum-square
+// form, as the search screens their stages.
 func NewChannelScreen(s *spec.Spec) *ChannelScreen {
 	a := s.ADC
-	if a == nil || s.Analysis.Method == spec.MonteCarlo || (s.Limits.TotalError <= 0 && s.Limits.TotalDrift <= 0) {
+	if a == nil || (s.Limits.TotalError <= 0 && s.Limits.TotalDrift <= 0) {
 		return nil
 	}
 	f, _ := adcFigures(a)

@@ -324,3 +324,39 @@ amplifier: {vos: 0V, vos_drift: 0uV/K, ib: 0A, ios: 0A, aol: 1e12, gbw: 10MHz, n
 		}
 	}
 }
+
+// TestChannelMonteCarlo: under Monte Carlo the channel's total error is
+// the p99.865 point of per-trial totals, each within the box every term's
+// worst end spans, so it never exceeds the worst-case total of the same
+// design (the triangle inequality) and stays positive; the same seed gives
+// the same figure.
+func TestChannelMonteCarlo(t *testing.T) {
+	snap, err := data.DemoSnapshot()
+	if err != nil {
+		t.Fatal(err)
+	}
+	lookup, err := spec.SnapshotLookup(snap)
+	if err != nil {
+		t.Fatal(err)
+	}
+	d := loadExampleDesign(t, "adc-channel-design.yaml")
+	if err := d.Resolve(lookup); err != nil {
+		t.Fatal(err)
+	}
+	total := func(method string) float64 {
+		s := loadExample(t, "adc-channel.yaml")
+		s.Analysis.Method, s.Analysis.Trials = method, 2000
+		res, err := Evaluate(s, d)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return res.Channel.TotalErrorLSB
+	}
+	wc, mc := total(spec.WorstCase), total(spec.MonteCarlo)
+	if !(mc > 0 && mc <= wc) {
+		t.Errorf("Monte Carlo total %.4g LSB, worst case %.4g LSB: want 0 < MC <= WC", mc, wc)
+	}
+	if again := total(spec.MonteCarlo); again != mc {
+		t.Errorf("seeded Monte Carlo gave %.9g then %.9g LSB", mc, again)
+	}
+}
