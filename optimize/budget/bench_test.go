@@ -4,12 +4,13 @@ import (
 	"strings"
 	"testing"
 
+	"plumb/optimize/family"
 	"plumb/optimize/spec"
 )
 
 func benchEvaluator(b testing.TB, method string) *Evaluator {
 	s := mustSpec(b, strings.Replace(diffSpec(1, method), "25..25C", "-40..85C", 1))
-	e, err := NewEvaluator(s, spec.Difference, spec.Options{})
+	e, err := NewEvaluator(s, family.Difference.Name, spec.Options{})
 	if err != nil {
 		b.Fatal(err)
 	}

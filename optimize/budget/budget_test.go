@@ -8,6 +8,7 @@ import (
 
 	"plumb/catalog"
 
+	"plumb/optimize/family"
 	"plumb/optimize/spec"
 )
 
@@ -111,7 +112,7 @@ func TestDifferenceCMRRWorstCase(t *testing.T) {
 // is about 200 mV (common practice).
 func TestCommonModeErrorRuleOfThumb(t *testing.T) {
 	s := mustSpec(t, diffSpec(1, "worst-case"))
-	e, err := NewEvaluator(s, spec.Difference, spec.Options{})
+	e, err := NewEvaluator(s, family.Difference.Name, spec.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -7,6 +7,7 @@ import (
 	"math/rand/v2"
 
 	"plumb/optimize/assume"
+	"plumb/optimize/family"
 	"plumb/optimize/spec"
 )
 
@@ -382,7 +383,7 @@ func (e *Evaluator) channelNotes(ch *Channel, res *Result, idealRef bool) {
 
 // inputUnit is the unit of the spec's input range.
 func inputUnit(s *spec.Spec) string {
-	if s.HasFamily(spec.CurrentSense) {
+	if s.CurrentInput() {
 		return "A"
 	}
 	return "V"
@@ -517,10 +518,16 @@ func ChannelAllowance(s *spec.Spec) (al Allowance, ok bool) {
 // specZero is the ideal output at zero signal the spec asks for: the
 // level shift's offset, or the reference a referred stage sits on.
 func specZero(s *spec.Spec) float64 {
+	uses := map[family.RefUse]bool{}
+	for _, name := range s.Families {
+		if f := family.Lookup(name); f != nil {
+			uses[f.Reference] = true
+		}
+	}
 	switch {
-	case s.HasFamily(spec.LevelShift):
+	case uses[family.RefShift]:
 		return s.Offset
-	case s.Reference != nil && !s.HasFamily(spec.Inverting) && !s.HasFamily(spec.NonInverting) && !s.HasFamily(spec.Divider):
+	case s.Reference != nil && !uses[family.RefNone]:
 		return s.Reference.V
 	}
 	return 0

@@ -6,6 +6,7 @@ import (
 	"strings"
 	"testing"
 
+	"plumb/optimize/family"
 	"plumb/optimize/spec"
 )
 
@@ -74,7 +75,7 @@ reference: {voltage: 2.5V}`, "family: level-shift\npositions:\n  R1: " + res("80
 				}
 			}
 			if c.name == "level-shift" {
-				e, _ := NewEvaluator(s, spec.LevelShift, spec.Options{})
+				e, _ := NewEvaluator(s, family.LevelShift.Name, spec.Options{})
 				cand, _ := CandidateOf(e, mustDesign(t, c.design))
 				if err := e.SetCandidate(cand); err != nil {
 					t.Fatal(err)
@@ -108,7 +109,7 @@ supply: ±15V
 temperature: {range: -40..85C}
 limits: {gain_error: 1%, cmrr: 40dB, gain_drift: 100ppm/K}
 `)
-	e, err := NewEvaluator(s, spec.Difference, spec.Options{})
+	e, err := NewEvaluator(s, family.Difference.Name, spec.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -9,6 +9,7 @@ import (
 	"strings"
 	"testing"
 
+	"plumb/optimize/family"
 	"plumb/optimize/spec"
 )
 
@@ -105,7 +106,7 @@ func TestMonteCarloReproducible(t *testing.T) {
 // (1+G)/(2r) for ratio tolerance r (domain notes §2).
 func TestNetworkCorrelation(t *testing.T) {
 	s := mustSpec(t, diffSpec(1, "worst-case"))
-	e, err := NewEvaluator(s, spec.Difference, spec.Options{})
+	e, err := NewEvaluator(s, family.Difference.Name, spec.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}

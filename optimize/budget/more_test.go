@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"plumb/catalog"
+	"plumb/optimize/family"
 	"plumb/optimize/spec"
 )
 
@@ -68,7 +69,7 @@ supply: ±15V
 temperature: {range: -40..85C}
 limits: {gain_error: 1%, cmrr: 60dB}
 `)
-	e, err := NewEvaluator(s, spec.Matched, spec.Options{})
+	e, err := NewEvaluator(s, family.Matched.Name, spec.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -109,7 +110,7 @@ supply: ±15V
 temperature: {range: -40..85C}
 limits: {output_offset: 10mV}
 `)
-	e, err := NewEvaluator(s, spec.Matched, spec.Options{})
+	e, err := NewEvaluator(s, family.Matched.Name, spec.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -142,7 +143,7 @@ limits: {output_offset: 10mV}
 // 85 C (60 K from 25 C, common practice arithmetic) and by zero at 25 C.
 func TestGainErrorVsTemperature(t *testing.T) {
 	s, d := inverting(t, "0%", "25ppm/K", "-35..85C", "")
-	e, err := NewEvaluator(s, spec.Inverting, spec.Options{})
+	e, err := NewEvaluator(s, family.Inverting.Name, spec.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"plumb/catalog"
+	"plumb/optimize/family"
 	"plumb/optimize/spec"
 )
 
@@ -48,7 +49,7 @@ func TestScoreDriftMatchesEnumeration(t *testing.T) {
 		spec   string
 		values func() []float64
 	}{
-		{"inverting with source and load", spec.Inverting, `name: t
+		{"inverting with source and load", family.Inverting.Name, `name: t
 about: property
 family: inverting
 gain: -3
@@ -59,7 +60,7 @@ load: {resistance: 1k}
 temperature: {range: -40..85C}
 limits: {gain_error: 50%}
 `, pair},
-		{"non-inverting", spec.NonInverting, `name: t
+		{"non-inverting", family.NonInverting.Name, `name: t
 about: property
 family: noninverting
 gain: 4
@@ -69,7 +70,7 @@ source_impedance: 5k
 temperature: {range: -55..125C}
 limits: {gain_error: 50%}
 `, pair},
-		{"difference", spec.Difference, `name: t
+		{"difference", family.Difference.Name, `name: t
 about: property
 family: difference
 gain: 2
@@ -82,7 +83,7 @@ limits: {gain_error: 50%, cmrr: 10dB}
 			a, b := 1e3*(1+99*r.Float64()), 1e3*(1+99*r.Float64())
 			return []float64{a, 2 * a * (1 + 0.01*r.NormFloat64()), b, 2 * b * (1 + 0.01*r.NormFloat64())}
 		}},
-		{"current sense", spec.CurrentSense, `name: t
+		{"current sense", family.CurrentSense.Name, `name: t
 about: property
 family: current-sense
 gain: 0.5V/A

@@ -12,6 +12,7 @@ import (
 	"testing"
 
 	"plumb/optimize/circuit"
+	"plumb/optimize/family"
 	"plumb/optimize/spec"
 )
 
@@ -22,7 +23,7 @@ import (
 func TestCornerAgainstNgspice(t *testing.T) {
 	path := ngspicePath(t)
 	s := mustSpec(t, diffSpec(1, "worst-case"))
-	e, err := NewEvaluator(s, spec.Difference, spec.Options{})
+	e, err := NewEvaluator(s, family.Difference.Name, spec.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -20,6 +20,7 @@ var CurrentSense = &Family{
 	Reference:   RefOutput,
 	Allows:      AllowRefDivider | AllowRefImpedance,
 	GainProblem: positiveGain,
+	Search:      Search{Strategy: Shunt, As: Difference, OpAmps: 1},
 	Netlist: func(b Builder, o Options) error {
 		b.Source("vbus", "sn", 12)
 		b.Current("isense", "0", "sp", 1)

@@ -1,5 +1,7 @@
 package family
 
+import "math"
+
 // Difference is the difference amplifier: one op-amp and four resistors
 // (discrete, or a matched four-element network):
 //
@@ -25,6 +27,30 @@ var Difference = &Family{
 	Reference:   RefOutput,
 	Allows:      AllowRefDivider | AllowSourceImpedance | AllowRefImpedance,
 	GainProblem: positiveGain,
+	Search: Search{OpAmps: 1, Networks: true, Ratio: &Ratio{
+		Rg: []string{"R1", "R3"}, Rf: []string{"R2", "R4"}, PerRg: 2, PerRf: 2,
+		Of:           func(g float64) float64 { return g },
+		Gain:         func(k float64) float64 { return k },
+		Sens:         func(float64) float64 { return 1 },
+		Mult:         func(_, m float64) float64 { return m },
+		NoiseGain:    func(k float64) float64 { return 1 + k },
+		FourResistor: true, SourceInRg: true,
+		Voltages: func(k, vd, vcm, ref float64) (float64, float64) {
+			vm, vp := vcm-vd/2, vcm+vd/2
+			pin := vp*k/(1+k) + ref/(1+k)
+			out := k*vd + ref
+			return math.Max(math.Abs(vm-pin), math.Abs(vp-pin)), math.Max(math.Abs(pin-out), math.Abs(pin-ref))
+		},
+		Pin: func(k, vd, vcm, ref float64) float64 { return (vcm+vd/2)*k/(1+k) + ref/(1+k) },
+		Out: referredOut,
+		// Driven differentially (V± = Vcm ± Vd/2) the inverting input draws
+		// (V- - Vpin)/R1 with the pin following V+·k/(1+k), so it looks like
+		// R1·(1+k)/(1+2k); the non-inverting input is R3 + R4.
+		Zin: func(rg, rf float64) float64 {
+			k := rf / rg
+			return math.Min(rg*(1+k)/(1+2*k), rg+rf)
+		},
+	}},
 	Netlist: func(b Builder, o Options) error {
 		inp := input(b, "vp", "Rsrcp", 0, o.SourceImpedance)
 		inn := input(b, "vn", "Rsrcn", 0, o.SourceImpedance)
@@ -33,6 +59,10 @@ var Difference = &Family{
 		return nil
 	},
 }
+
+// referredOut is the ideal output of a stage referred to its reference,
+// G·Vd + Vref.
+func referredOut(g, vd, ref float64) float64 { return g*vd + ref }
 
 // positiveGain refuses a gain that is not positive: a stage whose sign
 // follows from which input is which.

@@ -1,5 +1,7 @@
 package family
 
+import "math"
+
 // Divider is the resistive divider, unbuffered or with a unity-gain
 // follower after its tap; the load's leakage current "iload" leaves the
 // output:
@@ -21,6 +23,22 @@ var Divider = &Family{
 		}
 		return ""
 	},
+	Search: Search{Ratio: &Ratio{
+		Rg: []string{"Rbot"}, Rf: []string{"Rtop"}, PerRg: 1, PerRf: 1,
+		Of:        func(g float64) float64 { return (1 - g) / g },
+		Gain:      func(k float64) float64 { return 1 / (1 + k) },
+		Sens:      func(k float64) float64 { return k / (1 + k) },
+		Mult:      func(k, m float64) float64 { return (1 + k) / (1 + k*m) },
+		NoiseGain: func(float64) float64 { return 1 },
+		Passive:   true, SourceInRf: true, LoadAcrossRg: true,
+		Voltages: func(k, vd, _, _ float64) (float64, float64) {
+			out := vd / (1 + k)
+			return math.Abs(out), math.Abs(vd - out)
+		},
+		Pin: func(k, vd, _, _ float64) float64 { return vd / (1 + k) },
+		Out: func(g, vd, _ float64) float64 { return g * vd },
+		Zin: func(rg, rf float64) float64 { return rg + rf },
+	}},
 	Netlist: func(b Builder, o Options) error {
 		in := input(b, "vin", "Rsrc", 10, o.SourceImpedance)
 		tap := "out"

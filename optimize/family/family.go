@@ -141,12 +141,114 @@ type Family struct {
 	// GainProblem says why the spec's gain g cannot be made by the family
 	// ("" when it can).
 	GainProblem func(g float64) string
+	// Search is how the search walks the family's designs.
+	Search Search
 	// Netlist builds the family's topology with options o on b, with
 	// nominal values that give a working circuit of typical gain (callers
 	// overwrite them with a design's values). Nil for a family that is one
 	// catalog part (an amplifier with matched resistors inside), whose
 	// budget comes from its data sheet.
 	Netlist func(b Builder, o Options) error
+}
+
+// Strategy is the shape of a family's search space.
+type Strategy int
+
+// Strategies.
+const (
+	// RatioPair: every position takes one of two values, Rg and Rf, each of
+	// one resistor grade (or a matched four-element network when
+	// Search.Networks), and the gain is set by k = Rf/Rg (Search.Ratio).
+	RatioPair Strategy = iota
+	// TwoStage: an input stage set by k = Rf/Rg (Search.Ratio) and a
+	// second stage of gain R2/R1 searched exactly per second-stage gain.
+	TwoStage
+	// ShiftNetwork: an input network of three values R1, R2, R3 that sets
+	// slope and offset from the reference, and a feedback pair Rg = Rf.
+	ShiftNetwork
+	// Shunt: a shunt from the catalog, then the family Search.As for each
+	// shunt value with the limits less the shunt's share.
+	Shunt
+	// Part: one catalog part (an amplifier with matched resistors inside)
+	// at one of its gains, walked alongside the circuit of Search.As.
+	Part
+)
+
+// Search is what the search needs of a family beyond its netlist: the
+// shape of its space and the screening model of its ratio.
+type Search struct {
+	Strategy Strategy
+	// As is the family whose space a Shunt or Part family is walked in
+	// (nil: the family itself).
+	As *Family
+	// Networks: the stage may sit on a matched four-element network from
+	// the catalog instead of discrete resistors.
+	Networks bool
+	// Op-amps is the number of op-amps of the stage (0: passive).
+	OpAmps int
+	// Ratio is the screening model of the gain-setting ratio (RatioPair
+	// and TwoStage).
+	Ratio *Ratio
+}
+
+// Ratio is the screening model of a stage whose gain the ratio k = Rf/Rg
+// of its two values sets: pure functions of k and the spec's figures that
+// the search's screening, bounds and ratings use (each family's doc
+// comment gives the equations and sources). The exact budget never uses
+// them: it solves the netlist.
+type Ratio struct {
+	// Rg and Rf are the positions that take the Rg and the Rf value, and
+	// PerRg, PerRf how many placements each value has per stage.
+	Rg, Rf       []string
+	PerRg, PerRf int
+	// Of is the ratio k that makes gain magnitude g (of the input stage,
+	// for TwoStage: g over the second stage's gain).
+	Of func(g float64) float64
+	// Gain is the ideal gain magnitude at ratio k.
+	Gain func(k float64) float64
+	// Sens is the magnitude of the gain's sensitivity to the ratio,
+	// (k/G)·dG/dk.
+	Sens func(k float64) float64
+	// Mult is the exact factor by which the ideal gain moves when k is
+	// multiplied by m.
+	Mult func(k, m float64) float64
+	// NoiseGain is the gain the amplifier's offset and noise see, 1 + k
+	// for a single op-amp stage.
+	NoiseGain func(k float64) float64
+	// Inverts: the output is -G times the input.
+	Inverts bool
+	// FourResistor: two ratios R2/R1 and R4/R3 of one value pair, driven
+	// differentially: their mismatch sets a CMRR, the bias currents act
+	// through matched impedances (offset Ios·Rf∥Rg + Ib·Rf∥Rg·2t) and both
+	// inputs add resistor noise.
+	FourResistor bool
+	// Passive: no amplifier; the load's leakage stands in for its bias
+	// current and the bandwidth is the source's and the load's.
+	Passive bool
+	// SourceInRg: the spec's source resistance adds to Rg (the input
+	// resistor); SourceInRf: to Rf (a divider's top). LoadAcrossRg: the
+	// spec's load is in parallel with Rg (a divider's bottom).
+	SourceInRg, SourceInRf, LoadAcrossRg bool
+	// Voltages returns the voltages across an Rg and an Rf position at
+	// ratio k for input vd (differential or single ended), common mode vcm
+	// and reference ref.
+	Voltages func(k, vd, vcm, ref float64) (vg, vf float64)
+	// Pin returns the voltage at the op-amp's input pins.
+	Pin func(k, vd, vcm, ref float64) float64
+	// Out returns the ideal output for input vd at gain magnitude g and
+	// reference ref.
+	Out func(g, vd, ref float64) float64
+	// Zin returns the smallest input impedance the source sees with values
+	// rg and rf (+Inf where the input is an op-amp pin).
+	Zin func(rg, rf float64) float64
+}
+
+// SearchFamily returns the family whose space f is walked in.
+func (f *Family) SearchFamily() *Family {
+	if f.Search.As != nil {
+		return f.Search.As
+	}
+	return f
 }
 
 // Build builds f's netlist with options o on b, after checking the options

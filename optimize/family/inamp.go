@@ -1,5 +1,7 @@
 package family
 
+import "math"
+
 // InAmp is the three-op-amp instrumentation amplifier: two non-inverting
 // input amplifiers sharing Rg (gain 1 + 2Rf/Rg on the difference, unity on
 // the common mode), then a difference amplifier R1..R4 (discrete or a
@@ -26,6 +28,19 @@ var InAmp = &Family{
 		}
 		return ""
 	},
+	Search: Search{Strategy: TwoStage, Networks: true, OpAmps: 3, Ratio: &Ratio{
+		Rg: []string{"Rg"}, Rf: []string{"Rf1", "Rf2"}, PerRg: 1, PerRf: 2,
+		// 1 + 2Rf/Rg = G/k2 (the search passes the first stage's gain).
+		Of:        func(g float64) float64 { return (g - 1) / 2 },
+		Gain:      func(k float64) float64 { return 1 + 2*k },
+		Sens:      func(k float64) float64 { return 2 * k / (1 + 2*k) },
+		Mult:      func(k, m float64) float64 { return (1 + 2*k*m) / (1 + 2*k) },
+		NoiseGain: func(k float64) float64 { return 1 + 2*k },
+		// Rg carries the input difference, each Rf k times it.
+		Voltages: func(k, vd, _, _ float64) (float64, float64) { return math.Abs(vd), math.Abs(k * vd) },
+		Out:      referredOut,
+		Zin:      func(float64, float64) float64 { return math.Inf(1) },
+	}},
 	Netlist: func(b Builder, o Options) error {
 		inp := input(b, "vp", "Rsrcp", 0, o.SourceImpedance)
 		inn := input(b, "vn", "Rsrcn", 0, o.SourceImpedance)

@@ -1,5 +1,7 @@
 package family
 
+import "math"
+
 // Inverting is the inverting amplifier, one op-amp and two resistors:
 //
 //	vin --[Rsrc]-- in --[Rg]-- m --[Rf]-- out --[Rload]-- 0
@@ -22,6 +24,22 @@ var Inverting = &Family{
 		}
 		return ""
 	},
+	Search: Search{OpAmps: 1, Ratio: &Ratio{
+		Rg: []string{"Rg"}, Rf: []string{"Rf"}, PerRg: 1, PerRf: 1,
+		Of:        func(g float64) float64 { return g },
+		Gain:      func(k float64) float64 { return k },
+		Sens:      func(float64) float64 { return 1 },
+		Mult:      func(_, m float64) float64 { return m },
+		NoiseGain: func(k float64) float64 { return 1 + k },
+		Inverts:   true, SourceInRg: true,
+		Voltages: func(k, vd, _, ref float64) (float64, float64) {
+			out := ref - k*(vd-ref)
+			return math.Abs(vd - ref), math.Abs(out - ref)
+		},
+		Pin: func(_, _, _, ref float64) float64 { return ref },
+		Out: func(g, vd, ref float64) float64 { return ref - g*(vd-ref) },
+		Zin: func(rg, _ float64) float64 { return rg },
+	}},
 	Netlist: func(b Builder, o Options) error {
 		in := input(b, "vin", "Rsrc", 1, o.SourceImpedance)
 		b.Source("vref", "vref", 0)

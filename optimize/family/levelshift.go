@@ -30,6 +30,7 @@ var LevelShift = &Family{
 	OutputRange: true,
 	Allows:      AllowSourceImpedance | AllowRefImpedance | AllowOffsetToInverting,
 	GainProblem: positiveGain,
+	Search:      Search{Strategy: ShiftNetwork, OpAmps: 1},
 	Netlist: func(b Builder, o Options) error {
 		in := input(b, "vin", "Rsrc", 0, o.SourceImpedance)
 		b.Source("vref", "vref", 2.5)

@@ -13,4 +13,5 @@ var Matched = &Family{
 	Input:       Differential,
 	Reference:   RefOutput,
 	GainProblem: positiveGain,
+	Search:      Search{Strategy: Part, As: Difference, OpAmps: 1},
 }

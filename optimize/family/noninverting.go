@@ -1,5 +1,7 @@
 package family
 
+import "math"
+
 // NonInverting is the non-inverting amplifier, one op-amp and two
 // resistors; the input drives the op-amp's pin directly, so its range must
 // lie within the rails:
@@ -24,6 +26,22 @@ var NonInverting = &Family{
 		}
 		return ""
 	},
+	Search: Search{OpAmps: 1, Ratio: &Ratio{
+		Rg: []string{"Rg"}, Rf: []string{"Rf"}, PerRg: 1, PerRf: 1,
+		Of:        func(g float64) float64 { return g - 1 },
+		Gain:      func(k float64) float64 { return 1 + k },
+		Sens:      func(k float64) float64 { return k / (1 + k) },
+		Mult:      func(k, m float64) float64 { return (1 + k*m) / (1 + k) },
+		NoiseGain: func(k float64) float64 { return 1 + k },
+		Voltages: func(k, vd, _, ref float64) (float64, float64) {
+			out := (1+k)*vd - k*ref
+			return math.Abs(vd - ref), math.Abs(out - vd)
+		},
+		Pin: func(_, vd, _, _ float64) float64 { return vd },
+		// Rg returns to the reference: Vout = G·Vin - (G-1)·Vref.
+		Out: func(g, vd, ref float64) float64 { return g*vd - (g-1)*ref },
+		Zin: func(float64, float64) float64 { return math.Inf(1) },
+	}},
 	Netlist: func(b Builder, o Options) error {
 		in := input(b, "vin", "Rsrc", 0.1, o.SourceImpedance)
 		b.Source("vref", "vref", 0)

@@ -8,6 +8,7 @@ import (
 
 	"plumb/catalog"
 	"plumb/optimize/cost"
+	"plumb/optimize/family"
 	"plumb/optimize/spec"
 )
 
@@ -125,7 +126,7 @@ func BenchmarkExhaustiveVsSearch(b *testing.B) {
 // benchSpec is benchProblem as a spec, so that Solve also confirms the
 // designs with the exact budget.
 func benchSpec() *spec.Spec {
-	return &spec.Spec{Name: "bench", Families: []string{spec.Difference, spec.Matched}, Gain: 10,
+	return &spec.Spec{Name: "bench", Families: []string{family.Difference.Name, family.Matched.Name}, Gain: 10,
 		Input: spec.Range{Min: -1, Max: 1}, Differential: true, CommonMode: spec.Range{Min: -5, Max: 5},
 		Supply: spec.Range{Min: -15, Max: 15}, Temp: spec.Range{Min: -40, Max: 85}, TempRef: 25,
 		Limits:   spec.Limits{GainError: 0.005, CMRRdB: 70, GainDrift: 25e-6, OutputOffsetV: 0.01},

@@ -10,6 +10,7 @@ import (
 
 	"plumb/catalog"
 	"plumb/optimize/cost"
+	"plumb/optimize/family"
 )
 
 // space is the prepared search space of one problem: resistor groups,
@@ -69,11 +70,11 @@ type option struct {
 
 func newSpace(ctx context.Context, parts *Parts, p *Problem, combos bool) (*space, error) {
 	s := &space{p: p, rss: p.Method != WorstCase, k: p.ratio(), w: p.window(), dT: p.deltaT(), tempK: p.TMax + 273.15, series: combos || p.SeriesPairs, parallel: combos || p.ParallelPairs, perG: 1, perF: 1}
-	switch p.Circuit {
-	case Difference:
-		s.perG, s.perF = 2, 2
-	case InAmp:
-		s.perF, s.k2 = 2, p.stage2Gain()
+	if r := s.model(); r != nil {
+		s.perG, s.perF = r.PerRg, r.PerRf
+	}
+	if s.p.strategy() == family.TwoStage {
+		s.k2 = p.stage2Gain()
 	}
 	fams := map[Family]bool{}
 	for _, f := range p.families() {
@@ -84,7 +85,9 @@ func newSpace(ctx context.Context, parts *Parts, p *Problem, combos bool) (*spac
 	}
 	s.ratingVoltages()
 	var err error
-	disc := fams[DiscreteDifference] || fams[DiscreteNonInverting] || fams[DiscreteInverting] || fams[DiscreteDivider] || fams[DiscreteInAmp] || fams[NetworkInAmp] || fams[DiscreteLevelShift]
+	// Discrete resistors: the discrete build, and every build of a
+	// two-stage circuit (its first stage is discrete).
+	disc := fams[variant(s.p.family(), buildDiscrete)] || (s.p.strategy() == family.TwoStage && fams[variant(s.p.family(), buildNetwork)])
 	if disc {
 		if s.groups, err = buildGroups(ctx, parts, p); err != nil {
 			return nil, err
@@ -94,13 +97,12 @@ func newSpace(ctx context.Context, parts *Parts, p *Problem, combos bool) (*spac
 	if err := s.checkCurrency(parts); err != nil {
 		return nil, err
 	}
-	famDisc := map[Circuit]Family{Difference: DiscreteDifference, NonInverting: DiscreteNonInverting,
-		Inverting: DiscreteInverting, Divider: DiscreteDivider}[p.Circuit]
-	if p.Circuit == InAmp {
+	famDisc := variant(s.p.family(), buildDiscrete)
+	switch s.p.strategy() {
+	case family.TwoStage:
 		s.inampConfigs(parts, fams)
 		return s, nil
-	}
-	if p.Circuit == LevelShift {
+	case family.ShiftNetwork:
 		s.levelShiftConfigs()
 		return s, nil
 	}
@@ -119,7 +121,7 @@ func newSpace(ctx context.Context, parts *Parts, p *Problem, combos bool) (*spac
 			}
 		}
 	}
-	if fams[NetworkDifference] && p.Circuit == Difference {
+	if fams[variant(s.p.family(), buildNetwork)] {
 		s.networkConfigs(parts)
 	}
 	return s, nil
@@ -174,33 +176,18 @@ func (s *space) checkCurrency(parts *Parts) error {
 // over the corners of the input and common-mode ranges, at the target ratio.
 func (s *space) ratingVoltages() {
 	p, k := s.p, s.k
+	if s.model() == nil {
+		return // a level shift rates its network itself
+	}
 	for _, vcm := range []float64{p.CMMin, p.CMMax} {
 		for _, vd := range []float64{p.InMin, p.InMax} {
-			var vg, vf float64
-			switch p.Circuit {
-			case Difference:
-				vm, vp := vcm-vd/2, vcm+vd/2
-				pin := vp*k/(1+k) + p.Ref/(1+k)
-				out := k*vd + p.Ref
-				vg = math.Max(math.Abs(vm-pin), math.Abs(vp-pin))
-				vf = math.Max(math.Abs(pin-out), math.Abs(pin-p.Ref))
-			case NonInverting:
-				out := (1+k)*vd - k*p.Ref
-				vg, vf = math.Abs(vd-p.Ref), math.Abs(out-vd)
-			case Inverting:
-				out := p.Ref - k*(vd-p.Ref)
-				vg, vf = math.Abs(vd-p.Ref), math.Abs(out-p.Ref)
-			case Divider:
-				out := vd / (1 + k)
-				vg, vf = math.Abs(out), math.Abs(vd-out)
-			case InAmp:
-				// Rg carries the input difference, each Rf k times it; the
-				// second stage sees the first stage's outputs.
+			vg, vf := s.model().Voltages(k, vd, vcm, p.Ref)
+			if s.p.strategy() == family.TwoStage {
+				// The second stage sees the first stage's outputs.
 				k2 := p.stage2Gain()
 				o1, o2 := vcm+(1+2*k)*vd/2, vcm-(1+2*k)*vd/2
 				pin := o1*k2/(1+k2) + p.Ref/(1+k2)
 				out := p.Gain*vd + p.Ref
-				vg, vf = math.Abs(vd), math.Abs(k*vd)
 				s.v1 = math.Max(s.v1, math.Max(math.Abs(o2-pin), math.Abs(o1-pin)))
 				s.v2 = math.Max(s.v2, math.Max(math.Abs(pin-out), math.Abs(pin-p.Ref)))
 			}
@@ -232,22 +219,10 @@ func (s *space) ratingOK(powerW, maxV, r, v float64) bool {
 	return maxV == 0 || v <= maxV*ratingSlack
 }
 
-// zinOK checks the input impedance the source sees. For the difference
-// amplifier driven differentially (V± = Vcm ± Vd/2) the inverting input
-// draws (V- - Vpin)/R1 with the pin following V+·k/(1+k), so that input
-// looks like R1·(1+k)/(1+2k) (k = R2/R1); the non-inverting input is R3+R4.
+// zinOK checks the input impedance the source sees with values rg and rf
+// (family.Ratio.Zin).
 func (s *space) zinOK(rg, rf float64) bool {
-	z := s.p.ZinMinOhm
-	switch s.p.Circuit {
-	case Difference:
-		k := rf / rg
-		return rg*(1+k)/(1+2*k) >= z && rg+rf >= z
-	case Inverting:
-		return rg >= z
-	case Divider:
-		return rg+rf >= z
-	}
-	return true
+	return s.model().Zin(rg, rf) >= s.p.ZinMinOhm
 }
 
 // assembly is the placement and line-item cost of a resistor set.
@@ -307,7 +282,7 @@ func (s *space) networkConfigs(parts *Parts) {
 				s.nets = append(s.nets, n)
 				added = true
 			}
-			c := config{fam: NetworkDifference, ga: -1, gb: -1, net: len(s.nets) - 1, na: a, nb: b,
+			c := config{fam: variant(s.p.family(), buildNetwork), ga: -1, gb: -1, net: len(s.nets) - 1, na: a, nb: b,
 				g: networkGrades(n.RatioTolerance, n.TCRTracking, s.dT)}
 			c.costLB = ext + s.assembly(1, 1)
 			c.opts = []option{{k0: k0, rp: rp, rg: -1, rf: -1, rf2: -1, cost: c.costLB, short: short}}
@@ -329,7 +304,7 @@ func (s *space) options(c *config) []option {
 		return c.opts
 	}
 	c.built = true
-	if s.p.Circuit == LevelShift {
+	if s.p.strategy() == family.ShiftNetwork {
 		s.levelShiftOptions(c)
 		// Among equal costs, R1 nearest the middle of the resistor window
 		// first: the input network neither loads the source and the
@@ -524,15 +499,15 @@ func (s *space) pairOptions(c *config, ga, gb *group, i, jx int, rg, want, bestE
 // series with the input resistors (difference, inverting: Rg + Rs; divider:
 // Rtop + Rs) and a divider's load in parallel with Rbot.
 func (s *space) effective(rg, rf float64) (k0, rp float64) {
-	p := s.p
-	switch p.Circuit {
-	case Difference, Inverting:
+	p, r := s.p, s.model()
+	switch {
+	case r.SourceInRg:
 		rg += p.SourceOhm
-	case Divider:
+	case r.SourceInRf:
 		rf += p.SourceOhm
-		if p.LoadOhm > 0 {
-			rg = rg * p.LoadOhm / (rg + p.LoadOhm)
-		}
+	}
+	if r.LoadAcrossRg && p.LoadOhm > 0 {
+		rg = rg * p.LoadOhm / (rg + p.LoadOhm)
 	}
 	return rf / rg, rg * rf / (rg + rf)
 }
@@ -547,20 +522,16 @@ func (s *space) effective(rg, rf float64) (k0, rp float64) {
 // largest Rbot give the largest dilution, the optimistic figures a bound
 // needs. Without a source or load both are 1.
 func (s *space) dilution(rg, rf float64) (dg, df float64) {
-	p := s.p
+	p, r := s.p, s.model()
 	dg, df = 1, 1
-	switch p.Circuit {
-	case Difference, Inverting:
-		if p.SourceOhm > 0 && rg > 0 {
-			dg = rg / (rg + p.SourceOhm)
-		}
-	case Divider:
-		if p.SourceOhm > 0 && rf > 0 {
-			df = rf / (rf + p.SourceOhm)
-		}
-		if p.LoadOhm > 0 && rg > 0 {
-			dg = p.LoadOhm / (rg + p.LoadOhm)
-		}
+	if r.SourceInRg && p.SourceOhm > 0 && rg > 0 {
+		dg = rg / (rg + p.SourceOhm)
+	}
+	if r.SourceInRf && p.SourceOhm > 0 && rf > 0 {
+		df = rf / (rf + p.SourceOhm)
+	}
+	if r.LoadAcrossRg && p.LoadOhm > 0 && rg > 0 {
+		dg = p.LoadOhm / (rg + p.LoadOhm)
 	}
 	return dg, df
 }
@@ -576,7 +547,8 @@ func (s *space) classDilution(ga, gb *group) (dg, df float64) {
 	if s.parallel {
 		rf /= 2
 	}
-	if s.p.Circuit == Divider {
+	if s.model().LoadAcrossRg {
+		// The largest Rg dilutes most under the load.
 		rg = ga.values[len(ga.values)-1]
 	}
 	return s.dilution(rg, rf)
@@ -617,18 +589,27 @@ func (s *space) optGrades(c *config, o *option) *grades {
 // target is the Rf (divider: Rtop) value that gives the target ratio with
 // Rg = rg, the inverse of effective.
 func (s *space) target(rg float64) float64 {
-	p := s.p
-	switch p.Circuit {
-	case Difference, Inverting:
+	p, r := s.p, s.model()
+	if r.LoadAcrossRg && p.LoadOhm > 0 {
+		rg = rg * p.LoadOhm / (rg + p.LoadOhm)
+	}
+	switch {
+	case r.SourceInRg:
 		return s.k * (rg + p.SourceOhm)
-	case Divider:
-		if p.LoadOhm > 0 {
-			rg = rg * p.LoadOhm / (rg + p.LoadOhm)
-		}
+	case r.SourceInRf:
 		return math.Max(s.k*rg-p.SourceOhm, 0)
 	}
 	return s.k * rg
 }
+
+// model is the screening model of the circuit's ratio (nil for a level
+// shift).
+func (s *space) model() *family.Ratio { return s.p.family().Search.Ratio }
+
+// pairNetwork reports whether configuration c puts a ratio pair on a
+// matched network (a two-stage circuit's network configurations carry
+// discrete first stages).
+func (s *space) pairNetwork(c *config) bool { return c.net >= 0 && s.p.strategy() == family.RatioPair }
 
 // quant is the ratio quantization |k0/k - 1| of values rg and rf.
 func (s *space) quant(rg, rf float64) float64 {
@@ -641,7 +622,7 @@ func (s *space) quant(rg, rf float64) float64 {
 func (s *space) resetOptions() {
 	s.gainFrom = nil
 	for i := range s.cfgs {
-		if s.cfgs[i].fam != NetworkDifference {
+		if !s.pairNetwork(&s.cfgs[i]) {
 			s.cfgs[i].opts, s.cfgs[i].built = s.cfgs[i].opts[:0], false
 		}
 	}

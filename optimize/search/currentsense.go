@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strings"
 
@@ -99,7 +100,7 @@ func shuntCandidates(ctx context.Context, parts *Parts, p *Problem) ([]shunt, er
 // a limit.
 func senseProblem(p Problem, sh *shunt) (Problem, bool) {
 	q := p
-	q.Circuit = Difference
+	q.Circuit = Circuit(p.family().SearchFamily().Name)
 	v := sh.value
 	q.Gain = p.Gain / v
 	q.InMin, q.InMax = p.InMin*v, p.InMax*v
@@ -144,11 +145,11 @@ func combine(method Method, e, es float64) float64 {
 
 // withShunt adds shunt sh to a design of the difference amplifier behind it.
 func withShunt(p *Problem, d Design, sd *spec.Design, sh *shunt) (Design, *spec.Design) {
-	d.Family = "current-sense-" + d.Family[len("difference-"):]
+	d.Family = string(p.family().Name) + strings.TrimPrefix(d.Family, p.family().SearchFamily().Name)
 	d.TotalCost += sh.cost
 	d.UnitCost = d.TotalCost / float64(p.Build.Quantity)
 	q, unit, _, _ := buyLine(p, &sh.offer)
-	d.Parts = append([]Part{{Position: "Rs", Kind: string(catalog.KindResistor), Part: sh.part, Quantity: 1, Bought: q,
+	d.Parts = append([]Part{{Position: p.family().Shunt, Kind: string(catalog.KindResistor), Part: sh.part, Quantity: 1, Bought: q,
 		UnitPrice: unit, ValueOhm: sh.value, Tolerance: sh.grade.Tolerance, TCRppm: sh.grade.TCR}}, d.Parts...)
 	m := d.Metrics
 	eT, e0 := sh.err, sh.errT0
@@ -167,9 +168,9 @@ func withShunt(p *Problem, d Design, sd *spec.Design, sh *shunt) (Design, *spec.
 		d.Binding = bl.Name
 	}
 	sd2 := *sd
-	sd2.Family = spec.CurrentSense
+	sd2.Family = p.family().Name
 	g := sh.grade
-	sd2.Positions = append([]spec.Position{{Name: "Rs", Elements: []spec.Element{{Part: sh.part, Ohm: sh.value, Tolerance: g.Tolerance,
+	sd2.Positions = append([]spec.Position{{Name: p.family().Shunt, Elements: []spec.Element{{Part: sh.part, Ohm: sh.value, Tolerance: g.Tolerance,
 		TCR: g.TCR * 1e-6, PowerW: g.PowerW, MaxVoltageV: g.MaxVoltageV, ThermalResistance: g.ThermalResistance, LoadLife: g.LoadLife, Resolved: true}}}},
 		sd.Positions...)
 	sortPositions(sd2.Positions)
@@ -235,7 +236,12 @@ func solveCurrentSense(ctx context.Context, parts *Parts, p Problem, opt Options
 		if !ok {
 			continue
 		}
-		q.Families = []Family{DiscreteDifference, NetworkDifference}
+		q.Families = nil // every build of the circuit behind the shunt but an integrated part's
+		for _, b := range q.builds() {
+			if !slices.Contains(q.partBuilds(), b) {
+				q.Families = append(q.Families, b)
+			}
+		}
 		r, err := solve(ctx, parts, q, Options{Top: keep, Combos: opt.Combos, quick: opt.quick}, nil, exhaustive)
 		if errors.Is(err, ErrProblem) {
 			continue

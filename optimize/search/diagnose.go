@@ -526,7 +526,7 @@ func hardCauses(parts *Parts, p *Problem) []string {
 	v := func(x float64) string { return budget.FormatFigure(x, "V") }
 	var out []string
 	olo, ohi := outRange(p)
-	if p.Circuit == Divider {
+	if r := p.family().Search.Ratio; r != nil && r.Passive {
 		if olo < p.SupplyNeg || ohi > p.SupplyPos {
 			out = append(out, fmt.Sprintf("the output spans %s..%s, outside the supply %s..%s: widen the supply or narrow the input range", v(olo), v(ohi), v(p.SupplyNeg), v(p.SupplyPos)))
 		}

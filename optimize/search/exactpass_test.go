@@ -6,6 +6,7 @@ import (
 	"math/rand/v2"
 	"testing"
 
+	"plumb/optimize/family"
 	"plumb/optimize/spec"
 )
 
@@ -35,7 +36,7 @@ func TestDilutionMatchesDirectRatio(t *testing.T) {
 // resistors' tolerance: R1 = R3 = 1k, R2 = R4 = 20k (0.01 %, 2 ppm/K) on
 // KA-PB7 reach 83.3 dB against 83 dB in the exact budget.
 func reproDifference() *spec.Spec {
-	return &spec.Spec{Name: "repro", Families: []string{spec.Difference}, Gain: 10,
+	return &spec.Spec{Name: "repro", Families: []string{family.Difference.Name}, Gain: 10,
 		Input: spec.Range{Min: -0.5, Max: 0.5}, Differential: true, CommonMode: spec.Range{Min: -2, Max: 2},
 		Supply: spec.Range{Min: -12, Max: 12}, Temp: spec.Range{Min: -20, Max: 70}, TempRef: 25, SourceOhm: 1e3,
 		Limits:   spec.Limits{GainError: 0.005, CMRRdB: 83, GainDrift: 25e-6, OutputOffsetV: 0.005, BandwidthHz: 10e3},

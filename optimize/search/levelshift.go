@@ -4,6 +4,9 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strings"
+
+	"plumb/optimize/family"
 )
 
 // Level shift, reference into the non-inverting node (optimize/circuit's
@@ -79,13 +82,25 @@ func (p *Problem) lsNode(vin float64) float64 {
 	return (p.Gain*vin + p.Shift) / lsNoiseGain
 }
 
+// unreferred names the single-ended families whose gain is at least one
+// and that take no reference: what a shift of zero is.
+func unreferred() string {
+	var names []string
+	for _, f := range family.All() {
+		if f.Input == family.SingleEnded && f.Reference == family.RefNone && f.GainProblem(1) == "" {
+			names = append(names, f.Name)
+		}
+	}
+	return strings.Join(names, " or ")
+}
+
 // lsCheck refuses shifts the search does not build.
 func (p *Problem) lsCheck() error {
 	switch {
 	case !(p.Ref > 0):
 		return fmt.Errorf("%w: level shift needs a positive reference voltage, got %g V", ErrProblem, p.Ref)
 	case p.Shift == 0:
-		return fmt.Errorf("%w: level shift with offset 0 V: use a non-inverting stage (family %s) for a gain without offset", ErrProblem, NonInverting)
+		return fmt.Errorf("%w: level shift with offset 0 V: use a stage without a reference (family %s) for a gain without offset", ErrProblem, unreferred())
 	case p.lsInv() && !(p.Gain < p.lsNG()):
 		return fmt.Errorf("%w: level shift with gain %g and offset %g V: with the reference into the inverting input the gain must stay below 2 + |offset|/Vref = %.3g with Rg = Rf", ErrProblem, p.Gain, p.Shift, p.lsNG())
 	case !p.lsInv() && p.Gain+p.Shift/p.Ref >= lsNoiseGain:
@@ -343,7 +358,7 @@ func (s *space) levelShiftConfigs() {
 			continue
 		}
 		for a, gi := range s.groups {
-			c := config{fam: DiscreteLevelShift, ga: a, gb: b, net: -1, fbv: int32(fv),
+			c := config{fam: variant(s.p.family(), buildDiscrete), ga: a, gb: b, net: -1, fbv: int32(fv),
 				g: discreteGrades(gi.grade.Tolerance, gi.grade.TCR, gi.grade.LoadLife, gf.grade.Tolerance, gf.grade.TCR, gf.grade.LoadLife, s.dT)}
 			g2 := gi
 			if s.p.lsInv() {
@@ -426,7 +441,7 @@ func (s *space) levelShiftOptions(c *config) {
 // evalOpt computes the screening figures of option o of configuration c
 // with op-amp a.
 func (s *space) evalOpt(c *config, o *option, a *amp, m *metrics) {
-	if s.p.Circuit == LevelShift {
+	if s.p.strategy() == family.ShiftNetwork {
 		s.evalLevelShift(c, o, a, m)
 		return
 	}

@@ -2,6 +2,8 @@ package search
 
 import (
 	"math"
+
+	"plumb/optimize/family"
 )
 
 // metrics are the screening figures of one design under the problem's
@@ -107,51 +109,25 @@ func toDB(inv float64) float64 {
 	return math.Min(noiseFloorDB, -20*math.Log10(inv))
 }
 
-// gainSens is the magnitude of the gain's sensitivity to the ratio: 1 for
-// the difference and inverting amplifiers, k/(1+k) for the non-inverting
-// amplifier and the divider.
-func (s *space) gainSens(k0 float64) float64 {
-	switch s.p.Circuit {
-	case NonInverting, Divider:
-		return k0 / (1 + k0)
-	case InAmp:
-		return 2 * k0 / (1 + 2*k0)
-	}
-	return 1
-}
+// gainSens is the magnitude of the gain's sensitivity to the ratio
+// (family.Ratio.Sens: 1 for the difference and inverting amplifiers,
+// k/(1+k) for the non-inverting amplifier and the divider).
+func (s *space) gainSens(k0 float64) float64 { return s.model().Sens(k0) }
 
-// noiseGain is 1 + Rf/Rg, the gain the amplifier's offset and noise see
-// (1 for the unbuffered divider, whose leakage error is not amplified).
-func (s *space) noiseGain(k0 float64) float64 {
-	switch s.p.Circuit {
-	case Divider:
-		return 1
-	case InAmp:
-		return 1 + 2*k0
-	}
-	return 1 + k0
-}
+// noiseGain is the gain the amplifier's offset and noise see
+// (family.Ratio.NoiseGain: 1 + Rf/Rg, 1 for the unbuffered divider, whose
+// leakage error is not amplified).
+func (s *space) noiseGain(k0 float64) float64 { return s.model().NoiseGain(k0) }
 
 // gainMult is the exact factor by which the ideal gain moves when the
-// ratio k0 is multiplied by m: m (difference, inverting),
-// (1+k0·m)/(1+k0) (non-inverting), (1+k0)/(1+k0·m) (divider).
-func (s *space) gainMult(k0, m float64) float64 {
-	switch s.p.Circuit {
-	case NonInverting:
-		return (1 + k0*m) / (1 + k0)
-	case Divider:
-		return (1 + k0) / (1 + k0*m)
-	case InAmp:
-		return (1 + 2*k0*m) / (1 + 2*k0)
-	}
-	return m
-}
+// ratio k0 is multiplied by m (family.Ratio.Mult).
+func (s *space) gainMult(k0, m float64) float64 { return s.model().Mult(k0, m) }
 
 // eval computes the metrics of a design with ratio k0 = Rf/Rg, Rf∥Rg = rp,
 // resistor figures g and amplifier a.
 func (s *space) eval(g *grades, k0, rp float64, a *amp, m *metrics) {
-	p := s.p
-	if p.Circuit == InAmp {
+	p, r := s.p, s.model()
+	if s.p.strategy() == family.TwoStage {
 		s.evalInAmp(g, k0, rp, a, m)
 		return
 	}
@@ -192,7 +168,7 @@ func (s *space) eval(g *grades, k0, rp float64, a *amp, m *metrics) {
 		m.totalErr = (1+corners(rho*f, g.hiL, g.loL))*(1+dr) - 1
 	}
 	inv := a.ainv
-	if p.Circuit == Difference {
+	if r.FourResistor {
 		if s.rss {
 			inv += g.cmRSS / (1 + k0)
 		} else {
@@ -201,24 +177,24 @@ func (s *space) eval(g *grades, k0, rp float64, a *amp, m *metrics) {
 	}
 	m.cmrrDB = toDB(inv)
 	var bias float64
-	if p.Circuit == Difference {
+	if r.FourResistor {
 		bias = am.IosA*rp + am.IbA*rp*2*g.tmax
 	} else {
 		bias = am.IbA * rp
 	}
 	s.offset(m, ng, am.VosV, bias, am.VosDriftVK)
 	nIn := 1
-	if p.Circuit == Difference {
+	if r.FourResistor {
 		nIn = 2
 	}
 	m.noise = noiseDensity(ng, am.NoiseVHz, am.NoiseAHz, rp, s.tempK, nIn)
 	m.gain = ideal * f
-	if p.Circuit == Inverting {
+	if r.Inverts {
 		m.gain = -m.gain
 	}
 	m.bw = am.GBWHz / ng
 	m.noiseRMS = rmsNoise(m.noise, m.bw)
-	if p.Circuit == Divider {
+	if r.Passive {
 		// No amplifier limits the bandwidth: the source and the load's
 		// capacitance do, which the catalog does not hold.
 		m.bw, m.noiseRMS = math.Inf(1), 0
@@ -312,12 +288,12 @@ const boundSafety = 1 - 1e-12
 // so pass(bound) false proves that no design of the class passes.
 func (s *space) bound(g *grades, a *amp, m *metrics) {
 	p := s.p
-	if p.Circuit == LevelShift {
+	switch s.p.strategy() {
+	case family.ShiftNetwork:
 		s.boundLevelShift(a, m)
 		s.shrinkBound(m)
 		return
-	}
-	if p.Circuit == InAmp {
+	case family.TwoStage:
 		s.boundInAmp(g, a, m)
 		s.shrinkBound(m)
 		return
@@ -355,7 +331,7 @@ func (s *space) bound(g *grades, a *amp, m *metrics) {
 	if a != nil {
 		inv = a.ainv
 	}
-	if g != nil && p.Circuit == Difference {
+	if g != nil && s.model().FourResistor {
 		if s.rss {
 			inv += g.cmRSS / (1 + kmax)
 		} else {
@@ -369,7 +345,7 @@ func (s *space) bound(g *grades, a *amp, m *metrics) {
 		s.offset(m, ng, a.a.VosV, 0, a.a.VosDriftVK)
 		m.noise = ng * a.a.NoiseVHz
 		m.noiseRMS = rmsNoise(m.noise, a.a.GBWHz/s.noiseGain(kmax))
-		if p.Circuit == Divider {
+		if s.model().Passive {
 			m.noiseRMS = 0
 		}
 	}

@@ -4,9 +4,11 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"plumb/optimize/budget"
+	"strings"
 
+	"plumb/optimize/budget"
 	"plumb/optimize/cost"
+	"plumb/optimize/family"
 )
 
 // Sentinel errors.
@@ -21,59 +23,26 @@ var (
 	ErrNoSpec = errors.New("search: the result has no spec; use Solve to explain a design")
 )
 
-// Family is a way of building the stage.
+// Family is a way of building the stage: a circuit family's name and how
+// it is built, "-discrete" (discrete resistors), "-network" (a matched
+// network from the catalog) or, for the circuit an integrated family is
+// walked in, "-" and that family's name (as "difference-matched"). See
+// variant.
 type Family string
 
-// Families the search knows.
+// Builds of a circuit besides an integrated family's part.
 const (
-	// DiscreteDifference is a difference amplifier from an op-amp and four
-	// discrete resistors (R1 = R3 = Rg, R2 = R4 = Rf).
-	DiscreteDifference Family = "difference-discrete"
-	// NetworkDifference is a difference amplifier from an op-amp and a
-	// matched four-element network.
-	NetworkDifference Family = "difference-network"
-	// MatchedDifference is an amplifier with matched resistors inside.
-	MatchedDifference Family = "difference-matched"
-	// DiscreteNonInverting is a non-inverting amplifier, G = 1 + Rf/Rg.
-	DiscreteNonInverting Family = "noninverting-discrete"
-	// DiscreteInverting is an inverting amplifier, G = -Rf/Rg.
-	DiscreteInverting Family = "inverting-discrete"
-	// DiscreteDivider is an unbuffered divider, G = Rbot/(Rtop + Rbot).
-	DiscreteDivider Family = "divider-discrete"
-	// DiscreteInAmp is a three-op-amp instrumentation amplifier whose
-	// second stage is four discrete resistors of one value (unity gain).
-	DiscreteInAmp Family = "inamp-discrete"
-	// DiscreteLevelShift is a level shift Vout = m·Vin + b with Rg = Rf:
-	// for b > 0 the reference summed into the non-inverting node (R1, R2,
-	// R3), for b < 0 fed to the inverting node through R2 with the input
-	// divided by R1, R3.
-	DiscreteLevelShift Family = "level-shift-discrete"
-	// NetworkInAmp is a three-op-amp instrumentation amplifier whose second
-	// stage is a matched four-element network.
-	NetworkInAmp Family = "inamp-network"
+	buildDiscrete = "discrete"
+	buildNetwork  = "network"
 )
 
-// Circuit names the stage topology of a Problem.
+// variant is the Family label of circuit f built as build.
+func variant(f *family.Family, build string) Family { return Family(f.Name + "-" + build) }
+
+// Circuit names the stage topology of a Problem: a family of package
+// family's registry that is searched as a circuit (not a Part family,
+// which is walked in the circuit of its Search.As).
 type Circuit string
-
-// Circuits.
-const (
-	Difference   Circuit = "difference"
-	NonInverting Circuit = "noninverting"
-	Inverting    Circuit = "inverting"
-	Divider      Circuit = "divider"
-	// CurrentSense is a shunt Rs read by a difference amplifier: Gain is in
-	// V/A, InMin and InMax are currents and CMMin, CMMax the shunt's low
-	// side.
-	CurrentSense Circuit = "current-sense"
-	// InAmp is the three-op-amp instrumentation amplifier: a first stage of
-	// gain 1 + 2Rf/Rg (Rf1 = Rf2 = Rf) on the difference and unity on the
-	// common mode, then a difference amplifier of gain R2/R1.
-	InAmp Circuit = "inamp"
-	// LevelShift maps the input onto Gain·Vin + Shift with the offset
-	// taken from the reference Ref.
-	LevelShift Circuit = "level-shift"
-)
 
 // Method is the analysis method the limits are judged under.
 type Method string
@@ -166,6 +135,31 @@ type Problem struct {
 	// k2 is the second-stage gain R2/R1 of an instrumentation amplifier
 	// (set per sub-search; 0 outside one).
 	k2 float64
+	// fam caches the registry entry of Circuit (see family).
+	fam *family.Family
+}
+
+// family returns the registry entry of the problem's circuit (nil for an
+// unknown name).
+func (p *Problem) family() *family.Family {
+	if p.fam == nil || p.fam.Name != string(p.Circuit) {
+		p.fam = family.Lookup(string(p.Circuit))
+	}
+	return p.fam
+}
+
+// strategy is the shape of the circuit's search space.
+func (p *Problem) strategy() family.Strategy { return p.family().Search.Strategy }
+
+// circuits lists the names of the families the search takes as a circuit.
+func circuits() string {
+	var names []string
+	for _, f := range family.All() {
+		if f.Search.Strategy != family.Part {
+			names = append(names, fmt.Sprintf("%q", f.Name))
+		}
+	}
+	return strings.Join(names[:len(names)-1], ", ") + " or " + names[len(names)-1]
 }
 
 // Defaults for a zero Problem field.
@@ -192,17 +186,14 @@ func (p *Problem) normalize() error {
 	if p.Method == "" {
 		p.Method = WorstCase
 	}
+	f := p.family()
 	switch {
-	case p.Circuit != Difference && p.Circuit != NonInverting && p.Circuit != Inverting && p.Circuit != Divider && p.Circuit != CurrentSense && p.Circuit != InAmp && p.Circuit != LevelShift:
-		return fmt.Errorf("%w: circuit %q: use %q, %q, %q, %q, %q, %q or %q", ErrProblem, p.Circuit, Difference, NonInverting, Inverting, Divider, CurrentSense, InAmp, LevelShift)
+	case f == nil || f.Search.Strategy == family.Part:
+		return fmt.Errorf("%w: circuit %q: use %s", ErrProblem, p.Circuit, circuits())
 	case !(p.Gain > 0) || math.IsInf(p.Gain, 0):
 		return fmt.Errorf("%w: gain %g: give a positive gain magnitude", ErrProblem, p.Gain)
-	case p.Circuit == NonInverting && p.Gain <= 1:
-		return fmt.Errorf("%w: gain %g: a non-inverting stage with resistors needs gain above 1", ErrProblem, p.Gain)
-	case p.Circuit == InAmp && p.Gain <= 1:
-		return fmt.Errorf("%w: gain %g: a three-op-amp instrumentation amplifier needs gain above 1", ErrProblem, p.Gain)
-	case p.Circuit == Divider && p.Gain >= 1:
-		return fmt.Errorf("%w: gain %g: a divider attenuates; give a gain below 1", ErrProblem, p.Gain)
+	case f.Search.Ratio != nil && !(f.Search.Ratio.Of(p.Gain) > 0):
+		return fmt.Errorf("%w: gain %g: family %s needs a resistor ratio above zero for it: %s", ErrProblem, p.Gain, f.Name, f.GainProblem(p.Gain))
 	case !(p.SupplyPos > p.SupplyNeg):
 		return fmt.Errorf("%w: supply %g V to %g V: the positive rail must be above the negative", ErrProblem, p.SupplyNeg, p.SupplyPos)
 	case p.TMax < p.TMin:
@@ -212,7 +203,7 @@ func (p *Problem) normalize() error {
 	case p.Method != WorstCase && p.Method != RSS && p.Method != MonteCarlo:
 		return fmt.Errorf("%w: method %q: use %q, %q or %q", ErrProblem, p.Method, WorstCase, RSS, MonteCarlo)
 	}
-	if p.Circuit == LevelShift {
+	if f.Search.Strategy == family.ShiftNetwork {
 		if err := p.lsCheck(); err != nil {
 			return err
 		}
@@ -226,19 +217,15 @@ func (p *Problem) normalize() error {
 	return nil
 }
 
-// ratio is the resistor ratio Rf/Rg that gives the target gain (for the
-// divider Rtop/Rbot = (1-G)/G).
+// ratio is the resistor ratio Rf/Rg that gives the target gain (see
+// family.Ratio.Of; a level shift's is its noise gain less one).
 func (p *Problem) ratio() float64 {
-	switch p.Circuit {
-	case NonInverting:
-		return p.Gain - 1
-	case Divider:
-		return (1 - p.Gain) / p.Gain
-	case LevelShift:
+	f := p.family()
+	switch {
+	case f.Search.Strategy == family.ShiftNetwork:
 		return p.lsNG() - 1
-	case InAmp:
-		// 1 + 2Rf/Rg = G/k2.
-		return (p.Gain/p.stage2Gain() - 1) / 2
+	case f.Search.Ratio != nil:
+		return f.Search.Ratio.Of(p.Gain / p.stage2Gain())
 	}
 	return p.Gain
 }
@@ -258,23 +245,34 @@ func (p *Problem) deltaT() float64 {
 	return math.Max(math.Abs(p.TMax-p.TRef), math.Abs(p.TMin-p.TRef))
 }
 
+// builds returns every Family label of the circuit: discrete, on a
+// network where the family allows one, and the part of each integrated
+// family walked in it.
+func (p *Problem) builds() []Family {
+	f := p.family()
+	all := []Family{variant(f, buildDiscrete)}
+	if f.Search.Networks {
+		all = append(all, variant(f, buildNetwork))
+	}
+	all = append(all, p.partBuilds()...)
+	return all
+}
+
+// partBuilds returns the labels of the integrated families walked in the
+// circuit.
+func (p *Problem) partBuilds() []Family {
+	var out []Family
+	for _, g := range family.All() {
+		if g.Search.Strategy == family.Part && g.Search.As == p.family() {
+			out = append(out, variant(p.family(), g.Name))
+		}
+	}
+	return out
+}
+
 // families returns the allowed families of the circuit.
 func (p *Problem) families() []Family {
-	var all []Family
-	switch p.Circuit {
-	case Difference:
-		all = []Family{DiscreteDifference, NetworkDifference, MatchedDifference}
-	case NonInverting:
-		all = []Family{DiscreteNonInverting}
-	case Inverting:
-		all = []Family{DiscreteInverting}
-	case Divider:
-		all = []Family{DiscreteDivider}
-	case InAmp:
-		all = []Family{DiscreteInAmp, NetworkInAmp}
-	case LevelShift:
-		all = []Family{DiscreteLevelShift}
-	}
+	all := p.builds()
 	if len(p.Families) == 0 {
 		return all
 	}

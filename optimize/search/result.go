@@ -3,12 +3,14 @@ package search
 import (
 	"fmt"
 	"math"
-	"plumb/optimize/assume"
 	"sort"
+	"strings"
 
 	"plumb/catalog"
+	"plumb/optimize/assume"
 	"plumb/optimize/budget"
 	"plumb/optimize/cost"
+	"plumb/optimize/family"
 	"plumb/optimize/spec"
 )
 
@@ -360,41 +362,32 @@ func toMetrics(m *metrics) Metrics {
 		DriftPPMPerK: m.drift, OutputOffsetV: m.offset, OffsetDriftVPerK: m.offDrift, NoiseDensity: m.noise, NoiseRMSV: m.noiseRMS, BandwidthHz: bw}
 }
 
-// famName is the spec family a search family builds.
+// famName is the spec family a search family builds: the circuit's
+// family for a discrete or network build, else the integrated family whose
+// part it is (see variant).
 func famName(f Family) string {
-	switch f {
-	case MatchedDifference:
-		return spec.Matched
-	case DiscreteNonInverting:
-		return spec.NonInverting
-	case DiscreteInverting:
-		return spec.Inverting
-	case DiscreteDivider:
-		return spec.Divider
-	case DiscreteInAmp, NetworkInAmp:
-		return spec.InAmp
-	case DiscreteLevelShift:
-		return spec.LevelShift
+	for _, b := range []string{buildDiscrete, buildNetwork} {
+		if name, ok := strings.CutSuffix(string(f), "-"+b); ok {
+			return name
+		}
 	}
-	return spec.Difference
+	for _, g := range family.All() {
+		if g.Search.Strategy == family.Part && strings.HasSuffix(string(f), "-"+g.Name) {
+			return g.Name
+		}
+	}
+	return string(f)
 }
 
 // positions names the Rg and Rf positions of the circuit.
 func (s *space) positions() (rg, rf []string) {
-	switch s.p.Circuit {
-	case Difference:
-		return []string{"R1", "R3"}, []string{"R2", "R4"}
-	case Divider:
-		return []string{"Rbot"}, []string{"Rtop"}
-	case InAmp:
-		return []string{"Rg"}, []string{"Rf1", "Rf2"}
-	case LevelShift:
+	if s.p.strategy() == family.ShiftNetwork {
 		if s.p.lsInv() {
 			return []string{"R1", "R3"}, []string{"R2", "Rg", "Rf"}
 		}
 		return []string{"R1", "R2", "R3"}, []string{"Rg", "Rf"}
 	}
-	return []string{"Rg"}, []string{"Rf"}
+	return s.model().Rg, s.model().Rf
 }
 
 // describe builds the parts, the priced BOM and the spec design of a class
@@ -404,7 +397,11 @@ func (s *space) describe(b *classBest) (Design, *spec.Design, error) {
 	var parts []Part
 	sd := &spec.Design{}
 	var a *catalog.Amplifier
-	fam := MatchedDifference
+	var fam Family
+	if parts := s.p.partBuilds(); len(parts) > 0 {
+		// The one integrated family walked in this circuit.
+		fam = parts[0]
+	}
 	if b.cfg >= 0 {
 		c := &s.cfgs[b.cfg]
 		fam = c.fam
@@ -425,12 +422,12 @@ func (s *space) describe(b *classBest) (Design, *spec.Design, error) {
 			slots = append(slots, slot{g, i})
 			return spec.Element{}
 		}
-		switch c.fam {
-		case NetworkDifference:
+		switch {
+		case s.pairNetwork(c):
 			n := s.nets[c.net]
 			uses = append(uses, cost.Use{Part: n.Part, Offer: &n.Offer, Placements: 1})
 			parts, sd.Positions = networkParts(n, c.na, c.nb, parts, sd.Positions)
-		case DiscreteLevelShift:
+		case s.p.strategy() == family.ShiftNetwork:
 			o := c.opts[b.opt]
 			ga, gb := s.groups[c.ga], s.groups[c.gb]
 			for _, e := range []struct {

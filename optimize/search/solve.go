@@ -13,6 +13,7 @@ import (
 	"plumb/catalog"
 	"plumb/optimize/budget"
 	"plumb/optimize/cost"
+	"plumb/optimize/family"
 	"plumb/optimize/spec"
 )
 
@@ -330,41 +331,43 @@ func FromSpec(s *spec.Spec) (Problem, error) {
 		p.ParallelPairs = p.ParallelPairs || c == spec.Parallel
 	}
 	var unsupported []string
-	for _, f := range s.Families {
-		switch f {
-		case spec.Difference:
-			p.Circuit = Difference
-			p.Families = append(p.Families, DiscreteDifference, NetworkDifference)
-		case spec.Matched:
-			p.Circuit = Difference
-			p.Families = append(p.Families, MatchedDifference)
-		case spec.NonInverting:
-			p.Circuit, p.Families = NonInverting, append(p.Families, DiscreteNonInverting)
-		case spec.Inverting:
-			p.Circuit, p.Families = Inverting, append(p.Families, DiscreteInverting)
-		case spec.Divider:
-			p.Circuit, p.Families = Divider, append(p.Families, DiscreteDivider)
-		case spec.CurrentSense:
-			p.Circuit, p.Families = CurrentSense, append(p.Families, DiscreteDifference, NetworkDifference)
-		case spec.InAmp:
-			p.Circuit, p.Families = InAmp, append(p.Families, DiscreteInAmp, NetworkInAmp)
-		case spec.LevelShift:
-			p.Circuit, p.Families, p.Shift = LevelShift, append(p.Families, DiscreteLevelShift), s.Offset
+	circuitsOf := map[Circuit]bool{}
+	for _, name := range s.Families {
+		f := family.Lookup(name)
+		if f == nil {
+			unsupported = append(unsupported, name)
+			continue
+		}
+		if f.Search.Strategy == family.Part {
+			// An integrated part is walked in the circuit of Search.As.
+			p.Circuit = Circuit(f.Search.As.Name)
+			p.Families = append(p.Families, variant(f.Search.As, f.Name))
+		} else {
+			p.Circuit = Circuit(f.Name)
+			// Every build of the circuit (behind the shunt: of the circuit
+			// searched per shunt) but an integrated family's part.
+			q := Problem{Circuit: Circuit(f.SearchFamily().Name)}
+			parts := q.partBuilds()
+			for _, b := range q.builds() {
+				if !slices.Contains(parts, b) {
+					p.Families = append(p.Families, b)
+				}
+			}
+		}
+		circuitsOf[p.Circuit] = true
+		if f.Reference == family.RefShift {
+			p.Shift = s.Offset
 			if s.Reference != nil {
 				p.RefTol, p.RefDrift = s.Reference.Tolerance, s.Reference.Drift
 			}
-		default:
-			unsupported = append(unsupported, f)
 		}
 	}
 	if len(unsupported) > 0 || len(p.Families) == 0 {
-		return p, fmt.Errorf("%w: families %v: the search builds %s, %s (alone or with %s), %s, %s, %s, %s, %s and %s stages; keep one circuit per spec",
-			ErrProblem, s.Families, spec.Difference, spec.Matched, spec.Difference, spec.NonInverting, spec.Inverting, spec.Divider, spec.CurrentSense, spec.InAmp, spec.LevelShift)
+		return p, fmt.Errorf("%w: families %v: the search builds %s stages; keep one circuit per spec",
+			ErrProblem, s.Families, strings.Join(family.Names(), ", "))
 	}
-	if p.Circuit == NonInverting || p.Circuit == Inverting || p.Circuit == Divider || p.Circuit == CurrentSense || p.Circuit == InAmp || p.Circuit == LevelShift {
-		if len(s.Families) > 1 {
-			return p, fmt.Errorf("%w: families %v: an inverting, non-inverting, divider, current-sense, instrumentation-amplifier or level-shift stage is searched alone", ErrProblem, s.Families)
-		}
+	if len(circuitsOf) > 1 {
+		return p, fmt.Errorf("%w: families %v: the search walks one circuit per spec; list only families of one circuit (an integrated amplifier may join the circuit it is walked in)", ErrProblem, s.Families)
 	}
 	channelLimits(s, &p)
 	return p, nil
@@ -411,11 +414,13 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 	if err := p.normalize(); err != nil {
 		return nil, err
 	}
-	if p.Circuit == CurrentSense {
+	switch p.strategy() {
+	case family.Shunt:
 		return solveCurrentSense(ctx, parts, p, opt, verify, exhaustive)
-	}
-	if p.Circuit == InAmp && p.k2 == 0 {
-		return solveInAmp(ctx, parts, p, opt, verify, exhaustive)
+	case family.TwoStage:
+		if p.k2 == 0 {
+			return solveInAmp(ctx, parts, p, opt, verify, exhaustive)
+		}
 	}
 	if opt.Top <= 0 {
 		opt.Top = defaultTop
@@ -793,7 +798,7 @@ func (s *space) dominant(b *classBest, limit string) (string, float64) {
 	}
 	var ts []term
 	p := s.p
-	if p.Circuit == LevelShift {
+	if s.p.strategy() == family.ShiftNetwork {
 		return s.lsDominant(b, limit)
 	}
 	if b.cfg < 0 {
@@ -817,7 +822,7 @@ func (s *space) dominant(b *classBest, limit string) (string, float64) {
 		sg := s.gainSens(o.k0)
 		ng := 1 + o.k0
 		var rg, rf string
-		if c.fam != NetworkDifference {
+		if !s.pairNetwork(c) {
 			ga, gb := s.groups[c.ga].grade, s.groups[c.gb].grade
 			rg, rf = fmt.Sprintf("Rg tolerance %.3g %%", 100*ga.Tolerance), fmt.Sprintf("Rf tolerance %.3g %%", 100*gb.Tolerance)
 		}
@@ -829,7 +834,7 @@ func (s *space) dominant(b *classBest, limit string) (string, float64) {
 				aol = ng / a.a.AolVV
 			}
 			ts = []term{{"ratio quantization", q}, {"open-loop gain", aol}}
-			if c.fam == NetworkDifference {
+			if s.pairNetwork(c) {
 				ts = append(ts, term{"the network's ratio tolerance", sg * c.g.sr})
 			} else {
 				ts = append(ts, term{rg, sg * s.groups[c.ga].grade.Tolerance}, term{rf, sg * s.groups[c.gb].grade.Tolerance})
@@ -841,7 +846,7 @@ func (s *space) dominant(b *classBest, limit string) (string, float64) {
 				ts = []term{{"resistor tempco over temperature", c.g.drift * sg * 1e-6 * s.dT}}
 			}
 		case limDrift:
-			if c.fam == NetworkDifference {
+			if s.pairNetwork(c) {
 				ts = []term{{"the network's tracking tempco", c.g.drift}}
 			} else {
 				ts = []term{{"Rg tempco", s.groups[c.ga].grade.TCR}, {"Rf tempco", s.groups[c.gb].grade.TCR}}
@@ -885,15 +890,10 @@ func (s *space) dominant(b *classBest, limit string) (string, float64) {
 
 // idealGain is the gain magnitude of ratio k0 with an ideal amplifier.
 func (s *space) idealGain(k0 float64) float64 {
-	switch s.p.Circuit {
-	case NonInverting:
-		return 1 + k0
-	case Divider:
-		return 1 / (1 + k0)
-	case InAmp:
-		return (1 + 2*k0) * s.k2
+	if s.p.strategy() == family.TwoStage {
+		return s.model().Gain(k0) * s.k2
 	}
-	return k0
+	return s.model().Gain(k0)
 }
 
 // nearMiss describes a failing class: its parts, its figures and the
@@ -990,7 +990,7 @@ func (s *space) fixCandidates(f *classBest, pairs bool) (singles, doubles []fixO
 			lb := o.costLB + s.amps[f.amp].cost
 			kind := ""
 			switch {
-			case c.fam == NetworkDifference:
+			case s.pairNetwork(c):
 				kind = "network"
 			case o.g.s2 != c.g.s2:
 				// Another second stage is not a grade change.

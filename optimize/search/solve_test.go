@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"plumb/catalog"
+	"plumb/optimize/family"
 	"plumb/optimize/spec"
 )
 
@@ -266,7 +267,7 @@ func TestDesignNForBudget(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if d.Family != spec.Difference || len(d.Positions) != 4 || d.Position("R2").Ohm() != 12100 || !d.Amplifier.Resolved {
+	if d.Family != family.Difference.Name || len(d.Positions) != 4 || d.Position("R2").Ohm() != 12100 || !d.Amplifier.Resolved {
 		t.Errorf("design %+v", d)
 	}
 	if len(d.Unresolved()) != 0 {

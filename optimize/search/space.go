@@ -8,6 +8,7 @@ import (
 
 	"plumb/catalog"
 	"plumb/optimize/cost"
+	"plumb/optimize/family"
 )
 
 // Parts is the catalog content the search reads.
@@ -124,15 +125,14 @@ type tableKey struct {
 // positions that take one value of one grade share a part number.
 func usedPlacements(p *Problem) uint16 {
 	var lines []int
-	switch p.Circuit {
-	case Difference, CurrentSense:
-		lines = []int{2, 2, 2} // Rg, Rf and a combination's second value
-	case InAmp:
-		lines = []int{1, 2, 2, 4}
-	case LevelShift:
-		lines = []int{1, 1, 1, 2}
+	f := p.family().SearchFamily()
+	switch r := f.Search.Ratio; {
+	case f.Search.Strategy == family.TwoStage:
+		lines = []int{r.PerRg, r.PerRf, r.PerRf, 4} // and the second stage's four
+	case f.Search.Strategy == family.ShiftNetwork:
+		lines = []int{1, 1, 1, 2} // R1, R2, R3 and Rg = Rf
 	default:
-		lines = []int{1, 1, 1}
+		lines = []int{r.PerRg, r.PerRf, r.PerRf} // Rg, Rf and a combination's second value
 	}
 	sums := uint16(1) // the empty sum
 	for _, n := range lines {
@@ -355,17 +355,16 @@ func ampCost(p *Problem, o *catalog.Offer, n int) (float64, bool, bool) {
 	return ext + p.Build.PerPlacement*float64(n*p.Build.Quantity) + p.Build.PerLineItem, short, true
 }
 
-// inampOpAmps is the number of op-amps of the instrumentation amplifier.
-const inampOpAmps = 3
-
 // packages is the number of amplifier packages a stage needs: one per
-// op-amp, or ceil(op-amps / channels) of a dual or quad part.
+// op-amp, or ceil(op-amps / channels) of a dual or quad part (a single
+// op-amp stage or an integrated part is one).
 func packages(p *Problem, a *catalog.Amplifier) int {
-	if p.Circuit != InAmp {
+	n := p.family().Search.OpAmps
+	if n <= 1 {
 		return 1
 	}
 	ch := max(a.Channels, 1)
-	return (inampOpAmps + ch - 1) / ch
+	return (n + ch - 1) / ch
 }
 
 // pinRange returns the voltages the op-amp input pins see.
@@ -374,16 +373,12 @@ func pinRange(p *Problem, k float64) (lo, hi float64) {
 	for _, vcm := range []float64{p.CMMin, p.CMMax} {
 		for _, vd := range []float64{p.InMin, p.InMax} {
 			var v float64
-			switch p.Circuit {
-			case Difference:
-				v = (vcm+vd/2)*k/(1+k) + p.Ref/(1+k)
-			case NonInverting:
-				v = vd
-			case Inverting:
-				v = p.Ref
-			case LevelShift:
+			switch p.strategy() {
+			case family.RatioPair:
+				v = p.family().Search.Ratio.Pin(k, vd, vcm, p.Ref)
+			case family.ShiftNetwork:
 				v = p.lsNode(vd)
-			case InAmp:
+			case family.TwoStage:
 				// A1 and A2 see the inputs; A3 sees the first stage's
 				// outputs Vcm ± G1·Vd/2 through R3/R4.
 				k2 := p.stage2Gain()
@@ -400,16 +395,11 @@ func pinRange(p *Problem, k float64) (lo, hi float64) {
 // outRange returns the output voltages the stage must swing to.
 func outRange(p *Problem) (lo, hi float64) {
 	var a, b float64
-	switch p.Circuit {
-	case Inverting:
-		a, b = p.Ref-p.Gain*(p.InMin-p.Ref), p.Ref-p.Gain*(p.InMax-p.Ref)
-	case NonInverting:
-		// Rg returns to the reference: Vout = G·Vin - (G-1)·Vref.
-		a, b = p.Gain*p.InMin-(p.Gain-1)*p.Ref, p.Gain*p.InMax-(p.Gain-1)*p.Ref
-	case Divider:
-		a, b = p.Gain*p.InMin, p.Gain*p.InMax
-	case LevelShift:
+	switch r := p.family().SearchFamily().Search.Ratio; {
+	case p.strategy() == family.ShiftNetwork:
 		a, b = p.Gain*p.InMin+p.Shift, p.Gain*p.InMax+p.Shift
+	case r != nil:
+		a, b = r.Out(p.Gain, p.InMin, p.Ref), r.Out(p.Gain, p.InMax, p.Ref)
 	default:
 		a, b = p.Gain*p.InMin+p.Ref, p.Gain*p.InMax+p.Ref
 	}
@@ -450,7 +440,7 @@ func hardAmp(p *Problem, a *catalog.Amplifier, k float64) string {
 	}
 	olo, ohi := outRange(p)
 	ng := 1 + k
-	if p.Circuit == InAmp {
+	if p.strategy() == family.TwoStage {
 		// The first stage's outputs swing to Vcm ± G1·Vd/2 too.
 		g1 := 1 + 2*k
 		for _, vcm := range []float64{p.CMMin, p.CMMax} {
@@ -469,12 +459,29 @@ func hardAmp(p *Problem, a *catalog.Amplifier, k float64) string {
 	return ""
 }
 
+// opAmpBuilds reports whether fams allows a build on an op-amp (discrete
+// resistors or a network).
+func opAmpBuilds(p *Problem, fams map[Family]bool) bool {
+	f := p.family()
+	return fams[variant(f, buildDiscrete)] || fams[variant(f, buildNetwork)]
+}
+
+// partBuild reports whether fams allows an integrated family's part.
+func partBuild(p *Problem, fams map[Family]bool) bool {
+	for _, b := range p.partBuilds() {
+		if fams[b] {
+			return true
+		}
+	}
+	return false
+}
+
 // buildAmps returns the op-amps and the matched amplifiers that pass the
 // hard limits, each sorted by cost, and the count removed per reason.
 func buildAmps(parts *Parts, p *Problem, fams map[Family]bool) (op, matched []amp, why hardReason) {
 	why = hardReason{}
 	k := p.ratio()
-	if p.Circuit == Divider {
+	if r := p.family().Search.Ratio; r != nil && r.Passive {
 		if lo, hi := outRange(p); lo < p.SupplyNeg || hi > p.SupplyPos {
 			why["output outside the supply"]++
 			return nil, nil, why
@@ -494,7 +501,7 @@ func buildAmps(parts *Parts, p *Problem, fams map[Family]bool) (op, matched []am
 		}
 		switch a.Type {
 		case catalog.OpAmp:
-			if !fams[DiscreteDifference] && !fams[NetworkDifference] && !fams[DiscreteNonInverting] && !fams[DiscreteInverting] && !fams[DiscreteInAmp] && !fams[NetworkInAmp] && !fams[DiscreteLevelShift] {
+			if !opAmpBuilds(p, fams) {
 				continue
 			}
 			if r := hardAmp(p, a, k); r != "" {
@@ -503,7 +510,7 @@ func buildAmps(parts *Parts, p *Problem, fams map[Family]bool) (op, matched []am
 			}
 			op = append(op, amp{a: a, cost: c, k0: k, ainv: dbInv(a.CMRRdB), short: short})
 		case catalog.MatchedAmp:
-			if !fams[MatchedDifference] {
+			if !partBuild(p, fams) {
 				continue
 			}
 			g, ok := nearestGain(a.Gains, p.Gain, w)

@@ -1,6 +1,10 @@
 package search
 
-import "math"
+import (
+	"math"
+
+	"plumb/optimize/family"
+)
 
 // tieKey orders designs of equal cost by their normalised margins, worst
 // first: the larger worst margin ranks first; where the worst margins agree
@@ -113,11 +117,11 @@ func (s *space) stress(c *config, o *option) (power, voltage float64) {
 		}
 	}
 	switch {
-	case c.fam == NetworkDifference:
+	case s.pairNetwork(c):
 		n := s.nets[c.net]
 		one(n.PowerW, n.MaxVoltageV, c.na, s.vG)
 		one(n.PowerW, n.MaxVoltageV, c.nb, s.vF)
-	case c.fam != DiscreteLevelShift && c.ga >= 0 && c.gb >= 0 && o.rg >= 0 && o.rf >= 0:
+	case s.p.strategy() != family.ShiftNetwork && c.ga >= 0 && c.gb >= 0 && o.rg >= 0 && o.rf >= 0:
 		ga, gb := s.groups[c.ga], s.groups[c.gb]
 		one(ga.grade.PowerW, ga.grade.MaxVoltageV, ga.values[o.rg], s.vG)
 		rf, vf := gb.values[o.rf], s.vF
@@ -138,7 +142,7 @@ func (s *space) tie(c *config, o *option, m *metrics) tieKey {
 	if c != nil {
 		k.power, k.voltage = s.stress(c, o)
 		l := &s.p.Limits
-		if c.fam != DiscreteLevelShift && s.k > 0 && !s.p.CalGain && l.GainError == 0 && l.TotalGainError == 0 {
+		if s.p.strategy() != family.ShiftNetwork && s.k > 0 && !s.p.CalGain && l.GainError == 0 && l.TotalGainError == 0 {
 			k.quant = math.Abs(o.k0/s.k - 1)
 		}
 	}

@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"plumb/catalog/units"
+	"plumb/optimize/family"
 )
 
 // ADC is the converter the stage drives: what it reads and how wrong its
@@ -319,11 +320,9 @@ func checkADC(p *problems, s *Spec) {
 		return
 	}
 	if a.SharedRef {
-		for _, f := range s.Families {
-			if f == Inverting || f == NonInverting || f == Divider {
-				p.add("adc.reference", "is channel, but family %s has no reference block; give the ADC's reference under adc.own_reference", f)
-				return
-			}
+		for _, f := range familiesWith(s, func(f *family.Family) bool { return f.Reference == family.RefNone }) {
+			p.add("adc.reference", "is channel, but family %s has no reference block; give the ADC's reference under adc.own_reference", f.Name)
+			return
 		}
 	}
 }

@@ -21,19 +21,6 @@ import (
 // ErrInvalid is wrapped by every error about a spec or design file's content.
 var ErrInvalid = errors.New("spec: invalid file")
 
-// Families a spec may name.
-const (
-	Inverting    = "inverting"
-	NonInverting = "noninverting"
-	Difference   = "difference"
-	Divider      = "divider"
-	CurrentSense = "current-sense"
-	LevelShift   = "level-shift"
-	InAmp        = "inamp"
-	// Matched is a stage built on an amplifier with matched resistors inside.
-	Matched = "matched"
-)
-
 // KnownFamilies lists every family name in registry order (package
 // family).
 var KnownFamilies = family.Names()

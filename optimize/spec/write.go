@@ -5,6 +5,7 @@ import (
 
 	"go.yaml.in/yaml/v3"
 
+	"plumb/catalog"
 	"plumb/catalog/units"
 )
 
@@ -98,8 +99,8 @@ func rawAmpOf(a *AmplifierChoice, d *Design) rawAmp {
 		}
 		return units.FormatExact(v, unit)
 	}
-	if m.Type == "matched" && !integrated(d.Family) {
-		r.Type = "matched"
+	if m.Type == catalog.MatchedAmp && !integrated(d.Family) {
+		r.Type = string(catalog.MatchedAmp)
 	}
 	r.Vos, r.VosDrift, r.Ib, r.Ios = si(m.VosV, "V"), si(m.VosDriftVK, "V/K"), si(m.IbA, "A"), si(m.IosA, "A")
 	r.Aol, r.CMRR, r.GBW = opt(m.AolVV, ""), opt(m.CMRRdB, "dB"), si(m.GBWHz, "Hz")
