@@ -126,7 +126,8 @@ func runCheck(ctx context.Context, opts *checkOptions) error {
 // writeCheckFigures prints the figures a reviewer reads before the
 // limits: the nominal gain against its target and, for a differential
 // input, the resistors' own CMRR and the output error the common-mode
-// range adds on top of the offset.
+// range adds on top of the offset; and, for a channel into an ADC, what
+// the ADC reads and how wrong it can be.
 func writeCheckFigures(w io.Writer, ios *IOStreams, sp *spec.Spec, r *budget.Result) {
 	m := &r.Metrics
 	unit := ""
@@ -143,6 +144,9 @@ func writeCheckFigures(w io.Writer, ios *IOStreams, sp *spec.Spec, r *budget.Res
 				sp.CommonMode.Min, sp.CommonMode.Max, budget.FormatFigure(m.CommonModeErrorV, "V"))
 		}
 		writeHanging(w, ios, "", "  ", line)
+	}
+	if r.Channel != nil {
+		writeHanging(w, ios, "", "  ", r.Channel.Summary())
 	}
 }
 

@@ -77,6 +77,8 @@ type Channel struct {
 	// AtInput, fractions of full scale.
 	Error []Contribution `json:"error"`
 	Drift []Contribution `json:"drift"`
+
+	inputUnit string // of AtInput: V, or A for a current-sense input
 }
 
 // chanTerm is one term of the channel's error at one end of the input
@@ -261,7 +263,8 @@ func (e *Evaluator) channel(ctx context.Context, c *Candidate, res *Result, prog
 		noiseRMS: m.NoiseRMSV, drift: m.DriftPPMPerK * 1e-6, offDrift: m.OffsetDriftVPerK, refInStage: refInStage}
 	f, as := adcFigures(a)
 	termsAt := channelTerms(s, &f, &st)
-	ch := &Channel{Bits: a.Bits, FullScaleV: a.FullScale(), LSBV: a.LSB(), RangeMinV: a.Range.Min, RangeMaxV: a.Range.Max, Reference: spec.ADCRefOwn}
+	ch := &Channel{Bits: a.Bits, FullScaleV: a.FullScale(), LSBV: a.LSB(), RangeMinV: a.Range.Min, RangeMaxV: a.Range.Max, Reference: spec.ADCRefOwn,
+		inputUnit: inputUnit(s)}
 	if a.SharedRef {
 		ch.Reference = spec.ADCRefChannel
 	}
@@ -603,4 +606,18 @@ func (cs *ChannelScreen) Pass(gainErr, offsetV, driftPPM, offDriftVK, noiseRMS f
 		}
 	}
 	return true
+}
+
+// Summary says in one line what the ADC reads and how wrong it can be:
+// its resolution and range, its reference, the total error and the part
+// the temperature range adds, and the output's margin to the ADC's range.
+func (c *Channel) Summary() string {
+	ref := "its own reference"
+	if c.Reference == spec.ADCRefChannel {
+		ref = "the channel's reference (ratiometric)"
+	}
+	return fmt.Sprintf("ADC %d bits over %s..%s (1 LSB = %s) on %s: total error %s (%s) at input %s, of which the temperature range adds %s (%s); output inside the ADC's range by %s",
+		c.Bits, FormatFigure(c.RangeMinV, "V"), FormatFigure(c.RangeMaxV, "V"), FormatFigure(c.LSBV, "V"), ref,
+		FormatFigure(c.TotalErrorLSB, UnitLSB), FormatFigure(c.TotalErrorFS, UnitFS), FormatFigure(c.AtInput, c.inputUnit),
+		FormatFigure(c.TotalDriftLSB, UnitLSB), FormatFigure(c.TotalDriftFS, UnitFS), FormatFigure(c.RangeMarginV, "V"))
 }
