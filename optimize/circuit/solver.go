@@ -95,12 +95,35 @@ func NewSolver(n *Netlist) *Solver {
 	return s
 }
 
+// Reset binds s again to its netlist after elements or nodes were added,
+// removed or moved, as NewSolver would, but reusing s's storage: once it
+// has grown to the largest netlist seen, Reset does not allocate (a caller
+// that solves many topologies one after another, such as the strapping
+// enumeration, rebuilds one netlist in place and resets one Solver).
+func (s *Solver) Reset() {
+	s.factored = false
+	s.topoErr = s.resolve()
+}
+
+// resize returns x with length n, reusing its storage when it can.
+func resize[T any](x []T, n int) []T {
+	if cap(x) >= n {
+		return x[:n]
+	}
+	return make([]T, n)
+}
+
 func (s *Solver) resolve() error {
 	n := s.n
 	nn := len(n.Nodes)
-	s.unk = make([]int, nn)
-	s.src = make([]int, nn)
-	s.g = make([]float64, len(n.Resistors))
+	s.m = 0
+	s.unkNode = s.unkNode[:0]
+	s.rStamps, s.aStamps, s.drives = s.rStamps[:0], s.aStamps[:0], s.drives[:0]
+	s.cRows, s.ibRows, s.aRHS = s.cRows[:0], s.ibRows[:0], s.aRHS[:0]
+	s.srcDrives, s.srcDriveAt, s.srcAmps, s.srcAmpAt = s.srcDrives[:0], s.srcDriveAt[:0], s.srcAmps[:0], s.srcAmpAt[:0]
+	s.unk = resize(s.unk, nn)
+	s.src = resize(s.src, nn)
+	s.g = resize(s.g, len(n.Resistors))
 	for i := range s.src {
 		s.src[i] = -1
 	}
@@ -143,17 +166,23 @@ func (s *Solver) resolve() error {
 	for k := range s.unk {
 		s.unk[k] = -1
 	}
-	for _, k := range append(nodesBut(nn, n.Out), n.Out) {
+	free := func(k int) {
 		if k != 0 && s.src[k] < 0 && s.unk[k] < 0 {
 			s.unk[k] = s.m
 			s.unkNode = append(s.unkNode, k)
 			s.m++
 		}
 	}
+	for k := range nn {
+		if k != n.Out {
+			free(k)
+		}
+	}
+	free(n.Out)
 	if s.m > MaxUnknowns {
 		return bad("%d free nodes, more than the solver's %d", s.m, MaxUnknowns)
 	}
-	s.ampRow = make([]int, s.m)
+	s.ampRow = resize(s.ampRow, s.m)
 	for i := range s.ampRow {
 		s.ampRow[i] = -1
 	}
@@ -395,17 +424,6 @@ func (s *Solver) SolveOut() float64 {
 	}
 	s.solve()
 	return s.voltage(s.n.Out)
-}
-
-// nodesBut returns the node indices 0..nn-1 without skip.
-func nodesBut(nn, skip int) []int {
-	out := make([]int, 0, nn)
-	for k := range nn {
-		if k != skip {
-			out = append(out, k)
-		}
-	}
-	return out
 }
 
 // voltage returns node k's voltage from the last solve.

@@ -288,3 +288,38 @@ func TestSolveOutMatchesSolve(t *testing.T) {
 		}
 	}
 }
+
+// TestReset rebinds one Solver to netlists of every family in turn (their
+// topologies differ) and checks each solve against a fresh NewSolver, then
+// that rebinding to a netlist no larger than one seen allocates nothing.
+func TestReset(t *testing.T) {
+	var nets []*Netlist
+	for _, f := range Families() {
+		nets = append(nets, mustNew(f, Options{}))
+	}
+	work := nets[0].Clone()
+	s := NewSolver(work)
+	for _, n := range append(nets, nets...) {
+		*work = *n.Clone()
+		s.Reset()
+		fresh := NewSolver(n)
+		if err := s.Factor(); err != nil {
+			t.Fatalf("%s after Reset: %v", n.Family, err)
+		}
+		if err := fresh.Factor(); err != nil {
+			t.Fatal(err)
+		}
+		got, want := make([]float64, len(n.Nodes)), make([]float64, len(n.Nodes))
+		s.Solve(got)
+		fresh.Solve(want)
+		for k := range got {
+			if got[k] != want[k] {
+				t.Errorf("%s node %s: %g after Reset, %g from NewSolver", n.Family, n.Nodes[k], got[k], want[k])
+			}
+		}
+	}
+	*work = *nets[0].Clone()
+	if a := testing.AllocsPerRun(20, s.Reset); a != 0 {
+		t.Errorf("Reset allocates %v times per call", a)
+	}
+}

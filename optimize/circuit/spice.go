@@ -2,10 +2,14 @@ package circuit
 
 import (
 	"bufio"
+	"bytes"
 	"errors"
 	"fmt"
 	"io"
 	"math"
+	"os"
+	"os/exec"
+	"path/filepath"
 	"strconv"
 	"strings"
 )
@@ -189,4 +193,40 @@ func spiceNum(v float64) string {
 		v = SPICEOpenOhm
 	}
 	return strconv.FormatFloat(v, 'g', 17, 64)
+}
+
+// RunNgspice writes n as a deck (WriteSPICE) into the directory dir, runs
+// the ngspice program at path on it in batch mode and returns every value
+// it prints, node voltages and voltage-source branch currents
+// ("v_name#branch", positive into the source's node), by lower-case
+// name. It serves the cross-checks against ngspice in this and other
+// packages' tests.
+func RunNgspice(path, dir string, n *Netlist) (map[string]float64, error) {
+	var deck bytes.Buffer
+	if err := n.WriteSPICE(&deck); err != nil {
+		return nil, err
+	}
+	file := filepath.Join(dir, "deck.cir")
+	if err := os.WriteFile(file, deck.Bytes(), 0o644); err != nil {
+		return nil, fmt.Errorf("circuit: writing the SPICE deck: %w", err)
+	}
+	out, err := exec.Command(path, "-b", file).CombinedOutput()
+	if err != nil {
+		return nil, fmt.Errorf("circuit: ngspice: %w\n%s", err, out)
+	}
+	v := map[string]float64{}
+	sc := bufio.NewScanner(bytes.NewReader(out))
+	for sc.Scan() {
+		name, val, ok := strings.Cut(sc.Text(), " = ")
+		if !ok {
+			continue
+		}
+		if f, err := strconv.ParseFloat(strings.TrimSpace(val), 64); err == nil {
+			v[strings.ToLower(strings.TrimSpace(name))] = f
+		}
+	}
+	if len(v) == 0 {
+		return nil, fmt.Errorf("circuit: ngspice printed no values:\n%s", out)
+	}
+	return v, nil
 }

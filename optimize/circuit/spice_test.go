@@ -1,50 +1,24 @@
 package circuit
 
 import (
-	"bufio"
 	"bytes"
 	"errors"
 	"math"
 	"math/rand/v2"
 	"os"
 	"os/exec"
-	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
 )
 
-// runNgspice writes n with WriteSPICE, runs ngspice in batch mode and
-// returns the printed node voltages by lower-case node name.
+// runNgspice runs n through ngspice (RunNgspice) and returns the printed
+// node voltages by lower-case node name.
 func runNgspice(t *testing.T, path string, n *Netlist) map[string]float64 {
 	t.Helper()
-	var deck bytes.Buffer
-	if err := n.WriteSPICE(&deck); err != nil {
-		t.Fatal(err)
-	}
-	file := filepath.Join(t.TempDir(), "deck.cir")
-	if err := os.WriteFile(file, deck.Bytes(), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	out, err := exec.Command(path, "-b", file).CombinedOutput()
+	v, err := RunNgspice(path, t.TempDir(), n)
 	if err != nil {
-		t.Fatalf("ngspice: %v\n%s", err, out)
-	}
-	v := map[string]float64{}
-	sc := bufio.NewScanner(bytes.NewReader(out))
-	for sc.Scan() {
-		name, val, ok := strings.Cut(sc.Text(), " = ")
-		if !ok || strings.Contains(name, "#") {
-			continue
-		}
-		f, err := strconv.ParseFloat(strings.TrimSpace(val), 64)
-		if err != nil {
-			continue
-		}
-		v[strings.TrimSpace(name)] = f
-	}
-	if len(v) == 0 {
-		t.Fatalf("ngspice printed no node voltages:\n%s", out)
+		t.Fatal(err)
 	}
 	return v
 }
