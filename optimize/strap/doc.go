@@ -101,13 +101,30 @@
 //
 // # Use by a circuit family
 //
-// A family for strapped amplifiers calls Enumerate once per catalog
-// amplifier with a Network, keeps the strappings whose Gain matches the
-// spec's gain (and whose Kind suits its input), and budgets each with
-// GainErrorWorst or GainErrorRSS (by the spec's method), GainDriftPPM,
-// CMRRWorst, NoiseGain, SourcePlusOhm/SourceMinusOhm for the offset and
-// bias terms, the input impedances against the spec's limit, and
-// InputRange against the spec's input and common-mode ranges. A design
-// names its strapping by Text; Parse and Evaluate turn it back into the
-// same Strapping.
+// A family of strapped amplifiers (not wired yet) would use the package so:
+//
+//   - Search: for each catalog amplifier with a Network, call Enumerate once
+//     (about 0.2 s for eight pins, BenchmarkEnumerate) and keep the
+//     strappings whose Kind suits the spec's input (Differential for a
+//     differential input; FromPlus for a single-ended one) and whose Gain
+//     is within the gain window; each is one design of that part, priced
+//     as the part. The screening bounds read GainErrorWorst or
+//     GainErrorRSS (by the spec's method), GainDriftPPM, CMRRWorst
+//     (combined with the internal op-amp's own CMRR, 1/CMRR ≤ 1/CMRRr +
+//     1/CMRRa, domain notes §2), NoiseGain for the offset and noise,
+//     SourcePlusOhm and SourceMinusOhm for the bias currents,
+//     InputPlusOhm/InputMinusOhm against an input-impedance limit, and
+//     InputRange with the amplifier's rails and common-mode range (the
+//     hard limit that lets inputs beyond the rails through).
+//   - Budget: Netlist gives the strapped circuit with its sources named as
+//     the family netlists name them ("vp"/"vn" or "vin", "vref", output
+//     "out"), so the exact budget solves it like any other netlist: each
+//     element a position with the network's figures (RatioTolerance and
+//     RatioDriftPPM as a network's ratio tolerance and tracking, Tolerance
+//     absolute), the source and load resistances added at vp, vn or vin
+//     and out, and the internal op-amp's figures from catalog.Amplifier.
+//   - Spec and results: a design names its strapping by Text (JSON: the
+//     amplifier part carries "strapping"); Parse and Evaluate turn it back
+//     into the same Strapping, with errors that name the pin and say what
+//     to write.
 package strap

@@ -92,7 +92,7 @@ func (st *stage) build(m *model, r *resolved) {
 		st.src[t] = -1
 		if r.used[t] {
 			st.src[t] = len(n.Sources)
-			n.Sources = append(n.Sources, circuit.Source{Name: t.String(), Node: at(uint8(t))})
+			n.Sources = append(n.Sources, circuit.Source{Name: sourceName(t, r), Node: at(uint8(t))})
 		}
 	}
 	for i := range m.ea {
@@ -110,6 +110,20 @@ func (st *stage) build(m *model, r *resolved) {
 	n.OpAmps = append(n.OpAmps, circuit.OpAmp{Name: "A1", Plus: st.plus, Minus: at(r.net[m.inv]), Out: out, Gain: math.Inf(1)})
 	n.Out = out
 	st.solver.Reset()
+}
+
+// sourceName names the source on terminal t as package family's netlists
+// do, so that a budget reads a strapped netlist like any other: "vp" and
+// "vn" for a differential input, "vin" for a single-ended one, "vref" for
+// the reference.
+func sourceName(t Terminal, r *resolved) string {
+	switch {
+	case t == Ref:
+		return "vref"
+	case r.used[InPlus] != r.used[InMinus]:
+		return "vin"
+	}
+	return t.String()
 }
 
 // Verdicts of check.
@@ -334,4 +348,38 @@ func (s *Strapping) setErrors(n *catalog.MatchedNetwork) {
 		acm += math.Abs(x) * half
 	}
 	s.CMRRWorst = math.Abs(s.Gain) / acm
+}
+
+// Netlist returns the circuit of strapping s of network n as package
+// circuit solves it: the elements that carry current, named as in the
+// network, between nodes "vp", "vn", "ref", "out" and tie or internal nodes
+// "nK"; an ideal op-amp "A1" (Gain +Inf; set a finite one to model it);
+// sources at 0 V named as package family's netlists name them ("vp" and
+// "vn", or "vin" for a single-ended strapping, and "vref"). A budget fills
+// the element values with their deviations, adds its source, load and
+// noise elements, and solves it.
+func (s *Strapping) Netlist(n *catalog.MatchedNetwork) (*circuit.Netlist, error) {
+	m, err := prepare(n)
+	if err != nil {
+		return nil, err
+	}
+	if len(s.Connections) != len(m.pins) {
+		return nil, fmt.Errorf("%w: %d pin terminals for a network of %d pins", ErrText, len(s.Connections), len(m.pins))
+	}
+	var r resolved
+	m.resolve(s.Connections, &r)
+	st := newStage(m)
+	if v := st.check(m, &r); v != usable {
+		return nil, st.reason(v, &r)
+	}
+	c := st.net.Clone()
+	c.Currents = nil
+	return c, nil
+}
+
+// OpAmpInputV returns the voltage at the internal op-amp's inputs (equal,
+// by the virtual short) for inputs vp and vn and reference vref; an
+// unconnected input's voltage is ignored.
+func (s *Strapping) OpAmpInputV(vp, vn, vref float64) float64 {
+	return s.plusPin[0]*vp + s.plusPin[1]*vn + s.plusPin[2]*vref
 }

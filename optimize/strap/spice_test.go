@@ -83,7 +83,7 @@ func TestAgainstNgspice(t *testing.T) {
 				for _, a := range c.OpAmps {
 					deck.OpAmps = append(deck.OpAmps, circuit.OpAmp{Name: prefix + a.Name, Plus: at(a.Plus), Minus: at(a.Minus), Out: at(a.Out), Gain: a.Gain})
 				}
-				probes = append(probes, probe{s: s, drive: drive, out: strings.ToLower(prefix + "out"), src: strings.ToLower("v" + prefix + drive.String())})
+				probes = append(probes, probe{s: s, drive: drive, out: strings.ToLower(prefix + "out"), src: strings.ToLower("v" + prefix + c.Sources[k].Name)})
 			}
 		}
 		got, err := circuit.RunNgspice(path, t.TempDir(), deck)

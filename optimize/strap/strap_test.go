@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"plumb/catalog"
+	"plumb/optimize/circuit"
 )
 
 // mustEval parses and evaluates one strapping text.
@@ -21,6 +22,16 @@ func mustEval(t *testing.T, n *catalog.MatchedNetwork, text string) *Strapping {
 		t.Fatalf("%s: %v", text, err)
 	}
 	return s
+}
+
+// mustEnumerate is Enumerate for a network known to be valid.
+func mustEnumerate(t *testing.T, n *catalog.MatchedNetwork) []Strapping {
+	t.Helper()
+	all, err := Enumerate(n)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return all
 }
 
 func near(got, want, tol float64) bool {
@@ -92,10 +103,7 @@ func TestRatioStrappings(t *testing.T) {
 		// current) with Ra to ground: non-inverting 1 + Rb/Ra = 3/2.
 		{"inputs tied", "IN-=ref IN+=vp FB=out REF=vp", FromPlus, 1.5, math.Inf(1), math.NaN()},
 	}
-	all, err := Enumerate(n)
-	if err != nil {
-		t.Fatal(err)
-	}
+	all := mustEnumerate(t, n)
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
 			s := mustEval(t, n, tc.text)
@@ -209,10 +217,7 @@ func forCorners(t *testing.T, n *catalog.MatchedNetwork, s *Strapping, f func(gp
 // strapping of the ratio network.
 func TestGainErrorAgainstCorners(t *testing.T) {
 	n := ratioNet(20e3, 10e3)
-	all, err := Enumerate(n)
-	if err != nil {
-		t.Fatal(err)
-	}
+	all := mustEnumerate(t, n)
 	for i := range all {
 		s := &all[i]
 		worst := 0.0
@@ -234,10 +239,7 @@ func TestGainErrorAgainstCorners(t *testing.T) {
 // element), for every strapping of the split network.
 func TestSensitivitiesAgainstDifferences(t *testing.T) {
 	n := splitNet()
-	all, err := Enumerate(n)
-	if err != nil {
-		t.Fatal(err)
-	}
+	all := mustEnumerate(t, n)
 	const h = 1e-6
 	for _, s := range all {
 		for j, name := range s.Elements {
@@ -273,10 +275,7 @@ func TestSensitivitiesAgainstDifferences(t *testing.T) {
 // one volt shifts every node by it.
 func TestHomogeneity(t *testing.T) {
 	for _, n := range []*catalog.MatchedNetwork{classicNet(10e3, 0.001), ratioNet(20e3, 10e3), ratioNet(49.9e3, 12.4e3), splitNet()} {
-		all, err := Enumerate(n)
-		if err != nil {
-			t.Fatal(err)
-		}
+		all := mustEnumerate(t, n)
 		if len(all) == 0 {
 			t.Fatal("no strapping")
 		}
@@ -304,10 +303,7 @@ func TestHomogeneity(t *testing.T) {
 // does, so no listed strapping has a needless connection.
 func TestEnumerationIsMinimal(t *testing.T) {
 	for _, n := range []*catalog.MatchedNetwork{classicNet(10e3, 0.001), ratioNet(20e3, 10e3), splitNet()} {
-		all, err := Enumerate(n)
-		if err != nil {
-			t.Fatal(err)
-		}
+		all := mustEnumerate(t, n)
 		seen := map[string]string{}
 		for _, s := range all {
 			k := s.behaviour()
@@ -337,10 +333,7 @@ func TestEnumerationIsMinimal(t *testing.T) {
 // same connections and figures.
 func TestTextRoundTrip(t *testing.T) {
 	n := splitNet()
-	all, err := Enumerate(n)
-	if err != nil {
-		t.Fatal(err)
-	}
+	all := mustEnumerate(t, n)
 	for _, s := range all {
 		back := mustEval(t, n, s.Text)
 		if back.Text != s.Text || back.behaviour() != s.behaviour() {
@@ -502,4 +495,75 @@ func TestNetworkErrors(t *testing.T) {
 			}
 		})
 	}
+}
+
+// TestNetlist: the exported netlist of every strapping names its sources
+// as the family netlists do and, solved by package circuit, gives the
+// strapping's transfers; the op-amp's inputs sit at OpAmpInputV.
+func TestNetlist(t *testing.T) {
+	n := ratioNet(20e3, 10e3)
+	all := mustEnumerate(t, n)
+	for i := range all {
+		s := &all[i]
+		net, err := s.Netlist(n)
+		if err != nil {
+			t.Fatal(err)
+		}
+		names := map[string]float64{"vref": s.GainRef}
+		if s.Kind == Differential {
+			names["vp"], names["vn"] = s.GainPlus, s.GainMinus
+		} else {
+			names["vin"] = s.GainPlus
+		}
+		sol := circuit.NewSolver(net)
+		if err := sol.Factor(); err != nil {
+			t.Fatal(err)
+		}
+		sol.Adjoint()
+		for _, src := range net.Sources {
+			want, ok := names[src.Name]
+			if !ok {
+				t.Errorf("%s: source %q, want one of vp, vn, vin, vref", s.Text, src.Name)
+				continue
+			}
+			if got := sol.SourceTransfer(net.SourceIndex(src.Name)); !near(got, want, 1e-12) {
+				t.Errorf("%s: transfer from %s %.12g, want %.12g", s.Text, src.Name, got, want)
+			}
+		}
+		// Inputs at 1 V (vp), -2 V (vn) and a 0.5 V reference.
+		volts := map[string]float64{"vp": 1, "vin": 1, "vn": -2, "vref": 0.5}
+		for k := range net.Sources {
+			net.Sources[k].V = volts[net.Sources[k].Name]
+		}
+		v := make([]float64, len(net.Nodes))
+		sol.Solve(v)
+		if got, want := v[net.OpAmps[0].Plus], s.OpAmpInputV(1, -2, 0.5); !near(got, want, 1e-12) {
+			t.Errorf("%s: op-amp input at %.12g V, OpAmpInputV %.12g V", s.Text, got, want)
+		}
+	}
+}
+
+// FuzzParse: any text Parse accepts prints (Text) to a text that parses to
+// the same connections.
+func FuzzParse(f *testing.F) {
+	for _, s := range []string{"IN-=vn IN+=vp REF=ref SENSE=out", "IN-=n2 SENSE=n2", "OUT=out", "IN-=vp IN-=vn", "x", ""} {
+		f.Add(s)
+	}
+	n := classicNet(10e3, 0.001)
+	f.Fuzz(func(t *testing.T, text string) {
+		c, err := Parse(n, text)
+		if err != nil {
+			if !errors.Is(err, ErrText) {
+				t.Fatalf("Parse(%q): %v, not ErrText", text, err)
+			}
+			return
+		}
+		back, err := Parse(n, c.Text(n.Pins))
+		if err != nil {
+			t.Fatalf("%q printed as %q, which fails: %v", text, c.Text(n.Pins), err)
+		}
+		if back.Text(n.Pins) != c.Text(n.Pins) {
+			t.Fatalf("%q: %q read back as %q", text, c.Text(n.Pins), back.Text(n.Pins))
+		}
+	})
 }
