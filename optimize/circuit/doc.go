@@ -6,8 +6,10 @@
 // A circuit is a Netlist: resistors at named positions, ideal voltage
 // sources to ground, current sources, and op-amps modelled as finite-gain
 // voltage-controlled voltage sources with an input offset voltage and two
-// input bias currents. New builds the topology of one Family with plausible
-// nominal values; callers then set values by index and solve.
+// input bias currents. New builds the netlist of one family of package
+// family's registry (each family's file there draws its topology) with
+// plausible nominal values; callers then set values by index and solve.
+// Nothing here knows a particular family.
 //
 // The solver eliminates every node fixed by an ideal source, keeps only the
 // free nodes as unknowns and replaces the current-law row of each op-amp

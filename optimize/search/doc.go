@@ -19,25 +19,20 @@
 // cost found. Exhaustive walks every class and every value and is kept as the
 // oracle: both return the same designs.
 //
-// Families: the difference amplifier from four discrete resistors, on a
-// matched four-element network, or as an amplifier with matched resistors
-// inside; the non-inverting and inverting amplifiers; the unbuffered
-// divider; current sense (a shunt from the catalog, then a difference
-// search per shunt with the limits less the shunt's share, merged by
-// cost); the three-op-amp instrumentation amplifier (Rg, Rf1 = Rf2 of one
-// value and grade, a second-stage difference amplifier R1 = R3, R2 = R4 of
-// four discrete resistors of one value at unity gain or on a matched
-// network, one op-amp part at A1..A3 counted in packages by its channels;
-// G = (1 + 2Rf/Rg)·R2/R1, one exact sub-search per second-stage gain,
-// merged by cost); the level shift Vout = m·Vin + b with the reference
-// summed into the non-inverting node through R1, R2, R3 and Rg = Rf (NG =
-// 2 exactly, so only the input network's two ratios R2/R1 and R3/R1 are
-// quantized; exact corners of slope and offset with the reference's
-// tolerance and drift); a negative offset takes the reference into the
-// inverting input through R2 (Vout = Vin·R3/(R1+R3)·(2 + Rf/R2) -
-// Vref·Rf/R2 with Rg = Rf; R2 of the feedback grade, R3/R1 aimed at the
-// noise gain of the R2 value). A zero offset, m + b/Vref >= 2 (positive
-// offset) and m >= 2 - b/Vref (negative offset) are refused with a message.
+// Families come from package family's registry; the search never names
+// one. A family's Search field says how its space is walked (family.
+// Strategy): a ratio pair (Rg and Rf values of one grade each, or a matched
+// network, the gain set by k = Rf/Rg through the family's Ratio model); two
+// stages (the in-amp: Rg, Rf1 = Rf2 and one exact sub-search per
+// second-stage gain R2/R1 on four discrete resistors at unity or a matched
+// network, one op-amp part at A1..A3 counted in packages, merged by cost); a
+// shift network (the level shift: the reference summed into the
+// non-inverting node through R1, R2, R3 with Rg = Rf, or into the inverting
+// input through R2 for a negative offset; see levelshift.go); a shunt (a
+// shunt from the catalog, then the family Search.As per shunt with the
+// limits less the shunt's share, merged by cost); or one catalog part walked
+// in another family's circuit (an amplifier with matched resistors inside).
+// Each family's file in package family holds its equations.
 //
 // Screening model (approximations from the domain notes and S. Franco,
 // "Design with Operational Amplifiers and Analog Integrated Circuits",
@@ -46,9 +41,8 @@
 //	ratio k = Rf/Rg, each resistor within ±t: k in k0·[(1-tf)/(1+tg), (1+tf)/(1-tg)],
 //	  widened by load-life shifts over life and by the tempcos over the
 //	  worst excursion ΔT = max(|Tmax-Tref|, |Tmin-Tref|)
-//	difference amplifier: Acm = (k2-k1)/(1+k2), Adm = (k2(1+k1)/(1+k2)+k1)/2,
-//	  CMRR = Adm/|Acm| ≈ (1+G)/(4t) for four resistors of tolerance t,
-//	  (1+G)/(2r) on a network with ratio tolerance r;
+//	four-resistor stages (family.Ratio.FourResistor): the CMRR of the two
+//	  ratios' mismatch (see family.Difference), and
 //	  1/CMRR_total = 1/CMRR_resistors + 1/CMRR_amplifier (worst case)
 //	finite open-loop gain: G/(1+NG/A)
 //	drift: ratio drift ((1+cf·ΔT)/(1-cg·ΔT) - 1)/ΔT ≈ TCRf + TCRg, or the
