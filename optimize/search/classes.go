@@ -17,7 +17,12 @@ import (
 // amplifiers that pass the hard limits, and resistor configurations (a
 // grade group per position, or a network) with their value options.
 type space struct {
-	p                *Problem
+	p *Problem
+	// fm, rm and st cache the circuit's family, its ratio model and its
+	// strategy (see fam).
+	fm               *family.Family
+	rm               *family.Ratio
+	st               family.Strategy
 	rss              bool
 	k, w             float64 // target ratio Rf/Rg and quantization window
 	dT               float64
@@ -73,7 +78,7 @@ func newSpace(ctx context.Context, parts *Parts, p *Problem, combos bool) (*spac
 	if r := s.model(); r != nil {
 		s.perG, s.perF = r.PerRg, r.PerRf
 	}
-	if s.p.strategy() == family.TwoStage {
+	if s.strategy() == family.TwoStage {
 		s.k2 = p.stage2Gain()
 	}
 	fams := map[Family]bool{}
@@ -87,7 +92,7 @@ func newSpace(ctx context.Context, parts *Parts, p *Problem, combos bool) (*spac
 	var err error
 	// Discrete resistors: the discrete build, and every build of a
 	// two-stage circuit (its first stage is discrete).
-	disc := fams[variant(s.p.family(), buildDiscrete)] || (s.p.strategy() == family.TwoStage && fams[variant(s.p.family(), buildNetwork)])
+	disc := fams[variant(s.fam(), buildDiscrete)] || (s.strategy() == family.TwoStage && fams[variant(s.fam(), buildNetwork)])
 	if disc {
 		if s.groups, err = buildGroups(ctx, parts, p); err != nil {
 			return nil, err
@@ -97,8 +102,8 @@ func newSpace(ctx context.Context, parts *Parts, p *Problem, combos bool) (*spac
 	if err := s.checkCurrency(parts); err != nil {
 		return nil, err
 	}
-	famDisc := variant(s.p.family(), buildDiscrete)
-	switch s.p.strategy() {
+	famDisc := variant(s.fam(), buildDiscrete)
+	switch s.strategy() {
 	case family.TwoStage:
 		s.inampConfigs(parts, fams)
 		return s, nil
@@ -121,7 +126,7 @@ func newSpace(ctx context.Context, parts *Parts, p *Problem, combos bool) (*spac
 			}
 		}
 	}
-	if fams[variant(s.p.family(), buildNetwork)] {
+	if fams[variant(s.fam(), buildNetwork)] {
 		s.networkConfigs(parts)
 	}
 	return s, nil
@@ -182,7 +187,7 @@ func (s *space) ratingVoltages() {
 	for _, vcm := range []float64{p.CMMin, p.CMMax} {
 		for _, vd := range []float64{p.InMin, p.InMax} {
 			vg, vf := s.model().Voltages(k, vd, vcm, p.Ref)
-			if s.p.strategy() == family.TwoStage {
+			if s.strategy() == family.TwoStage {
 				// The second stage sees the first stage's outputs.
 				k2 := p.stage2Gain()
 				o1, o2 := vcm+(1+2*k)*vd/2, vcm-(1+2*k)*vd/2
@@ -282,7 +287,7 @@ func (s *space) networkConfigs(parts *Parts) {
 				s.nets = append(s.nets, n)
 				added = true
 			}
-			c := config{fam: variant(s.p.family(), buildNetwork), ga: -1, gb: -1, net: len(s.nets) - 1, na: a, nb: b,
+			c := config{fam: variant(s.fam(), buildNetwork), ga: -1, gb: -1, net: len(s.nets) - 1, na: a, nb: b,
 				g: networkGrades(n.RatioTolerance, n.TCRTracking, s.dT)}
 			c.costLB = ext + s.assembly(1, 1)
 			c.opts = []option{{k0: k0, rp: rp, rg: -1, rf: -1, rf2: -1, cost: c.costLB, short: short}}
@@ -304,7 +309,7 @@ func (s *space) options(c *config) []option {
 		return c.opts
 	}
 	c.built = true
-	if s.p.strategy() == family.ShiftNetwork {
+	if s.strategy() == family.ShiftNetwork {
 		s.levelShiftOptions(c)
 		// Among equal costs, R1 nearest the middle of the resistor window
 		// first: the input network neither loads the source and the
@@ -602,14 +607,36 @@ func (s *space) target(rg float64) float64 {
 	return s.k * rg
 }
 
+// fam returns the circuit's family, looked up once per space.
+func (s *space) fam() *family.Family {
+	if s.fm == nil {
+		s.fm = s.p.family()
+		s.rm, s.st = s.fm.Search.Ratio, s.fm.Search.Strategy
+	}
+	return s.fm
+}
+
 // model is the screening model of the circuit's ratio (nil for a level
 // shift).
-func (s *space) model() *family.Ratio { return s.p.family().Search.Ratio }
+func (s *space) model() *family.Ratio {
+	if s.fm == nil {
+		s.fam()
+	}
+	return s.rm
+}
+
+// strategy is the shape of the circuit's search space.
+func (s *space) strategy() family.Strategy {
+	if s.fm == nil {
+		s.fam()
+	}
+	return s.st
+}
 
 // pairNetwork reports whether configuration c puts a ratio pair on a
 // matched network (a two-stage circuit's network configurations carry
 // discrete first stages).
-func (s *space) pairNetwork(c *config) bool { return c.net >= 0 && s.p.strategy() == family.RatioPair }
+func (s *space) pairNetwork(c *config) bool { return c.net >= 0 && s.strategy() == family.RatioPair }
 
 // quant is the ratio quantization |k0/k - 1| of values rg and rf.
 func (s *space) quant(rg, rf float64) float64 {

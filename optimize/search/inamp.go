@@ -98,16 +98,16 @@ func (s *space) stage2Value(g *group) int {
 // configuration per (Rg group, Rf group, second stage).
 func (s *space) inampConfigs(parts *Parts, fams map[Family]bool) {
 	p := s.p
-	if fams[variant(s.p.family(), buildDiscrete)] && s.k2 == 1 {
+	if fams[variant(s.fam(), buildDiscrete)] && s.k2 == 1 {
 		for gi, g := range s.groups {
 			if vi := s.stage2Value(g); vi >= 0 {
 				gr := g.grade
-				s.st2 = append(s.st2, stage2{fam: variant(s.p.family(), buildDiscrete), grp: gi, vi: int32(vi), net: -1, r1: g.values[vi], r2: g.values[vi],
+				s.st2 = append(s.st2, stage2{fam: variant(s.fam(), buildDiscrete), grp: gi, vi: int32(vi), net: -1, r1: g.values[vi], r2: g.values[vi],
 					g: discreteGrades(gr.Tolerance, gr.TCR, gr.LoadLife, gr.Tolerance, gr.TCR, gr.LoadLife, s.dT)})
 			}
 		}
 	}
-	if fams[variant(s.p.family(), buildNetwork)] {
+	if fams[variant(s.fam(), buildNetwork)] {
 		for i := range parts.Networks {
 			n := &parts.Networks[i]
 			if p.Build.Currency != "" && !offerIn(&n.Offer, p.Build.Currency) {
@@ -127,7 +127,7 @@ func (s *space) inampConfigs(parts *Parts, fams map[Family]bool) {
 					s.nets = append(s.nets, n)
 					added = true
 				}
-				s.st2 = append(s.st2, stage2{fam: variant(s.p.family(), buildNetwork), grp: -1, net: len(s.nets) - 1, r1: a, r2: b,
+				s.st2 = append(s.st2, stage2{fam: variant(s.fam(), buildNetwork), grp: -1, net: len(s.nets) - 1, r1: a, r2: b,
 					g: networkGrades(n.RatioTolerance, n.TCRTracking, s.dT), netCost: ext + s.assembly(1, 1), short: short})
 			}
 		}

@@ -358,7 +358,7 @@ func (s *space) levelShiftConfigs() {
 			continue
 		}
 		for a, gi := range s.groups {
-			c := config{fam: variant(s.p.family(), buildDiscrete), ga: a, gb: b, net: -1, fbv: int32(fv),
+			c := config{fam: variant(s.fam(), buildDiscrete), ga: a, gb: b, net: -1, fbv: int32(fv),
 				g: discreteGrades(gi.grade.Tolerance, gi.grade.TCR, gi.grade.LoadLife, gf.grade.Tolerance, gf.grade.TCR, gf.grade.LoadLife, s.dT)}
 			g2 := gi
 			if s.p.lsInv() {
@@ -441,7 +441,7 @@ func (s *space) levelShiftOptions(c *config) {
 // evalOpt computes the screening figures of option o of configuration c
 // with op-amp a.
 func (s *space) evalOpt(c *config, o *option, a *amp, m *metrics) {
-	if s.p.strategy() == family.ShiftNetwork {
+	if s.strategy() == family.ShiftNetwork {
 		s.evalLevelShift(c, o, a, m)
 		return
 	}

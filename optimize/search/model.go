@@ -127,7 +127,7 @@ func (s *space) gainMult(k0, m float64) float64 { return s.model().Mult(k0, m) }
 // resistor figures g and amplifier a.
 func (s *space) eval(g *grades, k0, rp float64, a *amp, m *metrics) {
 	p, r := s.p, s.model()
-	if s.p.strategy() == family.TwoStage {
+	if s.strategy() == family.TwoStage {
 		s.evalInAmp(g, k0, rp, a, m)
 		return
 	}
@@ -288,7 +288,7 @@ const boundSafety = 1 - 1e-12
 // so pass(bound) false proves that no design of the class passes.
 func (s *space) bound(g *grades, a *amp, m *metrics) {
 	p := s.p
-	switch s.p.strategy() {
+	switch s.strategy() {
 	case family.ShiftNetwork:
 		s.boundLevelShift(a, m)
 		s.shrinkBound(m)

@@ -381,7 +381,7 @@ func famName(f Family) string {
 
 // positions names the Rg and Rf positions of the circuit.
 func (s *space) positions() (rg, rf []string) {
-	if s.p.strategy() == family.ShiftNetwork {
+	if s.strategy() == family.ShiftNetwork {
 		if s.p.lsInv() {
 			return []string{"R1", "R3"}, []string{"R2", "Rg", "Rf"}
 		}
@@ -427,7 +427,7 @@ func (s *space) describe(b *classBest) (Design, *spec.Design, error) {
 			n := s.nets[c.net]
 			uses = append(uses, cost.Use{Part: n.Part, Offer: &n.Offer, Placements: 1})
 			parts, sd.Positions = networkParts(n, c.na, c.nb, parts, sd.Positions)
-		case s.p.strategy() == family.ShiftNetwork:
+		case s.strategy() == family.ShiftNetwork:
 			o := c.opts[b.opt]
 			ga, gb := s.groups[c.ga], s.groups[c.gb]
 			for _, e := range []struct {

@@ -798,7 +798,7 @@ func (s *space) dominant(b *classBest, limit string) (string, float64) {
 	}
 	var ts []term
 	p := s.p
-	if s.p.strategy() == family.ShiftNetwork {
+	if s.strategy() == family.ShiftNetwork {
 		return s.lsDominant(b, limit)
 	}
 	if b.cfg < 0 {
@@ -890,7 +890,7 @@ func (s *space) dominant(b *classBest, limit string) (string, float64) {
 
 // idealGain is the gain magnitude of ratio k0 with an ideal amplifier.
 func (s *space) idealGain(k0 float64) float64 {
-	if s.p.strategy() == family.TwoStage {
+	if s.strategy() == family.TwoStage {
 		return s.model().Gain(k0) * s.k2
 	}
 	return s.model().Gain(k0)

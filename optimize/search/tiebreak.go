@@ -121,7 +121,7 @@ func (s *space) stress(c *config, o *option) (power, voltage float64) {
 		n := s.nets[c.net]
 		one(n.PowerW, n.MaxVoltageV, c.na, s.vG)
 		one(n.PowerW, n.MaxVoltageV, c.nb, s.vF)
-	case s.p.strategy() != family.ShiftNetwork && c.ga >= 0 && c.gb >= 0 && o.rg >= 0 && o.rf >= 0:
+	case s.strategy() != family.ShiftNetwork && c.ga >= 0 && c.gb >= 0 && o.rg >= 0 && o.rf >= 0:
 		ga, gb := s.groups[c.ga], s.groups[c.gb]
 		one(ga.grade.PowerW, ga.grade.MaxVoltageV, ga.values[o.rg], s.vG)
 		rf, vf := gb.values[o.rf], s.vF
@@ -142,7 +142,7 @@ func (s *space) tie(c *config, o *option, m *metrics) tieKey {
 	if c != nil {
 		k.power, k.voltage = s.stress(c, o)
 		l := &s.p.Limits
-		if s.p.strategy() != family.ShiftNetwork && s.k > 0 && !s.p.CalGain && l.GainError == 0 && l.TotalGainError == 0 {
+		if s.strategy() != family.ShiftNetwork && s.k > 0 && !s.p.CalGain && l.GainError == 0 && l.TotalGainError == 0 {
 			k.quant = math.Abs(o.k0/s.k - 1)
 		}
 	}
