@@ -101,7 +101,8 @@
 //
 // # Use by a circuit family
 //
-// A family of strapped amplifiers (not wired yet) would use the package so:
+// A family of strapped amplifiers (not wired into the search yet) would use
+// the package so:
 //
 //   - Search: for each catalog amplifier with a Network, call Enumerate once
 //     (about 0.2 s for eight pins, BenchmarkEnumerate) and keep the
@@ -123,6 +124,16 @@
 //     RatioDriftPPM as a network's ratio tolerance and tracking, Tolerance
 //     absolute), the source and load resistances added at vp, vn or vin
 //     and out, and the internal op-amp's figures from catalog.Amplifier.
+//   - What changes from the matched family: that family prices a part at
+//     a front-page gain G and takes the noise gain as 1 + G and the op-amp
+//     inputs at G/(1+G) of the input common mode, true only of the
+//     strapping as drawn. A strapped family takes NoiseGain and
+//     OpAmpInputV (or InputRange) of the strapping instead: strapping the
+//     same part for another gain changes both, and an attenuating
+//     strapping can have a noise gain of 1 or 3 at the same gain.
+//   - The catalog must carry the network (catalog.Amplifier.Network) from
+//     the store and the importers to the search; a part without one keeps
+//     its front-page gains.
 //   - Spec and results: a design names its strapping by Text (JSON: the
 //     amplifier part carries "strapping"); Parse and Evaluate turn it back
 //     into the same Strapping, with errors that name the pin and say what

@@ -483,7 +483,7 @@ func TestNetworkErrors(t *testing.T) {
 			for i := range maxPins {
 				n.Pins = append(n.Pins, "P"+string(rune('a'+i)))
 			}
-		}, "more than the 10"},
+		}, "more than the 9"},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -566,4 +566,48 @@ func FuzzParse(f *testing.F) {
 			t.Fatalf("%q: %q read back as %q", text, c.Text(n.Pins), back.Text(n.Pins))
 		}
 	})
+}
+
+// TestSplitStrappings checks strappings of the split-element network (six
+// 20 kΩ elements: R1, R2 from INA-, INB- to the inverting input, R3 from
+// there to FB, R4, R5 from INA+, INB+ to NI, R6 from NI to REF), each
+// derived by hand with the difference-amplifier equation of domain notes
+// §2, Vout = Vp·(R4'/(R3'+R4'))·(1 + R2'/R1') − Vn·R2'/R1' + ..., where the
+// primed elements are the strapping's input, feedback and divider
+// resistances:
+func TestSplitStrappings(t *testing.T) {
+	n := splitNet()
+	tests := []struct {
+		name, text string
+		kind       Kind
+		gain       float64
+		noiseGain  float64
+	}{
+		// One element of each: R2'/R1' = 20k/20k, divider 20k/(20k+20k):
+		// gain 1, noise gain 2.
+		{"unity", "INA-=vn FB=out INA+=vp REF=ref", Differential, 1, 2},
+		// Both inputs on each side in parallel (10 kΩ in), 20 kΩ feedback
+		// and to REF: R2'/R1' = 2, NI at 20/30 of vp, (1+2)·2/3 = 2.
+		{"gain 2, inputs in parallel", "INA-=vn INB-=vn FB=out INA+=vp INB+=vp REF=ref", Differential, 2, 3},
+		// Feedback R3‖R2 = 10 kΩ (INB- at the output), input R1 = 20 kΩ:
+		// R2'/R1' = 1/2; R6‖R5 = 10 kΩ to REF (INB+ at ref) below R4 from
+		// vp puts NI at 10/30 of vp, and (1 + 1/2)/3 = 1/2.
+		{"gain 1/2, feedback in parallel", "INA-=vn INB-=out FB=out INA+=vp INB+=ref REF=ref", Differential, 0.5, 1.5},
+		// Non-inverting 1 + R3/R1 = 2 with NI driven directly.
+		{"non-inverting 1+R3/R1", "INA-=ref FB=out NI=vp", FromPlus, 2, 2},
+		// Non-inverting 1 + R3/(R1‖R2) = 3.
+		{"non-inverting 1+R3/(R1||R2)", "INA-=ref INB-=ref FB=out NI=vp", FromPlus, 3, 3},
+		// Inverting −R3/R1 = −1 with NI at the reference.
+		{"inverting -R3/R1", "INA-=vp FB=out NI=ref", FromPlus, -1, 2},
+		// Attenuator: R4 from vp, R5‖R6 = 10 kΩ to ref, follower: 1/3.
+		{"attenuator 1/3", "INA-=out INA+=vp INB+=ref REF=ref", FromPlus, 1.0 / 3, 1},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			s := mustEval(t, n, tc.text)
+			if s.Kind != tc.kind || !near(s.Gain, tc.gain, 1e-12) || !near(s.NoiseGain, tc.noiseGain, 1e-12) {
+				t.Errorf("%s: %s gain %.15g, noise gain %.15g; want %s %g, %g", tc.text, s.Kind, s.Gain, s.NoiseGain, tc.kind, tc.gain, tc.noiseGain)
+			}
+		})
+	}
 }
