@@ -12,7 +12,7 @@
 // pin is always out; a sense or feedback pin may be tied to it), a tie nK
 // that joins it to the other pins marked nK and to nothing outside, or open.
 // The text form lists the connected pins in the network's pin order, open
-// pins left out: "IN-=vn IN+=vp REF=ref FB=out". Connections is the
+// pins left out: "IN-=vn IN+=vp FB=out REF=ref OUT=out". Connections is the
 // structured form, one Terminal per pin.
 //
 // A strapping is kept when, with an ideal internal op-amp,
@@ -34,7 +34,14 @@
 // unconnected pin, an element with both ends on one net, and a group of
 // elements reaching no input, reference, output or op-amp input carry no
 // current and are dropped. Of equivalent strappings the one with the fewest
-// connected pins (then the first in pin order) stands for all.
+// connected pins stands for all (the first the walk meets among equals).
+// Enumerate then folds strappings whose figures all agree (equal elements
+// swapped, an input through an element that carries no current) into the
+// one with the fewest connections, listing the others in Equivalents. It
+// also lists each circuit once where naming is arbitrary: a single-ended
+// strapping takes its input at vp (its twin at vn is the same circuit),
+// and a differential one has a positive gain (swapping vp and vn negates
+// it).
 //
 // # Transfer
 //
