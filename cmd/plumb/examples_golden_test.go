@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"plumb/data"
+	"plumb/optimize/family"
 )
 
 // designFor reads the spec a design example is written for from its first
@@ -65,5 +66,29 @@ func TestExamplesGolden(t *testing.T) {
 			}
 			assertGolden(t, path.Join("examples", name), out)
 		})
+	}
+}
+
+// TestHelpFamilies: `plumb help families` lists every family of the
+// registry with its positions, so that a family added there is documented
+// to the user without touching the command.
+func TestHelpFamilies(t *testing.T) {
+	clearPlumbEnv(t)
+	f, _, _ := testFactory(t)
+	out, errOut, code := runPlumb(t, f, "help families")
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	for _, fam := range family.All() {
+		if !strings.Contains(out, "\n  "+fam.Name+"\n      "+fam.About+"\n") {
+			t.Errorf("help families lacks %s (%s):\n%s", fam.Name, fam.About, out)
+		}
+		pos, err := fam.Positions(family.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(pos) > 0 && !strings.Contains(out, "design positions: "+strings.Join(pos, ", ")) {
+			t.Errorf("help families lacks the positions of %s", fam.Name)
+		}
 	}
 }

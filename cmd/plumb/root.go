@@ -87,6 +87,7 @@ func newRootCmd(f *Factory) *cobra.Command {
 		newCompletionCmd(f, nil),
 		newManCmd(f, nil),
 		newMappingHelpTopic(),
+		newFamiliesHelpTopic(),
 	)
 	cmd.CompletionOptions.DisableDefaultCmd = true
 	return cmd
