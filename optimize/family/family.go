@@ -241,6 +241,24 @@ type Ratio struct {
 	// Zin returns the smallest input impedance the source sees with values
 	// rg and rf (+Inf where the input is an op-amp pin).
 	Zin func(rg, rf float64) float64
+	// Stage2 is the second stage of a TwoStage family (nil otherwise).
+	Stage2 *Stage2
+}
+
+// Stage2 is the second stage of a two-stage family: a difference amplifier
+// of gain k2 = R2/R1 on the first stage's outputs, the stage's gain then
+// Gain(k)·k2. Its functions take the first stage's ratio k, k2, the input
+// vd, the common mode vcm and the reference ref.
+type Stage2 struct {
+	// Pins returns the lowest and highest voltage at any op-amp input pin.
+	Pins func(k, k2, vd, vcm, ref float64) (lo, hi float64)
+	// Voltages returns the voltages across the second stage's input (R1,
+	// R3) and feedback (R2, R4) positions for the stage's output out.
+	Voltages func(k, k2, vd, vcm, ref, out float64) (v1, v2 float64)
+	// Swing returns the range the first stage's outputs swing over.
+	Swing func(k, vd, vcm float64) (lo, hi float64)
+	// NoiseGain is the largest noise gain of any of its op-amps.
+	NoiseGain func(k, k2 float64) float64
 }
 
 // SearchFamily returns the family whose space f is walked in.

@@ -40,6 +40,25 @@ var InAmp = &Family{
 		Voltages: func(k, vd, _, _ float64) (float64, float64) { return math.Abs(vd), math.Abs(k * vd) },
 		Out:      referredOut,
 		Zin:      func(float64, float64) float64 { return math.Inf(1) },
+		Stage2: &Stage2{
+			// A1 and A2 see the inputs; A3 sees the first stage's outputs
+			// Vcm ± G1·Vd/2 through R3/R4.
+			Pins: func(k, k2, vd, vcm, ref float64) (float64, float64) {
+				o1 := vcm + (1+2*k)*vd/2
+				v := o1*k2/(1+k2) + ref/(1+k2)
+				return math.Min(v, math.Min(vcm-vd/2, vcm+vd/2)), math.Max(v, math.Max(vcm-vd/2, vcm+vd/2))
+			},
+			Voltages: func(k, k2, vd, vcm, ref, out float64) (float64, float64) {
+				o1, o2 := vcm+(1+2*k)*vd/2, vcm-(1+2*k)*vd/2
+				pin := o1*k2/(1+k2) + ref/(1+k2)
+				return math.Max(math.Abs(o2-pin), math.Abs(o1-pin)), math.Max(math.Abs(pin-out), math.Abs(pin-ref))
+			},
+			Swing: func(k, vd, vcm float64) (float64, float64) {
+				g1 := 1 + 2*k
+				return math.Min(vcm-g1*vd/2, vcm+g1*vd/2), math.Max(vcm-g1*vd/2, vcm+g1*vd/2)
+			},
+			NoiseGain: func(k, k2 float64) float64 { return math.Max(1+2*k, 1+k2) },
+		},
 	}},
 	Netlist: func(b Builder, o Options) error {
 		inp := input(b, "vp", "Rsrcp", 0, o.SourceImpedance)

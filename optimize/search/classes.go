@@ -187,14 +187,10 @@ func (s *space) ratingVoltages() {
 	for _, vcm := range []float64{p.CMMin, p.CMMax} {
 		for _, vd := range []float64{p.InMin, p.InMax} {
 			vg, vf := s.model().Voltages(k, vd, vcm, p.Ref)
-			if s.strategy() == family.TwoStage {
+			if s2 := s.model().Stage2; s2 != nil {
 				// The second stage sees the first stage's outputs.
-				k2 := p.stage2Gain()
-				o1, o2 := vcm+(1+2*k)*vd/2, vcm-(1+2*k)*vd/2
-				pin := o1*k2/(1+k2) + p.Ref/(1+k2)
-				out := p.Gain*vd + p.Ref
-				s.v1 = math.Max(s.v1, math.Max(math.Abs(o2-pin), math.Abs(o1-pin)))
-				s.v2 = math.Max(s.v2, math.Max(math.Abs(pin-out), math.Abs(pin-p.Ref)))
+				v1, v2 := s2.Voltages(k, p.stage2Gain(), vd, vcm, p.Ref, p.Gain*vd+p.Ref)
+				s.v1, s.v2 = math.Max(s.v1, v1), math.Max(s.v2, v2)
 			}
 			s.vG, s.vF = math.Max(s.vG, vg), math.Max(s.vF, vf)
 		}

@@ -379,12 +379,9 @@ func pinRange(p *Problem, k float64) (lo, hi float64) {
 			case family.ShiftNetwork:
 				v = p.lsNode(vd)
 			case family.TwoStage:
-				// A1 and A2 see the inputs; A3 sees the first stage's
-				// outputs Vcm ± G1·Vd/2 through R3/R4.
-				k2 := p.stage2Gain()
-				o1 := vcm + (1+2*k)*vd/2
-				v = o1*k2/(1+k2) + p.Ref/(1+k2)
-				lo, hi = math.Min(lo, math.Min(vcm-vd/2, vcm+vd/2)), math.Max(hi, math.Max(vcm-vd/2, vcm+vd/2))
+				l, h := p.family().Search.Ratio.Stage2.Pins(k, p.stage2Gain(), vd, vcm, p.Ref)
+				lo, hi = math.Min(lo, l), math.Max(hi, h)
+				continue
 			}
 			lo, hi = math.Min(lo, v), math.Max(hi, v)
 		}
@@ -440,15 +437,15 @@ func hardAmp(p *Problem, a *catalog.Amplifier, k float64) string {
 	}
 	olo, ohi := outRange(p)
 	ng := 1 + k
-	if p.strategy() == family.TwoStage {
-		// The first stage's outputs swing to Vcm ± G1·Vd/2 too.
-		g1 := 1 + 2*k
+	if r := p.family().Search.Ratio; r != nil && r.Stage2 != nil {
+		// The first stage's outputs swing too.
 		for _, vcm := range []float64{p.CMMin, p.CMMax} {
 			for _, vd := range []float64{p.InMin, p.InMax} {
-				olo, ohi = math.Min(olo, math.Min(vcm-g1*vd/2, vcm+g1*vd/2)), math.Max(ohi, math.Max(vcm-g1*vd/2, vcm+g1*vd/2))
+				l, h := r.Stage2.Swing(k, vd, vcm)
+				olo, ohi = math.Min(olo, l), math.Max(ohi, h)
 			}
 		}
-		ng = math.Max(g1, 1+p.stage2Gain())
+		ng = r.Stage2.NoiseGain(k, p.stage2Gain())
 	}
 	if olo < p.SupplyNeg+a.SwingNegV || ohi > p.SupplyPos-a.SwingPosV {
 		return "output swing"
