@@ -189,6 +189,27 @@ type Search struct {
 	// Ratio is the screening model of the gain-setting ratio (RatioPair
 	// and TwoStage).
 	Ratio *Ratio
+	// Shift is the design model of a ShiftNetwork family.
+	Shift *Shift
+}
+
+// Shift is the design model of a family that maps an input of slope m onto
+// an output with offset b from a reference vref through an input network
+// and a feedback pair of one value (Rg = Rf).
+type Shift struct {
+	// FeedbackNG is the noise gain the equal feedback pair gives.
+	FeedbackNG float64
+	// NoiseGain is the target noise gain for (m, b, vref).
+	NoiseGain func(m, b, vref float64) float64
+	// Ratios returns the input network's target ratios R2/R1 and R3/R1.
+	Ratios func(m, b, vref float64) (q2, q3 float64)
+	// Node is the voltage at the amplifier's inputs for input vin.
+	Node func(m, b, vref, vin float64) float64
+	// Problem says why (m, b, vref) cannot be built ("" when it can).
+	Problem func(m, b, vref float64) string
+	// Positions returns the positions of the input network and of the
+	// feedback side, with the reference into the inverting node or not.
+	Positions func(inverting bool) (in, fb []string)
 }
 
 // Ratio is the screening model of a stage whose gain the ratio k = Rf/Rg

@@ -4,107 +4,40 @@ import (
 	"fmt"
 	"math"
 	"sort"
-	"strings"
 
 	"plumb/optimize/family"
 )
 
-// Level shift, reference into the non-inverting node (optimize/circuit's
-// LevelShift topology):
-//
-//	Vout = NG·(Vin/R1 + Vref/R2)/(1/R1 + 1/R2 + 1/R3),  NG = 1 + Rf/Rg
-//
-// (superposition at the non-inverting node, S. Franco, "Design with
-// Operational Amplifiers and Analog Integrated Circuits", summing
-// amplifier, from memory). With a1, a2, a3 the conductance shares of R1,
-// R2, R3 the slope is m = NG·a1 and the offset b = NG·a2·Vref. The search
-// sets Rg = Rf (one value of one grade), so NG = 2 exactly and no feedback
-// ratio is quantized; the input network then needs R2/R1 = a1/a2 =
-// m·Vref/b and R3/R1 = a1/a3 with a3 = 1 - (m + b/Vref)/2, so it reaches
-// every shift with m > 0, b > 0 and m + b/Vref < 2 (mapping a signal onto
-// an ADC range inside [0, Vref] always has m + b/Vref <= 1).
-//
-// Level shift, reference into the inverting node (the circuit's
-// OffsetToInverting option), for a negative offset:
-//
-//	Vout = Vin·R3/(R1+R3)·(1 + Rf/Rg + Rf/R2) - Vref·Rf/R2
-//
-// (divider into the non-inverting input, node equation at the inverting
-// input: Vm/Rg + (Vm-Vref)/R2 + (Vm-Vout)/Rf = 0 with Vm = V+; S. Franco,
-// same book, summing amplifier, from memory). Again Rg = Rf, so with
-// β = Rf/R2 = -b/Vref the noise gain is NG = 2 + β and the divider
-// a = R3/(R1+R3) = m/NG; R2 comes from the feedback grade (the offset
-// Vref·Rf/R2 is then a ratio of one grade), R1 and R3 from the input
-// grade, and R3/R1 = a/(1-a) is aimed at the NG of the R2 value chosen,
-// so R2's quantization moves only the offset. It reaches every shift with
-// m > 0, b < 0 and m < 2 + β.
+// The level shift's walk: its equations and design model are in its
+// family's file (family.Shift); the functions here read them for the
+// problem's slope p.Gain, offset p.Shift and reference p.Ref.
 
-// lsNoiseGain is NG of the level shift (Rg = Rf) with the reference into
-// the non-inverting node, and the least NG with it into the inverting one.
-const lsNoiseGain = 2
+// shift is the design model of the problem's level shift.
+func (p *Problem) shift() *family.Shift { return p.family().Search.Shift }
+
+// lsNoiseGain is NG of the equal feedback pair.
+func (p *Problem) lsNoiseGain() float64 { return p.shift().FeedbackNG }
 
 // lsInv reports whether the reference enters the inverting node (a
 // negative offset).
 func (p *Problem) lsInv() bool { return p.Shift < 0 }
 
-// lsBeta is β = Rf/R2 = -b/Vref of the inverting-reference level shift.
-func (p *Problem) lsBeta() float64 { return -p.Shift / p.Ref }
+// lsNG is the target noise gain.
+func (p *Problem) lsNG() float64 { return p.shift().NoiseGain(p.Gain, p.Shift, p.Ref) }
 
-// lsNG is the target noise gain: 2, or 2 + β with the reference into the
-// inverting node.
-func (p *Problem) lsNG() float64 {
-	if p.lsInv() {
-		return lsNoiseGain + p.lsBeta()
-	}
-	return lsNoiseGain
-}
-
-// lsRatios returns the target ratios R2/R1 and R3/R1; with the reference
-// into the inverting node, R2/Rf = 1/β and R3/R1 at the target NG.
-func (p *Problem) lsRatios() (q2, q3 float64) {
-	m, b := p.Gain, p.Shift
-	if p.lsInv() {
-		return 1 / p.lsBeta(), lsDivider(m / p.lsNG())
-	}
-	a1, a2 := m/lsNoiseGain, b/(p.Ref*lsNoiseGain)
-	return a1 / a2, a1 / (1 - a1 - a2)
-}
+// lsRatios returns the target ratios R2/R1 and R3/R1.
+func (p *Problem) lsRatios() (q2, q3 float64) { return p.shift().Ratios(p.Gain, p.Shift, p.Ref) }
 
 // lsDivider is R3/R1 = a/(1-a) of a divider of ratio a = R3/(R1+R3).
 func lsDivider(a float64) float64 { return a / (1 - a) }
 
-// lsNode is the voltage at the amplifier's inputs for input vin: Vout/2
-// (non-inverting summing), or a·Vin = m·Vin/NG.
-func (p *Problem) lsNode(vin float64) float64 {
-	if p.lsInv() {
-		return p.Gain * vin / p.lsNG()
-	}
-	return (p.Gain*vin + p.Shift) / lsNoiseGain
-}
-
-// unreferred names the single-ended families whose gain is at least one
-// and that take no reference: what a shift of zero is.
-func unreferred() string {
-	var names []string
-	for _, f := range family.All() {
-		if f.Input == family.SingleEnded && f.Reference == family.RefNone && f.GainProblem(1) == "" {
-			names = append(names, f.Name)
-		}
-	}
-	return strings.Join(names, " or ")
-}
+// lsNode is the voltage at the amplifier's inputs for input vin.
+func (p *Problem) lsNode(vin float64) float64 { return p.shift().Node(p.Gain, p.Shift, p.Ref, vin) }
 
 // lsCheck refuses shifts the search does not build.
 func (p *Problem) lsCheck() error {
-	switch {
-	case !(p.Ref > 0):
-		return fmt.Errorf("%w: level shift needs a positive reference voltage, got %g V", ErrProblem, p.Ref)
-	case p.Shift == 0:
-		return fmt.Errorf("%w: level shift with offset 0 V: use a stage without a reference (family %s) for a gain without offset", ErrProblem, unreferred())
-	case p.lsInv() && !(p.Gain < p.lsNG()):
-		return fmt.Errorf("%w: level shift with gain %g and offset %g V: with the reference into the inverting input the gain must stay below 2 + |offset|/Vref = %.3g with Rg = Rf", ErrProblem, p.Gain, p.Shift, p.lsNG())
-	case !p.lsInv() && p.Gain+p.Shift/p.Ref >= lsNoiseGain:
-		return fmt.Errorf("%w: level shift with gain %g and offset %g V: gain + offset/Vref = %.3g must stay below %d with Rg = Rf", ErrProblem, p.Gain, p.Shift, p.Gain+p.Shift/p.Ref, lsNoiseGain)
+	if msg := p.shift().Problem(p.Gain, p.Shift, p.Ref); msg != "" {
+		return fmt.Errorf("%w: %s", ErrProblem, msg)
 	}
 	return nil
 }
@@ -164,7 +97,7 @@ func (s *space) evalLevelShift(c *config, o *option, a *amp, m *metrics) {
 	v := s.lsOptionValues(c, o)
 	am := a.a
 	inv := p.lsInv()
-	ng := float64(lsNoiseGain)
+	ng := s.p.lsNoiseGain()
 	if inv {
 		ng += v.rfb / v.r2
 	}
@@ -291,12 +224,12 @@ func (s *space) lsSensitivities(v *lsValues) (sSl, sOf [5]float64) {
 		r1 := v.r1 + s.p.SourceOhm
 		a := v.r3 / (r1 + v.r3)
 		beta := v.rfb / v.r2
-		ng := lsNoiseGain + beta
+		ng := s.p.lsNoiseGain() + beta
 		return [5]float64{-(1 - a) * v.r1 / r1, -beta / ng, 1 - a, -1 / ng, (ng - 1) / ng}, [5]float64{0, -1, 0, 0, 1}
 	}
 	ones := [5]float64{1, 1, 1, 1, 1}
 	sl, rg := s.lsShares(v, &ones)
-	a1, a2 := sl/lsNoiseGain, rg/lsNoiseGain
+	a1, a2 := sl/s.p.lsNoiseGain(), rg/s.p.lsNoiseGain()
 	a3 := 1 - a1 - a2
 	return [5]float64{-(a2 + a3), a2, a3, -0.5, 0.5}, [5]float64{a1, -(a1 + a3), a3, -0.5, 0.5}
 }
@@ -310,7 +243,7 @@ func (s *space) boundLevelShift(a *amp, m *metrics) {
 		return
 	}
 	am := a.a
-	ng := float64(lsNoiseGain)
+	ng := s.p.lsNoiseGain()
 	s.offset(m, ng, am.VosV, 0, am.VosDriftVK)
 	m.noise = ng * am.NoiseVHz
 	m.noiseRMS = rmsNoise(m.noise, am.GBWHz/ng)
@@ -421,7 +354,7 @@ func (s *space) levelShiftOptions(c *config) {
 			}
 			q3 := q3
 			if inv {
-				q3 = lsDivider(s.p.Gain / (lsNoiseGain + rfb/g2.values[j]))
+				q3 = lsDivider(s.p.Gain / (s.p.lsNoiseGain() + rfb/g2.values[j]))
 			}
 			for _, ck := range near(gi, q3*r1) {
 				k := ck.j

@@ -381,11 +381,8 @@ func famName(f Family) string {
 
 // positions names the Rg and Rf positions of the circuit.
 func (s *space) positions() (rg, rf []string) {
-	if s.strategy() == family.ShiftNetwork {
-		if s.p.lsInv() {
-			return []string{"R1", "R3"}, []string{"R2", "Rg", "Rf"}
-		}
-		return []string{"R1", "R2", "R3"}, []string{"Rg", "Rf"}
+	if sh := s.fam().Search.Shift; sh != nil {
+		return sh.Positions(s.p.lsInv())
 	}
 	return s.model().Rg, s.model().Rf
 }
