@@ -1,5 +1,7 @@
 package family
 
+import "math"
+
 // CurrentSense is a shunt Rs read by a difference amplifier; vbus fixes the
 // shunt's low side "sn" (the load's node, the common mode) and the current
 // isense enters its high side "sp":
@@ -20,7 +22,18 @@ var CurrentSense = &Family{
 	Reference:   RefOutput,
 	Allows:      AllowRefDivider | AllowRefImpedance,
 	GainProblem: positiveGain,
-	Search:      Search{Strategy: Shunt, As: Difference, OpAmps: 1},
+	Search: Search{Strategy: Shunt, As: Difference, OpAmps: 1, Sense: &Sense{
+		// Milliohm metal strip to 10 ohm, a stage gain of 0.1 to 1000
+		// (common practice).
+		MinOhm: 1e-4, MaxOhm: 10, MinStageGain: 0.1, MaxStageGain: 1000,
+		// The shunt voltage I·Rs is the differential input; the high side
+		// sits that far above the low side, so the common mode of the two
+		// terminals moves by half of it.
+		Stage: func(imin, imax, cmMin, cmMax, rs float64) (float64, float64, float64, float64) {
+			lo, hi := imin*rs, imax*rs
+			return lo, hi, cmMin + math.Min(0, math.Min(lo, hi))/2, cmMax + math.Max(0, math.Max(lo, hi))/2
+		},
+	}},
 	Netlist: func(b Builder, o Options) error {
 		b.Source("vbus", "sn", 12)
 		b.Current("isense", "0", "sp", 1)

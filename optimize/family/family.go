@@ -191,6 +191,21 @@ type Search struct {
 	Ratio *Ratio
 	// Shift is the design model of a ShiftNetwork family.
 	Shift *Shift
+	// Sense is the shunt model of a Shunt family.
+	Sense *Sense
+}
+
+// Sense is the model of a family that reads a current through a shunt Rs
+// with the stage of family Search.As behind it.
+type Sense struct {
+	// MinOhm and MaxOhm bound the shunt values the search considers, and
+	// MinStageGain, MaxStageGain the gain of the stage behind the shunt.
+	MinOhm, MaxOhm             float64
+	MinStageGain, MaxStageGain float64
+	// Stage maps the spec's current range [imin, imax] and the shunt's
+	// low-side range [cmMin, cmMax] onto the stage's differential input
+	// and common mode for shunt value rs.
+	Stage func(imin, imax, cmMin, cmMax, rs float64) (inMin, inMax, vcmMin, vcmMax float64)
 }
 
 // Shift is the design model of a family that maps an input of slope m onto

@@ -14,16 +14,6 @@ import (
 	"plumb/optimize/spec"
 )
 
-// Shunt window: values the search considers for the sense resistor.
-const (
-	shuntMinOhm = 1e-4
-	shuntMaxOhm = 10
-	// minSenseGain and maxSenseGain bound the difference amplifier's gain
-	// behind a shunt.
-	minSenseGain = 0.1
-	maxSenseGain = 1000
-)
-
 // shunt is one sense-resistor candidate.
 type shunt struct {
 	part  string
@@ -42,6 +32,7 @@ type shunt struct {
 // the same query as the search's resistors.
 func shuntCandidates(ctx context.Context, parts *Parts, p *Problem) ([]shunt, error) {
 	imax := math.Max(math.Abs(p.InMin), math.Abs(p.InMax))
+	sense := p.family().Search.Sense
 	type key struct {
 		grade groupKey
 		value float64
@@ -53,7 +44,7 @@ func shuntCandidates(ctx context.Context, parts *Parts, p *Problem) ([]shunt, er
 		if g.PowerW > 0 && pw > p.Derating*g.PowerW*ratingSlack {
 			return nil
 		}
-		if gs := p.Gain / v; gs < minSenseGain || gs > maxSenseGain {
+		if gs := p.Gain / v; gs < sense.MinStageGain || gs > sense.MaxStageGain {
 			return nil
 		}
 		ext, _, _, err := p.Build.LineCost(&r.Offer, 1)
@@ -74,7 +65,7 @@ func shuntCandidates(ctx context.Context, parts *Parts, p *Problem) ([]shunt, er
 			errT0: g.Tolerance}
 		return nil
 	}
-	q := catalog.ResistorQuery{MinOhm: shuntMinOhm, MaxOhm: shuntMaxOhm, BelowTolerance: 0.5, Currency: p.Build.Currency,
+	q := catalog.ResistorQuery{MinOhm: sense.MinOhm, MaxOhm: sense.MaxOhm, BelowTolerance: 0.5, Currency: p.Build.Currency,
 		InStock: p.Build.Stock == cost.StockExclude}
 	if err := parts.resistorRows().EachResistor(ctx, q, add); err != nil {
 		return nil, err
@@ -103,9 +94,7 @@ func senseProblem(p Problem, sh *shunt) (Problem, bool) {
 	q.Circuit = Circuit(p.family().SearchFamily().Name)
 	v := sh.value
 	q.Gain = p.Gain / v
-	q.InMin, q.InMax = p.InMin*v, p.InMax*v
-	q.CMMin = p.CMMin + math.Min(0, math.Min(q.InMin, q.InMax))/2
-	q.CMMax = p.CMMax + math.Max(0, math.Max(q.InMin, q.InMax))/2
+	q.InMin, q.InMax, q.CMMin, q.CMMax = p.family().Search.Sense.Stage(p.InMin, p.InMax, p.CMMin, p.CMMax, v)
 	shrink := func(lim, e float64) (float64, bool) {
 		if lim == 0 {
 			return 0, true
