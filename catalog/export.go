@@ -22,7 +22,7 @@ func (s *Store) writeCSV(ctx context.Context, w io.Writer, kind Kind) error {
 		}
 	}
 	if t == nil {
-		return fmt.Errorf("catalog: CSV export of %s: unknown kind %q: use series, resistor, network or amplifier", s.name(), kind)
+		return fmt.Errorf("catalog: CSV export of %s: unknown kind %q: use series, resistor, network, amplifier or reference", s.name(), kind)
 	}
 	snap, err := s.load(ctx, Filter{Kind: kind})
 	if err != nil {
@@ -36,6 +36,8 @@ func (s *Store) writeCSV(ctx context.Context, w io.Writer, kind Kind) error {
 		parts = reflect.ValueOf(snap.Resistors)
 	case KindNetwork:
 		parts = reflect.ValueOf(snap.Networks)
+	case KindReference:
+		parts = reflect.ValueOf(snap.References)
 	default:
 		parts = reflect.ValueOf(snap.Amplifiers)
 	}

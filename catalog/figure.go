@@ -27,6 +27,9 @@ func (n Network) MarshalJSON() ([]byte, error) { return marshalPart(reflect.Valu
 // figures left out.
 func (n MatchedNetwork) MarshalJSON() ([]byte, error) { return marshalPart(reflect.ValueOf(n)) }
 
+// MarshalJSON writes the reference with unknown figures left out.
+func (r Reference) MarshalJSON() ([]byte, error) { return marshalPart(reflect.ValueOf(r)) }
+
 // MarshalJSON writes the amplifier with unknown figures left out.
 func (a Amplifier) MarshalJSON() ([]byte, error) { return marshalPart(reflect.ValueOf(a)) }
 

@@ -17,6 +17,7 @@ const (
 	KindResistor  Kind = "resistor"
 	KindNetwork   Kind = "network"
 	KindAmplifier Kind = "amplifier"
+	KindReference Kind = "reference"
 )
 
 // PriceBreak is one step of a part's price list: the unit price that applies
@@ -221,6 +222,69 @@ type MatchedElement struct {
 	A    string  `json:"a" yaml:"a"`
 	B    string  `json:"b" yaml:"b"`
 }
+
+// Reference is a voltage reference: a part whose output is a stated voltage
+// with a stated initial tolerance and drift, which an ADC channel's gain
+// is proportional to. Figures tagged catalog:"unknown" may be unknown (NaN),
+// as in the other part types; only the output voltage and the initial
+// tolerance are required. Topology and Package are "" when unknown.
+type Reference struct {
+	ID    int64  `json:"-" yaml:"-"`
+	Part  string `json:"part" yaml:"part"`
+	Maker string `json:"maker" yaml:"maker"`
+	// Topology is RefSeries (a three-terminal regulator with an input
+	// supply), RefShunt (a two-terminal part fed through a resistor) or "".
+	Topology string `json:"topology,omitempty" yaml:"topology,omitempty"`
+	Package  string `json:"package" yaml:"package"`
+	// OutputV is the nominal output voltage, V.
+	OutputV float64 `json:"output_v" yaml:"output_v"`
+	// Tolerance is the initial output tolerance at 25 °C as a fraction
+	// (0.0005 for ±0.05 %).
+	Tolerance float64 `json:"tolerance" yaml:"tolerance"`
+	// DriftPPM is the temperature coefficient, ppm/K, as a box-method
+	// maximum: (Vmax - Vmin)/(Vnom·(TempMaxC - TempMinC))·10^6 over the
+	// rated range below (the usual way reference drift is specified; a
+	// ppm/°C figure is the same number, a temperature difference of 1 °C
+	// being 1 K).
+	DriftPPM float64 `json:"drift_ppm" yaml:"drift_ppm" catalog:"unknown"`
+	// TempMinC and TempMaxC bound the temperature range the drift figure
+	// is specified over, °C.
+	TempMinC float64 `json:"temp_min_c" yaml:"temp_min_c" catalog:"unknown"`
+	TempMaxC float64 `json:"temp_max_c" yaml:"temp_max_c" catalog:"unknown"`
+	// NoisePPV is the low-frequency output noise, 0.1 Hz to 10 Hz, peak to
+	// peak, V.
+	NoisePPV float64 `json:"noise_pp_v" yaml:"noise_pp_v" catalog:"unknown"`
+	// NoiseVHz is the wideband output noise density, V/√Hz.
+	NoiseVHz float64 `json:"noise_v_per_rthz" yaml:"noise_v_per_rthz" catalog:"unknown"`
+	// SupplyMinV and SupplyMaxV bound the input (supply) voltage of a series
+	// reference, V; a shunt reference has none (unknown).
+	SupplyMinV float64 `json:"supply_min_v" yaml:"supply_min_v" catalog:"unknown"`
+	SupplyMaxV float64 `json:"supply_max_v" yaml:"supply_max_v" catalog:"unknown"`
+	// DropoutV is the least input-to-output difference at which the output
+	// stays in regulation, V.
+	DropoutV float64 `json:"dropout_v" yaml:"dropout_v" catalog:"unknown"`
+	// LoadSourceA and LoadSinkA are the largest load currents the output
+	// sources and sinks within its specification, A (for a shunt
+	// reference, LoadSinkA is its largest operating current).
+	LoadSourceA float64 `json:"load_source_a" yaml:"load_source_a" catalog:"unknown"`
+	LoadSinkA   float64 `json:"load_sink_a" yaml:"load_sink_a" catalog:"unknown"`
+	// OutputOhm is the output resistance (load regulation in V/A), ohm: a
+	// load regulation in ppm/mA is OutputOhm = reg·10^-6·OutputV/10^-3 A.
+	OutputOhm float64 `json:"output_ohm" yaml:"output_ohm" catalog:"unknown"`
+	// LongTermPPM is the long-term drift over the first 1000 h, ppm.
+	LongTermPPM float64 `json:"long_term_ppm" yaml:"long_term_ppm" catalog:"unknown"`
+	// IqA is the quiescent (supply) current, A.
+	IqA float64 `json:"iq_a" yaml:"iq_a" catalog:"unknown"`
+
+	Offer      `yaml:",inline"`
+	Provenance `yaml:",inline"`
+}
+
+// Reference topologies (Reference.Topology).
+const (
+	RefSeries = "series"
+	RefShunt  = "shunt"
+)
 
 // Rail-to-rail claims of an amplifier (Amplifier.RailToRail).
 const (

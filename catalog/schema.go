@@ -340,6 +340,86 @@ ALTER TABLE amplifier_gains_new RENAME TO amplifier_gains;
 CREATE TRIGGER amplifiers_breaks AFTER DELETE ON amplifiers
 	BEGIN DELETE FROM price_breaks WHERE kind = 'amplifier' AND part_id = OLD.id; END;
 `,
+	// 3: voltage references as a kind of their own, and the matched
+	// resistors inside an amplifier (its network). price_breaks is rebuilt
+	// so its kind may be 'reference'; the triggers that clear it are
+	// dropped first and made again, so no price is lost.
+	`
+CREATE TABLE voltage_references (
+	id               INTEGER PRIMARY KEY,
+	part             TEXT NOT NULL UNIQUE,
+	maker            TEXT NOT NULL,
+	topology         TEXT NOT NULL DEFAULT '' CHECK (topology IN ('', 'series', 'shunt')),
+	package          TEXT NOT NULL,      -- '' = unknown
+	output_v         REAL NOT NULL,      -- V, nominal
+	tolerance        REAL NOT NULL,      -- fraction, initial at 25 °C
+	drift_ppm        REAL,               -- ppm/K, box method over [temp_min_c, temp_max_c] (NULL = unknown, as below)
+	temp_min_c       REAL,               -- °C
+	temp_max_c       REAL,               -- °C
+	noise_pp_v       REAL,               -- V peak to peak, 0.1 Hz to 10 Hz
+	noise_v_per_rthz REAL,               -- V/√Hz, wideband
+	supply_min_v     REAL,               -- V, input
+	supply_max_v     REAL,               -- V, input
+	dropout_v        REAL,               -- V
+	load_source_a    REAL,               -- A
+	load_sink_a      REAL,               -- A
+	output_ohm       REAL,               -- ohm (load regulation, V/A)
+	long_term_ppm    REAL,               -- ppm over the first 1000 h
+	iq_a             REAL,               -- A
+	min_order        INTEGER NOT NULL DEFAULT 0,
+	stock            INTEGER NOT NULL DEFAULT -1,
+	source           TEXT NOT NULL DEFAULT '',
+	imported_at      TEXT NOT NULL DEFAULT ''
+);
+
+-- The matched resistors inside an amplifier: one row per amplifier whose
+-- maker publishes them; pins are comma-separated pin names.
+CREATE TABLE amplifier_networks (
+	amplifier_id    INTEGER PRIMARY KEY REFERENCES amplifiers(id) ON DELETE CASCADE,
+	pins            TEXT NOT NULL,
+	opamp_inv       TEXT NOT NULL,       -- node of the internal op-amp's inverting input
+	opamp_noninv    TEXT NOT NULL,       -- node of its non-inverting input
+	opamp_out       TEXT NOT NULL,       -- node of its output
+	tolerance       REAL,                -- fraction, absolute (NULL = unknown, as below)
+	ratio_tolerance REAL,                -- fraction, any element to any other
+	ratio_drift_ppm REAL                 -- ±ppm/K, ratio tracking
+);
+CREATE TABLE amplifier_network_elements (
+	amplifier_id INTEGER NOT NULL REFERENCES amplifier_networks(amplifier_id) ON DELETE CASCADE,
+	position     INTEGER NOT NULL,       -- from 0
+	name         TEXT NOT NULL,          -- R1, R2, ... as the datasheet draws it
+	ohms         REAL NOT NULL,          -- ohm, nominal
+	node_a       TEXT NOT NULL,
+	node_b       TEXT NOT NULL,
+	PRIMARY KEY (amplifier_id, position)
+) WITHOUT ROWID;
+
+DROP TRIGGER resistor_series_breaks;
+DROP TRIGGER resistors_breaks;
+DROP TRIGGER networks_breaks;
+DROP TRIGGER amplifiers_breaks;
+CREATE TABLE price_breaks_new (
+	kind       TEXT NOT NULL CHECK (kind IN ('series', 'resistor', 'network', 'amplifier', 'reference')),
+	part_id    INTEGER NOT NULL,
+	min_qty    INTEGER NOT NULL CHECK (min_qty >= 1), -- pieces
+	unit_price REAL NOT NULL CHECK (unit_price >= 0), -- currency units per piece
+	currency   TEXT NOT NULL,            -- ISO 4217 code
+	PRIMARY KEY (kind, part_id, min_qty)
+) WITHOUT ROWID;
+INSERT INTO price_breaks_new SELECT kind, part_id, min_qty, unit_price, currency FROM price_breaks;
+DROP TABLE price_breaks;
+ALTER TABLE price_breaks_new RENAME TO price_breaks;
+CREATE TRIGGER resistor_series_breaks AFTER DELETE ON resistor_series
+	BEGIN DELETE FROM price_breaks WHERE kind = 'series' AND part_id = OLD.id; END;
+CREATE TRIGGER resistors_breaks AFTER DELETE ON resistors
+	BEGIN DELETE FROM price_breaks WHERE kind = 'resistor' AND part_id = OLD.id; END;
+CREATE TRIGGER networks_breaks AFTER DELETE ON networks
+	BEGIN DELETE FROM price_breaks WHERE kind = 'network' AND part_id = OLD.id; END;
+CREATE TRIGGER amplifiers_breaks AFTER DELETE ON amplifiers
+	BEGIN DELETE FROM price_breaks WHERE kind = 'amplifier' AND part_id = OLD.id; END;
+CREATE TRIGGER voltage_references_breaks AFTER DELETE ON voltage_references
+	BEGIN DELETE FROM price_breaks WHERE kind = 'reference' AND part_id = OLD.id; END;
+`,
 }
 
 // schemaUnknownNull is the first schema version that stores an unknown

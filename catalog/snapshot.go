@@ -33,11 +33,13 @@ type Snapshot struct {
 	Resistors      []Resistor       `json:"resistors"`
 	Networks       []Network        `json:"networks"`
 	Amplifiers     []Amplifier      `json:"amplifiers"`
+	// References are voltage references (schema 3 on; absent before).
+	References []Reference `json:"references"`
 }
 
 // Len returns the number of parts in the snapshot (series count once each).
 func (s *Snapshot) Len() int {
-	return len(s.ResistorSeries) + len(s.Resistors) + len(s.Networks) + len(s.Amplifiers)
+	return len(s.ResistorSeries) + len(s.Resistors) + len(s.Networks) + len(s.Amplifiers) + len(s.References)
 }
 
 // WriteSnapshotJSON writes s as indented snapshot JSON with its header set.
@@ -58,6 +60,9 @@ func WriteSnapshotJSON(w io.Writer, s *Snapshot) error {
 	}
 	if out.Amplifiers == nil {
 		out.Amplifiers = []Amplifier{}
+	}
+	if out.References == nil {
+		out.References = []Reference{}
 	}
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
@@ -106,6 +111,7 @@ func ReadSnapshotJSON(r io.Reader) (*Snapshot, error) {
 		Resistors      []map[string]json.RawMessage `json:"resistors"`
 		Networks       []map[string]json.RawMessage `json:"networks"`
 		Amplifiers     []map[string]json.RawMessage `json:"amplifiers"`
+		References     []map[string]json.RawMessage `json:"references"`
 	}
 	if err := json.Unmarshal(data, &given); err != nil {
 		return nil, jsonError(data, err)
@@ -115,6 +121,7 @@ func ReadSnapshotJSON(r io.Reader) (*Snapshot, error) {
 	markUnknown(resistorTable, reflect.ValueOf(s.Resistors), given.Resistors, legacy)
 	markUnknown(networkTable, reflect.ValueOf(s.Networks), given.Networks, legacy)
 	markUnknown(amplifierTable, reflect.ValueOf(s.Amplifiers), given.Amplifiers, legacy)
+	markUnknown(referenceTable, reflect.ValueOf(s.References), given.References, legacy)
 	if err := s.Validate(); err != nil {
 		return nil, err
 	}

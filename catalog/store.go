@@ -110,6 +110,7 @@ type Stats struct {
 	Resistors    int `json:"resistors"`
 	Networks     int `json:"networks"`
 	Amplifiers   int `json:"amplifiers"`
+	References   int `json:"references"`
 	PriceBreaks  int `json:"price_breaks"`
 	// NoStock counts parts whose stock is 0 (unknown stock, -1, is not counted).
 	NoStock    int      `json:"no_stock"`
@@ -184,7 +185,8 @@ func (s *Store) List(ctx context.Context, f Filter) (*Snapshot, error) { return 
 
 // Find looks up a part number of any kind, including a series value part
 // number (see ResistorSeries.PartNumber), returned as an expanded
-// *Resistor. v is *ResistorSeries, *Resistor, *Network or *Amplifier. An
+// *Resistor. v is *ResistorSeries, *Resistor, *Network, *Amplifier or
+// *Reference. An
 // unknown part wraps ErrNotFound and names close part numbers.
 func (s *Store) Find(ctx context.Context, part string) (kind Kind, v any, err error) {
 	return s.find(ctx, part)
@@ -203,7 +205,8 @@ func (s *Store) Stats(ctx context.Context) (Stats, error) { return s.stats(ctx) 
 // cancelled ctx rolls the whole batch back. Figures of an existing part are
 // never overwritten: a part whose figures differ is reported SpecChanged.
 // Every added, updated or spec-changed part gets a part_history row.
-// Results are in batch order: series, resistors, networks, amplifiers.
+// Results are in batch order: series, resistors, networks, amplifiers,
+// references.
 // Validation sorts each part's price breaks by quantity in b.
 func (s *Store) Upsert(ctx context.Context, b *Batch, opt UpsertOptions) ([]UpsertResult, error) {
 	return s.upsert(ctx, b, opt)

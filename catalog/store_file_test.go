@@ -32,7 +32,7 @@ func TestCreateAndReopen(t *testing.T) {
 		t.Fatal(err)
 	}
 	defer s.Close()
-	if got := normalise(mustSnapshot(t, s)); got.Len() != 5 || got.Resistors[0].Part != want.Resistors[0].Part {
+	if got := normalise(mustSnapshot(t, s)); got.Len() != 6 || got.Resistors[0].Part != want.Resistors[0].Part {
 		t.Errorf("reopened catalog has %d parts", got.Len())
 	}
 	var mode string
@@ -189,7 +189,7 @@ func TestCreateErrors(t *testing.T) {
 			t.Fatal(err)
 		}
 		defer s.Close()
-		if n := mustSnapshot(t, s).Len(); n != 5 {
+		if n := mustSnapshot(t, s).Len(); n != 6 {
 			t.Errorf("refused Create changed the catalog: %d parts", n)
 		}
 	})

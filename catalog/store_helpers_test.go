@@ -61,6 +61,14 @@ func sampleBatch() *Snapshot {
 			Offer:       Offer{PriceBreaks: breaks(3.2), Stock: 0},
 			Provenance:  Provenance{Source: "sample matched", ImportedAt: testTime},
 		}},
+		References: []Reference{{
+			Part: "TS-REF25", Maker: "Testmaker Analog", Topology: RefSeries, Package: "SOT-23-3",
+			OutputV: 2.5, Tolerance: 0.0005, DriftPPM: 3, TempMinC: -40, TempMaxC: 125,
+			NoisePPV: 1.5e-6, NoiseVHz: 60e-9, SupplyMinV: 2.7, SupplyMaxV: 18, DropoutV: 0.2,
+			LoadSourceA: 10e-3, LoadSinkA: 5e-3, OutputOhm: 0.05, LongTermPPM: 25, IqA: 0.9e-3,
+			Offer:      Offer{PriceBreaks: breaks(2.1), MinOrder: 3, Stock: 900},
+			Provenance: Provenance{Source: "sample reference", ImportedAt: testTime},
+		}},
 	}
 }
 

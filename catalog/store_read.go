@@ -28,7 +28,7 @@ func (f Filter) where(t *table) (cond string, args []any, skip bool) {
 		return "", nil, true
 	}
 	resistive := f.MinOhm > 0 || f.MaxOhm > 0 || f.MaxTolerance > 0 || f.MaxTCR > 0 || f.Technology != ""
-	if t == amplifierTable && resistive {
+	if (t == amplifierTable || t == referenceTable) && resistive {
 		return "", nil, true
 	}
 	var conds []string
@@ -57,7 +57,7 @@ func (f Filter) where(t *table) (cond string, args []any, skip bool) {
 			add("EXISTS (SELECT 1 FROM network_elements e WHERE e.network_id = networks.id AND e.value_ohm BETWEEN ? AND ?)", f.MinOhm, hi)
 		}
 	}
-	if t != amplifierTable {
+	if t != amplifierTable && t != referenceTable {
 		if f.MaxTolerance > 0 {
 			add("tolerance <= ?", f.MaxTolerance)
 		}
@@ -109,9 +109,9 @@ func likePattern(p string) string {
 
 func (s *Store) load(ctx context.Context, f Filter) (*Snapshot, error) {
 	switch f.Kind {
-	case "", KindSeries, KindResistor, KindNetwork, KindAmplifier:
+	case "", KindSeries, KindResistor, KindNetwork, KindAmplifier, KindReference:
 	default:
-		return nil, fmt.Errorf("catalog: list %s: unknown kind %q: use series, resistor, network or amplifier", s.name(), f.Kind)
+		return nil, fmt.Errorf("catalog: list %s: unknown kind %q: use series, resistor, network, amplifier or reference", s.name(), f.Kind)
 	}
 	out := &Snapshot{Format: SnapshotFormat, SchemaVersion: s.version}
 	err := s.readTx(ctx, func(q querier) error {
@@ -133,6 +133,11 @@ func (s *Store) load(ctx context.Context, f Filter) (*Snapshot, error) {
 		}
 		if c, a, skip := f.where(amplifierTable); !skip {
 			if out.Amplifiers, err = loadRows[Amplifier](ctx, q, amplifierTable, c, a...); err != nil {
+				return err
+			}
+		}
+		if c, a, skip := f.where(referenceTable); !skip {
+			if out.References, err = loadRows[Reference](ctx, q, referenceTable, c, a...); err != nil {
 				return err
 			}
 		}
@@ -170,6 +175,12 @@ func (s *Store) find(ctx context.Context, part string) (Kind, any, error) {
 		if as, err := loadRows[Amplifier](ctx, q, amplifierTable, "part = ?", part); err != nil || len(as) > 0 {
 			if len(as) > 0 {
 				kind, v = KindAmplifier, &as[0]
+			}
+			return err
+		}
+		if rs, err := loadRows[Reference](ctx, q, referenceTable, "part = ?", part); err != nil || len(rs) > 0 {
+			if len(rs) > 0 {
+				kind, v = KindReference, &rs[0]
 			}
 			return err
 		}
@@ -219,7 +230,7 @@ const maxHints = 3
 func (s *Store) closeParts(ctx context.Context, part string) (string, error) {
 	var parts []string
 	err := s.db.SelectContext(ctx, &parts, `SELECT part FROM resistor_series UNION ALL SELECT part FROM resistors
-		UNION ALL SELECT part FROM networks UNION ALL SELECT part FROM amplifiers`)
+		UNION ALL SELECT part FROM networks UNION ALL SELECT part FROM amplifiers UNION ALL SELECT part FROM voltage_references`)
 	if err != nil {
 		return "", fmt.Errorf("catalog: find %s in %s: %w", part, s.name(), err)
 	}
@@ -346,10 +357,11 @@ func (s *Store) stats(ctx context.Context) (Stats, error) {
 			{&st.Resistors, "SELECT COUNT(*) FROM resistors"},
 			{&st.Networks, "SELECT COUNT(*) FROM networks"},
 			{&st.Amplifiers, "SELECT COUNT(*) FROM amplifiers"},
+			{&st.References, "SELECT COUNT(*) FROM voltage_references"},
 			{&st.PriceBreaks, "SELECT COUNT(*) FROM price_breaks"},
 			{&st.NoStock, `SELECT (SELECT COUNT(*) FROM resistor_series WHERE stock = 0) +
 				(SELECT COUNT(*) FROM resistors WHERE stock = 0) + (SELECT COUNT(*) FROM networks WHERE stock = 0) +
-				(SELECT COUNT(*) FROM amplifiers WHERE stock = 0)`},
+				(SELECT COUNT(*) FROM amplifiers WHERE stock = 0) + (SELECT COUNT(*) FROM voltage_references WHERE stock = 0)`},
 		}
 		for _, c := range counts {
 			if err := q.GetContext(ctx, c.n, c.query); err != nil {
@@ -361,10 +373,10 @@ func (s *Store) stats(ctx context.Context) (Stats, error) {
 			query string
 		}{
 			{&st.Makers, `SELECT maker FROM resistor_series UNION SELECT maker FROM resistors
-				UNION SELECT maker FROM networks UNION SELECT maker FROM amplifiers ORDER BY 1`},
+				UNION SELECT maker FROM networks UNION SELECT maker FROM amplifiers UNION SELECT maker FROM voltage_references ORDER BY 1`},
 			{&st.Currencies, "SELECT DISTINCT currency FROM price_breaks ORDER BY 1"},
 			{&st.Sources, `SELECT source FROM resistor_series UNION SELECT source FROM resistors
-				UNION SELECT source FROM networks UNION SELECT source FROM amplifiers ORDER BY 1`},
+				UNION SELECT source FROM networks UNION SELECT source FROM amplifiers UNION SELECT source FROM voltage_references ORDER BY 1`},
 		}
 		for _, l := range lists {
 			if err := sqlxSelect(ctx, q, l.v, l.query); err != nil {

@@ -94,7 +94,7 @@ func (s *Store) BeginUpsert(ctx context.Context, opt UpsertOptions) (*UpsertSess
 
 // Add validates b and writes its parts in the session's transaction,
 // returning one result per part in batch order (series, resistors,
-// networks, amplifiers). An invalid part, a part number twice in b, a
+// networks, amplifiers, references). An invalid part, a part number twice in b, a
 // database error or a cancelled ctx rolls the WHOLE session back, earlier
 // chunks included, and ends it. Validation sorts each part's price breaks
 // by quantity in b.
@@ -128,6 +128,9 @@ func (us *UpsertSession) Add(ctx context.Context, b *Batch) (_ []UpsertResult, e
 		return nil, err
 	}
 	if err := upsertKind(us, amplifierTable, b.Amplifiers); err != nil {
+		return nil, err
+	}
+	if err := upsertKind(us, referenceTable, b.References); err != nil {
 		return nil, err
 	}
 	if err := ctx.Err(); err != nil {

@@ -69,7 +69,8 @@ var (
 	resistorTable  = newTable("resistors", KindResistor, Resistor{}, nil)
 	networkTable   = newTable("networks", KindNetwork, Network{}, &childTable{table: "network_elements", fk: "network_id", col: "value_ohm", name: "values_ohm"})
 	amplifierTable = newTable("amplifiers", KindAmplifier, Amplifier{}, &childTable{table: "amplifier_gains", fk: "amplifier_id", col: "gain", name: "gains"})
-	allTables      = []*table{seriesTable, resistorTable, networkTable, amplifierTable}
+	referenceTable = newTable("voltage_references", KindReference, Reference{}, nil)
+	allTables      = []*table{seriesTable, resistorTable, networkTable, amplifierTable, referenceTable}
 )
 
 var (

@@ -47,12 +47,14 @@ func normalise(s *Snapshot) *Snapshot {
 		unknownAsSentinel(reflect.ValueOf(out.Resistors))
 		unknownAsSentinel(reflect.ValueOf(out.Networks))
 		unknownAsSentinel(reflect.ValueOf(out.Amplifiers))
+		unknownAsSentinel(reflect.ValueOf(out.References))
 	}()
 	out.Format, out.SchemaVersion = "", 0
 	out.ResistorSeries = slices.Clone(s.ResistorSeries)
 	out.Resistors = slices.Clone(s.Resistors)
 	out.Networks = slices.Clone(s.Networks)
 	out.Amplifiers = slices.Clone(s.Amplifiers)
+	out.References = slices.Clone(s.References)
 	// An empty list and no list are the same catalog content.
 	if len(out.ResistorSeries) == 0 {
 		out.ResistorSeries = nil
@@ -66,6 +68,9 @@ func normalise(s *Snapshot) *Snapshot {
 	if len(out.Amplifiers) == 0 {
 		out.Amplifiers = nil
 	}
+	if len(out.References) == 0 {
+		out.References = nil
+	}
 	for i := range out.ResistorSeries {
 		out.ResistorSeries[i].ID = 0
 	}
@@ -78,10 +83,14 @@ func normalise(s *Snapshot) *Snapshot {
 	for i := range out.Amplifiers {
 		out.Amplifiers[i].ID = 0
 	}
+	for i := range out.References {
+		out.References[i].ID = 0
+	}
 	slices.SortFunc(out.ResistorSeries, func(a, b ResistorSeries) int { return strings.Compare(a.Part, b.Part) })
 	slices.SortFunc(out.Resistors, func(a, b Resistor) int { return strings.Compare(a.Part, b.Part) })
 	slices.SortFunc(out.Networks, func(a, b Network) int { return strings.Compare(a.Part, b.Part) })
 	slices.SortFunc(out.Amplifiers, func(a, b Amplifier) int { return strings.Compare(a.Part, b.Part) })
+	slices.SortFunc(out.References, func(a, b Reference) int { return strings.Compare(a.Part, b.Part) })
 	return &out
 }
 
@@ -144,6 +153,7 @@ func TestSampleSetsEveryField(t *testing.T) {
 	check("opamp", b.Amplifiers[0], "Gains", "GainErrorMax", "GainDriftPPM", "InNegV", "InPosV", "InternalOhm", "Network")
 	check("matched", b.Amplifiers[1], "IbA", "IosA", "NoiseAHz", "TypicalOnly", "MinOrder", "Stock", "RailToRail",
 		"Network") // Network is not stored yet
+	check("reference", b.References[0])
 }
 
 func TestRoundTripUpsertSnapshot(t *testing.T) {
@@ -299,7 +309,7 @@ func TestUpsertOutcomes(t *testing.T) {
 func TestDryRunWritesNothing(t *testing.T) {
 	s := memStore(t)
 	res := mustUpsert(t, s, sampleBatch(), UpsertOptions{DryRun: true})
-	if len(res) != 5 || res[0].Outcome != Added {
+	if len(res) != 6 || res[0].Outcome != Added {
 		t.Errorf("dry run results %+v", res)
 	}
 	if n := mustSnapshot(t, s).Len(); n != 0 {
@@ -541,10 +551,10 @@ func TestStats(t *testing.T) {
 	}
 	// E96 over 100 ohm .. 100 kohm: three decades of 96 values plus 100k
 	// itself (IEC 60063: 96 values per decade).
-	want := Stats{Series: 1, SeriesValues: 3*96 + 1, Resistors: 1, Networks: 1, Amplifiers: 2, PriceBreaks: 15, NoStock: 1,
+	want := Stats{Series: 1, SeriesValues: 3*96 + 1, Resistors: 1, Networks: 1, Amplifiers: 2, References: 1, PriceBreaks: 18, NoStock: 1,
 		Makers:     []string{"Testmaker Analog", "Testmaker Passives"},
 		Currencies: []string{"USD"},
-		Sources:    []string{"sample amplifier", "sample matched", "sample network", "sample resistor", "sample series"}}
+		Sources:    []string{"sample amplifier", "sample matched", "sample network", "sample reference", "sample resistor", "sample series"}}
 	if !reflect.DeepEqual(st, want) {
 		t.Errorf("stats %+v\nwant %+v", st, want)
 	}

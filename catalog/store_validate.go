@@ -237,6 +237,53 @@ func checkAmplifier(row int, a *Amplifier) error {
 	return c.err
 }
 
+// Bounds of a reference's rated temperature range, °C: below absolute zero
+// or above a solder reflow peak is a slip, not a rating.
+const (
+	refTempLowestC  = -273.15
+	refTempHighestC = 300
+)
+
+func checkReference(row int, r *Reference) error {
+	c := checker{kind: KindReference, row: row, part: r.Part}
+	c.partNumber(r.Part)
+	c.text("maker", r.Maker)
+	switch r.Topology {
+	case "", RefSeries, RefShunt:
+	default:
+		c.fail("topology", "%q is not %q, %q or empty", r.Topology, RefSeries, RefShunt)
+	}
+	c.positive("output_v", r.OutputV)
+	c.fraction("tolerance", r.Tolerance)
+	c.nonNegative("drift_ppm", r.DriftPPM)
+	c.finite("temp_min_c", r.TempMinC)
+	c.finite("temp_max_c", r.TempMaxC)
+	switch {
+	case Known(r.TempMinC) != Known(r.TempMaxC):
+		c.fail("temp_min_c", "give both ends of the rated temperature range, or neither")
+	case Known(r.TempMinC) && !(r.TempMinC < r.TempMaxC):
+		c.fail("temp_max_c", "%s is not above temp_min_c %s", formatFloat(r.TempMaxC), formatFloat(r.TempMinC))
+	case Known(r.TempMinC) && (r.TempMinC < refTempLowestC || r.TempMaxC > refTempHighestC):
+		c.fail("temp_min_c", "range %s..%s °C is outside %g..%g °C", formatFloat(r.TempMinC), formatFloat(r.TempMaxC),
+			refTempLowestC, float64(refTempHighestC))
+	}
+	for _, f := range []struct {
+		name string
+		v    float64
+	}{{"noise_pp_v", r.NoisePPV}, {"noise_v_per_rthz", r.NoiseVHz}, {"dropout_v", r.DropoutV},
+		{"load_source_a", r.LoadSourceA}, {"load_sink_a", r.LoadSinkA}, {"output_ohm", r.OutputOhm},
+		{"long_term_ppm", r.LongTermPPM}, {"iq_a", r.IqA}} {
+		c.nonNegative(f.name, f.v)
+	}
+	c.positiveOrUnknown("supply_min_v", r.SupplyMinV)
+	c.positiveOrUnknown("supply_max_v", r.SupplyMaxV)
+	if c.err == nil && Known(r.SupplyMinV) && Known(r.SupplyMaxV) && r.SupplyMaxV < r.SupplyMinV {
+		c.fail("supply_max_v", "%s is below supply_min_v %s", formatFloat(r.SupplyMaxV), formatFloat(r.SupplyMinV))
+	}
+	c.offer(&r.Offer)
+	return c.err
+}
+
 // amplifierFigure reports whether name is the JSON name of a figure column
 // of amplifiers.
 func amplifierFigure(name string) bool {
@@ -261,7 +308,10 @@ func (s *Snapshot) Validate() error {
 	if err := checkAll(KindNetwork, s.Networks, checkNetwork, func(p *Network) string { return p.Part }); err != nil {
 		return err
 	}
-	return checkAll(KindAmplifier, s.Amplifiers, checkAmplifier, func(p *Amplifier) string { return p.Part })
+	if err := checkAll(KindAmplifier, s.Amplifiers, checkAmplifier, func(p *Amplifier) string { return p.Part }); err != nil {
+		return err
+	}
+	return checkAll(KindReference, s.References, checkReference, func(p *Reference) string { return p.Part })
 }
 
 func checkAll[T any](kind Kind, parts []T, check func(int, *T) error, part func(*T) string) error {

@@ -41,6 +41,16 @@ func TestValidate(t *testing.T) {
 		{"two breaks at one quantity", func(b *Snapshot) { b.Resistors[0].PriceBreaks[1].MinQty = 100 }, []string{"two breaks at quantity 100"}},
 		{"currency not letters", func(b *Snapshot) { b.Resistors[0].PriceBreaks[0].Currency = "U$D" }, []string{"ISO 4217"}},
 		{"negative price", func(b *Snapshot) { b.Resistors[0].PriceBreaks[1].UnitPrice = -1 }, []string{"not a price"}},
+		{"reference without output", func(b *Snapshot) { b.References[0].OutputV = 0 }, []string{"reference TS-REF25", "output_v", "positive"}},
+		{"reference tolerance as percent", func(b *Snapshot) { b.References[0].Tolerance = 5 }, []string{"tolerance", "fraction"}},
+		{"reference negative drift", func(b *Snapshot) { b.References[0].DriftPPM = -3 }, []string{"drift_ppm", "zero or a positive"}},
+		{"reference half a range", func(b *Snapshot) { b.References[0].TempMaxC = math.NaN() }, []string{"temp_min_c", "both ends"}},
+		{"reference range inverted", func(b *Snapshot) { b.References[0].TempMinC = 150 }, []string{"temp_max_c", "not above"}},
+		{"reference range below absolute zero", func(b *Snapshot) { b.References[0].TempMinC = -300 }, []string{"temp_min_c", "outside"}},
+		{"reference supply inverted", func(b *Snapshot) { b.References[0].SupplyMaxV = 2 }, []string{"supply_max_v", "below"}},
+		{"reference topology", func(b *Snapshot) { b.References[0].Topology = "buried" }, []string{"topology", "series"}},
+		{"reference negative noise", func(b *Snapshot) { b.References[0].NoisePPV = -1e-6 }, []string{"noise_pp_v"}},
+		{"duplicate reference", func(b *Snapshot) { b.References = append(b.References, b.References[0]) }, []string{"reference TS-REF25", "twice"}},
 		{"duplicate series", func(b *Snapshot) { b.ResistorSeries = append(b.ResistorSeries, b.ResistorSeries[0]) }, []string{"series TS-TF01", "twice"}},
 	}
 	for _, tc := range tests {

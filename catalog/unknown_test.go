@@ -66,6 +66,43 @@ func TestSchema1ZerosBecomeUnknown(t *testing.T) {
 	}
 }
 
+func TestSchema2MigratesToReferences(t *testing.T) {
+	// A schema 2 catalog keeps its prices through the rebuild of
+	// price_breaks, takes references afterwards, and deleting a part of any
+	// kind still deletes its prices.
+	path := filepath.Join(t.TempDir(), "v2.db")
+	rawSQLite(t, path,
+		fmt.Sprintf("PRAGMA application_id = %d", ApplicationID),
+		"PRAGMA foreign_keys = ON",
+		migrations[0], migrations[1],
+		`INSERT INTO resistors (id, part, maker, value_ohm, technology, package, tolerance)
+			VALUES (1, 'OLD-R1', 'Orrin Resistive', 1000, 'thin-film', '0603', 0.001)`,
+		`INSERT INTO price_breaks VALUES ('resistor', 1, 1, 0.1, 'USD'), ('resistor', 1, 100, 0.05, 'USD')`,
+		"PRAGMA user_version = 2",
+	)
+	s, err := Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	b := sampleBatch()
+	mustUpsert(t, s, &Snapshot{References: b.References}, UpsertOptions{Now: testTime})
+	snap := mustSnapshot(t, s)
+	if len(snap.Resistors) != 1 || len(snap.Resistors[0].PriceBreaks) != 2 {
+		t.Fatalf("resistor or its prices lost in the migration: %+v", snap.Resistors)
+	}
+	if len(snap.References) != 1 || !SameFigures(snap.References[0].Offer, b.References[0].Offer) {
+		t.Fatalf("reference not stored with its prices: %+v", snap.References)
+	}
+	if _, err := s.db.Exec("DELETE FROM resistors; DELETE FROM voltage_references"); err != nil {
+		t.Fatal(err)
+	}
+	var left int
+	if err := s.db.Get(&left, "SELECT COUNT(*) FROM price_breaks"); err != nil || left != 0 {
+		t.Errorf("%d price rows left after deleting their parts (%v)", left, err)
+	}
+}
+
 func TestUnknownFiguresRoundTrip(t *testing.T) {
 	ctx := context.Background()
 	b := sampleBatch()
