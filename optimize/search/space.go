@@ -486,6 +486,7 @@ func buildAmps(parts *Parts, p *Problem, fams map[Family]bool) (op, matched []am
 		return []amp{noAmp(p)}, nil, why
 	}
 	w := p.window()
+	opOK, partOK := opAmpBuilds(p, fams), partBuild(p, fams)
 	for i := range parts.Amplifiers {
 		a := &parts.Amplifiers[i]
 		if p.Build.Currency != "" && !offerIn(&a.Offer, p.Build.Currency) {
@@ -498,7 +499,7 @@ func buildAmps(parts *Parts, p *Problem, fams map[Family]bool) (op, matched []am
 		}
 		switch a.Type {
 		case catalog.OpAmp:
-			if !opAmpBuilds(p, fams) {
+			if !opOK {
 				continue
 			}
 			if r := hardAmp(p, a, k); r != "" {
@@ -507,7 +508,7 @@ func buildAmps(parts *Parts, p *Problem, fams map[Family]bool) (op, matched []am
 			}
 			op = append(op, amp{a: a, cost: c, k0: k, ainv: dbInv(a.CMRRdB), short: short})
 		case catalog.MatchedAmp:
-			if !partBuild(p, fams) {
+			if !partOK {
 				continue
 			}
 			g, ok := nearestGain(a.Gains, p.Gain, w)
