@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"io"
+	"math"
 	"reflect"
 	"strconv"
 	"strings"
@@ -49,6 +50,9 @@ func (s *Store) writeCSV(ctx context.Context, w io.Writer, kind Kind) error {
 	if t.child != nil {
 		header = append(header, t.child.name)
 	}
+	if t.matched != nil {
+		header = append(header, MatchedCSVColumns[:]...)
+	}
 	header = append(header, "price_breaks")
 	if err := cw.Write(header); err != nil {
 		return fmt.Errorf("catalog: CSV export: %w", err)
@@ -85,6 +89,9 @@ func (s *Store) writeCSV(ctx context.Context, w io.Writer, kind Kind) error {
 			record[k] = strings.Join(s, ";")
 			k++
 		}
+		if t.matched != nil {
+			k += copy(record[k:], matchedCSV(v.FieldByIndex(t.matched).Interface().(*MatchedNetwork)))
+		}
 		record[k] = FormatBreaks(v.FieldByIndex(t.breaks).Interface().([]PriceBreak))
 		if err := cw.Write(record); err != nil {
 			return fmt.Errorf("catalog: CSV export: %w", err)
@@ -94,6 +101,25 @@ func (s *Store) writeCSV(ctx context.Context, w io.Writer, kind Kind) error {
 		return fmt.Errorf("catalog: CSV export: %w", err)
 	}
 	return nil
+}
+
+// MatchedCSVColumns are the CSV export's columns of an amplifier's matched
+// network: its text form (FormatMatchedNetwork) and its tolerances.
+var MatchedCSVColumns = [4]string{"network", "network_tolerance", "network_ratio_tolerance", "network_ratio_drift_ppm"}
+
+// matchedCSV returns the cells of MatchedCSVColumns for n: blank for no
+// network and for an unknown figure.
+func matchedCSV(n *MatchedNetwork) []string {
+	if n == nil {
+		return []string{"", "", "", ""}
+	}
+	cell := func(x float64) string {
+		if math.IsNaN(x) {
+			return ""
+		}
+		return formatFloat(x)
+	}
+	return []string{FormatMatchedNetwork(n), cell(n.Tolerance), cell(n.RatioTolerance), cell(n.RatioDriftPPM)}
 }
 
 // writeJSON writes the whole catalog as snapshot JSON, parts ordered by

@@ -121,6 +121,7 @@ func ReadSnapshotJSON(r io.Reader) (*Snapshot, error) {
 	markUnknown(resistorTable, reflect.ValueOf(s.Resistors), given.Resistors, legacy)
 	markUnknown(networkTable, reflect.ValueOf(s.Networks), given.Networks, legacy)
 	markUnknown(amplifierTable, reflect.ValueOf(s.Amplifiers), given.Amplifiers, legacy)
+	markMatchedUnknown(s.Amplifiers, given.Amplifiers)
 	markUnknown(referenceTable, reflect.ValueOf(s.References), given.References, legacy)
 	if err := s.Validate(); err != nil {
 		return nil, err

@@ -58,8 +58,14 @@ func sampleBatch() *Snapshot {
 			GBWHz: 1e6, SlewVs: 1e6, NoiseVHz: 40e-9, NoiseAHz: 0, IqA: 0.5e-3,
 			Gains: []float64{1, 2, 5, 10}, GainErrorMax: 0.0002, GainDriftPPM: 1, InNegV: -20, InPosV: -20,
 			InternalOhm: 40e3,
-			Offer:       Offer{PriceBreaks: breaks(3.2), Stock: 0},
-			Provenance:  Provenance{Source: "sample matched", ImportedAt: testTime},
+			Network: &MatchedNetwork{
+				Elements: []MatchedElement{{"R1", 40e3, "IN-", "INV"}, {"R2", 40e3, "INV", "OUT"},
+					{"R3", 40e3, "IN+", "NI"}, {"R4", 40e3, "NI", "REF"}},
+				Pins: []string{"IN-", "IN+", "REF", "OUT"}, OpAmpInv: "INV", OpAmpNonInv: "NI", OpAmpOut: "OUT",
+				Tolerance: 0.002, RatioTolerance: 0.0002, RatioDriftPPM: 1,
+			},
+			Offer:      Offer{PriceBreaks: breaks(3.2), Stock: 0},
+			Provenance: Provenance{Source: "sample matched", ImportedAt: testTime},
 		}},
 		References: []Reference{{
 			Part: "TS-REF25", Maker: "Testmaker Analog", Topology: RefSeries, Package: "SOT-23-3",

@@ -39,6 +39,7 @@ type UpsertSession struct {
 // kindState is what a session keeps per table between chunks.
 type kindState struct {
 	rows, kids, breaks, hist *bulk
+	nets, elems              *bulk // an amplifier's matched network
 	update                   *sql.Stmt
 	dropBreaks               *sql.Stmt
 	// baseID is the largest id before the session: rows above it were
@@ -178,7 +179,7 @@ func (us *UpsertSession) end() {
 
 func (us *UpsertSession) closeStatements() {
 	for _, k := range us.kinds {
-		for _, b := range []*bulk{k.rows, k.kids, k.breaks, k.hist} {
+		for _, b := range []*bulk{k.rows, k.kids, k.breaks, k.hist, k.nets, k.elems} {
 			if b != nil {
 				b.close()
 			}
@@ -219,6 +220,10 @@ func (us *UpsertSession) state(t *table) (*kindState, error) {
 		k.kids = newBulk(u.tx, t.child.table, []string{t.child.fk, "position", t.child.col}, t.kind)
 	}
 	k.breaks = newBulk(u.tx, "price_breaks", []string{"kind", "part_id", "min_qty", "unit_price", "currency"}, t.kind)
+	if t.matched != nil {
+		k.nets = newBulk(u.tx, "amplifier_networks", matchedColumns, t.kind)
+		k.elems = newBulk(u.tx, "amplifier_network_elements", matchedElementColumns, t.kind)
+	}
 	k.hist = newBulk(u.tx, "part_history", []string{"part", "kind", "source", "imported_at", "outcome", "figures", "changes"}, t.kind)
 	us.kinds[t] = k
 	return k, nil

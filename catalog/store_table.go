@@ -62,6 +62,9 @@ type table struct {
 	offer  []int
 	prov   []int
 	breaks []int // Offer.PriceBreaks
+	// matched is the index of an amplifier's Network field (stored in
+	// amplifier_networks and amplifier_network_elements), nil elsewhere.
+	matched []int
 }
 
 var (
@@ -115,6 +118,10 @@ func (t *table) walk(typ reflect.Type, prefix []int, figure bool) {
 		}
 		if f.Tag.Get("catalog") == "apart" {
 			// Stored in tables of its own, by the code that owns them.
+			if f.Type != reflect.TypeFor[*MatchedNetwork]() {
+				panic("catalog: no storage for field " + f.Name + " of " + t.typ.Name())
+			}
+			t.matched = index
 			continue
 		}
 		if f.Name == "Part" {
@@ -313,6 +320,11 @@ func loadRows[T any](ctx context.Context, q querier, t *table, where string, arg
 	if err := rows.Err(); err != nil {
 		return nil, fmt.Errorf("catalog: read %s: %w", t.name, err)
 	}
+	if t.matched != nil {
+		if err := attachMatched(ctx, q, t, cond, args, reflect.ValueOf(out)); err != nil {
+			return nil, err
+		}
+	}
 	return out, nil
 }
 
@@ -455,6 +467,14 @@ func (t *table) appendFigures(buf []byte, v reflect.Value) []byte {
 			buf = strconv.AppendFloat(buf, x, 'g', -1, 64)
 		}
 		buf = append(buf, ']')
+	}
+	if t.matched != nil {
+		if n := v.FieldByIndex(t.matched).Interface().(*MatchedNetwork); n != nil {
+			if b, err := n.MarshalJSON(); err == nil {
+				key("network")
+				buf = append(buf, b...)
+			}
+		}
 	}
 	return append(buf, '}')
 }

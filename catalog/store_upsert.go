@@ -166,7 +166,7 @@ func upsertKind[T any](us *UpsertSession, t *table, parts []T) error {
 		return err
 	}
 	rows, kids, breaks, hist := k.rows, k.kids, k.breaks, k.hist
-	for _, b := range []*bulk{rows, kids, breaks, hist} {
+	for _, b := range []*bulk{rows, kids, breaks, hist, k.nets, k.elems} {
 		if b != nil {
 			b.ctx = u.ctx
 		}
@@ -209,6 +209,11 @@ func upsertKind[T any](us *UpsertSession, t *table, parts []T) error {
 			rows.args = t.appendArgs(rows.args, id, v)
 			if err := rows.done(); err != nil {
 				return fmt.Errorf("write %s: %w", t.name, err)
+			}
+			if t.matched != nil {
+				if err := k.writeMatched(id, v.FieldByIndex(t.matched).Interface().(*MatchedNetwork)); err != nil {
+					return fmt.Errorf("write the network of %s %s: %w", t.kind, names[i], err)
+				}
 			}
 			if t.child != nil {
 				for pos, x := range v.FieldByIndex(t.child.field).Interface().([]float64) {
@@ -288,6 +293,9 @@ func upsertKind[T any](us *UpsertSession, t *table, parts []T) error {
 			return fmt.Errorf("write %s: %w", t.child.table, err)
 		}
 	}
+	if err := k.flushMatched(); err != nil {
+		return fmt.Errorf("write amplifier networks: %w", err)
+	}
 	return nil
 }
 
@@ -331,6 +339,13 @@ func diffFigures(t *table, old, new reflect.Value) []string {
 		b := new.FieldByIndex(t.child.field).Interface().([]float64)
 		if !slices.Equal(a, b) {
 			out = append(out, t.child.name+" "+showFloats(a)+" -> "+showFloats(b))
+		}
+	}
+	if t.matched != nil {
+		a := old.FieldByIndex(t.matched).Interface().(*MatchedNetwork)
+		b := new.FieldByIndex(t.matched).Interface().(*MatchedNetwork)
+		if !SameFigures(a, b) {
+			out = append(out, "network "+showMatched(a)+" -> "+showMatched(b))
 		}
 	}
 	return out

@@ -228,6 +228,13 @@ func checkAmplifier(row int, a *Amplifier) error {
 	default:
 		c.fail("rail_to_rail", "%q is not %q, %q, %q or empty", a.RailToRail, RailIn, RailOut, RailInOut)
 	}
+	if a.Network != nil {
+		if a.Type != MatchedAmp {
+			c.fail("network", "only an amplifier of type %q has a network of matched resistors inside", MatchedAmp)
+		} else {
+			c.checkMatched(a.Network)
+		}
+	}
 	for _, name := range a.TypicalOnly {
 		if !amplifierFigure(name) {
 			c.fail("typical_only", "%q is not the JSON name of an amplifier figure (e.g. \"vos_drift_v_per_k\")", name)
