@@ -103,6 +103,9 @@ func runSolve(cmd *cobra.Command, opts *solveOptions) error {
 		return err
 	}
 	defer st.Close()
+	if sp.IsChain() {
+		return runSolveChain(cmd, opts, st, sp)
+	}
 	start := opts.Now()
 	res, err := solveSpec(cmd, opts.IO, opts.Quiet, opts.Now, st, sp, search.Options{Top: opts.Top, Combos: opts.Combos, Frontier: opts.Frontier, Rates: opts.Rates})
 	if res == nil {

@@ -261,8 +261,17 @@ func (e *Evaluator) channel(ctx context.Context, c *Candidate, res *Result, prog
 	m := &stage.Metrics
 	st := stageFigures{gain: s.Gain, zero: e.target, gainErr: m.GainError, offset: m.OutputOffsetV, cmErr: m.CommonModeErrorV,
 		noiseRMS: m.NoiseRMSV, drift: m.DriftPPMPerK * 1e-6, offDrift: m.OffsetDriftVPerK, refInStage: refInStage}
+	return e.channelFrom(&st, stage, res, stage != res), nil
+}
+
+// channelFrom is the channel's budget from the stage's figures st into
+// res; stage is the result whose Monte Carlo trials it reads, and idealRef
+// says the figures come from a budget with an ideal reference.
+func (e *Evaluator) channelFrom(st *stageFigures, stage, res *Result, idealRef bool) []assume.Assumption {
+	s := e.s
+	a := s.ADC
 	f, as := adcFigures(a)
-	termsAt := channelTerms(s, &f, &st)
+	termsAt := channelTerms(s, &f, st)
 	ch := &Channel{Bits: a.Bits, FullScaleV: a.FullScale(), LSBV: a.LSB(), RangeMinV: a.Range.Min, RangeMaxV: a.Range.Max, Reference: spec.ADCRefOwn,
 		inputUnit: inputUnit(s)}
 	if a.SharedRef {
@@ -281,7 +290,7 @@ func (e *Evaluator) channel(ctx context.Context, c *Candidate, res *Result, prog
 			ch.TotalErrorFS, ch.AtInput, at = errFS, vin, terms
 		}
 		ch.TotalDriftFS = math.Max(ch.TotalDriftFS, driftFS)
-		ch.RangeMarginV = math.Min(ch.RangeMarginV, rangeMargin(s, &st, terms, vin)*a.FullScale())
+		ch.RangeMarginV = math.Min(ch.RangeMarginV, rangeMargin(s, st, terms, vin)*a.FullScale())
 	}
 	codes := a.Codes()
 	ch.TotalErrorLSB, ch.TotalDriftLSB = ch.TotalErrorFS*codes, ch.TotalDriftFS*codes
@@ -297,8 +306,8 @@ func (e *Evaluator) channel(ctx context.Context, c *Candidate, res *Result, prog
 	res.Metrics.TotalDriftFS, res.Metrics.TotalDriftLSB = ch.TotalDriftFS, ch.TotalDriftLSB
 	res.Metrics.ADCRangeMarginV = ch.RangeMarginV
 	e.channelLimits(ch, res)
-	e.channelNotes(ch, res, stage != res)
-	return as, nil
+	e.channelNotes(ch, res, idealRef)
+	return as
 }
 
 // channelLimits adds the channel's limits to res: total error and total

@@ -55,6 +55,9 @@ func TestNearMissesExactBudget(t *testing.T) {
 		if err != nil {
 			t.Fatalf("%s: %v", path, err)
 		}
+		if s.IsChain() {
+			continue // a chain is solved by SolveChain, which lists no near misses yet
+		}
 		name := filepath.Base(path)
 		t.Run(name, func(t *testing.T) {
 			res, err := Solve(context.Background(), snap, s, Options{})

@@ -35,6 +35,7 @@ type rawSpec struct {
 	Derating        string      `yaml:"derating"`
 	Assumptions     string      `yaml:"assumptions"`
 	ADC             *rawADC     `yaml:"adc"`
+	Stages          []rawStage  `yaml:"stages"`
 }
 
 type rawInput struct {
@@ -149,14 +150,33 @@ func Parse(data []byte, name string) (*Spec, error) {
 	} else if strings.Contains(s.About, "\n") {
 		p.add("about", "must be one line")
 	}
-	parseFamilies(p, &r, s)
+	if s.Stages = parseStages(p, &r); s.Stages != nil {
+		// The spec stands for its first stage while its input is read.
+		r.Families, r.Gain = s.Stages[0].Families, fmt.Sprint(s.Stages[0].Gain)
+	}
+	switch {
+	case len(r.Stages) == 0:
+		parseFamilies(p, &r, s)
+	case s.Stages != nil:
+		s.Families = s.Stages[0].Families
+	default:
+		r.Gain = "1" // the stages' errors are recorded; no second one about the gain
+	}
 	parseSignal(p, &r, s)
 	parseEnvironment(p, &r, s)
 	parseLimits(p, &r.Limits, &s.Limits)
 	parseADC(p, &r, s)
 	parseAnalysis(p, &r, s)
 	parseBuild(p, &r, s)
-	if len(p.errs) == 0 {
+	switch {
+	case len(p.errs) > 0:
+	case s.IsChain():
+		checkStages(p, s)
+		s.Gain = 1
+		for _, st := range s.Stages {
+			s.Gain *= st.Gain
+		}
+	default:
 		checkConsistency(p, s)
 	}
 	if err := p.err(); err != nil {

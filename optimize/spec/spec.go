@@ -141,8 +141,12 @@ type Spec struct {
 	// nobody gave may do for a limit.
 	Assumptions string `json:"assumptions"`
 	// ADC is the converter the stage drives (nil: none given).
-	ADC        *ADC   `json:"adc,omitempty"`
-	SourceFile string `json:"-"`
+	ADC *ADC `json:"adc,omitempty"`
+	// Stages, when given, make the spec a chain (see StageSpec): Gain is
+	// then the product of the stages' gains and Families the first
+	// stage's.
+	Stages     []Stage `json:"stages,omitempty"`
+	SourceFile string  `json:"-"`
 }
 
 // What unknown catalog figures may do (Spec.Assumptions).

@@ -1,0 +1,132 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"plumb/catalog"
+	"plumb/optimize/budget"
+	"plumb/optimize/search"
+	"plumb/optimize/spec"
+)
+
+// runSolveChain solves a spec that lists stages: the cheapest chains, each
+// with its stages and the chain's figures at its output. --explain,
+// --frontier and --bom are for one-stage specs and are refused here.
+func runSolveChain(cmd *cobra.Command, opts *solveOptions, st *catalog.Store, sp *spec.Spec) error {
+	if opts.BOM != "" || opts.Frontier || opts.Explain > 0 {
+		return fmt.Errorf("solve %s: --bom, --frontier and --explain are not available for a spec with stages yet; the table shows each stage and the chain's budget", specName(sp))
+	}
+	pr := newProgress(opts.IO, opts.Quiet, opts.Now)
+	o := search.Options{Top: opts.Top, Combos: opts.Combos, Rates: opts.Rates, Progress: pr.update, Trials: pr.trials}
+	res, err := search.SolveChainCatalog(cmd.Context(), st, sp, o)
+	pr.finish()
+	infeasible := errors.Is(err, search.ErrInfeasible)
+	if err != nil && !infeasible {
+		return fmt.Errorf("solving %s: %w", specName(sp), err)
+	}
+	cautionsBesideData(opts.IO, opts.Format, res.Cautions)
+	switch opts.Format {
+	case "json":
+		if werr := writeJSON(opts.IO.Out, res); werr != nil {
+			return werr
+		}
+	case "csv":
+		if werr := writeCSV(opts.IO.Out, chainCSVHeader, chainCSVRows(res)); werr != nil {
+			return werr
+		}
+	default:
+		writeChainTable(opts.IO.Out, opts.IO, solveTitle(sp), res)
+	}
+	if infeasible {
+		return fmt.Errorf("spec %s: %w: %s; relax the chain's limits or add the parts they need", specName(sp), search.ErrInfeasible, res.Infeasible)
+	}
+	return nil
+}
+
+var chainCSVHeader = []string{"rank", "stage", "family", "position", "part", "total_cost", "unit_cost", "currency"}
+
+// chainCSVRows lists every part of every stage of every ranked chain.
+func chainCSVRows(res *search.ChainResult) [][]string {
+	var rows [][]string
+	for _, d := range res.Designs {
+		for _, s := range d.Stages {
+			for _, p := range s.Parts {
+				rows = append(rows, []string{fmt.Sprint(d.Rank), fmt.Sprint(s.Stage), s.Family, p.Position, p.Part,
+					fmt.Sprint(d.TotalCost), fmt.Sprint(d.UnitCost), d.Currency})
+			}
+		}
+	}
+	return rows
+}
+
+// writeChainTable prints each ranked chain: per stage its family, parts
+// and own figures, then the chain's limits at its output.
+func writeChainTable(w io.Writer, ios *IOStreams, title string, res *search.ChainResult) {
+	fmt.Fprintln(w, ios.Bold(escapeText(title, "")))
+	for _, d := range res.Designs {
+		fmt.Fprintf(w, "\n%s\n", ios.Bold(fmt.Sprintf("Chain %d: %s %.4g per unit, %.6g the build; binding: %s", d.Rank, d.Currency, d.UnitCost, d.TotalCost, d.Binding)))
+		for _, s := range d.Stages {
+			var parts []string
+			for _, p := range s.Parts {
+				parts = append(parts, p.Position+" "+p.Part)
+			}
+			fmt.Fprintf(w, "  stage %d  %s, gain %g, %s %.4g per unit\n", s.Stage, s.Family, s.Gain, d.Currency, s.UnitCost)
+			for _, line := range wrapWords(strings.Join(parts, ", "), 88) {
+				fmt.Fprintf(w, "      %s\n", escapeText(line, ""))
+			}
+			fmt.Fprintf(w, "      gain error %s, drift %s, offset %s, CM error %s, CMRR %s, noise %s\n",
+				budget.FormatFigure(s.Metrics.GainError, ""), budget.FormatFigure(s.Metrics.DriftPPMPerK, "ppm/K"),
+				budget.FormatFigure(s.Metrics.OutputOffsetV, "V"), budget.FormatFigure(s.CommonModeErrorV, "V"),
+				budget.FormatFigure(s.Metrics.CMRRdB, "dB"), budget.FormatFigure(s.Metrics.NoiseRMSV, "V"))
+		}
+		fmt.Fprintf(w, "  chain    gain %.6g\n", d.Metrics.Gain)
+		for _, l := range d.Limits {
+			mark := "ok  "
+			if !l.Pass {
+				mark = "FAIL"
+			}
+			fmt.Fprintf(w, "    %s %-16s %12s  limit %12s  %s\n", mark, l.Name, budget.FormatFigure(l.Value, l.Unit), budget.FormatFigure(l.Limit, l.Unit), l.MarginText)
+		}
+	}
+	if res.Infeasible != "" {
+		fmt.Fprintf(w, "\nNo chain passes: %s\n", res.Infeasible)
+	}
+	if len(res.Notes) > 0 {
+		fmt.Fprintln(w, "\nNotes:")
+		for _, n := range res.Notes {
+			for i, line := range wrapWords(n, 94) {
+				lead := "- "
+				if i > 0 {
+					lead = "  "
+				}
+				fmt.Fprintf(w, "%s%s\n", lead, escapeText(line, ""))
+			}
+		}
+	}
+}
+
+// wrapWords breaks text into lines of at most width runes at spaces.
+func wrapWords(text string, width int) []string {
+	var out []string
+	line := ""
+	for _, word := range strings.Fields(text) {
+		switch {
+		case line == "":
+			line = word
+		case len([]rune(line))+1+len([]rune(word)) > width:
+			out = append(out, line)
+			line = word
+		default:
+			line += " " + word
+		}
+	}
+	if line != "" {
+		out = append(out, line)
+	}
+	return out
+}
