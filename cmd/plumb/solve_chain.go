@@ -67,7 +67,9 @@ func chainCSVRows(res *search.ChainResult) [][]string {
 // writeChainTable prints each ranked chain: per stage its family, parts
 // and own figures, then the chain's limits at its output.
 func writeChainTable(w io.Writer, ios *IOStreams, title string, res *search.ChainResult) {
-	fmt.Fprintln(w, ios.Bold(escapeText(title, "")))
+	for _, line := range wrapWords(title, 96) {
+		fmt.Fprintln(w, ios.Bold(escapeText(line, "")))
+	}
 	for _, d := range res.Designs {
 		fmt.Fprintf(w, "\n%s\n", ios.Bold(fmt.Sprintf("Chain %d: %s %.4g per unit, %.6g the build; binding: %s", d.Rank, d.Currency, d.UnitCost, d.TotalCost, d.Binding)))
 		for _, s := range d.Stages {
@@ -79,10 +81,13 @@ func writeChainTable(w io.Writer, ios *IOStreams, title string, res *search.Chai
 			for _, line := range wrapWords(strings.Join(parts, ", "), 88) {
 				fmt.Fprintf(w, "      %s\n", escapeText(line, ""))
 			}
-			fmt.Fprintf(w, "      gain error %s, drift %s, offset %s, CM error %s, CMRR %s, noise %s\n",
+			figs := fmt.Sprintf("gain error %s, drift %s, offset %s, CM error %s, CMRR %s, noise %s",
 				budget.FormatFigure(s.Metrics.GainError, ""), budget.FormatFigure(s.Metrics.DriftPPMPerK, "ppm/K"),
 				budget.FormatFigure(s.Metrics.OutputOffsetV, "V"), budget.FormatFigure(s.CommonModeErrorV, "V"),
 				budget.FormatFigure(s.Metrics.CMRRdB, "dB"), budget.FormatFigure(s.Metrics.NoiseRMSV, "V"))
+			for _, line := range wrapWords(figs, 88) {
+				fmt.Fprintf(w, "      %s\n", line)
+			}
 		}
 		fmt.Fprintf(w, "  chain    gain %.6g\n", d.Metrics.Gain)
 		for _, l := range d.Limits {
