@@ -360,3 +360,34 @@ func TestChannelMonteCarlo(t *testing.T) {
 		t.Errorf("seeded Monte Carlo gave %.9g then %.9g LSB", mc, again)
 	}
 }
+
+// BenchmarkChannelEvaluate is the exact budget of the adc-channel example
+// design, worst case: the stage's budget, its budget again with an ideal
+// reference (the ADC shares the reference), and the channel's terms.
+func BenchmarkChannelEvaluate(b *testing.B) {
+	snap, err := data.DemoSnapshot()
+	if err != nil {
+		b.Fatal(err)
+	}
+	lookup, err := spec.SnapshotLookup(snap)
+	if err != nil {
+		b.Fatal(err)
+	}
+	s, err := spec.Load("../../data/examples/adc-channel.yaml")
+	if err != nil {
+		b.Fatal(err)
+	}
+	d, err := spec.LoadDesign("../../data/examples/adc-channel-design.yaml")
+	if err != nil {
+		b.Fatal(err)
+	}
+	if err := d.Resolve(lookup); err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := Evaluate(s, d); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
