@@ -82,6 +82,10 @@ func init() {
 		feeds[fig] = []string{LimitTotalError, LimitTotalDrift, LimitADCRange}
 	}
 	feeds["adc_reference_tolerance"] = []string{LimitTotalError, LimitADCRange}
+	// A catalog reference's figures (the part the search picks for a
+	// reference.part: auto) reach every limit the reference does.
+	feeds["tolerance"] = appendOnce(feeds["tolerance"], LimitOutputOffset, LimitTotalError, LimitADCRange)
+	feeds["drift_ppm"] = appendOnce(feeds["drift_ppm"], LimitOutputOffset, LimitOffsetDrift, LimitTotalError, LimitTotalDrift, LimitADCRange)
 }
 
 func appendOnce(list []string, names ...string) []string {
@@ -95,4 +99,15 @@ func appendOnce(list []string, names ...string) []string {
 		}
 	}
 	return list
+}
+
+// Reference fills a catalog voltage reference's unknown initial tolerance
+// (fraction) and drift (ppm/K) in place with the defaults of a loose
+// bandgap reference, ADCRefTolerance and ADCRefDrift (common practice), and
+// says what it assumed.
+func Reference(part string, tolerance, driftPPM *float64) []Assumption {
+	f := filler{part: part}
+	f.set(tolerance, "tolerance", ADCRefTolerance, fmt.Sprintf("initial tolerance not given: taken as %g %% (a loose bandgap reference, common practice)", 100*ADCRefTolerance))
+	f.set(driftPPM, "drift_ppm", 1e6*ADCRefDrift, fmt.Sprintf("drift not given: taken as %g ppm/K (a loose bandgap reference, common practice)", 1e6*ADCRefDrift))
+	return f.as
 }

@@ -69,6 +69,17 @@ func Evaluate(s *spec.Spec, d *spec.Design) (*Result, error) {
 // and reports its trials to progress (nil: no report); see
 // Evaluator.Watch.
 func EvaluateContext(ctx context.Context, s *spec.Spec, d *spec.Design, progress func(done, total int)) (*Result, error) {
+	ref, err := spec.ReferenceFigures(s, d)
+	if err != nil {
+		return nil, err
+	}
+	if ref != s.Reference {
+		// The reference the search picked for this design (reference.part:
+		// auto): its figures are the design's part's.
+		picked := *s
+		picked.Reference = ref
+		s = &picked
+	}
 	e, err := NewEvaluator(s, d.Family, d.Options)
 	if err != nil {
 		return nil, err

@@ -88,6 +88,10 @@ type BOM struct {
 // the positions of its packages when it needs more than one.
 const ampPosition = "U"
 
+// refPosition is the position of a design's reference part (reference.part:
+// auto in its spec).
+const refPosition = "REF"
+
 // DesignBOM prices design d for build b, finding each part number with
 // find (catalog.Store.Find or spec.SnapshotLookup, for example).
 //
@@ -153,6 +157,9 @@ func DesignBOM(d *spec.Design, find spec.Lookup, b Build) (*BOM, error) {
 		add(d.Amplifier.Part, ampPosition+"1").amp = true
 	case opamps > 0:
 		bm.Unpriced = append(bm.Unpriced, ampPosition+"1")
+	}
+	if d.Reference != nil {
+		add(d.Reference.Part, refPosition).discrete++
 	}
 
 	lines := make([]BOMLine, 0, len(order))
@@ -252,6 +259,8 @@ func describe(kind catalog.Kind, v any) (BOMLine, *catalog.Offer, error) {
 		v = &x
 	case catalog.Amplifier:
 		v = &x
+	case catalog.Reference:
+		v = &x
 	}
 	ln := BOMLine{Kind: kind, Item: v}
 	switch p := v.(type) {
@@ -268,6 +277,9 @@ func describe(kind catalog.Kind, v any) (BOMLine, *catalog.Offer, error) {
 			vals[i] = units.FormatOhms(x)
 		}
 		ln.Maker, ln.Part, ln.Value, ln.Tolerance, ln.TCR, ln.Package, ln.Source = p.Maker, p.Part, strings.Join(vals, "/"), p.Tolerance, p.TCR, p.Package, p.Source
+		return ln, &p.Offer, nil
+	case *catalog.Reference:
+		ln.Maker, ln.Part, ln.Value, ln.Tolerance, ln.TCR = p.Maker, p.Part, units.Format(p.OutputV, "V"), p.Tolerance, p.DriftPPM
 		return ln, &p.Offer, nil
 	case *catalog.Amplifier:
 		ln.Maker, ln.Part, ln.Value, ln.Package, ln.Source = p.Maker, p.Part, string(p.Type), p.Package, p.Source

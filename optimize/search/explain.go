@@ -78,7 +78,8 @@ func adopt(d *Design, br *budget.Result) {
 func metricsOf(m budget.Metrics) Metrics {
 	return Metrics{Gain: m.Gain, GainError: m.GainError, GainErrorInitial: m.GainErrorInitial, CMRRdB: m.CMRRdB,
 		DriftPPMPerK: m.DriftPPMPerK, OutputOffsetV: m.OutputOffsetV, OffsetDriftVPerK: m.OffsetDriftVPerK,
-		NoiseDensity: m.NoiseDensity, NoiseRMSV: m.NoiseRMSV, BandwidthHz: m.BandwidthHz}
+		NoiseDensity: m.NoiseDensity, NoiseRMSV: m.NoiseRMSV, BandwidthHz: m.BandwidthHz,
+		TotalErrorFS: m.TotalErrorFS, TotalErrorLSB: m.TotalErrorLSB, TotalDriftFS: m.TotalDriftFS, TotalDriftLSB: m.TotalDriftLSB}
 }
 
 // bindingLine says which limit binds design d, with its margin and its

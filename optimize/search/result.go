@@ -155,6 +155,13 @@ type Metrics struct {
 	NoiseDensity     float64 `json:"noise_v_per_rthz"`
 	NoiseRMSV        float64 `json:"noise_rms_v"`
 	BandwidthHz      float64 `json:"bandwidth_hz"`
+	// The channel into the ADC (specs with an adc block; see
+	// budget.Channel): total error at full scale and the temperature's
+	// part of it, fractions of full scale and LSB.
+	TotalErrorFS  float64 `json:"total_error_fs,omitempty"`
+	TotalErrorLSB float64 `json:"total_error_lsb,omitempty"`
+	TotalDriftFS  float64 `json:"total_drift_fs,omitempty"`
+	TotalDriftLSB float64 `json:"total_drift_lsb,omitempty"`
 }
 
 // Limit is one spec limit checked against a design. Margin is limit/value

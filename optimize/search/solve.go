@@ -29,6 +29,10 @@ func Solve(ctx context.Context, snap *catalog.Snapshot, s *spec.Spec, opt Option
 	if err := opt.check(); err != nil {
 		return nil, err
 	}
+	if s.Reference.Auto() {
+		refs := refOptions(snap.References, s, converterFor(s, opt))
+		return solveReferences(s, refs, opt, func(sr *spec.Spec) (*Result, error) { return Solve(ctx, snap, sr, opt) })
+	}
 	p, err := FromSpec(s)
 	if err != nil {
 		return nil, err
@@ -106,6 +110,13 @@ func (r *Result) attachConversions(c *cost.Converter) {
 func SolveCatalog(ctx context.Context, st *catalog.Store, s *spec.Spec, opt Options) (*Result, error) {
 	if err := opt.check(); err != nil {
 		return nil, err
+	}
+	if s.Reference.Auto() {
+		refs, err := st.List(ctx, catalog.Filter{Kind: catalog.KindReference})
+		if err != nil {
+			return nil, fmt.Errorf("search: reading the catalog's references: %w", err)
+		}
+		return solveReferences(s, refOptions(refs.References, s, converterFor(s, opt)), opt, func(sr *spec.Spec) (*Result, error) { return SolveCatalog(ctx, st, sr, opt) })
 	}
 	p, err := FromSpec(s)
 	if err != nil {

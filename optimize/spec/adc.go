@@ -134,6 +134,9 @@ func parseADC(p *problems, r *rawSpec, s *Spec) {
 		if o.Impedance != "" {
 			p.add("adc.own_reference.impedance", "is not used for an ADC's reference; remove it")
 		}
+		if o.Part != "" {
+			p.add("adc.own_reference.part", "is not taken here: an ADC's own reference is given by its figures; to pick a reference from the catalog, give it as the spec's reference (part: auto) and write adc.reference: channel")
+		}
 	}
 	parseADCRange(p, ra, s)
 	fs := 0.0
@@ -323,6 +326,31 @@ func checkADC(p *problems, s *Spec) {
 		for _, f := range familiesWith(s, func(f *family.Family) bool { return f.Reference == family.RefNone }) {
 			p.add("adc.reference", "is channel, but family %s has no reference block; give the ADC's reference under adc.own_reference", f.Name)
 			return
+		}
+	}
+}
+
+// RefAuto in reference.part asks the search to pick the reference from the
+// catalog.
+const RefAuto = "auto"
+
+// Auto reports whether the search picks the reference from the catalog.
+func (r *Reference) Auto() bool { return r != nil && r.Part == RefAuto }
+
+// parseRefPart reads reference.part: auto, for a reference the search
+// picks from the catalog's references of the voltage given, whose figures
+// are then the part's.
+func parseRefPart(p *problems, ref *rawRef, r *Reference) {
+	switch part := strings.TrimSpace(ref.Part); {
+	case part == "":
+	case part != RefAuto:
+		p.add("reference.part", "%q is not a choice here; write auto to have the search pick the reference from the catalog (a design file names the part it uses), or leave it out and give the figures", part)
+	default:
+		r.Part = RefAuto
+		for _, f := range []struct{ path, text string }{{"reference.tolerance", ref.Tolerance}, {"reference.drift", ref.Drift}} {
+			if f.text != "" {
+				p.add(f.path, "given with part: auto; the figures are the catalog part's: remove it, or give the figures without part")
+			}
 		}
 	}
 }

@@ -107,3 +107,47 @@ func TestADCBlockErrors(t *testing.T) {
 		})
 	}
 }
+
+// TestReferenceAuto: reference.part auto leaves the figures to the part
+// the search picks; figures given beside it, or another word, are errors;
+// a design under such a spec names its part, which ReferenceFigures then
+// takes the figures from.
+func TestReferenceAuto(t *testing.T) {
+	auto := strings.Replace(adcBase, "reference: {voltage: 4.096V, tolerance: 0.05%, drift: 10ppm/K}", "reference: {part: auto, voltage: 4.096V}", 1)
+	s, err := Parse([]byte(auto+"limits: {gain_error: 1%}\n"), "auto.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !s.Reference.Auto() || s.Reference.Tolerance != 0 {
+		t.Fatalf("reference %+v", s.Reference)
+	}
+	for _, c := range []struct{ name, src, want string }{
+		{"figures with auto", strings.Replace(adcBase, "reference: {", "reference: {part: auto, ", 1), "reference.tolerance: given with part: auto"},
+		{"a part number", strings.Replace(adcBase, "reference: {", "reference: {part: VR-1, ", 1), `reference.part: "VR-1" is not a choice`},
+	} {
+		_, err := Parse([]byte(c.src+"limits: {gain_error: 1%}\n"), "bad.yaml")
+		if err == nil || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("%s: error %v, want %q", c.name, err, c.want)
+		}
+	}
+	d, err := ParseDesign([]byte("family: level-shift\npositions: {R1: {part: A}, R2: {part: A}, R3: {part: A}, Rf: {part: A}, Rg: {part: A}}\namplifier: {part: U}\nreference: {part: VR-4096}\n"), "d.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := ReferenceFigures(s, d); err == nil || !strings.Contains(err.Error(), "has not been looked up") {
+		t.Errorf("unresolved reference: %v", err)
+	}
+	d.Reference.V, d.Reference.Tolerance, d.Reference.Drift, d.Reference.Resolved = 4.096, 0.0004, 3e-6, true
+	r, err := ReferenceFigures(s, d)
+	if err != nil || r.Tolerance != 0.0004 || r.Drift != 3e-6 || r.V != 4.096 || r.Auto() {
+		t.Errorf("figures %+v, %v", r, err)
+	}
+	d.Reference.V = 2.5
+	if _, err := ReferenceFigures(s, d); err == nil || !strings.Contains(err.Error(), "2.5 V reference") {
+		t.Errorf("wrong voltage: %v", err)
+	}
+	d.Reference = nil
+	if _, err := ReferenceFigures(s, d); err == nil || !strings.Contains(err.Error(), "reference: missing") {
+		t.Errorf("no reference: %v", err)
+	}
+}

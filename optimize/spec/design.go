@@ -107,12 +107,15 @@ type AmplifierChoice struct {
 // Design is a concrete stage: a family, its options, a part at every
 // position and the amplifier.
 type Design struct {
-	Name       string          `json:"name,omitempty"`
-	Family     string          `json:"family"`
-	Options    Options         `json:"options"`
-	Positions  []Position      `json:"positions"` // sorted by name
-	Amplifier  AmplifierChoice `json:"amplifier"`
-	SourceFile string          `json:"-"`
+	Name      string          `json:"name,omitempty"`
+	Family    string          `json:"family"`
+	Options   Options         `json:"options"`
+	Positions []Position      `json:"positions"` // sorted by name
+	Amplifier AmplifierChoice `json:"amplifier"`
+	// Reference is the catalog reference the design uses when its spec
+	// has the search pick one (nil: the spec's figures).
+	Reference  *DesignReference `json:"reference,omitempty"`
+	SourceFile string           `json:"-"`
 	// Assumptions are the figures of the design's catalog parts that the
 	// catalog does not give, taken at their documented defaults when
 	// Resolve looked the parts up.
@@ -136,6 +139,7 @@ type rawDesign struct {
 	Options   Options                `yaml:"options,omitempty"`
 	Positions map[string]rawPosition `yaml:"positions,omitempty"`
 	Amplifier rawAmp                 `yaml:"amplifier,omitempty"`
+	Reference *rawDesignRef          `yaml:"reference,omitempty"`
 }
 
 type rawElement struct {
@@ -232,6 +236,7 @@ func ParseDesign(data []byte, name string) (*Design, error) {
 	default:
 		d.Amplifier = parseAmp(p, &r.Amplifier, integrated(r.Family), famOK)
 	}
+	d.Reference = parseDesignRef(p, r.Reference)
 	if err := p.err(); err != nil {
 		return nil, err
 	}
@@ -467,10 +472,12 @@ func (d *Design) Resolve(lookup Lookup) error {
 	} else if amp.Resolved && amp.Amp.Type == catalog.MatchedAmp {
 		p.add("amplifier.part", "%s has matched resistors inside; use family %s for it", amp.Part, familyNames(familiesWith(&Spec{Families: KnownFamilies}, (*family.Family).Integrated)))
 	}
+	ref, refAssumed := resolveReference(p, d, lookup)
+	assumed = append(assumed, refAssumed...)
 	if err := p.err(); err != nil {
 		return err
 	}
-	d.Positions, d.Amplifier = positions, amp
+	d.Positions, d.Amplifier, d.Reference = positions, amp, ref
 	set := assume.Set{}
 	set.Add(d.Assumptions)
 	set.Add(assumed)
@@ -546,6 +553,9 @@ func (d *Design) Unresolved() []string {
 	}
 	if !d.Amplifier.Resolved {
 		out = append(out, "amplifier: "+d.Amplifier.Part)
+	}
+	if d.Reference != nil && !d.Reference.Resolved {
+		out = append(out, "reference: "+d.Reference.Part)
 	}
 	return out
 }

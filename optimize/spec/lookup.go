@@ -33,6 +33,9 @@ func SnapshotLookup(snap *catalog.Snapshot) (Lookup, error) {
 	for i := range snap.Amplifiers {
 		m[snap.Amplifiers[i].Part] = entry{catalog.KindAmplifier, &snap.Amplifiers[i]}
 	}
+	for i := range snap.References {
+		m[snap.References[i].Part] = entry{catalog.KindReference, &snap.References[i]}
+	}
 	return func(part string) (catalog.Kind, any, error) {
 		e, ok := m[part]
 		if !ok {

@@ -46,6 +46,7 @@ type rawInput struct {
 }
 
 type rawRef struct {
+	Part      string `yaml:"part"`
 	Voltage   string `yaml:"voltage"`
 	Tolerance string `yaml:"tolerance"`
 	Drift     string `yaml:"drift"`
@@ -394,6 +395,7 @@ func parseEnvironment(p *problems, r *rawSpec, s *Spec) {
 		if ref.Impedance != "" {
 			s.Reference.SourceOhm = magnitude(p, "reference.impedance", ref.Impedance, aResistance, field(p, "reference.impedance", ref.Impedance, uOhm))
 		}
+		parseRefPart(p, ref, s.Reference)
 	} else if shifts := familiesWith(s, refShift); len(shifts) > 0 {
 		p.add("reference", "missing; family %s takes its offset from a reference: give reference.voltage (and its tolerance and drift)", familyNames(shifts))
 	}

@@ -53,6 +53,10 @@ type Reference struct {
 	Tolerance float64 `json:"tolerance"`   // fraction
 	Drift     float64 `json:"drift_per_k"` // fraction per K
 	SourceOhm float64 `json:"source_ohm"`  // output resistance of the reference
+	// Part is RefAuto when the search picks the reference from the
+	// catalog's references of voltage V (its tolerance and drift are then
+	// the part's); "" when the spec gives the figures.
+	Part string `json:"part,omitempty"`
 }
 
 // Limits are the pass/fail limits of a spec. Zero means no limit.

@@ -44,6 +44,9 @@ func (d *Design) Marshal() ([]byte, error) {
 		r.Positions[p.Name] = rp
 	}
 	r.Amplifier = rawAmpOf(&d.Amplifier, d)
+	if d.Reference != nil {
+		r.Reference = &rawDesignRef{Part: d.Reference.Part}
+	}
 	return yaml.Marshal(&r)
 }
 

@@ -1,0 +1,176 @@
+package search
+
+import (
+	"fmt"
+	"math"
+	"slices"
+	"sort"
+	"strings"
+
+	"plumb/catalog"
+	"plumb/catalog/units"
+	"plumb/optimize/assume"
+	"plumb/optimize/cost"
+	"plumb/optimize/spec"
+)
+
+// refOption is one catalog reference the search may pick for a spec whose
+// reference is reference.part: auto.
+type refOption struct {
+	part          string
+	v, tol, drift float64 // V, fraction, fraction per K
+	offer         catalog.Offer
+	assumed       []assume.Assumption
+}
+
+// refOptions lists the references of the catalog of the spec's voltage,
+// their unknown figures at their defaults (assume.Reference), their prices in the build
+// currency (c nil: as they are); a reference priced in a currency without a
+// rate is left out, as every part is.
+func refOptions(refs []catalog.Reference, s *spec.Spec, c *cost.Converter) []refOption {
+	var out []refOption
+	for _, r := range refs {
+		if math.Abs(r.OutputV-s.Reference.V) > spec.RefVoltageMatch*s.Reference.V {
+			continue
+		}
+		o := refOption{part: r.Part, v: r.OutputV, tol: r.Tolerance, drift: r.DriftPPM * 1e-6, offer: r.Offer}
+		if c != nil {
+			conv, ok := c.Offer(r.Part, r.Offer)
+			if !ok {
+				continue
+			}
+			o.offer = conv
+		}
+		tol, ppm := o.tol, 1e6*o.drift
+		o.assumed = assume.Reference(r.Part, &tol, &ppm)
+		o.tol, o.drift = tol, ppm*1e-6
+		out = append(out, o)
+	}
+	return out
+}
+
+// solveReferences is the search of a spec that picks its reference from
+// the catalog (reference.part: auto): an outer choice over the catalog's
+// references of the spec's voltage, each searched with its own figures by
+// solve and its price added to every design (one placement per stage,
+// priced at the build quantity as every part is). The ranked designs of
+// all of them are merged by total cost, so the ranking is the same as one
+// search over the references and the stage's parts together: each
+// reference's own search ranks its cheapest designs, and the cheapest
+// overall are among those. Near misses, the frontier and the diagnosis come
+// from the search of the reference of the cheapest design (or, when
+// nothing passes, of the first reference). Under strict assumptions a
+// reference with an unknown figure is left out.
+func solveReferences(s *spec.Spec, refs []refOption, opt Options, solve func(*spec.Spec) (*Result, error)) (*Result, error) {
+	if s.Assumptions == spec.AssumeStrict {
+		refs = slices.DeleteFunc(refs, func(r refOption) bool { return len(r.assumed) > 0 })
+	}
+	if len(refs) == 0 {
+		return nil, fmt.Errorf("%w: reference.part auto: the catalog has no reference of %s%s; add one, or give the reference's figures instead of part: auto",
+			ErrProblem, units.Format(s.Reference.V, "V"), map[bool]string{true: " with every figure given (assumptions: strict)"}[s.Assumptions == spec.AssumeStrict])
+	}
+	b, err := cost.BuildOf(s.Build)
+	if err != nil {
+		return nil, fmt.Errorf("%w: %w", ErrProblem, err)
+	}
+	top := opt.Top
+	if top <= 0 {
+		top = defaultTop
+	}
+	type ranked struct {
+		d  Design
+		sd *spec.Design
+	}
+	var all []ranked
+	var base *Result
+	var baseErr error
+	best := math.Inf(1)
+	for _, ref := range refs {
+		sr := *s
+		r := *s.Reference
+		r.Part, r.Tolerance, r.Drift = "", ref.tol, ref.drift
+		sr.Reference = &r
+		res, err := solve(&sr)
+		if err != nil && !IsInfeasible(err) {
+			return nil, err
+		}
+		if res == nil {
+			continue
+		}
+		br, perr := cost.Price(b, []cost.Use{{Part: ref.part, Offer: &ref.offer, Placements: 1}})
+		if perr != nil {
+			res.Notes = append(res.Notes, fmt.Sprintf("reference %s left out: %v", ref.part, perr))
+			continue
+		}
+		line := br.Lines[0]
+		part := Part{Position: "REF", Kind: string(catalog.KindReference), Part: ref.part, Quantity: 1, Bought: line.Bought, UnitPrice: line.UnitPrice}
+		withRef := func(d *Design, sd *spec.Design) {
+			d.TotalCost += br.Total
+			d.UnitCost += br.PerUnit
+			d.Parts = append(d.Parts, part)
+			d.Assumptions = append(d.Assumptions, ref.assumed...)
+			if sd != nil {
+				sd.Reference = &spec.DesignReference{Part: ref.part, V: ref.v, Tolerance: ref.tol, Drift: ref.drift, Resolved: true}
+			}
+		}
+		for i := range res.Designs {
+			sd := res.designs[i]
+			withRef(&res.Designs[i], sd)
+			all = append(all, ranked{res.Designs[i], sd})
+		}
+		for i := range res.NearMisses {
+			withRef(&res.NearMisses[i].Design, res.NearMisses[i].sd)
+		}
+		for i := range res.CheapestFailing {
+			withRef(&res.CheapestFailing[i].Design, res.CheapestFailing[i].sd)
+		}
+		for i := range res.Frontier {
+			withRef(&res.Frontier[i], nil)
+		}
+		res.Notes = append(res.Notes, fmt.Sprintf("reference %s: %s %s, %s, priced %s per stage", ref.part,
+			units.Format(ref.v, "V"), units.FormatPercent(ref.tol), units.FormatPPM(1e6*ref.drift), strconvCost(br.PerUnit, line.Currency)))
+		if base == nil || (len(res.Designs) > 0 && res.Designs[0].TotalCost < best) {
+			if len(res.Designs) > 0 {
+				best = res.Designs[0].TotalCost
+			}
+			base, baseErr = res, err
+		}
+	}
+	if base == nil {
+		return nil, fmt.Errorf("%w: reference.part auto: no reference of %s could be priced", ErrProblem, units.Format(s.Reference.V, "V"))
+	}
+	if len(all) == 0 {
+		return base, baseErr
+	}
+	sort.SliceStable(all, func(i, j int) bool { return all[i].d.TotalCost < all[j].d.TotalCost })
+	all = all[:min(top, len(all))]
+	base.Designs, base.designs = base.Designs[:0:0], nil
+	for i, r := range all {
+		r.d.Rank = i + 1
+		// The reasons that compare a design with the others of its own
+		// reference's search are said again against the merged ranking.
+		r.d.Reasons = slices.DeleteFunc(slices.Clone(r.d.Reasons), func(t string) bool {
+			return strings.HasPrefix(t, "costs ") || strings.HasPrefix(t, "cheapest passing design")
+		})
+		if i == 0 {
+			r.d.Reasons = append(r.d.Reasons, fmt.Sprintf("cheapest passing design over the %d reference(s) of %s and the stage's parts", len(refs), units.Format(s.Reference.V, "V")))
+		} else {
+			r.d.Reasons = append(r.d.Reasons, fmt.Sprintf("costs %.4g more per stage than rank 1", r.d.UnitCost-all[0].d.UnitCost))
+		}
+		base.Designs = append(base.Designs, r.d)
+		base.designs = append(base.designs, r.sd)
+	}
+	parts := make([]string, len(refs))
+	for i, r := range refs {
+		parts[i] = r.part
+	}
+	base.Notes = append(base.Notes, fmt.Sprintf("reference picked from the catalog's %d reference(s) of %s (%s): each searched with its own figures and priced with the stage, the designs ranked together",
+		len(refs), units.Format(s.Reference.V, "V"), strings.Join(parts, ", ")))
+	base.spec = s
+	return base, nil
+}
+
+// strconvCost writes a price with its currency.
+func strconvCost(v float64, currency string) string {
+	return strings.TrimSpace(fmt.Sprintf("%.4g %s", v, currency))
+}

@@ -1,0 +1,173 @@
+package search
+
+import (
+	"context"
+	"math"
+	"path/filepath"
+	"testing"
+
+	"plumb/catalog"
+	"plumb/optimize/budget"
+	"plumb/optimize/cost"
+	"plumb/optimize/spec"
+)
+
+// testRefs are invented references: three of 4.096 V from loose and cheap
+// to tight and dear, and one of 2.5 V the 4.096 V spec must not pick.
+func testRefs() []catalog.Reference {
+	offer := func(p float64) catalog.Offer {
+		return catalog.Offer{PriceBreaks: []catalog.PriceBreak{{MinQty: 1, UnitPrice: p, Currency: "USD"}}, Stock: 100000}
+	}
+	ref := func(part string, v, tol, ppm, price float64) catalog.Reference {
+		u := catalog.Unknown()
+		return catalog.Reference{Part: part, Maker: "Testwick Labs", Package: "SOT-23", OutputV: v, Tolerance: tol, DriftPPM: ppm,
+			TempMinC: -40, TempMaxC: 125, NoisePPV: u, NoiseVHz: u, SupplyMinV: u, SupplyMaxV: u, DropoutV: u,
+			LoadSourceA: u, LoadSinkA: u, OutputOhm: u, LongTermPPM: u, IqA: u, Offer: offer(price)}
+	}
+	return []catalog.Reference{
+		ref("TST-REF-LOOSE", 4.096, 0.002, 50, 0.3),
+		ref("TST-REF-MID", 4.096, 0.0005, 10, 1.2),
+		ref("TST-REF-TIGHT", 4.096, 0.0002, 3, 4),
+		ref("TST-REF-2V5", 2.5, 0.0001, 1, 0.01),
+	}
+}
+
+// TestReferencePicked: with reference.part auto the search's rank 1 is the
+// cheapest, over the catalog's references of the spec's voltage, of the
+// reference's price (one per stage at the build quantity, through
+// cost.Price) plus the cheapest stage that passes with that reference's
+// figures; the design carries the part at position REF, and its exact
+// budget (ExplainN) uses that part's tolerance.
+func TestReferencePicked(t *testing.T) {
+	snap := demoSnapshot(t)
+	snap.References = testRefs()
+	s, err := spec.Load(filepath.Join("..", "..", "data", "examples", "adc-channel.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	s.Reference.Part, s.Reference.Tolerance, s.Reference.Drift = spec.RefAuto, 0, 0
+	ctx := context.Background()
+	r, err := Solve(ctx, snap, s, Options{Top: 3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := cost.BuildOf(s.Build)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, wantPart := math.Inf(1), ""
+	for _, ref := range testRefs()[:3] {
+		fixed := *s
+		fr := *s.Reference
+		fr.Part, fr.Tolerance, fr.Drift = "", ref.Tolerance, ref.DriftPPM*1e-6
+		fixed.Reference = &fr
+		one, err := Solve(ctx, snap, &fixed, Options{Top: 1})
+		if err != nil {
+			continue
+		}
+		br, err := cost.Price(b, []cost.Use{{Part: ref.Part, Offer: &ref.Offer, Placements: 1}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if c := one.Designs[0].TotalCost + br.Total; c < want {
+			want, wantPart = c, ref.Part
+		}
+	}
+	d := r.Designs[0]
+	if math.Abs(d.TotalCost-want) > 1e-6*want {
+		t.Errorf("rank 1 costs %.4f, the cheapest reference plus stage %.4f (%s)", d.TotalCost, want, wantPart)
+	}
+	var ref *Part
+	for i := range d.Parts {
+		if d.Parts[i].Position == "REF" {
+			ref = &d.Parts[i]
+		}
+	}
+	if ref == nil || ref.Part != wantPart || ref.Kind != string(catalog.KindReference) {
+		t.Fatalf("rank 1's reference %+v, want %s", ref, wantPart)
+	}
+	for i := 1; i < len(r.Designs); i++ {
+		if r.Designs[i].TotalCost < r.Designs[i-1].TotalCost || r.Designs[i].Rank != i+1 {
+			t.Errorf("design %d (%.4f) out of order after %.4f", r.Designs[i].Rank, r.Designs[i].TotalCost, r.Designs[i-1].TotalCost)
+		}
+	}
+	br, err := r.ExplainN(1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !br.Pass {
+		t.Errorf("rank 1 fails its exact budget: %+v", br.Limits)
+	}
+	tol := map[string]float64{"TST-REF-LOOSE": 0.002, "TST-REF-MID": 0.0005, "TST-REF-TIGHT": 0.0002}[wantPart]
+	for _, c := range br.Channel.Error {
+		if c.Name == "reference (ratiometric: the signal's share) tolerance" {
+			// The signal's 1.95 V share of 4.096 V, read against the
+			// reference at its low end (ratiometric, see budget.Channel).
+			if w := 1.95 / 4.096 * (1/(1-tol) - 1); math.Abs(c.Value-w) > 1e-12 {
+				t.Errorf("reference tolerance term %g FS, want %g FS for %s", c.Value, w, wantPart)
+			}
+		}
+	}
+	if _, err := budget.Evaluate(s, r.designs[0]); err != nil {
+		t.Errorf("the design's own budget against the auto spec: %v", err)
+	}
+}
+
+// TestReferencePickedFromStore: SolveCatalog reads the references from
+// the catalog file and ranks the same designs as Solve on the same parts,
+// and a ranked design's reference resolves through the store's Find for
+// its exact budget.
+func TestReferencePickedFromStore(t *testing.T) {
+	ctx := context.Background()
+	snap := demoSnapshot(t)
+	snap.References = testRefs()
+	st, err := catalog.OpenMemory()
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer st.Close()
+	if _, err := st.Upsert(ctx, snap, catalog.UpsertOptions{Source: "test"}); err != nil {
+		t.Fatal(err)
+	}
+	s, err := spec.Load(filepath.Join("..", "..", "data", "examples", "adc-channel.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	s.Reference.Part, s.Reference.Tolerance, s.Reference.Drift = spec.RefAuto, 0, 0
+	fromSnap, err := Solve(ctx, snap, s, Options{Top: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	fromStore, err := SolveCatalog(ctx, st, s, Options{Top: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range fromSnap.Designs {
+		a, b := fromSnap.Designs[i], fromStore.Designs[i]
+		if math.Abs(a.TotalCost-b.TotalCost) > 1e-9 || partList(&a) != partList(&b) {
+			t.Errorf("design %d: snapshot %s at %.4f, store %s at %.4f", i+1, partList(&a), a.TotalCost, partList(&b), b.TotalCost)
+		}
+	}
+	d, err := fromStore.DesignN(1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	out, err := d.Marshal()
+	if err != nil {
+		t.Fatal(err)
+	}
+	again, err := spec.ParseDesign(out, "again.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := again.Resolve(func(part string) (catalog.Kind, any, error) { return st.Find(ctx, part) }); err != nil {
+		t.Fatal(err)
+	}
+	res, err := budget.Evaluate(s, again)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !res.Pass || math.Abs(res.Metrics.TotalErrorFS-fromStore.Designs[0].Metrics.TotalErrorFS) > 1e-15 {
+		t.Errorf("the design written and read back: pass %v, total error %g FS against %g", res.Pass, res.Metrics.TotalErrorFS, fromStore.Designs[0].Metrics.TotalErrorFS)
+	}
+}
