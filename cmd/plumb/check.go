@@ -74,6 +74,9 @@ func runCheck(ctx context.Context, opts *checkOptions) error {
 	if err != nil {
 		return err
 	}
+	if err := oneStage("check", sp); err != nil {
+		return err
+	}
 	d, err := loadDesignArg(opts.Design)
 	if err != nil {
 		return err

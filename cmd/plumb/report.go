@@ -86,6 +86,9 @@ func runReport(ctx context.Context, opts *reportOptions) error {
 	if err != nil {
 		return err
 	}
+	if err := oneStage("report", sp); err != nil {
+		return err
+	}
 	in := report.Input{Spec: sp, Top: opts.Top, Now: opts.Now, Frontier: opts.Frontier, Rates: opts.Rates}
 	if opts.Design != "" {
 		if in.Design, err = loadDesignArg(opts.Design); err != nil {

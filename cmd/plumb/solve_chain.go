@@ -48,6 +48,15 @@ func runSolveChain(cmd *cobra.Command, opts *solveOptions, st *catalog.Store, sp
 	return nil
 }
 
+// oneStage refuses a spec with stages for a command that handles one
+// stage only.
+func oneStage(command string, sp *spec.Spec) error {
+	if sp.IsChain() {
+		return fmt.Errorf("%s %s: the spec lists stages, which %s does not take yet; use plumb solve for a chain", command, specName(sp), command)
+	}
+	return nil
+}
+
 var chainCSVHeader = []string{"rank", "stage", "family", "position", "part", "total_cost", "unit_cost", "currency"}
 
 // chainCSVRows lists every part of every stage of every ranked chain.

@@ -118,6 +118,40 @@ func solveChain(ctx context.Context, s *spec.Spec, opt Options, solveStage func(
 		top = defaultTop
 	}
 	res := &ChainResult{Method: s.Analysis.Method}
+	lists, err := stageLists(ctx, s, opt, solveStage, res)
+	if err != nil {
+		return res, err
+	}
+	ranked, closest, err := combineChains(ctx, s, lists, top, &res.Search)
+	if err != nil {
+		return nil, err
+	}
+	for i := range ranked {
+		ranked[i].Rank = i + 1
+	}
+	res.Designs = ranked
+	res.Notes = append(res.Notes, "chain cost: the sum of the stages' build costs (an upper bound where stages share a part number, which a real build buys at the joint quantity)")
+	if len(ranked) > 0 {
+		res.Notes = append(res.Notes, ranked[0].budget.Notes...)
+		return res, nil
+	}
+	res.Infeasible = "no pair of the stages' candidate designs meets the chain's limits"
+	if closest != nil {
+		res.Infeasible += fmt.Sprintf("; the closest (stages %s and %s) is bound by %s", closest.Stages[0].Family, closest.Stages[1].Family, closest.Binding)
+		for _, l := range closest.Limits {
+			if !l.Pass {
+				res.Infeasible += fmt.Sprintf(", fails %s (%s against %s)", l.Name, budget.FormatFigure(l.Value, l.Unit), budget.FormatFigure(l.Limit, l.Unit))
+			}
+		}
+	}
+	return res, fmt.Errorf("%w: %s", ErrInfeasible, res.Infeasible)
+}
+
+// stageLists searches each stage of s alone under spec.StageLimits and
+// returns its passing designs with their exact budgets, cheapest first;
+// res gets the counts, notes and cautions, and the reason when a stage
+// alone is infeasible (then the error wraps ErrInfeasible).
+func stageLists(ctx context.Context, s *spec.Spec, opt Options, solveStage func(context.Context, *spec.Spec, Options) (*Result, error), res *ChainResult) ([][]candidate, error) {
 	lists := make([][]candidate, len(s.Stages))
 	for i := range s.Stages {
 		sub := s.StageSpec(i)
@@ -131,7 +165,7 @@ func solveChain(ctx context.Context, s *spec.Spec, opt Options, solveStage func(
 				why = ": " + r.Infeasible.Message
 			}
 			res.Infeasible = fmt.Sprintf("stage %d alone has no design meeting what the chain's limits ask of it%s", i+1, why)
-			return res, fmt.Errorf("%w: %s", ErrInfeasible, res.Infeasible)
+			return nil, fmt.Errorf("%w: %s", ErrInfeasible, res.Infeasible)
 		}
 		if err != nil {
 			return nil, fmt.Errorf("stage %d: %w", i+1, err)
@@ -157,27 +191,33 @@ func solveChain(ctx context.Context, s *spec.Spec, opt Options, solveStage func(
 			}
 		}
 	}
+	return lists, nil
+}
+
+// combineChains ranks the top cheapest passing chains of one candidate
+// from each of the two lists (each sorted by cost), by branch and bound on
+// the summed cost (see solveChain), and returns the closest failing chain
+// it judged (nil: none), counting its work in st.
+func combineChains(ctx context.Context, s *spec.Spec, lists [][]candidate, top int, st *ChainStats) (ranked []ChainDesign, closest *ChainDesign, err error) {
 	a, b := lists[0], lists[1]
-	var ranked []ChainDesign
-	var closest *ChainDesign
 	for _, ca := range a {
 		if len(ranked) == top && len(b) > 0 && ca.d.TotalCost+b[0].d.TotalCost >= ranked[top-1].TotalCost {
-			res.Search.BoundPruned += len(b)
+			st.BoundPruned += len(b)
 			continue
 		}
 		for j, cb := range b {
 			if err := ctx.Err(); err != nil {
-				return nil, err
+				return nil, nil, err
 			}
 			cost := ca.d.TotalCost + cb.d.TotalCost
 			if len(ranked) == top && cost >= ranked[top-1].TotalCost {
-				res.Search.BoundPruned += len(b) - j
+				st.BoundPruned += len(b) - j
 				break
 			}
-			res.Search.Evaluated++
+			st.Evaluated++
 			cd, err := chainDesign(s, []candidate{ca, cb})
 			if err != nil {
-				return nil, err
+				return nil, nil, err
 			}
 			if !cd.budget.Pass {
 				if closest == nil || bindingMargin(cd) > bindingMargin(closest) {
@@ -192,25 +232,7 @@ func solveChain(ctx context.Context, s *spec.Spec, opt Options, solveStage func(
 			}
 		}
 	}
-	for i := range ranked {
-		ranked[i].Rank = i + 1
-	}
-	res.Designs = ranked
-	res.Notes = append(res.Notes, "chain cost: the sum of the stages' build costs (an upper bound where stages share a part number, which a real build buys at the joint quantity)")
-	if len(ranked) > 0 {
-		res.Notes = append(res.Notes, ranked[0].budget.Notes...)
-		return res, nil
-	}
-	res.Infeasible = "no pair of the stages' candidate designs meets the chain's limits"
-	if closest != nil {
-		res.Infeasible += fmt.Sprintf("; the closest (stages %s and %s) is bound by %s", closest.Stages[0].Family, closest.Stages[1].Family, closest.Binding)
-		for _, l := range closest.Limits {
-			if !l.Pass {
-				res.Infeasible += fmt.Sprintf(", fails %s (%s against %s)", l.Name, budget.FormatFigure(l.Value, l.Unit), budget.FormatFigure(l.Limit, l.Unit))
-			}
-		}
-	}
-	return res, fmt.Errorf("%w: %s", ErrInfeasible, res.Infeasible)
+	return ranked, closest, nil
 }
 
 // bindingMargin is the least margin of a chain's limits.
