@@ -69,6 +69,7 @@ func TestMatchedValidate(t *testing.T) {
 		{"duplicate name", func(n *MatchedNetwork) { n.Elements[1].Name = "R1" }, "R1 appears twice"},
 		{"op-amp node off the network", func(n *MatchedNetwork) { n.OpAmpNonInv = "X" }, "network.opamp_noninv: node X"},
 		{"op-amp node empty", func(n *MatchedNetwork) { n.OpAmpOut = "" }, "network.opamp_out: is empty"},
+		{"output unreachable", func(n *MatchedNetwork) { n.Elements[1].B = "SENSE"; n.Pins[3] = "SENSE" }, "network.opamp_out: node OUT joins no element and is no pin"},
 		{"pin off the network", func(n *MatchedNetwork) { n.Pins = append(n.Pins, "SENSE") }, "pin SENSE is not a node"},
 		{"pin twice", func(n *MatchedNetwork) { n.Pins = append(n.Pins, "OUT") }, "pin OUT is listed twice"},
 		{"no pins", func(n *MatchedNetwork) { n.Pins = nil }, "network.pins"},
@@ -90,6 +91,14 @@ func TestMatchedValidate(t *testing.T) {
 	b.Amplifiers[0].Network = b.Amplifiers[1].Network
 	if err := b.Validate(); err == nil || !strings.Contains(err.Error(), "only an amplifier of type") {
 		t.Errorf("an op-amp with a network: %v", err)
+	}
+	// A sense pin: the feedback element ends on SENSE, the output is a pin
+	// of its own, joined to SENSE by the strap.
+	b = sampleBatch()
+	b.Amplifiers[1].Network.Elements[1].B = "SENSE"
+	b.Amplifiers[1].Network.Pins = append(b.Amplifiers[1].Network.Pins, "SENSE")
+	if err := b.Validate(); err != nil {
+		t.Errorf("a sense-pin network: %v", err)
 	}
 	b = sampleBatch()
 	n := b.Amplifiers[1].Network

@@ -105,10 +105,24 @@ func ParseMatchedNetwork(s string) (*MatchedNetwork, error) {
 	return n, nil
 }
 
+// Check returns the first problem of the network's wiring and figures (as
+// Snapshot.Validate finds it for the amplifier holding it), wrapping
+// ErrInvalid, or nil.
+func (n *MatchedNetwork) Check() error {
+	c := checker{kind: KindAmplifier}
+	c.checkMatched(n)
+	if c.err == nil {
+		return nil
+	}
+	return fmt.Errorf("%w: %s", ErrInvalid, c.problem)
+}
+
 // checkMatched checks the network inside a matched amplifier: element
 // values > 0, every element named once and joining two different named
-// nodes, the op-amp's nodes among the element nodes, the pins among the
-// nodes, and the tolerances (each may be unknown) plausible fractions.
+// nodes, the op-amp's inputs among the element nodes and its output an
+// element node or a pin (a part whose feedback element ends on a sense pin
+// reaches the output only through the strap), the pins among those nodes,
+// and the tolerances (each may be unknown) plausible fractions.
 func (c *checker) checkMatched(n *MatchedNetwork) {
 	const field = "network"
 	if len(n.Elements) < 2 {
@@ -138,10 +152,13 @@ func (c *checker) checkMatched(n *MatchedNetwork) {
 		switch {
 		case strings.TrimSpace(f.node) == "":
 			c.fail(field+"."+f.role, "is empty: name the node of the internal op-amp")
-		case !nodes[f.node]:
-			c.fail(field+"."+f.role, "node %s joins no element: the op-amp must connect to the network", f.node)
+		case f.role == "opamp_out" && !nodes[f.node] && !slices.Contains(n.Pins, f.node):
+			c.fail(field+"."+f.role, "node %s joins no element and is no pin: the output must be reachable", f.node)
+		case f.role != "opamp_out" && !nodes[f.node]:
+			c.fail(field+"."+f.role, "node %s joins no element: the op-amp's inputs must connect to the network", f.node)
 		}
 	}
+	nodes[n.OpAmpOut] = true
 	if c.err == nil && (n.OpAmpInv == n.OpAmpNonInv || n.OpAmpInv == n.OpAmpOut || n.OpAmpNonInv == n.OpAmpOut) {
 		c.fail(field, "the op-amp's inputs and output must be three different nodes (%s, %s, %s)", n.OpAmpInv, n.OpAmpNonInv, n.OpAmpOut)
 	}

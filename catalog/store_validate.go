@@ -26,11 +26,14 @@ type checker struct {
 	row  int
 	part string
 	err  error
+	// problem is the first problem without the part: "field: what".
+	problem string
 }
 
 func (c *checker) fail(field, format string, a ...any) {
 	if c.err == nil {
 		c.err = partError(c.kind, c.row, c.part, field, format, a...)
+		c.problem = field + ": " + fmt.Sprintf(format, a...)
 	}
 }
 

@@ -3,6 +3,7 @@ package data
 import (
 	"context"
 	"io/fs"
+	"math"
 	"slices"
 	"strings"
 	"testing"
@@ -26,9 +27,9 @@ func demo(t *testing.T) (*catalog.Store, *catalog.Snapshot) {
 
 func TestDemoLoads(t *testing.T) {
 	st, snap := demo(t)
-	want := map[string]int{"series": 7, "resistors": 9, "networks": 3, "amplifiers": 11}
+	want := map[string]int{"series": 7, "resistors": 9, "networks": 3, "amplifiers": 12, "references": 7}
 	got := map[string]int{"series": len(snap.ResistorSeries), "resistors": len(snap.Resistors),
-		"networks": len(snap.Networks), "amplifiers": len(snap.Amplifiers)}
+		"networks": len(snap.Networks), "amplifiers": len(snap.Amplifiers), "references": len(snap.References)}
 	for k, n := range want {
 		if got[k] != n {
 			t.Errorf("%d %s, want %d", got[k], k, n)
@@ -50,7 +51,7 @@ func TestDemoLoads(t *testing.T) {
 	if want := 3*(5*96+1) + (5*192 + 1) + (3*192 + 135) + (3*96 + 30) + (3*24 + 1); stats.SeriesValues != want {
 		t.Errorf("series cover %d values, want %d", stats.SeriesValues, want)
 	}
-	if stats.PriceBreaks != 5*(7+9+3+11) {
+	if stats.PriceBreaks != 5*(7+9+3+12+7) {
 		t.Errorf("%d price breaks, want five per part", stats.PriceBreaks)
 	}
 }
@@ -198,5 +199,81 @@ func BenchmarkDemo(b *testing.B) {
 			b.Fatal(err)
 		}
 		st.Close()
+	}
+}
+
+// TestDemoMatchedNetworks checks the demo's matched networks against the
+// gains their parts list: a difference amplifier's gain is Rf/Rin, with
+// R4/R3 = Rf/Rin on the other side (any op-amp textbook's difference
+// amplifier), and elements strapped in parallel combine as R1·R2/(R1+R2).
+func TestDemoMatchedNetworks(t *testing.T) {
+	_, snap := demo(t)
+	ohms := map[string]map[string]float64{}
+	for _, a := range snap.Amplifiers {
+		if a.Network == nil {
+			continue
+		}
+		ohms[a.Part] = map[string]float64{}
+		for _, e := range a.Network.Elements {
+			ohms[a.Part][e.Name] = e.Ohms
+		}
+	}
+	par := func(a, b float64) float64 { return a * b / (a + b) }
+	tests := []struct {
+		part      string
+		gain      float64
+		rf, rin   float64
+		r4, r3    float64
+		strapping string
+	}{
+		{"KA-DM1", 1, ohms["KA-DM1"]["R2"], ohms["KA-DM1"]["R1"], ohms["KA-DM1"]["R4"], ohms["KA-DM1"]["R3"], "SENSE to OUT"},
+		{"KA-HV5", 0.2, ohms["KA-HV5"]["R2"], ohms["KA-HV5"]["R1"], ohms["KA-HV5"]["R4"], ohms["KA-HV5"]["R3"], "as pinned"},
+		{"KA-SX2", 1, ohms["KA-SX2"]["R3"], ohms["KA-SX2"]["R1"], ohms["KA-SX2"]["R6"], ohms["KA-SX2"]["R4"], "INA, FB to OUT"},
+		{"KA-SX2", 2, ohms["KA-SX2"]["R3"], par(ohms["KA-SX2"]["R1"], ohms["KA-SX2"]["R2"]),
+			ohms["KA-SX2"]["R6"], par(ohms["KA-SX2"]["R4"], ohms["KA-SX2"]["R5"]), "INA with INB, FB to OUT"},
+		{"KA-SX2", 0.5, par(ohms["KA-SX2"]["R3"], ohms["KA-SX2"]["R2"]), ohms["KA-SX2"]["R1"],
+			par(ohms["KA-SX2"]["R6"], ohms["KA-SX2"]["R5"]), ohms["KA-SX2"]["R4"], "INA, INB and FB to OUT, INB+ to REF"},
+	}
+	for _, tc := range tests {
+		if !(tc.rin > 0) || math.Abs(tc.rf/tc.rin-tc.gain) > 1e-12 || math.Abs(tc.r4/tc.r3-tc.gain) > 1e-12 {
+			t.Errorf("%s strapped %s: Rf/Rin = %g, R4/R3 = %g, want the listed gain %g", tc.part, tc.strapping, tc.rf/tc.rin, tc.r4/tc.r3, tc.gain)
+		}
+		found := false
+		for _, a := range snap.Amplifiers {
+			if a.Part == tc.part && slices.Contains(a.Gains, tc.gain) {
+				found = true
+			}
+		}
+		if !found {
+			t.Errorf("%s does not list gain %g", tc.part, tc.gain)
+		}
+	}
+}
+
+// TestDemoReferences checks the demo's references are plausible: each
+// voltage offered in a precise and a cheap grade, the precise grade dearer
+// at every break, and every grade within what the trade sells (initial
+// accuracy 0.02 % to 0.5 %, drift 2 to 50 ppm/K; common practice).
+func TestDemoReferences(t *testing.T) {
+	_, snap := demo(t)
+	byV := map[float64][]catalog.Reference{}
+	for _, r := range snap.References {
+		if r.Tolerance < 0.0002 || r.Tolerance > 0.005 || r.DriftPPM < 2 || r.DriftPPM > 50 {
+			t.Errorf("%s: %g %% and %g ppm/K outside the demo's grades", r.Part, 100*r.Tolerance, r.DriftPPM)
+		}
+		byV[r.OutputV] = append(byV[r.OutputV], r)
+	}
+	for _, v := range []float64{2.5, 4.096, 5} {
+		rs := byV[v]
+		if len(rs) < 2 {
+			t.Errorf("%g V: %d grades, want a precise and a cheap one", v, len(rs))
+			continue
+		}
+		slices.SortFunc(rs, func(a, b catalog.Reference) int { return int(math.Copysign(1, a.Tolerance-b.Tolerance)) })
+		for i := range rs[0].PriceBreaks {
+			if rs[0].PriceBreaks[i].UnitPrice <= rs[len(rs)-1].PriceBreaks[i].UnitPrice {
+				t.Errorf("%g V: the precise %s is not dearer than %s at %d pieces", v, rs[0].Part, rs[len(rs)-1].Part, rs[0].PriceBreaks[i].MinQty)
+			}
+		}
 	}
 }

@@ -28,6 +28,11 @@ var exportColumns = map[string]Field{
 	"noise_v_per_rthz": FieldNoiseV, "noise_a_per_rthz": FieldNoiseI, "iq_a": FieldIq,
 	"typical_only": FieldTypicalOnly, "gains": FieldGains, "gain_error_max": FieldGainError,
 	"gain_drift_ppm": FieldGainDrift, "in_neg_v": FieldInNeg, "in_pos_v": FieldInPos, "internal_ohm": FieldInternalR,
+	"network": FieldNetwork, "network_tolerance": FieldNetworkTol, "network_ratio_tolerance": FieldNetworkRatio,
+	"network_ratio_drift_ppm": FieldNetworkTracking,
+	"topology":                FieldTopology, "output_v": FieldOutputV, "drift_ppm": FieldDrift, "temp_min_c": FieldTempMin,
+	"temp_max_c": FieldTempMax, "noise_pp_v": FieldNoisePP, "dropout_v": FieldDropout, "load_source_a": FieldLoadSource,
+	"load_sink_a": FieldLoadSink, "output_ohm": FieldOutputR, "long_term_ppm": FieldLongTerm,
 }
 
 // exportKinds tells the kind of an export by a column only that kind has.
@@ -38,6 +43,7 @@ var exportKinds = []struct {
 	{"e_series", catalog.KindSeries},
 	{"values_ohm", catalog.KindNetwork},
 	{"vos_v", catalog.KindAmplifier},
+	{"output_v", catalog.KindReference},
 	{"value_ohm", catalog.KindResistor},
 }
 

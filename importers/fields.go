@@ -85,6 +85,32 @@ const (
 	FieldInternalR   Field = "internal_resistance"
 	FieldTypicalOnly Field = "typical_only" // catalog names of figures given as typical only
 	FieldAmpType     Field = "amp_type"     // opamp or matched
+	// The matched resistors inside such an amplifier, in the text form of
+	// catalog.ParseMatchedNetwork, and their tolerances.
+	FieldNetwork         Field = "network"
+	FieldNetworkTol      Field = "network_tolerance"
+	FieldNetworkRatio    Field = "network_ratio_tolerance"
+	FieldNetworkTracking Field = "network_tracking"
+)
+
+// Voltage reference fields. A reference's initial accuracy is
+// FieldTolerance, its supply range FieldSupplyMin and FieldSupplyMax (or
+// both in one cell), its noise density FieldNoiseV and its quiescent
+// current FieldIq.
+const (
+	FieldOutputV     Field = "output_voltage"
+	FieldDrift       Field = "drift"        // ppm/K, box method
+	FieldTempRange   Field = "temp_range"   // the range the drift is rated over, "-40 to 125 °C"
+	FieldTempMin     Field = "temp_min"     // °C
+	FieldTempMax     Field = "temp_max"     // °C
+	FieldNoisePP     Field = "noise_pp"     // 0.1 Hz to 10 Hz, peak to peak
+	FieldSupplyRange Field = "supply_range" // "2.7 V to 18 V"
+	FieldDropout     Field = "dropout"
+	FieldLoadSource  Field = "load_source"
+	FieldLoadSink    Field = "load_sink"
+	FieldOutputR     Field = "output_resistance" // ohm, or load regulation (ppm/mA, µV/mA)
+	FieldLongTerm    Field = "long_term"         // ppm over 1000 h
+	FieldTopology    Field = "topology"          // series or shunt
 )
 
 // fieldInfo holds the trade words for a field and the kinds it belongs to.
@@ -100,7 +126,8 @@ var (
 	rn   = []catalog.Kind{catalog.KindResistor, catalog.KindNetwork}
 	net  = []catalog.Kind{catalog.KindNetwork}
 	amp  = []catalog.Kind{catalog.KindAmplifier}
-	part = []catalog.Kind{catalog.KindResistor, catalog.KindNetwork, catalog.KindAmplifier}
+	ref  = []catalog.Kind{catalog.KindReference}
+	part = []catalog.Kind{catalog.KindResistor, catalog.KindNetwork, catalog.KindAmplifier, catalog.KindReference}
 )
 
 // fieldTable lists the usual header words of distributor exports and
@@ -197,6 +224,45 @@ var fieldTable = []fieldInfo{
 	{FieldLoadLife, rn, []string{"load life", "load life stability", "stability", "long term stability"}},
 	{FieldIq, amp, []string{"quiescent current", "iq", "supply current", "supply current per channel", "current supply",
 		"quiescent current per channel", "iq per channel"}},
+	{FieldNetwork, amp, []string{"network", "internal network", "resistor network", "internal resistors", "netlist",
+		"elements", "element list", "matched network"}},
+	{FieldNetworkTol, amp, []string{"network tolerance", "element tolerance", "absolute tolerance", "resistor tolerance"}},
+	{FieldNetworkRatio, amp, []string{"network ratio tolerance", "ratio tolerance", "ratio matching", "matching",
+		"resistor matching", "ratio match"}},
+	{FieldNetworkTracking, amp, []string{"network ratio drift ppm", "ratio tracking", "tcr tracking", "ratio drift",
+		"tracking", "ratio tempco"}},
+
+	{FieldOutputV, ref, []string{"output voltage", "vout", "reference voltage", "vref", "voltage output",
+		"nominal output voltage", "output voltage nominal", "vo", "output v", "voltage reference"}},
+	{FieldTolerance, ref, []string{"initial accuracy", "accuracy", "initial tolerance", "tolerance", "initial error",
+		"output voltage tolerance", "output voltage accuracy", "voltage tolerance", "tol"}},
+	{FieldDrift, ref, []string{"temperature coefficient", "tempco", "tc", "drift", "temperature drift",
+		"output voltage drift", "vout tempco", "output voltage temperature coefficient", "tcvout", "temp coefficient",
+		"drift ppm"}},
+	{FieldTempRange, ref, []string{"operating temperature", "temperature range", "operating temperature range",
+		"temp range", "specified temperature range", "rated temperature range"}},
+	{FieldTempMin, ref, []string{"temp min c", "temperature min", "min temperature", "operating temperature min"}},
+	{FieldTempMax, ref, []string{"temp max c", "temperature max", "max temperature", "operating temperature max"}},
+	{FieldNoisePP, ref, []string{"noise pp v", "noise 0 1 10 hz", "noise 0 1 hz to 10 hz", "low frequency noise",
+		"noise peak to peak", "noise p p", "output noise 0 1 10 hz", "noise 0 1hz 10hz", "noise 0 1 10hz", "output noise 0 1 10hz",
+		"1 f noise", "noise lf", "noise 0 1 to 10 hz"}},
+	{FieldNoiseV, ref, []string{"noise density", "output noise density", "wideband noise", "noise v per rthz",
+		"voltage noise density", "en"}},
+	{FieldSupplyMin, ref, []string{"input voltage min", "vin min", "supply voltage min", "min input voltage",
+		"minimum input voltage", "supply min v"}},
+	{FieldSupplyMax, ref, []string{"input voltage max", "vin max", "supply voltage max", "max input voltage",
+		"maximum input voltage", "supply max v"}},
+	{FieldSupplyRange, ref, []string{"input voltage range", "supply voltage range", "vin range", "input voltage",
+		"supply voltage", "voltage input", "vin", "supply range"}},
+	{FieldDropout, ref, []string{"dropout voltage", "dropout", "vdo", "dropout v"}},
+	{FieldLoadSource, ref, []string{"output current source", "source current", "max output current", "output current",
+		"load current", "iout", "load current source", "load source a"}},
+	{FieldLoadSink, ref, []string{"output current sink", "sink current", "load current sink", "load sink a",
+		"operating current max", "cathode current max"}},
+	{FieldOutputR, ref, []string{"output resistance", "output impedance", "load regulation", "zout", "rout", "output ohm"}},
+	{FieldLongTerm, ref, []string{"long term stability", "long term drift", "long term", "long term ppm", "ltd"}},
+	{FieldIq, ref, []string{"quiescent current", "iq", "supply current", "ground current", "iq a"}},
+	{FieldTopology, ref, []string{"topology", "reference type", "type", "configuration"}},
 }
 
 // kindFields lists the fields that tell one kind from another.
@@ -204,6 +270,7 @@ var kindFields = map[catalog.Kind][]Field{
 	catalog.KindResistor:  {FieldResistance, FieldPower, FieldTolerance, FieldTCR},
 	catalog.KindNetwork:   {FieldElements, FieldRatioTolerance, FieldTCRTracking},
 	catalog.KindAmplifier: {FieldVos, FieldVosDrift, FieldIb, FieldGBW, FieldSlew, FieldCMRR, FieldAol, FieldSupplyMax, FieldIq, FieldNoiseV},
+	catalog.KindReference: {FieldOutputV, FieldNoisePP, FieldDropout, FieldTempRange},
 }
 
 func (fi fieldInfo) has(k catalog.Kind) bool {

@@ -35,7 +35,8 @@ func Import(ctx context.Context, st Store, files []string, opt Options) (*Report
 			}
 			us = s
 		}
-		res, err := us.Add(ctx, &catalog.Batch{ResistorSeries: c.Series, Resistors: c.Resistors, Networks: c.Networks, Amplifiers: c.Amplifiers})
+		res, err := us.Add(ctx, &catalog.Batch{ResistorSeries: c.Series, Resistors: c.Resistors, Networks: c.Networks, Amplifiers: c.Amplifiers,
+			References: c.References})
 		if err != nil {
 			return fmt.Errorf("importers: writing %d parts to the catalog (nothing was written): %w", written+c.Len()+len(c.Series), err)
 		}

@@ -23,7 +23,7 @@ import (
 // Mapping tells which column holds which catalog field. It is guessed from
 // the header (GuessMapping) or loaded from a YAML file of our own shape:
 //
-//	kind: resistor            # resistor | network | amplifier; blank = guess
+//	kind: resistor            # resistor | network | amplifier | reference; blank = guess
 //	columns:                  # field: header text (case and punctuation ignored)
 //	  part: Order Code
 //	  resistance: Value
@@ -494,7 +494,11 @@ func guessKind(c []candidate) catalog.Kind {
 		return s
 	}
 	ampScore, netScore, resScore := sum(catalog.KindAmplifier), sum(catalog.KindNetwork), sum(catalog.KindResistor)
+	refScore := sum(catalog.KindReference)
 	switch {
+	case seen[FieldOutputV] >= ConfPhrase-0.2 && seen[FieldResistance] == 0 && refScore >= ampScore:
+		// An output voltage and no resistance: a voltage reference.
+		return catalog.KindReference
 	case ampScore >= 2 && ampScore > resScore:
 		return catalog.KindAmplifier
 	case netScore >= ConfPhrase && seen[FieldResistance] > 0:
@@ -593,9 +597,9 @@ func (m *Mapping) forFile(header []string) *Mapping {
 // validate checks a loaded mapping.
 func (m *Mapping) validate(src string) error {
 	switch m.Kind {
-	case "", catalog.KindResistor, catalog.KindNetwork, catalog.KindAmplifier:
+	case "", catalog.KindResistor, catalog.KindNetwork, catalog.KindAmplifier, catalog.KindReference:
 	default:
-		return fmt.Errorf("%s: %w: kind %q (use resistor, network or amplifier)", src, ErrMapping, m.Kind)
+		return fmt.Errorf("%s: %w: kind %q (use resistor, network, amplifier or reference)", src, ErrMapping, m.Kind)
 	}
 	for f := range m.Columns {
 		if !knownField(f) {

@@ -62,6 +62,7 @@ type Batch struct {
 	Resistors  []catalog.Resistor
 	Networks   []catalog.Network
 	Amplifiers []catalog.Amplifier
+	References []catalog.Reference
 
 	origin map[string]origin // kind|part -> where it was read
 }
@@ -72,10 +73,13 @@ type origin struct {
 }
 
 // Len is the number of parts in the batch (series not counted).
-func (b *Batch) Len() int { return len(b.Resistors) + len(b.Networks) + len(b.Amplifiers) }
+func (b *Batch) Len() int {
+	return len(b.Resistors) + len(b.Networks) + len(b.Amplifiers) + len(b.References)
+}
 
 func (b *Batch) reset() {
 	b.Series, b.Resistors, b.Networks, b.Amplifiers = b.Series[:0], b.Resistors[:0], b.Networks[:0], b.Amplifiers[:0]
+	b.References = b.References[:0]
 }
 
 // ChunkRows is how many parts an import reads before handing them to the
@@ -133,6 +137,7 @@ func Read(ctx context.Context, files []string, opt Options) (*Batch, *Report, er
 		b.Resistors = append(b.Resistors, c.Resistors...)
 		b.Networks = append(b.Networks, c.Networks...)
 		b.Amplifiers = append(b.Amplifiers, c.Amplifiers...)
+		b.References = append(b.References, c.References...)
 		return nil
 	})
 	if err != nil {
@@ -153,9 +158,9 @@ func newScan(ctx context.Context, files []string, opt *Options, emit func(*Batch
 		return nil, errors.New("importers: no file to import")
 	}
 	switch opt.Kind {
-	case "", "auto", catalog.KindResistor, catalog.KindNetwork, catalog.KindAmplifier:
+	case "", "auto", catalog.KindResistor, catalog.KindNetwork, catalog.KindAmplifier, catalog.KindReference:
 	default:
-		return nil, fmt.Errorf("%w: kind %q: use resistor, network, amplifier or auto", ErrUnknownKind, opt.Kind)
+		return nil, fmt.Errorf("%w: kind %q: use resistor, network, amplifier, reference or auto", ErrUnknownKind, opt.Kind)
 	}
 	if opt.Now.IsZero() {
 		opt.Now = time.Now().UTC()
@@ -245,7 +250,13 @@ func (sc *scan) stream(name string, in io.Reader) error {
 		return &ParseError{File: name, Line: 1, Err: fmt.Errorf("%w: no column reads as the part number (header: %s); name it in a mapping under columns: part",
 			ErrMissingColumn, headerList(rd.Header()))}
 	}
-	if kind != catalog.KindAmplifier && kind != catalog.KindSeries {
+	if kind == catalog.KindReference {
+		if _, ok := cols[FieldOutputV]; !ok && m.Fixed[FieldOutputV] == "" {
+			return &ParseError{File: name, Line: 1, Err: fmt.Errorf("%w: no column reads as the output voltage (header: %s); name it in a mapping under columns: output_voltage",
+				ErrMissingColumn, headerList(rd.Header()))}
+		}
+	}
+	if kind != catalog.KindAmplifier && kind != catalog.KindSeries && kind != catalog.KindReference {
 		if _, ok := cols[FieldResistance]; !ok && m.Fixed[FieldResistance] == "" {
 			if _, d := cols[FieldDescription]; !d || kind == catalog.KindNetwork {
 				return &ParseError{File: name, Line: 1, Err: fmt.Errorf("%w: no column reads as the resistance (header: %s); name it in a mapping under columns: resistance",
@@ -380,6 +391,8 @@ func (sc *scan) stream(name string, in io.Reader) error {
 			res = append(res, p)
 		case catalog.KindNetwork:
 			sc.chunk.Networks = append(sc.chunk.Networks, *p.network)
+		case catalog.KindReference:
+			sc.chunk.References = append(sc.chunk.References, *p.reference)
 		default:
 			sc.chunk.Amplifiers = append(sc.chunk.Amplifiers, *p.amplifier)
 		}
@@ -428,6 +441,8 @@ func previewOf(p parsed) any {
 		return *p.resistor
 	case p.network != nil:
 		return *p.network
+	case p.reference != nil:
+		return *p.reference
 	}
 	return *p.amplifier
 }

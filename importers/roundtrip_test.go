@@ -25,6 +25,9 @@ func withoutProvenance(s *catalog.Snapshot) {
 	for i := range s.Amplifiers {
 		s.Amplifiers[i].ID, s.Amplifiers[i].Provenance = 0, catalog.Provenance{}
 	}
+	for i := range s.References {
+		s.References[i].ID, s.References[i].Provenance = 0, catalog.Provenance{}
+	}
 }
 
 // TestExportReimports writes each kind of the demo catalog with
@@ -47,6 +50,7 @@ func TestExportReimports(t *testing.T) {
 		{catalog.KindResistor, func(s *catalog.Snapshot) any { return s.Resistors }, func(s *catalog.Snapshot) int { return len(s.Resistors) }},
 		{catalog.KindNetwork, func(s *catalog.Snapshot) any { return s.Networks }, func(s *catalog.Snapshot) int { return len(s.Networks) }},
 		{catalog.KindAmplifier, func(s *catalog.Snapshot) any { return s.Amplifiers }, func(s *catalog.Snapshot) int { return len(s.Amplifiers) }},
+		{catalog.KindReference, func(s *catalog.Snapshot) any { return s.References }, func(s *catalog.Snapshot) int { return len(s.References) }},
 	}
 	for _, tc := range tests {
 		t.Run(string(tc.kind), func(t *testing.T) {
@@ -85,7 +89,7 @@ func TestExportReimports(t *testing.T) {
 			if g, w := tc.parts(got), tc.parts(want); !catalog.SameFigures(g, w) {
 				t.Errorf("re-imported %s differ:\n got %+v\nwant %+v", tc.kind, g, w)
 			}
-			if n := len(got.ResistorSeries) + len(got.Resistors) + len(got.Networks) + len(got.Amplifiers) - tc.count(got); n != 0 {
+			if n := got.Len() - tc.count(got); n != 0 {
 				t.Errorf("%d parts of other kinds in the re-import", n)
 			}
 		})

@@ -72,6 +72,7 @@ type parsed struct {
 	resistor  *catalog.Resistor
 	network   *catalog.Network
 	amplifier *catalog.Amplifier
+	reference *catalog.Reference
 }
 
 func (p parsed) key() string {
@@ -82,6 +83,8 @@ func (p parsed) key() string {
 		return p.resistor.Part
 	case p.network != nil:
 		return p.network.Part
+	case p.reference != nil:
+		return p.reference.Part
 	}
 	return p.amplifier.Part
 }
@@ -255,6 +258,7 @@ func (r *rowReader) read(rec []string, line int) (parsed, error) {
 	p := parsed{line: line}
 	snap := &r.check
 	snap.ResistorSeries, snap.Resistors, snap.Networks, snap.Amplifiers = snap.ResistorSeries[:0], snap.Resistors[:0], snap.Networks[:0], snap.Amplifiers[:0]
+	snap.References = snap.References[:0]
 	switch r.kind {
 	case catalog.KindSeries:
 		p.series, err = r.series(part, offer)
@@ -270,6 +274,11 @@ func (r *rowReader) read(rec []string, line int) (parsed, error) {
 		p.network, err = r.network(part, offer)
 		if err == nil {
 			snap.Networks = append(snap.Networks, *p.network)
+		}
+	case catalog.KindReference:
+		p.reference, err = r.reference(part, offer)
+		if err == nil {
+			snap.References = append(snap.References, *p.reference)
 		}
 	default:
 		p.amplifier, err = r.amplifier(part, offer)
@@ -906,6 +915,10 @@ func (r *rowReader) amplifier(part string, o catalog.Offer) (*catalog.Amplifier,
 		a.Channels = int(v)
 	}
 	if err := r.matched(a); err != nil {
+		return nil, err
+	}
+	var err error
+	if a.Network, err = r.matchedNetwork(); err != nil {
 		return nil, err
 	}
 	if err := r.ranges(a); err != nil {

@@ -57,6 +57,9 @@ func (sc *scan) snapshot(name string, in io.Reader) error {
 	if err := addParts(sc, snap.Amplifiers, &sc.chunk.Amplifiers, catalog.KindAmplifier, prov, seen); err != nil {
 		return err
 	}
+	if err := addParts(sc, snap.References, &sc.chunk.References, catalog.KindReference, prov, seen); err != nil {
+		return err
+	}
 	if snap.Len() == 0 {
 		return &ParseError{File: name, Err: fmt.Errorf("%w: the snapshot holds no parts", ErrNoRows)}
 	}
