@@ -101,8 +101,11 @@ type candidate struct {
 // pair is skipped once its summed cost reaches the costliest of the Top
 // chains ranked so far (no costlier pair can enter). Every pair not so
 // skipped is judged by the chain's budget (budget.Cascade). The result is
-// exact over the candidate lists; a list that holds MaxTop designs may
-// have been cut, and the notes say so. The cost of a chain is the sum of
+// exact over the candidate lists, and the lists are not every design: a
+// stage's search ranks design classes (a family build, grades, an
+// amplifier) by their cheapest passing values, so a costlier value choice
+// of a class that would suit the chain better is not a candidate, and a
+// list that holds MaxTop designs may have been cut (the notes say so). The cost of a chain is the sum of
 // its stages' build costs: where two stages share a part number, the
 // real build buys it at the joint quantity (a price break, one line item
 // less), so the sum is an upper bound on the chain's cost.

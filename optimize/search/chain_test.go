@@ -4,6 +4,7 @@ import (
 	"context"
 	"math"
 	"sort"
+	"strings"
 	"testing"
 
 	"plumb/optimize/budget"
@@ -85,5 +86,55 @@ func TestChainBranchAndBoundExhaustive(t *testing.T) {
 	}
 	if l, ok := findLimit(d.Limits, budget.LimitTotalError); !ok || !l.Pass {
 		t.Errorf("ranked chain's total error limit: %+v", l)
+	}
+}
+
+// TestChainInfeasible: a chain no pair of candidates meets, and a chain
+// whose first stage alone cannot meet its share, are infeasible with the
+// reason, not an empty success.
+func TestChainInfeasible(t *testing.T) {
+	snap := demoSnapshot(t)
+	for _, c := range []struct {
+		name string
+		set  func(*spec.Spec)
+		want string
+	}{
+		{"no pair", func(s *spec.Spec) { s.Limits.TotalError = 1e-5 }, "no pair of the stages' candidate designs"},
+		{"stage alone", func(s *spec.Spec) { s.Limits.GainError = 1e-7 }, "stage 1 alone has no design"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			s, err := spec.Load("../../data/examples/two-stage.yaml")
+			if err != nil {
+				t.Fatal(err)
+			}
+			c.set(s)
+			res, err := SolveChain(context.Background(), snap, s, Options{})
+			if !IsInfeasible(err) || res == nil || len(res.Designs) != 0 || !strings.Contains(res.Infeasible, c.want) {
+				t.Fatalf("err %v, result %+v; want infeasible: %s", err, res, c.want)
+			}
+		})
+	}
+}
+
+// BenchmarkChainCombine times the branch and bound over the two stages'
+// candidate lists of the two-stage example (the stages' own searches are
+// the other benchmarks' business).
+func BenchmarkChainCombine(b *testing.B) {
+	s, err := spec.Load("../../data/examples/two-stage.yaml")
+	if err != nil {
+		b.Fatal(err)
+	}
+	snap := demoSnapshot(b)
+	ctx := context.Background()
+	var res ChainResult
+	lists, err := stageLists(ctx, s, Options{}, func(ctx context.Context, sub *spec.Spec, o Options) (*Result, error) { return Solve(ctx, snap, sub, o) }, &res)
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, _, err := combineChains(ctx, s, lists, defaultTop, &ChainStats{}); err != nil {
+			b.Fatal(err)
+		}
 	}
 }
