@@ -14,6 +14,9 @@ func TestStagesErrors(t *testing.T) {
 		{"unknown family", "  - family: inamp\n    gain: 10\n  - family: nosuch\n    gain: 2\n", "x.yaml:14:5: stages[1].family: \"nosuch\" is not a family"},
 		{"missing gain", "  - family: inamp\n    gain: 10\n  - family: difference\n", "stages[1].gain: missing"},
 		{"zero gain", "  - family: inamp\n    gain: 0\n  - family: difference\n    gain: 1\n", "x.yaml:13:5: stages[0].gain: is zero"},
+		{"monte carlo", "  - family: inamp\n    gain: 10\n  - family: difference\n    gain: 1\nanalysis:\n  method: monte-carlo\n", "analysis.method: a chain is budgeted by worst-case or rss"},
+		{"level shift as a stage", "  - family: inamp\n    gain: 10\n  - family: level-shift\n    gain: 1\n", "stages[1].family: family level-shift cannot be a stage"},
+		{"top-level gain", "  - family: inamp\n    gain: 10\n  - family: difference\n    gain: 1\ngain: 10\n", "gain: given together with stages"},
 		{"bad supply", "  - family: inamp\n    gain: 10\n    supply: 5..9V\n  - family: difference\n    gain: 1\n", "stages[0].supply: \"5..9V\" must span ground"},
 	} {
 		t.Run(c.name, func(t *testing.T) {
