@@ -27,7 +27,7 @@ func newCatalogExportCmd(f *Factory, runF func(*catalogExportOptions) error) *co
 		Short: "Write the catalog as JSON (all of it) or CSV (one kind)",
 		Long: `Write the catalog to stdout or a file. JSON holds the whole catalog in the
 snapshot format that the demo data uses; CSV holds one kind of part (--kind
-series, resistor, network or amplifier), values in SI units and the price
+series, resistor, network, amplifier or reference), values in SI units and the price
 breaks packed in one column. An existing file is not replaced without
 --force, and a failed export leaves no partial file.`,
 		Example: `  plumb catalog export --format json -o catalog.json

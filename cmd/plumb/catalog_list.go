@@ -12,7 +12,8 @@ import (
 )
 
 // catalogKinds are the --kind values of `plumb catalog list`.
-var catalogKinds = []string{string(catalog.KindResistor), string(catalog.KindSeries), string(catalog.KindNetwork), string(catalog.KindAmplifier)}
+var catalogKinds = []string{string(catalog.KindResistor), string(catalog.KindSeries), string(catalog.KindNetwork), string(catalog.KindAmplifier),
+	string(catalog.KindReference)}
 
 type catalogListOptions struct {
 	IO      *IOStreams
@@ -35,16 +36,18 @@ func newCatalogListCmd(f *Factory, runF func(*catalogListOptions) error) *cobra.
 		Use:   "list",
 		Short: "List catalog parts, optionally filtered",
 		Long: `List the parts of the catalog: resistor series (one line per product line),
-single resistors, networks and amplifiers, with value, tolerance, tempco,
-the price at the smallest price break and the stock; maker, package and
-other figures are in DETAIL.
+single resistors, networks, amplifiers and voltage references, with value,
+tolerance, tempco (a reference's initial accuracy and drift), the price at
+the smallest price break and the stock; maker, package and other figures
+are in DETAIL.
 
 Resistive filters (--min, --max, --max-tolerance, --max-tcr, --technology)
-leave amplifiers out. --max-tolerance takes a percentage ("0.1" or "0.1%");
+leave amplifiers and references out. --max-tolerance takes a percentage ("0.1" or "0.1%");
 --max-tcr takes ppm/K ("25" or "25ppm/K").`,
 		Example: `  plumb catalog list
   plumb catalog list --kind series --max-tolerance 0.1 --max-tcr 25
   plumb catalog list --kind amplifier --format json
+  plumb catalog list --kind reference
   plumb catalog list --min 1k --max 10k --package 0603`,
 		Args: noArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {

@@ -25,7 +25,8 @@ func newCatalogShowCmd(f *Factory, runF func(*catalogShowOptions) error) *cobra.
 		Use:   "show PART",
 		Short: "Show every figure of one part",
 		Long: `Show every figure of one catalog part: a resistor (a single part, or one value
-of a series by its full part number), a series, a network or an amplifier,
+of a series by its full part number), a series, a network, an amplifier
+(with the matched resistors inside, when the catalog has them) or a voltage reference,
 with its price breaks, stock and where it came from.`,
 		Example: `  plumb catalog show IM-JH36
   plumb catalog show AR-TP1-54K9 --format json
@@ -161,6 +162,9 @@ func partFields(kind catalog.Kind, v any) []field {
 	case *catalog.Amplifier:
 		amplifierFields(add, p)
 		offer(p.Offer, p.Provenance)
+	case *catalog.Reference:
+		referenceFields(add, p)
+		offer(p.Offer, p.Provenance)
 	default:
 		add("figures", fmt.Sprintf("%+v", v))
 	}
@@ -225,7 +229,53 @@ func amplifierFields(add func(string, string), a *catalog.Amplifier) {
 		if !(a.InternalOhm <= 0) {
 			add("internal resistors", orUnknown(a.InternalOhm, func(x float64) string { return units.FormatOhms(x) + " ohm" }))
 		}
+		matchedFields(add, a.Network)
 	}
+}
+
+// matchedFields describes the matched resistors inside an amplifier: one
+// line per element, the op-amp's nodes, the pins and the tolerances.
+func matchedFields(add func(string, string), n *catalog.MatchedNetwork) {
+	if n == nil {
+		add("network", "not given (only the gains are known)")
+		return
+	}
+	for _, e := range n.Elements {
+		add("element "+e.Name, units.FormatOhms(e.Ohms)+" ohm, "+e.A+" to "+e.B)
+	}
+	add("op-amp nodes", "inverting "+n.OpAmpInv+", non-inverting "+n.OpAmpNonInv+", output "+n.OpAmpOut)
+	add("pins", strings.Join(n.Pins, " "))
+	add("element tolerance", orUnknown(n.Tolerance, func(x float64) string { return "±" + units.FormatPercent(x) }))
+	add("ratio tolerance", orUnknown(n.RatioTolerance, func(x float64) string { return "±" + units.FormatPercent(x) }))
+	add("ratio tracking", orUnknown(n.RatioDriftPPM, func(x float64) string { return "±" + units.FormatPPM(x) }))
+}
+
+// referenceFields describes a voltage reference; a figure nobody gave
+// prints as unknown.
+func referenceFields(add func(string, string), r *catalog.Reference) {
+	volts := func(x float64) string { return units.Format(x, "V") }
+	add("part", r.Part)
+	add("maker", r.Maker)
+	add("topology", r.Topology)
+	add("package", r.Package)
+	add("output", units.Format(r.OutputV, "V"))
+	add("initial accuracy", "±"+units.FormatPercent(r.Tolerance))
+	drift := orUnknown(r.DriftPPM, func(x float64) string { return "±" + units.FormatPPM(x) })
+	if catalog.Known(r.TempMinC) {
+		drift += fmt.Sprintf(" (box, %g to %g °C)", r.TempMinC, r.TempMaxC)
+	}
+	add("drift", drift)
+	add("noise 0.1-10 Hz", orUnknown(r.NoisePPV, func(x float64) string { return units.Format(x, "V") + " p-p" }))
+	add("noise density", orUnknown(r.NoiseVHz, func(x float64) string { return units.Format(x, "V/√Hz") }))
+	if r.Topology != catalog.RefShunt || catalog.Known(r.SupplyMinV) {
+		add("supply", orUnknown(r.SupplyMinV, volts)+" to "+orUnknown(r.SupplyMaxV, volts))
+		add("dropout", orUnknown(r.DropoutV, volts))
+	}
+	add("load current", "source "+orUnknown(r.LoadSourceA, func(x float64) string { return units.Format(x, "A") })+
+		", sink "+orUnknown(r.LoadSinkA, func(x float64) string { return units.Format(x, "A") }))
+	add("output resistance", orUnknown(r.OutputOhm, func(x float64) string { return units.FormatOhms(x) + " ohm" }))
+	add("long-term drift", orUnknown(r.LongTermPPM, func(x float64) string { return strconv.FormatFloat(x, 'g', 4, 64) + " ppm/1000 h" }))
+	add("quiescent current", orUnknown(r.IqA, func(x float64) string { return units.Format(x, "A") }))
 }
 
 // orUnknown formats a figure, or "-" when it is unknown (NaN).

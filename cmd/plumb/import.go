@@ -16,7 +16,8 @@ import (
 	"plumb/importers"
 )
 
-var importKinds = []string{"auto", string(catalog.KindResistor), string(catalog.KindNetwork), string(catalog.KindAmplifier)}
+var importKinds = []string{"auto", string(catalog.KindResistor), string(catalog.KindNetwork), string(catalog.KindAmplifier),
+	string(catalog.KindReference)}
 
 type importOptions struct {
 	IO          *IOStreams

@@ -32,7 +32,7 @@ var partTableHeader = []string{"PART", "KIND", "VALUE", "TOL", "TCR PPM/K", "PRI
 var partCSVHeader = []string{"kind", "part", "maker", "value", "value_ohm", "tolerance", "tcr_ppm", "package", "technology", "unit_price", "currency", "min_qty", "stock", "detail"}
 
 // partRows flattens a snapshot into rows in the snapshot's order: series,
-// resistors, networks, amplifiers.
+// resistors, networks, amplifiers, references.
 func partRows(s *catalog.Snapshot) []partRow {
 	var rows []partRow
 	for _, r := range s.ResistorSeries {
@@ -70,6 +70,20 @@ func partRows(s *catalog.Snapshot) []partRow {
 	for _, a := range s.Amplifiers {
 		rows = append(rows, amplifierRow(a))
 	}
+	for _, r := range s.References {
+		supply := ""
+		if catalog.Known(r.SupplyMinV) || catalog.Known(r.SupplyMaxV) {
+			supply = "supply " + orUnknown(r.SupplyMinV, func(x float64) string { return units.Format(x, "") }) + "-" +
+				orUnknown(r.SupplyMaxV, func(x float64) string { return units.Format(x, "V") })
+		}
+		rows = append(rows, partRow{
+			Kind: catalog.KindReference, Part: r.Part, Maker: r.Maker,
+			Value: units.Format(r.OutputV, "V"), Tolerance: r.Tolerance, TCR: r.DriftPPM, Package: r.Package,
+			Offer: r.Offer,
+			Detail: joinNonEmpty(r.Maker, r.Package, r.Topology,
+				keep("noise "+orUnknown(r.NoisePPV, func(x float64) string { return units.Format(x, "V") + " p-p" })), keep(supply)),
+		})
+	}
 	return rows
 }
 
@@ -89,6 +103,9 @@ func amplifierRow(a catalog.Amplifier) partRow {
 			gains[i] = strconv.FormatFloat(g, 'g', 4, 64)
 		}
 		detail = append(detail[:2:2], append([]string{keep("gain " + strings.Join(gains, "/"))}, detail[2:]...)...)
+		if a.Network != nil {
+			detail = append(detail, fmt.Sprintf("%d elements", len(a.Network.Elements)))
+		}
 	}
 	r.Detail = joinNonEmpty(detail...)
 	return r
