@@ -32,7 +32,10 @@ families, from plumb's registry:
 		ref := map[family.RefUse]string{family.RefNone: "refused (the stage has no reference input)",
 			family.RefOutput: "optional, the output at zero input", family.RefShift: "required, the offset comes from it"}[f.Reference]
 		fmt.Fprintf(&b, "      reference: %s\n", ref)
-		if f.Integrated() {
+		if f.Search.Strappings {
+			b.WriteString("      design: one amplifier whose matched network the catalog holds, and its strapping\n" +
+				"              (amplifier.strapping: the pin connections, e.g. \"IN-=vn IN+=vp FB=out REF=ref\")\n")
+		} else if f.Integrated() {
 			b.WriteString("      design: one amplifier with matched resistors inside, at one of its gains\n")
 		} else {
 			pos, _ := f.Positions(family.Options{})

@@ -90,7 +90,15 @@ func writeDesignParts(w io.Writer, ios *IOStreams, d *search.Design) error {
 		}
 		t.row(p.Position, p.Kind, p.Part, qty, value, tol, tcr, price)
 	}
-	return t.render(w)
+	if err := t.render(w); err != nil {
+		return err
+	}
+	for _, p := range d.Parts {
+		if p.Strapping != "" {
+			writeHanging(w, ios, "", "  ", fmt.Sprintf("%s %s strapped: %s", p.Position, p.Part, p.Strapping))
+		}
+	}
+	return nil
 }
 
 // writeSolveTable prints a search result for a terminal or a pipe, fitted

@@ -3,6 +3,7 @@ package budget
 import (
 	"fmt"
 	"math"
+	"slices"
 
 	"plumb/catalog"
 	"plumb/optimize/spec"
@@ -98,4 +99,46 @@ func FigOf(e spec.Element, groups map[string]int) Fig {
 		f.Label = "inline"
 	}
 	return f
+}
+
+// strappedTCR is the absolute tempco taken for the elements of a strapped
+// amplifier's network, which the catalog does not record (only their
+// tracking): the thin-film default of package assume (50 ppm/K, the
+// loosest common thin-film grade, common practice). The gain depends on
+// ratios only, so it reaches the budget only through the source, reference
+// and load impedances in series with the elements.
+const strappedTCR = 50e-6
+
+// StrappedFigs returns the figures of the positions of a strapped design:
+// each element of amplifier a's matched network named in positions, as one
+// network (Network 1) with the network's absolute tolerance, its ratio
+// tolerance and its ratio tracking, so that the budget's network model
+// (a common shift, and each element within ± half the ratio tolerance of
+// it) is the model package strap propagates. A figure the catalog does not
+// give is an error: the strapped budget rests on all three.
+func StrappedFigs(a *catalog.Amplifier, positions []string) ([]Fig, error) {
+	n := a.Network
+	if n == nil {
+		return nil, fmt.Errorf("%s has no matched network in the catalog", a.Part)
+	}
+	for _, f := range []struct {
+		v    float64
+		what string
+	}{{n.Tolerance, "absolute tolerance"}, {n.RatioTolerance, "ratio tolerance"}, {n.RatioDriftPPM, "ratio tracking"}} {
+		if math.IsNaN(f.v) || f.v < 0 {
+			return nil, fmt.Errorf("%s: the network's %s is not given; add it to the catalog entry", a.Part, f.what)
+		}
+	}
+	figs := make([]Fig, 0, len(positions))
+	for _, pos := range positions {
+		k := slices.IndexFunc(n.Elements, func(e catalog.MatchedElement) bool { return e.Name == pos })
+		if k < 0 {
+			return nil, fmt.Errorf("%s: the strapped circuit has position %s, which its network does not list", a.Part, pos)
+		}
+		track := n.RatioDriftPPM * 1e-6
+		figs = append(figs, Fig{Label: a.Part + " " + pos, Ohm: n.Elements[k].Ohms,
+			Tolerance: math.Max(n.Tolerance, n.RatioTolerance/2), TCR: math.Max(strappedTCR, track/2),
+			Network: 1, RatioTolerance: n.RatioTolerance, TCRTracking: track})
+	}
+	return figs, nil
 }

@@ -36,6 +36,14 @@ func CandidateOf(e *Evaluator, d *spec.Design) (*Candidate, error) {
 		amp := d.Amplifier.Amp
 		c.Amp = &amp
 	}
+	if e.fam.Search.Strappings {
+		figs, err := StrappedFigs(&d.Amplifier.Amp, e.positions)
+		if err != nil {
+			return nil, fmt.Errorf("%w: design %s: %w", ErrCandidate, d.SourceFile, err)
+		}
+		c.Figs = figs
+		return c, nil
+	}
 	groups := map[string]int{}
 	for _, name := range e.positions {
 		pos := d.Position(name)
@@ -335,6 +343,9 @@ func (e *Evaluator) summary() []Part {
 		name := "A1"
 		if e.matched {
 			name = fmt.Sprintf("amplifier (gain %g)", e.c.MatchedGain)
+		}
+		if st, ok := e.opts.Part.(fmt.Stringer); ok {
+			name = "A1 (strapped " + st.String() + ")"
 		}
 		out = append(out, Part{Position: name, Part: e.c.Amp.Part, Grade: string(e.c.Amp.Type)})
 	}

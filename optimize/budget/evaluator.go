@@ -181,7 +181,10 @@ func NewEvaluator(s *spec.Spec, name string, opts spec.Options) (*Evaluator, err
 	case s.Reference != nil && fam.Reference == family.RefOutput:
 		e.target = s.Reference.V
 	}
-	if fam.Integrated() {
+	if fam.Search.Strappings && opts.Part == nil {
+		return nil, fmt.Errorf("%w: a %s design needs its amplifier's strapping (amplifier.strapping)", ErrCandidate, name)
+	}
+	if fam.Datasheet() {
 		e.matched = true
 		e.positions = nil
 	} else if err := e.buildNetlist(); err != nil {

@@ -18,7 +18,7 @@ type Options = family.Options
 func Families() []Family {
 	var out []Family
 	for _, f := range family.All() {
-		if !f.Integrated() {
+		if !f.Datasheet() {
 			out = append(out, Family(f.Name))
 		}
 	}

@@ -71,6 +71,23 @@ type Options struct {
 	// OffsetToInverting: the reference enters the inverting side, giving a
 	// negative offset, instead of being summed into the non-inverting node.
 	OffsetToInverting bool
+	// Part is the circuit inside the design's catalog part as the design
+	// straps it, for a family whose netlist comes from its part
+	// (Search.Strappings); nil elsewhere, and for such a family the
+	// netlist's typical part.
+	Part PartCircuit
+}
+
+// PartCircuit is the circuit inside one catalog part as a design uses it:
+// an amplifier with matched resistors inside, its pins tied as the design
+// says (package strap implements it). Build adds the elements that carry
+// current (each a position, named as the part's data sheet names it, with
+// its nominal value) and the internal op-amp "A1", with the part's
+// positive input, negative input and reference on nodes inp, inn and ref
+// and its output on "out"; its other nodes get names of its own that start
+// with "x". The family adds the sources, the spec's impedances and the load.
+type PartCircuit interface {
+	Build(b Builder, inp, inn, ref string) error
 }
 
 // Option is one optional part of a netlist, as a bit of Family.Allows.
@@ -189,6 +206,12 @@ type Search struct {
 	// Ratio is the screening model of the gain-setting ratio (RatioPair
 	// and TwoStage).
 	Ratio *Ratio
+	// Strappings: a Part family whose part makes its gains by how its pins
+	// are tied (package strap enumerates them from the part's matched
+	// network, catalog.Amplifier.Network) instead of at its front-page
+	// gains; each usable strapping is one design, and the budget solves the
+	// strapped circuit (Options.Part) like any netlist.
+	Strappings bool
 	// Shift is the design model of a ShiftNetwork family.
 	Shift *Shift
 	// Sense is the shunt model of a Shunt family.
@@ -347,14 +370,21 @@ func (f *Family) GainUnit() string {
 }
 
 // Integrated reports whether the family is one catalog part with its
-// resistors inside (no netlist of positions).
-func (f *Family) Integrated() bool { return f.Netlist == nil }
+// resistors inside: a design names no positions, only the part (at one of
+// its gains, or strapped).
+func (f *Family) Integrated() bool { return f.Netlist == nil || f.Search.Strappings }
 
-// Positions returns the positions a design of f with options o fills, in
-// netlist order (none for an integrated family).
+// Datasheet reports whether a design of the family is budgeted from its
+// part's data sheet alone (an integrated family with no netlist).
+func (f *Family) Datasheet() bool { return f.Netlist == nil }
+
+// Positions returns the positions of f's netlist with options o, in
+// netlist order (none for a family budgeted from a data sheet; for a
+// family whose part is strapped, the elements of o.Part, or of the typical
+// part when o.Part is nil).
 func (f *Family) Positions(o Options) ([]string, error) {
 	r := &recorder{}
-	if f.Integrated() {
+	if f.Datasheet() {
 		return nil, nil
 	}
 	if err := f.Build(r, o); err != nil {
@@ -366,7 +396,7 @@ func (f *Family) Positions(o Options) ([]string, error) {
 // Amplified reports whether a design of f with options o has an amplifier
 // (an integrated family is one).
 func (f *Family) Amplified(o Options) bool {
-	if f.Integrated() {
+	if f.Datasheet() {
 		return true
 	}
 	r := &recorder{}

@@ -58,7 +58,7 @@ func TestRegistry(t *testing.T) {
 func TestNetlistConventions(t *testing.T) {
 	all := []Options{{}, {Load: true}, {RefDivider: true}, {SourceImpedance: true}, {Buffer: true}, {RefImpedance: true}, {OffsetToInverting: true}}
 	for _, f := range All() {
-		if f.Integrated() {
+		if f.Datasheet() {
 			if err := f.Build(newGraph(), Options{}); !errors.Is(err, ErrNoNetlist) {
 				t.Errorf("%s: Build error %v, want ErrNoNetlist", f.Name, err)
 			}

@@ -16,6 +16,7 @@ var registry = []*Family{
 	LevelShift,
 	InAmp,
 	Matched,
+	Strapped,
 }
 
 // All returns every family in registry order.

@@ -32,7 +32,7 @@ func TestHardLimits(t *testing.T) {
 		t.Run(tc.name, func(t *testing.T) {
 			a := good
 			tc.edit(&a)
-			if got := hardAmp(p, &a, 10); got != tc.want {
+			if got := hardAmp(p, &a, 10, nil); got != tc.want {
 				t.Errorf("hardAmp = %q, want %q", got, tc.want)
 			}
 		})

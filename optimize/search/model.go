@@ -226,26 +226,45 @@ func (s *space) offset(m *metrics, ng, vos, bias, vdrift float64) {
 // evalMatched computes the metrics of an amplifier with matched resistors
 // inside at its gain a.k0: the maker's gain error and drift limits, its CMRR
 // and its offset at noise gain 1 + G.
+//
+// A strapped part (a.st) takes its figures from the strapping instead
+// (package strap): the ratio tolerance propagated through its
+// sensitivities (worst case, or RSS under the RSS method), the drift from
+// the ratio tracking, the noise gain 1/β, and the bias currents through
+// the resistances Rp and Rm at the op-amp's inputs, NG·(Ib·|Rp − Rm| +
+// Ios·(Rp + Rm)/2) at the output. These are first order in the ratio
+// tolerance; the exact budget that confirms each design solves the
+// strapped circuit.
 func (s *space) evalMatched(a *amp, m *metrics) {
 	p := s.p
 	am := a.a
 	ng := 1 + a.k0
 	rho := a.k0 / p.Gain
+	gerr, bias, rn := am.GainErrorMax, am.IosA*am.InternalOhm/2, am.InternalOhm/2
 	m.drift = am.GainDriftPPM
+	if st := a.st; st != nil {
+		ng, gerr, m.drift = st.NoiseGain, st.GainErrorWorst, st.GainDriftPPM
+		if s.rss {
+			gerr = st.GainErrorRSS
+		}
+		rp, rm := st.SourcePlusOhm, st.SourceMinusOhm
+		bias = am.IbA*math.Abs(rp-rm) + am.IosA*(rp+rm)/2
+		rn = (rp + rm) / 2
+	}
 	dr := m.drift * 1e-6 * s.dT
 	switch {
 	case p.CalGain:
 		m.gainErr, m.totalErr = 0, dr
 	case s.rss:
-		m.gainErr = math.Abs(rho-1) + am.GainErrorMax
-		m.totalErr = math.Abs(rho-1) + math.Hypot(am.GainErrorMax, dr)
+		m.gainErr = math.Abs(rho-1) + gerr
+		m.totalErr = math.Abs(rho-1) + math.Hypot(gerr, dr)
 	default:
-		m.gainErr = math.Abs(rho-1) + am.GainErrorMax
+		m.gainErr = math.Abs(rho-1) + gerr
 		m.totalErr = m.gainErr + dr
 	}
 	m.cmrrDB = toDB(a.ainv)
-	s.offset(m, ng, am.VosV, am.IosA*am.InternalOhm/2, am.VosDriftVK)
-	m.noise = noiseDensity(ng, am.NoiseVHz, am.NoiseAHz, am.InternalOhm/2, s.tempK, 2)
+	s.offset(m, ng, am.VosV, bias, am.VosDriftVK)
+	m.noise = noiseDensity(ng, am.NoiseVHz, am.NoiseAHz, rn, s.tempK, 2)
 	m.gain = a.k0
 	m.bw = am.GBWHz / ng
 	m.noiseRMS = rmsNoise(m.noise, m.bw)

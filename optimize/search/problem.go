@@ -262,9 +262,18 @@ func (p *Problem) builds() []Family {
 // circuit.
 func (p *Problem) partBuilds() []Family {
 	var out []Family
+	for _, g := range p.partFamilies() {
+		out = append(out, variant(p.family(), g.Name))
+	}
+	return out
+}
+
+// partFamilies returns the integrated families walked in the circuit.
+func (p *Problem) partFamilies() []*family.Family {
+	var out []*family.Family
 	for _, g := range family.All() {
 		if g.Search.Strategy == family.Part && g.Search.As == p.family() {
-			out = append(out, variant(p.family(), g.Name))
+			out = append(out, g)
 		}
 	}
 	return out

@@ -140,6 +140,9 @@ type Part struct {
 	// Network elements only.
 	RatioTolerance float64 `json:"ratio_tolerance,omitempty"`
 	TCRTracking    float64 `json:"tcr_tracking_ppm,omitempty"`
+	// Strapping is a strapped amplifier's pin connections (package
+	// strap's text form), "" for any other part.
+	Strapping string `json:"strapping,omitempty"`
 }
 
 // Metrics are a design's figures under the spec's method.
@@ -402,10 +405,7 @@ func (s *space) describe(b *classBest) (Design, *spec.Design, error) {
 	sd := &spec.Design{}
 	var a *catalog.Amplifier
 	var fam Family
-	if parts := s.p.partBuilds(); len(parts) > 0 {
-		// The one integrated family walked in this circuit.
-		fam = parts[0]
-	}
+	strapping := ""
 	if b.cfg >= 0 {
 		c := &s.cfgs[b.cfg]
 		fam = c.fam
@@ -497,8 +497,17 @@ func (s *space) describe(b *classBest) (Design, *spec.Design, error) {
 			}
 		}
 	} else {
-		a = s.matched[b.amp].a
-		sd.Amplifier.Gain = s.matched[b.amp].k0
+		m := &s.matched[b.amp]
+		a, fam = m.a, m.build
+		if m.st != nil {
+			part, err := m.st.Part(a.Network)
+			if err != nil {
+				return Design{}, nil, fmt.Errorf("search: %s strapped %s: %w", a.Part, m.st.Text, err)
+			}
+			sd.Options.Part, sd.Amplifier.Strapping, strapping = part, m.st.Text, m.st.Text
+		} else {
+			sd.Amplifier.Gain = m.k0
+		}
 	}
 	sortPositions(sd.Positions)
 	sort.SliceStable(parts, func(i, j int) bool { return parts[i].Position < parts[j].Position })
@@ -512,7 +521,7 @@ func (s *space) describe(b *classBest) (Design, *spec.Design, error) {
 		// fewer of a dual or quad part.
 		n := packages(s.p, a)
 		uses = append(uses, cost.Use{Part: a.Part, Offer: &a.Offer, Placements: n})
-		parts = append(parts, Part{Position: "U1", Kind: string(catalog.KindAmplifier), Part: a.Part, Quantity: n})
+		parts = append(parts, Part{Position: "U1", Kind: string(catalog.KindAmplifier), Part: a.Part, Quantity: n, Strapping: strapping})
 	}
 	bd, err := cost.Price(s.p.Build, uses)
 	if err != nil {

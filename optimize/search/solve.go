@@ -815,13 +815,20 @@ func (s *space) dominant(b *classBest, limit string) (string, float64) {
 	if b.cfg < 0 {
 		a := s.matched[b.amp]
 		am := a.a
-		switch limit {
-		case limGain, limGainInitial, limDrift:
+		switch {
+		case a.st != nil && (limit == limGain || limit == limGainInitial || limit == limDrift):
+			ts = []term{{"the network's ratio tolerance through the strapping", a.st.GainErrorWorst}, {"the network's ratio tracking through the strapping", a.st.GainDriftPPM * 1e-6 * s.dT}, {"gain quantization", math.Abs(a.k0/p.Gain - 1)}}
+			if limit == limDrift {
+				ts = ts[1:2]
+			}
+		case a.st != nil && limit == limCMRR:
+			ts = []term{{"the strapped network's match", 1 / a.st.CMRRWorst}, {"the amplifier's CMRR", dbInv(am.CMRRdB)}}
+		case limit == limGain, limit == limGainInitial, limit == limDrift:
 			ts = []term{{"the amplifier's gain error", am.GainErrorMax}, {"the amplifier's gain drift", am.GainDriftPPM * 1e-6 * s.dT}, {"gain quantization", math.Abs(a.k0/p.Gain - 1)}}
 			if limit == limDrift {
 				ts = ts[1:2]
 			}
-		case limCMRR:
+		case limit == limCMRR:
 			ts = []term{{"the amplifier's CMRR", a.ainv}}
 		default:
 			ts = []term{{"the amplifier", 1}}
@@ -1110,8 +1117,12 @@ func (s *space) fixChange(f *classBest, o fixOpt) (change, part string, at []str
 	}
 	switch {
 	case won.ci < 0:
-		a := s.matched[won.ai].a
-		return "matched amplifier " + a.Part + " instead of " + s.matched[f.amp].a.Part, a.Part, nil
+		m := &s.matched[won.ai]
+		was := s.amps
+		if f.cfg < 0 {
+			was = s.matched
+		}
+		return "matched amplifier " + m.label() + " instead of " + was[f.amp].label(), m.a.Part, nil
 	case won.ci == f.cfg:
 		return join(""), part, nil
 	case strings.HasPrefix(won.kind, "network"):

@@ -9,6 +9,7 @@ import (
 	"plumb/catalog"
 	"plumb/optimize/cost"
 	"plumb/optimize/family"
+	"plumb/optimize/strap"
 )
 
 // Parts is the catalog content the search reads.
@@ -25,13 +26,38 @@ type Parts struct {
 	// sub-searches (one per shunt or second-stage gain) read the catalog
 	// once; nil outside a search.
 	tables map[tableKey][]*group
+	// straps holds the strappings of each amplifier's matched network one
+	// search has enumerated (nil outside a search), with the error that
+	// refused a network.
+	straps map[*catalog.MatchedNetwork]strappings
+}
+
+// strappings are the usable strappings of one network, or why it has none.
+type strappings struct {
+	list []strap.Strapping
+	err  error
 }
 
 // forSearch returns a copy of ps with its own table cache, for one search.
 func (ps *Parts) forSearch() *Parts {
 	c := *ps
 	c.tables = map[tableKey][]*group{}
+	c.straps = map[*catalog.MatchedNetwork]strappings{}
 	return &c
+}
+
+// strappingsOf returns the usable strappings of network n, enumerated once
+// per search (package strap; about 0.2 s for eight pins).
+func (ps *Parts) strappingsOf(n *catalog.MatchedNetwork) ([]strap.Strapping, error) {
+	if ps.straps == nil {
+		ps.straps = map[*catalog.MatchedNetwork]strappings{}
+	}
+	if s, ok := ps.straps[n]; ok {
+		return s.list, s.err
+	}
+	list, err := strap.Enumerate(n)
+	ps.straps[n] = strappings{list, err}
+	return list, err
 }
 
 // resistorRows returns the source of the resistor rows.
@@ -340,6 +366,21 @@ type amp struct {
 	k0    float64
 	ainv  float64 // 1/CMRR of the amplifier, linear
 	short bool
+	// build labels an integrated part's designs (its family walked in the
+	// circuit, see variant); "" for an op-amp.
+	build Family
+	// st is the strapping of a part whose family straps it (nil: the part
+	// at one of its front-page gains).
+	st *strap.Strapping
+}
+
+// label names the amplifier in a change: its part number, and a strapped
+// part's strapping.
+func (a *amp) label() string {
+	if a.st != nil {
+		return a.a.Part + " strapped " + a.st.Text
+	}
+	return a.a.Part
 }
 
 // hardReason counts why amplifiers were removed by hard limits.
@@ -409,17 +450,31 @@ func noAmp(p *Problem) amp {
 	return amp{a: &catalog.Amplifier{IbA: p.LeakageA}, k0: p.ratio()}
 }
 
-// hardAmp applies the hard limits to an amplifier at nominal ratio k:
-// supply span, pin common-mode range, output swing and bandwidth. It
-// returns "" when the amplifier can be used, else the limit it breaks.
-func hardAmp(p *Problem, a *catalog.Amplifier, k float64) string {
+// hardAmp applies the hard limits to an amplifier at nominal ratio k (or
+// strapped as st): supply span, pin common-mode range, output swing and
+// bandwidth. It returns "" when the amplifier can be used, else the limit
+// it breaks.
+func hardAmp(p *Problem, a *catalog.Amplifier, k float64, st *strap.Strapping) string {
 	span := p.SupplyPos - p.SupplyNeg
 	if span < a.SupplyMinV || (a.SupplyMaxV > 0 && span > a.SupplyMaxV) {
 		return "supply range"
 	}
 	var lo, hi float64
 	negM, posM := a.CMNegV, a.CMPosV
-	if a.Type == catalog.MatchedAmp {
+	ng := 1 + k
+	switch {
+	case st != nil:
+		// A strapped part's internal op-amp sees Kp·Vp + Kn·Vn + Kr·Vref
+		// (package strap), inside its own common-mode range.
+		lo, hi = math.Inf(1), math.Inf(-1)
+		for _, vcm := range []float64{p.CMMin, p.CMMax} {
+			for _, vd := range []float64{p.InMin, p.InMax} {
+				v := st.OpAmpInputV(vcm+vd/2, vcm-vd/2, p.Ref)
+				lo, hi = math.Min(lo, v), math.Max(hi, v)
+			}
+		}
+		ng = st.NoiseGain
+	case a.Type == catalog.MatchedAmp:
 		// Matched amplifiers are judged on their input pins' range.
 		lo, hi = math.Inf(1), math.Inf(-1)
 		for _, vcm := range []float64{p.CMMin, p.CMMax} {
@@ -429,14 +484,13 @@ func hardAmp(p *Problem, a *catalog.Amplifier, k float64) string {
 			}
 		}
 		negM, posM = a.InNegV, a.InPosV
-	} else {
+	default:
 		lo, hi = pinRange(p, k)
 	}
 	if lo < p.SupplyNeg+negM || hi > p.SupplyPos-posM {
 		return "input headroom"
 	}
 	olo, ohi := outRange(p)
-	ng := 1 + k
 	if r := p.family().Search.Ratio; r != nil && r.Stage2 != nil {
 		// The first stage's outputs swing too.
 		for _, vcm := range []float64{p.CMMin, p.CMMax} {
@@ -463,16 +517,6 @@ func opAmpBuilds(p *Problem, fams map[Family]bool) bool {
 	return fams[variant(f, buildDiscrete)] || fams[variant(f, buildNetwork)]
 }
 
-// partBuild reports whether fams allows an integrated family's part.
-func partBuild(p *Problem, fams map[Family]bool) bool {
-	for _, b := range p.partBuilds() {
-		if fams[b] {
-			return true
-		}
-	}
-	return false
-}
-
 // buildAmps returns the op-amps and the matched amplifiers that pass the
 // hard limits, each sorted by cost, and the count removed per reason.
 func buildAmps(parts *Parts, p *Problem, fams map[Family]bool) (op, matched []amp, why hardReason) {
@@ -486,7 +530,18 @@ func buildAmps(parts *Parts, p *Problem, fams map[Family]bool) (op, matched []am
 		return []amp{noAmp(p)}, nil, why
 	}
 	w := p.window()
-	opOK, partOK := opAmpBuilds(p, fams), partBuild(p, fams)
+	opOK := opAmpBuilds(p, fams)
+	// The integrated families the spec allows in this circuit.
+	type partFam struct {
+		g     *family.Family
+		build Family
+	}
+	var partFams []partFam
+	for _, g := range p.partFamilies() {
+		if b := variant(p.family(), g.Name); fams[b] {
+			partFams = append(partFams, partFam{g, b})
+		}
+	}
 	for i := range parts.Amplifiers {
 		a := &parts.Amplifiers[i]
 		if p.Build.Currency != "" && !offerIn(&a.Offer, p.Build.Currency) {
@@ -502,25 +557,29 @@ func buildAmps(parts *Parts, p *Problem, fams map[Family]bool) (op, matched []am
 			if !opOK {
 				continue
 			}
-			if r := hardAmp(p, a, k); r != "" {
+			if r := hardAmp(p, a, k, nil); r != "" {
 				why[r]++
 				continue
 			}
 			op = append(op, amp{a: a, cost: c, k0: k, ainv: dbInv(a.CMRRdB), short: short})
 		case catalog.MatchedAmp:
-			if !partOK {
-				continue
+			for _, pf := range partFams {
+				build := pf.build
+				if pf.g.Search.Strappings {
+					matched = append(matched, strappedAmps(parts, p, a, amp{a: a, cost: c, short: short, build: build}, w, why)...)
+					continue
+				}
+				gain, ok := nearestGain(a.Gains, p.Gain, w)
+				if !ok {
+					why["no matching gain"]++
+					continue
+				}
+				if r := hardAmp(p, a, gain, nil); r != "" {
+					why[r]++
+					continue
+				}
+				matched = append(matched, amp{a: a, cost: c, k0: gain, ainv: dbInv(a.CMRRdB), short: short, build: build})
 			}
-			g, ok := nearestGain(a.Gains, p.Gain, w)
-			if !ok {
-				why["no matching gain"]++
-				continue
-			}
-			if r := hardAmp(p, a, g); r != "" {
-				why[r]++
-				continue
-			}
-			matched = append(matched, amp{a: a, cost: c, k0: g, ainv: dbInv(a.CMRRdB), short: short})
 		}
 	}
 	byCost := func(s []amp) {
@@ -534,6 +593,45 @@ func buildAmps(parts *Parts, p *Problem, fams map[Family]bool) (op, matched []am
 	byCost(op)
 	byCost(matched)
 	return op, matched, why
+}
+
+// strappedAmps returns a strapped design of amplifier a (base holds its
+// cost and build) for every differential strapping of its network whose
+// gain lies within the window w of the spec's and that passes the hard
+// limits, counting the others in why. The resistors' CMRR, (1+G)/(2δ) for
+// the classic strapping, adds to the part's own: 1/CMRR ≤ 1/CMRRr +
+// 1/CMRRa (domain notes §2).
+func strappedAmps(parts *Parts, p *Problem, a *catalog.Amplifier, base amp, w float64, why hardReason) []amp {
+	if a.Network == nil {
+		why["no matched network to strap"]++
+		return nil
+	}
+	list, err := parts.strappingsOf(a.Network)
+	if err != nil {
+		why["matched network not strappable"]++
+		return nil
+	}
+	var out []amp
+	found := false
+	for i := range list {
+		st := &list[i]
+		if st.Kind != strap.Differential || !(math.Abs(st.Gain/p.Gain-1) <= w) {
+			continue
+		}
+		found = true
+		if r := hardAmp(p, a, st.Gain, st); r != "" {
+			why[r]++
+			continue
+		}
+		x := base
+		x.k0, x.st = st.Gain, st
+		x.ainv = dbInv(a.CMRRdB) + 1/st.CMRRWorst
+		out = append(out, x)
+	}
+	if !found {
+		why["no strapping makes the gain"]++
+	}
+	return out
 }
 
 func nearestGain(gs []float64, g, w float64) (float64, bool) {

@@ -10,6 +10,7 @@ import (
 
 	"plumb/catalog"
 	"plumb/optimize/family"
+	"plumb/optimize/strap"
 )
 
 // Options are the circuit variants a design chooses (see family.Options).
@@ -22,12 +23,23 @@ type Options struct {
 	// OffsetToInverting feeds the level-shift offset into the inverting
 	// input instead of the non-inverting one.
 	OffsetToInverting bool `json:"offset_to_inverting" yaml:"offset_to_inverting"`
+	// Part is the circuit inside the design's amplifier as its strapping
+	// ties it, for a family whose part is strapped (Resolve sets it from
+	// AmplifierChoice.Strapping and the part's network).
+	Part family.PartCircuit `json:"-" yaml:"-"`
 }
 
 // Netlist returns the netlist options the design's choices select (the
 // spec's source, reference and load impedances add the others).
 func (o Options) Netlist() family.Options {
-	return family.Options{RefDivider: o.RefDivider, Buffer: o.Buffer, OffsetToInverting: o.OffsetToInverting}
+	return family.Options{RefDivider: o.RefDivider, Buffer: o.Buffer, OffsetToInverting: o.OffsetToInverting, Part: o.Part}
+}
+
+// strapped reports whether family name's part makes its gain by a
+// strapping of its pins (family.Search.Strappings).
+func strapped(name string) bool {
+	f := family.Lookup(name)
+	return f != nil && f.Search.Strappings
 }
 
 // integrated reports whether family name is one catalog part with its
@@ -95,11 +107,13 @@ func (p *Position) Ohm() float64 {
 }
 
 // AmplifierChoice is the design's amplifier: a part number or inline
-// figures, and for a matched amplifier the chosen gain.
+// figures, and for a matched amplifier the chosen gain or, for a strapped
+// one, the strapping (its pin connections, package strap's text form).
 type AmplifierChoice struct {
-	Part string            `json:"part,omitempty"`
-	Gain float64           `json:"gain,omitempty"`
-	Amp  catalog.Amplifier `json:"figures"`
+	Part      string            `json:"part,omitempty"`
+	Gain      float64           `json:"gain,omitempty"`
+	Strapping string            `json:"strapping,omitempty"`
+	Amp       catalog.Amplifier `json:"figures"`
 	// Resolved is true once the figures are known.
 	Resolved bool `json:"-"`
 }
@@ -167,6 +181,7 @@ type rawAmp struct {
 	Part      string `yaml:"part,omitempty"`
 	Type      string `yaml:"type,omitempty"`
 	Gain      string `yaml:"gain,omitempty"`
+	Strapping string `yaml:"strapping,omitempty"`
 	Vos       string `yaml:"vos,omitempty"`
 	VosDrift  string `yaml:"vos_drift,omitempty"`
 	Ib        string `yaml:"ib,omitempty"`
@@ -234,7 +249,10 @@ func ParseDesign(data []byte, name string) (*Design, error) {
 		d.Amplifier.Amp.Part = ""
 	case r.Amplifier == (rawAmp{}) && !famOK:
 	default:
-		d.Amplifier = parseAmp(p, &r.Amplifier, integrated(r.Family), famOK)
+		d.Amplifier = parseAmp(p, &r.Amplifier, integrated(r.Family) && !strapped(r.Family), famOK)
+		if famOK {
+			parseStrapping(p, &r.Amplifier, &d.Amplifier, strapped(r.Family))
+		}
 	}
 	d.Reference = parseDesignRef(p, r.Reference)
 	if err := p.err(); err != nil {
@@ -332,7 +350,7 @@ func parseAmp(p *problems, r *rawAmp, matched, famOK bool) AmplifierChoice {
 	} else if matched {
 		p.add("amplifier.gain", "missing; a matched amplifier needs the chosen gain, one of its fixed gains")
 	}
-	inline := *r != (rawAmp{Part: r.Part, Gain: r.Gain})
+	inline := *r != (rawAmp{Part: r.Part, Gain: r.Gain, Strapping: r.Strapping})
 	switch {
 	case r.Part != "" && inline:
 		p.add("amplifier", "names part %s and also inline figures; give one or the other", r.Part)
@@ -406,6 +424,22 @@ func parseAmp(p *problems, r *rawAmp, matched, famOK bool) AmplifierChoice {
 	return a
 }
 
+// parseStrapping reads the strapping of a family whose part is strapped
+// (strapped true): a catalog part and its pin connections, no gain (the
+// strapping sets it); other families take no strapping.
+func parseStrapping(p *problems, r *rawAmp, a *AmplifierChoice, strapped bool) {
+	a.Strapping = strings.Join(strings.Fields(r.Strapping), " ")
+	switch {
+	case !strapped && r.Strapping != "":
+		p.add("amplifier.strapping", "a strapping belongs to a strapped amplifier (family %s); remove it", familyNames(familiesWith(&Spec{Families: KnownFamilies}, func(f *family.Family) bool { return f.Search.Strappings })))
+	case !strapped:
+	case r.Part == "":
+		p.add("amplifier.part", "missing; a strapped amplifier is a catalog part whose matched network the catalog holds")
+	case a.Strapping == "":
+		p.add("amplifier.strapping", "missing; give the pin connections, e.g. \"IN-=vn IN+=vp FB=out REF=ref\" (plumb catalog show %s lists the part's pins)", r.Part)
+	}
+}
+
 // positiveLevel suggests how to write a level that must be above 0 dB: the
 // text without its minus sign when v is negative, else example.
 func positiveLevel(text string, v float64, example string) string {
@@ -463,7 +497,14 @@ func (d *Design) Resolve(lookup Lookup) error {
 			amp.Resolved = true
 		}
 	}
-	if amp.Resolved && amp.Amp.Type == catalog.MatchedAmp && integrated(d.Family) {
+	opts := d.Options
+	if amp.Resolved && amp.Amp.Type == catalog.MatchedAmp && strapped(d.Family) {
+		part, err := strapPart(&amp)
+		if err != nil {
+			p.add("amplifier.strapping", "%v", err)
+		}
+		opts.Part = part
+	} else if amp.Resolved && amp.Amp.Type == catalog.MatchedAmp && integrated(d.Family) {
 		if len(amp.Amp.Gains) > 0 && !slices.Contains(amp.Amp.Gains, amp.Gain) {
 			p.add("amplifier.gain", "%g is not one of the gains of %s (%v)", amp.Gain, amp.Part, amp.Amp.Gains)
 		}
@@ -477,7 +518,7 @@ func (d *Design) Resolve(lookup Lookup) error {
 	if err := p.err(); err != nil {
 		return err
 	}
-	d.Positions, d.Amplifier, d.Reference = positions, amp, ref
+	d.Positions, d.Amplifier, d.Reference, d.Options = positions, amp, ref, opts
 	set := assume.Set{}
 	set.Add(d.Assumptions)
 	set.Add(assumed)
@@ -558,4 +599,28 @@ func (d *Design) Unresolved() []string {
 		out = append(out, "reference: "+d.Reference.Part)
 	}
 	return out
+}
+
+// strapPart parses the strapping of amplifier a against its matched
+// network and returns the strapped circuit, or an error that says what to
+// write.
+func strapPart(a *AmplifierChoice) (family.PartCircuit, error) {
+	n := a.Amp.Network
+	if n == nil {
+		return nil, fmt.Errorf("%s: the catalog holds no matched network for this part, so it cannot be strapped; use it at one of its gains (%v) in another family", a.Part, a.Amp.Gains)
+	}
+	c, err := strap.Parse(n, a.Strapping)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", a.Part, err)
+	}
+	st, err := strap.Evaluate(n, c)
+	if err != nil {
+		return nil, fmt.Errorf("%s: strapping %q: %w", a.Part, a.Strapping, err)
+	}
+	part, err := st.Part(n)
+	if err != nil {
+		return nil, fmt.Errorf("%s: strapping %q: %w", a.Part, a.Strapping, err)
+	}
+	a.Strapping = st.Text
+	return part, nil
 }

@@ -80,7 +80,7 @@ func rawAmpOf(a *AmplifierChoice, d *Design) rawAmp {
 		r.Gain = num(a.Gain)
 	}
 	if a.Part != "" {
-		r.Part = a.Part
+		r.Part, r.Strapping = a.Part, a.Strapping
 		return r
 	}
 	m := &a.Amp

@@ -28,7 +28,7 @@ const (
 
 // circuitFamily labels the netlists of strapped amplifiers (SPICE decks
 // print it as a comment).
-const circuitFamily circuit.Family = "strapped"
+const circuitFamily circuit.Family = "strapping"
 
 // stage is a strapping's netlist with the indices the figures need. One
 // stage serves a whole enumeration: build rewrites the netlist in place and
