@@ -625,13 +625,27 @@ func strappedAmps(parts *Parts, p *Problem, a *catalog.Amplifier, base amp, w fl
 		}
 		x := base
 		x.k0, x.st = st.Gain, st
-		x.ainv = dbInv(a.CMRRdB) + 1/st.CMRRWorst
+		x.ainv = dbInv(a.CMRRdB) + strappedCMInv(st, a.Network, p.deltaT())
 		out = append(out, x)
 	}
 	if !found {
 		why["no strapping makes the gain"]++
 	}
 	return out
+}
+
+// strappedCMInv is 1/CMRR of the strapped resistors over the temperature
+// range: the worst-case common-mode gain |Acm| + Σ|∂Acm/∂ln Ri|·δ'/2 over
+// Adm (package strap), with the ratio spread δ' = δ + τ·ΔT that the ratio
+// tolerance δ and the tracking τ over the worst excursion ΔT allow
+// together (tempco mismatch as a further mismatch, domain notes §2).
+func strappedCMInv(st *strap.Strapping, n *catalog.MatchedNetwork, dT float64) float64 {
+	spread := n.RatioTolerance + n.RatioDriftPPM*1e-6*dT
+	acm := math.Abs(st.CommonModeGain)
+	for _, x := range st.CMSensitivity {
+		acm += math.Abs(x) * spread / 2
+	}
+	return acm / math.Abs(st.Gain)
 }
 
 func nearestGain(gs []float64, g, w float64) (float64, bool) {
