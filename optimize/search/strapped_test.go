@@ -201,3 +201,30 @@ build: {quantity: %d}
 		t.Errorf("only %d of %d generated cases have a passing design", feasible, cases)
 	}
 }
+
+// BenchmarkSolveStrapped solves a gain-2 strapped spec on a generated
+// catalog of eight strappable parts: the enumeration of each part's
+// strappings (once per search), the screening and the exact budgets that
+// confirm the designs.
+func BenchmarkSolveStrapped(b *testing.B) {
+	fam := strappedFamily(b)
+	snap := genStrappedSnapshot(rand.New(rand.NewPCG(16, 2)), 8)
+	s, err := spec.Parse([]byte(`name: strapped-bench
+about: strapped benchmark
+families: [`+fam.Name+`]
+gain: 2
+input: {differential: ±1V, common_mode: -3..3V}
+supply: ±12V
+temperature: {range: -20..70C}
+limits: {gain_error: 1%, cmrr: 50dB}
+`), "bench.yaml")
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := Solve(context.Background(), snap, s, Options{Top: 3}); err != nil && !errors.Is(err, ErrInfeasible) {
+			b.Fatal(err)
+		}
+	}
+}

@@ -22,6 +22,15 @@ func fakeCatalog(part string) (catalog.Kind, any, error) {
 		return catalog.KindAmplifier, catalog.Amplifier{Part: part, Type: catalog.OpAmp, AolVV: 1e6, GBWHz: 1e6}, nil
 	case "TEST-MATCHED":
 		return catalog.KindAmplifier, catalog.Amplifier{Part: part, Type: catalog.MatchedAmp, Gains: []float64{1, 2}}, nil
+	case "TEST-STRAP":
+		// Invented: a difference amplifier of gain 2 with its feedback
+		// element brought out to FB.
+		return catalog.KindAmplifier, catalog.Amplifier{Part: part, Type: catalog.MatchedAmp, Gains: []float64{2},
+			Network: &catalog.MatchedNetwork{
+				Elements: []catalog.MatchedElement{{Name: "Ra", Ohms: 10e3, A: "IN-", B: "inv"}, {Name: "Rb", Ohms: 20e3, A: "inv", B: "FB"},
+					{Name: "Rc", Ohms: 10e3, A: "IN+", B: "ni"}, {Name: "Rd", Ohms: 20e3, A: "ni", B: "REF"}},
+				Pins: []string{"IN-", "IN+", "FB", "REF", "OUT"}, OpAmpInv: "inv", OpAmpNonInv: "ni", OpAmpOut: "OUT",
+				Tolerance: 0.001, RatioTolerance: 0.0002, RatioDriftPPM: 2}}, nil
 	}
 	return "", nil, catalog.ErrNotFound
 }
@@ -118,6 +127,51 @@ func TestMatchedDesign(t *testing.T) {
 	d, _ = ParseDesign([]byte(strings.Replace(src, "gain: 2", "gain: 3", 1)), "m.yaml")
 	if err := d.Resolve(fakeCatalog); err == nil || !strings.Contains(err.Error(), "not one of the gains") {
 		t.Errorf("gain 3 accepted: %v", err)
+	}
+}
+
+// TestStrappedDesign: a strapped design names a catalog part and its
+// strapping; Resolve turns the text into the strapped circuit (positions
+// the elements that carry current) and refuses a strapping that is not an
+// amplifier, a pin the part does not have and a part with no network, each
+// with the field and what to write.
+func TestStrappedDesign(t *testing.T) {
+	src := "family: strapped\namplifier: {part: TEST-STRAP, strapping: \"IN-=vn  IN+=vp FB=out REF=ref\"}\n"
+	d, err := ParseDesign([]byte(src), "s.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := d.Resolve(fakeCatalog); err != nil {
+		t.Fatal(err)
+	}
+	if d.Options.Part == nil || d.Amplifier.Strapping != "IN-=vn IN+=vp FB=out REF=ref OUT=out" {
+		t.Errorf("resolved strapping %q, part %v", d.Amplifier.Strapping, d.Options.Part)
+	}
+	w, err := d.Marshal()
+	if err != nil || !strings.Contains(string(w), "strapping: IN-=vn IN+=vp FB=out REF=ref OUT=out") {
+		t.Errorf("written design lost the strapping (%v):\n%s", err, w)
+	}
+	for _, c := range []struct{ name, src, want string }{
+		{"missing strapping", "family: strapped\namplifier: {part: TEST-STRAP}\n", "amplifier.strapping: missing"},
+		{"strapping elsewhere", "family: matched\namplifier: {part: TEST-MATCHED, gain: 2, strapping: \"IN-=vn\"}\n", "amplifier.strapping: a strapping belongs to a strapped amplifier"},
+		{"inline", "family: strapped\namplifier: {aol: 120dB, gbw: 1MHz, strapping: \"IN-=vn\"}\n", "amplifier.part: missing"},
+	} {
+		if _, err := ParseDesign([]byte(c.src), "s.yaml"); err == nil || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("%s: error %v, want %q", c.name, err, c.want)
+		}
+	}
+	for _, c := range []struct{ name, src, want string }{
+		{"no such pin", strings.Replace(src, "FB=out", "FEEDBACK=out", 1), `no pin "FEEDBACK"`},
+		{"not an amplifier", strings.Replace(src, "FB=out", "FB=ref", 1), "not a usable amplifier"},
+		{"no network", "family: strapped\namplifier: {part: TEST-MATCHED, strapping: \"IN-=vn\"}\n", "holds no matched network"},
+	} {
+		d, err := ParseDesign([]byte(c.src), "s.yaml")
+		if err != nil {
+			t.Fatalf("%s: %v", c.name, err)
+		}
+		if err := d.Resolve(fakeCatalog); err == nil || !strings.Contains(err.Error(), c.want) || !strings.Contains(err.Error(), "amplifier.strapping") {
+			t.Errorf("%s: error %v, want %q at amplifier.strapping", c.name, err, c.want)
+		}
 	}
 }
 
