@@ -108,8 +108,8 @@
 //
 // # Use by a circuit family
 //
-// A family of strapped amplifiers (not wired into the search yet) would use
-// the package so:
+// The family of strapped amplifiers (package family, the family whose
+// Search.Strappings is set) uses the package so:
 //
 //   - Search: for each catalog amplifier with a Network, call Enumerate once
 //     (about 0.2 s for eight pins, BenchmarkEnumerate) and keep the
@@ -141,6 +141,11 @@
 //   - The catalog must carry the network (catalog.Amplifier.Network) from
 //     the store and the importers to the search; a part without one keeps
 //     its front-page gains.
+//   - Part turns a strapping into the family.PartCircuit the family's
+//     netlist is built from (family.Options.Part), so that the budget, the
+//     SPICE decks and the reports take a strapped design like any other.
+//     Only differential strappings are used so far: a single-ended spec
+//     input would need the family to take either kind of input.
 //   - Spec and results: a design names its strapping by Text (JSON: the
 //     amplifier part carries "strapping"); Parse and Evaluate turn it back
 //     into the same Strapping, with errors that name the pin and say what
