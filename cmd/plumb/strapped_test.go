@@ -16,7 +16,7 @@ import (
 // with both inputs of each side in parallel makes gain 2.
 func strappedSnapshot() *catalog.Snapshot {
 	return &catalog.Snapshot{Amplifiers: []catalog.Amplifier{{
-		Part: "ZX-SPL8", Maker: "Zyxel Test Works", Type: catalog.MatchedAmp, Channels: 1, Package: "SOIC-8",
+		Part: "ZX-SPL8", Maker: "Vantorel Analog", Type: catalog.MatchedAmp, Channels: 1, Package: "SOIC-8",
 		SupplyMinV: 4, SupplyMaxV: 36, CMNegV: 1.5, CMPosV: 1.5, SwingNegV: 1, SwingPosV: 1,
 		VosV: 100e-6, VosDriftVK: 1e-6, IbA: 10e-9, IosA: 1e-9, AolVV: 1e6, CMRRdB: 100, GBWHz: 1e6, SlewVs: 1e6,
 		NoiseVHz: 20e-9, NoiseAHz: 0.1e-12, IqA: 1e-3, Gains: []float64{1}, GainErrorMax: 0.0005, GainDriftPPM: 2,

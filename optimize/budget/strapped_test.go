@@ -14,7 +14,7 @@ import (
 // Its front page lists gain 1 only; gain 2 needs a strapping.
 func splitPart() catalog.Amplifier {
 	return catalog.Amplifier{
-		Part: "ZX-SPL8", Maker: "Zyxel Test Works", Type: catalog.MatchedAmp, Channels: 1,
+		Part: "ZX-SPL8", Maker: "Vantorel Analog", Type: catalog.MatchedAmp, Channels: 1,
 		SupplyMinV: 4, SupplyMaxV: 36, CMNegV: 1.5, CMPosV: 1.5, SwingNegV: 1, SwingPosV: 1,
 		VosV: 100e-6, VosDriftVK: 1e-6, IbA: 10e-9, IosA: 1e-9, AolVV: 1e12, CMRRdB: 200, GBWHz: 1e6,
 		NoiseVHz: 20e-9, NoiseAHz: 0.1e-12, Gains: []float64{1}, GainErrorMax: 0.0005, GainDriftPPM: 2,
