@@ -70,7 +70,7 @@ func TestMatchedValidate(t *testing.T) {
 		{"op-amp node off the network", func(n *MatchedNetwork) { n.OpAmpNonInv = "X" }, "network.opamp_noninv: node X"},
 		{"op-amp node empty", func(n *MatchedNetwork) { n.OpAmpOut = "" }, "network.opamp_out: is empty"},
 		{"output unreachable", func(n *MatchedNetwork) { n.Elements[1].B = "SENSE"; n.Pins[3] = "SENSE" }, "network.opamp_out: node OUT joins no element and is no pin"},
-		{"pin off the network", func(n *MatchedNetwork) { n.Pins = append(n.Pins, "SENSE") }, "pin SENSE is not a node"},
+		{"pin off the network", func(n *MatchedNetwork) { n.Pins = append(n.Pins, "SENSE") }, "pin \"SENSE\" is not a node"},
 		{"pin twice", func(n *MatchedNetwork) { n.Pins = append(n.Pins, "OUT") }, "pin OUT is listed twice"},
 		{"no pins", func(n *MatchedNetwork) { n.Pins = nil }, "network.pins"},
 		{"tolerance in percent", func(n *MatchedNetwork) { n.RatioTolerance = 5 }, "network.ratio_tolerance"},
@@ -161,5 +161,39 @@ func TestMatchedStoreAndJSON(t *testing.T) {
 	}
 	if !strings.Contains(csv.String(), "R1 40000 IN-~INV; R2 40000 INV~OUT") || !strings.Contains(csv.String(), ",network,network_tolerance,") {
 		t.Errorf("CSV export lacks the network:\n%s", csv.String())
+	}
+}
+
+// FuzzMatchedText reads a network's text form, and for a network that
+// holds together writes it and reads it again: the same network.
+func FuzzMatchedText(f *testing.F) {
+	f.Add(classicDifference)
+	f.Add("R1 10 kΩ A~B; R2 4.99e3 B~C; amp B A C; pins A C")
+	f.Add("amp; pins; ~; R1 1 ~")
+	f.Fuzz(func(t *testing.T, s string) {
+		n, err := ParseMatchedNetwork(s)
+		if err != nil {
+			if !errors.Is(err, ErrNetworkText) {
+				t.Fatalf("%q: error %v does not wrap ErrNetworkText", s, err)
+			}
+			return
+		}
+		if n.Check() != nil {
+			return
+		}
+		text := FormatMatchedNetwork(n)
+		again, err := ParseMatchedNetwork(text)
+		if err != nil || !SameFigures(again, n) {
+			t.Fatalf("%q -> %q -> %+v (%v), want %+v", s, text, again, err, n)
+		}
+	})
+}
+
+func BenchmarkParseMatchedNetwork(b *testing.B) {
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := ParseMatchedNetwork(classicDifference); err != nil {
+			b.Fatal(err)
+		}
 	}
 }

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"slices"
 	"strings"
+	"unicode"
 
 	"plumb/catalog/units"
 )
@@ -117,6 +118,12 @@ func (n *MatchedNetwork) Check() error {
 	return fmt.Errorf("%w: %s", ErrInvalid, c.problem)
 }
 
+// badNodeText reports whether a name or node holds a character the text
+// form or the store uses as a separator.
+func badNodeText(s string) bool {
+	return strings.ContainsAny(s, ";~,") || strings.IndexFunc(s, unicode.IsSpace) >= 0
+}
+
 // checkMatched checks the network inside a matched amplifier: element
 // values > 0, every element named once and joining two different named
 // nodes, the op-amp's inputs among the element nodes and its output an
@@ -135,6 +142,10 @@ func (c *checker) checkMatched(n *MatchedNetwork) {
 		switch {
 		case strings.TrimSpace(e.Name) == "":
 			c.fail(field, "element %d has no name: name it as the datasheet does (R1, R2, ...)", i+1)
+		case strings.EqualFold(e.Name, "amp") || strings.EqualFold(e.Name, "pins"):
+			c.fail(field, "element %d is named %q, a word of the network's text form: rename it", i+1, e.Name)
+		case badNodeText(e.Name) || badNodeText(e.A) || badNodeText(e.B):
+			c.fail(field, "element %s: names and nodes hold no white space, comma, ';' or '~' (%q, %q)", e.Name, e.A, e.B)
 		case names[e.Name]:
 			c.fail(field, "element name %s appears twice", e.Name)
 		case !(e.Ohms > 0) || e.Ohms > 1e15:
@@ -162,13 +173,16 @@ func (c *checker) checkMatched(n *MatchedNetwork) {
 	if c.err == nil && (n.OpAmpInv == n.OpAmpNonInv || n.OpAmpInv == n.OpAmpOut || n.OpAmpNonInv == n.OpAmpOut) {
 		c.fail(field, "the op-amp's inputs and output must be three different nodes (%s, %s, %s)", n.OpAmpInv, n.OpAmpNonInv, n.OpAmpOut)
 	}
+	if badNodeText(n.OpAmpInv) || badNodeText(n.OpAmpNonInv) || badNodeText(n.OpAmpOut) {
+		c.fail(field, "the op-amp's nodes hold no white space, comma, ';' or '~'")
+	}
 	if len(n.Pins) == 0 {
 		c.fail(field+".pins", "is empty: list the nodes reachable from outside the package")
 	}
 	for i, p := range n.Pins {
 		switch {
 		case !nodes[p]:
-			c.fail(field+".pins", "pin %s is not a node of the network", p)
+			c.fail(field+".pins", "pin %q is not a node of the network", p)
 		case slices.Contains(n.Pins[:i], p):
 			c.fail(field+".pins", "pin %s is listed twice", p)
 		}
