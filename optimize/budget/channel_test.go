@@ -183,13 +183,14 @@ limits: {total_error: 8LSB}
 
 // TestChannelExampleDesign checks the example design of adc-channel.yaml
 // against hand arithmetic: every term of the reference and the ADC from
-// the spec's figures (1 LSB = 1 mV; ±2 + ±2 + ±1 LSB; 1 ppm/K of full
-// scale over the 45 K excursion = 0.18432 LSB; 2 µV/K over 45 K = 90 µV =
-// 0.09 LSB; the shared reference's 0.05 % on the signal's 1.95 V share:
-// 1950 (1/(1-0.0005) - 1) = 0.97549 LSB, and its 10 ppm/K over 45 K on
-// top: 1950 (1/(1-0.00095) - 1/(1-0.0005)) = 0.87877 LSB), the stage's
-// from its own budget with an ideal reference, scaled by |S|/FSR and read
-// against the lowest reference, and the total their sum.
+// the spec's figures and the demo catalog's TP-R41B (4.096 V, 0.05 %,
+// 5 ppm/K): 1 LSB = 1 mV; ±2 + ±2 + ±1 LSB; 1 ppm/K of full scale over the
+// 45 K excursion = 0.18432 LSB; 2 µV/K over 45 K = 90 µV = 0.09 LSB; the
+// shared reference's 0.05 % on the signal's 1.95 V share: 1950 (1/(1 -
+// 0.0005) - 1) = 0.97549 LSB, and its 5 ppm/K over 45 K on top: 1950 (1/(1
+// - 0.000725) - 1/(1 - 0.0005)) = 0.43929 LSB; the stage's from its own
+// budget with an ideal reference, scaled by |S|/FSR and read against the
+// lowest reference; and the total their sum.
 func TestChannelExampleDesign(t *testing.T) {
 	snap, err := data.DemoSnapshot()
 	if err != nil {
@@ -220,12 +221,18 @@ func TestChannelExampleDesign(t *testing.T) {
 		}
 		return 0
 	}
-	u := 1 / (1 - 0.00095)
+	const tol, drift = 0.0005, 5e-6 // TP-R41B
+	u := 1 / (1 - tol - drift*45)
+	if d.Reference == nil || d.Reference.Tolerance != tol || math.Abs(d.Reference.Drift-drift) > 1e-18 {
+		t.Fatalf("design's reference %+v, want TP-R41B's 0.05 %% and 5 ppm/K", d.Reference)
+	}
 	ideal := *s
 	r := *s.Reference
-	r.Tolerance, r.Drift = 0, 0
+	r.Part, r.Tolerance, r.Drift = "", 0, 0
 	ideal.Reference, ideal.ADC = &r, nil
-	stage, err := Evaluate(&ideal, d)
+	bare := *d
+	bare.Reference = nil
+	stage, err := Evaluate(&ideal, &bare)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -235,8 +242,8 @@ func TestChannelExampleDesign(t *testing.T) {
 	}{
 		{"ADC gain error", 2}, {"ADC offset error", 2}, {"ADC INL", 1},
 		{"ADC gain drift", 4096 * 1e-6 * 45}, {"ADC offset drift", 2e-6 * 45 / 1e-3},
-		{"reference (ratiometric: the signal's share) tolerance", 1950 * (1/(1-0.0005) - 1)},
-		{"reference (ratiometric: the signal's share) drift", 1950 * (u - 1/(1-0.0005))},
+		{"reference (ratiometric: the signal's share) tolerance", 1950 * (1/(1-tol) - 1)},
+		{"reference (ratiometric: the signal's share) drift", 1950 * (u - 1/(1-tol))},
 		{"stage gain error", stage.Metrics.GainError * 1950 * u},
 		{"stage offset", stage.Metrics.OutputOffsetV / 1e-3 * u},
 		{"stage noise", 3 * stage.Metrics.NoiseRMSV / 1e-3 * u},
@@ -266,7 +273,12 @@ func TestChannelExampleDesign(t *testing.T) {
 		t.Errorf("ADC input range margin %g V, want between 0 and 96 mV", ch.RangeMarginV)
 	}
 	// The search's allowance holds for the passing design (it prunes only
-	// failing ones).
+	// failing ones), with the reference's figures as the search has them.
+	withRef := *s
+	fr := *s.Reference
+	fr.Part, fr.Tolerance, fr.Drift = "", tol, drift
+	withRef.Reference = &fr
+	s = &withRef
 	al, ok := ChannelAllowance(s)
 	if !ok || stage.Metrics.GainError > al.GainError || stage.Metrics.DriftPPMPerK*1e-6 > al.DriftPerK {
 		t.Errorf("allowance %+v (ok %v) excludes the passing design (gain error %g, drift %g/K)", al, ok, stage.Metrics.GainError, stage.Metrics.DriftPPMPerK*1e-6)

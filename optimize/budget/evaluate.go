@@ -10,6 +10,7 @@ import (
 	"sort"
 	"strings"
 
+	"plumb/catalog/units"
 	"plumb/optimize/spec"
 )
 
@@ -100,6 +101,10 @@ func EvaluateContext(ctx context.Context, s *spec.Spec, d *spec.Design, progress
 	res, err := e.Evaluate(c)
 	if err != nil {
 		return nil, err
+	}
+	if d.Reference != nil && s.Reference != nil {
+		res.Design = append(res.Design, Part{Position: "REF", Part: d.Reference.Part,
+			Grade: fmt.Sprintf("reference %s %s %s", units.Format(s.Reference.V, "V"), units.FormatPercent(s.Reference.Tolerance), units.FormatPPM(1e6*s.Reference.Drift))})
 	}
 	as := d.Assumptions
 	if s.ADC != nil {

@@ -279,7 +279,7 @@ func describe(kind catalog.Kind, v any) (BOMLine, *catalog.Offer, error) {
 		ln.Maker, ln.Part, ln.Value, ln.Tolerance, ln.TCR, ln.Package, ln.Source = p.Maker, p.Part, strings.Join(vals, "/"), p.Tolerance, p.TCR, p.Package, p.Source
 		return ln, &p.Offer, nil
 	case *catalog.Reference:
-		ln.Maker, ln.Part, ln.Value, ln.Tolerance, ln.TCR = p.Maker, p.Part, units.Format(p.OutputV, "V"), p.Tolerance, p.DriftPPM
+		ln.Maker, ln.Part, ln.Value, ln.Tolerance, ln.TCR, ln.Package, ln.Source = p.Maker, p.Part, units.Format(p.OutputV, "V"), p.Tolerance, p.DriftPPM, p.Package, p.Source
 		return ln, &p.Offer, nil
 	case *catalog.Amplifier:
 		ln.Maker, ln.Part, ln.Value, ln.Package, ln.Source = p.Maker, p.Part, string(p.Type), p.Package, p.Source

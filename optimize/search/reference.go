@@ -103,7 +103,10 @@ func solveReferences(s *spec.Spec, refs []refOption, opt Options, solve func(*sp
 			continue
 		}
 		line := br.Lines[0]
-		part := Part{Position: "REF", Kind: string(catalog.KindReference), Part: ref.part, Quantity: 1, Bought: line.Bought, UnitPrice: line.UnitPrice}
+		// A reference's tolerance and drift print in the columns of a
+		// resistor's tolerance and tempco.
+		part := Part{Position: "REF", Kind: string(catalog.KindReference), Part: ref.part, Quantity: 1, Bought: line.Bought, UnitPrice: line.UnitPrice,
+			Tolerance: ref.tol, TCRppm: 1e6 * ref.drift}
 		withRef := func(d *Design, sd *spec.Design) {
 			d.TotalCost += br.Total
 			d.UnitCost += br.PerUnit
@@ -118,11 +121,23 @@ func solveReferences(s *spec.Spec, refs []refOption, opt Options, solve func(*sp
 			withRef(&res.Designs[i], sd)
 			all = append(all, ranked{res.Designs[i], sd})
 		}
-		for i := range res.NearMisses {
-			withRef(&res.NearMisses[i].Design, res.NearMisses[i].sd)
-		}
-		for i := range res.CheapestFailing {
-			withRef(&res.CheapestFailing[i].Design, res.CheapestFailing[i].sd)
+		for _, list := range [][]NearMiss{res.NearMisses, res.CheapestFailing} {
+			for i := range list {
+				nm := &list[i]
+				withRef(&nm.Design, nm.sd)
+				if nm.fixSD != nil && nm.sd != nil {
+					nm.fixSD.Reference = nm.sd.Reference
+				}
+				// A fix keeps the reference: the build's total carries it.
+				if nm.Fix != nil && nm.Fix.TotalCost > 0 {
+					nm.Fix.TotalCost += br.Total
+				}
+				for j := range nm.Alternatives {
+					if nm.Alternatives[j].TotalCost > 0 {
+						nm.Alternatives[j].TotalCost += br.Total
+					}
+				}
+			}
 		}
 		for i := range res.Frontier {
 			withRef(&res.Frontier[i], nil)
