@@ -139,7 +139,7 @@ func renderSolve(explain int) func(ios *IOStreams, b []byte) error {
 		if err := json.Unmarshal(b, &r); err != nil {
 			return err
 		}
-		return writeSolveTable(ios.Out, ios, "Designs for fixture-g10 (100 stages)", &r, explain)
+		return writeSolveTable(ios.Out, ios, "Designs for fixture-g10 (build of 100)", &r, explain)
 	}
 }
 

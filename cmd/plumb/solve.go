@@ -188,7 +188,7 @@ func solveTitle(sp *spec.Spec) string {
 	if sp.About != "" {
 		t += ": " + sp.About
 	}
-	return fmt.Sprintf("%s (%d stages)", t, max(sp.Build.Quantity, 1))
+	return fmt.Sprintf("%s (build of %d)", t, max(sp.Build.Quantity, 1))
 }
 
 // infeasibleError is the error of an infeasible spec; it maps to exit
