@@ -27,7 +27,7 @@ func demo(t *testing.T) (*catalog.Store, *catalog.Snapshot) {
 
 func TestDemoLoads(t *testing.T) {
 	st, snap := demo(t)
-	want := map[string]int{"series": 7, "resistors": 9, "networks": 3, "amplifiers": 12, "references": 7}
+	want := map[string]int{"series": 7, "resistors": 9, "networks": 3, "amplifiers": 13, "references": 7}
 	got := map[string]int{"series": len(snap.ResistorSeries), "resistors": len(snap.Resistors),
 		"networks": len(snap.Networks), "amplifiers": len(snap.Amplifiers), "references": len(snap.References)}
 	for k, n := range want {
@@ -51,7 +51,7 @@ func TestDemoLoads(t *testing.T) {
 	if want := 3*(5*96+1) + (5*192 + 1) + (3*192 + 135) + (3*96 + 30) + (3*24 + 1); stats.SeriesValues != want {
 		t.Errorf("series cover %d values, want %d", stats.SeriesValues, want)
 	}
-	if stats.PriceBreaks != 5*(7+9+3+12+7) {
+	if stats.PriceBreaks != 5*(7+9+3+13+7) {
 		t.Errorf("%d price breaks, want five per part", stats.PriceBreaks)
 	}
 }
@@ -233,6 +233,8 @@ func TestDemoMatchedNetworks(t *testing.T) {
 			ohms["KA-SX2"]["R6"], par(ohms["KA-SX2"]["R4"], ohms["KA-SX2"]["R5"]), "INA with INB, FB to OUT"},
 		{"KA-SX2", 0.5, par(ohms["KA-SX2"]["R3"], ohms["KA-SX2"]["R2"]), ohms["KA-SX2"]["R1"],
 			par(ohms["KA-SX2"]["R6"], ohms["KA-SX2"]["R5"]), ohms["KA-SX2"]["R4"], "INA, INB and FB to OUT, INB+ to REF"},
+		{"KA-SX3", 4, ohms["KA-SX3"]["R3"], ohms["KA-SX3"]["R1"], ohms["KA-SX3"]["R6"], ohms["KA-SX3"]["R4"], "INA, FB to OUT"},
+		{"KA-SX3", 2, ohms["KA-SX3"]["R3"], ohms["KA-SX3"]["R2"], ohms["KA-SX3"]["R6"], ohms["KA-SX3"]["R5"], "INB, FB to OUT"},
 	}
 	for _, tc := range tests {
 		if !(tc.rin > 0) || math.Abs(tc.rf/tc.rin-tc.gain) > 1e-12 || math.Abs(tc.r4/tc.r3-tc.gain) > 1e-12 {
@@ -248,6 +250,37 @@ func TestDemoMatchedNetworks(t *testing.T) {
 			t.Errorf("%s does not list gain %g", tc.part, tc.gain)
 		}
 	}
+}
+
+// TestDemoStrappedOnlyGain checks by hand the gain the strapped-gain
+// example needs: KA-SX3 with both input pairs tied (INA- with INB-, INA+
+// with INB+) and FB to OUT is a difference amplifier of Rf = R3 and
+// Rin = R1||R2, R4/R3 matched on the other side, so its gain is
+// 40k/(10k||20k) = 40k/6.667k = 6 (any op-amp textbook's difference
+// amplifier), a gain its front page does not list.
+func TestDemoStrappedOnlyGain(t *testing.T) {
+	_, snap := demo(t)
+	for _, a := range snap.Amplifiers {
+		if a.Part != "KA-SX3" {
+			continue
+		}
+		r := map[string]float64{}
+		for _, e := range a.Network.Elements {
+			r[e.Name] = e.Ohms
+		}
+		par := func(x, y float64) float64 { return x * y / (x + y) }
+		if g := r["R3"] / par(r["R1"], r["R2"]); math.Abs(g-6) > 1e-12 {
+			t.Errorf("KA-SX3 inputs tied: R3/(R1||R2) = %g, want 6", g)
+		}
+		if g := r["R6"] / par(r["R4"], r["R5"]); math.Abs(g-6) > 1e-12 {
+			t.Errorf("KA-SX3 inputs tied: R6/(R4||R5) = %g, want 6", g)
+		}
+		if slices.Contains(a.Gains, 6) {
+			t.Errorf("KA-SX3 lists gain 6; the strapped-gain example needs a gain only a strapping reaches")
+		}
+		return
+	}
+	t.Fatal("the demo catalog has no KA-SX3")
 }
 
 // TestDemoReferences checks the demo's references are plausible: each
