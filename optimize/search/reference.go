@@ -21,6 +21,32 @@ type refOption struct {
 	v, tol, drift float64 // V, fraction, fraction per K
 	offer         catalog.Offer
 	assumed       []assume.Assumption
+	// unusable says why the reference cannot run from the spec's supply
+	// ("" when it can); such a reference is named in a note, not searched.
+	unusable string
+}
+
+// refSupplyProblem says why reference r cannot run from the spec's positive
+// rail vplus (V, from ground, as the stage's reference is referred): below
+// its minimum input voltage, or its output voltage plus its dropout, or
+// above its maximum input; with none of those figures known, not above its
+// output voltage, which no reference makes from a lower input (common
+// practice: a series reference needs headroom over its output, a shunt
+// reference a feed resistor from a higher rail). It returns "" when r can
+// run.
+func refSupplyProblem(r catalog.Reference, vplus float64) string {
+	v := func(x float64) string { return units.Format(x, "V") }
+	switch {
+	case catalog.Known(r.SupplyMinV) && vplus < r.SupplyMinV:
+		return fmt.Sprintf("%s needs at least %s in; the positive rail is %s", r.Part, v(r.SupplyMinV), v(vplus))
+	case catalog.Known(r.SupplyMaxV) && vplus > r.SupplyMaxV:
+		return fmt.Sprintf("%s takes at most %s in; the positive rail is %s", r.Part, v(r.SupplyMaxV), v(vplus))
+	case catalog.Known(r.DropoutV) && vplus < r.OutputV+r.DropoutV:
+		return fmt.Sprintf("%s needs %s in (its output plus %s dropout); the positive rail is %s", r.Part, v(r.OutputV+r.DropoutV), v(r.DropoutV), v(vplus))
+	case vplus <= r.OutputV:
+		return fmt.Sprintf("%s cannot make %s from a positive rail of %s", r.Part, v(r.OutputV), v(vplus))
+	}
+	return ""
 }
 
 // refOptions lists the references of the catalog of the spec's voltage,
@@ -33,7 +59,8 @@ func refOptions(refs []catalog.Reference, s *spec.Spec, c *cost.Converter) []ref
 		if math.Abs(r.OutputV-s.Reference.V) > spec.RefVoltageMatch*s.Reference.V {
 			continue
 		}
-		o := refOption{part: r.Part, v: r.OutputV, tol: r.Tolerance, drift: r.DriftPPM * 1e-6, offer: r.Offer}
+		o := refOption{part: r.Part, v: r.OutputV, tol: r.Tolerance, drift: r.DriftPPM * 1e-6, offer: r.Offer,
+			unusable: refSupplyProblem(r, s.Supply.Max)}
 		if c != nil {
 			conv, ok := c.Offer(r.Part, r.Offer)
 			if !ok {
@@ -65,9 +92,20 @@ func solveReferences(s *spec.Spec, refs []refOption, opt Options, solve func(*sp
 	if s.Assumptions == spec.AssumeStrict {
 		refs = slices.DeleteFunc(refs, func(r refOption) bool { return len(r.assumed) > 0 })
 	}
+	var unusable []string
+	refs = slices.DeleteFunc(refs, func(r refOption) bool {
+		if r.unusable != "" {
+			unusable = append(unusable, r.unusable)
+		}
+		return r.unusable != ""
+	})
 	if len(refs) == 0 {
-		return nil, fmt.Errorf("%w: reference.part auto: the catalog has no reference of %s%s; add one, or give the reference's figures instead of part: auto",
-			ErrProblem, units.Format(s.Reference.V, "V"), map[bool]string{true: " with every figure given (assumptions: strict)"}[s.Assumptions == spec.AssumeStrict])
+		why := ""
+		if len(unusable) > 0 {
+			why = " that runs from the spec's supply (" + strings.Join(unusable, "; ") + ")"
+		}
+		return nil, fmt.Errorf("%w: reference.part auto: the catalog has no reference of %s%s%s; add one, raise the supply, or give the reference's figures instead of part: auto",
+			ErrProblem, units.Format(s.Reference.V, "V"), map[bool]string{true: " with every figure given (assumptions: strict)"}[s.Assumptions == spec.AssumeStrict], why)
 	}
 	b, err := cost.BuildOf(s.Build)
 	if err != nil {
@@ -153,6 +191,9 @@ func solveReferences(s *spec.Spec, refs []refOption, opt Options, solve func(*sp
 	}
 	if base == nil {
 		return nil, fmt.Errorf("%w: reference.part auto: no reference of %s could be priced", ErrProblem, units.Format(s.Reference.V, "V"))
+	}
+	if len(unusable) > 0 {
+		base.Notes = append(base.Notes, fmt.Sprintf("%d reference(s) of %s left out by the supply: %s", len(unusable), units.Format(s.Reference.V, "V"), strings.Join(unusable, "; ")))
 	}
 	if len(all) == 0 {
 		return base, baseErr

@@ -4,6 +4,8 @@ import (
 	"context"
 	"math"
 	"path/filepath"
+	"slices"
+	"strings"
 	"testing"
 
 	"plumb/catalog"
@@ -169,5 +171,61 @@ func TestReferencePickedFromStore(t *testing.T) {
 	}
 	if !res.Pass || math.Abs(res.Metrics.TotalErrorFS-fromStore.Designs[0].Metrics.TotalErrorFS) > 1e-15 {
 		t.Errorf("the design written and read back: pass %v, total error %g FS against %g", res.Pass, res.Metrics.TotalErrorFS, fromStore.Designs[0].Metrics.TotalErrorFS)
+	}
+}
+
+// TestReferenceSupply: a reference the spec's positive rail cannot run is
+// left out of the pick and named in a note. A series reference needs its
+// minimum input voltage, and at least its output plus its dropout, and no
+// more than its maximum input; with none of those known, more than its
+// output (no reference makes a voltage from a lower input: common
+// practice).
+func TestReferenceSupply(t *testing.T) {
+	u := catalog.Unknown()
+	tests := []struct {
+		name                  string
+		out, smin, smax, drop float64
+		vplus                 float64
+		want                  string
+	}{
+		{"runs", 4.096, 4.5, 18, u, 5, ""},
+		{"below its minimum input", 5, 5.3, 15, u, 5, "needs at least 5.3 V in"},
+		{"above its maximum input", 2.5, 3, 5.5, u, 12, "takes at most 5.5 V in"},
+		{"inside its dropout", 4.096, u, u, 0.2, 4.2, "needs 4.296 V in"},
+		{"at its dropout", 4.096, u, u, 0.2, 4.296, ""},
+		{"nothing known, rail at the output", 5, u, u, u, 5, "cannot make 5 V"},
+		{"nothing known, rail above", 2.5, u, u, u, 5, ""},
+	}
+	for _, tc := range tests {
+		r := catalog.Reference{Part: "TST-R", OutputV: tc.out, SupplyMinV: tc.smin, SupplyMaxV: tc.smax, DropoutV: tc.drop}
+		got := refSupplyProblem(r, tc.vplus)
+		if (tc.want == "") != (got == "") || !strings.Contains(got, tc.want) {
+			t.Errorf("%s: %q, want %q", tc.name, got, tc.want)
+		}
+	}
+
+	// End to end: the tight grade needs 7 V in, the adc-channel spec's
+	// rail is 5 V, so the pick is among the other two and a note says why.
+	snap := demoSnapshot(t)
+	snap.References = testRefs()
+	snap.References[2].SupplyMinV = 7
+	s, err := spec.Load(filepath.Join("..", "..", "data", "examples", "adc-channel.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	s.Reference.Part, s.Reference.Tolerance, s.Reference.Drift = spec.RefAuto, 0, 0
+	r, err := Solve(context.Background(), snap, s, Options{Top: 5})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, d := range r.Designs {
+		for _, p := range d.Parts {
+			if p.Part == "TST-REF-TIGHT" {
+				t.Errorf("design %d uses TST-REF-TIGHT, which cannot run from 5 V", d.Rank)
+			}
+		}
+	}
+	if !slices.ContainsFunc(r.Notes, func(n string) bool { return strings.Contains(n, "TST-REF-TIGHT needs at least 7 V in") }) {
+		t.Errorf("no note names the reference left out by the supply: %q", r.Notes)
 	}
 }
