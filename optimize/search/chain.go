@@ -157,8 +157,7 @@ func solveChain(ctx context.Context, s *spec.Spec, opt Options, solveStage func(
 func stageLists(ctx context.Context, s *spec.Spec, opt Options, solveStage func(context.Context, *spec.Spec, Options) (*Result, error), res *ChainResult) ([][]candidate, error) {
 	lists := make([][]candidate, len(s.Stages))
 	for i := range s.Stages {
-		sub := s.StageSpec(i)
-		sub.Limits = s.StageLimits(i)
+		sub := s.StageProblem(i)
 		o := opt
 		o.Top, o.Frontier = MaxTop, false
 		r, err := solveStage(ctx, sub, o)
@@ -268,4 +267,35 @@ func chainDesign(s *spec.Spec, cs []candidate) (*ChainDesign, error) {
 		cd.Limits = append(cd.Limits, Limit{Name: l.Name, Value: l.Value, Limit: l.Limit, Margin: l.Margin, Pass: l.Pass, Unit: l.Unit, MarginText: l.MarginText})
 	}
 	return cd, nil
+}
+
+// CheckedStage is one stage of a chain design given by hand: its family,
+// its build cost (package cost's BOM of the stage), its parts and its
+// exact budget under the stage's spec (spec.Spec.StageProblem).
+type CheckedStage struct {
+	Family    string
+	TotalCost float64
+	UnitCost  float64
+	Currency  string
+	Parts     []Part
+	Budget    *budget.Result
+}
+
+// CheckChain judges a chain design given by hand exactly as the search
+// judges a pair of candidates (chainDesign): the stages' budgets combined
+// by budget.Cascade against the chain's limits, the costs summed. The
+// result has rank 0.
+func CheckChain(s *spec.Spec, stages []CheckedStage) (*ChainDesign, error) {
+	if len(stages) != len(s.Stages) {
+		return nil, fmt.Errorf("%w: spec %s has %d stages, the design %d", ErrProblem, s.Name, len(s.Stages), len(stages))
+	}
+	cs := make([]candidate, len(stages))
+	for i, st := range stages {
+		if st.Budget == nil {
+			return nil, fmt.Errorf("%w: stage %d has no budget", ErrProblem, i+1)
+		}
+		cs[i] = candidate{d: &Design{Family: st.Family, TotalCost: st.TotalCost, UnitCost: st.UnitCost, Currency: st.Currency,
+			Parts: st.Parts, Metrics: metricsOf(st.Budget.Metrics)}, br: st.Budget}
+	}
+	return chainDesign(s, cs)
 }

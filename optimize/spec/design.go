@@ -134,7 +134,14 @@ type Design struct {
 	// catalog does not give, taken at their documented defaults when
 	// Resolve looked the parts up.
 	Assumptions []assume.Assumption `json:"assumptions,omitempty"`
+	// Stages are the designs of a chain's stages, first to last (for a
+	// spec with stages); the design's own family, positions and amplifier
+	// are then empty.
+	Stages []*Design `json:"stages,omitempty"`
 }
+
+// IsChain reports whether the design lists stages.
+func (d *Design) IsChain() bool { return len(d.Stages) > 0 }
 
 // Position returns the named position or nil.
 func (d *Design) Position(name string) *Position {
@@ -154,6 +161,7 @@ type rawDesign struct {
 	Positions map[string]rawPosition `yaml:"positions,omitempty"`
 	Amplifier rawAmp                 `yaml:"amplifier,omitempty"`
 	Reference *rawDesignRef          `yaml:"reference,omitempty"`
+	Stages    []rawDesign            `yaml:"stages,omitempty"`
 }
 
 type rawElement struct {
@@ -219,6 +227,55 @@ func ParseDesign(data []byte, name string) (*Design, error) {
 	if err != nil {
 		return nil, err
 	}
+	if len(r.Stages) > 0 {
+		return parseChainDesign(p, &r, name)
+	}
+	d := parseStageDesign(p, &r, name)
+	if err := p.err(); err != nil {
+		return nil, err
+	}
+	return d, nil
+}
+
+// parseChainDesign reads a design that lists stages: each stage is a
+// one-stage design (family, options, positions, amplifier, reference)
+// under stages[i], its errors located there.
+func parseChainDesign(p *problems, r *rawDesign, name string) (*Design, error) {
+	for _, f := range []struct {
+		name  string
+		given bool
+	}{{"family", r.Family != ""}, {"options", r.Options != (Options{})}, {"positions", len(r.Positions) > 0},
+		{"amplifier", r.Amplifier != (rawAmp{})}, {"reference", r.Reference != nil}} {
+		if f.given {
+			p.add(f.name, "given together with stages; a chain's design gives it per stage, under stages")
+		}
+	}
+	if len(r.Stages) != ChainStages {
+		p.add("stages", "lists %d stages; a chain's design takes %d (one design per stage of the spec, first to last)", len(r.Stages), ChainStages)
+	}
+	d := &Design{Name: r.Name, SourceFile: name}
+	for i := range r.Stages {
+		rs := &r.Stages[i]
+		if len(rs.Stages) > 0 {
+			p.add(fmt.Sprintf("stages[%d].stages", i), "a stage cannot list stages of its own")
+			continue
+		}
+		p.prefix = fmt.Sprintf("stages[%d].", i)
+		st := parseStageDesign(p, rs, name)
+		p.prefix = ""
+		if st.Name == "" {
+			st.Name = fmt.Sprintf("%s stage %d", r.Name, i+1)
+		}
+		d.Stages = append(d.Stages, st)
+	}
+	if err := p.err(); err != nil {
+		return nil, err
+	}
+	return d, nil
+}
+
+// parseStageDesign reads the one-stage design r, adding its problems to p.
+func parseStageDesign(p *problems, r *rawDesign, name string) *Design {
 	d := &Design{Name: r.Name, Family: r.Family, Options: r.Options, SourceFile: name}
 	switch {
 	case r.Family == "":
@@ -255,10 +312,7 @@ func ParseDesign(data []byte, name string) (*Design, error) {
 		}
 	}
 	d.Reference = parseDesignRef(p, r.Reference)
-	if err := p.err(); err != nil {
-		return nil, err
-	}
-	return d, nil
+	return d
 }
 
 func parsePosition(p *problems, path, name string, r rawPosition) Position {
@@ -458,6 +512,20 @@ type Lookup func(part string) (catalog.Kind, any, error)
 // lookup. All problems are reported together and nothing is changed unless
 // every reference resolves.
 func (d *Design) Resolve(lookup Lookup) error {
+	if d.IsChain() {
+		// Each stage resolves on a copy, so that nothing changes unless
+		// every stage resolves.
+		stages := make([]*Design, len(d.Stages))
+		for i, st := range d.Stages {
+			c := *st
+			if err := c.Resolve(lookup); err != nil {
+				return fmt.Errorf("stage %d: %w", i+1, err)
+			}
+			stages[i] = &c
+		}
+		d.Stages = stages
+		return nil
+	}
 	p := &problems{kind: "design", file: d.SourceFile}
 	// The one place a design's catalog parts enter: unknown figures get
 	// their documented defaults, and the design lists them.
@@ -585,6 +653,14 @@ func deref[T any](v any) T {
 // Unresolved lists the references still waiting for catalog figures.
 func (d *Design) Unresolved() []string {
 	var out []string
+	if d.IsChain() {
+		for i, st := range d.Stages {
+			for _, u := range st.Unresolved() {
+				out = append(out, fmt.Sprintf("stage %d %s", i+1, u))
+			}
+		}
+		return out
+	}
 	for _, pos := range d.Positions {
 		for _, e := range pos.Elements {
 			if !e.Resolved {

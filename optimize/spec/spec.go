@@ -188,6 +188,9 @@ type problems struct {
 	index      *docIndex
 	// more counts the problems past maxProblems, which are not kept.
 	more int
+	// prefix is put before every field path: a stage of a chain's design
+	// is read by the one-stage code under "stages[i].".
+	prefix string
 }
 
 // maxProblems is how many problems one file reports: past it, a count.
@@ -195,6 +198,9 @@ type problems struct {
 const maxProblems = 50
 
 func (p *problems) add(field, format string, args ...any) {
+	if p.prefix != "" {
+		field = strings.TrimSuffix(p.prefix+field, ".")
+	}
 	line, col := p.index.position(field)
 	p.addAt(field, line, col, format, args...)
 }
@@ -259,6 +265,7 @@ func (p *problems) failed(fields ...string) bool {
 			continue
 		}
 		for _, f := range fields {
+			f = strings.TrimSuffix(p.prefix+f, ".")
 			if fe.Field == f || strings.HasPrefix(fe.Field, f+".") || strings.HasPrefix(fe.Field, f+"[") {
 				return true
 			}

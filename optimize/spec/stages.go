@@ -172,6 +172,14 @@ func (s *Spec) StageSpec(i int) *Spec {
 	return &sub
 }
 
+// StageProblem is stage i of a chain as the chain's search and check
+// judge it alone: StageSpec with StageLimits.
+func (s *Spec) StageProblem(i int) *Spec {
+	sub := s.StageSpec(i)
+	sub.Limits = s.StageLimits(i)
+	return sub
+}
+
 // StageLimits are limits on stage i of a chain that every chain design
 // meeting the chain's limits also meets, so that a search of each stage
 // under them loses no passing chain (the chain's cascade equations, in
