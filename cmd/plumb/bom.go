@@ -71,6 +71,9 @@ func runBOM(ctx context.Context, opts *bomOptions) error {
 	if err != nil {
 		return err
 	}
+	if err := oneStageDesign("bom", opts.Design, d); err != nil {
+		return err
+	}
 	build := cost.Build{Quantity: 1}
 	if opts.Spec != "" {
 		sp, err := loadSpecArg(opts.Spec)

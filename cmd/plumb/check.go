@@ -14,6 +14,7 @@ import (
 	"plumb/catalog"
 	"plumb/catalog/units"
 	"plumb/optimize/budget"
+	"plumb/optimize/cost"
 	"plumb/optimize/family"
 	"plumb/optimize/spec"
 )
@@ -29,6 +30,9 @@ type checkOptions struct {
 	Design  string
 	Format  string
 	Quiet   bool
+	// Rates are the exchange rates of the configuration (currency.rates),
+	// for the cost of a chain's design.
+	Rates cost.Rates
 }
 
 func newCheckCmd(f *Factory, runF func(*checkOptions) error) *cobra.Command {
@@ -43,10 +47,15 @@ the margin and pass or fail, then each limit's contributors from largest to
 smallest, then cautions and notes. Parts named in the design are looked up
 in the catalog. SPEC and DESIGN are files or names of embedded examples.
 
+For a spec with stages, DESIGN lists one design per stage under stages;
+each stage is budgeted under its stage spec as the search takes it, priced
+for the build, and the chain's figures and limits follow from the cascade.
+
 A design that fails a limit makes plumb exit with code 1 after printing the
 budget.`,
 		Example: `  plumb check logger-channel --design logger-design
-  plumb check attenuator --design attenuator-design --format json`,
+  plumb check attenuator --design attenuator-design --format json
+  plumb check two-stage --design two-stage-design`,
 		Args: exactArgs("SPEC"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			opts.Spec = args[0]
@@ -58,6 +67,7 @@ budget.`,
 				return err
 			}
 			opts.Quiet = f.Quiet
+			opts.Rates = f.Settings().Rates
 			if runF != nil {
 				return runF(opts)
 			}
@@ -74,12 +84,12 @@ func runCheck(ctx context.Context, opts *checkOptions) error {
 	if err != nil {
 		return err
 	}
-	if err := oneStage("check", sp); err != nil {
-		return err
-	}
 	d, err := loadDesignArg(opts.Design)
 	if err != nil {
 		return err
+	}
+	if sp.IsChain() || d.IsChain() {
+		return runCheckChain(ctx, opts, sp, d)
 	}
 	if len(d.Unresolved()) > 0 {
 		st, err := opts.Catalog(ctx)

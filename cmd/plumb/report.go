@@ -94,6 +94,9 @@ func runReport(ctx context.Context, opts *reportOptions) error {
 		if in.Design, err = loadDesignArg(opts.Design); err != nil {
 			return err
 		}
+		if err := oneStageDesign("report", opts.Design, in.Design); err != nil {
+			return err
+		}
 	}
 	// Refuse before the work, not after it; the plot files of a Markdown
 	// report are checked once their names are known.

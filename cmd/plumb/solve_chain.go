@@ -57,6 +57,15 @@ func oneStage(command string, sp *spec.Spec) error {
 	return nil
 }
 
+// oneStageDesign refuses a chain's design (one with stages) for a command
+// that handles one stage only.
+func oneStageDesign(command, name string, d *spec.Design) error {
+	if d.IsChain() {
+		return fmt.Errorf("%s %s: the design lists stages, which %s does not take yet; give one stage's design, or use plumb check for a chain", command, name, command)
+	}
+	return nil
+}
+
 var chainCSVHeader = []string{"rank", "stage", "family", "position", "part", "total_cost", "unit_cost", "currency"}
 
 // chainCSVRows lists every part of every stage of every ranked chain.
@@ -79,40 +88,53 @@ func writeChainTable(w io.Writer, ios *IOStreams, title string, res *search.Chai
 	for _, line := range wrapWords(title, 96) {
 		fmt.Fprintln(w, ios.Bold(escapeText(line, "")))
 	}
-	for _, d := range res.Designs {
-		fmt.Fprintf(w, "\n%s\n", ios.Bold(fmt.Sprintf("Chain %d: %s %.4g per unit, %.6g the build; binding: %s", d.Rank, d.Currency, d.UnitCost, d.TotalCost, d.Binding)))
-		for _, s := range d.Stages {
-			var parts []string
-			for _, p := range s.Parts {
-				parts = append(parts, p.Position+" "+p.Part)
-			}
-			fmt.Fprintf(w, "  stage %d  %s, gain %g, %s %.4g per unit\n", s.Stage, s.Family, s.Gain, d.Currency, s.UnitCost)
-			for _, line := range wrapWords(strings.Join(parts, ", "), 88) {
-				fmt.Fprintf(w, "      %s\n", escapeText(line, ""))
-			}
-			figs := fmt.Sprintf("gain error %s, drift %s, offset %s, CM error %s, CMRR %s, noise %s",
-				budget.FormatFigure(s.Metrics.GainError, ""), budget.FormatFigure(s.Metrics.DriftPPMPerK, "ppm/K"),
-				budget.FormatFigure(s.Metrics.OutputOffsetV, "V"), budget.FormatFigure(s.CommonModeErrorV, "V"),
-				budget.FormatFigure(s.Metrics.CMRRdB, "dB"), budget.FormatFigure(s.Metrics.NoiseRMSV, "V"))
-			for _, line := range wrapWords(figs, 88) {
-				fmt.Fprintf(w, "      %s\n", line)
-			}
-		}
-		fmt.Fprintf(w, "  chain    gain %.6g\n", d.Metrics.Gain)
-		for _, l := range d.Limits {
-			mark := "ok  "
-			if !l.Pass {
-				mark = "FAIL"
-			}
-			fmt.Fprintf(w, "    %s %-16s %12s  limit %12s  %s\n", mark, l.Name, budget.FormatFigure(l.Value, l.Unit), budget.FormatFigure(l.Limit, l.Unit), l.MarginText)
-		}
+	for i := range res.Designs {
+		d := &res.Designs[i]
+		writeChainDesign(w, ios, fmt.Sprintf("Chain %d: %s %.4g per unit, %.6g the build; binding: %s", d.Rank, d.Currency, d.UnitCost, d.TotalCost, d.Binding), d)
 	}
 	if res.Infeasible != "" {
 		fmt.Fprintf(w, "\nNo chain passes: %s\n", res.Infeasible)
 	}
-	if len(res.Notes) > 0 {
+	writeChainNotes(w, res.Notes)
+}
+
+// writeChainDesign prints one chain under heading: per stage its family,
+// parts and own figures, then the chain's gain and each chain limit with
+// its value, limit, margin and pass or fail.
+func writeChainDesign(w io.Writer, ios *IOStreams, heading string, d *search.ChainDesign) {
+	fmt.Fprintf(w, "\n%s\n", ios.Bold(heading))
+	for _, s := range d.Stages {
+		var parts []string
+		for _, p := range s.Parts {
+			parts = append(parts, p.Position+" "+p.Part)
+		}
+		fmt.Fprintf(w, "  stage %d  %s, gain %g, %s %.4g per unit\n", s.Stage, s.Family, s.Gain, d.Currency, s.UnitCost)
+		for _, line := range wrapWords(strings.Join(parts, ", "), 88) {
+			fmt.Fprintf(w, "      %s\n", escapeText(line, ""))
+		}
+		figs := fmt.Sprintf("gain error %s, drift %s, offset %s, CM error %s, CMRR %s, noise %s",
+			budget.FormatFigure(s.Metrics.GainError, ""), budget.FormatFigure(s.Metrics.DriftPPMPerK, "ppm/K"),
+			budget.FormatFigure(s.Metrics.OutputOffsetV, "V"), budget.FormatFigure(s.CommonModeErrorV, "V"),
+			budget.FormatFigure(s.Metrics.CMRRdB, "dB"), budget.FormatFigure(s.Metrics.NoiseRMSV, "V"))
+		for _, line := range wrapWords(figs, 88) {
+			fmt.Fprintf(w, "      %s\n", line)
+		}
+	}
+	fmt.Fprintf(w, "  chain    gain %.6g\n", d.Metrics.Gain)
+	for _, l := range d.Limits {
+		mark := "ok  "
+		if !l.Pass {
+			mark = "FAIL"
+		}
+		fmt.Fprintf(w, "    %s %-16s %12s  limit %12s  %s\n", mark, l.Name, budget.FormatFigure(l.Value, l.Unit), budget.FormatFigure(l.Limit, l.Unit), l.MarginText)
+	}
+}
+
+// writeChainNotes prints a chain's notes as a list.
+func writeChainNotes(w io.Writer, notes []string) {
+	if len(notes) > 0 {
 		fmt.Fprintln(w, "\nNotes:")
-		for _, n := range res.Notes {
+		for _, n := range notes {
 			for i, line := range wrapWords(n, 94) {
 				lead := "- "
 				if i > 0 {
