@@ -132,18 +132,16 @@ func exactShortfall(ls []Limit) float64 {
 // shortfall is exactShortfall of screening metrics m as a sum of logs (0:
 // passes), without allocating.
 func (s *space) shortfall(m *metrics) float64 {
-	var k tieKey
-	s.margins(m, &k)
 	sum := 0.0
-	for _, mg := range k.margins {
-		if mg >= 1 {
-			break
+	s.eachMargin(m, 0, 0, 0, func(mg float64, _ bool) {
+		switch {
+		case mg >= 1:
+		case !(mg > 0):
+			sum = math.Inf(1)
+		default:
+			sum -= math.Log(mg)
 		}
-		if !(mg > 0) {
-			return math.Inf(1)
-		}
-		sum -= math.Log(mg)
-	}
+	})
 	return sum
 }
 

@@ -7,43 +7,75 @@ import (
 )
 
 // tieKey orders designs of equal cost by their normalised margins, worst
-// first: the larger worst margin ranks first; where the worst margins agree
-// (a limit no value choice moves, such as a drift set by the tempcos) the
-// next-worst decides, and so on; then the lower resistor power stress, then
-// the lower voltage stress. Margins are the screening figures' limit/value
-// for a maximum, value/limit for a minimum (the linear ratio for dB), and
-// 1/stress for the resistor power and voltage ratings, so a resistor near
-// its derated power counts as a thin margin like any limit. A spec without
-// a gain-error limit (and no gain calibration) compares the ratio's
-// quantization |k0/k - 1| before anything else: the gain asked for comes
-// first when no limit says how near it must be.
+// first, compared in two tiers. The material tier rounds each limit's
+// margin to a step that means something in that limit's unit (tieStepDB of
+// headroom for a dB limit, tieStepFrac of the limit for the others): the
+// larger worst rounded margin ranks first, where the worst agree the
+// next-worst decides, and so on. Only where every rounded margin agrees
+// does the fine tier compare the margins themselves (to tieTol, so that
+// rounding in the screening figures does not decide), then the lower
+// resistor power stress, then the lower voltage stress. A negligible
+// difference on one limit (0.006 dB of CMRR) thus never outweighs a
+// material one on another (a third less gain error).
+//
+// Margins are the screening figures' limit/value for a maximum, value/limit
+// for a minimum (the input impedance included), the linear ratio for dB,
+// and 1/stress for the resistor power and voltage ratings, so a resistor
+// near its derated power counts as a thin margin like any limit. A spec
+// without a gain-error limit (and no gain calibration) compares the ratio's
+// quantization |k0/k - 1|, in steps of tieQuantStep, before anything else:
+// the gain asked for comes first when no limit says how near it must be.
+//
+// Every tier is a vector computed from the design alone and compared
+// lexicographically with exact comparisons, so better is a strict weak
+// ordering (irreflexive, asymmetric, transitive, with transitive ties):
+// sorting with it is deterministic and independent of the input order. A
+// tolerance applied pairwise (|x-y| < tol counts as equal) would not be:
+// x ~ y and y ~ z do not give x ~ z. The price of rounding is that two
+// margins a hair apart can fall either side of a step; they then differ by
+// one step, the least difference the tier can see.
 type tieKey struct {
-	margins        [numTieMargins]float64 // ascending, +Inf past the limits set
-	power, voltage float64
-	quant          float64 // |k0/k - 1| without a gain-error limit (else 0)
+	material [numTieMargins]float64 // rounded margins, ascending, +Inf past the limits set
+	fine     [numTieMargins]float64 // log margins in units of tieTol, ascending
+	power    float64
+	voltage  float64
+	quant    float64 // |k0/k - 1| in units of tieQuantStep without a gain-error limit (else 0)
+	zin      float64 // input impedance over its limit (0: no limit or no model)
 }
 
-// numTieMargins holds every screening limit and the two ratings.
-const numTieMargins = 12
+// numTieMargins holds every screening limit, the input impedance and the
+// two ratings.
+const numTieMargins = 13
 
-// tieTol is the relative difference below which two margins count as equal,
-// so that rounding in the screening figures does not decide a tie that the
+// The steps of the material tier. A tenth of a dB is the resolution a CMRR
+// or rejection figure is quoted to on a datasheet (common practice), and
+// 1 % of the limit is the same size on a linear scale (0.1 dB is 1.16 %):
+// nearer than that, two designs meet a limit equally well for a review.
+const (
+	tieStepDB   = 0.1  // dB of headroom over a dB limit
+	tieStepFrac = 0.01 // fraction of a linear limit (value/limit, limit/value for a minimum)
+)
+
+// tieTol is the relative difference the fine tier rounds margins to, so
+// that rounding in the screening figures does not decide a tie that the
 // next margin should.
 const tieTol = 1e-6
 
+// tieQuantStep is the ratio error below which two values' quantizations
+// count as equal without a gain-error limit: 1 ppm of gain, far below any
+// resistor's tolerance.
+const tieQuantStep = 1e-6
+
 // better reports whether a should rank before b among equal costs.
 func (a tieKey) better(b tieKey) bool {
-	if math.Abs(a.quant-b.quant) > tieTol*math.Max(a.quant, b.quant) {
+	if a.quant != b.quant {
 		return a.quant < b.quant
 	}
-	for i := range a.margins {
-		x, y := a.margins[i], b.margins[i]
-		if math.IsInf(x, 1) && math.IsInf(y, 1) {
-			break
-		}
-		if math.Abs(x-y) > tieTol*math.Max(math.Abs(x), math.Abs(y)) {
-			return x > y
-		}
+	if c := compareMargins(&a.material, &b.material); c != 0 {
+		return c > 0
+	}
+	if c := compareMargins(&a.fine, &b.fine); c != 0 {
+		return c > 0
 	}
 	if a.power != b.power {
 		return a.power < b.power
@@ -51,22 +83,35 @@ func (a tieKey) better(b tieKey) bool {
 	return a.voltage < b.voltage
 }
 
-// margins fills k.margins with the normalised margins of screening metrics
-// m over the problem's limits and of the stresses in k, sorted ascending.
-func (s *space) margins(m *metrics, k *tieKey) {
-	l := &s.p.Limits
-	n := 0
-	add := func(v float64) {
-		k.margins[n] = v
-		n++
+// compareMargins compares ascending margin vectors lexicographically: +1
+// when x has the larger margin at the first place they differ, -1 when y
+// has, 0 when they agree.
+func compareMargins(x, y *[numTieMargins]float64) int {
+	for i := range x {
+		switch {
+		case x[i] > y[i]:
+			return 1
+		case x[i] < y[i]:
+			return -1
+		case math.IsInf(x[i], 1):
+			return 0 // both past the limits set
+		}
 	}
+	return 0
+}
+
+// eachMargin calls f with the normalised margin of each limit set (see
+// tieKey), db true for a limit in dB, for screening metrics m, input
+// impedance margin zin (0: none) and resistor stresses power and voltage.
+func (s *space) eachMargin(m *metrics, zin, power, voltage float64, f func(margin float64, db bool)) {
+	l := &s.p.Limits
 	max := func(v, lim float64) {
 		switch {
 		case lim <= 0:
 		case v > 0:
-			add(lim / v)
+			f(lim/v, false)
 		default:
-			add(math.Inf(1))
+			f(math.Inf(1), false)
 		}
 	}
 	max(m.totalErr, l.TotalGainError)
@@ -77,20 +122,69 @@ func (s *space) margins(m *metrics, k *tieKey) {
 	max(m.noise, l.NoiseDensity)
 	max(m.noiseRMS, l.NoiseRMS)
 	if l.CMRRdB > 0 {
-		add(math.Pow(10, (m.cmrrDB-l.CMRRdB)/20))
+		f(math.Pow(10, (m.cmrrDB-l.CMRRdB)/20), true)
 	}
 	if s.p.BandwidthHz > 0 {
-		add(m.bw / s.p.BandwidthHz)
+		f(m.bw/s.p.BandwidthHz, false)
 	}
-	max(k.power, 1)
-	max(k.voltage, 1)
+	if zin > 0 {
+		f(zin, false)
+	}
+	max(power, 1)
+	max(voltage, 1)
+}
+
+// margins fills k's margin vectors from screening metrics m and the
+// stresses and input impedance already in k.
+func (s *space) margins(m *metrics, k *tieKey) {
+	n := 0
+	s.eachMargin(m, k.zin, k.power, k.voltage, func(v float64, db bool) {
+		k.material[n] = materialMargin(v, db)
+		k.fine[n] = fineMargin(v)
+		n++
+	})
 	for i := n; i < numTieMargins; i++ {
-		k.margins[i] = math.Inf(1)
+		k.material[i] = math.Inf(1)
+		k.fine[i] = math.Inf(1)
 	}
-	// Insertion sort: a dozen entries, no allocation.
-	for i := 1; i < n; i++ {
-		for j := i; j > 0 && k.margins[j] < k.margins[j-1]; j-- {
-			k.margins[j], k.margins[j-1] = k.margins[j-1], k.margins[j]
+	sortMargins(k.material[:n])
+	sortMargins(k.fine[:n])
+}
+
+// materialMargin rounds margin v to the material tier's step: the headroom
+// 20·log10(v) to tieStepDB for a dB limit, the used fraction 1/v to
+// tieStepFrac of the limit otherwise; it returns the margin of the rounded
+// figure (+Inf where the used fraction rounds to zero, 0 for NaN).
+func materialMargin(v float64, db bool) float64 {
+	switch {
+	case math.IsNaN(v) || v <= 0:
+		return 0
+	case math.IsInf(v, 1):
+		return v
+	case db:
+		return math.Pow(10, math.Round(20*math.Log10(v)/tieStepDB)*tieStepDB/20)
+	}
+	n := math.Round(1 / v / tieStepFrac)
+	if n == 0 {
+		return math.Inf(1)
+	}
+	return 1 / (n * tieStepFrac)
+}
+
+// fineMargin is log(v) in units of tieTol, rounded (-Inf for 0 or NaN).
+func fineMargin(v float64) float64 {
+	if math.IsNaN(v) || v <= 0 {
+		return math.Inf(-1)
+	}
+	return math.Round(math.Log(v) / tieTol)
+}
+
+// sortMargins sorts a dozen margins ascending: insertion sort, no
+// allocation.
+func sortMargins(x []float64) {
+	for i := 1; i < len(x); i++ {
+		for j := i; j > 0 && x[j] < x[j-1]; j-- {
+			x[j], x[j-1] = x[j-1], x[j]
 		}
 	}
 }
@@ -143,9 +237,33 @@ func (s *space) tie(c *config, o *option, m *metrics) tieKey {
 		k.power, k.voltage = s.stress(c, o)
 		l := &s.p.Limits
 		if s.strategy() != family.ShiftNetwork && s.k > 0 && !s.p.CalGain && l.GainError == 0 && l.TotalGainError == 0 {
-			k.quant = math.Abs(o.k0/s.k - 1)
+			k.quant = math.Round(math.Abs(o.k0/s.k-1) / tieQuantStep)
+		}
+		if rg, rf, ok := s.values(c, o); ok && s.p.ZinMinOhm > 0 && s.model() != nil {
+			k.zin = s.model().Zin(rg, rf) / s.p.ZinMinOhm
 		}
 	}
 	s.margins(m, &k)
 	return k
+}
+
+// values returns the resistances at the Rg and Rf positions of option o of
+// configuration c (a pair at Rf combined), where the circuit has them.
+func (s *space) values(c *config, o *option) (rg, rf float64, ok bool) {
+	switch {
+	case s.pairNetwork(c):
+		return c.na, c.nb, true
+	case s.strategy() != family.ShiftNetwork && c.ga >= 0 && c.gb >= 0 && o.rg >= 0 && o.rf >= 0:
+		rg, rf = s.groups[c.ga].values[o.rg], s.groups[c.gb].values[o.rf]
+		if o.rf2 >= 0 {
+			y := s.groups[c.gb].values[o.rf2]
+			if o.par {
+				rf = rf * y / (rf + y)
+			} else {
+				rf += y
+			}
+		}
+		return rg, rf, true
+	}
+	return 0, 0, false
 }

@@ -1,0 +1,231 @@
+package search
+
+import (
+	"context"
+
+	"math"
+	"math/rand/v2"
+	"plumb/optimize/assume"
+	"plumb/optimize/spec"
+	"slices"
+	"sort"
+	"testing"
+)
+
+// TestTieDemoExactRatio is the equal-cost tie of the demo spec
+// logger-channel: in the 0.1 % 25 ppm/K series with IM-JH36, 73.2 k/14.7 k
+// (ratio 0.2008) and 100 k/20 k (exactly 0.2) cost the same. The first has
+// 0.006 dB more CMRR (41.136 against 41.130 dB of 40 dB), the second a
+// total gain error of 0.58 % instead of 0.87 % of 1 %: the gain error
+// decides, the CMRR difference is far below a tenth of a dB. Rank 1 of
+// the class is not 73.2 k/14.7 k, and its gain-error margin is materially
+// the better one.
+func TestTieDemoExactRatio(t *testing.T) {
+	sp := exampleSpace(t, "logger-channel", false)
+	ai := -1
+	for i := range sp.amps {
+		if sp.amps[i].a.Part == "IM-JH36" {
+			ai = i
+		}
+	}
+	if ai < 0 {
+		t.Fatal("IM-JH36 not in the space")
+	}
+	type variant struct {
+		rg, rf float64
+		k      tieKey
+		m      metrics
+	}
+	var found map[[2]float64]variant
+	var best classBest
+	for ci := range sp.cfgs {
+		b, ok := sp.evalClass(ci, ai)
+		if !ok || (best.cost > 0 && b.cost >= best.cost) {
+			continue
+		}
+		c := &sp.cfgs[ci]
+		opts := sp.options(c)
+		vs := map[[2]float64]variant{}
+		for i := range opts {
+			o := &opts[i]
+			if o.cost != opts[b.opt].cost || o.rf2 >= 0 {
+				continue
+			}
+			var m metrics
+			sp.evalOpt(c, o, &sp.amps[ai], &m)
+			if !sp.pass(&m) {
+				continue
+			}
+			rg, rf, _ := sp.values(c, o)
+			vs[[2]float64{rg, rf}] = variant{rg, rf, sp.tie(c, o, &m), m}
+		}
+		best, found = b, vs
+	}
+	near, exact := found[[2]float64{73200, 14700}], found[[2]float64{100e3, 20e3}]
+	if near.rg == 0 || exact.rg == 0 {
+		t.Fatalf("the cheapest class lacks 73.2k/14.7k or 100k/20k among its equal-cost variants")
+	}
+	if d := near.m.cmrrDB - exact.m.cmrrDB; !(d > 0 && d < tieStepDB) {
+		t.Errorf("CMRR difference %.4f dB, want a negligible advantage of 73.2k/14.7k", d)
+	}
+	if !exact.k.better(near.k) || near.k.better(exact.k) {
+		t.Errorf("73.2k/14.7k (gain error %.4f) ranks with or above 100k/20k (%.4f)", near.m.totalErr, exact.m.totalErr)
+	}
+	c := &sp.cfgs[best.cfg]
+	rg, rf, _ := sp.values(c, &sp.options(c)[best.opt])
+	if rg == 73200 {
+		t.Errorf("rank 1 of the class is still 73.2k/14.7k")
+	}
+	if lim := sp.p.Limits.TotalGainError; lim/best.m.totalErr < lim/near.m.totalErr+tieStepFrac*10 {
+		t.Errorf("rank 1 %g/%g: gain-error margin %.3f, not materially above 73.2k/14.7k's %.3f", rg, rf, lim/best.m.totalErr, lim/near.m.totalErr)
+	}
+}
+
+// TestTieKeyOrdering checks on seeded random margin vectors that better is
+// a strict weak ordering: irreflexive, asymmetric, transitive, with
+// transitive incomparability; and that a stable sort with it gives the same
+// order from every shuffle of the input. The vectors are built to tie
+// often: margins drawn from a few values a hair apart (below the material
+// step) and a few steps apart.
+func TestTieKeyOrdering(t *testing.T) {
+	r := rand.New(rand.NewPCG(1, 1))
+	base := []float64{1.02, 1.13, 1.2, 1.5, 3, math.Inf(1)}
+	draw := func() tieKey {
+		var k tieKey
+		n := 0
+		for i := 0; i < 4; i++ {
+			v := base[r.IntN(len(base))] * (1 + 1e-4*float64(r.IntN(3)-1))
+			k.material[n] = materialMargin(v, i == 0)
+			k.fine[n] = fineMargin(v)
+			n++
+		}
+		for i := n; i < numTieMargins; i++ {
+			k.material[i], k.fine[i] = math.Inf(1), math.Inf(1)
+		}
+		sortMargins(k.material[:n])
+		sortMargins(k.fine[:n])
+		k.power = float64(r.IntN(3)) / 10
+		k.voltage = float64(r.IntN(2)) / 10
+		k.quant = float64(r.IntN(2))
+		return k
+	}
+	for round := 0; round < 200; round++ {
+		keys := make([]tieKey, 12)
+		for i := range keys {
+			keys[i] = draw()
+		}
+		eq := func(a, b tieKey) bool { return !a.better(b) && !b.better(a) }
+		for _, a := range keys {
+			if a.better(a) {
+				t.Fatalf("round %d: irreflexive fails for %+v", round, a)
+			}
+			for _, b := range keys {
+				if a.better(b) && b.better(a) {
+					t.Fatalf("round %d: asymmetric fails", round)
+				}
+				for _, c := range keys {
+					if a.better(b) && b.better(c) && !a.better(c) {
+						t.Fatalf("round %d: transitivity fails", round)
+					}
+					if eq(a, b) && eq(b, c) && !eq(a, c) {
+						t.Fatalf("round %d: incomparability is not transitive", round)
+					}
+				}
+			}
+		}
+		// Stable sort of (key, id): the order of ids among equal keys is
+		// the input order, so compare the sequence of keys, and the ids
+		// of a shuffle sorted with an id tie-break as less does.
+		type item struct {
+			k  tieKey
+			id int
+		}
+		items := make([]item, len(keys))
+		for i := range keys {
+			items[i] = item{keys[i], i}
+		}
+		less := func(a, b item) bool {
+			if a.k != b.k {
+				return a.k.better(b.k)
+			}
+			return a.id < b.id
+		}
+		want := slices.Clone(items)
+		sort.SliceStable(want, func(i, j int) bool { return less(want[i], want[j]) })
+		for s := 0; s < 5; s++ {
+			got := slices.Clone(items)
+			r.Shuffle(len(got), func(i, j int) { got[i], got[j] = got[j], got[i] })
+			sort.SliceStable(got, func(i, j int) bool { return less(got[i], got[j]) })
+			for i := range got {
+				if got[i].id != want[i].id {
+					t.Fatalf("round %d: sorted order depends on the input order at %d", round, i)
+				}
+			}
+		}
+		// Stability: equal keys keep their input order.
+		stable := slices.Clone(items)
+		sort.SliceStable(stable, func(i, j int) bool { return stable[i].k.better(stable[j].k) })
+		for i := 1; i < len(stable); i++ {
+			if eq(stable[i-1].k, stable[i].k) && stable[i-1].id > stable[i].id {
+				t.Fatalf("round %d: equal keys out of input order", round)
+			}
+		}
+	}
+}
+
+// TestMaterialMargin checks the rounding steps: 0.006 dB of CMRR headroom
+// is no difference, 0.2 dB is; 0.3 % of a limit is none, 5 % is.
+func TestMaterialMargin(t *testing.T) {
+	db := func(x float64) float64 { return math.Pow(10, x/20) }
+	tests := []struct {
+		name string
+		a, b float64
+		isDB bool
+		same bool
+	}{
+		{"CMRR 1.136 vs 1.130 dB over", db(1.136), db(1.130), true, true},
+		{"CMRR 1.1 vs 1.3 dB over", db(1.1), db(1.3), true, false},
+		{"gain error 58.0 vs 58.3 % of the limit", 1 / 0.580, 1 / 0.583, false, true},
+		{"gain error 58 vs 87 % of the limit", 1 / 0.58, 1 / 0.87, false, false},
+		{"no limit", math.Inf(1), math.Inf(1), false, true},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			if got := materialMargin(tc.a, tc.isDB) == materialMargin(tc.b, tc.isDB); got != tc.same {
+				t.Errorf("same step %v, want %v", got, tc.same)
+			}
+		})
+	}
+	if materialMargin(math.NaN(), false) != 0 || !math.IsInf(fineMargin(math.NaN()), -1) {
+		t.Error("NaN margin does not rank last")
+	}
+}
+
+// exampleSpace is the search space of example spec name on the demo
+// catalog (fixture: a spec of testdata on its small catalog), prepared as
+// Solve prepares it.
+func exampleSpace(t *testing.T, name string, fixture bool) *space {
+	t.Helper()
+	var sn = demoSnapshot(t)
+	var s *spec.Spec
+	if fixture {
+		sn, s = loadFixture(t, name)
+	} else {
+		s = loadExample(t, name)
+	}
+	p, err := FromSpec(s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	snap, _ := assume.Snapshot(sn)
+	snap = convertSnapshot(snap, converterFor(s, Options{}))
+	parts := (&Parts{Series: snap.ResistorSeries, Resistors: snap.Resistors, Networks: snap.Networks, Amplifiers: snap.Amplifiers}).forSearch()
+	if err := p.normalize(); err != nil {
+		t.Fatal(err)
+	}
+	sp, err := newSpace(context.Background(), parts, &p, true)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return sp
+}
