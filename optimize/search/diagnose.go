@@ -16,27 +16,55 @@ import (
 
 // specLimit reaches one limit of a spec: its field, whether it is a
 // maximum, the unit of the budget's figure and the factor from the spec's
-// field to that figure (gain drift: fraction per K -> ppm/K).
+// field to that figure (gain drift: fraction per K -> ppm/K). A channel
+// limit (total error, total drift at the ADC) has inLSB instead: its field
+// is a fraction of full scale and the budget shows it in LSB (2^bits per
+// full scale) or in % FS, as the spec wrote it.
 type specLimit struct {
 	name  string
 	field func(l *spec.Limits) *float64
 	max   bool
 	unit  string
 	scale float64
+	inLSB func(l *spec.Limits) *bool
+}
+
+// unitOf is the unit of the budget's figure of l under spec s.
+func (l specLimit) unitOf(s *spec.Spec) string {
+	switch {
+	case l.inLSB == nil:
+		return l.unit
+	case *l.inLSB(&s.Limits):
+		return budget.UnitLSB
+	}
+	return budget.UnitFS
+}
+
+// scaleOf is the factor from l's field in s to the budget's figure.
+func (l specLimit) scaleOf(s *spec.Spec) float64 {
+	switch {
+	case l.inLSB == nil:
+		return l.scale
+	case *l.inLSB(&s.Limits) && s.ADC != nil:
+		return s.ADC.Codes()
+	}
+	return 1
 }
 
 // specLimits are the limits a spec can set, in the order the budget lists
 // them.
 var specLimits = []specLimit{
-	{budget.LimitGainError, func(l *spec.Limits) *float64 { return &l.GainError }, true, "", 1},
-	{budget.LimitCMRR, func(l *spec.Limits) *float64 { return &l.CMRRdB }, false, "dB", 1},
-	{budget.LimitGainDrift, func(l *spec.Limits) *float64 { return &l.GainDrift }, true, "ppm/K", 1e6},
-	{budget.LimitOutputOffset, func(l *spec.Limits) *float64 { return &l.OutputOffsetV }, true, "V", 1},
-	{budget.LimitOffsetDrift, func(l *spec.Limits) *float64 { return &l.OffsetDriftVK }, true, "V/K", 1},
-	{budget.LimitNoiseRMS, func(l *spec.Limits) *float64 { return &l.NoiseRMSV }, true, "V", 1},
-	{budget.LimitNoiseDensity, func(l *spec.Limits) *float64 { return &l.NoiseDensity }, true, "V/rtHz", 1},
-	{budget.LimitBandwidth, func(l *spec.Limits) *float64 { return &l.BandwidthHz }, false, "Hz", 1},
-	{budget.LimitInputImpedance, func(l *spec.Limits) *float64 { return &l.InputImpedance }, false, "ohm", 1},
+	{budget.LimitGainError, func(l *spec.Limits) *float64 { return &l.GainError }, true, "", 1, nil},
+	{budget.LimitCMRR, func(l *spec.Limits) *float64 { return &l.CMRRdB }, false, "dB", 1, nil},
+	{budget.LimitGainDrift, func(l *spec.Limits) *float64 { return &l.GainDrift }, true, "ppm/K", 1e6, nil},
+	{budget.LimitOutputOffset, func(l *spec.Limits) *float64 { return &l.OutputOffsetV }, true, "V", 1, nil},
+	{budget.LimitOffsetDrift, func(l *spec.Limits) *float64 { return &l.OffsetDriftVK }, true, "V/K", 1, nil},
+	{budget.LimitNoiseRMS, func(l *spec.Limits) *float64 { return &l.NoiseRMSV }, true, "V", 1, nil},
+	{budget.LimitNoiseDensity, func(l *spec.Limits) *float64 { return &l.NoiseDensity }, true, "V/rtHz", 1, nil},
+	{budget.LimitBandwidth, func(l *spec.Limits) *float64 { return &l.BandwidthHz }, false, "Hz", 1, nil},
+	{budget.LimitInputImpedance, func(l *spec.Limits) *float64 { return &l.InputImpedance }, false, "ohm", 1, nil},
+	{budget.LimitTotalError, func(l *spec.Limits) *float64 { return &l.TotalError }, true, "", 1, func(l *spec.Limits) *bool { return &l.TotalErrorInLSB }},
+	{budget.LimitTotalDrift, func(l *spec.Limits) *float64 { return &l.TotalDrift }, true, "", 1, func(l *spec.Limits) *bool { return &l.TotalDriftInLSB }},
 }
 
 // relaxed returns the limit value relaxed by factor f >= 1: a maximum
@@ -59,9 +87,9 @@ func (l specLimit) factorTo(s *spec.Spec, v float64) float64 {
 	case l.unit == "dB":
 		return math.Pow(10, (lim-v)/20)
 	case l.max:
-		return v / (lim * l.scale)
+		return v / (lim * l.scaleOf(s))
 	}
-	return lim * l.scale / v
+	return lim * l.scaleOf(s) / v
 }
 
 // onlyLimits returns a copy of s with only the named limits set.
@@ -70,6 +98,9 @@ func onlyLimits(s *spec.Spec, keep ...specLimit) *spec.Spec {
 	c.Limits = spec.Limits{}
 	for _, l := range keep {
 		*l.field(&c.Limits) = *l.field(&s.Limits)
+		if l.inLSB != nil {
+			*l.inLSB(&c.Limits) = *l.inLSB(&s.Limits)
+		}
 	}
 	return &c
 }
@@ -240,6 +271,9 @@ func diagnose(ctx context.Context, parts *Parts, s *spec.Spec, opt Options, res 
 	}
 	for _, l := range set {
 		to, r, err := d.relax(s, l)
+		if err == nil && r != nil && l.inLSB != nil {
+			to, r, err = d.tightest(s, l, to, r)
+		}
 		if err != nil {
 			return err
 		}
@@ -248,6 +282,70 @@ func diagnose(ctx context.Context, parts *Parts, s *spec.Spec, opt Options, res 
 		}
 	}
 	return nil
+}
+
+// tightSteps bounds the re-solves that narrow a channel limit's
+// relaxation (tightest).
+const tightSteps = 24
+
+// tightest narrows the relaxation to (a field value of s's limit l,
+// passed by found) on the grid of four significant figures
+// budget.FormatFigure prints: to is first rounded up to the grid; then the
+// passing design's own figure, rounded up to the grid, is tried, and the
+// grid values under the relaxation, galloping, until no design passes the
+// one a step under it (at most tightSteps rounds). Every value kept is one a solve found a
+// design for, so the printed relaxation lets a design exist, and one print
+// step tighter does not.
+func (d *diagnoser) tightest(s *spec.Spec, l specLimit, to float64, found *Result) (float64, *Result, error) {
+	sc := l.scaleOf(s)
+	p, _ := ceilFigure(to * sc)
+	to = p / sc
+	try := func(v float64) (bool, error) {
+		r, err := d.feasible(withLimit(s, l, v/sc))
+		if err != nil || r == nil {
+			return false, err
+		}
+		to, found = v/sc, r
+		return true, nil
+	}
+	k := 1.0
+	for range tightSteps {
+		if lim, ok := findLimit(found.Designs[0].Limits, l.name); ok && lim.Value > 0 {
+			if p, _ := ceilFigure(lim.Value); p < to*sc {
+				if _, err := try(p); err != nil {
+					return 0, nil, err
+				}
+			}
+		}
+		// Gallop down the grid: twice as many steps after a value passes,
+		// half as many after one fails; a fail one step under ends it.
+		_, step := ceilFigure(to * sc)
+		q := math.Round(to*sc/step-k) * step
+		if !(q > 0) || q >= to*sc {
+			break
+		}
+		ok, err := try(q)
+		switch {
+		case err != nil:
+			return 0, nil, err
+		case ok:
+			k *= 2
+		case k == 1:
+			return to, found, nil
+		default:
+			k = math.Max(1, k/2)
+		}
+	}
+	return to, found, nil
+}
+
+// ceilFigure rounds v > 0 up to four significant figures (the figures
+// budget.FormatFigure prints in LSB and % FS) and returns the grid's step
+// there; a value on the grid moves up a step only by a rounding error
+// (the factor 1+1e-9 keeps a limit set to it from failing by one).
+func ceilFigure(v float64) (p, step float64) {
+	step = math.Pow(10, math.Floor(math.Log10(v))-3)
+	return math.Ceil(v*(1+1e-9)/step) * step, step
 }
 
 // nameList joins limit names: "gain error", "gain error and CMRR".
@@ -267,7 +365,8 @@ func nameList(ls []specLimit) string {
 func relaxation(l specLimit, s *spec.Spec, to float64, r *Result) Relaxation {
 	from := *l.field(&s.Limits)
 	d := &r.Designs[0]
-	return Relaxation{Limit: l.name, From: from * l.scale, To: to * l.scale, Unit: l.unit,
+	sc := l.scaleOf(s)
+	return Relaxation{Limit: l.name, From: from * sc, To: to * sc, Unit: l.unitOf(s),
 		Parts: partsText(d), TotalCost: d.TotalCost, UnitCost: d.UnitCost, Currency: d.Currency}
 }
 
@@ -303,7 +402,8 @@ func partsText(d *Design) string {
 // with every other limit kept.
 func (d *diagnoser) limitAlone(s *spec.Spec, l specLimit) (InfeasibleLimit, error) {
 	v := *l.field(&s.Limits)
-	il := InfeasibleLimit{Name: l.name, Limit: v * l.scale, Unit: l.unit}
+	unit := l.unitOf(s)
+	il := InfeasibleLimit{Name: l.name, Limit: v * l.scaleOf(s), Unit: unit}
 	bv, r, err := d.bestValue(s, l)
 	if err != nil || r == nil {
 		il.Needed = fmt.Sprintf("no design reaches %s even with the limit relaxed %gx", l.name, maxRelax)
@@ -319,10 +419,24 @@ func (d *diagnoser) limitAlone(s *spec.Spec, l specLimit) (InfeasibleLimit, erro
 	if err != nil {
 		return il, err
 	}
+	if full != nil && l.inLSB != nil {
+		if to, full, err = d.tightest(s, l, to, full); err != nil {
+			return il, err
+		}
+		// A channel limit's relaxation is exact to the printed figure, the
+		// best value alone only to the bisection's step: the design that
+		// passes the relaxation may reach further.
+		if lim, ok := findLimit(full.Designs[0].Limits, l.name); ok && lim.Value < il.Best {
+			il.Best, il.BestParts = lim.Value, partsText(&full.Designs[0])
+			if il.SetBy, err = d.causes(s, &full.Designs[0], l, lim.Value); err != nil {
+				return il, err
+			}
+		}
+	}
 	if full != nil {
 		rx := relaxation(l, s, to, full)
 		il.Relax = &rx
-		il.Needed = fmt.Sprintf("relax %s to %s: %s, %s per stage", l.name, budget.FormatFigure(rx.To, l.unit), rx.Parts, units4(rx.UnitCost)+" "+rx.Currency)
+		il.Needed = fmt.Sprintf("relax %s to %s: %s, %s per stage", l.name, budget.FormatFigure(rx.To, unit), rx.Parts, units4(rx.UnitCost)+" "+rx.Currency)
 	} else {
 		il.Needed = fmt.Sprintf("relaxing %s alone (up to %gx) does not let a design pass: other limits bind too", l.name, maxRelax)
 	}
@@ -354,13 +468,18 @@ func specFigures(s *spec.Spec, l specLimit) []specFigure {
 					r := *c.Reference
 					c.Reference = &r
 				}
+				if c.ADC != nil {
+					a := *c.ADC
+					c.ADC = &a
+				}
 				f(&c)
 				return &c
 			}})
 		}
 	}
 	mod("source impedance "+budget.FormatFigure(s.SourceOhm, "ohm"), s.SourceOhm > 0, func(c *spec.Spec) { c.SourceOhm = 0 })
-	if r := s.Reference; r != nil {
+	if r := s.Reference; r != nil && r.Part == "" {
+		// A reference picked from the catalog is the catalog's side.
 		mod("reference tolerance "+budget.FormatFigure(r.Tolerance, ""), r.Tolerance > 0, func(c *spec.Spec) { c.Reference.Tolerance = 0 })
 		mod("reference drift "+budget.FormatFigure(r.Drift*1e6, "ppm/K"), r.Drift > 0, func(c *spec.Spec) { c.Reference.Drift = 0 })
 		mod("reference source impedance "+budget.FormatFigure(r.SourceOhm, "ohm"), r.SourceOhm > 0, func(c *spec.Spec) { c.Reference.SourceOhm = 0 })
@@ -384,9 +503,14 @@ func specFigures(s *spec.Spec, l specLimit) []specFigure {
 // the changed spec, so the parts may change too).
 func (d *diagnoser) causes(s *spec.Spec, best *Design, l specLimit, base float64) ([]Cause, error) {
 	var out []Cause
+	unit := l.unitOf(s)
 	if best.budget != nil {
 		for _, bl := range best.budget.Limits {
-			if bl.Name == l.name {
+			switch {
+			case bl.Name != l.name:
+			case l.inLSB != nil:
+				return channelCauses(s, best, bl, l), nil
+			default:
 				out = catalogCauses(best, bl.Contributors, l)
 			}
 		}
@@ -419,7 +543,7 @@ func (d *diagnoser) causes(s *spec.Spec, best *Design, l specLimit, base float64
 			continue
 		}
 		if gain > minCauseShare*math.Abs(base) {
-			out = append(out, Cause{Name: f.name, Side: "spec", Value: gain, Share: gain / math.Abs(base), Unit: l.unit})
+			out = append(out, Cause{Name: f.name, Side: "spec", Value: gain, Share: gain / math.Abs(base), Unit: unit})
 		}
 	}
 	sort.SliceStable(out, func(i, j int) bool { return out[i].Share > out[j].Share })
@@ -466,6 +590,71 @@ func catalogCauses(best *Design, cs []budget.Contribution, l specLimit) []Cause 
 	if res.Share >= minCauseShare {
 		out = append(out, res)
 	}
+	return out
+}
+
+// channelCauses splits channel limit l's figure bl of design best into
+// its contributors. The catalog's side: each of the stage's terms, naming
+// the stage's parts, and the reference's terms when the reference is a
+// catalog part (position REF). The spec's side: the ADC's own terms, a
+// reference given by figures, and the temperature range (its part of a
+// total error is the channel's total drift; all of a total drift). A
+// spec-side term is fixed by the spec whatever the parts, so making it
+// ideal leaves the same best design and improves the figure by the term
+// itself under worst case (terms add) and by F - sqrt(F² - t²) under RSS
+// (terms add in quadrature; Monte Carlo is read the same way, an
+// approximation); no re-solve is needed.
+func channelCauses(s *spec.Spec, best *Design, bl budget.Limit, l specLimit) []Cause {
+	unit := l.unitOf(s)
+	worst := s.Analysis.Method == spec.WorstCase
+	better := func(t float64) float64 {
+		if worst {
+			return t
+		}
+		return bl.Value - math.Sqrt(math.Max(0, bl.Value*bl.Value-t*t))
+	}
+	var stage []string
+	ref := ""
+	for _, p := range best.Parts {
+		switch {
+		case p.Kind == "reference":
+			ref = p.Part
+		case p.Kind == "resistor":
+			if g := gradeText(p); !slices.Contains(stage, g) {
+				stage = append(stage, g)
+			}
+		default:
+			if !slices.Contains(stage, p.Part) {
+				stage = append(stage, p.Part)
+			}
+		}
+	}
+	var out []Cause
+	for _, c := range bl.Contributors {
+		if c.Share < minCauseShare {
+			continue
+		}
+		name, side, v := c.Name, "catalog", c.Value
+		switch refTerm := strings.Contains(name, "reference"); {
+		case refTerm && ref != "" && !strings.HasPrefix(name, "ADC reference"):
+			name += " (" + ref + ")"
+		case refTerm, strings.HasPrefix(name, "ADC"):
+			side, v = "spec", better(c.Value)
+		default:
+			name += " (" + strings.Join(stage, ", ") + ")"
+		}
+		out = append(out, Cause{Name: name, Side: side, Value: v, Share: c.Share, Unit: unit})
+	}
+	if ch := best.budget.Channel; ch != nil && s.WorstExcursion() > 0 {
+		t := bl.Value // a total drift is all the temperature range's
+		if l.name == budget.LimitTotalError {
+			t = better(ch.TotalDriftFS * l.scaleOf(s))
+		}
+		if t > minCauseShare*bl.Value {
+			out = append(out, Cause{Name: fmt.Sprintf("temperature range %g..%g °C", s.Temp.Min, s.Temp.Max), Side: "spec", Value: t, Share: t / bl.Value, Unit: unit})
+		}
+	}
+	sort.SliceStable(out, func(i, j int) bool { return out[i].Share > out[j].Share })
 	return out
 }
 
