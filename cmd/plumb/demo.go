@@ -130,28 +130,7 @@ func runDemo(cmd *cobra.Command, opts *demoOptions) error {
 // does for a chain.
 func runDemoChain(cmd *cobra.Command, opts *demoOptions, st *catalog.Store, sp *spec.Spec, banner string) error {
 	res, err := search.SolveChainCatalog(cmd.Context(), st, sp, search.Options{Top: demoTop})
-	infeasible := errors.Is(err, search.ErrInfeasible)
-	if err != nil && !infeasible {
-		return fmt.Errorf("solving %s: %w", specName(sp), err)
-	}
-	cautionsBesideData(opts.IO, opts.Format, res.Cautions)
-	switch opts.Format {
-	case "json":
-		err = writeJSON(opts.IO.Out, res)
-	case "csv":
-		err = writeCSV(opts.IO.Out, chainCSVHeader, chainCSVRows(res))
-	default:
-		writeHanging(opts.IO.Out, opts.IO, "", "  ", banner)
-		fmt.Fprintln(opts.IO.Out)
-		writeChainTable(opts.IO.Out, opts.IO, solveTitle(sp), res)
-	}
-	if err != nil {
-		return err
-	}
-	if infeasible {
-		return fmt.Errorf("spec %s: %w: %s", specName(sp), search.ErrInfeasible, res.Infeasible)
-	}
-	return nil
+	return writeChainOutcome(opts.IO, opts.Format, banner, sp, res, err)
 }
 
 // demoSpecs lists the embedded example specs (not the designs), sorted.

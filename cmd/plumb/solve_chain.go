@@ -25,22 +25,33 @@ func runSolveChain(cmd *cobra.Command, opts *solveOptions, st *catalog.Store, sp
 	o := search.Options{Top: opts.Top, Combos: opts.Combos, Rates: opts.Rates, Progress: pr.update, Trials: pr.trials}
 	res, err := search.SolveChainCatalog(cmd.Context(), st, sp, o)
 	pr.finish()
+	return writeChainOutcome(opts.IO, opts.Format, "", sp, res, err)
+}
+
+// writeChainOutcome prints a chain search's result in format (the table
+// after banner, when banner is not empty) and returns the search's error:
+// an infeasible chain after its result, any other error before it.
+func writeChainOutcome(ios *IOStreams, format, banner string, sp *spec.Spec, res *search.ChainResult, err error) error {
 	infeasible := errors.Is(err, search.ErrInfeasible)
 	if err != nil && !infeasible {
 		return fmt.Errorf("solving %s: %w", specName(sp), err)
 	}
-	cautionsBesideData(opts.IO, opts.Format, res.Cautions)
-	switch opts.Format {
+	cautionsBesideData(ios, format, res.Cautions)
+	var werr error
+	switch format {
 	case "json":
-		if werr := writeJSON(opts.IO.Out, res); werr != nil {
-			return werr
-		}
+		werr = writeJSON(ios.Out, res)
 	case "csv":
-		if werr := writeCSV(opts.IO.Out, chainCSVHeader, chainCSVRows(res)); werr != nil {
-			return werr
-		}
+		werr = writeCSV(ios.Out, chainCSVHeader, chainCSVRows(res))
 	default:
-		writeChainTable(opts.IO.Out, opts.IO, solveTitle(sp), res)
+		if banner != "" {
+			writeHanging(ios.Out, ios, "", "  ", banner)
+			fmt.Fprintln(ios.Out)
+		}
+		writeChainTable(ios.Out, ios, solveTitle(sp), res)
+	}
+	if werr != nil {
+		return werr
 	}
 	if infeasible {
 		return fmt.Errorf("spec %s: %w: %s; relax the chain's limits or add the parts they need", specName(sp), search.ErrInfeasible, res.Infeasible)
