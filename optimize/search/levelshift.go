@@ -65,26 +65,66 @@ func (s *space) lsShares(v *lsValues, f *[5]float64) (slope, refGain float64) {
 // offset error (V) over the 32 corners of the five resistors, each at
 // 1 ± e[i] (e from the grade: tolerance, life, tempco over the excursion),
 // for slope and offset scaled by rho and the reference at its own worst
-// relative error refErr. Both are monotonic in each resistor, so the
-// corners hold the extremes.
+// relative error refErr.
+//
+// Slope and offset share are each monotonic in every resistor with a sign
+// that does not change (lsSlopeUp, lsOffsetUp), so the largest and the
+// smallest of each over the 32 corners lie at the two corners that move
+// every resistor the way that raises it and the way that lowers it; and
+// |x - target| is convex in x, so its largest value over the corners (and
+// both reference corners) is at one of those extremes. Two evaluations of
+// the shares per figure therefore give the 32-corner worst case exactly
+// (TestLevelShiftCornersMatchEnumeration compares with all 32).
 func (s *space) lsCorners(v *lsValues, e *[5]float64, rho, refErr float64) (slopeErr, offErr float64) {
 	p := s.p
-	var f [5]float64
-	for c := 0; c < 32; c++ {
+	slUp, ofUp := lsSlopeUp, lsOffsetUp
+	if p.lsInv() {
+		slUp, ofUp = lsInvSlopeUp, lsInvOffsetUp
+	}
+	// corner returns the factors that move every resistor the way up[i]
+	// says raises the figure (hi) or lowers it (!hi).
+	corner := func(up *[5]int8, hi bool) (f [5]float64) {
 		for i := range f {
-			f[i] = 1 + e[i]
-			if c&(1<<i) != 0 {
-				f[i] = 1 - e[i]
+			d := math.Abs(e[i])
+			switch {
+			case up[i] == 0:
+				f[i] = 1 + e[i]
+			case (up[i] > 0) == hi:
+				f[i] = 1 + d
+			default:
+				f[i] = 1 - d
 			}
 		}
-		sl, rg := s.lsShares(v, &f)
-		slopeErr = math.Max(slopeErr, math.Abs(rho*sl/p.Gain-1))
+		return f
+	}
+	fHi, fLo := corner(&slUp, true), corner(&slUp, false)
+	slHi, _ := s.lsShares(v, &fHi)
+	slLo, _ := s.lsShares(v, &fLo)
+	slopeErr = math.Max(math.Abs(rho*slHi/p.Gain-1), math.Abs(rho*slLo/p.Gain-1))
+	fHi, fLo = corner(&ofUp, true), corner(&ofUp, false)
+	_, rgHi := s.lsShares(v, &fHi)
+	_, rgLo := s.lsShares(v, &fLo)
+	for _, rg := range [2]float64{rgHi, rgLo} {
 		for _, r := range [2]float64{1 + refErr, 1 - refErr} {
 			offErr = math.Max(offErr, math.Abs(rho*rg*p.Ref*r-p.Shift))
 		}
 	}
 	return slopeErr, offErr
 }
+
+// The signs of ∂/∂R of the slope and of the offset share (lsShares) for
+// R1, R2, R3, Rg, Rf: +1 rises with the resistor, -1 falls, 0 does not
+// depend on it. Non-inverting summing, slope NG·g1/Σg and offset share
+// NG·g2/Σg with NG = 1 + Rf/Rg: a larger R1 lowers g1 (slope down, offset
+// up), a larger R2 lowers g2 (slope up, offset down), a larger R3 lowers
+// g3 (both up). Reference into the inverting node, slope
+// R3/(R1+Rs+R3)·(1 + Rf/Rg + Rf/R2) and offset share -Rf/R2.
+var (
+	lsSlopeUp     = [5]int8{-1, +1, +1, -1, +1}
+	lsOffsetUp    = [5]int8{+1, -1, +1, -1, +1}
+	lsInvSlopeUp  = [5]int8{-1, -1, +1, -1, +1}
+	lsInvOffsetUp = [5]int8{0, +1, 0, 0, -1}
+)
 
 // evalLevelShift computes the screening figures of a level-shift option:
 // exact corners of the slope and offset under worst case, sensitivities

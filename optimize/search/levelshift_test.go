@@ -275,3 +275,61 @@ func TestSolveLevelShiftInverting(t *testing.T) {
 		t.Logf("rank %d: %.4g %v", i+1, d.TotalCost, partList(&d))
 	}
 }
+
+// lsCornersEnumerated is the worst case of lsCorners by enumeration: the
+// slope and offset at all 32 corners of the five resistors and both
+// corners of the reference.
+func (s *space) lsCornersEnumerated(v *lsValues, e *[5]float64, rho, refErr float64) (slopeErr, offErr float64) {
+	p := s.p
+	var f [5]float64
+	for c := 0; c < 32; c++ {
+		for i := range f {
+			f[i] = 1 + e[i]
+			if c&(1<<i) != 0 {
+				f[i] = 1 - e[i]
+			}
+		}
+		sl, rg := s.lsShares(v, &f)
+		slopeErr = math.Max(slopeErr, math.Abs(rho*sl/p.Gain-1))
+		for _, r := range [2]float64{1 + refErr, 1 - refErr} {
+			offErr = math.Max(offErr, math.Abs(rho*rg*p.Ref*r-p.Shift))
+		}
+	}
+	return slopeErr, offErr
+}
+
+// TestLevelShiftCornersMatchEnumeration: the worst case lsCorners finds
+// from the two corners its monotonicity argument picks equals the largest
+// over all 32 corners, for random values, grades, source resistances and
+// scalings, with the reference into either input (the worst case is the
+// one a design review computes by enumerating every corner, common
+// practice).
+func TestLevelShiftCornersMatchEnumeration(t *testing.T) {
+	r := rand.New(rand.NewPCG(3, 31))
+	for i := range 4000 {
+		var p Problem
+		if i%2 == 0 {
+			p = genLevelShiftProblem(r)
+		} else {
+			p = genLevelShiftInvProblem(r)
+		}
+		if err := p.normalize(); err != nil {
+			t.Fatal(err)
+		}
+		p.SourceOhm = []float64{0, 50, 1e3, 1e5}[r.IntN(4)]
+		s := &space{p: &p}
+		val := func() float64 { return math.Pow(10, 2+4*r.Float64()) }
+		v := lsValues{r1: val(), r2: val(), r3: val(), rfb: val()}
+		var e [5]float64
+		for j := range e {
+			e[j] = []float64{0, 1e-4, 1e-3, 0.01, 0.05, 0.2}[r.IntN(6)]
+		}
+		rho := []float64{1, 0.999, 1.01, -0.7}[r.IntN(4)]
+		refErr := []float64{0, 0.001, 0.02}[r.IntN(3)]
+		gs, go_ := s.lsCorners(&v, &e, rho, refErr)
+		ws, wo := s.lsCornersEnumerated(&v, &e, rho, refErr)
+		if gs != ws || go_ != wo {
+			t.Fatalf("case %d (inverting %v): slope %.17g offset %.17g, enumeration %.17g %.17g", i, p.lsInv(), gs, go_, ws, wo)
+		}
+	}
+}
