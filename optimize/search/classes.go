@@ -317,6 +317,11 @@ func (s *space) options(c *config) []option {
 		return c.opts
 	}
 	ga, gb := s.groups[c.ga], s.groups[c.gb]
+	if c.opts == nil {
+		// About two options per Rg value (the values either side of the
+		// target): room for them up front.
+		c.opts = make([]option, 0, 2*len(ga.values))
+	}
 	for i, rg := range ga.values {
 		if !s.ratingOK(ga.grade.PowerW, ga.grade.MaxVoltageV, rg, s.vG) {
 			continue

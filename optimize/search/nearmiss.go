@@ -130,19 +130,45 @@ func exactShortfall(ls []Limit) float64 {
 }
 
 // shortfall is exactShortfall of screening metrics m as a sum of logs (0:
-// passes), without allocating.
+// passes), without allocating: the terms of eachMargin (no input impedance,
+// no stresses) in its order, each failing margin adding -ln(margin). The
+// near-miss search calls it for every value option it looks at, so it
+// skips what cannot fail: a CMRR at or above its limit has margin
+// 10^(Δ/20) ≥ 1 and needs no power (TestShortfallMatchesMargins keeps it
+// equal to the sum over eachMargin).
 func (s *space) shortfall(m *metrics) float64 {
+	l := &s.p.Limits
 	sum := 0.0
-	s.eachMargin(m, 0, 0, 0, func(mg float64, _ bool) {
-		switch {
-		case mg >= 1:
-		case !(mg > 0):
-			sum = math.Inf(1)
-		default:
-			sum -= math.Log(mg)
+	for _, t := range [...]struct{ v, lim float64 }{
+		{m.totalErr, l.TotalGainError}, {m.gainErr, l.GainError}, {m.drift, l.DriftPPM}, {m.offset, l.OffsetV},
+		{m.offDrift, l.OffsetDriftVK}, {m.noise, l.NoiseDensity}, {m.noiseRMS, l.NoiseRMS},
+	} {
+		if t.lim > 0 && t.v > 0 {
+			sum = addShortfall(sum, t.lim/t.v)
 		}
-	})
+	}
+	if l.CMRRdB > 0 {
+		if d := (m.cmrrDB - l.CMRRdB) / 20; !(d >= 0) {
+			sum = addShortfall(sum, math.Pow(10, d))
+		}
+	}
+	if s.p.BandwidthHz > 0 {
+		sum = addShortfall(sum, m.bw/s.p.BandwidthHz)
+	}
 	return sum
+}
+
+// addShortfall adds the shortfall of one margin mg to sum: nothing when it
+// passes (mg ≥ 1), -ln(mg) when it fails, +Inf when mg is not positive.
+func addShortfall(sum, mg float64) float64 {
+	switch {
+	case mg >= 1:
+		return sum
+	case !(mg > 0):
+		return math.Inf(1)
+	default:
+		return sum - math.Log(mg)
+	}
 }
 
 // nearPool is how many configurations and how many amplifiers, each the

@@ -4,6 +4,8 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"math"
+	"math/rand/v2"
 	"path/filepath"
 	"regexp"
 	"strconv"
@@ -206,5 +208,50 @@ func TestNearCheck(t *testing.T) {
 	}
 	if c.evals != maxNearEvals {
 		t.Errorf("%d budget runs, want at most %d", c.evals, maxNearEvals)
+	}
+}
+
+// TestShortfallMatchesMargins: the near-miss search's shortfall equals the
+// sum of -ln(margin) over the failing margins eachMargin lists (the
+// definition of exactShortfall, in logs), bit for bit, on random metrics
+// and limits including NaN, zero and infinite figures.
+func TestShortfallMatchesMargins(t *testing.T) {
+	r := rand.New(rand.NewPCG(5, 41))
+	fig := func(scale float64) float64 {
+		switch r.IntN(12) {
+		case 0:
+			return math.NaN()
+		case 1:
+			return 0
+		case 2:
+			return math.Inf(1)
+		}
+		return scale * math.Pow(10, 2*r.Float64()-1)
+	}
+	lim := func(v float64) float64 { return []float64{0, v}[r.IntN(2)] }
+	for i := range 20000 {
+		p := genProblem(r)
+		p.Limits = Limits{GainError: lim(0.01), TotalGainError: lim(0.02), DriftPPM: lim(50), CMRRdB: lim(80),
+			OffsetV: lim(1e-3), OffsetDriftVK: lim(1e-5), NoiseDensity: lim(1e-7), NoiseRMS: lim(1e-4)}
+		p.BandwidthHz = lim(1e4)
+		s := &space{p: &p}
+		m := metrics{gainErr: fig(0.01), totalErr: fig(0.02), drift: fig(50), cmrrDB: 80 + 20*(r.Float64()-0.5), offset: fig(1e-3),
+			offDrift: fig(1e-5), noise: fig(1e-7), noiseRMS: fig(1e-4), bw: fig(1e4)}
+		if r.IntN(10) == 0 {
+			m.cmrrDB = math.NaN()
+		}
+		want := 0.0
+		s.eachMargin(&m, 0, 0, 0, func(mg float64, _ bool) {
+			switch {
+			case mg >= 1:
+			case !(mg > 0):
+				want = math.Inf(1)
+			default:
+				want -= math.Log(mg)
+			}
+		})
+		if got := s.shortfall(&m); got != want && !(math.IsNaN(got) && math.IsNaN(want)) {
+			t.Fatalf("case %d: shortfall %v, the margins give %v (metrics %+v, limits %+v)", i, got, want, m, p.Limits)
+		}
 	}
 }
