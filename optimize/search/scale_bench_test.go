@@ -12,6 +12,7 @@ import (
 	"strconv"
 	"strings"
 	"sync/atomic"
+	"syscall"
 	"testing"
 	"time"
 
@@ -129,6 +130,17 @@ func scaleCatalog(b *testing.B, dir string, n int) string {
 	return path
 }
 
+// cpuTime is the process's user and system CPU time: on a shared,
+// loaded machine it compares the solve with the scan better than wall time
+// does (the memory sampler's few reads of /proc count with the solve).
+func cpuTime() time.Duration {
+	var ru syscall.Rusage
+	if err := syscall.Getrusage(syscall.RUSAGE_SELF, &ru); err != nil {
+		return 0
+	}
+	return time.Duration(ru.Utime.Nano() + ru.Stime.Nano())
+}
+
 // rssMB returns the process's resident set in MB (0 where /proc is
 // missing).
 func rssMB() float64 {
@@ -176,6 +188,9 @@ func peakRSS(f func()) float64 {
 // (ns/op), the bare indexed scan of the same candidate rows (scan-ns), their
 // ratio (solve/scan, target at most 3), the candidate rows, and the peak
 // resident memory during the solve (peak-MB, target under 300 at 1M).
+// The process's CPU time of each (solve-cpu-ns, scan-cpu-ns) and their
+// ratio (solve/scan-cpu) are reported too: on a loaded machine they
+// compare the two better than wall time.
 // Compare the solve times of 100k and 10k rows for growth (target at most
 // 10x). Set PLUMB_SCALE_ROWS (for example 10000,100000) to run fewer sizes.
 func BenchmarkScale(b *testing.B) {
@@ -216,22 +231,24 @@ func BenchmarkScale(b *testing.B) {
 					b.Fatal(err)
 				}
 				b.ReportAllocs()
-				var scan time.Duration
+				var scan, scanCPU, solveCPU time.Duration
 				var rows int
 				var peak float64
 				var res *Result
 				for b.Loop() {
 					b.StopTimer()
-					t0 := time.Now()
+					t0, c0 := time.Now(), cpuTime()
 					if rows, err = st.ScanResistorRows(ctx, q); err != nil {
 						b.Fatal(err)
 					}
-					scan += time.Since(t0)
+					scan, scanCPU = scan+time.Since(t0), scanCPU+cpuTime()-c0
 					runtime.GC()
 					debug.FreeOSMemory()
 					b.StartTimer()
 					peak = max(peak, peakRSS(func() {
+						c0 := cpuTime()
 						res, err = SolveCatalog(ctx, st, sp, Options{Top: 10})
+						solveCPU += cpuTime() - c0
 					}))
 					if err != nil {
 						b.Fatal(err)
@@ -243,6 +260,9 @@ func BenchmarkScale(b *testing.B) {
 				per := float64(b.Elapsed().Nanoseconds()) / float64(b.N)
 				b.ReportMetric(float64(scan.Nanoseconds())/float64(b.N), "scan-ns")
 				b.ReportMetric(per/(float64(scan.Nanoseconds())/float64(b.N)), "solve/scan")
+				b.ReportMetric(float64(solveCPU.Nanoseconds())/float64(b.N), "solve-cpu-ns")
+				b.ReportMetric(float64(scanCPU.Nanoseconds())/float64(b.N), "scan-cpu-ns")
+				b.ReportMetric(float64(solveCPU)/float64(scanCPU), "solve/scan-cpu")
 				b.ReportMetric(float64(rows), "scan-rows(row×break)")
 				b.ReportMetric(peak, "peak-MB")
 				b.ReportMetric(float64(len(res.Designs)), "designs")
