@@ -370,8 +370,8 @@ func (sc *scan) stream(name string, in io.Reader) error {
 				Raw: p.key(), Err: fmt.Errorf("%w: already read at %s:%d; this row is left out", ErrDuplicate, first.file, first.line)}, p.key()))
 			continue
 		}
-		if len(fr.Preview) < opt.Preview {
-			fr.Preview = append(fr.Preview, previewOf(p))
+		if fr.Preview.Len() < opt.Preview {
+			p.addTo(&fr.Preview)
 		}
 		switch kind {
 		case catalog.KindSeries:
@@ -433,16 +433,18 @@ func blankRecord(rec []string) bool {
 	return true
 }
 
-func previewOf(p parsed) any {
+// addTo appends the part to the snapshot's list of its kind.
+func (p parsed) addTo(s *catalog.Snapshot) {
 	switch {
 	case p.series != nil:
-		return *p.series
+		s.ResistorSeries = append(s.ResistorSeries, *p.series)
 	case p.resistor != nil:
-		return *p.resistor
+		s.Resistors = append(s.Resistors, *p.resistor)
 	case p.network != nil:
-		return *p.network
+		s.Networks = append(s.Networks, *p.network)
 	case p.reference != nil:
-		return *p.reference
+		s.References = append(s.References, *p.reference)
+	default:
+		s.Amplifiers = append(s.Amplifiers, *p.amplifier)
 	}
-	return *p.amplifier
 }

@@ -40,9 +40,9 @@ type FileReport struct {
 	Rows    int
 	Mapping *Mapping
 	Groups  []Group
-	// Preview holds the first parts as parsed (catalog.Resistor, Network
-	// or Amplifier values), for a dry run to show.
-	Preview []any
+	// Preview holds the first parts as parsed, of whichever kind the file
+	// holds, for a dry run to show.
+	Preview catalog.Snapshot
 }
 
 // Count returns the number of problems of one severity.

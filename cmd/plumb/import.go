@@ -333,25 +333,12 @@ func writeDryRunFile(w io.Writer, ios *IOStreams, f importers.FileReport) error 
 			return err
 		}
 	}
-	if len(f.Preview) == 0 {
+	if f.Preview.Len() == 0 {
 		return nil
 	}
-	var snap catalog.Snapshot
-	for _, p := range f.Preview {
-		switch v := p.(type) {
-		case catalog.ResistorSeries:
-			snap.ResistorSeries = append(snap.ResistorSeries, v)
-		case catalog.Resistor:
-			snap.Resistors = append(snap.Resistors, v)
-		case catalog.Network:
-			snap.Networks = append(snap.Networks, v)
-		case catalog.Amplifier:
-			snap.Amplifiers = append(snap.Amplifiers, v)
-		}
-	}
-	fmt.Fprintf(w, "\n%s\n", ios.Bold(fmt.Sprintf("First %d part(s) of %s as read:", len(f.Preview), f.File)))
+	fmt.Fprintf(w, "\n%s\n", ios.Bold(fmt.Sprintf("First %d part(s) of %s as read:", f.Preview.Len(), f.File)))
 	t := newTable(ios, partTableHeader...)
-	for _, r := range partRows(&snap) {
+	for _, r := range partRows(&f.Preview) {
 		t.row(r.table()...)
 	}
 	return t.render(w)
