@@ -104,7 +104,7 @@ const (
 	FieldTempMin     Field = "temp_min"     // °C
 	FieldTempMax     Field = "temp_max"     // °C
 	FieldNoisePP     Field = "noise_pp"     // 0.1 Hz to 10 Hz, peak to peak
-	FieldSupplyRange Field = "supply_range" // "2.7 V to 18 V"
+	FieldSupplyRange Field = "supply_range" // "2.7 V to 18 V", "±1.35 V ~ ±18 V" (amplifiers too)
 	FieldDropout     Field = "dropout"
 	FieldLoadSource  Field = "load_source"
 	FieldLoadSink    Field = "load_sink"
@@ -178,6 +178,9 @@ var fieldTable = []fieldInfo{
 		"minimum supply voltage", "voltage supply span min", "supply voltage span min", "supply span min"}},
 	{FieldSupplyMax, amp, []string{"supply voltage max", "max supply voltage", "vs max", "supply max",
 		"maximum supply voltage", "voltage supply span max", "supply voltage span max", "supply span max"}},
+	{FieldSupplyRange, amp, []string{"supply voltage range", "supply range", "supply voltage", "operating voltage",
+		"operating supply voltage", "operating voltage range", "voltage supply span", "supply voltage span", "supply span",
+		"vs range", "power supply range", "voltage supply", "vs"}},
 	{FieldVos, amp, []string{"input offset voltage", "vos", "offset voltage", "voltage input offset", "vio",
 		"input offset", "offset"}},
 	{FieldVosDrift, amp, []string{"offset drift", "vos drift", "input offset voltage drift", "offset voltage drift",
@@ -240,7 +243,8 @@ var fieldTable = []fieldInfo{
 		"output voltage drift", "vout tempco", "output voltage temperature coefficient", "tcvout", "temp coefficient",
 		"drift ppm"}},
 	{FieldTempRange, ref, []string{"operating temperature", "temperature range", "operating temperature range",
-		"temp range", "specified temperature range", "rated temperature range"}},
+		"temp range", "specified temperature range", "rated temperature range", "operating temp", "operating temp range",
+		"temperature", "temp", "operating range", "ambient temperature range", "drift temperature range"}},
 	{FieldTempMin, ref, []string{"temp min c", "temperature min", "min temperature", "operating temperature min"}},
 	{FieldTempMax, ref, []string{"temp max c", "temperature max", "max temperature", "operating temperature max"}},
 	{FieldNoisePP, ref, []string{"noise pp v", "noise 0 1 10 hz", "noise 0 1 hz to 10 hz", "low frequency noise",

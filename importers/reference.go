@@ -213,31 +213,11 @@ func (r *rowReader) refTemperatures(ref *catalog.Reference) error {
 // refSupply reads the input voltage range of a series reference: one cell
 // ("2.7 V to 18 V") or two columns.
 func (r *rowReader) refSupply(ref *catalog.Reference) error {
-	ref.SupplyMinV, ref.SupplyMaxV = catalog.Unknown(), catalog.Unknown()
-	if s, ok := r.raw(FieldSupplyRange); ok {
-		lo, hi, err := units.ParseRange(rangeWords(s), "V")
-		if err != nil {
-			return r.skip(FieldSupplyRange, s, fmt.Errorf("%w: %s", ErrBadValue, unitErr(err)))
-		}
-		ref.SupplyMinV, ref.SupplyMaxV = lo, hi
-		return nil
-	}
-	for _, f := range []struct {
-		field Field
-		dst   *float64
-	}{{FieldSupplyMin, &ref.SupplyMinV}, {FieldSupplyMax, &ref.SupplyMaxV}} {
-		v, ok, _, err := r.value(f.field, parseSupply)
-		if err != nil {
-			return err
-		}
-		if ok {
-			*f.dst = v
-		}
-	}
-	if !catalog.Known(ref.SupplyMinV) && !catalog.Known(ref.SupplyMaxV) {
+	given, err := r.supplyRange(&ref.SupplyMinV, &ref.SupplyMaxV)
+	if err == nil && !given {
 		r.unknown = append(r.unknown, "supply range")
 	}
-	return nil
+	return err
 }
 
 // plausibleReference refuses (or with --allow-unusual flags) a reference
@@ -264,11 +244,14 @@ func (r *rowReader) plausibleReference(ref *catalog.Reference) error {
 	return nil
 }
 
-// rangeWords rewrites the range marks of distributor exports ("2.7V ~
-// 18V", "-40°C ~ 125°C") as the units parser's "to".
+// rangeWords rewrites the range marks of distributor exports ("-40°C ~
+// 125°C", "-40 … +85 °C", "0 – 70 °C" with an en dash) as the units
+// parser's "to".
 func rangeWords(s string) string {
-	return strings.ReplaceAll(s, "~", " to ")
+	return rangeMarks.Replace(s)
 }
+
+var rangeMarks = strings.NewReplacer("~", " to ", "...", " to ", "–", " to ", "—", " to ")
 
 // peakToPeak are the marks of a peak-to-peak figure, longest first.
 var peakToPeak = []string{"peak-to-peak", "peak to peak", "(p-p)", "pk-pk", "p-p", "pp"}

@@ -846,7 +846,6 @@ type ampFigure struct {
 	dst   *float64
 	json  string
 	what  string
-	need  bool
 }
 
 // Headroom assumed for the input common-mode range and output swing of an
@@ -858,32 +857,47 @@ const defaultHeadroomV = 1.5
 func (r *rowReader) amplifier(part string, o catalog.Offer) (*catalog.Amplifier, error) {
 	a := &catalog.Amplifier{Part: part, Maker: r.intern(r.text(FieldMaker)), Type: catalog.OpAmp, Channels: 1,
 		Package: r.intern(r.text(FieldPackage)), Offer: o, Provenance: r.prov}
+	// Each figure is read even when an earlier one failed, so a row's
+	// problems are reported together; the first failure is returned.
+	var failed error
+	keep := func(err error) bool {
+		if err != nil && failed == nil {
+			failed = err
+		}
+		return err == nil
+	}
+	if _, err := r.supplyRange(&a.SupplyMinV, &a.SupplyMaxV); keep(err) {
+		for _, f := range []struct {
+			field Field
+			v     float64
+			what  string
+		}{{FieldSupplyMin, a.SupplyMinV, "minimum supply"}, {FieldSupplyMax, a.SupplyMaxV, "maximum supply"}} {
+			if !catalog.Known(f.v) {
+				s, _ := r.raw(f.field)
+				keep(r.skip(f.field, s, fmt.Errorf("%w: no %s; fill the column (or one supply range column, \"2.7 V to 36 V\") or set a fixed value in the mapping", ErrMissingValue, f.what)))
+			}
+		}
+	}
 	figs := []ampFigure{
-		{FieldSupplyMin, parseSupply, &a.SupplyMinV, "supply_min_v", "minimum supply", true},
-		{FieldSupplyMax, parseSupply, &a.SupplyMaxV, "supply_max_v", "maximum supply", true},
-		{FieldVos, units.ParseVoltage, &a.VosV, "vos_v", "input offset voltage", false},
-		{FieldVosDrift, units.ParseDrift, &a.VosDriftVK, "vos_drift_v_per_k", "offset drift", false},
-		{FieldIb, units.ParseCurrent, &a.IbA, "ib_a", "input bias current", false},
-		{FieldIos, units.ParseCurrent, &a.IosA, "ios_a", "input offset current", false},
-		{FieldAol, units.ParseOpenLoopGain, &a.AolVV, "aol_v_per_v", "open-loop gain", false},
-		{FieldCMRR, units.ParseDB, &a.CMRRdB, "cmrr_db", "CMRR", false},
-		{FieldGBW, units.ParseFrequency, &a.GBWHz, "gbw_hz", "gain-bandwidth product", false},
-		{FieldSlew, units.ParseSlewRate, &a.SlewVs, "slew_v_per_s", "slew rate", false},
-		{FieldNoiseV, units.ParseVoltageNoise, &a.NoiseVHz, "noise_v_per_rthz", "voltage noise density", false},
-		{FieldNoiseI, units.ParseCurrentNoise, &a.NoiseAHz, "noise_a_per_rthz", "current noise density", false},
-		{FieldIq, units.ParseCurrent, &a.IqA, "iq_a", "quiescent current", false},
+		{FieldVos, units.ParseVoltage, &a.VosV, "vos_v", "input offset voltage"},
+		{FieldVosDrift, units.ParseDrift, &a.VosDriftVK, "vos_drift_v_per_k", "offset drift"},
+		{FieldIb, units.ParseCurrent, &a.IbA, "ib_a", "input bias current"},
+		{FieldIos, units.ParseCurrent, &a.IosA, "ios_a", "input offset current"},
+		{FieldAol, units.ParseOpenLoopGain, &a.AolVV, "aol_v_per_v", "open-loop gain"},
+		{FieldCMRR, units.ParseDB, &a.CMRRdB, "cmrr_db", "CMRR"},
+		{FieldGBW, units.ParseFrequency, &a.GBWHz, "gbw_hz", "gain-bandwidth product"},
+		{FieldSlew, units.ParseSlewRate, &a.SlewVs, "slew_v_per_s", "slew rate"},
+		{FieldNoiseV, units.ParseVoltageNoise, &a.NoiseVHz, "noise_v_per_rthz", "voltage noise density"},
+		{FieldNoiseI, units.ParseCurrentNoise, &a.NoiseAHz, "noise_a_per_rthz", "current noise density"},
+		{FieldIq, units.ParseCurrent, &a.IqA, "iq_a", "quiescent current"},
 	}
 	var missing []string
 	for _, f := range figs {
 		v, ok, typ, err := r.value(f.field, f.q)
-		if err != nil {
-			return nil, err
+		if !keep(err) {
+			continue
 		}
 		if !ok {
-			if f.need {
-				s, _ := r.raw(f.field)
-				return nil, r.skip(f.field, s, fmt.Errorf("%w: no %s; fill the column or set a fixed value in the mapping", ErrMissingValue, f.what))
-			}
 			*f.dst = catalog.Unknown()
 			missing = append(missing, f.what)
 			continue
@@ -904,26 +918,20 @@ func (r *rowReader) amplifier(part string, o catalog.Offer) (*catalog.Amplifier,
 		r.note(Doubt, "", "", fmt.Errorf("typical figures only for %s: a worst-case budget needs maximums", strings.Join(a.TypicalOnly, ", ")))
 	}
 	if a.SupplyMinV > a.SupplyMaxV {
-		return nil, r.skip(FieldSupplyMin, "", fmt.Errorf("%w: minimum supply %g V above maximum %g V", ErrBadValue, a.SupplyMinV, a.SupplyMaxV))
+		keep(r.skip(FieldSupplyMin, "", fmt.Errorf("%w: minimum supply %g V above maximum %g V", ErrBadValue, a.SupplyMinV, a.SupplyMaxV)))
 	}
-	if v, ok, _, err := r.count(FieldChannels); err != nil {
-		return nil, err
-	} else if ok {
+	if v, ok, _, err := r.count(FieldChannels); keep(err) && ok {
 		if v < 1 || v > 16 {
-			return nil, r.skip(FieldChannels, "", fmt.Errorf("%w: %g channels", ErrBadValue, v))
+			keep(r.skip(FieldChannels, "", fmt.Errorf("%w: %g channels", ErrBadValue, v)))
 		}
 		a.Channels = int(v)
 	}
-	if err := r.matched(a); err != nil {
-		return nil, err
-	}
+	keep(r.matched(a))
 	var err error
-	if a.Network, err = r.matchedNetwork(); err != nil {
-		return nil, err
+	if a.Network, err = r.matchedNetwork(); !keep(err) {
+		a.Network = nil
 	}
-	if err := r.ranges(a); err != nil {
-		return nil, err
-	}
+	keep(r.ranges(a))
 	if s, ok := r.raw(FieldTypicalOnly); ok {
 		var list []string
 		for _, n := range strings.FieldsFunc(s, func(c rune) bool { return c == ',' || c == ';' || c == ' ' }) {
@@ -942,13 +950,16 @@ func (r *rowReader) amplifier(part string, o catalog.Offer) (*catalog.Amplifier,
 		switch t := strings.ToLower(s); {
 		case t == string(catalog.OpAmp) || t == "op-amp" || t == "op amp":
 			if a.Type == catalog.MatchedAmp {
-				return nil, r.skip(FieldAmpType, s, fmt.Errorf("%w: type %s, but the row gives fixed gains", ErrBadValue, s))
+				keep(r.skip(FieldAmpType, s, fmt.Errorf("%w: type %s, but the row gives fixed gains", ErrBadValue, s)))
 			}
 		case t == string(catalog.MatchedAmp) || strings.Contains(t, "difference") || strings.Contains(t, "instrumentation"):
 			a.Type = catalog.MatchedAmp
 		default:
-			return nil, r.skip(FieldAmpType, s, fmt.Errorf("%w: amplifier type %q: use opamp or matched", ErrBadValue, s))
+			keep(r.skip(FieldAmpType, s, fmt.Errorf("%w: amplifier type %q: use opamp or matched", ErrBadValue, s)))
 		}
+	}
+	if failed != nil {
+		return nil, failed
 	}
 	return a, nil
 }
