@@ -243,7 +243,7 @@ func (s *Store) closeParts(ctx context.Context, part string) (string, error) {
 	var close []cand
 	for _, p := range parts {
 		up := strings.ToUpper(p)
-		d := editDistance(want, up)
+		d := EditDistance(want, up)
 		if strings.HasPrefix(up, want) || strings.HasPrefix(want, up) {
 			d = min(d, 1)
 		}
@@ -267,8 +267,10 @@ func (s *Store) closeParts(ctx context.Context, part string) (string, error) {
 	return ": close part numbers: " + strings.Join(names, ", "), nil
 }
 
-// editDistance is the Levenshtein distance between a and b (byte-wise).
-func editDistance(a, b string) int {
+// EditDistance is the Levenshtein distance between a and b (byte-wise):
+// the fewest single-byte insertions, deletions and substitutions that turn
+// one into the other. It suggests the nearest known word for a slip.
+func EditDistance(a, b string) int {
 	prev := make([]int, len(b)+1)
 	cur := make([]int, len(b)+1)
 	for j := range prev {

@@ -52,7 +52,8 @@ func describe(desc string, decimalComma bool) fromDescription {
 	low := strings.ToLower(desc)
 	for _, w := range technologyWords {
 		if strings.Contains(low, w) {
-			d.tech, d.techWords = normaliseTechnology(w), w
+			d.tech, _ = normaliseTechnology(w)
+			d.techWords = w
 			break
 		}
 	}
@@ -111,9 +112,6 @@ func describe(desc string, decimalComma bool) fromDescription {
 	}
 	return d
 }
-
-var technologyWords = []string{"thin film", "thin-film", "thick film", "thick-film", "metal film", "metal-film", "metal foil", "foil",
-	"wirewound", "wire wound", "metal strip", "metal-strip", "carbon film"}
 
 var sizeCodes = map[string]bool{"01005": true, "0201": true, "0402": true, "0603": true, "0805": true, "1008": true, "1206": true,
 	"1210": true, "1812": true, "2010": true, "2512": true, "2816": true, "4527": true}

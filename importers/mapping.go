@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"maps"
 	"os"
 	"path/filepath"
 	"regexp"
@@ -119,7 +120,7 @@ var qualifierTokens = map[string]bool{"typ": true, "typical": true, "max": true,
 
 var (
 	bracketRE   = regexp.MustCompile(`[(\[{]([^)\]}]*)[)\]}]`)
-	breakNumRE  = regexp.MustCompile(`(\d[\d,.' ]*)\s*(k)?\b`)
+	breakNumRE  = regexp.MustCompile(`(\d[\d,.' ]*)\s*(k)?\s*(?:pcs|pc|pieces|piece|units|unit|stk|st)?\b`)
 	qtyOnlyRE   = regexp.MustCompile(`^\s*(?:qty\s*)?(\d[\d,.']*)\s*(k)?\s*(\+|-\s*\d[\d,.']*|and up|or more)\s*$`)
 	currencyMap = map[string]string{"$": "USD", "€": "EUR", "£": "GBP", "¥": "JPY",
 		"usd": "USD", "eur": "EUR", "gbp": "GBP", "chf": "CHF", "jpy": "JPY", "cad": "CAD",
@@ -211,8 +212,8 @@ func snakeUnit(toks []string) string {
 }
 
 // breakQty reads the quantity of a per-break price column: "Price @ 1000",
-// "1000+", "Unit Price (1,000)", "Price 100-999", "Price for 1k". 0 when
-// the header is not one.
+// "1000+", "Unit Price (1,000)", "Price 100-999", "Price for 1k",
+// "Price (EUR) 1pc", "10+ (USD)". 0 when the header is not one.
 func breakQty(low string, toks []string) int {
 	if m := qtyOnlyRE.FindStringSubmatch(low); m != nil {
 		return qtyNumber(m[1], m[2])
@@ -574,20 +575,49 @@ func knownFields() string {
 
 // forFile returns a copy of a given mapping whose Guesses say, for the
 // report, which header each field was taken from ("mapping", confidence 1).
+// A price column whose header states its quantity ("Price (EUR) 1pc") is
+// a price break from that quantity, and so is every other such column the
+// mapping does not name: a mapping's single price column once dropped the
+// file's other price columns without a word.
 func (m *Mapping) forFile(header []string) *Mapping {
 	c := *m
 	c.Guesses = nil
+	c.Columns = maps.Clone(m.Columns)
+	c.PriceBreaks = slices.Clone(m.PriceBreaks)
 	key := func(s string) string { return strings.Join(words(s), " ") }
+	named := map[string]bool{}
+	for _, col := range c.Columns {
+		named[key(col)] = true
+	}
+	for _, b := range c.PriceBreaks {
+		named[key(b.Column)] = true
+	}
+	for _, h := range header {
+		q := analyseHeader(h).breakQ
+		if q <= 0 {
+			continue
+		}
+		if col, ok := c.Columns[FieldPrice]; ok && key(col) == key(h) {
+			delete(c.Columns, FieldPrice)
+		} else if named[key(h)] {
+			continue
+		}
+		named[key(h)] = true
+		c.PriceBreaks = append(c.PriceBreaks, BreakColumn{Column: h, MinQty: q})
+	}
 	for i, h := range header {
-		for f, col := range m.Columns {
+		for f, col := range c.Columns {
 			if key(col) == key(h) {
 				c.Guesses = append(c.Guesses, Guess{Field: f, Column: h, Index: i, Confidence: ConfExact, How: "mapping"})
 			}
 		}
-		for _, b := range m.PriceBreaks {
+		for j, b := range c.PriceBreaks {
 			if key(b.Column) == key(h) {
-				c.Guesses = append(c.Guesses, Guess{Field: FieldPrice, Column: h, Index: i, Confidence: ConfExact,
-					How: fmt.Sprintf("mapping: price break from %d", b.MinQty)})
+				how := fmt.Sprintf("mapping: price break from %d", b.MinQty)
+				if j >= len(m.PriceBreaks) {
+					how = fmt.Sprintf("price break from %d, by its header (the mapping does not list it)", b.MinQty)
+				}
+				c.Guesses = append(c.Guesses, Guess{Field: FieldPrice, Column: h, Index: i, Confidence: ConfExact, How: how})
 			}
 		}
 	}

@@ -8,6 +8,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"time"
 
@@ -246,6 +247,11 @@ func (sc *scan) stream(name string, in io.Reader) error {
 	if err != nil {
 		return err
 	}
+	breaks, otherCurrency := oneCurrency(rd.Header(), breaks)
+	for _, u := range otherCurrency {
+		m.Guesses = slices.DeleteFunc(m.Guesses, func(g Guess) bool { return g.Index == u.Index })
+		m.PriceBreaks = slices.DeleteFunc(m.PriceBreaks, func(b BreakColumn) bool { return b.Column == u.Column })
+	}
 	if _, ok := cols[FieldPart]; !ok {
 		return &ParseError{File: name, Line: 1, Err: fmt.Errorf("%w: no column reads as the part number (header: %s); name it in a mapping under columns: part",
 			ErrMissingColumn, headerList(rd.Header()))}
@@ -292,7 +298,8 @@ func (sc *scan) stream(name string, in io.Reader) error {
 	// Prices with no currency anywhere: refuse the file before its rows,
 	// once, instead of every row (checked on the first priced row).
 	rr.checkCurrency = rr.currency == "" && !rr.si && rr.pricesLackCurrency(cols, breaks)
-	fr := FileReport{File: name, Kind: kind, Shape: shape, Mapping: m}
+	fr := FileReport{File: name, Kind: kind, Shape: shape, Mapping: m,
+		Unused: unusedColumns(rr.header, rr.info, kind, cols, breaks, otherCurrency)}
 	if len(rd.Preamble) > 0 {
 		rep.Problems = append(rep.Problems, newProblem(Info, &ParseError{File: name, Line: rd.Preamble[0],
 			Err: fmt.Errorf("%d title line(s) above the header skipped; the header is line %d", len(rd.Preamble), rd.line)}, ""))

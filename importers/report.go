@@ -3,6 +3,7 @@ package importers
 import (
 	"fmt"
 	"io"
+	"slices"
 	"strconv"
 
 	"plumb/catalog"
@@ -40,6 +41,8 @@ type FileReport struct {
 	Rows    int
 	Mapping *Mapping
 	Groups  []Group
+	// Unused names every column of the file that was not read, and why.
+	Unused []Unused
 	// Preview holds the first parts as parsed, of whichever kind the file
 	// holds, for a dry run to show.
 	Preview catalog.Snapshot
@@ -76,4 +79,53 @@ func (r *Report) WriteCSV(w io.Writer) error {
 		return fmt.Errorf("importers: writing report: %w", err)
 	}
 	return nil
+}
+
+// SkippedRow is one row left out of an import with every problem that
+// refused it, in the order they were found.
+type SkippedRow struct {
+	File     string
+	Line     int
+	Part     string
+	Problems []Problem
+}
+
+// SkippedRows groups the report's skip problems by row, so that a row with
+// several problems is named once with all of them.
+func (r *Report) SkippedRows() []SkippedRow {
+	var out []SkippedRow
+	at := map[string]int{}
+	for _, p := range r.Problems {
+		if p.Severity != Skip || p.Line <= 0 {
+			continue
+		}
+		key := p.File + "\x00" + strconv.Itoa(p.Line)
+		i, ok := at[key]
+		if !ok {
+			i = len(out)
+			at[key] = i
+			out = append(out, SkippedRow{File: p.File, Line: p.Line})
+		}
+		if out[i].Part == "" {
+			out[i].Part = p.Part
+		}
+		out[i].Problems = append(out[i].Problems, p)
+	}
+	return out
+}
+
+// Columns names the columns of the row's problems, each once, in order
+// ("row" for a problem of the whole row).
+func (s SkippedRow) Columns() []string {
+	var cols []string
+	for _, p := range s.Problems {
+		c := p.Column
+		if c == "" {
+			c = "row"
+		}
+		if !slices.Contains(cols, c) {
+			cols = append(cols, c)
+		}
+	}
+	return cols
 }

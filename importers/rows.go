@@ -621,6 +621,10 @@ func (r *rowReader) grade() (g catalog.ResistorGrade, ohm float64, err error) {
 			s, _ := r.raw(FieldResistance)
 			keep(r.skip(FieldResistance, s, fmt.Errorf("%w: resistance must be above zero (a 0 Ω jumper is not a resistor for a budget)", ErrBadValue)))
 		}
+		if err != nil || ohm <= 0 {
+			// Refused already: the plausibility check below has nothing to add.
+			ohm = catalog.Unknown()
+		}
 	}
 	tolOK := true
 	if s, ok := r.raw(FieldTolerance); ok && !r.si && bareNumber(s, r.decimalComma) {
@@ -680,7 +684,13 @@ func (r *rowReader) grade() (g catalog.ResistorGrade, ohm float64, err error) {
 		g.Package = d.pkg
 		r.note(Info, FieldPackage, desc, fmt.Errorf("size %s taken from the description", d.pkg))
 	}
-	g.Technology = r.intern(normaliseTechnology(r.text(FieldTechnology)))
+	if t := r.text(FieldTechnology); t != "" {
+		if word, ok := normaliseTechnology(t); ok {
+			g.Technology = r.intern(word)
+		} else {
+			r.note(Doubt, FieldTechnology, t, unknownTechnology(t))
+		}
+	}
 	if g.Technology == "" && d.tech != "" {
 		g.Technology = d.tech
 		r.note(Info, FieldTechnology, desc, fmt.Errorf("technology %s taken from the description", d.tech))
@@ -812,30 +822,6 @@ func (r *rowReader) networkValues(s string) ([]float64, error) {
 		return nil, fmt.Errorf("%w: a network needs at least two elements (give the count or the values)", ErrMissingValue)
 	}
 	return vals, nil
-}
-
-// normaliseTechnology maps the usual words to the catalog's trade words.
-func normaliseTechnology(s string) string {
-	t := strings.ToLower(s)
-	switch {
-	case t == "":
-		return ""
-	case strings.Contains(t, "thin"):
-		return "thin-film"
-	case strings.Contains(t, "thick"):
-		return "thick-film"
-	case strings.Contains(t, "foil"):
-		return "foil"
-	case strings.Contains(t, "wire"):
-		return "wirewound"
-	case strings.Contains(t, "strip") || strings.Contains(t, "shunt"):
-		return "metal-strip"
-	case strings.Contains(t, "metal"):
-		return "metal-film"
-	case strings.Contains(t, "carbon"):
-		return "carbon-film"
-	}
-	return t
 }
 
 // ampFigure reads one op-amp figure; missing ones are reported, since a

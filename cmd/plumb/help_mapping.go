@@ -18,8 +18,9 @@ file says it once. It is YAML with these keys, all optional:
     tolerance: Grade
 
   price_breaks:           one column per price break, with the quantity
-    - column: Price 1000+ it starts at
-      min_qty: 1000
+    - column: Price 1000+ it starts at; a column whose header states its
+      min_qty: 1000       quantity ("Price (EUR) 1pc", "10+ (USD)") is a
+                          break even when the mapping does not list it
 
   fixed:                  a value for every row, for fields no column holds
     currency: EUR
@@ -35,7 +36,8 @@ file says it once. It is YAML with these keys, all optional:
 
 The field names are those --dry-run prints (part, maker, resistance,
 tolerance, tcr, power, package, price, currency, stock, supply_min, vos,
-cm_neg, cm_pos, swing_neg, swing_pos, aol, cmrr, gbw, ...). A bare
+cm_neg, cm_pos, swing_neg, swing_pos, aol, cmrr, gbw, supply_range
+("2.7 V to 36 V", "±1.35V ~ ±18V" read as its 2.7..36 V span), ...). A bare
 tolerance with no % in the cell, the header or units: is refused as
 ambiguous. Anchors and aliases (& and *) are not allowed.
 

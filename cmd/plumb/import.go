@@ -233,18 +233,20 @@ func saveImportMapping(opts *importOptions, rep *importers.Report) error {
 // importJSON is the JSON form of an import report, snake_case like the
 // catalog's own JSON.
 type importJSON struct {
-	DryRun      bool                   `json:"dry_run"`
-	Rows        int                    `json:"rows"`
-	Parts       int                    `json:"parts"`
-	Series      int                    `json:"series"`
-	Skipped     int                    `json:"skipped"`
-	Imported    int                    `json:"imported"`
-	Added       int                    `json:"added"`
-	Updated     int                    `json:"updated"`
-	Unchanged   int                    `json:"unchanged"`
-	SpecChanged int                    `json:"spec_changed"`
-	Files       []importFileJSON       `json:"files"`
-	Problems    []importProblemJSON    `json:"problems"`
+	DryRun      bool                `json:"dry_run"`
+	Rows        int                 `json:"rows"`
+	Parts       int                 `json:"parts"`
+	Series      int                 `json:"series"`
+	Skipped     int                 `json:"skipped"`
+	Imported    int                 `json:"imported"`
+	Added       int                 `json:"added"`
+	Updated     int                 `json:"updated"`
+	Unchanged   int                 `json:"unchanged"`
+	SpecChanged int                 `json:"spec_changed"`
+	Files       []importFileJSON    `json:"files"`
+	Problems    []importProblemJSON `json:"problems"`
+	// SkippedRows names each skipped row once, with all its problems.
+	SkippedRows []importSkippedJSON    `json:"skipped_rows"`
 	Results     []catalog.UpsertResult `json:"results"`
 }
 
@@ -253,6 +255,20 @@ type importFileJSON struct {
 	Kind     catalog.Kind `json:"kind"`
 	Rows     int          `json:"rows"`
 	Encoding string       `json:"encoding"`
+	// Unused names every column not read, and why.
+	Unused []importUnusedJSON `json:"unused_columns"`
+}
+
+type importUnusedJSON struct {
+	Column string `json:"column"`
+	Why    string `json:"why"`
+}
+
+type importSkippedJSON struct {
+	File     string              `json:"file"`
+	Line     int                 `json:"line"`
+	Part     string              `json:"part,omitempty"`
+	Problems []importProblemJSON `json:"problems"`
 }
 
 type importProblemJSON struct {
@@ -271,10 +287,25 @@ func importView(rep *importers.Report) importJSON {
 		Added: s.Added, Updated: s.Updated, Unchanged: s.Unchanged, SpecChanged: s.SpecChanged,
 		Files: []importFileJSON{}, Problems: []importProblemJSON{}, Results: rep.Results}
 	for _, f := range rep.Files {
-		v.Files = append(v.Files, importFileJSON{File: f.File, Kind: f.Kind, Rows: f.Rows, Encoding: f.Shape.Encoding})
+		fj := importFileJSON{File: f.File, Kind: f.Kind, Rows: f.Rows, Encoding: f.Shape.Encoding, Unused: []importUnusedJSON{}}
+		for _, u := range f.Unused {
+			fj.Unused = append(fj.Unused, importUnusedJSON{Column: u.Column, Why: u.Why})
+		}
+		v.Files = append(v.Files, fj)
+	}
+	problem := func(p importers.Problem) importProblemJSON {
+		return importProblemJSON{File: p.File, Line: p.Line, Column: p.Column, Part: p.Part, Severity: string(p.Severity), Raw: p.Raw, Reason: p.Reason}
 	}
 	for _, p := range rep.Problems {
-		v.Problems = append(v.Problems, importProblemJSON{File: p.File, Line: p.Line, Column: p.Column, Part: p.Part, Severity: string(p.Severity), Raw: p.Raw, Reason: p.Reason})
+		v.Problems = append(v.Problems, problem(p))
+	}
+	v.SkippedRows = []importSkippedJSON{}
+	for _, r := range rep.SkippedRows() {
+		sr := importSkippedJSON{File: r.File, Line: r.Line, Part: r.Part}
+		for _, p := range r.Problems {
+			sr.Problems = append(sr.Problems, problem(p))
+		}
+		v.SkippedRows = append(v.SkippedRows, sr)
 	}
 	if v.Results == nil {
 		v.Results = []catalog.UpsertResult{}
@@ -290,7 +321,11 @@ func writeImportTable(w io.Writer, ios *IOStreams, rep *importers.Report) error 
 	}
 	for _, f := range rep.Files {
 		fmt.Fprintf(w, "  %s: %d row(s) of %s, %s\n", f.File, f.Rows, f.Kind, f.Shape.Encoding)
+		for _, u := range f.Unused {
+			fmt.Fprintf(w, "    column %q not read: %s\n", u.Column, u.Why)
+		}
 	}
+	writeSkippedRows(w, ios, rep)
 	if s.DryRun {
 		for _, f := range rep.Files {
 			if err := writeDryRunFile(w, ios, f); err != nil {
@@ -319,15 +354,43 @@ func writeImportTable(w io.Writer, ios *IOStreams, rep *importers.Report) error 
 	return t.render(w)
 }
 
+// mostSkippedRows is how many skipped rows the summary names; the row
+// table and --report name every one.
+const mostSkippedRows = 20
+
+// writeSkippedRows names each skipped row in the summary with the columns
+// of all its problems, not only the first.
+func writeSkippedRows(w io.Writer, ios *IOStreams, rep *importers.Report) {
+	rows := rep.SkippedRows()
+	for i, r := range rows {
+		if i == mostSkippedRows {
+			fmt.Fprintf(w, "  ... and %d more skipped row(s): see the rows below or --report\n", len(rows)-i)
+			break
+		}
+		part := ""
+		if r.Part != "" {
+			part = " " + r.Part
+		}
+		what := strings.Join(r.Columns(), ", ")
+		if n := len(r.Problems); n > 1 {
+			what += fmt.Sprintf(" (%d problems)", n)
+		}
+		writeHanging(w, ios, "  ", "      ", fmt.Sprintf("skipped %s:%d%s: %s", r.File, r.Line, part, what))
+	}
+}
+
 // writeDryRunFile shows what a dry run of one file would use: the column
 // each field was taken from with the confidence of the guess, and the
 // first parts as parsed.
 func writeDryRunFile(w io.Writer, ios *IOStreams, f importers.FileReport) error {
-	if f.Mapping != nil && len(f.Mapping.Guesses) > 0 {
+	if f.Mapping != nil && len(f.Mapping.Guesses)+len(f.Unused) > 0 {
 		fmt.Fprintf(w, "\n%s\n", ios.Bold("Columns of "+f.File+":"))
 		t := newTable(ios, "COLUMN", "FIELD", "CONFIDENCE", "HOW").alignRight(2)
 		for _, g := range f.Mapping.Guesses {
 			t.row(g.Column, string(g.Field), strconv.FormatFloat(float64(g.Confidence), 'f', 2, 64), g.How)
+		}
+		for _, u := range f.Unused {
+			t.row(u.Column, "-", "", "not read: "+u.Why)
 		}
 		if err := t.render(w); err != nil {
 			return err

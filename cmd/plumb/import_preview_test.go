@@ -1,6 +1,7 @@
 package main
 
 import (
+	"encoding/json"
 	"strings"
 	"testing"
 )
@@ -39,5 +40,42 @@ func TestImportDryRunPreviewsEveryKind(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// TestImportSummaryNamesEverything: the summary names every column not
+// read, with the reason, and each skipped row with the columns of all its
+// problems; JSON carries both.
+func TestImportSummaryNamesEverything(t *testing.T) {
+	const many = "../../importers/testdata/exports/amp_many_problems.csv"
+	const prices = "../../importers/testdata/exports/res_price_headers.csv"
+	out, errOut, code := runPlumb(t, fixtureFactory(t), "import --dry-run "+many+" "+prices)
+	if code != exitOK {
+		t.Fatalf("exit %d: %s\n%s", code, errOut, out)
+	}
+	summary, _, _ := strings.Cut(out, "\n\n")
+	summary = strings.Join(strings.Fields(summary), " ") // as if unwrapped
+	for _, want := range []string{
+		"skipped " + many + ":3 QA-12: Vs Min, Vos, GBW, Channels (4 problems)",
+		`column "500+ (USD)" not read: price break from 500 in USD beside the EUR price breaks`,
+		`column "Distributor Part Number" not read: a distributor's own code`,
+	} {
+		if !strings.Contains(summary, want) {
+			t.Errorf("summary lacks %q:\n%s", want, summary)
+		}
+	}
+	out, errOut, code = runPlumb(t, fixtureFactory(t), "import --dry-run --format json "+many+" "+prices)
+	if code != exitOK {
+		t.Fatalf("json: exit %d: %s", code, errOut)
+	}
+	var rep importJSON
+	if err := json.Unmarshal([]byte(out), &rep); err != nil {
+		t.Fatal(err)
+	}
+	if len(rep.SkippedRows) != 1 || len(rep.SkippedRows[0].Problems) != 4 || rep.SkippedRows[0].Part != "QA-12" {
+		t.Errorf("skipped_rows %+v, want QA-12 with 4 problems", rep.SkippedRows)
+	}
+	if len(rep.Files) != 2 || len(rep.Files[1].Unused) != 2 || rep.Files[1].Unused[0].Column != "500+ (USD)" {
+		t.Errorf("files %+v, want the price file's two unused columns", rep.Files)
 	}
 }
