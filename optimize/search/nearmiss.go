@@ -136,7 +136,13 @@ func exactShortfall(ls []Limit) float64 {
 // skips what cannot fail: a CMRR at or above its limit has margin
 // 10^(Δ/20) ≥ 1 and needs no power (TestShortfallMatchesMargins keeps it
 // equal to the sum over eachMargin).
-func (s *space) shortfall(m *metrics) float64 {
+func (s *space) shortfall(m *metrics) float64 { return s.shortfallUpTo(m, math.Inf(1)) }
+
+// shortfallUpTo is shortfall, except that once the sum passes stop it
+// returns the partial sum, itself above stop: every term is positive, so
+// the whole sum is too, and a caller looking for the least shortfall below
+// stop needs no more.
+func (s *space) shortfallUpTo(m *metrics, stop float64) float64 {
 	l := &s.p.Limits
 	sum := 0.0
 	for _, t := range [...]struct{ v, lim float64 }{
@@ -144,12 +150,16 @@ func (s *space) shortfall(m *metrics) float64 {
 		{m.offDrift, l.OffsetDriftVK}, {m.noise, l.NoiseDensity}, {m.noiseRMS, l.NoiseRMS},
 	} {
 		if t.lim > 0 && t.v > 0 {
-			sum = addShortfall(sum, t.lim/t.v)
+			if sum = addShortfall(sum, t.lim/t.v); sum > stop {
+				return sum
+			}
 		}
 	}
 	if l.CMRRdB > 0 {
 		if d := (m.cmrrDB - l.CMRRdB) / 20; !(d >= 0) {
-			sum = addShortfall(sum, math.Pow(10, d))
+			if sum = addShortfall(sum, math.Pow(10, d)); sum > stop {
+				return sum
+			}
 		}
 	}
 	if s.p.BandwidthHz > 0 {
@@ -189,7 +199,7 @@ func (s *space) closestOption(ci, ai int) (best classBest, short float64, pass b
 		if s.pass(&m) {
 			return classBest{}, 0, true
 		}
-		sf := s.shortfall(&m)
+		sf := s.shortfallUpTo(&m, short)
 		if sf < short || (sf == short && opts[i].cost+a.cost < best.cost) {
 			short = sf
 			best = classBest{id: s.classID(ci, ai), cfg: ci, amp: ai, opt: i, cost: opts[i].cost + a.cost, m: m, key: s.tie(c, &opts[i], &m)}

@@ -214,7 +214,8 @@ func TestNearCheck(t *testing.T) {
 // TestShortfallMatchesMargins: the near-miss search's shortfall equals the
 // sum of -ln(margin) over the failing margins eachMargin lists (the
 // definition of exactShortfall, in logs), bit for bit, on random metrics
-// and limits including NaN, zero and infinite figures.
+// and limits including NaN, zero and infinite figures; stopped at a bound,
+// it is the same sum or a partial sum above the bound.
 func TestShortfallMatchesMargins(t *testing.T) {
 	r := rand.New(rand.NewPCG(5, 41))
 	fig := func(scale float64) float64 {
@@ -252,6 +253,12 @@ func TestShortfallMatchesMargins(t *testing.T) {
 		})
 		if got := s.shortfall(&m); got != want && !(math.IsNaN(got) && math.IsNaN(want)) {
 			t.Fatalf("case %d: shortfall %v, the margins give %v (metrics %+v, limits %+v)", i, got, want, m, p.Limits)
+		}
+		// Stopped early, it is the whole sum when that is at most stop,
+		// and above stop when the whole sum is.
+		stop := want * []float64{0, 0.5, 1, 2}[r.IntN(4)]
+		if got := s.shortfallUpTo(&m, stop); (want <= stop && got != want) || (want > stop && !(got > stop)) {
+			t.Fatalf("case %d: shortfall up to %v is %v, the whole sum %v", i, stop, got, want)
 		}
 	}
 }
