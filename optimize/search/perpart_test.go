@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math/rand/v2"
+	"os"
 	"reflect"
 	"testing"
 
@@ -142,20 +143,56 @@ func TestPerPartCatalogFileMatchesMemory(t *testing.T) {
 }
 
 // TestLargerCatalogNeverDearer: adding parts to a catalog can only add
-// values and cheaper parts, so the rank-1 design of the larger catalog never
-// costs more than that of the smaller one it contains, and whatever the
-// smaller one can build the larger one can too. (Difference, non-inverting,
-// inverting and divider stages with single values; series and parallel
-// pairs are a heuristic choice of values and are left out.) Offering only
-// the two values either side of the target, as the search did before parts
-// were priced one by one, fails seed 393 here.
+// values and cheaper parts, so the rank-1 design of the larger catalog should
+// never cost more than that of the smaller one it contains, and whatever the
+// smaller one can build the larger one should build too. It holds for the
+// single values of difference, non-inverting, inverting and divider stages
+// (offering only the two values either side of the target, as the search
+// did before parts were priced one by one, fails seed 393 there).
+//
+// It does not hold yet where the search picks a value by a rule that a
+// larger catalog can change: series and parallel pairs (the partner values
+// are the ones nearer the target than the best single value and cheaper
+// than those between, so a new value can push a usable pair out: seed 26
+// has a design from the smaller catalog and none from the larger), the
+// in-amp's second stage and the level shift's Rg = Rf (one value per
+// grade, the one nearest the middle of the resistor window: a new, dearer
+// value nearer the middle replaces a cheaper one; in-amp seeds 3, 19, 77,
+// 123, 164, 193, level-shift seeds 117 and 12, 37, 78, 101). Those cases
+// are listed with the gap they show and skipped (PLUMB_SUPERSET_GAPS=1
+// runs them), so that the property is checked as soon as the search offers
+// every value they need.
 func TestLargerCatalogNeverDearer(t *testing.T) {
+	tests := []struct {
+		name   string
+		gen    func(*rand.Rand) Problem
+		combos bool
+		stream uint64
+		cases  uint64
+		gap    string // why the property does not hold yet ("": it does)
+	}{
+		{"single values", genProblem, false, 23, 500, ""},
+		{"series and parallel pairs", genProblem, true, 24, 300, "pairs are chosen relative to the best single value"},
+		{"in-amp and its second stage", genInAmpProblem, false, 25, 200, "one second-stage value per grade, nearest the middle of the window"},
+		{"level shift, reference into the non-inverting node", genLevelShiftProblem, false, 26, 200, "one Rg = Rf value per grade, nearest the middle of the window"},
+		{"level shift, reference into the inverting node", genLevelShiftInvProblem, false, 27, 200, "one Rg = Rf value per grade, nearest the middle of the window"},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			if tc.gap != "" && os.Getenv("PLUMB_SUPERSET_GAPS") == "" {
+				t.Skipf("known gap (issue 11): %s", tc.gap)
+			}
+			largerNeverDearer(t, tc.gen, tc.combos, tc.stream, tc.cases)
+		})
+	}
+}
+
+func largerNeverDearer(t *testing.T, gen func(*rand.Rand) Problem, combos bool, stream, cases uint64) {
 	feasible := 0
-	const cases = 500
 	for seed := uint64(1); seed <= cases; seed++ {
-		r := rand.New(rand.NewPCG(seed, 23))
+		r := rand.New(rand.NewPCG(seed, stream))
 		big := genPerPart(r, 100+r.IntN(400), 1+r.IntN(3), r.IntN(4), 1+r.IntN(10))
-		p := genProblem(r)
+		p := gen(r)
 		small := *big
 		small.Resistors = nil
 		for _, res := range big.Resistors {
@@ -163,21 +200,22 @@ func TestLargerCatalogNeverDearer(t *testing.T) {
 				small.Resistors = append(small.Resistors, res)
 			}
 		}
-		sr, serr := SolveProblem(context.Background(), &small, p, Options{Top: 1})
+		opt := Options{Top: 1, Combos: combos}
+		sr, serr := SolveProblem(context.Background(), &small, p, opt)
 		if serr != nil {
 			continue
 		}
 		feasible++
-		br, berr := SolveProblem(context.Background(), big, p, Options{Top: 1})
+		br, berr := SolveProblem(context.Background(), big, p, opt)
 		if berr != nil {
 			t.Errorf("seed %d: the smaller catalog has a design (%.4f) and the larger none: %v", seed, sr.Designs[0].TotalCost, berr)
 			continue
 		}
 		if b, s := br.Designs[0].TotalCost, sr.Designs[0].TotalCost; b > s*(1+1e-12) {
-			t.Errorf("seed %d: rank 1 costs %.6f from the larger catalog, %.6f from the smaller one inside it", seed, b, s)
+			t.Errorf("seed %d: rank 1 costs %.6f from the larger catalog (%v), %.6f from the smaller one inside it (%v)", seed, b, br.Designs[0].Parts, s, sr.Designs[0].Parts)
 		}
 	}
-	if feasible < cases/5 {
+	if feasible < int(cases)/5 {
 		t.Errorf("only %d of %d cases are feasible: the property has no teeth", feasible, cases)
 	}
 	t.Logf("%d of %d cases feasible", feasible, cases)
