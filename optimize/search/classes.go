@@ -569,8 +569,9 @@ func (s *space) discreteFor(ga, gb *group, dg, df float64) grades {
 
 // optGrades returns the ratio figures of option o of configuration c: the
 // class's own for a network, else the grades diluted by the option's own
-// values (see dilution).
-func (s *space) optGrades(c *config, o *option) *grades {
+// values (see dilution), written to buf (so that the search's inner loop
+// allocates nothing).
+func (s *space) optGrades(c *config, o *option, buf *grades) *grades {
 	if c.net >= 0 || c.ga < 0 || c.gb < 0 || (s.p.SourceOhm <= 0 && s.p.LoadOhm <= 0) || o.rg < 0 || o.rf < 0 {
 		return &c.g
 	}
@@ -588,8 +589,8 @@ func (s *space) optGrades(c *config, o *option) *grades {
 	if dg == 1 && df == 1 {
 		return &c.g
 	}
-	g := s.discreteFor(ga, gb, dg, df)
-	return &g
+	*buf = s.discreteFor(ga, gb, dg, df)
+	return buf
 }
 
 // target is the Rf (divider: Rtop) value that gives the target ratio with

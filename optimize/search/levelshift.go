@@ -418,7 +418,8 @@ func (s *space) evalOpt(c *config, o *option, a *amp, m *metrics) {
 		s.evalLevelShift(c, o, a, m)
 		return
 	}
-	s.eval(s.optGrades(c, o), o.k0, o.rp, a, m)
+	var buf grades
+	s.eval(s.optGrades(c, o, &buf), o.k0, o.rp, a, m)
 }
 
 // lsDominant names the largest contributor to a level shift's limit from
