@@ -69,13 +69,7 @@ func appendFields(buf []byte, v reflect.Value, first bool) ([]byte, error) {
 		if strings.Contains(opts, "omitempty") && emptyJSON(fv) {
 			continue
 		}
-		if !first {
-			buf = append(buf, ',')
-		}
-		first = false
-		buf = append(buf, '"')
-		buf = append(buf, name...)
-		buf = append(buf, '"', ':')
+		buf = appendJSONKey(buf, &first, name)
 		switch fv.Kind() {
 		case reflect.Float64:
 			buf = appendJSONFloat(buf, fv.Float())
@@ -92,6 +86,19 @@ func appendFields(buf []byte, v reflect.Value, first bool) ([]byte, error) {
 		}
 	}
 	return buf, nil
+}
+
+// appendJSONKey appends the key of the next member of a JSON object being
+// written by hand, after the comma that separates it from the one before
+// unless *first (which it then clears).
+func appendJSONKey(buf []byte, first *bool, name string) []byte {
+	if !*first {
+		buf = append(buf, ',')
+	}
+	*first = false
+	buf = append(buf, '"')
+	buf = append(buf, name...)
+	return append(buf, '"', ':')
 }
 
 // emptyJSON is encoding/json's test for omitempty.

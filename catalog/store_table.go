@@ -413,15 +413,7 @@ func formatFloat(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) 
 func (t *table) appendFigures(buf []byte, v reflect.Value) []byte {
 	buf = append(buf, '{')
 	first := true
-	key := func(name string) {
-		if !first {
-			buf = append(buf, ',')
-		}
-		first = false
-		buf = append(buf, '"')
-		buf = append(buf, name...)
-		buf = append(buf, '"', ':')
-	}
+	key := func(name string) { buf = appendJSONKey(buf, &first, name) }
 	for i := range t.cols {
 		c := &t.cols[i]
 		if !c.figure {
