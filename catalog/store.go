@@ -134,6 +134,27 @@ const (
 	// SpecChanged: the figures differ from the catalog's. The catalog is NOT
 	// overwritten; the difference is reported and recorded in the history.
 	SpecChanged Outcome = "spec-changed"
+	// FiguresUpdated: the figures differed and UpsertOptions.Figures let
+	// the import write them; Changes lists each, and the history keeps the
+	// figures as they were.
+	FiguresUpdated Outcome = "figures-updated"
+)
+
+// FigurePolicy says what an upsert does with a part already in the
+// catalog whose figures differ from the import's.
+type FigurePolicy int
+
+// Figure policies.
+const (
+	// KeepFigures, the zero value: the part is SpecChanged and nothing of
+	// it is written.
+	KeepFigures FigurePolicy = iota
+	// FillUnknown writes the figures the catalog holds as unknown when no
+	// known figure differs; a part whose known figures differ is still
+	// SpecChanged and nothing of it is written.
+	FillUnknown
+	// ReplaceFigures writes every figure that differs, known or unknown.
+	ReplaceFigures
 )
 
 // UpsertOptions control Upsert.
@@ -146,6 +167,9 @@ type UpsertOptions struct {
 	Now time.Time
 	// DryRun computes the outcomes and rolls back.
 	DryRun bool
+	// Figures says whether differing figures of a part already in the
+	// catalog are written (see FigurePolicy); the zero value keeps them.
+	Figures FigurePolicy
 }
 
 // UpsertResult is the outcome of one part of a batch.

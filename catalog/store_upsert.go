@@ -5,6 +5,7 @@ import (
 	"database/sql"
 	"encoding/json"
 	"fmt"
+	"math"
 	"reflect"
 	"slices"
 	"strconv"
@@ -229,8 +230,22 @@ func upsertKind[T any](us *UpsertSession, t *table, parts []T) error {
 				res.Outcome = Repeated
 				break
 			}
-			if res.Changes = diffFigures(t, old, v); len(res.Changes) > 0 {
-				res.Outcome = SpecChanged
+			if u.opt.Figures != KeepFigures {
+				// An export that leaves a figure out says nothing about it:
+				// the catalog's stays.
+				keepGiven(t, old, v)
+			}
+			changes, known := diffFigures(t, old, v)
+			if res.Changes = changes; len(changes) > 0 {
+				if u.opt.Figures == KeepFigures || known && u.opt.Figures != ReplaceFigures {
+					res.Outcome = SpecChanged
+					break
+				}
+				res.Outcome = FiguresUpdated
+				res.Changes = append(res.Changes, diffOffer(t, old, v)...)
+				if err := k.replaceFigures(u, t, id, old, v); err != nil {
+					return fmt.Errorf("update the figures of %s %s: %w", t.kind, names[i], err)
+				}
 				break
 			}
 			if res.Changes = diffOffer(t, old, v); len(res.Changes) == 0 {
@@ -321,9 +336,9 @@ func (t *table) offerArgs(v reflect.Value, id int64) []any {
 }
 
 // diffFigures lists the figures of new that differ from old, as
-// "name old -> new".
-func diffFigures(t *table, old, new reflect.Value) []string {
-	var out []string
+// "name old -> new"; known is set when any of them was known in old (not
+// a figure nobody gave, or a text left blank).
+func diffFigures(t *table, old, new reflect.Value) (out []string, known bool) {
 	for i := range t.cols {
 		c := &t.cols[i]
 		if !c.figure {
@@ -332,6 +347,9 @@ func diffFigures(t *table, old, new reflect.Value) []string {
 		a, b := columnValue(c, old), columnValue(c, new)
 		if a != b {
 			out = append(out, c.name+" "+show(a)+" -> "+show(b))
+			// A figure nobody gave is NULL; a text figure (technology,
+			// package) nobody gave is blank.
+			known = known || a != nil && !(c.kind == colString && a == "")
 		}
 	}
 	if t.child != nil {
@@ -339,6 +357,7 @@ func diffFigures(t *table, old, new reflect.Value) []string {
 		b := new.FieldByIndex(t.child.field).Interface().([]float64)
 		if !slices.Equal(a, b) {
 			out = append(out, t.child.name+" "+showFloats(a)+" -> "+showFloats(b))
+			known = known || len(a) > 0
 		}
 	}
 	if t.matched != nil {
@@ -346,9 +365,78 @@ func diffFigures(t *table, old, new reflect.Value) []string {
 		b := new.FieldByIndex(t.matched).Interface().(*MatchedNetwork)
 		if !SameFigures(a, b) {
 			out = append(out, "network "+showMatched(a)+" -> "+showMatched(b))
+			known = known || a != nil
 		}
 	}
-	return out
+	return out, known
+}
+
+// keepGiven sets each figure new leaves unknown (NaN, a blank text, no
+// child values, no matched network) to old's.
+func keepGiven(t *table, old, new reflect.Value) {
+	for i := range t.cols {
+		c := &t.cols[i]
+		if !c.figure {
+			continue
+		}
+		f := new.FieldByIndex(c.index)
+		if c.kind == colFloat && c.unknown && math.IsNaN(f.Float()) || c.kind == colString && f.String() == "" {
+			f.Set(old.FieldByIndex(c.index))
+		}
+	}
+	if t.child != nil && new.FieldByIndex(t.child.field).Len() == 0 {
+		new.FieldByIndex(t.child.field).Set(old.FieldByIndex(t.child.field))
+	}
+	if t.matched != nil && new.FieldByIndex(t.matched).IsNil() {
+		new.FieldByIndex(t.matched).Set(old.FieldByIndex(t.matched))
+	}
+}
+
+// replaceFigures writes the figures (and offer) of new over the catalog row
+// id, whose figures were old's: every column of the row, and the child
+// values and matched network afresh. The history's "added" row, which
+// reads its figures from the part, is given old's figures first, so that
+// it still says what the part was when it was added.
+func (k *kindState) replaceFigures(u *upsertRun, t *table, id int64, old, new reflect.Value) error {
+	name := old.FieldByIndex(t.part).String()
+	if _, err := u.tx.ExecContext(u.ctx, "UPDATE part_history SET figures = ? WHERE kind = ? AND part = ? AND figures = ''",
+		string(t.appendFigures(nil, old)), string(t.kind), name); err != nil {
+		return err
+	}
+	var set []string
+	var args []any
+	for i := range t.cols {
+		set = append(set, t.cols[i].name+" = ?")
+		args = append(args, columnValue(&t.cols[i], new))
+	}
+	if _, err := u.tx.ExecContext(u.ctx, "UPDATE "+t.name+" SET "+strings.Join(set, ", ")+" WHERE id = ?", append(args, id)...); err != nil {
+		return err
+	}
+	if _, err := u.tx.ExecContext(u.ctx, "DELETE FROM price_breaks WHERE kind = '"+string(t.kind)+"' AND part_id = ?", id); err != nil {
+		return err
+	}
+	if t.child != nil {
+		if _, err := u.tx.ExecContext(u.ctx, "DELETE FROM "+t.child.table+" WHERE "+t.child.fk+" = ?", id); err != nil {
+			return err
+		}
+		for pos, x := range new.FieldByIndex(t.child.field).Interface().([]float64) {
+			k.kids.args = append(k.kids.args, id, pos, x)
+			if err := k.kids.done(); err != nil {
+				return err
+			}
+		}
+	}
+	if t.matched != nil {
+		// The elements go with their network (ON DELETE CASCADE).
+		if _, err := u.tx.ExecContext(u.ctx, "DELETE FROM amplifier_network_elements WHERE amplifier_id = ?", id); err != nil {
+			return err
+		}
+		if _, err := u.tx.ExecContext(u.ctx, "DELETE FROM amplifier_networks WHERE amplifier_id = ?", id); err != nil {
+			return err
+		}
+		return k.writeMatched(id, new.FieldByIndex(t.matched).Interface().(*MatchedNetwork))
+	}
+	return nil
 }
 
 // diffOffer lists the offer and source changes; a new import time alone is

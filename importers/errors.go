@@ -46,6 +46,10 @@ var (
 	// ErrRowsSkipped is returned under Options.Strict when any row was
 	// skipped; nothing is written, and the report lists every problem.
 	ErrRowsSkipped = errors.New("importers: rows skipped under --strict")
+	// ErrKnownFigures is returned when an import that fills unknown
+	// figures (catalog.FillUnknown) meets a part whose known figures
+	// differ; nothing is written.
+	ErrKnownFigures = errors.New("importers: known figures differ")
 	// ErrMapping is returned for a mapping file that cannot be used.
 	ErrMapping = errors.New("importers: invalid mapping")
 )

@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"sort"
+	"strings"
 
 	"plumb/catalog"
 )
@@ -29,7 +30,7 @@ func Import(ctx context.Context, st Store, files []string, opt Options) (*Report
 	written := 0
 	emit := func(c *Batch) error {
 		if us == nil {
-			s, err := st.BeginUpsert(ctx, catalog.UpsertOptions{Source: opt.Source, Now: opt.Now, DryRun: opt.DryRun})
+			s, err := st.BeginUpsert(ctx, catalog.UpsertOptions{Source: opt.Source, Now: opt.Now, DryRun: opt.DryRun, Figures: opt.Figures})
 			if err != nil {
 				return fmt.Errorf("importers: writing to the catalog (nothing was written): %w", err)
 			}
@@ -66,6 +67,16 @@ func Import(ctx context.Context, st Store, files []string, opt Options) (*Report
 			return sc.rep, fmt.Errorf("%w: %d row(s) skipped, so nothing was written; fix them (see the report) or import without --strict", ErrRowsSkipped, n)
 		}
 	}
+	if opt.Figures == catalog.FillUnknown {
+		// Filling unknown figures is all or nothing: a known figure that
+		// differs needs the explicit ReplaceFigures.
+		if n := sc.rep.Summary.SpecChanged; n > 0 {
+			sc.rep.Summary.DryRun = opt.DryRun
+			sc.finish()
+			return sc.rep, fmt.Errorf("%w: %d part(s) have known figures that differ from the file's (listed above), so nothing was written; check them against the datasheet, then confirm the change or import without filling",
+				ErrKnownFigures, n)
+		}
+	}
 	if us != nil {
 		if err := us.Commit(); err != nil {
 			return nil, fmt.Errorf("importers: writing %d parts to the catalog (nothing was written): %w", written, err)
@@ -93,7 +104,12 @@ func (sc *scan) tally(res []catalog.UpsertResult, where map[string]origin) {
 			rep.Summary.SpecChanged++
 			rep.Results = append(rep.Results, r)
 			rep.Problems = append(rep.Problems, Problem{ParseError: ParseError{File: o.file, Line: o.line, Err: errSpecChange}, Severity: Doubt, Part: r.Part,
-				Reason: fmt.Sprintf("figures differ from the catalog's, which are kept: %v; check the datasheet and update the part deliberately", r.Changes)})
+				Reason: fmt.Sprintf("figures differ from the catalog's, which are kept: %v; check the datasheet and update the part deliberately (--fill-unknown, with --overwrite-known for known figures)", r.Changes)})
+		case catalog.FiguresUpdated:
+			rep.Summary.FiguresUpdated++
+			rep.Results = append(rep.Results, r)
+			rep.Problems = append(rep.Problems, Problem{ParseError: ParseError{File: o.file, Line: o.line, Err: errFiguresUpdated}, Severity: Info, Part: r.Part,
+				Reason: fmt.Sprintf("figures updated: %s", strings.Join(r.Changes, "; "))})
 		case catalog.Repeated:
 			// Read earlier in this import, in an earlier chunk.
 			rep.Summary.Parts--
@@ -108,7 +124,10 @@ func (sc *scan) tally(res []catalog.UpsertResult, where map[string]origin) {
 	}
 }
 
-var errSpecChange = fmt.Errorf("importers: figures differ from the catalog")
+var (
+	errSpecChange     = fmt.Errorf("importers: figures differ from the catalog")
+	errFiguresUpdated = fmt.Errorf("importers: figures updated")
+)
 
 // sortProblems orders the report by file and line, keeping the order of
 // problems on one line.

@@ -52,6 +52,13 @@ type Options struct {
 	// Strict makes Import write nothing and return ErrRowsSkipped (with
 	// the full report) when any row is skipped.
 	Strict bool
+	// Figures says what Import does with a part already in the catalog
+	// whose figures differ from the file's: catalog.KeepFigures (the zero
+	// value) reports it spec-changed; catalog.FillUnknown writes the
+	// figures the catalog holds as unknown, and writes nothing at all
+	// (ErrKnownFigures) when any part's known figures differ;
+	// catalog.ReplaceFigures writes every differing figure.
+	Figures catalog.FigurePolicy
 }
 
 // ProgressEvery is how often Options.Progress is called, in rows.

@@ -30,7 +30,10 @@ type Summary struct {
 	Updated     int // prices or stock changed
 	Unchanged   int
 	SpecChanged int // figures differ from the catalog's: reported, never silently overwritten
-	DryRun      bool
+	// FiguresUpdated counts parts whose figures were written over the
+	// catalog's as Options.Figures allowed, each listed in Problems.
+	FiguresUpdated int
+	DryRun         bool
 }
 
 // FileReport is what was found in one file.

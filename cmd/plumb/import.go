@@ -40,6 +40,10 @@ type importOptions struct {
 	AllowUnusual bool
 	// Strict makes a skipped row fail the import (exit 1).
 	Strict bool
+	// FillUnknown writes figures the catalog holds as unknown;
+	// OverwriteKnown (with it) also changes known figures that differ.
+	FillUnknown    bool
+	OverwriteKnown bool
 }
 
 func newImportCmd(f *Factory, runF func(*importOptions) error) *cobra.Command {
@@ -55,7 +59,11 @@ transaction: all of the files' parts or none. Rows that cannot be used, or
 whose reading is in doubt, are reported with file, line and column.
 
 A part whose figures differ from the catalog's is reported as spec-changed
-and its catalog figures are kept. --dry-run reads and compares without
+and its catalog figures are kept. --fill-unknown writes the figures the
+catalog holds as unknown (all or nothing: when any part's known figures
+differ, nothing is written and they are listed); with --overwrite-known it
+also changes the known ones. Each change is listed and kept in the part's
+history (plumb catalog history PART). --dry-run reads and compares without
 writing, and works on the demo catalog too; it shows how each column was
 read. The catalog's own JSON and CSV exports import back unchanged.
 
@@ -102,6 +110,9 @@ was skipped. The mapping file: plumb help mapping.`,
 			if opts.Currency != "" && !catalog.IsCurrencyCode(opts.Currency) {
 				return usagef("--currency %q: give a three-letter ISO 4217 code such as EUR or USD", opts.Currency)
 			}
+			if opts.OverwriteKnown && !opts.FillUnknown {
+				return usagef("--overwrite-known confirms changing known figures and goes with --fill-unknown")
+			}
 			if runF != nil {
 				return runF(opts)
 			}
@@ -119,6 +130,8 @@ was skipped. The mapping file: plumb help mapping.`,
 	fl.StringVar(&opts.Currency, "currency", "", "ISO 4217 `CODE` of prices that name no currency in their cells, headers or mapping (default: import.currency from the config)")
 	fl.BoolVar(&opts.AllowUnusual, "allow-unusual", false, "keep rows with figures outside what the trade makes (flagged), instead of skipping them")
 	fl.BoolVar(&opts.Strict, "strict", false, "fail (exit 1) when any row is skipped; nothing is written")
+	fl.BoolVar(&opts.FillUnknown, "fill-unknown", false, "write figures the catalog holds as unknown; nothing is written when a known figure differs")
+	fl.BoolVar(&opts.OverwriteKnown, "overwrite-known", false, "with --fill-unknown: also change known figures that differ (checked against the datasheet)")
 	addFormatFlag(cmd, &opts.Format)
 	return cmd
 }
@@ -129,6 +142,12 @@ func runImport(ctx context.Context, opts *importOptions) error {
 	}
 	io := importers.Options{Kind: opts.Kind, DryRun: opts.DryRun, Source: opts.Source, Now: opts.Now(),
 		Currency: opts.Currency, AllowUnusual: opts.AllowUnusual, Strict: opts.Strict}
+	switch {
+	case opts.OverwriteKnown:
+		io.Figures = catalog.ReplaceFigures
+	case opts.FillUnknown:
+		io.Figures = catalog.FillUnknown
+	}
 	if opts.Mapping != "" {
 		m, err := importers.LoadMapping(opts.MappingDir, opts.Mapping)
 		if err != nil {
@@ -142,7 +161,7 @@ func runImport(ctx context.Context, opts *importOptions) error {
 	}
 	defer st.Close()
 	rep, err := importers.Import(ctx, st, opts.Files, io)
-	if errors.Is(err, importers.ErrRowsSkipped) && rep != nil {
+	if (errors.Is(err, importers.ErrRowsSkipped) || errors.Is(err, importers.ErrKnownFigures)) && rep != nil {
 		// Every problem still goes to the user, then the refusal.
 		if opts.Format == "table" {
 			_ = writeImportTable(opts.IO.Out, opts.IO, rep)
@@ -205,8 +224,12 @@ func writeImportSummary(w io.Writer, rep *importers.Report) {
 	if s.DryRun {
 		verb = "would import (dry run, nothing written)"
 	}
-	fmt.Fprintf(w, "%s %d part(s) from %d row(s): %d added, %d updated, %d unchanged, %d spec-changed; %d row(s) skipped\n",
-		verb, s.Imported, s.Rows, s.Added, s.Updated, s.Unchanged, s.SpecChanged, s.Skipped)
+	figures := ""
+	if s.FiguresUpdated > 0 {
+		figures = fmt.Sprintf(", %d with figures updated", s.FiguresUpdated)
+	}
+	fmt.Fprintf(w, "%s %d part(s) from %d row(s): %d added, %d updated, %d unchanged, %d spec-changed%s; %d row(s) skipped\n",
+		verb, s.Imported, s.Rows, s.Added, s.Updated, s.Unchanged, s.SpecChanged, figures, s.Skipped)
 }
 
 func saveImportMapping(opts *importOptions, rep *importers.Report) error {
@@ -233,18 +256,20 @@ func saveImportMapping(opts *importOptions, rep *importers.Report) error {
 // importJSON is the JSON form of an import report, snake_case like the
 // catalog's own JSON.
 type importJSON struct {
-	DryRun      bool                `json:"dry_run"`
-	Rows        int                 `json:"rows"`
-	Parts       int                 `json:"parts"`
-	Series      int                 `json:"series"`
-	Skipped     int                 `json:"skipped"`
-	Imported    int                 `json:"imported"`
-	Added       int                 `json:"added"`
-	Updated     int                 `json:"updated"`
-	Unchanged   int                 `json:"unchanged"`
-	SpecChanged int                 `json:"spec_changed"`
-	Files       []importFileJSON    `json:"files"`
-	Problems    []importProblemJSON `json:"problems"`
+	DryRun      bool `json:"dry_run"`
+	Rows        int  `json:"rows"`
+	Parts       int  `json:"parts"`
+	Series      int  `json:"series"`
+	Skipped     int  `json:"skipped"`
+	Imported    int  `json:"imported"`
+	Added       int  `json:"added"`
+	Updated     int  `json:"updated"`
+	Unchanged   int  `json:"unchanged"`
+	SpecChanged int  `json:"spec_changed"`
+	// FiguresUpdated counts parts whose figures --fill-unknown wrote.
+	FiguresUpdated int                 `json:"figures_updated"`
+	Files          []importFileJSON    `json:"files"`
+	Problems       []importProblemJSON `json:"problems"`
 	// SkippedRows names each skipped row once, with all its problems.
 	SkippedRows []importSkippedJSON    `json:"skipped_rows"`
 	Results     []catalog.UpsertResult `json:"results"`
@@ -284,7 +309,7 @@ type importProblemJSON struct {
 func importView(rep *importers.Report) importJSON {
 	s := rep.Summary
 	v := importJSON{DryRun: s.DryRun, Rows: s.Rows, Parts: s.Parts, Series: s.Series, Skipped: s.Skipped, Imported: s.Imported,
-		Added: s.Added, Updated: s.Updated, Unchanged: s.Unchanged, SpecChanged: s.SpecChanged,
+		Added: s.Added, Updated: s.Updated, Unchanged: s.Unchanged, SpecChanged: s.SpecChanged, FiguresUpdated: s.FiguresUpdated,
 		Files: []importFileJSON{}, Problems: []importProblemJSON{}, Results: rep.Results}
 	for _, f := range rep.Files {
 		fj := importFileJSON{File: f.File, Kind: f.Kind, Rows: f.Rows, Encoding: f.Shape.Encoding, Unused: []importUnusedJSON{}}

@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/json"
+	"path/filepath"
 	"strings"
 	"testing"
 )
@@ -77,5 +78,43 @@ func TestImportSummaryNamesEverything(t *testing.T) {
 	}
 	if len(rep.Files) != 2 || len(rep.Files[1].Unused) != 2 || rep.Files[1].Unused[0].Column != "500+ (USD)" {
 		t.Errorf("files %+v, want the price file's two unused columns", rep.Files)
+	}
+}
+
+// TestImportFillUnknown: --fill-unknown fills figures the catalog holds as
+// unknown and lists each change, which catalog history keeps; a known
+// figure that differs writes nothing (exit 1) unless --overwrite-known
+// confirms it, and that flag alone is a usage error.
+func TestImportFillUnknown(t *testing.T) {
+	db := filepath.Join(t.TempDir(), "parts.db")
+	run := func(args string) (string, string, int) {
+		f := fixtureFactory(t)
+		f.Catalog = f.openConfigured
+		return runPlumb(t, f, "--catalog "+db+" "+args)
+	}
+	const dir = "../../importers/testdata/exports/"
+	steps := []struct {
+		args string
+		code int
+		want []string
+	}{
+		{"catalog init " + db, exitOK, nil},
+		{"import --allow-unusual " + dir + "ref_messy_chf.csv", exitOK, nil},
+		{"import --overwrite-known " + dir + "ref_fill.csv", exitUsage, nil},
+		{"import --fill-unknown " + dir + "ref_known.csv", exitError, []string{"drift_ppm 10 -> 8", "nothing was written"}},
+		{"import --fill-unknown " + dir + "ref_fill.csv", exitOK, []string{"1 with figures updated", "noise_pp_v unknown -> 9e-06"}},
+		{"catalog history VR25-C", exitOK, []string{"figures-updated"}},
+		{"import --fill-unknown --overwrite-known " + dir + "ref_known.csv", exitOK, []string{"drift_ppm 10 -> 8"}},
+	}
+	for _, s := range steps {
+		out, errOut, code := run(s.args)
+		if code != s.code {
+			t.Fatalf("%s: exit %d, want %d: %s\n%s", s.args, code, s.code, errOut, out)
+		}
+		for _, w := range s.want {
+			if all := strings.Join(strings.Fields(out+errOut), " "); !strings.Contains(all, w) {
+				t.Errorf("%s: output lacks %q:\n%s%s", s.args, w, out, errOut)
+			}
+		}
 	}
 }
