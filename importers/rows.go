@@ -685,7 +685,10 @@ func (r *rowReader) grade() (g catalog.ResistorGrade, ohm float64, err error) {
 		r.note(Info, FieldPackage, desc, fmt.Errorf("size %s taken from the description", d.pkg))
 	}
 	if t := r.text(FieldTechnology); t != "" {
-		if word, ok := normaliseTechnology(t); ok {
+		if r.si {
+			// The catalog's own export: the word as the catalog has it.
+			g.Technology = r.intern(t)
+		} else if word, ok := normaliseTechnology(t); ok {
 			g.Technology = r.intern(word)
 		} else {
 			r.note(Doubt, FieldTechnology, t, unknownTechnology(t))

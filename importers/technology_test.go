@@ -1,9 +1,14 @@
 package importers
 
 import (
+	"bytes"
 	"context"
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
+
+	"plumb/catalog"
 )
 
 // TestTechnologyWords: a technology cell is read when, with filler words
@@ -44,5 +49,35 @@ func TestTechnologyWords(t *testing.T) {
 	}
 	if len(warned) != 3 {
 		t.Errorf("warnings %q, want 3", warned)
+	}
+}
+
+// TestOwnExportKeepsTechnology: the catalog's own CSV export re-imports a
+// technology word as the catalog has it, even one the header reader would
+// not take from a distributor's export.
+func TestOwnExportKeepsTechnology(t *testing.T) {
+	ctx := context.Background()
+	src, _ := newCatalog(t)
+	r := catalog.Resistor{Part: "MW-2K00", Maker: "Marrow Resistive", ValueOhm: 2000,
+		ResistorGrade: catalog.ResistorGrade{Technology: "metal glaze", Tolerance: 0.01, TCR: 100, PowerW: 0.25,
+			MaxVoltageV: catalog.Unknown(), ThermalResistance: catalog.Unknown(), LoadLife: catalog.Unknown()},
+		Offer: catalog.Offer{Stock: -1, PriceBreaks: []catalog.PriceBreak{{MinQty: 1, UnitPrice: 0.05, Currency: "EUR"}}}}
+	if _, err := src.Upsert(ctx, &catalog.Batch{Resistors: []catalog.Resistor{r}}, catalog.UpsertOptions{Source: "t", Now: testNow}); err != nil {
+		t.Fatal(err)
+	}
+	file := filepath.Join(t.TempDir(), "export.csv")
+	var buf bytes.Buffer
+	if err := src.WriteCSV(ctx, &buf, catalog.KindResistor); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(file, buf.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	b, rep, err := Read(ctx, []string{file}, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := findResistor(t, b, "MW-2K00").Technology; got != "metal glaze" || rep.Count(Doubt) != 0 {
+		t.Errorf("technology %q, %d doubts; want \"metal glaze\" and none:\n%s", got, rep.Count(Doubt), problemText(rep))
 	}
 }
