@@ -40,6 +40,7 @@ type rowReader struct {
 
 	check catalog.Snapshot // one-part batch for the store's validation
 	strs  map[string]string
+	techs map[string]string // technology cell -> trade word, "" for none
 
 	rec      []string
 	line     int
@@ -107,6 +108,22 @@ func (r *rowReader) intern(s string) string {
 }
 
 const maxInterned = 4096
+
+// technology reads a technology cell (normaliseTechnology), remembering
+// the answer for the few texts a file repeats row after row.
+func (r *rowReader) technology(s string) (string, bool) {
+	if w, ok := r.techs[s]; ok {
+		return w, w != ""
+	}
+	w, ok := normaliseTechnology(s)
+	if r.techs == nil {
+		r.techs = map[string]string{}
+	}
+	if len(r.techs) < maxInterned {
+		r.techs[strings.Clone(s)] = w
+	}
+	return w, ok
+}
 
 // errSkip ends the reading of a row; the problem has been recorded.
 var errSkip = errors.New("importers: row skipped")
@@ -688,7 +705,7 @@ func (r *rowReader) grade() (g catalog.ResistorGrade, ohm float64, err error) {
 		if r.si {
 			// The catalog's own export: the word as the catalog has it.
 			g.Technology = r.intern(t)
-		} else if word, ok := normaliseTechnology(t); ok {
+		} else if word, ok := r.technology(t); ok {
 			g.Technology = r.intern(word)
 		} else {
 			r.note(Doubt, FieldTechnology, t, unknownTechnology(t))
