@@ -50,10 +50,9 @@ func describe(desc string, decimalComma bool) fromDescription {
 		return d
 	}
 	low := strings.ToLower(desc)
-	for _, w := range technologyWords {
-		if strings.Contains(low, w) {
-			d.tech, _ = normaliseTechnology(w)
-			d.techWords = w
+	for _, t := range technologyWords {
+		if strings.Contains(low, t.phrase) {
+			d.tech, d.techWords = t.word, t.phrase
 			break
 		}
 	}

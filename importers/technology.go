@@ -28,9 +28,17 @@ var technologyFillers = map[string]bool{"chip": true, "smd": true, "smt": true, 
 	"resistors": true, "fixed": true, "type": true, "network": true, "array": true, "high": true, "stability": true,
 	"through": true, "hole": true, "tht": true, "surface": true, "mount": true}
 
-// technologyWords are the phrases a description is searched for.
-var technologyWords = []string{"thin film", "thin-film", "thick film", "thick-film", "metal film", "metal-film", "metal foil", "foil",
-	"wirewound", "wire wound", "metal strip", "metal-strip", "carbon film"}
+// technologyWords are the phrases a description is searched for, each
+// with the trade word it stands for (worked out once, not per row).
+var technologyWords = func() []struct{ phrase, word string } {
+	var out []struct{ phrase, word string }
+	for _, p := range []string{"thin film", "thin-film", "thick film", "thick-film", "metal film", "metal-film", "metal foil", "foil",
+		"wirewound", "wire wound", "metal strip", "metal-strip", "carbon film"} {
+		w, _ := normaliseTechnology(p)
+		out = append(out, struct{ phrase, word string }{p, w})
+	}
+	return out
+}()
 
 // normaliseTechnology reads a technology cell as one of the catalog's
 // trade words; ok is false for words it does not know.
