@@ -137,7 +137,7 @@ func writeChainCheck(opts *checkOptions, sp *spec.Spec, c *chainCheck) {
 	}
 	d := c.Chain
 	fmt.Fprintf(w, "%s %s against %s (%s): %s\n", ios.Bold("Budget of chain"), escapeText(c.Design, ""), specName(sp), c.Method, verdict)
-	writeChainDesign(w, ios, fmt.Sprintf("%s %.4g per unit, %.6g the build; binding: %s", d.Currency, d.UnitCost, d.TotalCost, d.Binding), d)
+	writeChainDesign(w, ios, chainCostLine(d), d)
 	for _, l := range d.Budget().Limits {
 		if len(l.Contributors) == 0 {
 			continue

@@ -101,12 +101,18 @@ func writeChainTable(w io.Writer, ios *IOStreams, title string, res *search.Chai
 	}
 	for i := range res.Designs {
 		d := &res.Designs[i]
-		writeChainDesign(w, ios, fmt.Sprintf("Chain %d: %s %.4g per unit, %.6g the build; binding: %s", d.Rank, d.Currency, d.UnitCost, d.TotalCost, d.Binding), d)
+		writeChainDesign(w, ios, fmt.Sprintf("Chain %d: %s", d.Rank, chainCostLine(d)), d)
 	}
 	if res.Infeasible != "" {
 		fmt.Fprintf(w, "\nNo chain passes: %s\n", res.Infeasible)
 	}
 	writeChainNotes(w, res.Notes)
+}
+
+// chainCostLine is a chain's cost per unit and for the build, in its
+// currency, and its binding limit.
+func chainCostLine(d *search.ChainDesign) string {
+	return fmt.Sprintf("%s %.4g per unit, %s %.6g the build; binding: %s", d.Currency, d.UnitCost, d.Currency, d.TotalCost, d.Binding)
 }
 
 // writeChainDesign prints one chain under heading: per stage its family,

@@ -215,3 +215,39 @@ func CascadeCMRRdB(c1, c2 float64) float64 {
 	lin2 := math.Pow(10, c2/20)
 	return c1 - 20*math.Log10(1+1/(2*lin2))
 }
+
+// BestOf is a stage budget whose figures are, each on its own, the best
+// among rs (the least error, drift, offset, noise, stress and resistor
+// ratio; the largest CMRR, bandwidth, headroom and input impedance), and
+// which passes. Cascade is monotone in every stage figure it reads (the
+// cascade equations above add or multiply non-negative magnitudes, take
+// the least bandwidth, CMRR and headroom and the largest stress; the ADC's
+// total error adds the same magnitudes and its range margin subtracts
+// them), so the chain of a stage and BestOf(rs) is at least as good on
+// every limit as the chain of that stage and any of rs: where it fails,
+// every such chain fails. Nil for an empty rs.
+func BestOf(rs []*Result) *Result {
+	if len(rs) == 0 {
+		return nil
+	}
+	m := rs[0].Metrics
+	for _, r := range rs[1:] {
+		o := &r.Metrics
+		m.GainError = math.Min(m.GainError, o.GainError)
+		m.GainErrorInitial = math.Min(m.GainErrorInitial, o.GainErrorInitial)
+		m.CMRRdB = math.Max(m.CMRRdB, o.CMRRdB)
+		m.CMRRResistorsdB = math.Max(m.CMRRResistorsdB, o.CMRRResistorsdB)
+		m.DriftPPMPerK = math.Min(m.DriftPPMPerK, o.DriftPPMPerK)
+		m.OutputOffsetV = math.Min(m.OutputOffsetV, o.OutputOffsetV)
+		m.CommonModeErrorV = math.Min(m.CommonModeErrorV, o.CommonModeErrorV)
+		m.OffsetDriftVPerK = math.Min(m.OffsetDriftVPerK, o.OffsetDriftVPerK)
+		m.BandwidthHz = math.Max(m.BandwidthHz, o.BandwidthHz)
+		m.NoiseDensity = math.Min(m.NoiseDensity, o.NoiseDensity)
+		m.NoiseRMSV = math.Min(m.NoiseRMSV, o.NoiseRMSV)
+		m.InputImpedanceOhm = math.Max(m.InputImpedanceOhm, o.InputImpedanceOhm)
+		m.HeadroomV = math.Max(m.HeadroomV, o.HeadroomV)
+		m.PowerRatio = math.Min(m.PowerRatio, o.PowerRatio)
+		m.VoltageRatio = math.Min(m.VoltageRatio, o.VoltageRatio)
+	}
+	return &Result{Metrics: m, Pass: true}
+}

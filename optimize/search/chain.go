@@ -1,9 +1,11 @@
 package search
 
 import (
+	"container/heap"
 	"context"
 	"errors"
 	"fmt"
+	"math"
 	"slices"
 	"sort"
 
@@ -27,11 +29,13 @@ type ChainResult struct {
 
 // ChainStats count the work of a chain's search.
 type ChainStats struct {
-	// Candidates are the designs of each stage the combination draws on.
+	// Candidates are the designs of each stage the search listed (each
+	// value choice of each class the stage's screening passes, up to the
+	// last cost ceiling).
 	Candidates []int `json:"stage_candidates"`
 	// Evaluated counts the pairs whose chain budget was computed, and
-	// BoundPruned those skipped because their summed cost could not beat
-	// the ranked chains.
+	// BoundPruned the listed stage designs ruled out before pairing (their
+	// chain with the other stage's best figures fails; see prune).
 	Evaluated   int `json:"evaluated"`
 	BoundPruned int `json:"bound_pruned"`
 }
@@ -87,29 +91,61 @@ func SolveChainCatalog(ctx context.Context, st *catalog.Store, s *spec.Spec, opt
 	})
 }
 
-// candidate is one stage design the combination draws on.
+// stageSolver searches one stage's spec (Solve or SolveCatalog).
+type stageSolver func(context.Context, *spec.Spec, Options) (*Result, error)
+
+// candidate is one stage design the combination draws on: the design, its
+// spec form and its exact budget under the stage's problem (nil until a
+// pair needs it).
 type candidate struct {
 	d  *Design
+	sd *spec.Design
 	br *budget.Result
+	// floor bounds the exact budget's figures from the screening's
+	// (floorOf); nil for a design not listed by a chain's search.
+	floor *budget.Result
 }
 
-// solveChain searches each stage alone under the limits the chain's imply
-// for it (spec.StageLimits: every passing chain's stages meet them), keeps
-// each stage's MaxTop cheapest passing designs with their exact budgets,
-// and combines them by branch and bound on the summed cost: the pairs are
-// walked in order of the first stage's cost, then the second's, and a
-// pair is skipped once its summed cost reaches the costliest of the Top
-// chains ranked so far (no costlier pair can enter). Every pair not so
-// skipped is judged by the chain's budget (budget.Cascade). The result is
-// exact over the candidate lists, and the lists are not every design: a
-// stage's search ranks design classes (a family build, grades, an
-// amplifier) by their cheapest passing values, so a costlier value choice
-// of a class that would suit the chain better is not a candidate, and a
-// list that holds MaxTop designs may have been cut (the notes say so). The cost of a chain is the sum of
-// its stages' build costs: where two stages share a part number, the
-// real build buys it at the joint quantity (a price break, one line item
-// less), so the sum is an upper bound on the chain's cost.
-func solveChain(ctx context.Context, s *spec.Spec, opt Options, solveStage func(context.Context, *spec.Spec, Options) (*Result, error)) (*ChainResult, error) {
+// Bounds on a chain's search: the designs one stage may list, the exact
+// stage budgets and the pairs it may walk. Where one is reached the search
+// stops and says up to which chain cost its ranking is exact.
+const (
+	maxChainStageDesigns = 20000
+	maxChainBudgets      = 4000
+	maxChainPairs        = 2000000
+)
+
+// chainGrowth is the factor by which the chain cost ceiling rises between
+// rounds of the search (see solveChain).
+const chainGrowth = 1.2
+
+// solveChain finds the cheapest chains meeting the chain's limits, exactly
+// over every pair of stage designs the stages' screening passes under
+// spec.StageLimits (each value option of each design class, not only a
+// class's cheapest): every passing chain's stages meet those limits (the
+// cascade equations never fall below a stage's own share) and their own
+// hard limits, so no passing chain is left out.
+//
+// The search runs in rounds of a cost ceiling T on the chain. Stage 1's
+// designs up to T - c2 and stage 2's up to T - c1 (c1, c2 the cheapest
+// passing design of each stage) are all the stage designs of a chain of
+// cost at most T. Their pairs are walked in nondecreasing order of the
+// summed cost (a heap over the two cost-sorted lists), those of a
+// previous round skipped; each pair not already ruled out (a stage design
+// whose exact budget fails its own limits pairs with nothing) is judged by
+// the chain's budget (budget.Cascade of the stages' exact budgets). The
+// walk stops when Top chains pass and the next pair costs more than the
+// last of them: every cheaper pair has been judged, so the ranking is
+// exact. Otherwise T rises by chainGrowth until both stages' lists are
+// complete. Where a bound on the work (maxChainStageDesigns,
+// maxChainBudgets, maxChainPairs) stops it first, the notes say up to
+// which chain cost the ranking is exact.
+//
+// The cost of a chain is the sum of its stages' build costs: where two
+// stages share a part number, the real build buys it at the joint
+// quantity (a price break, one line item less), so the sum is an upper
+// bound on the chain's cost.
+func solveChain(ctx context.Context, s *spec.Spec, opt Options, solveStage stageSolver) (*ChainResult, error) {
 	if err := opt.check(); err != nil {
 		return nil, err
 	}
@@ -121,25 +157,45 @@ func solveChain(ctx context.Context, s *spec.Spec, opt Options, solveStage func(
 		top = defaultTop
 	}
 	res := &ChainResult{Method: s.Analysis.Method}
-	lists, err := stageLists(ctx, s, opt, solveStage, res)
+	stages, err := chainStages(ctx, s, opt, solveStage, res)
 	if err != nil {
 		return res, err
 	}
-	ranked, closest, err := combineChains(ctx, s, lists, top, &res.Search)
-	if err != nil {
+	w := chainWalk{s: s, stages: stages, top: top, st: &res.Search}
+	if err := w.run(ctx); err != nil {
 		return nil, err
 	}
+	for _, st := range stages {
+		res.Search.Candidates = append(res.Search.Candidates, len(st.list))
+		res.Search.BoundPruned += len(st.list) - len(liveIndexes(st))
+	}
+	ranked := w.ranked
 	for i := range ranked {
 		ranked[i].Rank = i + 1
 	}
 	res.Designs = ranked
 	res.Notes = append(res.Notes, "chain cost: the sum of the stages' build costs (an upper bound where stages share a part number, which a real build buys at the joint quantity)")
+	cur := ""
+	if l := stages[0].list; len(l) > 0 {
+		cur = l[0].d.Currency + " "
+	}
+	switch {
+	case w.stopped != "":
+		res.Notes = append(res.Notes, fmt.Sprintf("the chain search stopped at %s: the ranking is exact for chains up to %s%.6g the build; a chain above that cost was not judged", w.stopped, cur, w.exactTo))
+	case math.IsInf(w.exactTo, 1):
+		res.Notes = append(res.Notes, "exact: every pair of stage designs (each value choice of each class the stages' screening passes) was judged by the chain's budget or ruled out by a bound")
+	default:
+		res.Notes = append(res.Notes, fmt.Sprintf("exact: every pair of stage designs (each value choice of each class the stages' screening passes) up to %s%.6g the build was judged by the chain's budget or ruled out by a bound", cur, w.exactTo))
+	}
 	if len(ranked) > 0 {
 		res.Notes = append(res.Notes, ranked[0].budget.Notes...)
 		return res, nil
 	}
-	res.Infeasible = "no pair of the stages' candidate designs meets the chain's limits"
-	if closest != nil {
+	res.Infeasible = "no pair of the stages' designs meets the chain's limits"
+	if w.stopped != "" {
+		res.Infeasible = fmt.Sprintf("no pair of the stages' designs up to %s%.6g the build meets the chain's limits", cur, w.exactTo)
+	}
+	if closest := w.closest; closest != nil {
 		res.Infeasible += fmt.Sprintf("; the closest (stages %s and %s) is bound by %s", closest.Stages[0].Family, closest.Stages[1].Family, closest.Binding)
 		for _, l := range closest.Limits {
 			if !l.Pass {
@@ -150,91 +206,443 @@ func solveChain(ctx context.Context, s *spec.Spec, opt Options, solveStage func(
 	return res, fmt.Errorf("%w: %s", ErrInfeasible, res.Infeasible)
 }
 
-// stageLists searches each stage of s alone under spec.StageLimits and
-// returns its passing designs with their exact budgets, cheapest first;
-// res gets the counts, notes and cautions, and the reason when a stage
-// alone is infeasible (then the error wraps ErrInfeasible).
-func stageLists(ctx context.Context, s *spec.Spec, opt Options, solveStage func(context.Context, *spec.Spec, Options) (*Result, error), res *ChainResult) ([][]candidate, error) {
-	lists := make([][]candidate, len(s.Stages))
+// stageDesigns are the designs of one stage of a chain that its screening
+// passes up to a cost ceiling, cheapest first, with the exact budgets
+// computed so far (kept across ceilings).
+type stageDesigns struct {
+	// sub is the stage's problem (its exact budgets are taken under it),
+	// screen the widened one its designs are listed under (screened).
+	sub      *spec.Spec
+	screen   *spec.Spec
+	solve    stageSolver
+	opt      Options
+	ceiling  float64
+	complete bool
+	// all is every design the stage's screening passes, cheapest first,
+	// when there are at most maxChainStageDesigns (probe); list is then
+	// its prefix up to the ceiling.
+	all  []candidate
+	list []candidate
+	// live marks the designs of list that may pass a chain with a design
+	// of the other stage's list (chainWalk.prune).
+	live     []bool
+	budgets  map[string]*budget.Result
+	nBudgets *int
+	// slack is the screening's allowance (screenSlack) of the method.
+	slack float64
+}
+
+// upTo lists the stage's passing designs up to cost c (a search with
+// Options.ceiling), unless the list already reaches c or is complete.
+func (st *stageDesigns) upTo(ctx context.Context, c float64) error {
+	if st.all != nil {
+		n := sort.Search(len(st.all), func(k int) bool { return st.all[k].d.TotalCost > c*(1+ceilingSlack) })
+		st.list, st.ceiling, st.complete = st.all[:n], c, n == len(st.all)
+		return nil
+	}
+	if st.complete || (st.list != nil && c <= st.ceiling) {
+		return nil
+	}
+	list, cut, err := st.designs(ctx, c, 0)
+	if err != nil {
+		return err
+	}
+	st.list, st.ceiling, st.complete = list, c, !cut
+	return nil
+}
+
+// probe lists every design of the stage when there are at most
+// maxChainStageDesigns (one search instead of one per ceiling).
+func (st *stageDesigns) probe(ctx context.Context) error {
+	all, cut, err := st.designs(ctx, math.Inf(1), maxChainStageDesigns)
+	if err != nil || cut {
+		return err
+	}
+	st.all = all
+	return nil
+}
+
+// designs lists the designs the stage's screening passes up to cost c,
+// cheapest first, and whether one may cost more (or, with most > 0, the
+// list stopped at most designs).
+func (st *stageDesigns) designs(ctx context.Context, c float64, most int) ([]candidate, bool, error) {
+	o := st.opt
+	o.ceiling, o.most = c, most
+	r, err := st.solve(ctx, st.screen, o)
+	if err != nil {
+		return nil, false, fmt.Errorf("%s: %w", st.sub.Name, err)
+	}
+	list := make([]candidate, len(r.Designs))
+	for j := range r.Designs {
+		d := &r.Designs[j]
+		list[j] = candidate{d: d, sd: r.designs[j], br: st.budgets[designKey(d)], floor: floorOf(&d.Metrics, st.slack)}
+	}
+	slices.SortStableFunc(list, func(a, b candidate) int { return cmpCost(a.d.TotalCost, b.d.TotalCost) })
+	return list, r.cut, nil
+}
+
+// budget returns the exact budget of design k of the list under the
+// stage's problem, computing it once.
+func (st *stageDesigns) budget(ctx context.Context, k int) (*budget.Result, error) {
+	c := &st.list[k]
+	if c.br != nil {
+		return c.br, nil
+	}
+	br, err := budget.EvaluateContext(ctx, st.sub, c.sd, nil)
+	if err != nil {
+		return nil, fmt.Errorf("%s design %s: %w", st.sub.Name, partsText(c.d), err)
+	}
+	adopt(c.d, br)
+	c.br = br
+	st.budgets[designKey(c.d)] = br
+	*st.nBudgets++
+	return br, nil
+}
+
+// designKey names a stage design by its family and parts.
+func designKey(d *Design) string { return fmt.Sprintf("%s|%v", d.Family, d.Parts) }
+
+func cmpCost(a, b float64) int {
+	switch {
+	case a < b:
+		return -1
+	case a > b:
+		return 1
+	}
+	return 0
+}
+
+// screenSlack widens a stage's share of the chain's limits for the
+// screening that lists the stage's designs (screened), per analysis
+// method. The search's screening figures approximate the exact budget and
+// may lie above it: over the generated chains of the oracle test, every
+// design of each stage within its hard limits, the screening figure was at
+// most 1.15 times the budget's under worst case (a difference stage's
+// offset; gain error 1.07, noise 1.13) and 2.26 times under RSS (offsets
+// add their terms linearly in the screening; CMRR up to 6.4 dB low). A
+// design is listed when its screening figures pass the widened limits,
+// then judged by its exact budget under the stage's own limits
+// (spec.StageLimits) and by the chain's budget, so the slack costs work,
+// never a wrong pass; TestChainSearchMatchesOracle checks that it loses
+// no passing chain.
+var screenSlack = map[string]float64{spec.WorstCase: 1.25, spec.RSS: 3}
+
+// screened is stage problem sub with its limits widened by screenSlack
+// (a factor on each maximum, its inverse on each minimum, 20·log10 of it
+// off the CMRR).
+func screened(sub *spec.Spec) *spec.Spec {
+	k := slackOf(sub)
+	out := *sub
+	l := &out.Limits
+	for _, v := range []*float64{&l.GainError, &l.GainDrift, &l.OutputOffsetV, &l.OffsetDriftVK, &l.NoiseRMSV, &l.NoiseDensity} {
+		*v *= k
+	}
+	l.BandwidthHz /= k
+	l.InputImpedance /= k
+	if l.CMRRdB != 0 {
+		l.CMRRdB -= 20 * math.Log10(k)
+	}
+	return &out
+}
+
+// slackOf is the screening's allowance under the method of s.
+func slackOf(s *spec.Spec) float64 {
+	if k, ok := screenSlack[s.Analysis.Method]; ok {
+		return k
+	}
+	return screenSlack[spec.RSS] // Monte Carlo specs are screened with RSS figures
+}
+
+// floorOf is an optimistic stand-in for the exact budget of a design with
+// screening figures m, on the premise screened rests on (no screening
+// figure is more than slack times the budget's, nor its CMRR more than
+// 20·log10(slack) dB below): each error figure divided by slack, the CMRR
+// raised by that many dB, the bandwidth multiplied by slack, the figures
+// the screening does not give at their best (no common-mode error, no
+// stress, unlimited headroom and input impedance). A chain through a design
+// whose floor fails with the other stage's best floors fails with every
+// design of that stage (budget.BestOf).
+func floorOf(m *Metrics, slack float64) *budget.Result {
+	return &budget.Result{Pass: true, Metrics: budget.Metrics{Gain: m.Gain, GainTarget: m.Gain,
+		GainError: m.GainError / slack, CMRRdB: m.CMRRdB + 20*math.Log10(slack), CMRRResistorsdB: math.Inf(1),
+		DriftPPMPerK: m.DriftPPMPerK / slack, OutputOffsetV: m.OutputOffsetV / slack, OffsetDriftVPerK: m.OffsetDriftVPerK / slack,
+		NoiseDensity: m.NoiseDensity / slack, NoiseRMSV: m.NoiseRMSV / slack, BandwidthHz: m.BandwidthHz * slack,
+		InputImpedanceOhm: math.Inf(1), HeadroomV: math.Inf(1)}}
+}
+
+// chainStages searches each stage of s alone: first under its share of
+// the chain's limits (spec.StageProblem), for its cautions and to say why
+// when the stage alone is infeasible (then, unless the widened screening
+// finds a design, the error wraps ErrInfeasible), then under the widened
+// screening (screened), whose cheapest design starts the stage's list.
+func chainStages(ctx context.Context, s *spec.Spec, opt Options, solveStage stageSolver, res *ChainResult) ([]*stageDesigns, error) {
+	out := make([]*stageDesigns, len(s.Stages))
+	n := 0
 	for i := range s.Stages {
 		sub := s.StageProblem(i)
 		o := opt
-		o.Top, o.Frontier = MaxTop, false
+		o.Top, o.Frontier = 1, false
 		r, err := solveStage(ctx, sub, o)
-		if errors.Is(err, ErrInfeasible) {
-			why := ""
-			if r != nil && r.Infeasible != nil {
-				why = ": " + r.Infeasible.Message
-			}
-			res.Infeasible = fmt.Sprintf("stage %d alone has no design meeting what the chain's limits ask of it%s", i+1, why)
-			return nil, fmt.Errorf("%w: %s", ErrInfeasible, res.Infeasible)
-		}
-		if err != nil {
+		if err != nil && !errors.Is(err, ErrInfeasible) {
 			return nil, fmt.Errorf("stage %d: %w", i+1, err)
 		}
-		for j := range r.Designs {
-			d := &r.Designs[j]
-			br := d.budget
-			if br == nil {
-				if br, err = budget.EvaluateContext(ctx, sub, r.designs[j], nil); err != nil {
-					return nil, fmt.Errorf("stage %d design %d: %w", i+1, j+1, err)
+		wide := screened(sub)
+		if err != nil {
+			rw, werr := solveStage(ctx, wide, Options{Top: 1, Combos: opt.Combos, Rates: opt.Rates, quick: true})
+			if werr != nil {
+				why := ""
+				if r != nil && r.Infeasible != nil {
+					why = ": " + r.Infeasible.Message
 				}
+				res.Infeasible = fmt.Sprintf("stage %d alone has no design meeting what the chain's limits ask of it%s", i+1, why)
+				return nil, fmt.Errorf("%w: %s", ErrInfeasible, res.Infeasible)
 			}
-			lists[i] = append(lists[i], candidate{d, br})
-		}
-		sort.SliceStable(lists[i], func(a, b int) bool { return lists[i][a].d.TotalCost < lists[i][b].d.TotalCost })
-		res.Search.Candidates = append(res.Search.Candidates, len(lists[i]))
-		if len(r.Designs) >= MaxTop {
-			res.Notes = append(res.Notes, fmt.Sprintf("stage %d: the combination draws on its %d cheapest designs meeting the chain's share of the limits; a chain through a costlier stage %d design is not considered", i+1, MaxTop, i+1))
+			r = rw
 		}
 		for _, c := range r.Cautions {
 			if !slices.Contains(res.Cautions, c) {
 				res.Cautions = append(res.Cautions, c)
 			}
 		}
+		o.Progress = nil
+		st := &stageDesigns{sub: sub, screen: wide, solve: solveStage, opt: o, budgets: map[string]*budget.Result{}, nBudgets: &n, slack: slackOf(sub)}
+		if err := st.probe(ctx); err != nil {
+			return nil, err
+		}
+		if err := st.upTo(ctx, r.Designs[0].TotalCost); err != nil {
+			return nil, err
+		}
+		out[i] = st
 	}
-	return lists, nil
+	return out, nil
 }
 
-// combineChains ranks the top cheapest passing chains of one candidate
-// from each of the two lists (each sorted by cost), by branch and bound on
-// the summed cost (see solveChain), and returns the closest failing chain
-// it judged (nil: none), counting its work in st.
-func combineChains(ctx context.Context, s *spec.Spec, lists [][]candidate, top int, st *ChainStats) (ranked []ChainDesign, closest *ChainDesign, err error) {
-	a, b := lists[0], lists[1]
-	for _, ca := range a {
-		if len(ranked) == top && len(b) > 0 && ca.d.TotalCost+b[0].d.TotalCost >= ranked[top-1].TotalCost {
-			st.BoundPruned += len(b)
+// chainWalk is the state of a chain's search (see solveChain).
+type chainWalk struct {
+	s      *spec.Spec
+	stages []*stageDesigns
+	top    int
+	st     *ChainStats
+
+	ranked  []ChainDesign
+	closest *ChainDesign
+	// exactTo is the chain cost up to which every pair was judged;
+	// stopped names the bound on the work that ended the search early.
+	exactTo float64
+	stopped string
+}
+
+// run walks the rounds of rising cost ceilings.
+func (w *chainWalk) run(ctx context.Context) error {
+	a, b := w.stages[0], w.stages[1]
+	if len(a.list) == 0 || len(b.list) == 0 {
+		return nil
+	}
+	minA, minB := a.list[0].d.TotalCost, b.list[0].d.TotalCost
+	t := a.ceiling + b.ceiling
+	prev := math.Inf(-1)
+	for {
+		if err := a.upTo(ctx, t-minB); err != nil {
+			return err
+		}
+		if err := b.upTo(ctx, t-minA); err != nil {
+			return err
+		}
+		if len(a.list) > maxChainStageDesigns || len(b.list) > maxChainStageDesigns {
+			w.stopped = fmt.Sprintf("%d designs of one stage", maxChainStageDesigns)
+			return nil
+		}
+		if err := w.prune(ctx); err != nil || w.stopped != "" {
+			return err
+		}
+		done, err := w.pairs(ctx, prev, t)
+		if err != nil || done || w.stopped != "" {
+			return err
+		}
+		w.exactTo = t
+		if a.complete && b.complete {
+			w.exactTo = math.Inf(1)
+			return nil
+		}
+		prev, t = t, t*chainGrowth
+	}
+}
+
+// pairs judges the pairs of the stages' lists whose summed cost is in
+// (prev, t], cheapest first, and reports whether the ranking is final (Top
+// chains pass and every cheaper pair has been judged).
+func (w *chainWalk) pairs(ctx context.Context, prev, t float64) (bool, error) {
+	a, b := w.stages[0], w.stages[1]
+	// Only live designs pair (prune); the lists are sorted by cost, and
+	// so are their live indexes.
+	ia, ib := liveIndexes(a), liveIndexes(b)
+	if len(ia) == 0 || len(ib) == 0 {
+		return false, nil
+	}
+	cost := func(i, j int32) float64 { return a.list[ia[i]].d.TotalCost + b.list[ib[j]].d.TotalCost }
+	h := pairHeap{{cost(0, 0), 0, 0, false}}
+	walked := 0
+	for h.Len() > 0 {
+		pr := heap.Pop(&h).(pair)
+		if pr.lb > t {
+			return false, nil
+		}
+		if len(w.ranked) >= w.top && pr.lb >= w.ranked[w.top-1].TotalCost {
+			w.exactTo = pr.lb
+			return true, nil
+		}
+		if int(pr.j)+1 < len(ib) {
+			heap.Push(&h, pair{cost(pr.i, pr.j+1), pr.i, pr.j + 1, false})
+		}
+		if pr.j == 0 && int(pr.i)+1 < len(ia) {
+			heap.Push(&h, pair{cost(pr.i+1, 0), pr.i + 1, 0, false})
+		}
+		if pr.lb <= prev {
 			continue
 		}
-		for j, cb := range b {
+		walked++
+		if walked%1024 == 0 {
 			if err := ctx.Err(); err != nil {
-				return nil, nil, err
+				return false, err
 			}
-			cost := ca.d.TotalCost + cb.d.TotalCost
-			if len(ranked) == top && cost >= ranked[top-1].TotalCost {
-				st.BoundPruned += len(b) - j
-				break
-			}
-			st.Evaluated++
-			cd, err := chainDesign(s, []candidate{ca, cb})
+		}
+		if walked > maxChainPairs {
+			w.exactTo = pr.lb
+			w.stopped = fmt.Sprintf("%d pairs", maxChainPairs)
+			return false, nil
+		}
+		if err := w.judge(ctx, ia[pr.i], ib[pr.j]); err != nil {
+			return false, err
+		}
+	}
+	return false, nil
+}
+
+// liveIndexes lists the indexes of the live designs of st's list.
+func liveIndexes(st *stageDesigns) []int {
+	var out []int
+	for i, ok := range st.live {
+		if ok {
+			out = append(out, i)
+		}
+	}
+	return out
+}
+
+// prune marks live the designs of both stages' lists that may still pass
+// a chain with a design of the other list, in two passes of the same
+// test: a design whose chain with the other list's best figures
+// (budget.BestOf, a bound on every chain of it with that list) fails
+// pairs with nothing of that list. The first pass takes every design's
+// screening floor (floorOf), and costs no budget; the designs left get
+// their exact budgets, a design whose budget fails its stage's own limits
+// pairs with nothing, and the second pass takes the exact figures. Where
+// the budgets would pass maxChainBudgets the search stops, exact up to the
+// last ceiling.
+func (w *chainWalk) prune(ctx context.Context) error {
+	// First on the screening's floors (floorOf), which need no budget.
+	floors := make([]*budget.Result, 2)
+	for k, st := range w.stages {
+		fs := make([]*budget.Result, len(st.list))
+		for i := range st.list {
+			fs[i] = st.list[i].floor
+		}
+		floors[k] = budget.BestOf(fs)
+	}
+	for k, st := range w.stages {
+		st.live = make([]bool, len(st.list))
+		for i := range st.list {
+			ok, err := w.mayPass(k, st.list[i].floor, floors[1-k])
 			if err != nil {
-				return nil, nil, err
+				return err
 			}
-			if !cd.budget.Pass {
-				if closest == nil || bindingMargin(cd) > bindingMargin(closest) {
-					closest = cd
-				}
-				continue
-			}
-			at := sort.Search(len(ranked), func(k int) bool { return ranked[k].TotalCost > cost })
-			ranked = slices.Insert(ranked, at, *cd)
-			if len(ranked) > top {
-				ranked = ranked[:top]
+			st.live[i] = ok
+		}
+	}
+	n := 0
+	for _, st := range w.stages {
+		for i := range st.list {
+			if st.live[i] && st.list[i].br == nil {
+				n++
 			}
 		}
 	}
-	return ranked, closest, nil
+	if *w.stages[0].nBudgets+n > maxChainBudgets {
+		w.stopped = fmt.Sprintf("%d stage designs with their exact budgets", maxChainBudgets)
+		return nil
+	}
+	// Then on the exact budgets of the designs left.
+	best := make([]*budget.Result, 2)
+	for k, st := range w.stages {
+		var pass []*budget.Result
+		for i := range st.list {
+			if !st.live[i] {
+				continue
+			}
+			br, err := st.budget(ctx, i)
+			if err != nil {
+				return err
+			}
+			st.live[i] = br.Pass
+			if br.Pass {
+				pass = append(pass, br)
+			}
+		}
+		best[k] = budget.BestOf(pass)
+	}
+	for k, st := range w.stages {
+		for i := range st.list {
+			if !st.live[i] {
+				continue
+			}
+			ok, err := w.mayPass(k, st.list[i].br, best[1-k])
+			if err != nil {
+				return err
+			}
+			st.live[i] = ok
+		}
+	}
+	return nil
+}
+
+// mayPass reports whether the chain of stage k's budget br with other,
+// the other stage's, passes (false when other is nil: no design).
+func (w *chainWalk) mayPass(k int, br, other *budget.Result) (bool, error) {
+	if other == nil {
+		return false, nil
+	}
+	pair := []*budget.Result{br, other}
+	if k == 1 {
+		pair = []*budget.Result{other, br}
+	}
+	cb, err := budget.Cascade(w.s, pair)
+	if err != nil {
+		return false, err
+	}
+	return cb.Pass, nil
+}
+
+// judge runs the chain's budget on stage designs i and j, ranking the
+// chain when it passes and keeping the closest failing one.
+func (w *chainWalk) judge(ctx context.Context, i, j int) error {
+	a, b := w.stages[0], w.stages[1]
+	w.st.Evaluated++
+	cd, err := chainDesign(w.s, []candidate{a.list[i], b.list[j]})
+	if err != nil {
+		return err
+	}
+	if !cd.budget.Pass {
+		if w.closest == nil || bindingMargin(cd) > bindingMargin(w.closest) {
+			w.closest = cd
+		}
+		return nil
+	}
+	at := sort.Search(len(w.ranked), func(k int) bool { return w.ranked[k].TotalCost > cd.TotalCost })
+	w.ranked = slices.Insert(w.ranked, at, *cd)
+	if len(w.ranked) > w.top {
+		w.ranked = w.ranked[:w.top]
+	}
+	return nil
 }
 
 // bindingMargin is the least margin of a chain's limits.

@@ -376,11 +376,12 @@ func solveInAmp(ctx context.Context, parts *Parts, p Problem, opt Options, verif
 	for _, k2 := range gains {
 		q := p
 		q.k2 = k2
-		r, err := solve(ctx, parts, q, Options{Top: keep, Combos: opt.Combos, quick: opt.quick}, nil, exhaustive)
+		r, err := solve(ctx, parts, q, Options{Top: keep, Combos: opt.Combos, quick: opt.quick, ceiling: opt.ceiling, most: opt.most}, nil, exhaustive)
 		if err != nil && !errors.Is(err, ErrInfeasible) {
 			return nil, err
 		}
 		res.Search.add(r.Search)
+		res.cut = res.cut || r.cut
 		if k2 == 1 {
 			inf, res.Notes = r.Infeasible, r.Notes
 		}
@@ -391,6 +392,22 @@ func solveInAmp(ctx context.Context, parts *Parts, p Problem, opt Options, verif
 	}
 	if opt.Progress != nil {
 		opt.Progress(res.Search.Classes, res.Search.Classes)
+	}
+	if opt.ceiling > 0 {
+		// Every design up to the ceiling, unconfirmed (space.solveBelow).
+		if opt.most > 0 && len(all) > opt.most {
+			res.cut = true
+		}
+		sort.SliceStable(all, func(i, j int) bool { return all[i].d.TotalCost < all[j].d.TotalCost })
+		for i, c := range all {
+			c.d.Rank = i + 1
+			res.Designs = append(res.Designs, c.d)
+			res.designs = append(res.designs, c.sd)
+		}
+		if p.hazardous() {
+			res.Cautions = append(res.Cautions, hazardCaution)
+		}
+		return res, nil
 	}
 	rejected := rankMerged(res, all, opt.Top, verify, func(d *Design, above []Design) []string { return mergedReasons(&p, d, above) })
 	addNear(res, near, rejected, verify)

@@ -52,6 +52,13 @@ type Options struct {
 	// quick skips the near misses: the diagnosis of an infeasible spec
 	// only asks whether a design passes.
 	quick bool
+	// ceiling, when above 0, asks for every design the screening passes
+	// up to that build cost, each value option of each class, unconfirmed
+	// (see space.solveBelow); a chain's search draws on it.
+	ceiling float64
+	// most, with ceiling, stops the list past that many designs (then
+	// Result.cut is set).
+	most int
 }
 
 const defaultTop = 5
@@ -84,6 +91,9 @@ type Result struct {
 
 	spec    *spec.Spec
 	designs []*spec.Design
+	// cut is set by a search with Options.ceiling when a passing design
+	// may cost more than the ceiling.
+	cut bool
 }
 
 // Stats count the work of the search.

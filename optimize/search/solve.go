@@ -443,6 +443,9 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 	if err != nil {
 		return nil, err
 	}
+	if opt.ceiling > 0 {
+		return sp.solveBelow(ctx, opt, exhaustive)
+	}
 	// Keep more classes than ranked: the same grades in another size,
 	// technology or part fold into the design above (see gradeKey), and
 	// designs the exact budget fails are replaced.

@@ -1,0 +1,177 @@
+package search
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"os"
+	"sort"
+	"testing"
+	"time"
+
+	"plumb/catalog"
+	"plumb/optimize/assume"
+	"plumb/optimize/budget"
+	"plumb/optimize/family"
+	"plumb/optimize/spec"
+)
+
+// genChain makes a random two-stage chain on a differential input: an
+// in-amp or a difference stage, then a difference, non-inverting or
+// inverting stage, with limits loose enough that some chains pass and
+// tight enough that the cheapest pair of stage designs often does not.
+func genChain(r *rand.Rand) *spec.Spec {
+	first := []string{family.InAmp.Name, family.Difference.Name}[r.IntN(2)]
+	second := []string{family.Difference.Name, family.NonInverting.Name, family.Inverting.Name}[r.IntN(3)]
+	g1 := []float64{5, 10, 20}[r.IntN(3)]
+	if first == family.InAmp.Name {
+		g1 = []float64{10, 20, 50}[r.IntN(3)]
+	}
+	g2 := []float64{1, 2, 5}[r.IntN(3)]
+	switch second {
+	case family.NonInverting.Name:
+		g2 = []float64{2, 5}[r.IntN(2)]
+	case family.Inverting.Name:
+		g2 = -g2
+	}
+	method := []string{spec.WorstCase, spec.RSS}[r.IntN(2)]
+	vin := []float64{0.02, 0.05, 0.1}[r.IntN(3)]
+	s := &spec.Spec{Name: "chain", Families: []string{first}, Gain: g1 * g2,
+		Stages: []spec.Stage{{Families: []string{first}, Gain: g1}, {Families: []string{second}, Gain: g2}},
+		Input:  spec.Range{Min: -vin / g1 / math.Abs(g2) * 8, Max: vin / g1 / math.Abs(g2) * 8}, Differential: true,
+		CommonMode: spec.Range{Min: -1, Max: 1}, Supply: spec.Range{Min: -12, Max: 12},
+		Temp: spec.Range{Min: 0, Max: 70}, TempRef: 25,
+		Limits: spec.Limits{GainError: []float64{0.005, 0.01, 0.02, 0.05}[r.IntN(4)], GainDrift: []float64{50e-6, 200e-6, 500e-6}[r.IntN(3)],
+			OutputOffsetV: []float64{0.02, 0.1, 0.3}[r.IntN(3)], CMRRdB: []float64{0, 40, 60}[r.IntN(3)]},
+		Analysis: spec.Analysis{Method: method, Sigmas: 3}, Derating: 0.5,
+		Build: spec.Build{Quantity: []int{1, 10, 250}[r.IntN(3)]}}
+	s.Families = s.Stages[0].Families
+	return s
+}
+
+// chainOracle ranks every passing chain the slow way: each stage's every
+// design within its hard limits (the exhaustive walk of every class and
+// every value option, with no error limit screening), each confirmed by
+// its exact budget under the stage's problem, every pair judged by the
+// chain's budget. It returns the costs of the passing chains, cheapest
+// first, and false when the stages have more than maxOracle designs
+// between them (the case is then too slow to check).
+func chainOracle(t *testing.T, snap *catalog.Snapshot, s *spec.Spec, maxOracle int) ([]float64, bool) {
+	t.Helper()
+	ctx := context.Background()
+	snap, _ = assume.Snapshot(snap)
+	parts := (&Parts{Series: snap.ResistorSeries, Resistors: snap.Resistors, Networks: snap.Networks, Amplifiers: snap.Amplifiers}).forSearch()
+	lists := make([][]candidate, 2)
+	results := make([]*Result, 2)
+	for i := range s.Stages {
+		p, err := FromSpec(s.StageSpec(i))
+		if err != nil {
+			t.Fatal(err)
+		}
+		r, err := solve(ctx, parts, p, Options{ceiling: math.Inf(1)}, nil, true)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if r.cut {
+			t.Fatal("the oracle's stage list is cut")
+		}
+		results[i] = r
+	}
+	if len(results[0].Designs)+len(results[1].Designs) > maxOracle {
+		return nil, false
+	}
+	for i, r := range results {
+		for j := range r.Designs {
+			br, err := budget.EvaluateContext(ctx, s.StageProblem(i), r.designs[j], nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if br.Pass {
+				lists[i] = append(lists[i], candidate{d: &r.Designs[j], sd: r.designs[j], br: br})
+			}
+		}
+	}
+	var costs []float64
+	for _, a := range lists[0] {
+		for _, b := range lists[1] {
+			cd, err := chainDesign(s, []candidate{a, b})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if cd.budget.Pass {
+				costs = append(costs, cd.TotalCost)
+			}
+		}
+	}
+	sort.Float64s(costs)
+	return costs, true
+}
+
+// TestChainSearchMatchesOracle: on seeded random chains over small
+// invented catalogs, the chain search ranks the same costs as the oracle
+// (chainOracle: every design of each stage within its hard limits, every
+// pair judged), and is infeasible exactly when the oracle finds no chain.
+// The oracle screens no stage by its share of the chain's limits, so the
+// test also checks that spec.StageLimits and budget.BestOf prune nothing
+// that could pass.
+func TestChainSearchMatchesOracle(t *testing.T) {
+	const cases = 40
+	feasible, checked := 0, 0
+	for seed := uint64(1); seed <= cases; seed++ {
+		if only := os.Getenv("CHAIN_SEED"); only != "" && only != fmt.Sprint(seed) {
+			continue
+		}
+		r := rand.New(rand.NewPCG(seed, 16))
+		parts := genParts(r, 0, 40+r.IntN(60), 1+r.IntN(3), r.IntN(2), 2+r.IntN(3))
+		for i := range parts.Amplifiers {
+			// Rails of ±12 V: every generated amplifier takes them.
+			parts.Amplifiers[i].SupplyMaxV = 36
+		}
+		snap := &catalog.Snapshot{Resistors: parts.Resistors, Networks: parts.Networks, Amplifiers: parts.Amplifiers}
+		s := genChain(r)
+		top := 1 + r.IntN(5)
+		t0 := time.Now()
+		want, ok := chainOracle(t, snap, s, 350)
+		if !ok {
+			continue
+		}
+		checked++
+		t1 := time.Now()
+		got, err := SolveChain(context.Background(), snap, s, Options{Top: top})
+		name := fmt.Sprintf("seed %d (%s then %s, %s)", seed, s.Stages[0].Families[0], s.Stages[1].Families[0], s.Analysis.Method)
+		if testing.Verbose() {
+			t.Logf("%s: oracle %v, search %v", name, t1.Sub(t0), time.Since(t1))
+		}
+		if len(want) == 0 {
+			if testing.Verbose() && got != nil {
+				t.Logf("%s: %s", name, got.Infeasible)
+			}
+			if !IsInfeasible(err) {
+				t.Errorf("%s: the oracle finds no chain, the search: %v", name, err)
+			}
+			continue
+		}
+		if err != nil {
+			t.Errorf("%s: %v; the oracle's cheapest chain costs %g", name, err, want[0])
+			continue
+		}
+		feasible++
+		if n := min(top, len(want)); len(got.Designs) != n {
+			t.Errorf("%s: %d chains ranked, the oracle %d", name, len(got.Designs), n)
+			continue
+		}
+		for i, d := range got.Designs {
+			if math.Abs(d.TotalCost-want[i]) > 1e-9*want[i] {
+				t.Errorf("%s: chain %d costs %g, the oracle's %g", name, i+1, d.TotalCost, want[i])
+			}
+		}
+		if st := got.Designs[0].Stages; st[0].TotalCost > got.Designs[0].TotalCost-st[1].TotalCost+1e-9 {
+			t.Errorf("%s: stage costs do not add up", name)
+		}
+	}
+	if checked < cases/2 || feasible < checked/4 {
+		t.Errorf("%d of %d random chains checked, %d feasible; the generator is too strict or too large", checked, cases, feasible)
+	}
+	t.Logf("%d of %d random chains checked, %d feasible", checked, cases, feasible)
+}
