@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"plumb/catalog/units"
 	"plumb/optimize/assume"
 	"plumb/optimize/family"
 	"plumb/optimize/spec"
@@ -24,6 +25,36 @@ type ChainBudget struct {
 	Notes   []string `json:"notes,omitempty"`
 	// Assumptions are the ADC figures taken at their defaults.
 	Assumptions []assume.Assumption `json:"assumptions,omitempty"`
+	// Loads are what each later stage's input draws from the stage before.
+	Loads []StageLoad `json:"loads,omitempty"`
+}
+
+// StageLoad is the load a stage's input puts on the earlier stage's
+// output: the stage's lowest input resistance (its budget's
+// InputImpedanceOhm), the earlier stage's ideal output peak over the
+// chain's input range, and the current it then draws, by Ohm's law
+// I = V/R.
+type StageLoad struct {
+	Stage    int     `json:"stage"`
+	InputOhm float64 `json:"input_ohm"`
+	PeakV    float64 `json:"peak_v"`
+	CurrentA float64 `json:"current_a"`
+}
+
+// stageLoads are the loads of the stages after the first (StageLoad).
+func stageLoads(s *spec.Spec, stages []*Result) []StageLoad {
+	var out []StageLoad
+	g := 1.0
+	for k := 1; k < len(stages); k++ {
+		g *= s.Stages[k-1].Gain
+		rin := stages[k].Metrics.InputImpedanceOhm
+		if !(rin > 0) || math.IsInf(rin, 1) {
+			continue
+		}
+		peak := math.Abs(g) * math.Max(math.Abs(s.Input.Min), math.Abs(s.Input.Max))
+		out = append(out, StageLoad{Stage: k + 1, InputOhm: rin, PeakV: peak, CurrentA: peak / rin})
+	}
+	return out
 }
 
 // Cascade combines the budgets of a chain's stages, first to last, into
@@ -125,7 +156,7 @@ func Cascade(s *spec.Spec, stages []*Result) (*ChainBudget, error) {
 	sc.Binding = -1
 	e.judge(&cb.Metrics, &sc)
 	res := &Result{Metrics: cb.Metrics, Pass: sc.AllPass}
-	units := LimitUnits
+	limitUnits := LimitUnits
 	l := &s.Limits
 	lims := [NumLimits]float64{l.GainError, l.CMRRdB, l.GainDrift * 1e6, l.OutputOffsetV, l.OffsetDriftVK, l.NoiseRMSV,
 		l.NoiseDensity, l.BandwidthHz, l.InputImpedance, 0, 1, 1}
@@ -136,7 +167,7 @@ func Cascade(s *spec.Spec, stages []*Result) (*ChainBudget, error) {
 		if !sc.Checked[i] {
 			continue
 		}
-		lim := Limit{Name: LimitNames[i], Value: values[i], Limit: lims[i], Max: isMax[i], Margin: finite(sc.Margin[i]), Pass: sc.Pass[i], Unit: units[i]}
+		lim := Limit{Name: LimitNames[i], Value: values[i], Limit: lims[i], Max: isMax[i], Margin: finite(sc.Margin[i]), Pass: sc.Pass[i], Unit: limitUnits[i]}
 		lim.MarginText = marginText(lim, sc.Margin[i])
 		lim.Contributors = e.sorted(contrib[LimitNames[i]])
 		res.Limits = append(res.Limits, lim)
@@ -159,6 +190,11 @@ func Cascade(s *spec.Spec, stages []*Result) (*ChainBudget, error) {
 	}
 	cb.Metrics, cb.Limits, cb.Binding, cb.Pass, cb.Channel = res.Metrics, res.Limits, res.Binding, res.Pass, res.Channel
 	cb.Notes = append(res.Notes, chainNotes(s)...)
+	cb.Loads = stageLoads(s, stages)
+	for _, l := range cb.Loads {
+		cb.Notes = append(cb.Notes, fmt.Sprintf("chain: stage %d's input (at least %s) draws up to %s from stage %d's output at its peak of %s; the catalog gives no op-amp output current, so check it against the part's own figures",
+			l.Stage, units.Format(l.InputOhm, "Ω"), units.Format(l.CurrentA, "A"), l.Stage-1, units.Format(l.PeakV, "V")))
+	}
 	return cb, nil
 }
 
@@ -178,6 +214,7 @@ func chainNotes(s *spec.Spec) []string {
 		"chain: each stage's errors carried through the next by the cascade equations (gain errors multiply, an earlier stage's offset, drift and common-mode error scaled by the later stage's gain, noise added in quadrature at the output)",
 		"chain: the earlier stage's output drives the later stage's input with the other input at ground, so the later stage's common-mode error acts on half the earlier stage's output; the earlier stage is referred to ground, the spec's reference feeds the last stage",
 		"chain: noise RMS takes each stage's noise over its own bandwidth (an upper bound); the bandwidth is that of the stages' single poles in cascade",
+		"chain: the earlier stage's output is taken as an ideal source: its closed-loop output resistance, the op-amp's open-loop output resistance divided by its loop gain (milliohms at these gains), sits in series with the later stage's input resistors (kilohms) and moves the gain and the match by parts per million at most, so it is neglected (the catalog gives no open-loop output resistance); the swing limits are the catalog's, at its rated load",
 	}
 	if s.ADC != nil && s.ADC.SharedRef {
 		out = append(out, "chain: the last stage's budget takes the reference as ideal; its tolerance and drift enter the ADC's total error once, on the signal's share (ratiometric)")

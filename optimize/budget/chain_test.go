@@ -80,3 +80,25 @@ func TestCascadeBandwidth(t *testing.T) {
 		t.Errorf("unknown pole: %g, want the other", got)
 	}
 }
+
+// TestCascadeLoad: the second stage's input resistance loads the first
+// stage's output, and the current it draws at the output's peak is Ohm's
+// law (a fact of the trade): a ±10 mV input at a first-stage gain of 100
+// swings ±1 V, into at least 24 kΩ that is 41.67 µA.
+func TestCascadeLoad(t *testing.T) {
+	st1 := &Result{Pass: true, Metrics: Metrics{Gain: 100, GainTarget: 100, InputImpedanceOhm: 1e9, BandwidthHz: 1e4}}
+	st2 := &Result{Pass: true, Metrics: Metrics{Gain: 1.8, GainTarget: 1.8, InputImpedanceOhm: 24e3, BandwidthHz: 1e5}}
+	s := &spec.Spec{Gain: 180, Differential: true, Input: spec.Range{Min: -0.01, Max: 0.01}, Analysis: spec.Analysis{Method: spec.WorstCase},
+		Stages: []spec.Stage{{Families: []string{"inamp"}, Gain: 100}, {Families: []string{"difference"}, Gain: 1.8}}}
+	cb, err := Cascade(s, []*Result{st1, st2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(cb.Loads) != 1 {
+		t.Fatalf("loads %+v, want one", cb.Loads)
+	}
+	l := cb.Loads[0]
+	if l.Stage != 2 || math.Abs(l.PeakV-1) > 1e-12 || math.Abs(l.CurrentA-1/24e3) > 1e-15 {
+		t.Errorf("load %+v, want stage 2, 1 V peak, 41.67 µA", l)
+	}
+}
