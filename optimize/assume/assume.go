@@ -345,3 +345,17 @@ func packageDefaults(pkg string) packageDefault {
 	}
 	return packageDefault{0.05, 25, "size unknown or not a chip: the usual 0201 rating, the smallest common chip, common practice"}
 }
+
+// StrappedTCR returns the absolute tempco taken for the elements of
+// amplifier part's matched network, which the catalog does not record
+// (catalog.MatchedNetwork holds the ratio tracking only), with the
+// assumption that says so: the thin-film default, the loosest common
+// thin-film grade (common practice). The gain of a strapping depends on
+// the elements' ratios only, so the figure reaches a budget only through
+// resistances outside the part in series with its elements (the source's,
+// the reference's); a caller lists the assumption where those exist.
+func StrappedTCR(part string) (tcr float64, a Assumption) {
+	d := techDefaults("thin-film")
+	return d.tcr * 1e-6, Assumption{Part: part, Figure: "tcr_ppm", Value: d.tcr,
+		Text: fmt.Sprintf("absolute tempco of the network's elements not given: taken as %g ppm/K (%s); it moves the gain only through the source and reference resistances in series with the elements", d.tcr, d.why)}
+}

@@ -6,6 +6,7 @@ import (
 	"slices"
 
 	"plumb/catalog"
+	"plumb/optimize/assume"
 	"plumb/optimize/spec"
 )
 
@@ -101,13 +102,6 @@ func FigOf(e spec.Element, groups map[string]int) Fig {
 	return f
 }
 
-// strappedTCR is the absolute tempco taken for the elements of a strapped
-// amplifier's network, which the catalog does not record (only their
-// tracking): the thin-film default of package assume (50 ppm/K, the
-// loosest common thin-film grade, common practice). The gain depends on
-// ratios only, so it reaches the budget only through the source, reference
-// and load impedances in series with the elements.
-const strappedTCR = 50e-6
 
 // StrappedFigs returns the figures of the positions of a strapped design:
 // each element of amplifier a's matched network named in positions, as one
@@ -136,6 +130,8 @@ func StrappedFigs(a *catalog.Amplifier, positions []string) ([]Fig, error) {
 			return nil, fmt.Errorf("%s: the strapped circuit has position %s, which its network does not list", a.Part, pos)
 		}
 		track := n.RatioDriftPPM * 1e-6
+		// The catalog records no absolute tempco (assume.StrappedTCR).
+		strappedTCR, _ := assume.StrappedTCR(a.Part)
 		figs = append(figs, Fig{Label: a.Part + " " + pos, Ohm: n.Elements[k].Ohms,
 			Tolerance: math.Max(n.Tolerance, n.RatioTolerance/2), TCR: math.Max(strappedTCR, track/2),
 			Network: 1, RatioTolerance: n.RatioTolerance, TCRTracking: track})

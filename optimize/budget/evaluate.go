@@ -107,6 +107,13 @@ func EvaluateContext(ctx context.Context, s *spec.Spec, d *spec.Design, progress
 			Grade: fmt.Sprintf("reference %s %s %s", units.Format(s.Reference.V, "V"), units.FormatPercent(s.Reference.Tolerance), units.FormatPPM(1e6*s.Reference.Drift))})
 	}
 	as := d.Assumptions
+	if e.fam.Search.Strappings && (s.SourceOhm > 0 || (s.Reference != nil && s.Reference.SourceOhm > 0)) && c.Amp != nil {
+		// A resistance outside the part in series with its elements makes
+		// the gain depend on their absolute values, and on the tempco the
+		// catalog does not give.
+		_, a := assume.StrappedTCR(c.Amp.Part)
+		as = append(slices.Clone(as), a)
+	}
 	if s.ADC != nil {
 		adc, err := e.channel(ctx, c, res, progress)
 		if err != nil {
@@ -367,6 +374,13 @@ func (e *Evaluator) limits(sc *Score, npts int, pn *[4]point, res *Result) {
 		l.NoiseDensity, l.BandwidthHz, l.InputImpedance, 0, 1, 1}
 	isMax := [NumLimits]bool{true, false, true, true, true, true, true, false, false, false, true, true}
 	contrib := e.contributors(npts, pn)
+	if e.s.Analysis.Method == spec.WorstCase {
+		contrib[IGainError] = e.withCurvature(contrib[IGainError], m.GainError)
+		contrib[IGainDrift] = e.withCurvature(contrib[IGainDrift], m.DriftPPMPerK)
+		if e.differential {
+			contrib[ICMRR] = e.withCurvature(contrib[ICMRR], math.Pow(10, -m.CMRRdB/20))
+		}
+	}
 	for i := 0; i < NumLimits; i++ {
 		if !sc.Checked[i] {
 			continue
@@ -382,6 +396,38 @@ func (e *Evaluator) limits(sc *Score, npts int, pn *[4]point, res *Result) {
 	if e.s.Limits.CMRRdB > 0 && !e.differential {
 		res.Notes = append(res.Notes, "CMRR limit not checked: a single-ended stage has no common-mode input")
 	}
+}
+
+// curvatureShare is the share of a worst-case total by which the sum of
+// its first-order contributors may fall short before the rest is listed
+// as a contributor of its own: below it the difference does not show in
+// the four digits a figure is printed with, nor in a share.
+const curvatureShare = 1e-3
+
+// CurvatureTerm names the part of a worst-case total that its first-order
+// contributors do not hold: the figures are each the change of the metric
+// over one parameter's range with the others nominal, while the total is
+// the exact solve at the worst corner, where terms compound (a source
+// resistance in series with an element of loose absolute tolerance, a
+// tolerance times a tempco).
+const CurvatureTerm = "interaction of the terms at the worst corner"
+
+// withCurvature adds to the worst-case contributors c of a metric whose
+// total is total the part of it they do not hold (see CurvatureTerm), so
+// that the listed terms add up to the total; c is returned as it is when
+// they already do.
+func (e *Evaluator) withCurvature(c []Contribution, total float64) []Contribution {
+	if len(c) == 0 || !(total > 0) || math.IsInf(total, 0) {
+		return c
+	}
+	sum := 0.0
+	for _, x := range c {
+		sum += x.Value
+	}
+	if rest := total - sum; rest > curvatureShare*total {
+		c = e.sorted(append(c, Contribution{Name: CurvatureTerm, Value: rest}))
+	}
+	return c
 }
 
 // MaxMargin is the margin written for a limit with no error at all (a

@@ -126,6 +126,11 @@ type Evaluator struct {
 	nom     []float64
 	dev     []float64
 	tc      []float64
+	// devNet and tcNet are the common shift and common tempco of the
+	// network a position sits in (zero for a discrete part); they scale
+	// the element's own deviation and tracking (see applyValues).
+	devNet  []float64
+	tcNet   []float64
 	life    []float64
 	heat    []float64
 	x       []float64
@@ -192,6 +197,7 @@ func NewEvaluator(s *spec.Spec, name string, opts spec.Options) (*Evaluator, err
 	}
 	n := len(e.positions)
 	e.nom, e.dev, e.tc, e.life, e.heat = make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
+	e.devNet, e.tcNet = make([]float64, n), make([]float64, n)
 	e.params = make([]param, 0, 6*n+5*maxAmps+4)
 	e.x = make([]float64, 0, cap(e.params))
 	e.c.Figs = make([]Fig, n)
@@ -476,8 +482,16 @@ func (e *Evaluator) groupMembers(mask uint64) string {
 
 // setValues writes every resistor's value at parameter point x and
 // temperature t (°C) into the netlist: R = Rnom (1 + δ + life)(1 + α (t -
-// Tref + ΔT_self)), and returns the reference scale factor. It is spread
-// followed by applyValues.
+// Tref + ΔT_self)) for a discrete part, and for an element of a network
+// R = Rnom (1 + δn)(1 + δ + life)(1 + αn Θ)(1 + α Θ), Θ = t - Tref +
+// ΔT_self, with δn, αn the network's common shift and tempco and δ, α the
+// element's own scatter and tracking about them. The product keeps a ratio
+// of two elements of one network independent of the common shift, as a
+// ratio tolerance is specified (the ratio of any two elements within ± the
+// ratio tolerance of nominal, whatever their absolute values); a sum
+// 1 + δn + δ would scale each element's scatter by 1/(1 + δn), 1.25 at a
+// -20 % absolute tolerance. It returns the reference scale factor. It is
+// spread followed by applyValues.
 func (e *Evaluator) setValues(x []float64, t float64, life bool) float64 {
 	e.spread(x)
 	return e.applyValues(t, life)
@@ -491,6 +505,8 @@ func (e *Evaluator) setValues(x []float64, t float64, life bool) float64 {
 func (e *Evaluator) spread(x []float64) {
 	clear(e.dev)
 	clear(e.tc)
+	clear(e.devNet)
+	clear(e.tcNet)
 	clear(e.life)
 	e.refTol, e.refDrift = 1, 0
 	for j := range e.params {
@@ -502,10 +518,15 @@ func (e *Evaluator) spread(x []float64) {
 		switch p.kind {
 		case pDev, pTC, pLife:
 			dst := e.dev
-			if p.kind == pTC {
-				dst = e.tc
-			} else if p.kind == pLife {
+			switch {
+			case p.kind == pLife:
 				dst = e.life
+			case p.kind == pTC && p.pos < 0:
+				dst = e.tcNet
+			case p.kind == pTC:
+				dst = e.tc
+			case p.pos < 0:
+				dst = e.devNet
 			}
 			for m := p.mask; m != 0; m &= m - 1 {
 				dst[bits.TrailingZeros64(m)] += xv * p.scale
@@ -533,7 +554,8 @@ func (e *Evaluator) applyValues(t float64, life bool) float64 {
 			if life {
 				lf = e.life[k]
 			}
-			e.net.Resistors[idx].Ohm = e.nom[k] * (1 + e.dev[k] + lf) * (1 + e.tc[k]*(dt+e.heat[k]))
+			dth := dt + e.heat[k]
+			e.net.Resistors[idx].Ohm = e.nom[k] * (1 + e.devNet[k]) * (1 + e.dev[k] + lf) * (1 + e.tcNet[k]*dth) * (1 + e.tc[k]*dth)
 		}
 		for i, idx := range e.fixedIdx {
 			e.net.Resistors[idx].Ohm = e.fixedOhm[i]

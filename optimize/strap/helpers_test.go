@@ -4,6 +4,7 @@ import (
 	"math"
 
 	"plumb/catalog"
+	"plumb/optimize/strap/straptest"
 )
 
 // Invented test networks (no real part): element values, pins and nodes
@@ -44,26 +45,9 @@ func ratioNet(r1, r2 float64) *catalog.MatchedNetwork {
 	}
 }
 
-// splitNet is a split-element difference amplifier of eight pins: two
-// 20 kΩ inputs on each side (INA-, INB- to the inverting input; INA+, INB+
-// to the non-inverting one), a 20 kΩ feedback element to FB, a 20 kΩ
-// element from the non-inverting input to REF, and the non-inverting input
-// itself brought out as NI.
-func splitNet() *catalog.MatchedNetwork {
-	return &catalog.MatchedNetwork{
-		Elements: []catalog.MatchedElement{
-			{Name: "R1", Ohms: 20e3, A: "INA-", B: "inv"},
-			{Name: "R2", Ohms: 20e3, A: "INB-", B: "inv"},
-			{Name: "R3", Ohms: 20e3, A: "inv", B: "FB"},
-			{Name: "R4", Ohms: 20e3, A: "INA+", B: "NI"},
-			{Name: "R5", Ohms: 20e3, A: "INB+", B: "NI"},
-			{Name: "R6", Ohms: 20e3, A: "NI", B: "REF"},
-		},
-		Pins:     []string{"INA-", "INB-", "FB", "OUT", "INA+", "INB+", "REF", "NI"},
-		OpAmpInv: "inv", OpAmpNonInv: "NI", OpAmpOut: "OUT",
-		Tolerance: 0.0025, RatioTolerance: 0.0005, RatioDriftPPM: 3,
-	}
-}
+// splitNet is the split-element difference amplifier of eight pins
+// (straptest.SplitNetwork).
+func splitNet() *catalog.MatchedNetwork { return straptest.SplitNetwork() }
 
 // unknownNet is classicNet with its ratio figures unknown.
 func unknownNet() *catalog.MatchedNetwork {
