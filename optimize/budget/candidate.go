@@ -102,7 +102,6 @@ func FigOf(e spec.Element, groups map[string]int) Fig {
 	return f
 }
 
-
 // StrappedFigs returns the figures of the positions of a strapped design:
 // each element of amplifier a's matched network named in positions, as one
 // network (Network 1) with the network's absolute tolerance, its ratio

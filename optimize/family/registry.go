@@ -17,6 +17,7 @@ var registry = []*Family{
 	InAmp,
 	Matched,
 	Strapped,
+	StrappedSingle,
 }
 
 // All returns every family in registry order.

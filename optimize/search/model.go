@@ -3,7 +3,9 @@ package search
 import (
 	"math"
 
+	"plumb/optimize/assume"
 	"plumb/optimize/family"
+	"plumb/optimize/strap"
 )
 
 // metrics are the screening figures of one design under the problem's
@@ -235,11 +237,17 @@ func (s *space) offset(m *metrics, ng, vos, bias, vdrift float64) {
 // Ios·(Rp + Rm)/2) at the output. These are first order in the ratio
 // tolerance; the exact budget that confirms each design solves the
 // strapped circuit.
+//
+// A source resistance Rs in series with the strapping's input resistance
+// Zin (the inverting input's for a differential strapping, the input's for
+// a single-ended one) scales the gain by Zin/(Zin + Rs) (see sourceLoss);
+// the elements' absolute tolerance t and tempco α (which the ratio does
+// not see) then move it by Rs/(Zin + Rs) times t and α·ΔT.
 func (s *space) evalMatched(a *amp, m *metrics) {
 	p := s.p
 	am := a.a
 	ng := 1 + a.k0
-	rho := a.k0 / p.Gain
+	rho := math.Abs(a.k0) / p.Gain
 	gerr, bias, rn := am.GainErrorMax, am.IosA*am.InternalOhm/2, am.InternalOhm/2
 	m.drift = am.GainDriftPPM
 	if st := a.st; st != nil {
@@ -250,6 +258,21 @@ func (s *space) evalMatched(a *amp, m *metrics) {
 		rp, rm := st.SourcePlusOhm, st.SourceMinusOhm
 		bias = am.IbA*math.Abs(rp-rm) + am.IosA*(rp+rm)/2
 		rn = (rp + rm) / 2
+		zin := st.InputMinusOhm
+		if st.Kind != strap.Differential {
+			zin = st.InputPlusOhm
+			// The source resistance carries the non-inverting input's bias
+			// current where the input drives that pin.
+			if math.IsInf(zin, 1) {
+				bias += am.IbA * p.SourceOhm
+			}
+		}
+		if x := sourceLoss(p.SourceOhm, zin); x > 0 {
+			rho *= 1 - x
+			tcr, _ := assume.StrappedTCR(am.Part)
+			gerr += x * am.Network.Tolerance
+			m.drift += x * tcr * 1e6
+		}
 	}
 	dr := m.drift * 1e-6 * s.dT
 	switch {
@@ -380,4 +403,17 @@ func (s *space) shrinkBound(m *metrics) {
 	m.offDrift *= boundSafety
 	m.noise *= boundSafety
 	m.noiseRMS *= boundSafety
+}
+
+// sourceLoss returns the fraction x = Rs/(Zin + Rs) of the gain that a
+// source resistance rs in series with an input impedance zin takes away,
+// G' = G·(1 − x): the source and the stage form a divider (Thevenin). It is
+// exact for a single-ended input and for the classic difference amplifier
+// with equal source resistances, G' = R2/(R1 + Rs) (domain notes §2); 0
+// where there is no source resistance or the input is an op-amp pin.
+func sourceLoss(rs, zin float64) float64 {
+	if !(rs > 0) || !(zin > 0) || math.IsInf(zin, 1) || math.IsNaN(zin) {
+		return 0
+	}
+	return rs / (zin + rs)
 }

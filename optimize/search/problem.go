@@ -39,6 +39,22 @@ const (
 // variant is the Family label of circuit f built as build.
 func variant(f *family.Family, build string) Family { return Family(f.Name + "-" + build) }
 
+// partLabel is the Family label of integrated family g's part in circuit
+// c: g's own name where g is walked as a circuit of its own (Search.As
+// nil), else the variant of c.
+func partLabel(c, g *family.Family) Family {
+	if g == c {
+		return Family(g.Name)
+	}
+	return variant(c, g.Name)
+}
+
+// standalone reports whether f is an integrated family walked as a circuit
+// of its own.
+func standalone(f *family.Family) bool {
+	return f != nil && f.Search.Strategy == family.Part && f.Search.As == nil
+}
+
 // Circuit names the stage topology of a Problem: a family of package
 // family's registry that is searched as a circuit (not a Part family,
 // which is walked in the circuit of its Search.As).
@@ -84,6 +100,10 @@ type Problem struct {
 	Families []Family // allowed families; empty means every family of the circuit
 	// Gain is the target gain magnitude, V/V.
 	Gain float64
+	// Inverts: the spec's gain is negative. Only a circuit whose parts make
+	// either sign (a standalone integrated family) reads it; the others'
+	// sign follows from the circuit.
+	Inverts bool
 	// SupplyNeg and SupplyPos are the rails, V.
 	SupplyNeg, SupplyPos float64
 	// InMin and InMax bound the (differential) input signal, V.
@@ -155,7 +175,7 @@ func (p *Problem) strategy() family.Strategy { return p.family().Search.Strategy
 func circuits() string {
 	var names []string
 	for _, f := range family.All() {
-		if f.Search.Strategy != family.Part {
+		if f.Search.Strategy != family.Part || standalone(f) {
 			names = append(names, fmt.Sprintf("%q", f.Name))
 		}
 	}
@@ -188,7 +208,7 @@ func (p *Problem) normalize() error {
 	}
 	f := p.family()
 	switch {
-	case f == nil || f.Search.Strategy == family.Part:
+	case f == nil || (f.Search.Strategy == family.Part && !standalone(f)):
 		return fmt.Errorf("%w: circuit %q: use %s", ErrProblem, p.Circuit, circuits())
 	case !(p.Gain > 0) || math.IsInf(p.Gain, 0):
 		return fmt.Errorf("%w: gain %g: give a positive gain magnitude", ErrProblem, p.Gain)
@@ -250,6 +270,9 @@ func (p *Problem) deltaT() float64 {
 // family walked in it.
 func (p *Problem) builds() []Family {
 	f := p.family()
+	if standalone(f) {
+		return []Family{partLabel(f, f)}
+	}
 	all := []Family{variant(f, buildDiscrete)}
 	if f.Search.Networks {
 		all = append(all, variant(f, buildNetwork))
@@ -263,7 +286,7 @@ func (p *Problem) builds() []Family {
 func (p *Problem) partBuilds() []Family {
 	var out []Family
 	for _, g := range p.partFamilies() {
-		out = append(out, variant(p.family(), g.Name))
+		out = append(out, partLabel(p.family(), g))
 	}
 	return out
 }
@@ -272,7 +295,7 @@ func (p *Problem) partBuilds() []Family {
 func (p *Problem) partFamilies() []*family.Family {
 	var out []*family.Family
 	for _, g := range family.All() {
-		if g.Search.Strategy == family.Part && g.Search.As == p.family() {
+		if g.Search.Strategy == family.Part && (g.Search.As == p.family() || (standalone(g) && g == p.family())) {
 			out = append(out, g)
 		}
 	}

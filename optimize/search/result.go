@@ -404,7 +404,10 @@ func (s *space) positions() (rg, rf []string) {
 	if sh := s.fam().Search.Shift; sh != nil {
 		return sh.Positions(s.p.lsInv())
 	}
-	return s.model().Rg, s.model().Rf
+	if m := s.model(); m != nil {
+		return m.Rg, m.Rf
+	}
+	return nil, nil // a part walked as a circuit of its own has no positions
 }
 
 // describe builds the parts, the priced BOM and the spec design of a class

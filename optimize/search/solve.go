@@ -349,7 +349,12 @@ func FromSpec(s *spec.Spec) (Problem, error) {
 			unsupported = append(unsupported, name)
 			continue
 		}
-		if f.Search.Strategy == family.Part {
+		if standalone(f) {
+			// A part making either sign is walked as a circuit of its own.
+			p.Circuit = Circuit(f.Name)
+			p.Families = append(p.Families, partLabel(f, f))
+			p.Inverts = s.Gain < 0
+		} else if f.Search.Strategy == family.Part {
 			// An integrated part is walked in the circuit of Search.As.
 			p.Circuit = Circuit(f.Search.As.Name)
 			p.Families = append(p.Families, variant(f.Search.As, f.Name))
@@ -634,7 +639,8 @@ func gradeKey(d *Design) string {
 		if p.Kind == string(catalog.KindResistor) {
 			fmt.Fprintf(&b, "%g:%g", p.Tolerance, p.TCRppm)
 		} else {
-			b.WriteString(p.Part)
+			// Two strappings of one part are two circuits, not one grade.
+			b.WriteString(p.Part + "~" + p.Strapping)
 		}
 	}
 	return b.String()

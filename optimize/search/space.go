@@ -467,11 +467,9 @@ func hardAmp(p *Problem, a *catalog.Amplifier, k float64, st *strap.Strapping) s
 		// A strapped part's internal op-amp sees Kp·Vp + Kn·Vn + Kr·Vref
 		// (package strap), inside its own common-mode range.
 		lo, hi = math.Inf(1), math.Inf(-1)
-		for _, vcm := range []float64{p.CMMin, p.CMMax} {
-			for _, vd := range []float64{p.InMin, p.InMax} {
-				v := st.OpAmpInputV(vcm+vd/2, vcm-vd/2, p.Ref)
-				lo, hi = math.Min(lo, v), math.Max(hi, v)
-			}
+		for _, in := range strappedCorners(p, st) {
+			v := st.OpAmpInputV(in[0], in[1], p.Ref)
+			lo, hi = math.Min(lo, v), math.Max(hi, v)
 		}
 		ng = st.NoiseGain
 	case a.Type == catalog.MatchedAmp:
@@ -491,6 +489,14 @@ func hardAmp(p *Problem, a *catalog.Amplifier, k float64, st *strap.Strapping) s
 		return "input headroom"
 	}
 	olo, ohi := outRange(p)
+	if st != nil {
+		// Vout = Gp·Vp + Gn·Vn + Gr·Vref at every input corner.
+		olo, ohi = math.Inf(1), math.Inf(-1)
+		for _, in := range strappedCorners(p, st) {
+			v := st.GainPlus*in[0] + st.GainMinus*in[1] + st.GainRef*p.Ref
+			olo, ohi = math.Min(olo, v), math.Max(ohi, v)
+		}
+	}
 	if r := p.family().Search.Ratio; r != nil && r.Stage2 != nil {
 		// The first stage's outputs swing too.
 		for _, vcm := range []float64{p.CMMin, p.CMMax} {
@@ -538,7 +544,7 @@ func buildAmps(parts *Parts, p *Problem, fams map[Family]bool) (op, matched []am
 	}
 	var partFams []partFam
 	for _, g := range p.partFamilies() {
-		if b := variant(p.family(), g.Name); fams[b] {
+		if b := partLabel(p.family(), g); fams[b] {
 			partFams = append(partFams, partFam{g, b})
 		}
 	}
@@ -595,12 +601,31 @@ func buildAmps(parts *Parts, p *Problem, fams map[Family]bool) (op, matched []am
 	return op, matched, why
 }
 
+// strappedCorners lists the input corners (Vp, Vn) a strapping sees: the
+// differential input at both ends on both ends of the common-mode range
+// (Vp = Vcm + vd/2, Vn = Vcm - vd/2), or a single-ended input at both ends
+// (Vn unconnected, 0).
+func strappedCorners(p *Problem, st *strap.Strapping) [][2]float64 {
+	if st.Kind != strap.Differential {
+		return [][2]float64{{p.InMin, 0}, {p.InMax, 0}}
+	}
+	var out [][2]float64
+	for _, vcm := range []float64{p.CMMin, p.CMMax} {
+		for _, vd := range []float64{p.InMin, p.InMax} {
+			out = append(out, [2]float64{vcm + vd/2, vcm - vd/2})
+		}
+	}
+	return out
+}
+
 // strappedAmps returns a strapped design of amplifier a (base holds its
-// cost and build) for every differential strapping of its network whose
-// gain lies within the window w of the spec's and that passes the hard
-// limits, counting the others in why. The resistors' CMRR, (1+G)/(2δ) for
+// cost and build) for every strapping of its network of the circuit's
+// input kind (differential, or single-ended from vp: inverting,
+// non-inverting, attenuating) whose gain, sign included, lies within the
+// window w of the spec's and that passes the hard limits, counting the
+// others in why. A differential strapping's resistor CMRR, (1+G)/(2δ) for
 // the classic strapping, adds to the part's own: 1/CMRR ≤ 1/CMRRr +
-// 1/CMRRa (domain notes §2).
+// 1/CMRRa (domain notes §2); a single-ended one has no common-mode input.
 func strappedAmps(parts *Parts, p *Problem, a *catalog.Amplifier, base amp, w float64, why hardReason) []amp {
 	if a.Network == nil {
 		why["no matched network to strap"]++
@@ -611,11 +636,18 @@ func strappedAmps(parts *Parts, p *Problem, a *catalog.Amplifier, base amp, w fl
 		why["matched network not strappable"]++
 		return nil
 	}
+	kind, target := strap.Differential, p.Gain
+	if p.family().Input != family.Differential {
+		kind = strap.FromPlus
+		if p.Inverts {
+			target = -target
+		}
+	}
 	var out []amp
 	found := false
 	for i := range list {
 		st := &list[i]
-		if st.Kind != strap.Differential || !(math.Abs(st.Gain/p.Gain-1) <= w) {
+		if st.Kind != kind || !(math.Abs(st.Gain/target-1) <= w) {
 			continue
 		}
 		found = true
@@ -625,7 +657,9 @@ func strappedAmps(parts *Parts, p *Problem, a *catalog.Amplifier, base amp, w fl
 		}
 		x := base
 		x.k0, x.st = st.Gain, st
-		x.ainv = dbInv(a.CMRRdB) + strappedCMInv(st, a.Network, p.deltaT())
+		if kind == strap.Differential {
+			x.ainv = dbInv(a.CMRRdB) + strappedCMInv(st, a.Network, p.deltaT())
+		}
 		out = append(out, x)
 	}
 	if !found {

@@ -79,7 +79,8 @@ func genStrappedSnapshot(r *rand.Rand, n int) *catalog.Snapshot {
 	return snap
 }
 
-// bruteStrapped is the oracle: every differential strapping of every
+// bruteStrapped is the oracle: every strapping of family fam's input kind
+// (differential, or single-ended from vp) of every
 // amplifier in snap, each budgeted exactly (budget.Evaluate on the design
 // a design file would give) and priced (cost.Price); it returns the least
 // total cost of a passing design and the designs at that cost
@@ -108,8 +109,12 @@ func bruteStrapped(t *testing.T, snap *catalog.Snapshot, s *spec.Spec, fam strin
 		if err != nil {
 			t.Fatal(err)
 		}
+		kind := strap.Differential
+		if family.Lookup(fam).Input != family.Differential {
+			kind = strap.FromPlus
+		}
 		for _, st := range list {
-			if st.Kind != strap.Differential {
+			if st.Kind != kind {
 				continue
 			}
 			d := &spec.Design{Family: fam, Amplifier: spec.AmplifierChoice{Part: a.Part, Strapping: st.Text}}
@@ -147,7 +152,38 @@ func bruteStrapped(t *testing.T, snap *catalog.Snapshot, s *spec.Spec, fam strin
 // the brute force finds none the search is infeasible.
 func TestStrappedMatchesBruteForce(t *testing.T) {
 	fam := strappedFamily(t)
-	r := rand.New(rand.NewPCG(16, 1))
+	checkStrappedBruteForce(t, fam.Name, 16, func(r *rand.Rand) string {
+		return fmt.Sprintf(`gain: %s
+input: {differential: ±1V, common_mode: -3..3V}
+limits: {gain_error: %s, cmrr: %s, output_offset: %s}
+`, []string{"0.5", "1", "2", "3"}[r.IntN(4)], []string{"0.1%", "0.3%", "1%", "2%"}[r.IntN(4)],
+			[]string{"50dB", "60dB", "70dB"}[r.IntN(3)], []string{"3mV", "10mV", "30mV"}[r.IntN(3)])
+	})
+}
+
+// TestStrappedSingleMatchesBruteForce is the same property for the
+// single-ended strappings (family strapped-single): inverting,
+// attenuating and non-inverting gains of either sign, with a source
+// resistance that the screening must carry.
+func TestStrappedSingleMatchesBruteForce(t *testing.T) {
+	checkStrappedBruteForce(t, family.StrappedSingle.Name, 17, func(r *rand.Rand) string {
+		return fmt.Sprintf(`gain: %s
+input: {single_ended: ±1V}
+source_impedance: %s
+limits: {gain_error: %s, output_offset: %s}
+`, []string{"-2", "-1", "-0.5", "0.5", "1", "2", "3"}[r.IntN(7)], []string{"0", "100", "2k"}[r.IntN(3)],
+			[]string{"0.1%", "0.3%", "1%", "2%"}[r.IntN(4)], []string{"3mV", "10mV", "30mV"}[r.IntN(3)])
+	})
+}
+
+// checkStrappedBruteForce runs the exhaustive-equivalence property of a
+// strapped family on small generated catalogs and specs (the spec's gain,
+// input and limits from gen, drawn around what the parts reach): the
+// search's rank 1 costs what the cheapest passing design of the brute
+// force over every strapping of every part costs, and is one of those
+// designs; when the brute force finds none the search is infeasible.
+func checkStrappedBruteForce(t *testing.T, fam string, seed uint64, gen func(r *rand.Rand) string) {
+	r := rand.New(rand.NewPCG(seed, 1))
 	cases := 12
 	if testing.Short() {
 		cases = 4
@@ -155,24 +191,19 @@ func TestStrappedMatchesBruteForce(t *testing.T) {
 	feasible := 0
 	for c := range cases {
 		snap := genStrappedSnapshot(r, 4)
-		g := []string{"0.5", "1", "2", "3"}[r.IntN(4)]
 		src := fmt.Sprintf(`name: strapped-gen
 about: generated strapped case
 families: [%s]
-gain: %s
-input: {differential: ±1V, common_mode: -3..3V}
 supply: ±12V
 temperature: {range: -20..70C}
-limits: {gain_error: %s, cmrr: %s, output_offset: %s}
 build: {quantity: %d}
-`, fam.Name, g, []string{"0.1%", "0.3%", "1%", "2%"}[r.IntN(4)], []string{"50dB", "60dB", "70dB"}[r.IntN(3)],
-			[]string{"3mV", "10mV", "30mV"}[r.IntN(3)], []int{1, 100, 1000}[r.IntN(3)])
+`, fam, []int{1, 100, 1000}[r.IntN(3)]) + gen(r)
 		s, err := spec.Parse([]byte(src), "gen.yaml")
 		if err != nil {
 			t.Fatal(err)
 		}
 		t.Run(fmt.Sprint(c), func(t *testing.T) {
-			best, at := bruteStrapped(t, snap, s, fam.Name)
+			best, at := bruteStrapped(t, snap, s, fam)
 			res, err := Solve(context.Background(), snap, s, Options{Top: 1})
 			if math.IsInf(best, 1) {
 				if !errors.Is(err, ErrInfeasible) {

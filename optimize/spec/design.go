@@ -567,7 +567,7 @@ func (d *Design) Resolve(lookup Lookup) error {
 	}
 	opts := d.Options
 	if amp.Resolved && amp.Amp.Type == catalog.MatchedAmp && strapped(d.Family) {
-		part, err := strapPart(&amp)
+		part, err := strapPart(&amp, family.Lookup(d.Family))
 		if err != nil {
 			p.add("amplifier.strapping", "%v", err)
 		}
@@ -680,7 +680,7 @@ func (d *Design) Unresolved() []string {
 // strapPart parses the strapping of amplifier a against its matched
 // network and returns the strapped circuit, or an error that says what to
 // write.
-func strapPart(a *AmplifierChoice) (family.PartCircuit, error) {
+func strapPart(a *AmplifierChoice, f *family.Family) (family.PartCircuit, error) {
 	n := a.Amp.Network
 	if n == nil {
 		return nil, fmt.Errorf("%s: the catalog holds no matched network for this part, so it cannot be strapped; use it at one of its gains (%v) in another family", a.Part, a.Amp.Gains)
@@ -693,10 +693,27 @@ func strapPart(a *AmplifierChoice) (family.PartCircuit, error) {
 	if err != nil {
 		return nil, fmt.Errorf("%s: strapping %q: %w", a.Part, a.Strapping, err)
 	}
+	if diff := st.Kind == strap.Differential; f != nil && diff != (f.Input == family.Differential) {
+		other := familyNames(familiesWith(&Spec{Families: KnownFamilies}, func(g *family.Family) bool {
+			return g.Search.Strappings && (g.Input == family.Differential) == diff
+		}))
+		return nil, fmt.Errorf("%s: strapping %q is %s, and family %s takes a %s input; use family %s, or a strapping of that kind", a.Part, a.Strapping, st.Kind, f.Name, inputWord(f.Input), other)
+	}
 	part, err := st.Part(n)
 	if err != nil {
 		return nil, fmt.Errorf("%s: strapping %q: %w", a.Part, a.Strapping, err)
 	}
 	a.Strapping = st.Text
 	return part, nil
+}
+
+// inputWord names a family's input kind in messages.
+func inputWord(in family.Input) string {
+	switch in {
+	case family.Differential:
+		return "differential"
+	case family.Current:
+		return "current"
+	}
+	return "single-ended"
 }

@@ -142,7 +142,7 @@ func TestParseErrors(t *testing.T) {
 		{"trials past int64", add("analysis: {method: monte-carlo, trials: 99999999999999999999}\n"), "more than 1000000 trials"},
 		{"negative trials", add("analysis: {method: monte-carlo, trials: -99999999999999999999}\n"), "whole number of trials, from 100 to 1000000"},
 		{"quantity 10^18", add("build: {quantity: 1000000000000000000}\n"), `build.quantity: "1000000000000000000" is more than 10000000 stages`},
-		{"too many families", rep("family: difference", "families: [difference, difference, difference, difference, difference, difference, difference, difference, difference, difference]"), "families: lists 10 entries"},
+		{"too many families", rep("family: difference", "families: [difference, difference, difference, difference, difference, difference, difference, difference, difference, difference, difference]"), "families: lists 11 entries"},
 		{"too many combos", add("combos: [series, parallel, series]\n"), "combos: lists 3 entries"},
 		{"repeated combo", add("combos: [series, series]\n"), `combos[1]: "series" is listed twice`},
 		{"level shift without output", func(s string) string {

@@ -144,8 +144,10 @@
 //   - Part turns a strapping into the family.PartCircuit the family's
 //     netlist is built from (family.Options.Part), so that the budget, the
 //     SPICE decks and the reports take a strapped design like any other.
-//     Only differential strappings are used so far: a single-ended spec
-//     input would need the family to take either kind of input.
+//     The differential family takes Differential strappings; the
+//     single-ended one (walked as a circuit of its own, since its
+//     strappings make either sign) takes FromPlus strappings with the
+//     reference terminal at ground, matching the sign of the spec's gain.
 //   - Spec and results: a design names its strapping by Text (JSON: the
 //     amplifier part carries "strapping"); Parse and Evaluate turn it back
 //     into the same Strapping, with errors that name the pin and say what

@@ -13,12 +13,14 @@ import (
 // family.Options.Part): the elements that carry current, named as in the
 // network, and the internal op-amp "A1", with the strapping's inputs and
 // reference on the nodes the family gives, its output on "out" and its tie
-// and internal nodes named "x" and their strapping name. An element named
+// and internal nodes named "x" and their strapping name; a single-ended
+// strapping (kind FromPlus) uses only the family's positive input node. An
+// element named
 // as the spec's impedances are ("Rsrc", "Rload", ...) is refused: the
 // budget would read it as the spec's.
 func (s *Strapping) Part(n *catalog.MatchedNetwork) (family.PartCircuit, error) {
-	if s.Kind != Differential {
-		return nil, fmt.Errorf("%w: %s is %s; a strapped stage takes a differential input", ErrUnusable, s.Text, s.Kind)
+	if s.Kind == FromMinus {
+		return nil, fmt.Errorf("%w: %s is %s; tie a single-ended input to vp (the same circuit)", ErrUnusable, s.Text, s.Kind)
 	}
 	net, err := s.Netlist(n)
 	if err != nil {
