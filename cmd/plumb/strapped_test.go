@@ -42,7 +42,7 @@ func strappedSnapshot() *catalog.Snapshot {
 func TestStrappedFromTheCommandLine(t *testing.T) {
 	var fam string
 	for _, f := range family.All() {
-		if f.Search.Strappings {
+		if f.Search.Strappings && f.Input == family.Differential {
 			fam = f.Name
 		}
 	}

@@ -346,8 +346,9 @@ func packageDefaults(pkg string) packageDefault {
 	return packageDefault{0.05, 25, "size unknown or not a chip: the usual 0201 rating, the smallest common chip, common practice"}
 }
 
-// StrappedTCR returns the absolute tempco taken for the elements of
-// amplifier part's matched network, which the catalog does not record
+// StrappedTCR returns the absolute tempco taken for the internal resistors
+// of matched amplifier part (the elements of its network), which the
+// catalog does not record
 // (catalog.MatchedNetwork holds the ratio tracking only), with the
 // assumption that says so: the thin-film default, the loosest common
 // thin-film grade (common practice). The gain of a strapping depends on
@@ -357,5 +358,24 @@ func packageDefaults(pkg string) packageDefault {
 func StrappedTCR(part string) (tcr float64, a Assumption) {
 	d := techDefaults("thin-film")
 	return d.tcr * 1e-6, Assumption{Part: part, Figure: "tcr_ppm", Value: d.tcr,
-		Text: fmt.Sprintf("absolute tempco of the network's elements not given: taken as %g ppm/K (%s); it moves the gain only through the source and reference resistances in series with the elements", d.tcr, d.why)}
+		Text: fmt.Sprintf("absolute tempco of the internal resistors not given: taken as %g ppm/K (%s); it moves the gain only through the source and reference resistances in series with them", d.tcr, d.why)}
 }
+
+// MatchedAbsTolerance returns the absolute tolerance of the internal
+// resistors of matched amplifier a: its network's figure where the catalog
+// holds one, else the loosest common figure for resistors integrated with
+// an amplifier, ±25 % (common practice: their ratios are trimmed, their
+// absolute values held only to ±20..25 %), with the assumption that says
+// so. It matters only where a resistance outside the part is in series
+// with them (a source or reference resistance).
+func MatchedAbsTolerance(a *catalog.Amplifier) (float64, []Assumption) {
+	if n := a.Network; n != nil && !unknown(n.Tolerance) {
+		return n.Tolerance, nil
+	}
+	return matchedAbsTolerance, []Assumption{{Part: a.Part, Figure: "internal_ohm", Value: a.InternalOhm,
+		Text: fmt.Sprintf("absolute tolerance of the internal resistors not given: taken as %g %% (integrated resistors are matched, not accurate; common practice); it moves the gain through the source and reference resistances in series with them", 100*matchedAbsTolerance)}}
+}
+
+// matchedAbsTolerance is the absolute tolerance taken for a matched
+// amplifier's internal resistors (see MatchedAbsTolerance).
+const matchedAbsTolerance = 0.25

@@ -107,12 +107,17 @@ func EvaluateContext(ctx context.Context, s *spec.Spec, d *spec.Design, progress
 			Grade: fmt.Sprintf("reference %s %s %s", units.Format(s.Reference.V, "V"), units.FormatPercent(s.Reference.Tolerance), units.FormatPPM(1e6*s.Reference.Drift))})
 	}
 	as := d.Assumptions
-	if e.fam.Search.Strappings && (s.SourceOhm > 0 || (s.Reference != nil && s.Reference.SourceOhm > 0)) && c.Amp != nil {
+	if e.fam.Integrated() && (s.SourceOhm > 0 || e.refOhm() > 0) && c.Amp != nil {
 		// A resistance outside the part in series with its elements makes
-		// the gain depend on their absolute values, and on the tempco the
-		// catalog does not give.
+		// the gain depend on their absolute values, and on the tempco (and
+		// for a part without its network, the tolerance) the catalog does
+		// not give.
 		_, a := assume.StrappedTCR(c.Amp.Part)
 		as = append(slices.Clone(as), a)
+		if e.fam.Datasheet() {
+			_, more := assume.MatchedAbsTolerance(c.Amp)
+			as = append(as, more...)
+		}
 	}
 	if s.ADC != nil {
 		adc, err := e.channel(ctx, c, res, progress)
@@ -523,6 +528,22 @@ func (e *Evaluator) contributors(npts int, pn *[4]point) [NumLimits][]Contributi
 			}
 			gl = append(gl, Contribution{Name: name, Value: math.Abs(pn[0].gain/ideal - 1)})
 		}
+	}
+	if !cal && e.matched {
+		// The part's gain against the spec's, with the source and
+		// reference resistances in series with its resistors.
+		var with []string
+		if e.s.SourceOhm > 0 {
+			with = append(with, "source")
+		}
+		if e.refOhm() > 0 {
+			with = append(with, "reference")
+		}
+		name := "nominal gain of the part"
+		if len(with) > 0 {
+			name = "nominal gain with " + strings.Join(with, ", ")
+		}
+		gl = append(gl, Contribution{Name: name, Value: math.Abs(pn[0].gain/e.s.Gain - 1)})
 	}
 	out[IGainError] = e.sorted(gl)
 	// CMRR as common-mode gain over differential gain (1/CMRR), at the

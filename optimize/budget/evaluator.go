@@ -9,6 +9,7 @@ import (
 	"slices"
 
 	"plumb/catalog"
+	"plumb/optimize/assume"
 	"plumb/optimize/circuit"
 	"plumb/optimize/family"
 	"plumb/optimize/spec"
@@ -46,6 +47,8 @@ const (
 	pRefDrift                  // reference drift per K
 	pMGain                     // matched amplifier gain error
 	pMDrift                    // matched amplifier gain drift per K
+	pMAbs                      // matched amplifier's internal resistors, absolute value
+	pMAbsTC                    // matched amplifier's internal resistors, absolute tempco per K
 	// Amplifier terms below are linear in the output and handled in closed
 	// form by the worst-case and RSS methods; Monte Carlo draws them.
 	pVos
@@ -403,6 +406,14 @@ func (e *Evaluator) buildParams() {
 	if e.matched {
 		e.addParam(param{kind: pMGain, scale: e.amp.GainErrorMax, pos: -1})
 		e.addParam(param{kind: pMDrift, scale: e.amp.GainDriftPPM * 1e-6, pos: -1})
+		if e.s.SourceOhm > 0 || e.refOhm() > 0 {
+			// Only resistances outside the part see the internal ones'
+			// absolute values.
+			tol, _ := assume.MatchedAbsTolerance(&e.amp)
+			tcr, _ := assume.StrappedTCR(e.amp.Part)
+			e.addParam(param{kind: pMAbs, scale: tol, pos: -1})
+			e.addParam(param{kind: pMAbsTC, scale: tcr, pos: -1})
+		}
 	}
 	for i := 0; i < e.nAmps(); i++ {
 		e.addParam(param{kind: pVos, scale: e.amp.VosV, amp: i, pos: -1})
@@ -455,6 +466,10 @@ func (e *Evaluator) paramName(j int) string {
 		return "amplifier gain error"
 	case pMDrift:
 		return "amplifier gain drift"
+	case pMAbs:
+		return "amplifier internal resistors' absolute tolerance"
+	case pMAbsTC:
+		return "amplifier internal resistors' absolute tempco"
 	}
 	return "?"
 }
@@ -756,24 +771,71 @@ func (e *Evaluator) factorSpread(t float64, life bool) (float64, error) {
 // evalMatched models an amplifier with matched resistors inside from its
 // datasheet figures: gain G (1 + x ε)(1 + x' α ΔT); the offset referred to
 // the output through the noise gain 1 + G; CMRR from the datasheet.
+//
+// The spec's source resistance Rs (in series with each input) and the
+// reference's own resistance Rref (in series with the reference pin) act on
+// the part as on the classic difference amplifier whose input resistor R1
+// is the part's internal resistor and whose feedback resistor is R2 = G·R1
+// (R3 = R1, R4 = R2: the datasheet's gain error and CMRR stand for their
+// mismatch). With R1' = R1 + Rs the transfers are (domain notes §2)
+//
+//	Gn = −R2/R1',  Gp = (R2 + Rref)/(R1' + R2 + Rref)·(1 + R2/R1'),
+//	Gr = (R1' + R2)/(R1' + R2 + Rref),
+//
+// so the gain is (Gp − Gn)/2 = G·R1/(R1 + Rs) without Rref, the common-mode
+// gain Gp + Gn = Rref/(R1' + R2 + Rref) (equal source resistances keep the
+// balance, a reference resistance spoils it) and the output at zero input
+// Vref·Gr. R1's absolute value (tolerance and tempco, which no ratio
+// cancels) moves each of them.
 func (e *Evaluator) evalMatched(x []float64, t float64, ref float64, p *point) {
 	g := e.c.MatchedGain
+	abs := 1.0
 	for j := range e.params {
 		switch e.params[j].kind {
 		case pMGain:
 			g *= 1 + x[j]*e.params[j].scale
 		case pMDrift:
 			g *= 1 + x[j]*e.params[j].scale*(t-e.s.TempRef)
+		case pMAbs:
+			abs *= 1 + x[j]*e.params[j].scale
+		case pMAbsTC:
+			abs *= 1 + x[j]*e.params[j].scale*(t-e.s.TempRef)
 		}
 	}
-	p.gain, p.adm, p.acm = g, g, 0
-	p.pinCM[0] = e.c.MatchedGain / (1 + e.c.MatchedGain)
+	r1 := e.amp.InternalOhm * abs
+	rs, rref := e.s.SourceOhm, e.refOhm()
+	if !(r1 > 0) {
+		// No internal resistance (package assume fills it for a catalog
+		// part): the part alone, unloaded.
+		r1, rs, rref = 1, 0, 0
+	}
+	r2 := g * r1
+	a := r1 + rs
+	gn := -r2 / a
+	gp := (r2 + rref) / (a + r2 + rref) * (1 + r2/a)
+	gr := (a + r2) / (a + r2 + rref)
+	p.gain = (gp - gn) / 2
+	p.adm, p.acm = p.gain, gp+gn
+	// The op-amp's pins and noise gain at the nominal ratio, as the
+	// other families take them (see eval).
+	r2n := e.c.MatchedGain * r1
+	p.pinCM[0] = (r2n + rref) / (a + r2n + rref)
 	p.base = 0
 	if e.s.Reference != nil {
-		p.base = e.s.Reference.V * ref
+		p.base = e.s.Reference.V * ref * gr
 	}
-	p.tvos[0], p.ng[0] = 1+e.c.MatchedGain, 1+e.c.MatchedGain
+	ng := 1 + r2n/a
+	p.tvos[0], p.ng[0] = ng, ng
 	p.tibp[0], p.tibm[0] = 0, 0
+}
+
+// refOhm is the reference source's own resistance where the spec's
+// reference drives the stage (0: none).
+func (e *Evaluator) refOhm() float64 {
+	if e.refDriven() && e.s.Reference != nil {
+		return e.s.Reference.SourceOhm
+	}
+	return 0
 }
 
 // ampKinds orders the amplifier terms of ampIdx.

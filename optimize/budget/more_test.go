@@ -124,17 +124,8 @@ limits: {output_offset: 10mV}
 	if got := res.Metrics.OutputOffsetV; math.Abs(got-want) > 1e-12 {
 		t.Errorf("output offset %.9g V, want %.9g V", got, want)
 	}
-	for _, l := range res.Limits {
-		if l.Name != LimitOutputOffset {
-			continue
-		}
-		sum := 0.0
-		for _, c := range l.Contributors {
-			sum += c.Value
-		}
-		if math.Abs(sum-want) > 1e-12 {
-			t.Errorf("offset contributors add up to %.9g V, the offset is %.9g V: %+v", sum, want, l.Contributors)
-		}
+	if cs, sum := contributorSum(res, LimitOutputOffset); math.Abs(sum-want) > 1e-12 {
+		t.Errorf("offset contributors add up to %.9g V, the offset is %.9g V: %+v", sum, want, cs)
 	}
 }
 

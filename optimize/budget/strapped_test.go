@@ -443,3 +443,126 @@ func mustStrap(t *testing.T, n *catalog.MatchedNetwork, text string) strap.Conne
 	}
 	return c
 }
+
+// TestMatchedSourceAndReferenceAgainstNgspice budgets an invented matched
+// amplifier (gain 0.2, 380 kΩ input resistors, no network in the catalog)
+// with a 10 kΩ source resistance on each input and a 1 kΩ reference
+// resistance, and compares its gain, common-mode gain and output at zero
+// input, at nominal values and with the internal resistors 25 % low (the
+// assumed absolute tolerance), with ngspice's DC solve of the classic
+// difference amplifier R1 = R3 = 380 kΩ, R2 = R4 = 76 kΩ with those
+// resistances in series (domain notes §2; ngspice is an independent
+// circuit simulator). The source resistance alone takes the gain to
+// G·R1/(R1 + Rs) and leaves the balance; the reference resistance spoils
+// it, Acm = Rref/(R1 + Rs + R2 + Rref).
+func TestMatchedSourceAndReferenceAgainstNgspice(t *testing.T) {
+	path := ngspicePath(t)
+	const (
+		rin, g, rs, rref, vref = 380e3, 0.2, 10e3, 1e3, 2.5
+		aol                    = 1e6 // ngspice rounds badly at larger VCVS gains
+	)
+	s := mustSpec(t, `name: matched-rs
+about: a matched amplifier behind a source and a reference resistance
+families: [matched]
+gain: 0.2
+input: {differential: ±10V, common_mode: -20..20V}
+supply: ±15V
+reference: {voltage: 2.5V, impedance: 1k}
+source_impedance: 10k
+temperature: {range: 25..25C}
+limits: {gain_error: 10%}
+`)
+	amp := catalog.Amplifier{Part: "ZX-HV02", Type: catalog.MatchedAmp, Gains: []float64{g}, GainErrorMax: 0.0008,
+		GainDriftPPM: 4, InternalOhm: rin, CMRRdB: 84, AolVV: aol, GBWHz: 1e6}
+	e, err := NewEvaluator(s, "matched", spec.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := e.SetCandidate(&Candidate{Amp: &amp, MatchedGain: g}); err != nil {
+		t.Fatal(err)
+	}
+	abs := -1
+	for j, p := range e.params {
+		if p.kind == pMAbs {
+			abs = j
+			if p.scale != 0.25 {
+				t.Errorf("internal resistors' tolerance %g, want the assumed 25 %%", p.scale)
+			}
+		}
+	}
+	if abs < 0 {
+		t.Fatal("no parameter for the internal resistors' absolute value")
+	}
+	for _, x := range []float64{0, -1} {
+		e.x[abs] = x
+		var p point
+		if err := e.eval(e.x, s.TempRef, false, &p); err != nil {
+			t.Fatal(err)
+		}
+		clear(e.x)
+		r1 := rin * (1 + 0.25*x)
+		net := &circuit.Netlist{Family: "matched", Nodes: []string{"0", "vp", "vn", "inp", "inn", "m", "pp", "vref", "refz", "out"}, Out: 9}
+		net.Resistors = []circuit.Resistor{
+			{Name: "Rsrcp", A: 1, B: 3, Ohm: rs}, {Name: "Rsrcn", A: 2, B: 4, Ohm: rs},
+			{Name: "R1", A: 4, B: 5, Ohm: r1}, {Name: "R2", A: 5, B: 9, Ohm: g * r1},
+			{Name: "R3", A: 3, B: 6, Ohm: r1}, {Name: "R4", A: 6, B: 8, Ohm: g * r1},
+			{Name: "Rref", A: 7, B: 8, Ohm: rref},
+		}
+		net.OpAmps = []circuit.OpAmp{{Name: "A1", Plus: 6, Minus: 5, Out: 9, Gain: aol}}
+		net.Sources = []circuit.Source{{Name: "vp", Node: 1, V: 0.5}, {Name: "vn", Node: 2, V: -0.5}, {Name: "vref", Node: 7}}
+		adm := ngspiceOut(t, path, net)
+		net.Sources[0].V, net.Sources[1].V = 10, 10
+		acm := ngspiceOut(t, path, net) / 10
+		net.Sources[0].V, net.Sources[1].V, net.Sources[2].V = 0, 0, vref
+		base := ngspiceOut(t, path, net)
+		tol := 3 * (1 + g) / aol // the finite gain's NG/A
+		for _, c := range []struct {
+			what      string
+			got, want float64
+		}{
+			{"gain", p.gain, adm},
+			{"common-mode gain", p.acm, acm},
+			{"output at zero input", p.base, base},
+		} {
+			if math.Abs(c.got-c.want) > tol*math.Max(math.Abs(c.want), 1e-3) {
+				t.Errorf("internal resistors %+g×25 %%: %s %.9g, ngspice %.9g", x, c.what, c.got, c.want)
+			}
+		}
+		if want := rref / (r1 + rs + g*r1 + rref); math.Abs(acm-want) > 1e-3*want {
+			t.Errorf("internal resistors %+g×25 %%: ngspice Acm %.6g, want Rref/(R1+Rs+R2+Rref) = %.6g", x, acm, want)
+		}
+	}
+	// The budget lists every term, the nominal loss to the source and
+	// reference among them, and its worst-case terms add up to the total;
+	// the design's assumed figures are named.
+	r, err := Evaluate(s, &spec.Design{Family: "matched", Amplifier: spec.AmplifierChoice{Part: amp.Part, Gain: g, Amp: amp, Resolved: true}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var figs []string
+	for _, a := range r.Assumptions {
+		figs = append(figs, a.Figure)
+	}
+	if got := strings.Join(figs, " "); got != "tcr_ppm internal_ohm" {
+		t.Errorf("assumed figures %q, want the internal resistors' tempco and tolerance", got)
+	}
+	cs, sum := contributorSum(r, LimitGainError)
+	if ge := r.Metrics.GainError; math.Abs(sum-ge) > 1e-6*ge || len(cs) == 0 || !strings.HasPrefix(cs[0].Name, "nominal gain with source, reference") {
+		t.Errorf("gain error %.6g, contributors add to %.6g: %v", ge, sum, cs)
+	}
+}
+
+// contributorSum returns the contributors of limit name in r and the sum
+// of their values.
+func contributorSum(r *Result, name string) ([]Contribution, float64) {
+	for _, l := range r.Limits {
+		if l.Name == name {
+			sum := 0.0
+			for _, c := range l.Contributors {
+				sum += c.Value
+			}
+			return l.Contributors, sum
+		}
+	}
+	return nil, 0
+}

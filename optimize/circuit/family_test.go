@@ -420,7 +420,7 @@ func TestParseFamily(t *testing.T) {
 	if !errors.Is(err, ErrFamily) {
 		t.Fatalf("ParseFamily(bridge) error %v, want ErrFamily", err)
 	}
-	want := `circuit: unknown circuit family "bridge": use one of inverting, noninverting, difference, divider, current-sense, level-shift, inamp, strapped`
+	want := `circuit: unknown circuit family "bridge": use one of inverting, noninverting, difference, divider, current-sense, level-shift, inamp, strapped, strapped-single`
 	if err.Error() != want {
 		t.Errorf("message %q\nwant %q", err, want)
 	}

@@ -250,6 +250,7 @@ func (s *space) evalMatched(a *amp, m *metrics) {
 	rho := math.Abs(a.k0) / p.Gain
 	gerr, bias, rn := am.GainErrorMax, am.IosA*am.InternalOhm/2, am.InternalOhm/2
 	m.drift = am.GainDriftPPM
+	cmInv := 0.0
 	if st := a.st; st != nil {
 		ng, gerr, m.drift = st.NoiseGain, st.GainErrorWorst, st.GainDriftPPM
 		if s.rss {
@@ -274,6 +275,29 @@ func (s *space) evalMatched(a *amp, m *metrics) {
 			m.drift += x * tcr * 1e6
 		}
 	}
+	if a.st == nil && am.InternalOhm > 0 {
+		// The part as the classic difference amplifier R1 = R3 (its
+		// internal resistor), R2 = R4 = G·R1, behind the source and
+		// reference resistances (budget's evalMatched gives the exact
+		// transfers): the gain falls to G·R1/(R1 + Rs), moved by R1's
+		// absolute tolerance and tempco through Rs/(R1 + Rs), and the
+		// reference resistance unbalances it, Acm = Rref/(R1 + Rs + R2 + Rref).
+		if x := sourceLoss(p.SourceOhm, am.InternalOhm); x > 0 {
+			rho *= 1 - x
+			tol, _ := assume.MatchedAbsTolerance(am)
+			tcr, _ := assume.StrappedTCR(am.Part)
+			gerr += x * tol
+			m.drift += x * tcr * 1e6
+		}
+		if p.RefOhm > 0 && p.family().Input == family.Differential {
+			// Over the gain G·R1/(R1 + Rs) = rho·G.
+			r1 := am.InternalOhm + p.SourceOhm
+			cmInv += p.RefOhm / (r1 + a.k0*am.InternalOhm + p.RefOhm) / (rho * p.Gain)
+			// The output at zero input is Vref·(R1' + R2)/(R1' + R2 + Rref):
+			// short of Vref by Vref·Rref/(R1' + R2 + Rref), at the output.
+			bias += math.Abs(p.Ref) * p.RefOhm / (r1 + a.k0*am.InternalOhm + p.RefOhm) / ng
+		}
+	}
 	dr := m.drift * 1e-6 * s.dT
 	switch {
 	case p.CalGain:
@@ -285,7 +309,7 @@ func (s *space) evalMatched(a *amp, m *metrics) {
 		m.gainErr = math.Abs(rho-1) + gerr
 		m.totalErr = m.gainErr + dr
 	}
-	m.cmrrDB = toDB(a.ainv)
+	m.cmrrDB = toDB(a.ainv + cmInv)
 	s.offset(m, ng, am.VosV, bias, am.VosDriftVK)
 	m.noise = noiseDensity(ng, am.NoiseVHz, am.NoiseAHz, rn, s.tempK, 2)
 	m.gain = a.k0

@@ -125,6 +125,8 @@ type Problem struct {
 	LeakageA float64
 	// SourceOhm is the source resistance in series with each input, ohm.
 	SourceOhm float64
+	// RefOhm is the reference source's own resistance, ohm (0: none).
+	RefOhm float64
 	// LoadOhm loads a divider's output (0: none), ohm.
 	LoadOhm float64
 	// RMinOhm and RMaxOhm bound every resistor value (default 1 kΩ to

@@ -335,7 +335,7 @@ func FromSpec(s *spec.Spec) (Problem, error) {
 		p.Derating = spec.DefaultDerating
 	}
 	if s.Reference != nil {
-		p.Ref = s.Reference.V
+		p.Ref, p.RefOhm = s.Reference.V, s.Reference.SourceOhm
 	}
 	for _, c := range s.Combos {
 		p.SeriesPairs = p.SeriesPairs || c == spec.Series
