@@ -802,29 +802,29 @@ func (e *Evaluator) evalMatched(x []float64, t float64, ref float64, p *point) {
 			abs *= 1 + x[j]*e.params[j].scale*(t-e.s.TempRef)
 		}
 	}
-	r1 := e.amp.InternalOhm * abs
-	rs, rref := e.s.SourceOhm, e.refOhm()
-	if !(r1 > 0) {
-		// No internal resistance (package assume fills it for a catalog
-		// part): the part alone, unloaded.
-		r1, rs, rref = 1, 0, 0
+	// In terms of u = Rs/R1 and v = Rref/R1 the transfers above are
+	// Acm = v/(1 + u + G + v), Adm = G/(1 + u) + Acm/2 and Gr = 1 − Acm,
+	// the forms that give the part's own figures exactly (no rounding
+	// residue) when u = v = 0.
+	var u, v float64
+	if r1 := e.amp.InternalOhm * abs; r1 > 0 {
+		// (No internal resistance, as in a part package assume has not
+		// filled: the part alone, unloaded.)
+		u, v = e.s.SourceOhm/r1, e.refOhm()/r1
 	}
-	r2 := g * r1
-	a := r1 + rs
-	gn := -r2 / a
-	gp := (r2 + rref) / (a + r2 + rref) * (1 + r2/a)
-	gr := (a + r2) / (a + r2 + rref)
-	p.gain = (gp - gn) / 2
-	p.adm, p.acm = p.gain, gp+gn
+	acm := v / (1 + u + g + v)
+	gr := 1 - acm
+	p.gain = g/(1+u) + acm/2
+	p.adm, p.acm = p.gain, acm
 	// The op-amp's pins and noise gain at the nominal ratio, as the
 	// other families take them (see eval).
-	r2n := e.c.MatchedGain * r1
-	p.pinCM[0] = (r2n + rref) / (a + r2n + rref)
+	g0 := e.c.MatchedGain
+	p.pinCM[0] = (g0 + v) / (1 + u + g0 + v)
 	p.base = 0
 	if e.s.Reference != nil {
 		p.base = e.s.Reference.V * ref * gr
 	}
-	ng := 1 + r2n/a
+	ng := 1 + g0/(1+u)
 	p.tvos[0], p.ng[0] = ng, ng
 	p.tibp[0], p.tibm[0] = 0, 0
 }

@@ -293,7 +293,18 @@ func (r *Result) attachAssumptions(of func(parts ...string) []assume.Assumption,
 		for _, p := range d.Parts {
 			parts = append(parts, p.Part)
 		}
-		return of(parts...)
+		out := of(parts...)
+		if d.budget != nil {
+			// Figures the exact budget took for a part beyond the
+			// catalog's (a strapped or matched part's internal resistors
+			// behind a source resistance).
+			for _, a := range d.budget.Assumptions {
+				if slices.Contains(parts, a.Part) && !slices.ContainsFunc(out, func(b assume.Assumption) bool { return b.Part == a.Part && b.Figure == a.Figure }) {
+					out = append(out, a)
+				}
+			}
+		}
+		return out
 	}
 	var all []assume.Assumption
 	seen := map[string]bool{}
