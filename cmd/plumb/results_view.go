@@ -5,6 +5,7 @@ import (
 	"io"
 	"maps"
 	"math"
+	"regexp"
 	"slices"
 	"strconv"
 	"strings"
@@ -247,7 +248,7 @@ func fixText(nm *search.NearMiss) string {
 	if nm.Fix == nil {
 		return "none found: no amplifier, grade or network change, alone or in pairs, and no calibration"
 	}
-	txt := nm.Fix.Change
+	txt := keepUnits(nm.Fix.Change)
 	if nm.Fix.Kind != "calibration" {
 		txt += fmt.Sprintf(" (+%s per stage)", formatMoney(nm.Fix.ExtraCost, nm.Currency))
 	}
@@ -256,6 +257,13 @@ func fixText(nm *search.NearMiss) string {
 	}
 	return txt
 }
+
+// unitAfterNumber is a number, a space and the unit that follows it.
+var unitAfterNumber = regexp.MustCompile(`([0-9]) ((?:[kMG]?Ω)|%|ppm/K|[mµn]?V|dB)`)
+
+// keepUnits keeps each number of s on one line with its unit ("76.8 kΩ",
+// "0.1 %") when a table wraps it.
+func keepUnits(s string) string { return unitAfterNumber.ReplaceAllString(s, "$1"+nbsp+"$2") }
 
 // writeBullet writes "  - text", wrapped to the terminal width on a
 // terminal.

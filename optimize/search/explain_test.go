@@ -3,11 +3,9 @@ package search
 import (
 	"context"
 	"math"
-	"slices"
 	"strings"
 	"testing"
 
-	"plumb/catalog"
 	"plumb/optimize/budget"
 	"plumb/optimize/spec"
 )
@@ -110,10 +108,14 @@ func TestBudgetHasTheLastWord(t *testing.T) {
 	}
 }
 
-// TestFixNamesChangedPosition: a grade fix at some positions names a part
-// of those positions, never one of the positions it leaves alone (the
-// logger example once printed "R1, R3: ... AR-TP1-11K8", the R2/R4 value).
-func TestFixNamesChangedPosition(t *testing.T) {
+// TestFixListsEveryChange: a near miss's fix says exactly what changes.
+// Applying its Changes to the near miss's parts gives the fix design's
+// parts, position by position (part and value); its words name every
+// changed position with its new part, and Part is the first new part. The
+// logger example once offered "R1, R3: 0.1 % instead of 0.5 % (design 1)"
+// while design 1 also had other values at every position, and named in
+// JSON a part of design 1 at a value the words did not mention.
+func TestFixListsEveryChange(t *testing.T) {
 	snap := demoSnapshot(t)
 	s, err := spec.Load("../../data/examples/logger-channel.yaml")
 	if err != nil {
@@ -124,40 +126,69 @@ func TestFixNamesChangedPosition(t *testing.T) {
 		t.Fatal(err)
 	}
 	checked := 0
-	for _, nm := range res.NearMisses {
-		if nm.Fix == nil || nm.Fix.Kind != "grade" {
+	for i, nm := range res.NearMisses {
+		f := nm.Fix
+		if f == nil || f.Kind == kindCalibration {
 			continue
 		}
-		changed := strings.Split(strings.SplitN(nm.Fix.Change, ":", 2)[0], ", ")
+		if nm.fixSD == nil {
+			t.Fatalf("near miss %d: fix %q without its design", i+1, f.Change)
+		}
+		checked++
+		got := map[string]PartChange{}
 		for _, p := range nm.Parts {
-			if p.Kind != string(catalog.KindResistor) || slices.Contains(changed, p.Position) {
-				continue
+			got[p.Position] = PartChange{Part: p.Part, ValueOhm: p.ValueOhm}
+		}
+		for _, c := range f.Changes {
+			if w := got[c.Position]; w.Part != c.WasPart || w.ValueOhm != c.WasValueOhm {
+				t.Errorf("near miss %d: change %+v, but the near miss has %s %g there", i+1, c, w.Part, w.ValueOhm)
 			}
-			checked++
-			if p.Part == nm.Fix.Part {
-				t.Errorf("fix %q names %s, the part at unchanged position %s", nm.Fix.Change, nm.Fix.Part, p.Position)
+			if c.Part == "" {
+				delete(got, c.Position)
+			} else {
+				got[c.Position] = PartChange{Part: c.Part, ValueOhm: c.ValueOhm}
+				if !strings.Contains(f.Change, c.Part) || !strings.Contains(f.Change, c.Position) {
+					t.Errorf("near miss %d: %q does not name %s at %s", i+1, f.Change, c.Part, c.Position)
+				}
 			}
+		}
+		want := specParts(nm.fixSD)
+		if len(got) != len(want) {
+			t.Errorf("near miss %d: %d positions after the changes, the fix design has %d", i+1, len(got), len(want))
+		}
+		for pos, w := range want {
+			if g := got[pos]; g.Part != w.Part || g.ValueOhm != w.ValueOhm {
+				t.Errorf("near miss %d, %s: the changes give %s %g, the fix design has %s %g (%q)", i+1, pos, g.Part, g.ValueOhm, w.Part, w.ValueOhm, f.Change)
+			}
+		}
+		if len(f.Changes) == 0 || f.Part != f.Changes[0].Part {
+			t.Errorf("near miss %d: part %q, changes %+v", i+1, f.Part, f.Changes)
 		}
 	}
 	if checked == 0 {
-		t.Skip("no grade fix that leaves positions alone among the near misses")
+		t.Fatal("no part fix among the near misses of the logger example")
 	}
 }
 
-func TestPartAt(t *testing.T) {
-	parts := []Part{{Position: "R1", Part: "A"}, {Position: "R2.a", Part: "B"}, {Position: "R2.b", Part: "C"}, {Position: "R3", Part: "D"}}
-	tests := []struct {
-		name string
-		at   []string
-		want string
-	}{
-		{"first named position", []string{"R3", "R1"}, "D"},
-		{"a pair's first element", []string{"R2"}, "B"},
-		{"absent", []string{"R9"}, ""},
-	}
-	for _, tc := range tests {
-		if got := partAt(parts, tc.at); got != tc.want {
-			t.Errorf("%s: %q, want %q", tc.name, got, tc.want)
+// specParts flattens a spec design to its parts by position as Design
+// names them (a pair's elements as POS.a, POS.b; the amplifier as U1).
+func specParts(sd *spec.Design) map[string]PartChange {
+	out := map[string]PartChange{}
+	for _, p := range sd.Positions {
+		for i, e := range p.Elements {
+			name := p.Name
+			if len(p.Elements) > 1 {
+				name += "." + string(rune('a'+i))
+			}
+			part := e.Part
+			if e.Network != "" {
+				part = e.Network
+			}
+			out[name] = PartChange{Part: part, ValueOhm: e.Ohm}
 		}
 	}
+	if sd.Amplifier.Part != "" {
+		out["U1"] = PartChange{Part: sd.Amplifier.Part}
+	}
+	return out
 }

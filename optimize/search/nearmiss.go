@@ -7,6 +7,7 @@ import (
 	"sort"
 	"strings"
 
+	"plumb/catalog"
 	"plumb/optimize/budget"
 	"plumb/optimize/spec"
 )
@@ -304,15 +305,11 @@ func (s *space) findFix(nm *NearMiss, res *Result, c *nearCheck) error {
 			if !c.passes(fsd) {
 				continue
 			}
-			change, part, at := s.fixChange(f, o)
-			if part == "" {
-				part = partAt(bd.Parts, at)
-			}
 			k := o.cand.kind
 			if kind != "" {
 				k = kind
 			}
-			return &Fix{Kind: k, Change: change, Part: part, TotalCost: bd.TotalCost, ExtraCost: bd.UnitCost - nm.UnitCost}, fsd, nil
+			return partFix(k, &nm.Design, &bd, ""), fsd, nil
 		}
 		return nil, nil, nil
 	}
@@ -332,8 +329,7 @@ func (s *space) findFix(nm *NearMiss, res *Result, c *nearCheck) error {
 			if n == 1 {
 				kind = fixKind(items[0])
 			}
-			best = &Fix{Kind: kind, Change: strings.Join(items, "; ") + fmt.Sprintf(" (design %d)", r.Rank), Part: changedPart(&nm.Design, r),
-				TotalCost: r.TotalCost, ExtraCost: r.UnitCost - nm.UnitCost}
+			best = partFix(kind, &nm.Design, r, fmt.Sprintf(" (design %d)", r.Rank))
 			bestSD = res.designs[i]
 		}
 		return best, bestSD
@@ -441,18 +437,89 @@ func fixKind(item string) string {
 	return "grade"
 }
 
-// changedPart is the first part of d that differs from the near miss's.
-func changedPart(nm, d *Design) string {
-	pp := map[string]string{}
-	for _, p := range nm.Parts {
-		pp[p.Position] = p.Part
-	}
-	for _, p := range d.Parts {
-		if pp[p.Position] != p.Part {
-			return p.Part
+// partFix is the fix that turns near miss nm into design to: every
+// position whose part or value changes, worded in Change (with suffix) and
+// listed in Changes, Part the first new part.
+func partFix(kind string, nm, to *Design, suffix string) *Fix {
+	ch := partChanges(nm, to)
+	f := &Fix{Kind: kind, Change: changesText(ch) + suffix, Changes: ch, TotalCost: to.TotalCost, ExtraCost: to.UnitCost - nm.UnitCost}
+	for _, c := range ch {
+		if c.Part != "" {
+			f.Part = c.Part
+			break
 		}
 	}
-	return ""
+	return f
+}
+
+// partChanges lists the positions whose part or value differs from design
+// from to design to, in to's order of positions, then the positions only
+// from has.
+func partChanges(from, to *Design) []PartChange {
+	was := map[string]Part{}
+	for _, p := range from.Parts {
+		was[p.Position] = p
+	}
+	var out []PartChange
+	for _, p := range to.Parts {
+		q, ok := was[p.Position]
+		delete(was, p.Position)
+		if ok && q.Part == p.Part && q.ValueOhm == p.ValueOhm && q.Strapping == p.Strapping {
+			continue
+		}
+		c := PartChange{Position: p.Position, Kind: p.Kind, Part: p.Part, ValueOhm: p.ValueOhm, Tolerance: p.Tolerance, TCRppm: p.TCRppm}
+		if ok {
+			c.WasPart, c.WasValueOhm, c.WasTolerance, c.WasTCRppm = q.Part, q.ValueOhm, q.Tolerance, q.TCRppm
+		}
+		out = append(out, c)
+	}
+	for _, p := range from.Parts {
+		if q, ok := was[p.Position]; ok {
+			out = append(out, PartChange{Position: q.Position, Kind: q.Kind, WasPart: q.Part, WasValueOhm: q.ValueOhm, WasTolerance: q.Tolerance, WasTCRppm: q.TCRppm})
+		}
+	}
+	return out
+}
+
+// changesText words part changes, one item per group of positions that
+// change alike: "R1, R3: AR-TP1-76K8 76.8 kΩ 0.1 % 25 ppm/K instead of
+// AR-TN5-162K 162 kΩ 0.5 % 50 ppm/K; U1: KA-OT1 instead of IM-JH36". The
+// former grade is left out where it stays the same.
+func changesText(ch []PartChange) string {
+	side := func(part string, v, tol, tcr float64, kind string, grade bool) string {
+		txt := part
+		if v > 0 {
+			txt += " " + budget.FormatFigure(v, "ohm")
+		}
+		if grade && kind != string(catalog.KindAmplifier) && (tol > 0 || tcr > 0) {
+			txt += fmt.Sprintf(" %.3g %% %.3g ppm/K", 100*tol, tcr)
+		}
+		return txt
+	}
+	var order []string
+	at := map[string][]string{}
+	for _, c := range ch {
+		var txt string
+		switch {
+		case c.WasPart == "":
+			txt = side(c.Part, c.ValueOhm, c.Tolerance, c.TCRppm, c.Kind, true) + " added"
+		case c.Part == "":
+			txt = side(c.WasPart, c.WasValueOhm, c.WasTolerance, c.WasTCRppm, c.Kind, true) + " removed"
+		default:
+			sameGrade := c.Tolerance == c.WasTolerance && c.TCRppm == c.WasTCRppm
+			txt = side(c.Part, c.ValueOhm, c.Tolerance, c.TCRppm, c.Kind, true) + " instead of " +
+				side(c.WasPart, c.WasValueOhm, c.WasTolerance, c.WasTCRppm, c.Kind, !sameGrade)
+		}
+		if _, ok := at[txt]; !ok {
+			order = append(order, txt)
+		}
+		at[txt] = append(at[txt], c.Position)
+	}
+	items := make([]string, len(order))
+	for i, txt := range order {
+		items[i] = strings.Join(at[txt], ", ") + ": " + txt
+	}
+	return strings.Join(items, "; ")
 }
 
 // units4 prints a price difference to four figures.

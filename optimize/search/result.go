@@ -234,11 +234,34 @@ type Fix struct {
 	// changes: an amplifier with a grade or a network) or calibration
 	// (the same parts with a one-time calibration the spec does not ask
 	// for yet).
-	Kind      string  `json:"kind"`
-	Change    string  `json:"change"`
-	Part      string  `json:"part"`
-	TotalCost float64 `json:"total_cost"`
-	ExtraCost float64 `json:"extra_cost"` // per stage
+	Kind string `json:"kind"`
+	// Change words every change of Changes (or the calibration).
+	Change string `json:"change"`
+	// Part is the new part at the first position that changes (Changes
+	// lists them all; "" for a calibration).
+	Part string `json:"part"`
+	// Changes are the positions whose part or value the fix changes, each
+	// with its new and its former part and value (none for a calibration).
+	Changes   []PartChange `json:"changes,omitempty"`
+	TotalCost float64      `json:"total_cost"`
+	ExtraCost float64      `json:"extra_cost"` // per stage
+}
+
+// PartChange is one position a fix changes: the part and value it takes
+// and the ones it had. A position the fix adds has no former part, one it
+// removes no new part (a series pair in place of one resistor: Rf.a and
+// Rf.b added, Rf removed).
+type PartChange struct {
+	Position     string  `json:"position"`
+	Kind         string  `json:"kind"`
+	Part         string  `json:"part,omitempty"`
+	ValueOhm     float64 `json:"value_ohm,omitempty"`
+	Tolerance    float64 `json:"tolerance,omitempty"` // fraction
+	TCRppm       float64 `json:"tcr_ppm,omitempty"`
+	WasPart      string  `json:"was_part,omitempty"`
+	WasValueOhm  float64 `json:"was_value_ohm,omitempty"`
+	WasTolerance float64 `json:"was_tolerance,omitempty"`
+	WasTCRppm    float64 `json:"was_tcr_ppm,omitempty"`
 }
 
 // Infeasible explains a spec no design meets.

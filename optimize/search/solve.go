@@ -969,20 +969,6 @@ type fixCand struct {
 	kind   string
 }
 
-// partAt returns the part at the first of the positions named (a pair's
-// elements count as their position), so that a grade fix names a part of
-// the positions it changes.
-func partAt(parts []Part, at []string) string {
-	for _, pos := range at {
-		for _, p := range parts {
-			if p.Position == pos || strings.HasPrefix(p.Position, pos+".") {
-				return p.Part
-			}
-		}
-	}
-	return ""
-}
-
 // maxFixCands is how many passing changes of each size (single, pair) the
 // fix search collects for the exact budget to confirm in cost order;
 // maxPairLook bounds the (configuration, amplifier) pairs a pair search
@@ -1113,55 +1099,6 @@ func insertFix(out []fixOpt, f fixOpt) []fixOpt {
 	i := sort.Search(len(out), func(i int) bool { return f.b.less(&out[i].b) })
 	out = slices.Insert(out, i, f)
 	return out[:min(len(out), maxFixCands)]
-}
-
-// fixChange describes fix o of failing class f in words, with the part it
-// brings in ("" for a grade change, where at lists the positions changed).
-func (s *space) fixChange(f *classBest, o fixOpt) (change, part string, at []string) {
-	won := o.cand
-	rgPos, rfPos := s.positions()
-	var amp string
-	if won.ci >= 0 && won.ai != f.amp && f.cfg >= 0 {
-		a := s.amps[won.ai].a
-		amp = "amplifier " + a.Part + " instead of " + s.amps[f.amp].a.Part
-		part = a.Part
-	}
-	join := func(c string) string {
-		if amp == "" {
-			return c
-		}
-		if c == "" {
-			return amp
-		}
-		return c + "; " + amp
-	}
-	switch {
-	case won.ci < 0:
-		m := &s.matched[won.ai]
-		was := s.amps
-		if f.cfg < 0 {
-			was = s.matched
-		}
-		return "matched amplifier " + m.label() + " instead of " + was[f.amp].label(), m.a.Part, nil
-	case won.ci == f.cfg:
-		return join(""), part, nil
-	case strings.HasPrefix(won.kind, "network"):
-		n := s.nets[s.cfgs[won.ci].net]
-		return join("network " + n.Part + " instead of " + s.nets[s.cfgs[f.cfg].net].Part), n.Part, nil
-	}
-	c, o2 := &s.cfgs[f.cfg], &s.cfgs[won.ci]
-	switch {
-	case o2.ga != c.ga && o2.gb != c.gb:
-		all := append(append([]string{}, rgPos...), rfPos...)
-		return join(fmt.Sprintf("%s: %s instead of %s", strings.Join(all, ", "), groupText(s.groups[o2.ga]), groupText(s.groups[c.ga]))), part, all
-	case o2.ga != c.ga:
-		return join(fmt.Sprintf("%s: %s instead of %s", strings.Join(rgPos, ", "), groupText(s.groups[o2.ga]), groupText(s.groups[c.ga]))), part, rgPos
-	}
-	return join(fmt.Sprintf("%s: %s instead of %s", strings.Join(rfPos, ", "), groupText(s.groups[o2.gb]), groupText(s.groups[c.gb]))), part, rfPos
-}
-
-func groupText(g *group) string {
-	return fmt.Sprintf("%s %s %.3g %% %.3g ppm/K", g.grade.Technology, g.grade.Package, 100*g.grade.Tolerance, g.grade.TCR)
 }
 
 // infeasible says which limits no class can meet, the best value any
