@@ -52,7 +52,9 @@ func Main() int {
 	return reportError(ios, err)
 }
 
-// reportError prints err (if any) on stderr and returns its exit code.
+// reportError prints err (if any) on stderr, each line wrapped to the page
+// as the results are (the terminal's width, else 100 columns) with
+// each continuation indented, and returns its exit code.
 func reportError(ios *IOStreams, err error) int {
 	if err == nil {
 		return exitOK
@@ -66,7 +68,17 @@ func reportError(ios *IOStreams, err error) int {
 	if code == exitUsage && !strings.Contains(msg, "--help") {
 		msg += "\nrun `plumb --help` for usage"
 	}
-	fmt.Fprintln(ios.ErrOut, prefix+msg)
+	for i, line := range strings.Split(msg, "\n") {
+		lead, cont := prefix, "  "
+		if i > 0 {
+			// A later line of the message keeps its own indent and hangs
+			// two columns under it.
+			text := strings.TrimLeft(line, " ")
+			lead = line[:len(line)-len(text)]
+			cont, line = lead+"  ", text
+		}
+		writeHanging(ios.ErrOut, ios, lead, cont, line)
+	}
 	return code
 }
 

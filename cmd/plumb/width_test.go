@@ -15,8 +15,9 @@ const pageWidth = 100
 // TestReadmeExamplesFit100Columns runs the text commands the README shows
 // (those that need no catalog file of their own and write no file), and
 // solve, solve --explain, solve --frontier and check on every example
-// spec, piped as a script would, and checks that no line of the results
-// is wider than 100 columns.
+// spec, and plumb demo on every embedded example, piped as a script would,
+// and checks that no line of the results or of the errors is wider than
+// 100 columns.
 func TestReadmeExamplesFit100Columns(t *testing.T) {
 	readme, err := os.ReadFile("../../README.md")
 	if err != nil {
@@ -61,11 +62,13 @@ func TestReadmeExamplesFit100Columns(t *testing.T) {
 			if code != 0 && code != 1 && code != 3 {
 				t.Fatalf("exit %d: %s", code, errOut)
 			}
-			// Errors go to stderr as one line each, for logs; the results
-			// on stdout are what a reader reads.
-			for i, l := range strings.Split(out, "\n") {
-				if n := utf8.RuneCountInString(l); n > pageWidth {
-					t.Errorf("line %d is %d columns wide: %q", i+1, n, l)
+			// The results on stdout and the errors on stderr are both read
+			// by people.
+			for stream, text := range map[string]string{"stdout": out, "stderr": errOut} {
+				for i, l := range strings.Split(text, "\n") {
+					if n := utf8.RuneCountInString(l); n > pageWidth {
+						t.Errorf("%s line %d is %d columns wide: %q", stream, i+1, n, l)
+					}
 				}
 			}
 		})
