@@ -6,7 +6,6 @@ import (
 	"math"
 	"slices"
 	"sort"
-	"strconv"
 	"strings"
 
 	"plumb/catalog"
@@ -219,6 +218,9 @@ func diagnose(ctx context.Context, parts *Parts, s *spec.Spec, opt Options, res 
 		if err != nil {
 			return err
 		}
+		if err := d.checkRails(s, inf); err != nil {
+			return err
+		}
 		return d.withoutLimits(s, inf)
 	}
 	var alone []specLimit
@@ -235,6 +237,9 @@ func diagnose(ctx context.Context, parts *Parts, s *spec.Spec, opt Options, res 
 	for _, l := range alone {
 		il, err := d.limitAlone(s, l)
 		if err != nil {
+			return err
+		}
+		if err := d.nearerBest(s, l, &il, res); err != nil {
 			return err
 		}
 		inf.Limits = append(inf.Limits, il)
@@ -271,7 +276,7 @@ func diagnose(ctx context.Context, parts *Parts, s *spec.Spec, opt Options, res 
 	}
 	for _, l := range set {
 		to, r, err := d.relax(s, l)
-		if err == nil && r != nil && l.inLSB != nil {
+		if err == nil && r != nil {
 			to, r, err = d.tightest(s, l, to, r)
 		}
 		if err != nil {
@@ -284,21 +289,25 @@ func diagnose(ctx context.Context, parts *Parts, s *spec.Spec, opt Options, res 
 	return nil
 }
 
-// tightSteps bounds the re-solves that narrow a channel limit's
-// relaxation (tightest).
+// tightSteps bounds the re-solves that narrow a relaxation (tightest).
 const tightSteps = 24
 
-// tightest narrows the relaxation to (a field value of s's limit l,
-// passed by found) on the grid of four significant figures
-// budget.FormatFigure prints: to is first rounded up to the grid; then the
-// passing design's own figure, rounded up to the grid, is tried, and the
-// grid values under the relaxation, galloping, until no design passes the
-// one a step under it (at most tightSteps rounds). Every value kept is one a solve found a
-// design for, so the printed relaxation lets a design exist, and one print
-// step tighter does not.
+// tightest narrows the relaxation of limit l to (a field value of s's
+// limit, passed by found) to the grid budget.FormatFigure prints it on
+// (four significant figures; tenths of a dB): to is first rounded to the
+// grid in the direction that relaxes the limit (up for a maximum, down for
+// a minimum); then the passing design's own figure, rounded so, is tried,
+// and the grid values tighter than the relaxation, galloping, until no
+// design passes the one a step tighter (at most tightSteps rounds). Every
+// value kept is one a solve found a design for, so the printed relaxation
+// lets a design exist, and one printed step tighter does not.
 func (d *diagnoser) tightest(s *spec.Spec, l specLimit, to float64, found *Result) (float64, *Result, error) {
 	sc := l.scaleOf(s)
-	p, _ := ceilFigure(to * sc)
+	dir := 1.0 // a maximum: tighter is lower
+	if !l.max {
+		dir = -1
+	}
+	p, _ := l.loosest(to * sc)
 	to = p / sc
 	try := func(v float64) (bool, error) {
 		r, err := d.feasible(withLimit(s, l, v/sc))
@@ -310,18 +319,18 @@ func (d *diagnoser) tightest(s *spec.Spec, l specLimit, to float64, found *Resul
 	}
 	k := 1.0
 	for range tightSteps {
-		if lim, ok := findLimit(found.Designs[0].Limits, l.name); ok && lim.Value > 0 {
-			if p, _ := ceilFigure(lim.Value); p < to*sc {
+		if lim, ok := findLimit(found.Designs[0].Limits, l.name); ok && (lim.Value > 0 || l.unit == "dB") {
+			if p, _ := l.loosest(lim.Value); dir*(to*sc-p) > 0 {
 				if _, err := try(p); err != nil {
 					return 0, nil, err
 				}
 			}
 		}
-		// Gallop down the grid: twice as many steps after a value passes,
-		// half as many after one fails; a fail one step under ends it.
-		_, step := ceilFigure(to * sc)
-		q := math.Round(to*sc/step-k) * step
-		if !(q > 0) || q >= to*sc {
+		// Gallop along the grid: twice as many steps after a value passes,
+		// half as many after one fails; a fail one step tighter ends it.
+		_, step := l.loosest(to * sc)
+		q := math.Round(to*sc/step-dir*k) * step
+		if (l.max && !(q > 0)) || dir*(to*sc-q) <= 0 {
 			break
 		}
 		ok, err := try(q)
@@ -339,13 +348,33 @@ func (d *diagnoser) tightest(s *spec.Spec, l specLimit, to float64, found *Resul
 	return to, found, nil
 }
 
+// loosest rounds v, a figure of limit l in the budget's unit, to the grid
+// budget.FormatFigure prints it on, in the direction that relaxes the
+// limit, and returns the grid's step there (see ceilFigure).
+func (l specLimit) loosest(v float64) (p, step float64) {
+	switch {
+	case l.unit == "dB":
+		step = 0.1
+		return math.Floor(v/step-1e-9) * step, step
+	case l.max:
+		return ceilFigure(v)
+	}
+	return floorFigure(v)
+}
+
 // ceilFigure rounds v > 0 up to four significant figures (the figures
-// budget.FormatFigure prints in LSB and % FS) and returns the grid's step
-// there; a value on the grid moves up a step only by a rounding error
-// (the factor 1+1e-9 keeps a limit set to it from failing by one).
+// budget.FormatFigure prints) and returns the grid's step there; a value
+// on the grid moves up a step only by a rounding error (the factor 1+1e-9
+// keeps a limit set to it from failing by one).
 func ceilFigure(v float64) (p, step float64) {
 	step = math.Pow(10, math.Floor(math.Log10(v))-3)
 	return math.Ceil(v*(1+1e-9)/step) * step, step
+}
+
+// floorFigure is ceilFigure rounding down, for a minimum.
+func floorFigure(v float64) (p, step float64) {
+	step = math.Pow(10, math.Floor(math.Log10(v))-3)
+	return math.Floor(v*(1-1e-9)/step) * step, step
 }
 
 // nameList joins limit names: "gain error", "gain error and CMRR".
@@ -419,14 +448,14 @@ func (d *diagnoser) limitAlone(s *spec.Spec, l specLimit) (InfeasibleLimit, erro
 	if err != nil {
 		return il, err
 	}
-	if full != nil && l.inLSB != nil {
+	if full != nil {
 		if to, full, err = d.tightest(s, l, to, full); err != nil {
 			return il, err
 		}
-		// A channel limit's relaxation is exact to the printed figure, the
-		// best value alone only to the bisection's step: the design that
-		// passes the relaxation may reach further.
-		if lim, ok := findLimit(full.Designs[0].Limits, l.name); ok && lim.Value < il.Best {
+		// The relaxation is exact to the printed figure, the best value
+		// alone only to the bisection's step: the design that passes the
+		// relaxation may reach further, and then it sets the best value.
+		if lim, ok := findLimit(full.Designs[0].Limits, l.name); ok && better(l, lim.Value, il.Best) {
 			il.Best, il.BestParts = lim.Value, partsText(&full.Designs[0])
 			if il.SetBy, err = d.causes(s, &full.Designs[0], l, lim.Value); err != nil {
 				return il, err
@@ -441,6 +470,41 @@ func (d *diagnoser) limitAlone(s *spec.Spec, l specLimit) (InfeasibleLimit, erro
 		il.Needed = fmt.Sprintf("relaxing %s alone (up to %gx) does not let a design pass: other limits bind too", l.name, maxRelax)
 	}
 	return il, nil
+}
+
+// better reports whether figure v of limit l is better than w (lower for
+// a maximum, higher for a minimum).
+func better(l specLimit, v, w float64) bool {
+	if l.max {
+		return v < w
+	}
+	return v > w
+}
+
+// nearerBest lowers il's best value to a failing design of res that
+// reaches further on limit l (a near miss the exact budget figures better
+// than the screening that the re-solves rely on), with that design's
+// parts and causes, so that no design the result lists beats the best
+// value the diagnosis reports.
+func (d *diagnoser) nearerBest(s *spec.Spec, l specLimit, il *InfeasibleLimit, res *Result) error {
+	if il.BestParts == "" {
+		return nil
+	}
+	var best *Design
+	for _, list := range [][]NearMiss{res.NearMisses, res.CheapestFailing} {
+		for i := range list {
+			if lim, ok := findLimit(list[i].Limits, l.name); ok && better(l, lim.Value, il.Best) {
+				il.Best, best = lim.Value, &list[i].Design
+			}
+		}
+	}
+	if best == nil {
+		return nil
+	}
+	il.BestParts = partsText(best)
+	var err error
+	il.SetBy, err = d.causes(s, best, l, il.Best)
+	return err
 }
 
 // minCauseShare is the smallest share of a limit's value a cause must
@@ -554,7 +618,8 @@ func (d *diagnoser) causes(s *spec.Spec, best *Design, l specLimit, base float64
 // side: every resistor term (tolerance, tempco, load life, ratio) as one
 // cause naming the best design's grades, each amplifier term on its own
 // with the amplifier's part. Shares add (worst case |v|/Σ|v|, RSS v²/Σv²);
-// for a dB limit the values are the terms of 1/CMRR and add likewise.
+// for a dB limit the terms of 1/CMRR add likewise, and each cause's value
+// is the CMRR its term alone would leave, -20·log10(term), in dB.
 func catalogCauses(best *Design, cs []budget.Contribution, l specLimit) []Cause {
 	var grades, amp []string
 	for _, p := range best.Parts {
@@ -589,6 +654,12 @@ func catalogCauses(best *Design, cs []budget.Contribution, l specLimit) []Cause 
 	}
 	if res.Share >= minCauseShare {
 		out = append(out, res)
+	}
+	if l.unit == "dB" {
+		// A term of 1/CMRR in dB: the CMRR that term alone would leave.
+		for i := range out {
+			out[i].Value = -20 * math.Log10(out[i].Value)
+		}
 	}
 	return out
 }
@@ -711,15 +782,16 @@ func (d *diagnoser) conflict(s *spec.Spec, a, b specLimit) (Conflict, error) {
 // common-mode range, the supply span against the amplifiers' ratings, and
 // the gain-bandwidth the bandwidth needs. Each says what to change on the
 // spec's side (the rails, the ranges) or which figure a part would need.
-func hardCauses(parts *Parts, p *Problem) []string {
+func hardCauses(parts *Parts, p *Problem) ([]string, railNeed) {
 	v := func(x float64) string { return budget.FormatFigure(x, "V") }
 	var out []string
+	need := railNeed{pos: math.Inf(-1), neg: math.Inf(1)}
 	olo, ohi := outRange(p)
 	if r := p.family().Search.Ratio; r != nil && r.Passive {
 		if olo < p.SupplyNeg || ohi > p.SupplyPos {
 			out = append(out, fmt.Sprintf("the output spans %s..%s, outside the supply %s..%s: widen the supply or narrow the input range", v(olo), v(ohi), v(p.SupplyNeg), v(p.SupplyPos)))
 		}
-		return out
+		return out, need
 	}
 	span := p.SupplyPos - p.SupplyNeg
 	var ops []*catalog.Amplifier
@@ -758,22 +830,26 @@ func hardCauses(parts *Parts, p *Problem) []string {
 		if len(parts.Amplifiers) > 0 {
 			out = append(out, fmt.Sprintf("the supply spans %s; the catalog's op-amps take %s to %s: change the supply", v(span), v(minSupply), v(maxSupply)))
 		}
-		return out
+		return out, need
 	}
 	if top := p.SupplyPos - bestSwingP; ohi > top {
+		need.pos = math.Max(need.pos, ohi+bestSwingP)
 		out = append(out, fmt.Sprintf("the output must reach %s; with V+ at %s the op-amp that swings nearest its rail (%s, within %s) stops at %s: raise V+ to at least %s, or lower the top of the output range by %s",
 			v(ohi), v(p.SupplyPos), partSP, v(bestSwingP), v(top), v(ohi+bestSwingP), v(ohi-top)))
 	}
 	if bot := p.SupplyNeg + bestSwingN; olo < bot {
+		need.neg = math.Min(need.neg, olo-bestSwingN)
 		out = append(out, fmt.Sprintf("the output must reach %s; with V- at %s the op-amp that swings nearest its rail (%s, within %s) stops at %s: lower V- to at most %s, or raise the bottom of the output range by %s",
 			v(olo), v(p.SupplyNeg), partSN, v(bestSwingN), v(bot), v(olo-bestSwingN), v(bot-olo)))
 	}
 	lo, hi := pinRange(p, p.ratio())
 	if top := p.SupplyPos - bestCMP; hi > top {
+		need.pos = math.Max(need.pos, hi+bestCMP)
 		out = append(out, fmt.Sprintf("the amplifier's inputs reach %s; the widest common-mode range (%s, to %s below V+) ends at %s: raise V+ to at least %s, or lower the input or common-mode range",
 			v(hi), partCP, v(bestCMP), v(top), v(hi+bestCMP)))
 	}
 	if bot := p.SupplyNeg + bestCMN; lo < bot {
+		need.neg = math.Min(need.neg, lo-bestCMN)
 		out = append(out, fmt.Sprintf("the amplifier's inputs reach %s; the widest common-mode range (%s, to %s above V-) ends at %s: lower V- to at most %s, or raise the input or common-mode range",
 			v(lo), partCN, v(bestCMN), v(bot), v(lo-bestCMN)))
 	}
@@ -781,7 +857,117 @@ func hardCauses(parts *Parts, p *Problem) []string {
 		out = append(out, fmt.Sprintf("the bandwidth %s at a noise gain of %.4g needs a gain-bandwidth of %s; the catalog's best is %s (%s)",
 			budget.FormatFigure(p.BandwidthHz, "Hz"), ng, budget.FormatFigure(p.BandwidthHz*ng, "Hz"), budget.FormatFigure(bestGBW, "Hz"), partGBW))
 	}
-	return out
+	return out, need
+}
+
+// railNeed is where the rails must go for the best amplifier's swing and
+// common-mode range to cover the stage (pos -Inf, neg +Inf: that rail
+// need not move), as hardCauses words it; the diagnosis checks it.
+type railNeed struct{ pos, neg float64 }
+
+// railSteps bounds the printed steps (1 mV near 1..10 V) a rail is moved
+// past the figure hardCauses computes from the nominal ranges.
+const railSteps = 4096
+
+// checkRails moves the rails hardCauses names (inf.rails) to where a
+// design exists with every limit of s kept: the nominal figures (the
+// nominal output against the best swing) are the least the rails need;
+// worst-case gain moves the output a little further, so each rail moves on
+// in printed steps, galloping, until a solve finds a design, and is then
+// narrowed step by step with the other rail held until one printed step
+// tighter finds none. The words in inf.Hard take the figures found.
+func (d *diagnoser) checkRails(s *spec.Spec, inf *Infeasible) error {
+	if inf.rails == nil {
+		return nil
+	}
+	need := *inf.rails
+	movePos, moveNeg := !math.IsInf(need.pos, -1), !math.IsInf(need.neg, 1)
+	if !movePos && !moveNeg {
+		return nil
+	}
+	// grid rounds a rail away from the stage's range (up for V+, down for
+	// V-) to the printed figure; a figure on the grid stays.
+	grid := func(v float64, up bool) (float64, float64) {
+		_, step := ceilFigure(math.Abs(v))
+		if !(step > 0) {
+			step = 1e-3 // a rail at 0 V: millivolts
+		}
+		if up {
+			return math.Ceil(v/step-1e-6) * step, step
+		}
+		return math.Floor(v/step+1e-6) * step, step
+	}
+	pos, neg := s.Supply.Max, s.Supply.Min
+	var sp, sn float64
+	if movePos {
+		pos, sp = grid(need.pos, true)
+	}
+	if moveNeg {
+		neg, sn = grid(need.neg, false)
+	}
+	ok := func(n, p float64) (bool, error) {
+		c := *s
+		c.Supply = spec.Range{Min: n, Max: p}
+		r, err := d.feasible(&c)
+		return r != nil, err
+	}
+	// Gallop both rails out until a design exists.
+	k := 0.0
+	for {
+		found, err := ok(neg-k*sn, pos+k*sp)
+		if err != nil {
+			return err
+		}
+		if found {
+			break
+		}
+		if k >= railSteps {
+			return nil // a limit, not the rails, stops it: the words stay
+		}
+		k = math.Max(1, 2*k)
+	}
+	// Narrow each rail with the other held: the fewest steps that solve.
+	narrow := func(solves func(j float64) (bool, error)) (float64, error) {
+		lo, hi := -1.0, k // hi solves; lo, one step inside the start, need not
+		for hi-lo > 1 {
+			mid := math.Floor((lo + hi) / 2)
+			f, err := solves(mid)
+			if err != nil {
+				return 0, err
+			}
+			if f {
+				hi = mid
+			} else {
+				lo = mid
+			}
+		}
+		return hi, nil
+	}
+	kp, kn := k, k
+	var err error
+	if movePos {
+		if kp, err = narrow(func(j float64) (bool, error) { return ok(neg-k*sn, pos+j*sp) }); err != nil {
+			return err
+		}
+	}
+	if moveNeg {
+		if kn, err = narrow(func(j float64) (bool, error) { return ok(neg-j*sn, pos+kp*sp) }); err != nil {
+			return err
+		}
+	}
+	v := func(x float64) string { return budget.FormatFigure(x, "V") }
+	for i, h := range inf.Hard {
+		if movePos {
+			h = strings.Replace(h, "raise V+ to at least "+v(need.pos), "raise V+ to at least "+v(pos+kp*sp), 1)
+		}
+		if moveNeg {
+			h = strings.Replace(h, "lower V- to at most "+v(need.neg), "lower V- to at most "+v(neg-kn*sn), 1)
+		}
+		inf.Hard[i] = h
+	}
+	inf.Hard = append(inf.Hard, fmt.Sprintf("with the rails at %s..%s a design meets every limit (solved; the worst-case gain carries the output past its nominal range), one printed step less on either rail none does",
+		v(neg-kn*sn), v(pos+kp*sp)))
+	return nil
 }
 
 // withoutLimits explains a spec no design meets even with every limit
@@ -865,7 +1051,7 @@ func (inf *Infeasible) Lines() []string {
 				}
 				v := budget.FormatFigure(c.Value, c.Unit)
 				if c.Unit == "dB" && side == "catalog" {
-					v = strconv.FormatFloat(c.Value, 'g', 3, 64) // a term of 1/CMRR
+					v = "(alone " + v + ")"
 				}
 				if side == "spec" {
 					cs = append(cs, fmt.Sprintf("%s (ideal, it would be %s better)", c.Name, v))

@@ -283,6 +283,9 @@ type Infeasible struct {
 	// amplifier (output range against the rails, input headroom, supply,
 	// bandwidth).
 	Hard []string `json:"hard,omitempty"`
+
+	// rails are where hardCauses asks the rails to go (see checkRails).
+	rails *railNeed
 }
 
 // InfeasibleLimit is a limit no design meets, with the best value any

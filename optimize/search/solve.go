@@ -600,7 +600,9 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 	if len(res.Designs) == 0 {
 		res.Infeasible = sp.infeasible()
 		if len(sp.amps)+len(sp.matched) == 0 {
-			res.Infeasible.Hard = hardCauses(parts, &p)
+			var need railNeed
+			res.Infeasible.Hard, need = hardCauses(parts, &p)
+			res.Infeasible.rails = &need
 		}
 		if len(rejected) > 0 {
 			res.Infeasible.Message += "; the designs that pass the screening figures all fail the exact budget (see the near misses)"
