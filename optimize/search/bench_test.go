@@ -157,3 +157,20 @@ func BenchmarkSolveInAmpTop10(b *testing.B) {
 		return SolveProblem(context.Background(), ps, p, Options{Top: 10})
 	})
 }
+
+// BenchmarkDiagnoseLevelShift solves the level shift whose reference error
+// takes its offset budget (refLevelShift): the search finds no design and
+// the diagnosis re-solves the spec with limits taken away and relaxed.
+func BenchmarkDiagnoseLevelShift(b *testing.B) {
+	snap := diagSnapshot()
+	s, err := spec.Parse([]byte(refLevelShift), "bench.yaml")
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := Solve(context.Background(), snap, s, Options{}); !IsInfeasible(err) {
+			b.Fatalf("error %v, want an infeasible spec", err)
+		}
+	}
+}

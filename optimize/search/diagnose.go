@@ -579,9 +579,36 @@ func (d *diagnoser) causes(s *spec.Spec, best *Design, l specLimit, base float64
 			}
 		}
 	}
+	// A reference given by figures moves the output whatever the parts:
+	// its terms in the best design's budget are what making it ideal
+	// gains, with the same design (worst case: the term; RSS:
+	// F - sqrt(F² - t²)), no re-solve needed (as channelCauses).
+	fixed := map[string]float64{}
+	if best.budget != nil && s.Reference != nil && s.Reference.Part == "" && l.unit != "dB" {
+		for _, bl := range best.budget.Limits {
+			if bl.Name != l.name {
+				continue
+			}
+			for _, c := range bl.Contributors {
+				if c.Name == "reference tolerance" || c.Name == "reference drift" {
+					t := math.Abs(c.Value)
+					if s.Analysis.Method != spec.WorstCase {
+						t = math.Abs(bl.Value) - math.Sqrt(math.Max(0, bl.Value*bl.Value-t*t))
+					}
+					fixed[c.Name] = t
+				}
+			}
+		}
+	}
 	// The ideal spec reaches at least base: start the search there.
 	first := l.factorTo(s, base)
 	for _, f := range specFigures(s, l) {
+		if t, ok := fixed[f.name[:strings.LastIndex(f.name, " ")]]; ok {
+			if t > minCauseShare*math.Abs(base) {
+				out = append(out, Cause{Name: f.name, Side: "spec", Value: t, Share: t / math.Abs(base), Unit: unit})
+			}
+			continue
+		}
 		_, r, err := d.relaxFrom(onlyLimits(f.ideal(s), l), l, first*1.0001, causeSteps)
 		if err != nil {
 			return nil, err

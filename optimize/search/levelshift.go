@@ -276,7 +276,8 @@ func (s *space) lsSensitivities(v *lsValues) (sSl, sOf [5]float64) {
 
 // boundLevelShift fills m with optimistic figures for every option of a
 // level-shift class: the amplifier's own offset, drift and noise at NG = 2
-// (the resistor terms only add to them); gain error and drift 0.
+// (the resistor terms only add to them) and the least offset the
+// reference's error leaves; gain error and drift 0.
 func (s *space) boundLevelShift(a *amp, m *metrics) {
 	*m = metrics{cmrrDB: noiseFloorDB}
 	if a == nil {
@@ -285,6 +286,21 @@ func (s *space) boundLevelShift(a *amp, m *metrics) {
 	am := a.a
 	ng := s.p.lsNoiseGain()
 	s.offset(m, ng, am.VosV, 0, am.VosDriftVK)
+	if p := s.p; !p.CalOffset {
+		// The reference's own error moves the shift whatever the
+		// resistors: the corners' worst offset max over r = 1 ± e of
+		// |x·r - S| is at least |S|·e/(1 + e) for any resistor factor x
+		// (the two values lie 2|x|·e apart, one of them at least |x|·e
+		// from S, and |x - S| grows as |x| falls below S/(1 + e)); under
+		// RSS the term is |S|·sqrt(tol² + drift²) itself (evalLevelShift).
+		refDT := p.RefDrift * s.dT
+		if s.rss {
+			m.offset = math.Hypot(m.offset, math.Abs(p.Shift)*math.Hypot(p.RefTol, refDT))
+		} else {
+			e := (1+p.RefTol)*(1+refDT) - 1
+			m.offset += math.Abs(p.Shift) * e / (1 + e)
+		}
+	}
 	m.noise = ng * am.NoiseVHz
 	m.noiseRMS = rmsNoise(m.noise, am.GBWHz/ng)
 }
