@@ -52,9 +52,10 @@ func Main() int {
 	return reportError(ios, err)
 }
 
-// reportError prints err (if any) on stderr, each line wrapped to the page
-// as the results are (the terminal's width, else 100 columns) with
-// each continuation indented, and returns its exit code.
+// reportError prints err (if any) on stderr and returns its exit code. On
+// a terminal each line of the message is wrapped to the page as the
+// results are (the terminal's width, at most 100 columns), each
+// continuation indented; a pipe or a log gets the message as it is.
 func reportError(ios *IOStreams, err error) int {
 	if err == nil {
 		return exitOK
@@ -67,6 +68,11 @@ func reportError(ios *IOStreams, err error) int {
 	msg := err.Error()
 	if code == exitUsage && !strings.Contains(msg, "--help") {
 		msg += "\nrun `plumb --help` for usage"
+	}
+	if !ios.IsStderrTTY() {
+		// A log or a pipe gets each error on one line, for grep.
+		fmt.Fprintln(ios.ErrOut, prefix+msg)
+		return code
 	}
 	for i, line := range strings.Split(msg, "\n") {
 		lead, cont := prefix, "  "

@@ -3,6 +3,7 @@ package main
 import (
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 	"unicode/utf8"
@@ -15,9 +16,8 @@ const pageWidth = 100
 // TestReadmeExamplesFit100Columns runs the text commands the README shows
 // (those that need no catalog file of their own and write no file), and
 // solve, solve --explain, solve --frontier and check on every example
-// spec, and plumb demo on every embedded example, piped as a script would,
-// and checks that no line of the results or of the errors is wider than
-// 100 columns.
+// spec, piped as a script would, and checks that no line of the results
+// is wider than 100 columns.
 func TestReadmeExamplesFit100Columns(t *testing.T) {
 	readme, err := os.ReadFile("../../README.md")
 	if err != nil {
@@ -62,13 +62,12 @@ func TestReadmeExamplesFit100Columns(t *testing.T) {
 			if code != 0 && code != 1 && code != 3 {
 				t.Fatalf("exit %d: %s", code, errOut)
 			}
-			// The results on stdout and the errors on stderr are both read
-			// by people.
-			for stream, text := range map[string]string{"stdout": out, "stderr": errOut} {
-				for i, l := range strings.Split(text, "\n") {
-					if n := utf8.RuneCountInString(l); n > pageWidth {
-						t.Errorf("%s line %d is %d columns wide: %q", stream, i+1, n, l)
-					}
+			// Errors go to a piped stderr as one line each, for logs (on a
+			// terminal they wrap: TestErrorsWrapOnTerminal); the results
+			// on stdout are what a reader reads.
+			for i, l := range strings.Split(out, "\n") {
+				if n := utf8.RuneCountInString(l); n > pageWidth {
+					t.Errorf("line %d is %d columns wide: %q", i+1, n, l)
 				}
 			}
 		})
@@ -96,6 +95,42 @@ func TestExplainPrintsOnlyThatDesign(t *testing.T) {
 	for _, want := range []string{"#2 ", "Full budget of design 2", "Contributors to"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("--explain 2 lacks %q", want)
+		}
+	}
+}
+
+// TestErrorsWrapOnTerminal: on a terminal an error wider than the page is
+// wrapped to 100 columns, its continuation indented, the words unchanged;
+// piped, the same error stays on one line for logs.
+func TestErrorsWrapOnTerminal(t *testing.T) {
+	long := strings.Repeat("a-rather-long-directory-name/", 2) + "missing.db"
+	cmd := "catalog list --catalog " + long
+	for _, tty := range []bool{true, false} {
+		f, _, _ := testFactory(t)
+		f.IO.SetTerminal(false, tty)
+		f.IO.SetColorMode("never")
+		_, errOut, code := runPlumb(t, f, cmd)
+		if code == 0 {
+			t.Fatalf("%s: exit 0", cmd)
+		}
+		lines := strings.Split(strings.TrimRight(errOut, "\n"), "\n")
+		words := strings.Fields(errOut)
+		if !slices.Contains(words, long) {
+			t.Errorf("terminal %v: the path is broken up: %q", tty, errOut)
+		}
+		for i, l := range lines {
+			if n := utf8.RuneCountInString(l); tty && n > pageWidth {
+				t.Errorf("terminal: line %d is %d columns wide: %q", i+1, n, l)
+			}
+			if i > 0 && tty && !strings.HasPrefix(l, "  ") {
+				t.Errorf("terminal: continuation %q is not indented", l)
+			}
+		}
+		if tty && len(lines) < 2 {
+			t.Errorf("terminal: %d line(s), want the error wrapped: %q", len(lines), errOut)
+		}
+		if !tty && len(lines) != 1 {
+			t.Errorf("piped: %d lines, want the error on one line: %q", len(lines), errOut)
 		}
 	}
 }
