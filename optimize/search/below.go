@@ -55,7 +55,7 @@ func (s *space) below(ctx context.Context, ceiling float64, most int, exhaustive
 			}
 			s.evalOpt(c, o, a, &m)
 			if s.pass(&m) {
-				out = append(out, classBest{id: s.classID(ci, ai), cfg: ci, amp: ai, opt: i, cost: o.cost + a.cost, m: m, pass: true, key: s.tie(c, o, &m)})
+				out = append(out, classBest{id: s.classID(ci, ai), cfg: ci, amp: ai, opt: i, cost: o.cost + a.cost, m: m, pass: true, key: s.tie(c, o, a, &m)})
 			}
 		}
 	}

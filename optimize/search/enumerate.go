@@ -76,7 +76,7 @@ func (s *space) evalClass(ci, ai int) (classBest, bool) {
 		if !s.pass(&m) {
 			continue
 		}
-		if k := s.tie(c, o, &m); best.opt < 0 || k.better(best.key) {
+		if k := s.tie(c, o, a, &m); best.opt < 0 || k.better(best.key) {
 			best = classBest{id: s.classID(ci, ai), cfg: ci, amp: ai, opt: i, cost: o.cost + a.cost, m: m, pass: true, key: k}
 		}
 	}
@@ -114,7 +114,7 @@ func (s *space) cheapestClass(ci, ai int) (classBest, bool) {
 	b := classBest{id: s.classID(ci, ai), cfg: ci, amp: ai, opt: 0, cost: opts[0].cost + a.cost}
 	s.evalOpt(c, &opts[0], a, &b.m)
 	b.pass = s.pass(&b.m)
-	b.key = s.tie(c, &opts[0], &b.m)
+	b.key = s.tie(c, &opts[0], a, &b.m)
 	return b, true
 }
 
@@ -123,7 +123,7 @@ func (s *space) evalMatchedClass(mi int) classBest {
 	b := classBest{id: s.classID(-1, mi), cfg: -1, amp: mi, opt: -1, cost: a.cost}
 	s.evalMatched(a, &b.m)
 	b.pass = s.pass(&b.m)
-	b.key = s.tie(nil, nil, &b.m)
+	b.key = s.tie(nil, nil, a, &b.m)
 	return b
 }
 
@@ -193,7 +193,7 @@ func (s *space) exhaustive(ctx context.Context, n int) ([]classBest, error) {
 				if !s.pass(&m) {
 					continue
 				}
-				k := s.tie(c, &opts[i], &m)
+				k := s.tie(c, &opts[i], a, &m)
 				if best < 0 || opts[i].cost < opts[best].cost || (opts[i].cost == opts[best].cost && k.better(bestKey)) {
 					best, bestKey = i, k
 				}

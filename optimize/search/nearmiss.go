@@ -203,7 +203,7 @@ func (s *space) closestOption(ci, ai int) (best classBest, short float64, pass b
 		sf := s.shortfallUpTo(&m, short)
 		if sf < short || (sf == short && opts[i].cost+a.cost < best.cost) {
 			short = sf
-			best = classBest{id: s.classID(ci, ai), cfg: ci, amp: ai, opt: i, cost: opts[i].cost + a.cost, m: m, key: s.tie(c, &opts[i], &m)}
+			best = classBest{id: s.classID(ci, ai), cfg: ci, amp: ai, opt: i, cost: opts[i].cost + a.cost, m: m, key: s.tie(c, &opts[i], a, &m)}
 		}
 	}
 	return best, short, false

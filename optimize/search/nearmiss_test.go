@@ -242,7 +242,7 @@ func TestShortfallMatchesMargins(t *testing.T) {
 			m.cmrrDB = math.NaN()
 		}
 		want := 0.0
-		s.eachMargin(&m, 0, 0, 0, func(mg float64, _ bool) {
+		s.eachMargin(&m, 0, 0, 0, 0, func(mg float64, _ bool) {
 			switch {
 			case mg >= 1:
 			case !(mg > 0):

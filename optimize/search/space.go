@@ -488,6 +488,23 @@ func hardAmp(p *Problem, a *catalog.Amplifier, k float64, st *strap.Strapping) s
 	if lo < p.SupplyNeg+negM || hi > p.SupplyPos-posM {
 		return "input headroom"
 	}
+	if swingHeadroom(p, a, k, st) < 0 {
+		return "output swing"
+	}
+	if r := p.family().Search.Ratio; r != nil && r.Stage2 != nil {
+		ng = r.Stage2.NoiseGain(k, p.stage2Gain())
+	}
+	if p.BandwidthHz > 0 && a.GBWHz/ng < p.BandwidthHz {
+		return "bandwidth"
+	}
+	return ""
+}
+
+// swingHeadroom is the least distance, in volts, between the outputs the
+// stage drives at nominal ratio k (an in-amp's first-stage outputs too)
+// and the limits of amplifier a's swing at the rails; negative where the
+// amplifier cannot reach them.
+func swingHeadroom(p *Problem, a *catalog.Amplifier, k float64, st *strap.Strapping) float64 {
 	olo, ohi := outRange(p)
 	if st != nil {
 		// Vout = Gp·Vp + Gn·Vn + Gr·Vref at every input corner.
@@ -499,21 +516,14 @@ func hardAmp(p *Problem, a *catalog.Amplifier, k float64, st *strap.Strapping) s
 	}
 	if r := p.family().Search.Ratio; r != nil && r.Stage2 != nil {
 		// The first stage's outputs swing too.
-		for _, vcm := range []float64{p.CMMin, p.CMMax} {
-			for _, vd := range []float64{p.InMin, p.InMax} {
+		for _, vcm := range [2]float64{p.CMMin, p.CMMax} {
+			for _, vd := range [2]float64{p.InMin, p.InMax} {
 				l, h := r.Stage2.Swing(k, vd, vcm)
 				olo, ohi = math.Min(olo, l), math.Max(ohi, h)
 			}
 		}
-		ng = r.Stage2.NoiseGain(k, p.stage2Gain())
 	}
-	if olo < p.SupplyNeg+a.SwingNegV || ohi > p.SupplyPos-a.SwingPosV {
-		return "output swing"
-	}
-	if p.BandwidthHz > 0 && a.GBWHz/ng < p.BandwidthHz {
-		return "bandwidth"
-	}
-	return ""
+	return math.Min(olo-(p.SupplyNeg+a.SwingNegV), p.SupplyPos-a.SwingPosV-ohi)
 }
 
 // opAmpBuilds reports whether fams allows a build on an op-amp (discrete

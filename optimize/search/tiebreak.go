@@ -3,6 +3,8 @@ package search
 import (
 	"math"
 
+	"plumb/optimize/budget"
+
 	"plumb/optimize/family"
 )
 
@@ -20,8 +22,10 @@ import (
 //
 // Margins are the screening figures' limit/value for a maximum, value/limit
 // for a minimum (the input impedance included), the linear ratio for dB,
-// and 1/stress for the resistor power and voltage ratings, so a resistor
-// near its derated power counts as a thin margin like any limit. A spec
+// 1 + headroom/0.1 V for the output swing (the exact budget's amplifier
+// headroom margin, budget.NearPinV), and 1/stress for the resistor power
+// and voltage ratings, so an output near its rail or a resistor near its
+// derated power counts as a thin margin like any limit. A spec
 // without a gain-error limit (and no gain calibration) compares the ratio's
 // quantization |k0/k - 1|, in steps of tieQuantStep, before anything else:
 // the gain asked for comes first when no limit says how near it must be.
@@ -41,11 +45,12 @@ type tieKey struct {
 	voltage  float64
 	quant    float64 // |k0/k - 1| in units of tieQuantStep without a gain-error limit (else 0)
 	zin      float64 // input impedance over its limit (0: no limit or no model)
+	head     float64 // output swing margin 1 + headroom/budget.NearPinV (0: no amplifier)
 }
 
-// numTieMargins holds every screening limit, the input impedance and the
-// two ratings.
-const numTieMargins = 13
+// numTieMargins holds every screening limit, the input impedance, the
+// output swing headroom and the two ratings.
+const numTieMargins = 14
 
 // The steps of the material tier. A tenth of a dB is the resolution a CMRR
 // or rejection figure is quoted to on a datasheet (common practice), and
@@ -102,8 +107,9 @@ func compareMargins(x, y *[numTieMargins]float64) int {
 
 // eachMargin calls f with the normalised margin of each limit set (see
 // tieKey), db true for a limit in dB, for screening metrics m, input
-// impedance margin zin (0: none) and resistor stresses power and voltage.
-func (s *space) eachMargin(m *metrics, zin, power, voltage float64, f func(margin float64, db bool)) {
+// impedance margin zin (0: none), output swing margin head (0: none) and
+// resistor stresses power and voltage.
+func (s *space) eachMargin(m *metrics, zin, head, power, voltage float64, f func(margin float64, db bool)) {
 	l := &s.p.Limits
 	max := func(v, lim float64) {
 		switch {
@@ -130,6 +136,9 @@ func (s *space) eachMargin(m *metrics, zin, power, voltage float64, f func(margi
 	if zin > 0 {
 		f(zin, false)
 	}
+	if head > 0 {
+		f(head, false)
+	}
 	max(power, 1)
 	max(voltage, 1)
 }
@@ -138,7 +147,7 @@ func (s *space) eachMargin(m *metrics, zin, power, voltage float64, f func(margi
 // stresses and input impedance already in k.
 func (s *space) margins(m *metrics, k *tieKey) {
 	n := 0
-	s.eachMargin(m, k.zin, k.power, k.voltage, func(v float64, db bool) {
+	s.eachMargin(m, k.zin, k.head, k.power, k.voltage, func(v float64, db bool) {
 		k.material[n] = materialMargin(v, db)
 		k.fine[n] = fineMargin(v)
 		n++
@@ -229,10 +238,17 @@ func (s *space) stress(c *config, o *option) (power, voltage float64) {
 	return power, voltage
 }
 
-// tie is the tie key of option o of configuration c with metrics m (c nil:
-// a matched amplifier, no resistor stress).
-func (s *space) tie(c *config, o *option, m *metrics) tieKey {
+// tie is the tie key of option o of configuration c on amplifier a with
+// metrics m (c nil: a matched amplifier, no resistor stress).
+func (s *space) tie(c *config, o *option, a *amp, m *metrics) tieKey {
 	var k tieKey
+	if a != nil && a.a != nil && a.a.Part != "" {
+		kk := a.k0
+		if c != nil {
+			kk = o.k0
+		}
+		k.head = 1 + math.Max(0, swingHeadroom(s.p, a.a, kk, a.st))/budget.NearPinV
+	}
 	if c != nil {
 		k.power, k.voltage = s.stress(c, o)
 		l := &s.p.Limits

@@ -5,7 +5,9 @@ import (
 
 	"math"
 	"math/rand/v2"
+	"plumb/catalog"
 	"plumb/optimize/assume"
+	"plumb/optimize/budget"
 	"plumb/optimize/spec"
 	"slices"
 	"sort"
@@ -57,7 +59,7 @@ func TestTieDemoExactRatio(t *testing.T) {
 				continue
 			}
 			rg, rf, _ := sp.values(c, o)
-			vs[[2]float64{rg, rf}] = variant{rg, rf, sp.tie(c, o, &m), m}
+			vs[[2]float64{rg, rf}] = variant{rg, rf, sp.tie(c, o, &sp.amps[ai], &m), m}
 		}
 		best, found = b, vs
 	}
@@ -228,4 +230,50 @@ func exampleSpace(t *testing.T, name string, fixture bool) *space {
 		t.Fatal(err)
 	}
 	return sp
+}
+
+// TestTieHeadroom: two op-amps of the same price and figures but for their
+// output swing, one within 1.5 V of V+ and the other within 1 V. A
+// non-inverting gain of 10 from 0..1 V on ±12 V must reach 10 V: the
+// first leaves 12 - 1.5 - 10 = 0.5 V of headroom (margin 1 + 0.5/0.1 = 6,
+// the budget's headroom margin), the second 1 V (margin 11); hand
+// arithmetic, at the nominal gain (the exact budget's worst case takes a
+// little more). Every other margin is the same, so the second must rank
+// first although the catalog lists it second, and the exact budget's
+// headroom of rank 1 is the larger.
+func TestTieHeadroom(t *testing.T) {
+	snap := diagSnapshot()
+	tight := snap.Amplifiers[0]
+	tight.Part, tight.SwingPosV = "DX-OA0", 1.5
+	snap.Amplifiers = append([]catalog.Amplifier{tight}, snap.Amplifiers...)
+	s := mustParseSpec(t, `name: head
+about: equal-cost amplifiers that differ in output swing
+family: noninverting
+gain: 10
+input: {single_ended: 0..1V}
+supply: ±12V
+temperature: {range: 20..30C}
+limits: {gain_error: 5%}
+build: {quantity: 100}
+`)
+	res, err := Solve(context.Background(), snap, s, Options{Top: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	amp := func(d *Design) string { return d.Parts[len(d.Parts)-1].Part }
+	if len(res.Designs) < 2 || amp(&res.Designs[0]) != "DX-OA1" || amp(&res.Designs[1]) != "DX-OA0" {
+		var got []string
+		for i := range res.Designs {
+			got = append(got, amp(&res.Designs[i])+" "+units4(res.Designs[i].UnitCost))
+		}
+		t.Fatalf("ranks %q, want DX-OA1 (1 V of headroom) before DX-OA0 (0.5 V) at the same cost", got)
+	}
+	if res.Designs[0].UnitCost != res.Designs[1].UnitCost {
+		t.Fatalf("costs %g and %g, want a tie", res.Designs[0].UnitCost, res.Designs[1].UnitCost)
+	}
+	h0, ok0 := findLimit(res.Designs[0].Limits, budget.LimitHeadroom)
+	h1, ok1 := findLimit(res.Designs[1].Limits, budget.LimitHeadroom)
+	if !ok0 || !ok1 || !(h0.Value > h1.Value+0.4) || !(h1.Value <= 0.5) {
+		t.Errorf("headroom %+v then %+v, want near 1 V then at most 0.5 V", h0, h1)
+	}
 }
