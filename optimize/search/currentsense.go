@@ -231,7 +231,7 @@ func solveCurrentSense(ctx context.Context, parts *Parts, p Problem, opt Options
 				q.Families = append(q.Families, b)
 			}
 		}
-		r, err := solve(ctx, parts, q, Options{Top: keep, Combos: opt.Combos, quick: opt.quick}, nil, exhaustive)
+		r, err := solve(ctx, parts, q, Options{Top: subTop(keep, opt), Combos: opt.Combos, quick: opt.quick}, nil, exhaustive)
 		if errors.Is(err, ErrProblem) {
 			continue
 		}
@@ -252,7 +252,10 @@ func solveCurrentSense(ctx context.Context, parts *Parts, p Problem, opt Options
 		}
 	}
 	rejected := rankMerged(res, all, opt.Top, verify, func(d *Design, above []Design) []string { return senseReasons(&p, d, above) })
-	addNear(res, near, rejected, verify)
+	addNear(res, near, rejected, verify, opt.spec)
+	if opt.Frontier && !opt.quick && len(res.Designs) > 0 {
+		mergedFrontier(res, all, verify)
+	}
 	if p.hazardous() {
 		res.Cautions = append(res.Cautions, hazardCaution)
 	}

@@ -94,9 +94,15 @@ func (s *space) addFrontier(ctx context.Context, res *Result, verify verifier) e
 		d.ValueVariants = s.variants(&top[i])
 		pool = append(pool, d)
 	}
-	res.Frontier = frontierOf(pool)
-	for i := range res.Frontier {
-		d := &res.Frontier[i]
+	res.Frontier = markFrontier(frontierOf(pool))
+	return nil
+}
+
+// markFrontier adds to each frontier design the line that says why it is
+// there (a design not among the ranked ones gets its limits first).
+func markFrontier(f []Design) []Design {
+	for i := range f {
+		d := &f[i]
 		line := fmt.Sprintf("on the cost-versus-margin frontier: no design at or below %.4g per stage has as much margin on every limit", d.UnitCost)
 		if d.Rank == 0 {
 			d.Reasons = []string{limitSummary(d.Limits), line}
@@ -104,5 +110,38 @@ func (s *space) addFrontier(ctx context.Context, res *Result, verify verifier) e
 			d.Reasons = append(append([]string(nil), d.Reasons...), line)
 		}
 	}
-	return nil
+	return f
+}
+
+// mergedFrontier fills res.Frontier for a search merged from exact
+// sub-searches (the in-amp's second-stage gains, the current sense's
+// shunts): the ranked designs and the cheapest designs of every
+// sub-search, by cost, one per set of grades, up to FrontierPool beside
+// the ranked ones, each confirmed by verify (nil: taken as it is), reduced
+// to the frontier. all is sorted by cost.
+func mergedFrontier(res *Result, all []subDesign, verify verifier) {
+	pool := append([]Design(nil), res.Designs...)
+	seen := map[string]bool{}
+	for i := range pool {
+		seen[gradeKey(&pool[i])] = true
+	}
+	for _, c := range all {
+		if len(pool) >= len(res.Designs)+FrontierPool {
+			break
+		}
+		if seen[gradeKey(&c.d)] {
+			continue
+		}
+		seen[gradeKey(&c.d)] = true
+		if verify != nil {
+			br, fails, err := verify(c.sd)
+			if err != nil || len(fails) > 0 {
+				continue
+			}
+			adopt(&c.d, br)
+		}
+		c.d.Rank = 0
+		pool = append(pool, c.d)
+	}
+	res.Frontier = markFrontier(frontierOf(pool))
 }

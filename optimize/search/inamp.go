@@ -376,7 +376,7 @@ func solveInAmp(ctx context.Context, parts *Parts, p Problem, opt Options, verif
 	for _, k2 := range gains {
 		q := p
 		q.k2 = k2
-		r, err := solve(ctx, parts, q, Options{Top: keep, Combos: opt.Combos, quick: opt.quick, ceiling: opt.ceiling, most: opt.most}, nil, exhaustive)
+		r, err := solve(ctx, parts, q, Options{Top: subTop(keep, opt), Combos: opt.Combos, quick: opt.quick, ceiling: opt.ceiling, most: opt.most}, nil, exhaustive)
 		if err != nil && !errors.Is(err, ErrInfeasible) {
 			return nil, err
 		}
@@ -410,7 +410,10 @@ func solveInAmp(ctx context.Context, parts *Parts, p Problem, opt Options, verif
 		return res, nil
 	}
 	rejected := rankMerged(res, all, opt.Top, verify, func(d *Design, above []Design) []string { return mergedReasons(&p, d, above) })
-	addNear(res, near, rejected, verify)
+	addNear(res, near, rejected, verify, opt.spec)
+	if opt.Frontier && !opt.quick && len(res.Designs) > 0 {
+		mergedFrontier(res, all, verify)
+	}
 	if p.hazardous() {
 		res.Cautions = append(res.Cautions, hazardCaution)
 	}
@@ -429,6 +432,15 @@ func solveInAmp(ctx context.Context, parts *Parts, p Problem, opt Options, verif
 	return res, nil
 }
 
+// subTop is how many designs a sub-search of a merged search keeps: keep,
+// or with the frontier asked for, enough to draw it from (FrontierPool).
+func subTop(keep int, opt Options) int {
+	if opt.Frontier && !opt.quick {
+		return max(keep, FrontierPool)
+	}
+	return keep
+}
+
 // add sums the work of a sub-search into st.
 func (st *Stats) add(o Stats) {
 	st.Classes += o.Classes
@@ -440,9 +452,10 @@ func (st *Stats) add(o Stats) {
 // addNear appends the sub-searches' near misses cheaper than rank 1, the
 // closest first (least shortfall), up to maxNearMisses besides the rejected
 // designs; with verify, each is confirmed by the exact budget first
-// (nearCheck).
-func addNear(res *Result, near []NearMiss, rejected int, verify verifier) {
-	check := nearCheck{verify: verify}
+// (nearCheck), and its fix confirmed, with a calibration tried on the
+// spec s (settleFix).
+func addNear(res *Result, near []NearMiss, rejected int, verify verifier, s *spec.Spec) {
+	check := nearCheck{verify: verify, spec: s}
 	var kept []NearMiss
 	for _, nm := range near {
 		if len(kept) >= 2*maxNearMisses || (len(res.Designs) > 0 && nm.TotalCost >= res.Designs[0].TotalCost) {
@@ -453,7 +466,11 @@ func addNear(res *Result, near []NearMiss, rejected int, verify verifier) {
 		}
 	}
 	sort.SliceStable(kept, func(i, j int) bool { return kept[i].Shortfall < kept[j].Shortfall })
-	res.NearMisses = append(res.NearMisses, kept[:min(len(kept), maxNearMisses)]...)
+	kept = kept[:min(len(kept), maxNearMisses)]
+	for i := range kept {
+		check.settleFix(&kept[i])
+	}
+	res.NearMisses = append(res.NearMisses, kept...)
 	sort.SliceStable(res.NearMisses, func(i, j int) bool { return res.NearMisses[i].Shortfall < res.NearMisses[j].Shortfall })
 	res.Notes = append(res.Notes, check.notes()...)
 }

@@ -3,6 +3,7 @@ package search
 import (
 	"fmt"
 	"math"
+	"regexp"
 	"slices"
 	"sort"
 	"strings"
@@ -352,10 +353,18 @@ func (s *space) findFix(nm *NearMiss, res *Result, c *nearCheck) error {
 		}
 		fix, fixSD = cheaper(2, fix, fsd)
 	}
+	nm.Fix, nm.fixSD = fix, fixSD
+	c.addCalibration(nm)
+	return nil
+}
+
+// addCalibration tries a calibration on near miss nm (calibration): the
+// fix when nm has none, else an alternative beside its part change; then
+// it words the outcome as nm's last reason.
+func (c *nearCheck) addCalibration(nm *NearMiss) {
 	cal := c.calibration(nm)
 	switch {
-	case fix != nil:
-		nm.Fix, nm.fixSD = fix, fixSD
+	case nm.Fix != nil:
 		if cal != nil {
 			nm.Alternatives = append(nm.Alternatives, *cal)
 		}
@@ -370,7 +379,34 @@ func (s *space) findFix(nm *NearMiss, res *Result, c *nearCheck) error {
 	default:
 		nm.Reasons = append(nm.Reasons, "no change found: no other amplifier, grade or network, alone or in pairs, and no calibration makes it pass")
 	}
-	return nil
+}
+
+// subRank is the "(design N)" a fix names a ranked design of its search by.
+var subRank = regexp.MustCompile(` \(design [0-9]+\)$`)
+
+// settleFix confirms, with the exact budget, the part change a sub-search
+// found for near miss nm on its screening figures, drops it when the
+// budget fails it, and adds a calibration (addCalibration): the merged
+// searches (in-amp, current sense) give their near misses the same fixes
+// as the others.
+func (c *nearCheck) settleFix(nm *NearMiss) {
+	if n := len(nm.Reasons); n > 0 && (strings.HasPrefix(nm.Reasons[n-1], "cheapest change that passes") || strings.HasPrefix(nm.Reasons[n-1], "no change found") || strings.HasPrefix(nm.Reasons[n-1], "no part change found")) {
+		nm.Reasons = nm.Reasons[:n-1]
+	}
+	if nm.Fix != nil && nm.Fix.Kind != kindCalibration && (nm.fixSD == nil || !c.passes(nm.fixSD)) {
+		nm.Fix, nm.fixSD = nil, nil
+	}
+	if nm.Fix != nil && nm.Fix.Kind == kindCalibration {
+		nm.Fix = nil
+	}
+	if nm.Fix != nil {
+		// A sub-search's rank is not the merged ranking's.
+		f := *nm.Fix
+		f.Change = subRank.ReplaceAllString(f.Change, "")
+		nm.Fix = &f
+	}
+	nm.Alternatives = nil
+	c.addCalibration(nm)
 }
 
 // kindCalibration is the kind of a fix on the spec's side.
