@@ -61,10 +61,11 @@ type Metrics struct {
 	// GainErrorInitial is the worst |gain error| at the reference
 	// temperature before calibration.
 	GainErrorInitial float64 `json:"gain_error_initial"`
-	// CMRRdB is the worst common-mode rejection, resistors and amplifier.
-	CMRRdB float64 `json:"cmrr_db"`
+	// CMRRdB is the worst common-mode rejection, resistors and amplifier
+	// (0, absent from JSON: a single-ended stage has no common mode to reject).
+	CMRRdB float64 `json:"cmrr_db,omitempty"`
 	// CMRRResistorsdB is the resistor-limited part (exact solve).
-	CMRRResistorsdB float64 `json:"cmrr_resistors_db"`
+	CMRRResistorsdB float64 `json:"cmrr_resistors_db,omitempty"`
 	// DriftPPMPerK is the worst gain drift, ppm/K, over the worst excursion.
 	DriftPPMPerK float64 `json:"drift_ppm_per_k"`
 	// OutputOffsetV is the worst output offset error at zero input and zero

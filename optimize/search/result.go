@@ -161,7 +161,7 @@ type Metrics struct {
 	// GainError is the worst |gain error| over tolerances and temperature.
 	GainError        float64 `json:"gain_error"`
 	GainErrorInitial float64 `json:"gain_error_initial"`
-	CMRRdB           float64 `json:"cmrr_db"`
+	CMRRdB           float64 `json:"cmrr_db,omitempty"` // absent: single-ended stage
 	DriftPPMPerK     float64 `json:"drift_ppm_per_k"`
 	OutputOffsetV    float64 `json:"output_offset_v"`
 	OffsetDriftVPerK float64 `json:"offset_drift_v_per_k"`
