@@ -35,9 +35,10 @@ func usagef(format string, a ...any) error {
 	return &usageError{fmt.Errorf(format, a...)}
 }
 
-// infeasibleErrors are the sentinels meaning "no design meets the spec";
-// they map to exitInfeasible.
-var infeasibleErrors = []error{search.ErrInfeasible}
+// infeasibleErrors are the sentinels meaning "no design meets the spec"
+// (also: the catalog holds no part of a kind the spec needs); they map to
+// exitInfeasible.
+var infeasibleErrors = []error{search.ErrInfeasible, search.ErrCatalogLacks}
 
 // Main runs plumb with the process's arguments and streams and returns the
 // exit code. It is the only place where errors are printed.

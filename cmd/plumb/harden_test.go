@@ -345,6 +345,7 @@ func TestExitCodesDocumented(t *testing.T) {
 		{"solve testdata/diff-g10.yaml --top 0", exitUsage},
 		{"solve testdata/diff-g10.yaml --no-such-flag", exitUsage},
 		{"solve testdata/impossible.yaml", exitInfeasible},
+		{"solve testdata/no-reference.yaml", exitInfeasible}, // no 3.3 V reference in the catalog
 		{"report testdata/impossible.yaml -o " + filepath.Join(dir, "r.html"), exitInfeasible},
 	}
 	for _, c := range cases {

@@ -18,6 +18,11 @@ var (
 	ErrInfeasible = errors.New("search: no design in the catalog meets the spec")
 	// ErrProblem is returned for a requirement the search cannot work on.
 	ErrProblem = errors.New("search: invalid requirement")
+	// ErrCatalogLacks is returned when the spec asks the catalog for a part
+	// of a kind it does not hold at all (a reference of the spec's voltage
+	// for reference.part auto): like ErrInfeasible, the catalog cannot meet
+	// the spec, but there is no search result to explain it.
+	ErrCatalogLacks = errors.New("search: the catalog lacks a part the spec needs")
 	// ErrNoSpec is returned by ExplainN for a result of SolveProblem, which
 	// has no spec to run the budget against.
 	ErrNoSpec = errors.New("search: the result has no spec; use Solve to explain a design")

@@ -105,7 +105,7 @@ func solveReferences(s *spec.Spec, refs []refOption, opt Options, solve func(*sp
 			why = " that runs from the spec's supply (" + strings.Join(unusable, "; ") + ")"
 		}
 		return nil, fmt.Errorf("%w: reference.part auto: the catalog has no reference of %s%s%s; add one, raise the supply, or give the reference's figures instead of part: auto",
-			ErrProblem, units.Format(s.Reference.V, "V"), map[bool]string{true: " with every figure given (assumptions: strict)"}[s.Assumptions == spec.AssumeStrict], why)
+			ErrCatalogLacks, units.Format(s.Reference.V, "V"), map[bool]string{true: " with every figure given (assumptions: strict)"}[s.Assumptions == spec.AssumeStrict], why)
 	}
 	b, err := cost.BuildOf(s.Build)
 	if err != nil {
@@ -190,7 +190,7 @@ func solveReferences(s *spec.Spec, refs []refOption, opt Options, solve func(*sp
 		}
 	}
 	if base == nil {
-		return nil, fmt.Errorf("%w: reference.part auto: no reference of %s could be priced", ErrProblem, units.Format(s.Reference.V, "V"))
+		return nil, fmt.Errorf("%w: reference.part auto: no reference of %s could be priced", ErrCatalogLacks, units.Format(s.Reference.V, "V"))
 	}
 	if len(unusable) > 0 {
 		base.Notes = append(base.Notes, fmt.Sprintf("%d reference(s) of %s left out by the supply: %s", len(unusable), units.Format(s.Reference.V, "V"), strings.Join(unusable, "; ")))
