@@ -191,13 +191,42 @@ func channelTerms(s *spec.Spec, f *assume.ADCFigures, st *stageFigures) func(vin
 		if cal.Offset {
 			offErr = 0
 		}
+		gs := adcGainShare(a, sig+st.zero)
 		return append(terms,
-			chanTerm{"ADC gain error", gainErr, 0, colNone, true},
+			chanTerm{"ADC gain error", gainErr * gs, 0, colNone, true},
 			chanTerm{"ADC offset error", offErr, 0, colNone, true},
 			chanTerm{"ADC INL", f.INL, 0, colNone, true},
-			chanTerm{"ADC gain drift", f.GainDrift * dT, f.GainDrift * dT, colNone, true},
+			chanTerm{"ADC gain drift", f.GainDrift * dT * gs, f.GainDrift * dT * gs, colNone, true},
 			chanTerm{"ADC offset drift", f.OffsetDrift * dT, f.OffsetDrift * dT, colNone, true})
 	}
+}
+
+// adcGainShare is the part of the ADC's gain error (and gain drift) that
+// acts on an input of v volts. A converter's gain error is specified with
+// its offset error removed, as the deviation of the last code transition
+// from ideal (common practice: the data-sheet definition of ADC gain
+// error): the transfer is pinned at zero, or at the end of the range
+// nearest zero when the range does not span it, and a gain error moves a
+// code in proportion to its distance from there, reaching the full figure
+// at the farthest end of the range:
+//
+//	share = |v − v0| / max(|Vmax − v0|, |Vmin − v0|)
+//
+// (a bipolar ±FS/2 converter: |v|/(FS/2); a unipolar 0..FS one: v/FS).
+func adcGainShare(a *spec.ADC, v float64) float64 {
+	lo, hi := a.Range.Min, a.Range.Max
+	v0 := 0.0
+	switch {
+	case lo > 0:
+		v0 = lo
+	case hi < 0:
+		v0 = hi
+	}
+	span := math.Max(math.Abs(hi-v0), math.Abs(lo-v0))
+	if !(span > 0) {
+		return 1
+	}
+	return math.Abs(v-v0) / span
 }
 
 // combine adds terms by the method: linearly for worst case, in

@@ -240,8 +240,12 @@ func TestChannelExampleDesign(t *testing.T) {
 		name string
 		want float64 // LSB
 	}{
-		{"ADC gain error", 2}, {"ADC offset error", 2}, {"ADC INL", 1},
-		{"ADC gain drift", 4096 * 1e-6 * 45}, {"ADC offset drift", 2e-6 * 45 / 1e-3},
+		// The ADC's gain error acts in proportion to the code's distance
+		// from zero (data-sheet definition, offset removed; common
+		// practice): the worse end is input +10 V, output 4.0 V of the
+		// 0..4.096 V range, so 4.0/4.096 of the 2 LSB and of the drift.
+		{"ADC gain error", 2 * 4.0 / 4.096}, {"ADC offset error", 2}, {"ADC INL", 1},
+		{"ADC gain drift", 4096 * 1e-6 * 45 * 4.0 / 4.096}, {"ADC offset drift", 2e-6 * 45 / 1e-3},
 		{"reference (ratiometric: the signal's share) tolerance", 1950 * (1/(1-tol) - 1)},
 		{"reference (ratiometric: the signal's share) drift", 1950 * (u - 1/(1-tol))},
 		{"stage gain error", stage.Metrics.GainError * 1950 * u},
@@ -400,6 +404,31 @@ func BenchmarkChannelEvaluate(b *testing.B) {
 	for b.Loop() {
 		if _, err := Evaluate(s, d); err != nil {
 			b.Fatal(err)
+		}
+	}
+}
+
+// TestADCGainShare checks the share of an ADC's gain error at a code:
+// proportional to the distance from the point the transfer is pinned at
+// (zero, or the range's end nearest zero), whole at the farthest end
+// (common practice: the data-sheet definition of gain error, measured at
+// the last transition with the offset error removed).
+func TestADCGainShare(t *testing.T) {
+	for _, c := range []struct {
+		lo, hi, v, want float64
+	}{
+		{-5, 5, 2.5, 0.5},            // bipolar: |v|/(FS/2)
+		{-5, 5, -5, 1},               // either end carries the whole figure
+		{0, 4.096, 0.1, 0.1 / 4.096}, // unipolar: v/FS, near nothing at the bottom
+		{0, 4.096, 4.096, 1},
+		{1, 5, 3, 0.5},    // a range above zero is pinned at its bottom
+		{-5, -1, -3, 0.5}, // below zero, at its top
+		{-1, 4, 4, 1},     // spanning zero unevenly: the farther end is whole
+		{-1, 4, -1, 0.25},
+	} {
+		a := &spec.ADC{Range: spec.Range{Min: c.lo, Max: c.hi}}
+		if got := adcGainShare(a, c.v); math.Abs(got-c.want) > 1e-15 {
+			t.Errorf("range %g..%g V at %g V: share %g, want %g", c.lo, c.hi, c.v, got, c.want)
 		}
 	}
 }
