@@ -47,9 +47,14 @@ const KindSeries Kind = "series"
 type Store struct {
 	db       *sqlx.DB
 	path     string
+	label    string // names the catalog in messages instead of its path
 	version  int
 	readOnly bool
 }
+
+// SetLabel names the catalog in messages ("the embedded demo catalog")
+// instead of its path, for a catalog the user did not open by a path.
+func (s *Store) SetLabel(label string) { s.label = label }
 
 // ReadOnly reports whether the catalog was opened read-only: Open does so
 // when this process may not write the file or its directory, and every

@@ -219,7 +219,7 @@ func (s *Store) find(ctx context.Context, part string) (Kind, any, error) {
 	if err != nil {
 		return "", nil, err
 	}
-	return "", nil, fmt.Errorf("%w: %s is not in catalog %s%s", ErrNotFound, part, s.name(), hint)
+	return "", nil, fmt.Errorf("%w: %s is not in %s%s", ErrNotFound, part, s.title(), hint)
 }
 
 // maxHints bounds the close part numbers named in a not-found error.
@@ -252,7 +252,7 @@ func (s *Store) closeParts(ctx context.Context, part string) (string, error) {
 		}
 	}
 	if len(close) == 0 {
-		return ": check the part number, or list the catalog with plumb catalog list", nil
+		return ": check the part number, or look for it with `plumb catalog list --part PATTERN`", nil
 	}
 	slices.SortFunc(close, func(a, b cand) int {
 		if a.d != b.d {

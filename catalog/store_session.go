@@ -71,7 +71,7 @@ func (k *kindState) seen(id int64) bool {
 // must end the session with Commit or Rollback (Rollback after Commit is a
 // no-op, so a deferred Rollback is safe).
 func (s *Store) BeginUpsert(ctx context.Context, opt UpsertOptions) (*UpsertSession, error) {
-	where := "catalog " + s.name()
+	where := s.title()
 	if s.readOnly {
 		return nil, fmt.Errorf("%w: %s: this process may not write the file or its folder; import into a catalog you can write, or ask its owner", ErrReadOnly, s.name())
 	}

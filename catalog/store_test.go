@@ -472,6 +472,40 @@ func TestFind(t *testing.T) {
 	}
 }
 
+// TestNotFoundNamesTheCatalog checks that a part missing from the catalog
+// is reported once, naming the catalog as the user knows it (its path, or
+// its label for one opened without a path), with one hint.
+func TestNotFoundNamesTheCatalog(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "parts.db")
+	file, err := Create(path, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { file.Close() })
+	labelled := memStore(t)
+	labelled.SetLabel("the embedded demo catalog")
+	tests := []struct {
+		name string
+		st   *Store
+		want string
+	}{
+		{"file", file, "catalog: part not found: ZZ-NONE is not in catalog " + path +
+			": check the part number, or look for it with `plumb catalog list --part PATTERN`"},
+		{"labelled", labelled, "catalog: part not found: ZZ-NONE is not in the embedded demo catalog" +
+			": check the part number, or look for it with `plumb catalog list --part PATTERN`"},
+		{"in memory", memStore(t), "catalog: part not found: ZZ-NONE is not in catalog (in memory)" +
+			": check the part number, or look for it with `plumb catalog list --part PATTERN`"},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			_, _, err := tc.st.Find(context.Background(), "ZZ-NONE")
+			if !errors.Is(err, ErrNotFound) || err.Error() != tc.want {
+				t.Errorf("error\n  %v\nwant\n  %s", err, tc.want)
+			}
+		})
+	}
+}
+
 func TestHistoryOfSeriesValue(t *testing.T) {
 	s := memStore(t)
 	mustUpsert(t, s, sampleBatch(), UpsertOptions{Now: testTime})

@@ -121,7 +121,7 @@ func (s *Store) upsert(ctx context.Context, b *Batch, opt UpsertOptions) ([]Upse
 		return nil, nil
 	}
 	if err := b.Validate(); err != nil {
-		return nil, fmt.Errorf("%w: nothing was written to %s; fix the part and import again", err, "catalog "+s.name())
+		return nil, fmt.Errorf("%w: nothing was written to %s; fix the part and import again", err, s.title())
 	}
 	us, err := s.BeginUpsert(ctx, opt)
 	if err != nil {
@@ -139,10 +139,21 @@ func (s *Store) upsert(ctx context.Context, b *Batch, opt UpsertOptions) ([]Upse
 }
 
 func (s *Store) name() string {
+	if s.label != "" {
+		return s.label
+	}
 	if s.path == "" {
 		return "(in memory)"
 	}
 	return s.path
+}
+
+// title names the catalog in a sentence: "catalog parts.db", or its label.
+func (s *Store) title() string {
+	if s.label != "" {
+		return s.label
+	}
+	return "catalog " + s.name()
 }
 
 // provenance fills in the import's source and time where the part has none.

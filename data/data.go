@@ -44,6 +44,7 @@ func Demo() (*catalog.Store, error) {
 	if err != nil {
 		return nil, fmt.Errorf("data: demo catalog: %w", err)
 	}
+	st.SetLabel("the embedded demo catalog")
 	if _, err := st.Upsert(context.Background(), snap, catalog.UpsertOptions{Source: DemoSource, Now: DemoDate}); err != nil {
 		st.Close()
 		return nil, fmt.Errorf("data: demo catalog: %w", err)

@@ -60,7 +60,7 @@ func runCatalogShow(cmd *cobra.Command, opts *catalogShowOptions) error {
 	defer st.Close()
 	kind, v, err := st.Find(ctx, opts.Part)
 	if err != nil {
-		return fmt.Errorf("%w: list the parts with `plumb catalog list --part %s`", err, opts.Part)
+		return err
 	}
 	if opts.Format == "json" {
 		return writeJSON(opts.IO.Out, v)
