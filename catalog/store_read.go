@@ -293,9 +293,14 @@ func EditDistance(a, b string) int {
 func (s *Store) history(ctx context.Context, part string) ([]HistoryEntry, error) {
 	part = strings.TrimSpace(part)
 	names := []any{part}
-	// A series value's figures are those of its series.
+	// A series value's figures are those of its series; a code the series
+	// does not make (a value off its E-series or outside its range) is no
+	// part of it, and has no history of its own.
 	if i := strings.LastIndexByte(part, '-'); i > 0 {
 		if _, ok := ParseValueCode(part[i+1:]); ok {
+			if _, _, err := s.find(ctx, part); err != nil {
+				return nil, err
+			}
 			names = append(names, part[:i])
 		}
 	}

@@ -519,8 +519,18 @@ func TestHistoryOfSeriesValue(t *testing.T) {
 	if !strings.Contains(h[0].Figures, `"tolerance":0.001`) || !strings.Contains(h[0].Figures, `"e_series":"E96"`) {
 		t.Errorf("figures %s lack the series' figures", h[0].Figures)
 	}
-	if _, err := s.History(context.Background(), "NO-SUCH"); !errors.Is(err, ErrNotFound) {
-		t.Errorf("history of an unknown part: %v, want ErrNotFound", err)
+	notFound := []struct{ name, part string }{
+		{"unknown part", "NO-SUCH"},
+		{"value off the series' E-series", "TS-TF01-5K00"},
+		{"value above the series' range", "TS-TF01-1M00"},
+		{"unknown stem with a value code", "TS-XX01-4K99"},
+	}
+	for _, tc := range notFound {
+		t.Run(tc.name, func(t *testing.T) {
+			if h, err := s.History(context.Background(), tc.part); !errors.Is(err, ErrNotFound) {
+				t.Errorf("history of %s: %v, %v, want ErrNotFound", tc.part, h, err)
+			}
+		})
 	}
 }
 
