@@ -58,6 +58,7 @@ func runCatalogStats(cmd *cobra.Command, opts *catalogStatsOptions) error {
 		{"single resistors", strconv.Itoa(s.Resistors)},
 		{"networks", strconv.Itoa(s.Networks)},
 		{"amplifiers", strconv.Itoa(s.Amplifiers)},
+		{"voltage references", strconv.Itoa(s.References)},
 		{"price breaks", strconv.Itoa(s.PriceBreaks)},
 		{"parts out of stock", strconv.Itoa(s.NoStock)},
 		{"makers", strings.Join(s.Makers, ", ")},
@@ -67,15 +68,16 @@ func runCatalogStats(cmd *cobra.Command, opts *catalogStatsOptions) error {
 	if opts.Format == "csv" {
 		return writeFields(opts.IO, "csv", "FIELD", "VALUE", fields)
 	}
+	const counts = 8 // the rows above that are counts; the lists follow
 	fmt.Fprintf(opts.IO.Out, "%s\n\n", opts.IO.Bold("Catalog: "+opts.Name))
 	t := newTable(opts.IO, "HOLDS", "COUNT").alignRight(1)
-	for _, f := range fields[:7] {
+	for _, f := range fields[:counts] {
 		t.row(f.Name, f.Value)
 	}
 	if err := t.render(opts.IO.Out); err != nil {
 		return err
 	}
-	for _, f := range fields[7:] {
+	for _, f := range fields[counts:] {
 		fmt.Fprintf(opts.IO.Out, "\n%s: %s", f.Name, f.Value)
 	}
 	_, err = fmt.Fprintln(opts.IO.Out)
