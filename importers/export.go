@@ -35,6 +35,11 @@ var exportColumns = map[string]Field{
 	"load_sink_a": FieldLoadSink, "output_ohm": FieldOutputR, "long_term_ppm": FieldLongTerm,
 }
 
+// exportProvenance are the export's columns of where and when each part was
+// imported before: an import records its own provenance, so they are not
+// read back.
+var exportProvenance = []string{"source", "imported_at"}
+
 // exportKinds tells the kind of an export by a column only that kind has.
 var exportKinds = []struct {
 	column string

@@ -89,6 +89,9 @@ func whyUnused(hi headerInfo, kind catalog.Kind, cols map[Field]int, header []st
 	if strings.TrimSpace(hi.text) == "" {
 		return "no header text"
 	}
+	if _, own := exportKind(header); own && slices.Contains(exportProvenance, hi.text) {
+		return "the provenance the catalog export wrote: this import records its own (--source, else the file's name, and the time of this import), kept in catalog history"
+	}
 	best := func(cs []candidate) (candidate, bool) {
 		if len(cs) == 0 {
 			return candidate{}, false

@@ -88,3 +88,41 @@ func TestUnusedColumnReasons(t *testing.T) {
 		t.Errorf("unused %q, want 3 columns", got)
 	}
 }
+
+// TestUnusedExportProvenance: the catalog export's source and imported_at
+// columns are named as the provenance the import replaces with its own,
+// not as columns no field reads; a distributor's "Source" column keeps the
+// general reason.
+func TestUnusedExportProvenance(t *testing.T) {
+	for _, tt := range []struct {
+		name, file string
+		want       map[string]string // column -> part of its reason
+	}{
+		{"catalog export", "testdata/exports/own_export_resistor.csv", map[string]string{
+			"source": "provenance the catalog export wrote", "imported_at": "provenance the catalog export wrote"}},
+		{"distributor export", "testdata/exports/res_source_column.csv", map[string]string{
+			"Source": "no field plumb knows"}},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			b, rep, err := Read(context.Background(), []string{tt.file}, Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(b.Resistors) == 0 {
+				t.Fatalf("no resistor read:\n%s", problemText(rep))
+			}
+			got := map[string]string{}
+			for _, u := range rep.Files[0].Unused {
+				got[u.Column] = u.Why
+			}
+			if len(got) != len(tt.want) {
+				t.Errorf("unused columns %q, want %d", got, len(tt.want))
+			}
+			for col, want := range tt.want {
+				if !strings.Contains(got[col], want) {
+					t.Errorf("column %q: %q, want it to say %q", col, got[col], want)
+				}
+			}
+		})
+	}
+}
