@@ -97,3 +97,54 @@ func TestFillUnknownFigures(t *testing.T) {
 		t.Errorf("replace: %+v; VR41-B drift %g, output %g Ω; want 8 ppm/K and the 0.05 Ω kept", rep.Summary, b.DriftPPM, b.OutputOhm)
 	}
 }
+
+// TestRefusedImportSaysNothingWasWritten: an import refused as a whole
+// (known figures differ under FillUnknown, or a row skipped under Strict)
+// marks its report Refused and reports each part's figures as would-be
+// updates, not as written; an import that goes through says "updated".
+func TestRefusedImportSaysNothingWasWritten(t *testing.T) {
+	for _, tt := range []struct {
+		name       string
+		file       string
+		opt        Options
+		wantErr    error
+		refused    bool
+		wantReason string // start of a figures-updated problem's reason, "" for none
+	}{
+		{"known figure differs under FillUnknown", "testdata/exports/ref_known.csv", Options{Figures: catalog.FillUnknown},
+			ErrKnownFigures, true, "figures would be updated (not written: the import was refused): "},
+		{"row skipped under Strict", "testdata/exports/ref_messy_chf.csv", Options{Strict: true},
+			ErrRowsSkipped, true, ""},
+		{"only unknown figures filled", "testdata/exports/ref_fill.csv", Options{Figures: catalog.FillUnknown},
+			nil, false, "figures updated: "},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			ctx := context.Background()
+			st, _ := newCatalog(t)
+			if _, err := Import(ctx, st, []string{"testdata/exports/ref_messy_chf.csv"}, Options{Source: "first", Now: testNow, AllowUnusual: true}); err != nil {
+				t.Fatal(err)
+			}
+			tt.opt.Now = testNow
+			rep, err := Import(ctx, st, []string{tt.file}, tt.opt)
+			if !errors.Is(err, tt.wantErr) || rep == nil {
+				t.Fatalf("err %v, report %v; want %v and a report", err, rep, tt.wantErr)
+			}
+			if rep.Summary.Refused != tt.refused {
+				t.Errorf("Refused %v, want %v (%+v)", rep.Summary.Refused, tt.refused, rep.Summary)
+			}
+			found := false
+			for _, p := range rep.Problems {
+				if p.Err != errFiguresUpdated {
+					continue
+				}
+				found = true
+				if !strings.HasPrefix(p.Reason, tt.wantReason) || tt.wantReason == "" {
+					t.Errorf("reason %q, want it to begin %q", p.Reason, tt.wantReason)
+				}
+			}
+			if found != (tt.wantReason != "") {
+				t.Errorf("figures-updated problem found %v, want %v: %+v", found, tt.wantReason != "", rep.Problems)
+			}
+		})
+	}
+}

@@ -64,6 +64,7 @@ func Import(ctx context.Context, st Store, files []string, opt Options) (*Report
 		sc.finish()
 		if n := sc.rep.Summary.Skipped; n > 0 {
 			sc.rep.Summary.DryRun = opt.DryRun
+			sc.refuse()
 			return sc.rep, fmt.Errorf("%w: %d row(s) skipped, so nothing was written; fix them (see the report) or import without --strict", ErrRowsSkipped, n)
 		}
 	}
@@ -73,6 +74,7 @@ func Import(ctx context.Context, st Store, files []string, opt Options) (*Report
 		if n := sc.rep.Summary.SpecChanged; n > 0 {
 			sc.rep.Summary.DryRun = opt.DryRun
 			sc.finish()
+			sc.refuse()
 			return sc.rep, fmt.Errorf("%w: %d part(s) have known figures that differ from the file's (listed above), so nothing was written; check them against the datasheet, then confirm the change or import without filling",
 				ErrKnownFigures, n)
 		}
@@ -109,7 +111,7 @@ func (sc *scan) tally(res []catalog.UpsertResult, where map[string]origin) {
 			rep.Summary.FiguresUpdated++
 			rep.Results = append(rep.Results, r)
 			rep.Problems = append(rep.Problems, Problem{ParseError: ParseError{File: o.file, Line: o.line, Err: errFiguresUpdated}, Severity: Info, Part: r.Part,
-				Reason: fmt.Sprintf("figures updated: %s", strings.Join(r.Changes, "; "))})
+				Reason: figuresUpdated + strings.Join(r.Changes, "; ")})
 		case catalog.Repeated:
 			// Read earlier in this import, in an earlier chunk.
 			rep.Summary.Parts--
@@ -123,6 +125,21 @@ func (sc *scan) tally(res []catalog.UpsertResult, where map[string]origin) {
 		rep.Summary.Imported++
 	}
 }
+
+// refuse marks the report of an import refused as a whole: nothing was
+// written, so the figures each part would have had updated are reported as
+// such, not as updated.
+func (sc *scan) refuse() {
+	sc.rep.Summary.Refused = true
+	for i, p := range sc.rep.Problems {
+		if p.Err == errFiguresUpdated {
+			sc.rep.Problems[i].Reason = "figures would be updated (not written: the import was refused): " + strings.TrimPrefix(p.Reason, figuresUpdated)
+		}
+	}
+}
+
+// figuresUpdated begins the reason of a part whose figures were written.
+const figuresUpdated = "figures updated: "
 
 var (
 	errSpecChange     = fmt.Errorf("importers: figures differ from the catalog")

@@ -34,6 +34,10 @@ type Summary struct {
 	// catalog's as Options.Figures allowed, each listed in Problems.
 	FiguresUpdated int
 	DryRun         bool
+	// Refused is set when the import was refused as a whole (--strict with
+	// a skipped row, or filling unknown figures where known ones differ):
+	// nothing was written, and the counts are what would have been.
+	Refused bool
 }
 
 // FileReport is what was found in one file.

@@ -163,8 +163,13 @@ func runImport(ctx context.Context, opts *importOptions) error {
 	rep, err := importers.Import(ctx, st, opts.Files, io)
 	if (errors.Is(err, importers.ErrRowsSkipped) || errors.Is(err, importers.ErrKnownFigures)) && rep != nil {
 		// Every problem still goes to the user, then the refusal.
-		if opts.Format == "table" {
+		switch {
+		case opts.Format == "table" && opts.Quiet:
+			writeImportSummary(opts.IO.Out, rep)
+		case opts.Format == "table":
 			_ = writeImportTable(opts.IO.Out, opts.IO, rep)
+		case opts.Format == "json":
+			_ = writeJSON(opts.IO.Out, importView(rep))
 		}
 		return err
 	}
@@ -221,7 +226,10 @@ func importOutcome(rep *importers.Report) error {
 func writeImportSummary(w io.Writer, rep *importers.Report) {
 	s := rep.Summary
 	verb := "imported"
-	if s.DryRun {
+	switch {
+	case s.Refused:
+		verb = "refused, nothing written: would have imported"
+	case s.DryRun:
 		verb = "would import (dry run, nothing written)"
 	}
 	figures := ""
@@ -256,7 +264,9 @@ func saveImportMapping(opts *importOptions, rep *importers.Report) error {
 // importJSON is the JSON form of an import report, snake_case like the
 // catalog's own JSON.
 type importJSON struct {
-	DryRun      bool `json:"dry_run"`
+	DryRun bool `json:"dry_run"`
+	// Refused: the import was refused as a whole and wrote nothing.
+	Refused     bool `json:"refused"`
 	Rows        int  `json:"rows"`
 	Parts       int  `json:"parts"`
 	Series      int  `json:"series"`
@@ -308,7 +318,7 @@ type importProblemJSON struct {
 
 func importView(rep *importers.Report) importJSON {
 	s := rep.Summary
-	v := importJSON{DryRun: s.DryRun, Rows: s.Rows, Parts: s.Parts, Series: s.Series, Skipped: s.Skipped, Imported: s.Imported,
+	v := importJSON{DryRun: s.DryRun, Refused: s.Refused, Rows: s.Rows, Parts: s.Parts, Series: s.Series, Skipped: s.Skipped, Imported: s.Imported,
 		Added: s.Added, Updated: s.Updated, Unchanged: s.Unchanged, SpecChanged: s.SpecChanged, FiguresUpdated: s.FiguresUpdated,
 		Files: []importFileJSON{}, Problems: []importProblemJSON{}, Results: rep.Results}
 	for _, f := range rep.Files {
