@@ -2,6 +2,7 @@ package units
 
 import (
 	"errors"
+	"strings"
 	"testing"
 )
 
@@ -243,6 +244,28 @@ func TestCountSeparators(t *testing.T) {
 			}
 			if err != nil || got != tc.want {
 				t.Errorf("ParseCount(%q) = %v, %v; want %v", tc.in, got, err, tc.want)
+			}
+		})
+	}
+}
+
+// TestCountErrorOneHint: a count that cannot be read says how to write one
+// once, not twice.
+func TestCountErrorOneHint(t *testing.T) {
+	for _, tc := range []struct{ name, in string }{
+		{"one dot", "1.200"},
+		{"dot grouping", "1.23.456"},
+		{"negative", "-5"},
+		{"prefix", "1.5k"},
+		{"letters", "many"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := ParseCount(tc.in)
+			if err == nil {
+				t.Fatalf("ParseCount(%q) read it", tc.in)
+			}
+			if n := strings.Count(err.Error(), "write"); n != 1 {
+				t.Errorf("ParseCount(%q): %q gives %d hints on how to write it, want 1", tc.in, err, n)
 			}
 		})
 	}

@@ -547,7 +547,7 @@ func ParseCount(s string) (int, error) {
 		return fail("expected digits")
 	}
 	if sep == "." && groups == 1 {
-		return fail("a count must be a whole number of pieces, and one dot could be a decimal point; write 12345 or 12 345")
+		return fail("a count must be a whole number of pieces, and one dot could be a decimal point")
 	}
 	if groups > 0 && group != 3 {
 		return fail(groupsOfThree)
