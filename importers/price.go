@@ -40,6 +40,9 @@ func parsePrices(cell string, decimalComma bool, minQty int, defCurr string) ([]
 		}
 		m := priceRE.FindStringSubmatch(piece)
 		if m == nil || strings.TrimSpace(piece[len(m[0]):]) != "" && !strings.HasPrefix(strings.TrimSpace(piece[len(m[0]):]), "/") {
+			if len(pieces) == 1 {
+				return nil, singlePriceError(cell, decimalComma)
+			}
 			return nil, fmt.Errorf("%w: price break %q is not \"quantity: price\"", ErrBadValue, piece)
 		}
 		q := qtyNumber(m[1], "")
@@ -60,6 +63,23 @@ func parsePrices(cell string, decimalComma bool, minQty int, defCurr string) ([]
 		out = append(out, catalog.PriceBreak{MinQty: q, UnitPrice: p, Currency: cur})
 	}
 	return normaliseBreaks(out)
+}
+
+// decimalCommaRE matches an amount written with a decimal comma ("0,12",
+// "€ 1,5"): digits after the comma that are not exactly three, which could
+// be a thousands group.
+var decimalCommaRE = regexp.MustCompile(`^[^\d,]*\d+,(\d{1,2}|\d{4,})[^\d,]*$`)
+
+// singlePriceError is the error for a price cell that reads neither as one
+// price nor as a list of breaks. A decimal comma in a file read with
+// decimal points (a comma-separated file whose cells quote "0,12") is named
+// as such, with the mapping setting that reads it.
+func singlePriceError(cell string, decimalComma bool) error {
+	c := strings.TrimSpace(cell)
+	if !decimalComma && decimalCommaRE.MatchString(c) {
+		return fmt.Errorf("%w: price %q is written with a decimal comma, but this file's numbers were read with decimal points: describe the file in a mapping with decimal_comma: true (plumb help mapping)", ErrBadValue, c)
+	}
+	return fmt.Errorf("%w: cannot read %q as a price: write one price (0.125, $0.125, 0,125 €) or a list of breaks (1:0.10; 100:0.045)", ErrBadValue, c)
 }
 
 // splitPacked cuts a packed price list at ';', '|', newlines, or at ", "

@@ -3,10 +3,39 @@ package importers
 import (
 	"errors"
 	"reflect"
+	"strings"
 	"testing"
 
 	"plumb/catalog"
 )
+
+// TestPriceErrorMessages: a price cell that does not read says what it
+// took the cell for: one price, a list of breaks, or an amount with a
+// decimal comma in a file read with decimal points.
+func TestPriceErrorMessages(t *testing.T) {
+	for _, tc := range []struct {
+		name, cell string
+		comma      bool
+		want       string
+	}{
+		{"words", "call for price", false, `cannot read "call for price" as a price`},
+		{"letters in a number", "abc", false, `cannot read "abc" as a price`},
+		{"decimal comma in a decimal-point file", "0,12", false, "decimal comma"},
+		{"decimal comma with a symbol", "€ 1,5", false, "decimal comma"},
+		{"thousands group is not called a decimal comma", "1,000x", false, "as a price"},
+		{"a bad break in a list", "1:0.10; lots", false, `price break "lots" is not "quantity: price"`},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := parsePrices(tc.cell, tc.comma, 1, "EUR")
+			if !errors.Is(err, ErrBadValue) || !strings.Contains(err.Error(), tc.want) {
+				t.Errorf("parsePrices(%q): %v, want ErrBadValue saying %q", tc.cell, err, tc.want)
+			}
+			if strings.Contains(err.Error(), "quantity: price") != strings.Contains(tc.want, "quantity: price") {
+				t.Errorf("parsePrices(%q): %v names a price break where the cell is one price, or the other way", tc.cell, err)
+			}
+		})
+	}
+}
 
 func TestParsePrices(t *testing.T) {
 	pb := func(q int, p float64, c string) catalog.PriceBreak {
