@@ -277,6 +277,17 @@ func (sc *scan) stream(name string, in io.Reader) error {
 			}
 		}
 	}
+	if kind == catalog.KindResistor || kind == catalog.KindSeries || kind == catalog.KindNetwork {
+		// Every resistor needs its tolerance: without a column, a fixed
+		// value or a description to find it in, every row would be skipped
+		// for it, one problem per row.
+		_, col := cols[FieldTolerance]
+		_, desc := cols[FieldDescription]
+		if !col && !desc && isBlank(m.Fixed[FieldTolerance]) {
+			return &ParseError{File: name, Line: 1, Err: fmt.Errorf("%w: no column reads as the tolerance, which every %s needs (header: %s); name its column in a mapping under columns: tolerance, or give one for every row under fixed: tolerance (plumb help mapping)",
+				ErrMissingColumn, kind, headerList(rd.Header()))}
+		}
+	}
 	shape := rd.Shape()
 	if m.DecimalComma != nil {
 		shape.DecimalComma = *m.DecimalComma

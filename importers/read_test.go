@@ -378,7 +378,7 @@ func TestBadFiles(t *testing.T) {
 		t.Fatal(err)
 	}
 	long := filepath.Join(dir, "unclosed.csv")
-	if err := os.WriteFile(long, []byte("Part Number,Resistance\nA,\""+strings.Repeat("x\n", MaxRecordBytes)+"\n"), 0o644); err != nil {
+	if err := os.WriteFile(long, []byte("Part Number,Resistance,Tolerance\nA,\""+strings.Repeat("x\n", MaxRecordBytes)+"\n"), 0o644); err != nil {
 		t.Fatal(err)
 	}
 	u16 := filepath.Join(dir, "utf16.csv")
@@ -531,5 +531,43 @@ func TestKindOption(t *testing.T) {
 	b, _, err := Read(context.Background(), []string{"testdata/networks.csv"}, Options{Kind: catalog.KindNetwork})
 	if err != nil || len(b.Networks) != 3 {
 		t.Errorf("forced network kind: %v, %d networks", err, len(b.Networks))
+	}
+}
+
+// TestToleranceColumnRequired: a resistor file with no column, fixed value
+// or description to read the tolerance from is refused once, naming the
+// column to map, instead of skipping every row for it.
+func TestToleranceColumnRequired(t *testing.T) {
+	fixed, err := LoadMapping("", "testdata/mappings/fixed_tolerance.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		name, file string
+		mapping    *Mapping
+		err        error
+		parts      int
+	}{
+		{"no tolerance anywhere", "testdata/exports/res_no_tolerance.csv", nil, ErrMissingColumn, 0},
+		{"tolerance in the description", "testdata/exports/res_tolerance_in_description.csv", nil, nil, 1},
+		{"fixed tolerance in the mapping", "testdata/exports/res_no_tolerance.csv", fixed, nil, 2},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			b, rep, err := Read(context.Background(), []string{tc.file}, Options{Mapping: tc.mapping})
+			if !errors.Is(err, tc.err) {
+				t.Fatalf("Read(%s) = %v, want %v", tc.file, err, tc.err)
+			}
+			if err != nil {
+				for _, want := range []string{tc.file, "tolerance", "columns: tolerance", "fixed: tolerance"} {
+					if !strings.Contains(err.Error(), want) {
+						t.Errorf("error %q does not say %q", err, want)
+					}
+				}
+				return
+			}
+			if len(b.Resistors) != tc.parts {
+				t.Errorf("%d resistors, want %d:\n%s", len(b.Resistors), tc.parts, problemText(rep))
+			}
+		})
 	}
 }
