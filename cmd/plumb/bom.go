@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"io"
+	"math"
 	"strconv"
 	"strings"
 
@@ -135,12 +136,21 @@ func priceDesign(ctx context.Context, st *catalog.Store, d *spec.Design, build c
 	return cost.DesignBOM(d, find, build)
 }
 
+// bomCSVRows writes a line's figures unwrapped; a tolerance or tempco the
+// part has none of (an op-amp's, zero in cost.BOMLine) is left blank, as
+// the JSON leaves it out, not written as 0.
 func bomCSVRows(b *cost.BOM) [][]string {
 	g := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+	opt := func(v float64) string {
+		if v == 0 || math.IsNaN(v) {
+			return ""
+		}
+		return g(v)
+	}
 	rows := make([][]string, len(b.Lines))
 	for i, l := range b.Lines {
 		rows[i] = []string{strings.Join(l.Positions, " "), strconv.Itoa(l.PerStage), strconv.Itoa(l.Needed), strconv.Itoa(l.Bought),
-			l.Maker, l.Part, l.Value, g(l.Tolerance), g(l.TCR), l.Package, g(l.UnitPrice), g(l.Extended), l.Currency, l.Source}
+			l.Maker, l.Part, l.Value, opt(l.Tolerance), opt(l.TCR), l.Package, g(l.UnitPrice), g(l.Extended), l.Currency, l.Source}
 	}
 	return rows
 }
