@@ -108,8 +108,8 @@ func writeDesignParts(w io.Writer, ios *IOStreams, d *search.Design) error {
 func writeSolveTable(w io.Writer, ios *IOStreams, title string, r *search.Result, explain int) error {
 	printCautions(w, ios, r.Cautions)
 	writeHanging(w, ios, "", "  ", ios.Bold(title))
-	fmt.Fprintf(w, "method %s; %d design classes, %d evaluated, %d skipped by bound\n",
-		r.Method, r.Search.Classes, r.Search.Evaluated, r.Search.BoundPruned)
+	fmt.Fprintf(w, "method %s; %s, %d evaluated, %d skipped by bound\n",
+		r.Method, countOf(r.Search.Classes, "design class", "design classes"), r.Search.Evaluated, r.Search.BoundPruned)
 	if explain > 0 {
 		for i := range r.Designs {
 			if r.Designs[i].Rank == explain {
@@ -351,4 +351,13 @@ func limitNamed(ls []search.Limit, name string) (search.Limit, bool) {
 		}
 	}
 	return search.Limit{}, false
+}
+
+// countOf writes n with the noun in the number it takes: "1 design class",
+// "0 design classes", "148 design classes".
+func countOf(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return strconv.Itoa(n) + " " + many
 }

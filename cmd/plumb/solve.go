@@ -112,8 +112,8 @@ func runSolve(cmd *cobra.Command, opts *solveOptions) error {
 		return err
 	}
 	if opts.Verbose {
-		fmt.Fprintf(opts.IO.ErrOut, "searched %d design classes (%d evaluated, %d skipped by bound) in %s\n",
-			res.Search.Classes, res.Search.Evaluated, res.Search.BoundPruned, opts.Now().Sub(start).Round(time.Millisecond))
+		fmt.Fprintf(opts.IO.ErrOut, "searched %s (%d evaluated, %d skipped by bound) in %s\n",
+			countOf(res.Search.Classes, "design class", "design classes"), res.Search.Evaluated, res.Search.BoundPruned, opts.Now().Sub(start).Round(time.Millisecond))
 	}
 	infeasible := errors.Is(err, search.ErrInfeasible)
 	if err != nil && !infeasible {
