@@ -141,16 +141,10 @@ func priceDesign(ctx context.Context, st *catalog.Store, d *spec.Design, build c
 // the JSON leaves it out, not written as 0.
 func bomCSVRows(b *cost.BOM) [][]string {
 	g := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
-	opt := func(v float64) string {
-		if v == 0 || math.IsNaN(v) {
-			return ""
-		}
-		return g(v)
-	}
 	rows := make([][]string, len(b.Lines))
 	for i, l := range b.Lines {
 		rows[i] = []string{strings.Join(l.Positions, " "), strconv.Itoa(l.PerStage), strconv.Itoa(l.Needed), strconv.Itoa(l.Bought),
-			l.Maker, l.Part, l.Value, opt(l.Tolerance), opt(l.TCR), l.Package, g(l.UnitPrice), g(l.Extended), l.Currency, l.Source}
+			l.Maker, l.Part, l.Value, csvOptional(l.Tolerance), csvOptional(l.TCR), l.Package, g(l.UnitPrice), g(l.Extended), l.Currency, l.Source}
 	}
 	return rows
 }
@@ -192,4 +186,14 @@ func writeSearchBOM(ctx context.Context, st *catalog.Store, sp *spec.Spec, res *
 		return fmt.Errorf("--bom: design %d: %w", rank, err)
 	}
 	return writeFileAtomic(path, force, func(w io.Writer) error { return writeCSV(w, bomCSVHeader, bomCSVRows(b)) })
+}
+
+// csvOptional writes a figure for a CSV cell, blank where the part has no
+// such figure (zero in the omitempty JSON fields, such as an op-amp's
+// tolerance, tempco or resistance) or it is unknown (NaN).
+func csvOptional(v float64) string {
+	if v == 0 || math.IsNaN(v) {
+		return ""
+	}
+	return strconv.FormatFloat(v, 'g', -1, 64)
 }

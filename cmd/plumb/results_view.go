@@ -315,7 +315,7 @@ func solveCSVRows(r *search.Result) [][]string {
 	for _, d := range r.Designs {
 		for _, p := range d.Parts {
 			rows = append(rows, []string{strconv.Itoa(d.Rank), d.Family, g(d.UnitCost), g(d.TotalCost), d.Currency, d.Binding,
-				p.Position, p.Kind, p.Part, strconv.Itoa(p.Quantity), g(p.ValueOhm), g(p.Tolerance), g(p.TCRppm), g(p.UnitPrice)})
+				p.Position, p.Kind, p.Part, strconv.Itoa(p.Quantity), csvOptional(p.ValueOhm), csvOptional(p.Tolerance), csvOptional(p.TCRppm), g(p.UnitPrice)})
 		}
 	}
 	return rows
