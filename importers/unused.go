@@ -115,9 +115,25 @@ func whyUnused(hi headerInfo, kind catalog.Kind, cols map[Field]int, header []st
 		}
 	}
 	if c, ok := best(candidates([]headerInfo{hi}, "")); ok {
+		if fieldOfKind(c.field, kind) {
+			// The word is one another kind uses for the field; for this
+			// kind it could name another figure ("Noise" of a reference:
+			// a density or a 0.1-10 Hz peak to peak).
+			return fmt.Sprintf("could read as %s, which %ss have too, but for a %s the header does not say so clearly enough: if it holds that figure, name it in a mapping under columns: %s", c.field, kind, kind, c.field)
+		}
 		return fmt.Sprintf("reads as %s, which the catalog keeps for %s only, not for %ss", c.field, kindsOf(c.field), kind)
 	}
 	return "no field plumb knows; if it holds one, name it in a mapping under columns (plumb help mapping)"
+}
+
+// fieldOfKind reports whether parts of kind k have field f.
+func fieldOfKind(f Field, k catalog.Kind) bool {
+	for _, fi := range fieldTable {
+		if fi.field == f && (fi.kinds == nil || slices.Contains(fi.kinds, k)) {
+			return true
+		}
+	}
+	return false
 }
 
 // kindsOf names the kinds of part that have field f.

@@ -126,3 +126,36 @@ func TestUnusedExportProvenance(t *testing.T) {
 		})
 	}
 }
+
+// TestUnusedFieldOfTheSameKind: a column whose header another kind uses
+// for a field this kind has too (a reference's bare "Noise": density or
+// peak to peak?) is not called a figure "for amplifiers and references
+// only, not for references"; it says the header is unclear and how to map
+// it. A figure of another kind only keeps that reason.
+func TestUnusedFieldOfTheSameKind(t *testing.T) {
+	for _, tt := range []struct {
+		name, file, column string
+		want, not          string
+	}{
+		{"reference's bare Noise", "testdata/exports/ref_bare_noise.csv", "Noise",
+			"name it in a mapping under columns: noise_v", "only, not for references"},
+		{"amplifier's Operating Temp", "testdata/exports/amp_supply_span.csv", "Operating Temp",
+			"for references only, not for amplifiers", "clearly enough"},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			_, rep, err := Read(context.Background(), []string{tt.file}, Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			why := ""
+			for _, u := range rep.Files[0].Unused {
+				if u.Column == tt.column {
+					why = u.Why
+				}
+			}
+			if !strings.Contains(why, tt.want) || strings.Contains(why, tt.not) {
+				t.Errorf("column %q: %q, want it to say %q and not %q", tt.column, why, tt.want, tt.not)
+			}
+		})
+	}
+}
