@@ -130,6 +130,10 @@ func runSolve(cmd *cobra.Command, opts *solveOptions) error {
 			return werr
 		}
 	default:
+		if opts.Explain > len(res.Designs) && !infeasible {
+			// Not an empty page under the heading: say what there is.
+			return fmt.Errorf("--explain %d: the search found %d design(s); choose one of them (solve without --explain lists them)", opts.Explain, len(res.Designs))
+		}
 		if werr := writeSolveTable(opts.IO.Out, opts.IO, solveTitle(sp), res, opts.Explain); werr != nil {
 			return werr
 		}
