@@ -99,7 +99,9 @@ func runCheck(ctx context.Context, opts *checkOptions) error {
 		defer st.Close()
 		lookup := func(part string) (catalog.Kind, any, error) { return st.Find(ctx, part) }
 		if err := d.Resolve(lookup); err != nil {
-			return fmt.Errorf("%w: check the part numbers with `plumb catalog list --part PATTERN`", err)
+			// Each problem already says what to do: a part not found names
+			// the close part numbers, or how to look for it.
+			return err
 		}
 	}
 	pr := newProgress(opts.IO, opts.Quiet, opts.Now)
