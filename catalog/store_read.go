@@ -228,6 +228,9 @@ const maxHints = 3
 // closeParts returns ": close part numbers: A, B" for a part that is not
 // in the catalog, or a hint to list the catalog.
 func (s *Store) closeParts(ctx context.Context, part string) (string, error) {
+	if hint, err := s.seriesValueHint(ctx, part); hint != "" || err != nil {
+		return hint, err
+	}
 	var parts []string
 	err := s.db.SelectContext(ctx, &parts, `SELECT part FROM resistor_series UNION ALL SELECT part FROM resistors
 		UNION ALL SELECT part FROM networks UNION ALL SELECT part FROM amplifiers UNION ALL SELECT part FROM voltage_references`)
@@ -265,6 +268,53 @@ func (s *Store) closeParts(ctx context.Context, part string) (string, error) {
 		names = append(names, c.part)
 	}
 	return ": close part numbers: " + strings.Join(names, ", "), nil
+}
+
+// seriesValueHint returns, for STEM-CODE where STEM is a resistor series
+// and CODE a value it does not make (off its E-series, or outside its
+// range), the series' values nearest CODE below and above: a slip of one
+// E-series step is the usual mistake, and the nearest part numbers are
+// what the user wants. "" when part is no such code.
+func (s *Store) seriesValueHint(ctx context.Context, part string) (string, error) {
+	i := strings.LastIndexByte(part, '-')
+	if i <= 0 {
+		return "", nil
+	}
+	value, ok := ParseValueCode(part[i+1:])
+	if !ok {
+		return "", nil
+	}
+	var rs []ResistorSeries
+	err := s.readTx(ctx, func(q querier) error {
+		var err error
+		rs, err = loadRows[ResistorSeries](ctx, q, seriesTable, "part = ?", part[:i])
+		return err
+	})
+	if err != nil || len(rs) == 0 {
+		return "", err
+	}
+	values, err := ExpandSeries(rs[0])
+	if err != nil || len(values) == 0 {
+		return "", err
+	}
+	var below, above *Resistor
+	for j := range values {
+		v := &values[j]
+		if v.ValueOhm <= value && (below == nil || v.ValueOhm > below.ValueOhm) {
+			below = v
+		}
+		if v.ValueOhm >= value && (above == nil || v.ValueOhm < above.ValueOhm) {
+			above = v
+		}
+	}
+	near := make([]string, 0, 2)
+	for _, v := range []*Resistor{below, above} {
+		if v != nil {
+			near = append(near, v.Part)
+		}
+	}
+	return fmt.Sprintf(": series %s (%s, %s to %s) has no value %s; the nearest it makes: %s", rs[0].Part, rs[0].ESeries,
+		ValueCode(rs[0].MinOhm), ValueCode(rs[0].MaxOhm), part[i+1:], strings.Join(near, ", ")), nil
 }
 
 // EditDistance is the Levenshtein distance between a and b (byte-wise):

@@ -458,8 +458,10 @@ func TestFind(t *testing.T) {
 		name, part, hint string
 	}{
 		{"typo", "TS-SH1O", "TS-SH10"},
-		{"value not in the series", "TS-TF01-5K00", "TS-TF01"},
-		{"value out of range", "TS-TF01-1M00", "TS-TF01"},
+		// E96 (IEC 60063) has 4.99 and 5.11 either side of 5.00.
+		{"value not in the series", "TS-TF01-5K00", "series TS-TF01 (E96, 100R to 100K) has no value 5K00; the nearest it makes: TS-TF01-4K99, TS-TF01-5K11"},
+		{"value out of range", "TS-TF01-1M00", "has no value 1M00; the nearest it makes: TS-TF01-100K"},
+		{"value below the range", "TS-TF01-10R0", "has no value 10R0; the nearest it makes: TS-TF01-100R"},
 		{"nothing close", "ZZZZZZZZZZZZ", "plumb catalog list"},
 	}
 	for _, tc := range notFound {
