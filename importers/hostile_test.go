@@ -172,7 +172,7 @@ func TestPlausibility(t *testing.T) {
 		{"tolerance above 50 %", "P-1,Orrin,1k,60%,100ppm,0.10", "Tolerance", "60 %", true},
 		{"resistance 1e308", "P-1,Orrin,1e308,1%,100ppm,0.10", "Resistance", "1e+308 ohm", true},
 		{"resistance below 1 mohm", "P-1,Orrin,0.0001,1%,100ppm,0.10", "Resistance", "0.0001 ohm", true},
-		{"zero price", "P-1,Orrin,1k,1%,100ppm,0", "Price (USD)", "no part is free", true},
+		{"zero price", "P-1,Orrin,1k,1%,100ppm,0", "Price (USD)", "a unit price of 0 USD from 1 piece: no part is free", true},
 		{"negative price", "P-1,Orrin,1k,1%,100ppm,-0.10", "Price (USD)", "", false},
 		// 0.001 could be 0.001 % or the fraction 0.001 (0.1 %).
 		{"bare tolerance", "P-1,Orrin,1k,0.001,100ppm,0.10", "Tolerance", "ambiguous", false},

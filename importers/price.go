@@ -101,7 +101,7 @@ func normaliseBreaks(b []catalog.PriceBreak) ([]catalog.PriceBreak, error) {
 			return nil, fmt.Errorf("%w: negative price %g at %d pieces", ErrBadValue, b[i].UnitPrice, b[i].MinQty)
 		}
 		if i > 0 && b[i].MinQty == b[i-1].MinQty {
-			return nil, fmt.Errorf("%w: two prices from %d piece(s) on; keep one", ErrBadValue, b[i].MinQty)
+			return nil, fmt.Errorf("%w: two prices from %s on; keep one", ErrBadValue, pieces(b[i].MinQty))
 		}
 		if i > 0 && b[i].Currency != b[0].Currency {
 			return nil, fmt.Errorf("%w: prices in both %s and %s", ErrBadValue, b[0].Currency, b[i].Currency)

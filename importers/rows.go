@@ -569,7 +569,7 @@ func (r *rowReader) offer() (catalog.Offer, error) {
 		}
 		for _, pb := range b {
 			if pb.UnitPrice <= 0 {
-				if err := r.unusual(FieldPrice, fmt.Sprintf("%g", pb.UnitPrice), fmt.Sprintf("a unit price of %g %s from %d pieces: no part is free", pb.UnitPrice, pb.Currency, pb.MinQty)); err != nil {
+				if err := r.unusual(FieldPrice, fmt.Sprintf("%g", pb.UnitPrice), fmt.Sprintf("a unit price of %g %s from %s: no part is free", pb.UnitPrice, pb.Currency, pieces(pb.MinQty))); err != nil {
 					return o, err
 				}
 			}
@@ -1017,4 +1017,12 @@ func (r *rowReader) matched(a *catalog.Amplifier) error {
 		return err
 	}
 	return nil
+}
+
+// pieces writes a quantity of parts: "1 piece", "100 pieces".
+func pieces(n int) string {
+	if n == 1 {
+		return "1 piece"
+	}
+	return strconv.Itoa(n) + " pieces"
 }
