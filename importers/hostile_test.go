@@ -176,6 +176,8 @@ func TestPlausibility(t *testing.T) {
 		{"negative price", "P-1,Orrin,1k,1%,100ppm,-0.10", "Price (USD)", "", false},
 		// 0.001 could be 0.001 % or the fraction 0.001 (0.1 %).
 		{"bare tolerance", "P-1,Orrin,1k,0.001,100ppm,0.10", "Tolerance", "ambiguous", false},
+		// Zero is zero in % and as a fraction: not ambiguous, and no grade.
+		{"bare zero tolerance", "P-1,Orrin,1k,0,100ppm,0.10", "Tolerance", "a tolerance of 0 is no resistor's grade", false},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {

@@ -654,6 +654,11 @@ func (r *rowReader) grade() (g catalog.ResistorGrade, ohm float64, err error) {
 			}
 			r.fixedTol, r.haveFixedTol = v, true
 		default:
+			if mustFloat(s, r.decimalComma) == 0 {
+				// Not ambiguous: zero is no tolerance in any unit.
+				tolOK = keep(r.skip(FieldTolerance, s, fmt.Errorf("%w: a tolerance of 0 is no resistor's grade; give the part's tolerance (1%%, 0.1%%)", ErrBadValue)))
+				break
+			}
 			tolOK = keep(r.skip(FieldTolerance, s, fmt.Errorf("%w: a bare tolerance %s is ambiguous (%s %% or a fraction, %g %%?); write it with %%, name the unit in the header (\"Tolerance (%%)\"), or say in the mapping: units: {tolerance: \"%%\"} or {tolerance: fraction}", ErrBadValue, s, s, 100*mustFloat(s, r.decimalComma))))
 		}
 	}
