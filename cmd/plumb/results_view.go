@@ -7,11 +7,13 @@ import (
 	"math"
 	"regexp"
 	"slices"
+	"sort"
 	"strconv"
 	"strings"
 
 	"plumb/catalog"
 	"plumb/catalog/units"
+	"plumb/optimize/assume"
 	"plumb/optimize/budget"
 	"plumb/optimize/search"
 )
@@ -157,13 +159,43 @@ func writeSolveTable(w io.Writer, ios *IOStreams, title string, r *search.Result
 			return err
 		}
 	}
-	if len(r.Notes) > 0 {
+	notes := append(slices.Clone(r.Notes), nearMissNotes(r)...)
+	if len(notes) > 0 {
 		fmt.Fprintln(w)
 	}
-	for _, n := range r.Notes {
+	for _, n := range notes {
 		writeHanging(w, ios, "note: ", "  ", n)
 	}
 	return nil
+}
+
+// nearMissNotes says which figures the near misses' verdicts rest on that
+// the catalog does not give (a resistor's load life taken at its
+// technology's loosest grade can be all that fails a design), one line per
+// part, for the parts the ranked designs' notes do not already cover. JSON
+// carries the same in each near miss's assumptions.
+func nearMissNotes(r *search.Result) []string {
+	noted := map[string]bool{}
+	for i := range r.Designs {
+		for _, a := range r.Designs[i].Assumptions {
+			noted[a.Part+"|"+a.Figure] = true
+		}
+	}
+	var as []assume.Assumption
+	for i := range r.NearMisses {
+		for _, a := range r.NearMisses[i].Assumptions {
+			if k := a.Part + "|" + a.Figure; !noted[k] {
+				noted[k] = true
+				as = append(as, a)
+			}
+		}
+	}
+	sort.SliceStable(as, func(i, j int) bool { return as[i].Part < as[j].Part })
+	out := assume.Notes(as)
+	for i := range out {
+		out[i] = "near miss " + out[i]
+	}
+	return out
 }
 
 // writeDesign prints one ranked design: its cost, its parts, its limits in

@@ -1,8 +1,10 @@
 package main
 
 import (
+	"strings"
 	"testing"
 
+	"plumb/optimize/assume"
 	"plumb/optimize/search"
 )
 
@@ -53,5 +55,54 @@ func TestSolveCSVRowsLeaveNoFigureBlankAsZero(t *testing.T) {
 		if got != want[pos] {
 			t.Errorf("%s: value_ohm, tolerance, tcr_ppm = %q, want %q", pos, got, want[pos])
 		}
+	}
+}
+
+// TestNearMissNotes: the figures a near miss's verdict rests on that the
+// catalog does not give are noted once per part in the text (JSON has them
+// per near miss), except those the ranked designs' notes already cover.
+func TestNearMissNotes(t *testing.T) {
+	loadLife := func(part string) assume.Assumption {
+		return assume.Assumption{Part: part, Figure: "load_life", Value: 0.005, Text: "load life not given: taken as 0.5 %"}
+	}
+	ranked := search.Design{Rank: 1, Family: "difference-discrete", Assumptions: []assume.Assumption{loadLife("QX-TF-10K0")}}
+	near := func(parts ...string) search.NearMiss {
+		var as []assume.Assumption
+		for _, p := range parts {
+			as = append(as, loadLife(p))
+		}
+		return search.NearMiss{Design: search.Design{Family: "difference-discrete", Assumptions: as}}
+	}
+	for _, tc := range []struct {
+		name    string
+		r       search.Result
+		want    []string
+		wantNot []string
+	}{
+		{"a near miss's own assumed figure", search.Result{Designs: []search.Design{ranked}, NearMisses: []search.NearMiss{near("QX-TF-10K0", "QX-TK-90K9")}},
+			[]string{"note: near miss QX-TK-90K9: assumed, not in the catalog: load life not given: taken as 0.5 %"},
+			[]string{"near miss QX-TF-10K0"}},
+		{"two near misses share a part: noted once", search.Result{NearMisses: []search.NearMiss{near("QX-TK-90K9"), near("QX-TK-90K9", "QX-TK-18K2")}},
+			[]string{"near miss QX-TK-18K2: assumed", "near miss QX-TK-90K9: assumed"}, nil},
+		{"no assumption, no note", search.Result{Designs: []search.Design{{Rank: 1}}, NearMisses: []search.NearMiss{near()}},
+			nil, []string{"near miss"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			ios, _, out, _ := TestIO()
+			if err := writeSolveTable(ios.Out, ios, "Designs for fixture", &tc.r, 0); err != nil {
+				t.Fatal(err)
+			}
+			text := strings.Join(strings.Fields(out.String()), " ")
+			for _, w := range tc.want {
+				if strings.Count(text, w) != 1 {
+					t.Errorf("output has %q %d times, want once:\n%s", w, strings.Count(text, w), out)
+				}
+			}
+			for _, w := range tc.wantNot {
+				if strings.Contains(text, w) {
+					t.Errorf("output has %q:\n%s", w, out)
+				}
+			}
+		})
 	}
 }
