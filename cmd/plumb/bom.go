@@ -122,6 +122,12 @@ var bomCSVHeader = []string{"positions", "quantity_per_stage", "quantity_needed"
 // Prices in other currencies than the build's are converted at rates, as
 // the search converts them.
 func priceDesign(ctx context.Context, st *catalog.Store, d *spec.Design, build cost.Build, rates cost.Rates) (*cost.BOM, error) {
+	return priceStages(ctx, st, []*spec.Design{d}, build, rates)
+}
+
+// priceStages prices the stages of a chain together as priceDesign prices
+// one (cost.StagesBOM: a part number the stages share is one line).
+func priceStages(ctx context.Context, st *catalog.Store, ds []*spec.Design, build cost.Build, rates cost.Rates) (*cost.BOM, error) {
 	find := func(part string) (catalog.Kind, any, error) {
 		kind, v, err := st.Find(ctx, part)
 		if err != nil || build.Currency == "" {
@@ -133,7 +139,7 @@ func priceDesign(ctx context.Context, st *catalog.Store, d *spec.Design, build c
 		}
 		return kind, v, nil
 	}
-	return cost.DesignBOM(d, find, build)
+	return cost.StagesBOM(ds, find, build)
 }
 
 // bomCSVRows writes a line's figures unwrapped; a tolerance or tempco the

@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"slices"
+	"strconv"
 	"strings"
 
 	"plumb/catalog"
@@ -64,21 +65,22 @@ func runCheckChain(ctx context.Context, opts *checkOptions, sp *spec.Spec, d *sp
 	out := &chainCheck{Design: opts.Design, Spec: specName(sp), Method: sp.Analysis.Method}
 	stages := make([]search.CheckedStage, len(d.Stages))
 	pr := newProgress(opts.IO, opts.Quiet, opts.Now)
+	b, err := priceStages(ctx, st, d.Stages, build, opts.Rates)
+	if err != nil {
+		return fmt.Errorf("design %s: %w", opts.Design, err)
+	}
+	if len(b.Unpriced) > 0 {
+		out.Notes = append(out.Notes, fmt.Sprintf("%s given by inline figures, without a part number, are left out of the cost", strings.Join(b.Unpriced, ", ")))
+	}
+	parts := stageParts(b, len(d.Stages))
 	for i, sd := range d.Stages {
 		r, err := budget.EvaluateContext(ctx, sp.StageProblem(i), sd, pr.trials)
 		if err != nil {
 			pr.finish()
 			return fmt.Errorf("budget of %s stage %d against %s: %w", opts.Design, i+1, specName(sp), err)
 		}
-		b, err := priceDesign(ctx, st, sd, build, opts.Rates)
-		if err != nil {
-			pr.finish()
-			return fmt.Errorf("design %s stage %d: %w", opts.Design, i+1, err)
-		}
-		if len(b.Unpriced) > 0 {
-			out.Notes = append(out.Notes, fmt.Sprintf("stage %d: %s given by inline figures, without a part number, are left out of the cost", i+1, strings.Join(b.Unpriced, ", ")))
-		}
-		stages[i] = search.CheckedStage{Family: r.Family, TotalCost: b.Total, UnitCost: b.PerStage, Currency: b.Currency, Parts: bomParts(b), Budget: r}
+		total := b.StageTotals[i]
+		stages[i] = search.CheckedStage{Family: r.Family, TotalCost: total, UnitCost: total / float64(build.Quantity), Currency: b.Currency, Parts: parts[i], Budget: r}
 		out.Stages = append(out.Stages, r)
 		for _, c := range r.Cautions {
 			if !slices.Contains(out.Cautions, c) {
@@ -93,7 +95,7 @@ func runCheckChain(ctx context.Context, opts *checkOptions, sp *spec.Spec, d *sp
 	}
 	cb := cd.Budget()
 	out.Chain, out.Pass = cd, cb.Pass
-	out.Notes = append(out.Notes, "chain cost: the sum of the stages' build costs (an upper bound where stages share a part number, which a real build buys at the joint quantity)")
+	out.Notes = append(out.Notes, search.ChainCostNote)
 	out.Notes = append(out.Notes, cb.Notes...)
 	cautionsBesideData(opts.IO, opts.Format, out.Cautions)
 	switch opts.Format {
@@ -150,13 +152,18 @@ func writeChainCheck(opts *checkOptions, sp *spec.Spec, c *chainCheck) {
 	writeChainNotes(w, c.Notes)
 }
 
-// bomParts lists a stage's BOM lines as the search lists a design's parts,
-// one per position.
-func bomParts(b *cost.BOM) []search.Part {
-	var out []search.Part
+// stageParts lists a chain's BOM lines (positions written STAGE:POSITION)
+// as the search lists each stage's parts, one per position.
+func stageParts(b *cost.BOM, stages int) [][]search.Part {
+	out := make([][]search.Part, stages)
 	for _, l := range b.Lines {
 		for _, pos := range l.Positions {
-			out = append(out, search.Part{Position: pos, Kind: string(l.Kind), Part: l.Part, Quantity: max(1, l.PerStage/len(l.Positions)),
+			stage, name, ok := strings.Cut(pos, ":")
+			k, err := strconv.Atoi(stage)
+			if !ok || err != nil || k < 1 || k > stages {
+				continue
+			}
+			out[k-1] = append(out[k-1], search.Part{Position: name, Kind: string(l.Kind), Part: l.Part, Quantity: max(1, l.PerStage/len(l.Positions)),
 				Bought: l.Bought, UnitPrice: l.UnitPrice, Tolerance: l.Tolerance, TCRppm: l.TCR})
 		}
 	}

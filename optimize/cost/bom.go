@@ -82,6 +82,11 @@ type BOM struct {
 	// Unpriced lists the positions given as inline figures, without a part
 	// number; the totals leave them out.
 	Unpriced []string `json:"unpriced,omitempty"`
+	// StageTotals is each stage's share of Total for a chain (StagesBOM):
+	// a stage that shares no part number with another costs what it costs
+	// priced alone, the others split the shared lines (line item
+	// included) in proportion to their pieces. Empty for one stage.
+	StageTotals []float64 `json:"stage_totals,omitempty"`
 }
 
 // ampPosition is the position of the design's amplifier, and the stem of
@@ -105,9 +110,103 @@ const refPosition = "REF"
 // package with the next. Pieces are then bought by Price: one line per part
 // number, attrition, minimum order and buy-up to a cheaper break.
 func DesignBOM(d *spec.Design, find spec.Lookup, b Build) (*BOM, error) {
+	return StagesBOM([]*spec.Design{d}, find, b)
+}
+
+// StagesBOM prices the stages ds of one chain together for build b: one
+// purchasing list in which a part number used by several stages is one
+// line, bought at the stages' joint quantity (its price break, minimum
+// order and stock counted over the sum, one line item), each stage's
+// pieces counted as DesignBOM counts them. With more than one stage a
+// position is written STAGE:POSITION ("2:R1"), and StageTotals splits the
+// total between the stages. For one stage it is DesignBOM.
+func StagesBOM(ds []*spec.Design, find spec.Lookup, b Build) (*BOM, error) {
 	if err := b.Validate(); err != nil {
 		return nil, err
 	}
+	bm := &BOM{Stages: b.Quantity}
+	var lines []BOMLine
+	var cuses []Use
+	perStage := make([][]Use, len(ds))
+	for i, d := range ds {
+		stage := ""
+		if len(ds) > 1 {
+			stage = strconv.Itoa(i + 1)
+		}
+		ls, us, unpriced, err := designLines(d, find, stage)
+		if err != nil {
+			if stage != "" {
+				return nil, fmt.Errorf("stage %s: %w", stage, err)
+			}
+			return nil, err
+		}
+		lines, cuses, perStage[i] = append(lines, ls...), append(cuses, us...), us
+		bm.Unpriced = append(bm.Unpriced, unpriced...)
+	}
+	bd, err := Price(b, cuses)
+	if err != nil {
+		return nil, fmt.Errorf("pricing: %w", err)
+	}
+	byPart := make(map[string]*Line, len(bd.Lines))
+	for i := range bd.Lines {
+		byPart[bd.Lines[i].Part] = &bd.Lines[i]
+	}
+	// One line per part number: a later stage's line of a part number
+	// joins the first.
+	merged := lines[:0]
+	at := map[string]int{}
+	for i, ln := range lines {
+		if k, ok := at[ln.Part]; ok {
+			merged[k].Positions = append(merged[k].Positions, ln.Positions...)
+			merged[k].PerStage += ln.PerStage
+			continue
+		}
+		at[ln.Part] = len(merged)
+		cl := byPart[ln.Part]
+		ln.Needed, ln.Bought, ln.UnitPrice, ln.Extended = cl.Needed, cl.Bought, cl.UnitPrice, cl.Extended
+		ln.Currency, ln.Stock, ln.Short = cl.Currency, cl.Stock, cl.Short
+		ln.BreakQty = breakQty(cuses[i].Offer, cl.Bought)
+		merged = append(merged, ln)
+	}
+	sort.SliceStable(merged, func(i, j int) bool { return merged[i].Positions[0] < merged[j].Positions[0] })
+	bm.Lines, bm.Parts, bm.Assembly, bm.Total, bm.PerStage, bm.Currency = merged, bd.Parts, bd.Assembly, bd.Total, bd.PerUnit, bd.Currency
+	if len(ds) > 1 {
+		stages := map[string]int{}
+		for _, u := range cuses {
+			stages[u.Part]++
+		}
+		for i := range ds {
+			alone := true
+			for _, u := range perStage[i] {
+				alone = alone && stages[u.Part] == 1
+			}
+			total := bd.Stages[strconv.Itoa(i+1)] * float64(b.Quantity)
+			if alone {
+				one, err := Price(b, perStage[i])
+				if err != nil {
+					return nil, fmt.Errorf("pricing stage %d: %w", i+1, err)
+				}
+				total = one.Total
+			}
+			bm.StageTotals = append(bm.StageTotals, total)
+		}
+	}
+	return bm, nil
+}
+
+// StageUses lists the part numbers of design d with their placements per
+// built unit, as StagesBOM prices them (stage names the stage in the
+// uses; "" for a single stage).
+func StageUses(d *spec.Design, find spec.Lookup, stage string) ([]Use, error) {
+	_, us, _, err := designLines(d, find, stage)
+	return us, err
+}
+
+// designLines lists the part numbers of design d, each with its positions
+// (written STAGE:POSITION when stage is not empty), pieces per built unit
+// and catalog figures, the matching uses of Price, and the positions given
+// as inline figures.
+func designLines(d *spec.Design, find spec.Lookup, stage string) ([]BOMLine, []Use, []string, error) {
 	type use struct {
 		positions []string
 		discrete  int         // placements as a single resistor
@@ -115,8 +214,11 @@ func DesignBOM(d *spec.Design, find spec.Lookup, b Build) (*BOM, error) {
 		amp       bool
 	}
 	uses := map[string]*use{}
-	var order []string
-	bm := &BOM{Stages: b.Quantity}
+	var order, unpriced []string
+	prefix := ""
+	if stage != "" {
+		prefix = stage + ":"
+	}
 	add := func(part, pos string) *use {
 		u := uses[part]
 		if u == nil {
@@ -124,7 +226,7 @@ func DesignBOM(d *spec.Design, find spec.Lookup, b Build) (*BOM, error) {
 			uses[part] = u
 			order = append(order, part)
 		}
-		u.positions = append(u.positions, pos)
+		u.positions = append(u.positions, prefix+pos)
 		return u
 	}
 	for _, p := range d.Positions {
@@ -139,24 +241,24 @@ func DesignBOM(d *spec.Design, find spec.Lookup, b Build) (*BOM, error) {
 			case e.Part != "":
 				add(e.Part, pos).discrete++
 			default:
-				bm.Unpriced = append(bm.Unpriced, pos)
+				unpriced = append(unpriced, prefix+pos)
 			}
 		}
 	}
 	opamps, err := amplifiers(d)
 	if err != nil {
-		return nil, err
+		return nil, nil, nil, err
 	}
 	switch {
 	case d.Amplifier.Part != "":
 		if u := uses[d.Amplifier.Part]; u != nil {
-			return nil, fmt.Errorf("%w: part %s is named as the amplifier and at %s; give each its own part", ErrDesign, d.Amplifier.Part, strings.Join(u.positions, ", "))
+			return nil, nil, nil, fmt.Errorf("%w: part %s is named as the amplifier and at %s; give each its own part", ErrDesign, d.Amplifier.Part, strings.Join(u.positions, ", "))
 		}
 		// A part named for a stage without op-amps is bought once.
 		opamps = max(opamps, 1)
 		add(d.Amplifier.Part, ampPosition+"1").amp = true
 	case opamps > 0:
-		bm.Unpriced = append(bm.Unpriced, ampPosition+"1")
+		unpriced = append(unpriced, prefix+ampPosition+"1")
 	}
 	if d.Reference != nil {
 		add(d.Reference.Part, refPosition).discrete++
@@ -168,17 +270,17 @@ func DesignBOM(d *spec.Design, find spec.Lookup, b Build) (*BOM, error) {
 		u := uses[part]
 		kind, v, err := find(part)
 		if err != nil {
-			return nil, fmt.Errorf("part %s at %s: %w", part, strings.Join(u.positions, ", "), err)
+			return nil, nil, nil, fmt.Errorf("part %s at %s: %w", part, strings.Join(u.positions, ", "), err)
 		}
 		ln, offer, err := describe(kind, v)
 		if err != nil {
-			return nil, fmt.Errorf("part %s at %s: %w", part, strings.Join(u.positions, ", "), err)
+			return nil, nil, nil, fmt.Errorf("part %s at %s: %w", part, strings.Join(u.positions, ", "), err)
 		}
 		switch _, isAmp := ln.Item.(*catalog.Amplifier); {
 		case isAmp && !u.amp:
-			return nil, fmt.Errorf("%w: part %s at %s is an amplifier; give a resistor or a network element there", ErrDesign, part, strings.Join(u.positions, ", "))
+			return nil, nil, nil, fmt.Errorf("%w: part %s at %s is an amplifier; give a resistor or a network element there", ErrDesign, part, strings.Join(u.positions, ", "))
 		case !isAmp && u.amp:
-			return nil, fmt.Errorf("%w: amplifier part %s is a %s, not an amplifier", ErrDesign, part, kind)
+			return nil, nil, nil, fmt.Errorf("%w: amplifier part %s is a %s, not an amplifier", ErrDesign, part, kind)
 		}
 		ln.Positions, ln.PerStage = u.positions, u.discrete
 		for _, n := range u.elements {
@@ -188,29 +290,13 @@ func DesignBOM(d *spec.Design, find spec.Lookup, b Build) (*BOM, error) {
 			ln.PerStage = packages(opamps, ln.Item.(*catalog.Amplifier).Channels)
 			ln.Positions = nil
 			for i := 1; i <= ln.PerStage; i++ {
-				ln.Positions = append(ln.Positions, ampPosition+strconv.Itoa(i))
+				ln.Positions = append(ln.Positions, prefix+ampPosition+strconv.Itoa(i))
 			}
 		}
 		lines = append(lines, ln)
-		cuses = append(cuses, Use{Part: part, Offer: offer, Placements: ln.PerStage})
+		cuses = append(cuses, Use{Part: part, Offer: offer, Stage: stage, Placements: ln.PerStage})
 	}
-	bd, err := Price(b, cuses)
-	if err != nil {
-		return nil, fmt.Errorf("pricing: %w", err)
-	}
-	byPart := make(map[string]*Line, len(bd.Lines))
-	for i := range bd.Lines {
-		byPart[bd.Lines[i].Part] = &bd.Lines[i]
-	}
-	for i := range lines {
-		ln, cl := &lines[i], byPart[lines[i].Part]
-		ln.Needed, ln.Bought, ln.UnitPrice, ln.Extended = cl.Needed, cl.Bought, cl.UnitPrice, cl.Extended
-		ln.Currency, ln.Stock, ln.Short = cl.Currency, cl.Stock, cl.Short
-		ln.BreakQty = breakQty(cuses[i].Offer, cl.Bought)
-	}
-	sort.SliceStable(lines, func(i, j int) bool { return lines[i].Positions[0] < lines[j].Positions[0] })
-	bm.Lines, bm.Parts, bm.Assembly, bm.Total, bm.PerStage, bm.Currency = lines, bd.Parts, bd.Assembly, bd.Total, bd.PerUnit, bd.Currency
-	return bm, nil
+	return lines, cuses, unpriced, nil
 }
 
 // amplifiers returns the number of op-amps in the circuit model of d's

@@ -251,3 +251,44 @@ func Price(b Build, uses []Use) (Breakdown, error) {
 	bd.PerUnit = bd.Total / float64(b.Quantity)
 	return bd, nil
 }
+
+// SharedFloor is a lower bound on what uses (one stage's part numbers)
+// add to the total of a build that prices them together with other uses
+// (another stage's) through Price, when shared reports the part numbers
+// the other uses may hold too. A line of a part number not shared costs
+// what Price charges for it alone, its line item included; a shared one
+// at least its pieces times the part's lowest unit price at any break,
+// without minimum order, buy-up or line item, which the joint line pays
+// once for both; every placement costs in full. Price's total of both
+// lists together is then at least the sum of their floors: the joint line
+// buys at least the pieces both need, at a unit price no lower than the
+// lowest break, plus one line item (package doc). A floor above a
+// stage's own price would make that false, so the floor of a stage with
+// nothing shared is its Price total.
+func (b Build) SharedFloor(uses []Use, shared func(part string) bool) (float64, error) {
+	var alone []Use
+	floor := 0.0
+	for _, u := range uses {
+		if !shared(u.Part) {
+			alone = append(alone, u)
+			continue
+		}
+		low := math.Inf(1)
+		for _, pb := range u.Offer.PriceBreaks {
+			low = min(low, pb.UnitPrice)
+		}
+		if math.IsInf(low, 1) {
+			return 0, fmt.Errorf("part %s: %w", u.Part, ErrNoPrice)
+		}
+		pieces := float64(u.Placements*b.Quantity) * (1 + b.Attrition)
+		floor += pieces*low + float64(u.Placements*b.Quantity)*b.PerPlacement
+	}
+	if len(alone) > 0 {
+		bd, err := Price(b, alone)
+		if err != nil {
+			return 0, err
+		}
+		floor += bd.Total
+	}
+	return floor, nil
+}

@@ -200,8 +200,8 @@ func (c *Converter) Notes() []string {
 	return out
 }
 
-// Part returns a copy of a catalog part (a lookup's *Resistor, *Network or
-// *Amplifier) with its prices in c.To; ok is false when a price is in a
+// Part returns a copy of a catalog part (a lookup's *Resistor, *Network,
+// *Amplifier, *Reference) with its prices in c.To; ok is false when a price is in a
 // currency with no rate. Other values are returned as they are.
 func (c *Converter) Part(v any) (any, bool) {
 	conv := func(part string, o *catalog.Offer) bool {
@@ -217,6 +217,9 @@ func (c *Converter) Part(v any) (any, bool) {
 		q := *p
 		return &q, conv(q.Part, &q.Offer)
 	case *catalog.Amplifier:
+		q := *p
+		return &q, conv(q.Part, &q.Offer)
+	case *catalog.Reference:
 		q := *p
 		return &q, conv(q.Part, &q.Offer)
 	}

@@ -11,6 +11,7 @@ import (
 
 	"plumb/catalog"
 	"plumb/optimize/budget"
+	"plumb/optimize/cost"
 	"plumb/optimize/spec"
 )
 
@@ -38,6 +39,12 @@ type ChainStats struct {
 	// chain with the other stage's best figures fails; see prune).
 	Evaluated   int `json:"evaluated"`
 	BoundPruned int `json:"bound_pruned"`
+	// Shared counts the judged pairs whose stages share a part number,
+	// priced together (cost.StagesBOM), and ShortStock those of them left
+	// out because the joint quantity is short of stock under build.stock
+	// exclude.
+	Shared     int `json:"shared_pairs"`
+	ShortStock int `json:"short_stock_pairs,omitempty"`
 }
 
 // ChainDesign is one ranked chain: its stages with their parts and own
@@ -54,8 +61,13 @@ type ChainDesign struct {
 	Limits  []Limit         `json:"limits"`
 	Binding string          `json:"binding"`
 	Channel *budget.Channel `json:"channel,omitempty"`
+	// ShortStock lists the part numbers with too little stock for the
+	// chain's build (build.stock flag), counted over both stages.
+	ShortStock []string `json:"short_stock,omitempty"`
 
 	budget *budget.ChainBudget
+	// designs are the stages' designs, first to last.
+	designs []*spec.Design
 }
 
 // ChainStage is one stage of a ranked chain.
@@ -75,12 +87,20 @@ type ChainStage struct {
 // Budget returns the chain's budget (nil for a chain not evaluated).
 func (d *ChainDesign) Budget() *budget.ChainBudget { return d.budget }
 
+// Designs returns the chain's stage designs, first to last (nil for a
+// chain given by hand).
+func (d *ChainDesign) Designs() []*spec.Design { return d.designs }
+
 // SolveChain finds the lowest-cost chains in snap that meet the chain's
 // limits (Solve for each stage; see solveChain).
 func SolveChain(ctx context.Context, snap *catalog.Snapshot, s *spec.Spec, opt Options) (*ChainResult, error) {
+	find, err := spec.SnapshotLookup(snap)
+	if err != nil {
+		return nil, fmt.Errorf("search: %w", err)
+	}
 	return solveChain(ctx, s, opt, func(ctx context.Context, sub *spec.Spec, o Options) (*Result, error) {
 		return Solve(ctx, snap, sub, o)
-	})
+	}, find)
 }
 
 // SolveChainCatalog is SolveChain reading the catalog file (SolveCatalog
@@ -88,7 +108,43 @@ func SolveChain(ctx context.Context, snap *catalog.Snapshot, s *spec.Spec, opt O
 func SolveChainCatalog(ctx context.Context, st *catalog.Store, s *spec.Spec, opt Options) (*ChainResult, error) {
 	return solveChain(ctx, s, opt, func(ctx context.Context, sub *spec.Spec, o Options) (*Result, error) {
 		return SolveCatalog(ctx, st, sub, o)
-	})
+	}, func(part string) (catalog.Kind, any, error) { return st.Find(ctx, part) })
+}
+
+// chainPricer prices a chain's stages together (cost.StagesBOM), finding
+// parts with find in the build's currency as the stages' searches price
+// them (converterFor), each part looked up once.
+type chainPricer struct {
+	build cost.Build
+	find  spec.Lookup
+}
+
+func newChainPricer(s *spec.Spec, opt Options, find spec.Lookup) (*chainPricer, error) {
+	b, err := cost.BuildOf(s.Build)
+	if err != nil {
+		return nil, fmt.Errorf("%w: %w", ErrProblem, err)
+	}
+	conv := converterFor(s, opt)
+	type found struct {
+		kind catalog.Kind
+		v    any
+		err  error
+	}
+	memo := map[string]found{}
+	return &chainPricer{build: b, find: func(part string) (catalog.Kind, any, error) {
+		if f, ok := memo[part]; ok {
+			return f.kind, f.v, f.err
+		}
+		kind, v, err := find(part)
+		if err == nil && conv != nil {
+			var ok bool
+			if v, ok = conv.Part(v); !ok {
+				err = fmt.Errorf("%w: %s has a price in a currency with no rate to %s", cost.ErrMixedCurrency, part, conv.To)
+			}
+		}
+		memo[part] = found{kind, v, err}
+		return kind, v, err
+	}}, nil
 }
 
 // stageSolver searches one stage's spec (Solve or SolveCatalog).
@@ -101,6 +157,13 @@ type candidate struct {
 	d  *Design
 	sd *spec.Design
 	br *budget.Result
+	// key names the design (designKey); uses are its part numbers as the
+	// chain's BOM prices them (cost.StageUses), lo the least it can add to
+	// a chain's cost (cost.Build.SharedFloor against the other stage's
+	// part numbers; see chainWalk.floors).
+	key  string
+	uses []cost.Use
+	lo   float64
 	// floor bounds the exact budget's figures from the screening's
 	// (floorOf); nil for a design not listed by a chain's search.
 	floor *budget.Result
@@ -141,11 +204,17 @@ const chainGrowth = 1.2
 // maxChainBudgets, maxChainPairs) stops it first, the notes say up to
 // which chain cost the ranking is exact.
 //
-// The cost of a chain is the sum of its stages' build costs: where two
-// stages share a part number, the real build buys it at the joint
-// quantity (a price break, one line item less), so the sum is an upper
-// bound on the chain's cost.
-func solveChain(ctx context.Context, s *spec.Spec, opt Options, solveStage stageSolver) (*ChainResult, error) {
+// The cost of a chain is its stages priced together (cost.StagesBOM): a
+// part number both stages use is one line, bought at the joint quantity
+// (its price break, minimum order and stock over the sum, one line item).
+// Sharing can only lower a chain's cost below the sum of its stages'
+// (buy-up makes a line's price nondecreasing in the pieces needed), so the
+// pairs are walked in order of the sum of their stages' floors
+// (cost.Build.SharedFloor: what a stage adds at least, its lines of part
+// numbers the other stage's list holds at their lowest unit price and no
+// line item), a lower bound on the chain's cost; where no part number is
+// shared the floors are the stages' costs and the order is theirs.
+func solveChain(ctx context.Context, s *spec.Spec, opt Options, solveStage stageSolver, find spec.Lookup) (*ChainResult, error) {
 	if err := opt.check(); err != nil {
 		return nil, err
 	}
@@ -157,11 +226,15 @@ func solveChain(ctx context.Context, s *spec.Spec, opt Options, solveStage stage
 		top = defaultTop
 	}
 	res := &ChainResult{Method: s.Analysis.Method}
-	stages, err := chainStages(ctx, s, opt, solveStage, res)
+	pr, err := newChainPricer(s, opt, find)
+	if err != nil {
+		return nil, err
+	}
+	stages, err := chainStages(ctx, s, opt, solveStage, pr, res)
 	if err != nil {
 		return res, err
 	}
-	w := chainWalk{s: s, stages: stages, top: top, st: &res.Search}
+	w := chainWalk{s: s, stages: stages, top: top, st: &res.Search, pricer: pr, judged: map[[2]string]bool{}}
 	if err := w.run(ctx); err != nil {
 		return nil, err
 	}
@@ -174,7 +247,7 @@ func solveChain(ctx context.Context, s *spec.Spec, opt Options, solveStage stage
 		ranked[i].Rank = i + 1
 	}
 	res.Designs = ranked
-	res.Notes = append(res.Notes, "chain cost: the sum of the stages' build costs (an upper bound where stages share a part number, which a real build buys at the joint quantity)")
+	res.Notes = append(res.Notes, ChainCostNote)
 	cur := ""
 	if l := stages[0].list; len(l) > 0 {
 		cur = l[0].d.Currency + " "
@@ -230,6 +303,8 @@ type stageDesigns struct {
 	nBudgets *int
 	// slack is the screening's allowance (screenSlack) of the method.
 	slack float64
+	// pricer lists each design's part numbers for the chain's BOM.
+	pricer *chainPricer
 }
 
 // upTo lists the stage's passing designs up to cost c (a search with
@@ -275,7 +350,12 @@ func (st *stageDesigns) designs(ctx context.Context, c float64, most int) ([]can
 	list := make([]candidate, len(r.Designs))
 	for j := range r.Designs {
 		d := &r.Designs[j]
-		list[j] = candidate{d: d, sd: r.designs[j], br: st.budgets[designKey(d)], floor: floorOf(&d.Metrics, st.slack)}
+		key := designKey(d)
+		uses, err := cost.StageUses(r.designs[j], st.pricer.find, "")
+		if err != nil {
+			return nil, false, fmt.Errorf("%s design %s: %w", st.sub.Name, partsText(d), err)
+		}
+		list[j] = candidate{d: d, sd: r.designs[j], br: st.budgets[key], floor: floorOf(&d.Metrics, st.slack), key: key, uses: uses, lo: d.TotalCost}
 	}
 	slices.SortStableFunc(list, func(a, b candidate) int { return cmpCost(a.d.TotalCost, b.d.TotalCost) })
 	return list, r.cut, nil
@@ -294,7 +374,7 @@ func (st *stageDesigns) budget(ctx context.Context, k int) (*budget.Result, erro
 	}
 	adopt(c.d, br)
 	c.br = br
-	st.budgets[designKey(c.d)] = br
+	st.budgets[c.key] = br
 	*st.nBudgets++
 	return br, nil
 }
@@ -375,7 +455,7 @@ func floorOf(m *Metrics, slack float64) *budget.Result {
 // when the stage alone is infeasible (then, unless the widened screening
 // finds a design, the error wraps ErrInfeasible), then under the widened
 // screening (screened), whose cheapest design starts the stage's list.
-func chainStages(ctx context.Context, s *spec.Spec, opt Options, solveStage stageSolver, res *ChainResult) ([]*stageDesigns, error) {
+func chainStages(ctx context.Context, s *spec.Spec, opt Options, solveStage stageSolver, pr *chainPricer, res *ChainResult) ([]*stageDesigns, error) {
 	out := make([]*stageDesigns, len(s.Stages))
 	n := 0
 	for i := range s.Stages {
@@ -405,7 +485,7 @@ func chainStages(ctx context.Context, s *spec.Spec, opt Options, solveStage stag
 			}
 		}
 		o.Progress = nil
-		st := &stageDesigns{sub: sub, screen: wide, solve: solveStage, opt: o, budgets: map[string]*budget.Result{}, nBudgets: &n, slack: slackOf(sub)}
+		st := &stageDesigns{sub: sub, screen: wide, solve: solveStage, opt: o, budgets: map[string]*budget.Result{}, nBudgets: &n, slack: slackOf(sub), pricer: pr}
 		if err := st.probe(ctx); err != nil {
 			return nil, err
 		}
@@ -423,24 +503,36 @@ type chainWalk struct {
 	stages []*stageDesigns
 	top    int
 	st     *ChainStats
+	pricer *chainPricer
 
 	ranked  []ChainDesign
 	closest *ChainDesign
+	// judged marks the pairs (by their designs' keys) already judged.
+	judged map[[2]string]bool
 	// exactTo is the chain cost up to which every pair was judged;
 	// stopped names the bound on the work that ended the search early.
 	exactTo float64
 	stopped string
 }
 
-// run walks the rounds of rising cost ceilings.
+// run walks the rounds of rising cost ceilings. A chain of cost at most t
+// has its stage designs within t less the other stage's least floor
+// (leastFloor): its cost is at least the sum of the two floors, and a
+// stage's floor is at most its own cost.
 func (w *chainWalk) run(ctx context.Context) error {
 	a, b := w.stages[0], w.stages[1]
 	if len(a.list) == 0 || len(b.list) == 0 {
 		return nil
 	}
-	minA, minB := a.list[0].d.TotalCost, b.list[0].d.TotalCost
+	minA, err := w.leastFloor(0)
+	if err != nil {
+		return err
+	}
+	minB, err := w.leastFloor(1)
+	if err != nil {
+		return err
+	}
 	t := a.ceiling + b.ceiling
-	prev := math.Inf(-1)
 	for {
 		if err := a.upTo(ctx, t-minB); err != nil {
 			return err
@@ -452,10 +544,13 @@ func (w *chainWalk) run(ctx context.Context) error {
 			w.stopped = fmt.Sprintf("%d designs of one stage", maxChainStageDesigns)
 			return nil
 		}
+		if err := w.floors(); err != nil {
+			return err
+		}
 		if err := w.prune(ctx); err != nil || w.stopped != "" {
 			return err
 		}
-		done, err := w.pairs(ctx, prev, t)
+		done, err := w.pairs(ctx, t)
 		if err != nil || done || w.stopped != "" {
 			return err
 		}
@@ -464,22 +559,82 @@ func (w *chainWalk) run(ctx context.Context) error {
 			w.exactTo = math.Inf(1)
 			return nil
 		}
-		prev, t = t, t*chainGrowth
+		t *= chainGrowth
 	}
 }
 
-// pairs judges the pairs of the stages' lists whose summed cost is in
-// (prev, t], cheapest first, and reports whether the ranking is final (Top
-// chains pass and every cheaper pair has been judged).
-func (w *chainWalk) pairs(ctx context.Context, prev, t float64) (bool, error) {
+// partNumbers is the set of part numbers the designs cs use.
+func partNumbers(cs []candidate) map[string]bool {
+	out := map[string]bool{}
+	for _, c := range cs {
+		for _, u := range c.uses {
+			out[u.Part] = true
+		}
+	}
+	return out
+}
+
+// floors sets each listed design's floor (candidate.lo) against the part
+// numbers of the other stage's list: the pairs walked are of the two
+// lists, so no other part number can be shared.
+func (w *chainWalk) floors() error {
+	for k, st := range w.stages {
+		other := partNumbers(w.stages[1-k].list)
+		for i := range st.list {
+			c := &st.list[i]
+			lo, err := w.pricer.build.SharedFloor(c.uses, func(p string) bool { return other[p] })
+			if err != nil {
+				return fmt.Errorf("%s design %s: %w", st.sub.Name, partsText(c.d), err)
+			}
+			c.lo = min(lo, c.d.TotalCost)
+		}
+	}
+	return nil
+}
+
+// leastFloor is a lower bound on the floor of every design of stage k
+// against any design of the other stage: the least floor over the
+// stage's designs when probe listed them all (against the other stage's
+// part numbers when it listed those all too, else against every part
+// number), else 0.
+func (w *chainWalk) leastFloor(k int) (float64, error) {
+	st, other := w.stages[k], w.stages[1-k]
+	if st.all == nil {
+		return 0, nil
+	}
+	shared := func(string) bool { return true }
+	if other.all != nil {
+		parts := partNumbers(other.all)
+		shared = func(p string) bool { return parts[p] }
+	}
+	least := math.Inf(1)
+	for i := range st.all {
+		lo, err := w.pricer.build.SharedFloor(st.all[i].uses, shared)
+		if err != nil {
+			return 0, fmt.Errorf("%s design %s: %w", st.sub.Name, partsText(st.all[i].d), err)
+		}
+		least = min(least, lo, st.all[i].d.TotalCost)
+	}
+	return least, nil
+}
+
+// pairs judges the pairs of the stages' lists whose floors sum to at most
+// t, by that sum (a lower bound on the chain's cost), skipping those
+// judged before, and reports whether the ranking is final (Top chains
+// pass and no unjudged pair can cost less than the last of them).
+func (w *chainWalk) pairs(ctx context.Context, t float64) (bool, error) {
 	a, b := w.stages[0], w.stages[1]
-	// Only live designs pair (prune); the lists are sorted by cost, and
-	// so are their live indexes.
+	// Only live designs pair (prune), in order of their floors.
 	ia, ib := liveIndexes(a), liveIndexes(b)
 	if len(ia) == 0 || len(ib) == 0 {
 		return false, nil
 	}
-	cost := func(i, j int32) float64 { return a.list[ia[i]].d.TotalCost + b.list[ib[j]].d.TotalCost }
+	byFloor := func(st *stageDesigns) func(i, j int) int {
+		return func(i, j int) int { return cmpCost(st.list[i].lo, st.list[j].lo) }
+	}
+	slices.SortStableFunc(ia, byFloor(a))
+	slices.SortStableFunc(ib, byFloor(b))
+	cost := func(i, j int32) float64 { return a.list[ia[i]].lo + b.list[ib[j]].lo }
 	h := pairHeap{{cost(0, 0), 0, 0, false}}
 	walked := 0
 	for h.Len() > 0 {
@@ -497,7 +652,9 @@ func (w *chainWalk) pairs(ctx context.Context, prev, t float64) (bool, error) {
 		if pr.j == 0 && int(pr.i)+1 < len(ia) {
 			heap.Push(&h, pair{cost(pr.i+1, 0), pr.i + 1, 0, false})
 		}
-		if pr.lb <= prev {
+		i, j := ia[pr.i], ib[pr.j]
+		key := [2]string{a.list[i].key, b.list[j].key}
+		if w.judged[key] {
 			continue
 		}
 		walked++
@@ -506,12 +663,13 @@ func (w *chainWalk) pairs(ctx context.Context, prev, t float64) (bool, error) {
 				return false, err
 			}
 		}
-		if walked > maxChainPairs {
+		if w.st.Evaluated >= maxChainPairs {
 			w.exactTo = pr.lb
 			w.stopped = fmt.Sprintf("%d pairs", maxChainPairs)
 			return false, nil
 		}
-		if err := w.judge(ctx, ia[pr.i], ib[pr.j]); err != nil {
+		w.judged[key] = true
+		if err := w.judge(ctx, i, j); err != nil {
 			return false, err
 		}
 	}
@@ -627,9 +785,21 @@ func (w *chainWalk) mayPass(k int, br, other *budget.Result) (bool, error) {
 func (w *chainWalk) judge(ctx context.Context, i, j int) error {
 	a, b := w.stages[0], w.stages[1]
 	w.st.Evaluated++
-	cd, err := chainDesign(w.s, []candidate{a.list[i], b.list[j]})
+	cs := []candidate{a.list[i], b.list[j]}
+	cd, err := chainDesign(w.s, cs)
 	if err != nil {
 		return err
+	}
+	if shared(cs) {
+		w.st.Shared++
+		err := w.pricer.together(cd, cs)
+		if errors.Is(err, cost.ErrShortStock) {
+			w.st.ShortStock++
+			return nil
+		}
+		if err != nil {
+			return err
+		}
 	}
 	if !cd.budget.Pass {
 		if w.closest == nil || bindingMargin(cd) > bindingMargin(w.closest) {
@@ -637,12 +807,105 @@ func (w *chainWalk) judge(ctx context.Context, i, j int) error {
 		}
 		return nil
 	}
-	at := sort.Search(len(w.ranked), func(k int) bool { return w.ranked[k].TotalCost > cd.TotalCost })
+	at := sort.Search(len(w.ranked), func(k int) bool { return chainBefore(cd, &w.ranked[k]) })
 	w.ranked = slices.Insert(w.ranked, at, *cd)
 	if len(w.ranked) > w.top {
 		w.ranked = w.ranked[:w.top]
 	}
 	return nil
+}
+
+// shared reports whether two of the stage designs cs use one part number.
+func shared(cs []candidate) bool {
+	seen := map[string]int{}
+	for k, c := range cs {
+		for _, u := range c.uses {
+			if at, ok := seen[u.Part]; ok && at != k {
+				return true
+			}
+			seen[u.Part] = k
+		}
+	}
+	return false
+}
+
+// together prices chain cd of the stage designs cs as one build
+// (cost.StagesBOM): the chain's and each stage's costs (a shared line
+// split by pieces), each part's pieces bought and unit price, and the
+// part numbers short of stock. Under build.stock exclude a part short for
+// the joint quantity fails with cost.ErrShortStock.
+func (p *chainPricer) together(cd *ChainDesign, cs []candidate) error {
+	sds := make([]*spec.Design, len(cs))
+	for i, c := range cs {
+		sds[i] = c.sd
+	}
+	bm, err := cost.StagesBOM(sds, p.find, p.build)
+	if err != nil {
+		return fmt.Errorf("chain of %s: %w", partsText(cs[0].d), err)
+	}
+	// The chain's cost is the sum of its stages' shares, as CheckChain
+	// sums a checked chain's.
+	cd.TotalCost, cd.Currency = 0, bm.Currency
+	lines := map[string]cost.BOMLine{}
+	cd.ShortStock = nil
+	for _, ln := range bm.Lines {
+		lines[ln.Part] = ln
+		if ln.Short {
+			cd.ShortStock = append(cd.ShortStock, ln.Part)
+		}
+	}
+	for i := range cd.Stages {
+		st := &cd.Stages[i]
+		st.TotalCost, st.UnitCost = bm.StageTotals[i], bm.StageTotals[i]/float64(p.build.Quantity)
+		cd.TotalCost += st.TotalCost
+		st.Parts = slices.Clone(st.Parts)
+		for k := range st.Parts {
+			if ln, ok := lines[st.Parts[k].Part]; ok {
+				st.Parts[k].Bought, st.Parts[k].UnitPrice = ln.Bought, ln.UnitPrice
+			}
+		}
+	}
+	cd.UnitCost = cd.TotalCost / float64(p.build.Quantity)
+	return nil
+}
+
+// chainBefore reports whether chain a ranks before chain b: the cheaper
+// first; of two equal costs the one with the larger margins, compared as
+// tieKey's material tier compares a stage's (each limit's margin in steps
+// of tieStepFrac on a log scale, the sorted lists compared worst first),
+// then by the stages' parts, so the order of equal chains does not depend
+// on the order the search judged them in.
+func chainBefore(a, b *ChainDesign) bool {
+	if a.TotalCost != b.TotalCost {
+		return a.TotalCost < b.TotalCost
+	}
+	ma, mb := chainMargins(a), chainMargins(b)
+	for i := range min(len(ma), len(mb)) {
+		if ma[i] != mb[i] {
+			return ma[i] > mb[i]
+		}
+	}
+	return chainKey(a) < chainKey(b)
+}
+
+// chainMargins are the chain's limit margins rounded to steps of
+// tieStepFrac on a log scale, ascending.
+func chainMargins(d *ChainDesign) []float64 {
+	out := make([]float64, len(d.Limits))
+	for i, l := range d.Limits {
+		out[i] = math.Floor(math.Log(max(l.Margin, 1e-300)) / math.Log1p(tieStepFrac))
+	}
+	slices.Sort(out)
+	return out
+}
+
+// chainKey names a chain by its stages' families and parts.
+func chainKey(d *ChainDesign) string {
+	k := ""
+	for _, st := range d.Stages {
+		k += fmt.Sprintf("%s|%v;", st.Family, st.Parts)
+	}
+	return k
 }
 
 // bindingMargin is the least margin of a chain's limits.
@@ -660,6 +923,12 @@ func chainDesign(s *spec.Spec, cs []candidate) (*ChainDesign, error) {
 	cd := &ChainDesign{}
 	for i, c := range cs {
 		brs[i] = c.br
+		cd.designs = append(cd.designs, c.sd)
+		for _, p := range c.d.ShortStock {
+			if !slices.Contains(cd.ShortStock, p) {
+				cd.ShortStock = append(cd.ShortStock, p)
+			}
+		}
 		cd.TotalCost += c.d.TotalCost
 		cd.UnitCost += c.d.UnitCost
 		cd.Currency = c.d.Currency
@@ -707,3 +976,7 @@ func CheckChain(s *spec.Spec, stages []CheckedStage) (*ChainDesign, error) {
 	}
 	return chainDesign(s, cs)
 }
+
+// ChainCostNote says how a chain is priced (the search's and a checked
+// chain's note).
+const ChainCostNote = "chain cost: the stages priced together, a part number both stages use bought once at their joint quantity (price break, minimum order, stock) with one line item"

@@ -2,6 +2,7 @@ package search
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -13,6 +14,7 @@ import (
 	"plumb/catalog"
 	"plumb/optimize/assume"
 	"plumb/optimize/budget"
+	"plumb/optimize/cost"
 	"plumb/optimize/family"
 	"plumb/optimize/spec"
 )
@@ -47,6 +49,12 @@ func genChain(r *rand.Rand) *spec.Spec {
 		Analysis: spec.Analysis{Method: method, Sigmas: 3}, Derating: 0.5,
 		Build: spec.Build{Quantity: []int{1, 10, 250}[r.IntN(3)]}}
 	s.Families = s.Stages[0].Families
+	// Line items and attrition make sharing a part number between the
+	// stages pay; stock exclude makes it fail where the joint quantity is
+	// short.
+	s.Build.LineItemCost = []float64{0, 0.5}[r.IntN(2)]
+	s.Build.Attrition = []float64{0, 0.02}[r.IntN(2)]
+	s.Build.Stock = []string{"flag", "exclude"}[r.IntN(2)]
 	return s
 }
 
@@ -54,10 +62,14 @@ func genChain(r *rand.Rand) *spec.Spec {
 // design within its hard limits (the exhaustive walk of every class and
 // every value option, with no error limit screening), each confirmed by
 // its exact budget under the stage's problem, every pair judged by the
-// chain's budget. It returns the costs of the passing chains, cheapest
-// first, and false when the stages have more than maxOracle designs
-// between them (the case is then too slow to check).
-func chainOracle(t *testing.T, snap *catalog.Snapshot, s *spec.Spec, maxOracle int) ([]float64, bool) {
+// chain's budget and priced as one build by cost.StagesBOM (a part number
+// both stages use bought once, at the joint quantity). It returns the
+// costs of the passing chains, cheapest first, how many of them cost less
+// than their stages priced apart or were left out because the joint
+// quantity is short of stock (they share a part number), and false when
+// the stages have more than maxOracle designs between them (the case is
+// then too slow to check).
+func chainOracle(t *testing.T, snap *catalog.Snapshot, s *spec.Spec, maxOracle int) ([]float64, int, bool) {
 	t.Helper()
 	ctx := context.Background()
 	snap, _ = assume.Snapshot(snap)
@@ -79,7 +91,7 @@ func chainOracle(t *testing.T, snap *catalog.Snapshot, s *spec.Spec, maxOracle i
 		results[i] = r
 	}
 	if len(results[0].Designs)+len(results[1].Designs) > maxOracle {
-		return nil, false
+		return nil, 0, false
 	}
 	for i, r := range results {
 		for j := range r.Designs {
@@ -92,20 +104,41 @@ func chainOracle(t *testing.T, snap *catalog.Snapshot, s *spec.Spec, maxOracle i
 			}
 		}
 	}
+	find, err := spec.SnapshotLookup(snap)
+	if err != nil {
+		t.Fatal(err)
+	}
+	build, err := cost.BuildOf(s.Build)
+	if err != nil {
+		t.Fatal(err)
+	}
 	var costs []float64
+	sharing := 0
 	for _, a := range lists[0] {
 		for _, b := range lists[1] {
 			cd, err := chainDesign(s, []candidate{a, b})
 			if err != nil {
 				t.Fatal(err)
 			}
-			if cd.budget.Pass {
-				costs = append(costs, cd.TotalCost)
+			if !cd.budget.Pass {
+				continue
 			}
+			bm, err := cost.StagesBOM([]*spec.Design{a.sd, b.sd}, find, build)
+			if errors.Is(err, cost.ErrShortStock) {
+				sharing++
+				continue
+			}
+			if err != nil {
+				t.Fatal(err)
+			}
+			if bm.Total < a.d.TotalCost+b.d.TotalCost-1e-9 {
+				sharing++
+			}
+			costs = append(costs, bm.Total)
 		}
 	}
 	sort.Float64s(costs)
-	return costs, true
+	return costs, sharing, true
 }
 
 // TestChainSearchMatchesOracle: on seeded random chains over small
@@ -117,7 +150,7 @@ func chainOracle(t *testing.T, snap *catalog.Snapshot, s *spec.Spec, maxOracle i
 // that could pass.
 func TestChainSearchMatchesOracle(t *testing.T) {
 	const cases = 40
-	feasible, checked := 0, 0
+	feasible, checked, sharing := 0, 0, 0
 	for seed := uint64(1); seed <= cases; seed++ {
 		if only := os.Getenv("CHAIN_SEED"); only != "" && only != fmt.Sprint(seed) {
 			continue
@@ -132,9 +165,12 @@ func TestChainSearchMatchesOracle(t *testing.T) {
 		s := genChain(r)
 		top := 1 + r.IntN(5)
 		t0 := time.Now()
-		want, ok := chainOracle(t, snap, s, 350)
+		want, shared, ok := chainOracle(t, snap, s, 350)
 		if !ok {
 			continue
+		}
+		if shared > 0 {
+			sharing++
 		}
 		checked++
 		t1 := time.Now()
@@ -173,5 +209,10 @@ func TestChainSearchMatchesOracle(t *testing.T) {
 	if checked < cases/2 || feasible < checked/4 {
 		t.Errorf("%d of %d random chains checked, %d feasible; the generator is too strict or too large", checked, cases, feasible)
 	}
-	t.Logf("%d of %d random chains checked, %d feasible", checked, cases, feasible)
+	// Chains whose stages share a part number must be among the cases, or
+	// the joint pricing goes unchecked.
+	if sharing < 3 {
+		t.Errorf("%d of the checked cases have passing chains that share a part number; the generator should make more", sharing)
+	}
+	t.Logf("%d of %d random chains checked, %d feasible, %d with chains sharing a part number", checked, cases, feasible, sharing)
 }
