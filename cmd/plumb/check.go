@@ -202,7 +202,29 @@ func writeCheckTable(w io.Writer, ios *IOStreams, sp *spec.Spec, r *budget.Resul
 	if r.WorstCorner != "" {
 		writeHanging(w, ios, "", "  ", "worst corner: "+r.WorstCorner)
 	}
-	for _, l := range r.Limits {
+	if err := writeContributors(w, ios, r.Limits); err != nil {
+		return err
+	}
+	if mc := r.MonteCarlo; mc != nil {
+		fmt.Fprintf(w, "\nMonte Carlo: %d trials (seed %d, %s), yield %s", mc.Trials, mc.Seed, mc.Distribution, units.FormatPercent(mc.Yield))
+		if mc.YieldTarget > 0 {
+			fmt.Fprintf(w, " against a target of %s", units.FormatPercent(mc.YieldTarget))
+		}
+		fmt.Fprintln(w)
+	}
+	if len(r.Notes) > 0 {
+		fmt.Fprintln(w)
+	}
+	for _, n := range r.Notes {
+		writeBullet(w, ios, "note: "+n)
+	}
+	return nil
+}
+
+// writeContributors prints the contributors to each limit that has them
+// (a stage's budget or a chain's), one table per limit.
+func writeContributors(w io.Writer, ios *IOStreams, limits []budget.Limit) error {
+	for _, l := range limits {
 		if len(l.Contributors) == 0 {
 			continue
 		}
@@ -219,19 +241,6 @@ func writeCheckTable(w io.Writer, ios *IOStreams, sp *spec.Spec, r *budget.Resul
 		if err := ct.render(w); err != nil {
 			return err
 		}
-	}
-	if mc := r.MonteCarlo; mc != nil {
-		fmt.Fprintf(w, "\nMonte Carlo: %d trials (seed %d, %s), yield %s", mc.Trials, mc.Seed, mc.Distribution, units.FormatPercent(mc.Yield))
-		if mc.YieldTarget > 0 {
-			fmt.Fprintf(w, " against a target of %s", units.FormatPercent(mc.YieldTarget))
-		}
-		fmt.Fprintln(w)
-	}
-	if len(r.Notes) > 0 {
-		fmt.Fprintln(w)
-	}
-	for _, n := range r.Notes {
-		writeBullet(w, ios, "note: "+n)
 	}
 	return nil
 }

@@ -3,6 +3,7 @@ package main
 import (
 	"context"
 	"fmt"
+	"io"
 	"slices"
 	"strconv"
 	"strings"
@@ -104,7 +105,7 @@ func runCheckChain(ctx context.Context, opts *checkOptions, sp *spec.Spec, d *sp
 	case "csv":
 		err = writeCSV(opts.IO.Out, chainCSVHeader, chainCSVRows(&search.ChainResult{Designs: []search.ChainDesign{*cd}}))
 	default:
-		writeChainCheck(opts, sp, out)
+		err = writeChainCheck(opts, sp, out)
 	}
 	if err != nil {
 		return err
@@ -130,7 +131,7 @@ func runCheckChain(ctx context.Context, opts *checkOptions, sp *spec.Spec, d *sp
 // writeChainCheck prints the chain's check as solve prints a ranked chain,
 // under a heading with the verdict, then the contributors to each chain
 // limit and the notes.
-func writeChainCheck(opts *checkOptions, sp *spec.Spec, c *chainCheck) {
+func writeChainCheck(opts *checkOptions, sp *spec.Spec, c *chainCheck) error {
 	ios, w := opts.IO, opts.IO.Out
 	printCautions(w, ios, c.Cautions)
 	verdict := ios.Green("PASS")
@@ -140,16 +141,27 @@ func writeChainCheck(opts *checkOptions, sp *spec.Spec, c *chainCheck) {
 	d := c.Chain
 	fmt.Fprintf(w, "%s %s against %s (%s): %s\n", ios.Bold("Budget of chain"), escapeText(c.Design, ""), specName(sp), c.Method, verdict)
 	writeChainDesign(w, ios, chainCostLine(d), d)
-	for _, l := range d.Budget().Limits {
-		if len(l.Contributors) == 0 {
-			continue
-		}
-		fmt.Fprintf(w, "\n  contributors to %s:\n", l.Name)
-		for _, ct := range l.Contributors {
-			fmt.Fprintf(w, "    %-28s %12s  %5.1f %%\n", ct.Name, budget.FormatFigure(ct.Value, l.Unit), 100*ct.Share)
-		}
+	if err := writeChainBudget(w, ios, sp, d, c.Stages); err != nil {
+		return err
 	}
 	writeChainNotes(w, c.Notes)
+	return nil
+}
+
+// writeChainBudget prints the contributors to each of a chain's limits,
+// then each stage's full budget under the stage's spec as check prints
+// one stage's (writeCheckTable).
+func writeChainBudget(w io.Writer, ios *IOStreams, sp *spec.Spec, d *search.ChainDesign, stages []*budget.Result) error {
+	if err := writeContributors(w, ios, d.Budget().Limits); err != nil {
+		return err
+	}
+	for k, br := range stages {
+		fmt.Fprintf(w, "\n%s\n", ios.Bold(fmt.Sprintf("Stage %d", k+1)))
+		if err := writeCheckTable(w, ios, sp.StageProblem(k), br); err != nil {
+			return err
+		}
+	}
+	return nil
 }
 
 // stageParts lists a chain's BOM lines (positions written STAGE:POSITION)

@@ -114,7 +114,7 @@ func TestCheckChainFails(t *testing.T) {
 		t.Fatalf("exit %d, want %d: %s", code, exitError, errOut)
 	}
 	for _, want := range []string{"Budget of chain two-stage-design against two-stage", "FAIL", "stage 1  inamp", "stage 2  difference",
-		"FAIL total drift", "ok   total error", "contributors to total drift:"} {
+		"FAIL total drift", "ok   total error", "Contributors to total drift:", "Stage 2\n"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("output lacks %q:\n%s", want, out)
 		}

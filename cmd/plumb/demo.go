@@ -130,7 +130,7 @@ func runDemo(cmd *cobra.Command, opts *demoOptions) error {
 // does for a chain.
 func runDemoChain(cmd *cobra.Command, opts *demoOptions, st *catalog.Store, sp *spec.Spec, banner string) error {
 	res, err := search.SolveChainCatalog(cmd.Context(), st, sp, search.Options{Top: demoTop})
-	return writeChainOutcome(opts.IO, opts.Format, banner, sp, res, err)
+	return writeChainOutcome(opts.IO, opts.Format, banner, sp, res, err, 0)
 }
 
 // demoSpecs lists the embedded example specs (not the designs), sorted.

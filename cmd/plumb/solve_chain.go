@@ -15,23 +15,49 @@ import (
 )
 
 // runSolveChain solves a spec that lists stages: the cheapest chains, each
-// with its stages and the chain's figures at its output. --explain,
-// --frontier and --bom are for one-stage specs and are refused here.
+// with its stages and the chain's figures at its output, and the near
+// misses. --explain N prints chain N alone with its full budget,
+// --bom writes the purchasing list of chain 1 (or N) over both stages;
+// --frontier is for one-stage specs and is refused here.
 func runSolveChain(cmd *cobra.Command, opts *solveOptions, st *catalog.Store, sp *spec.Spec) error {
-	if opts.BOM != "" || opts.Frontier || opts.Explain > 0 {
-		return fmt.Errorf("solve %s: --bom, --frontier and --explain are not available for a spec with stages yet; the table shows each stage and the chain's budget", specName(sp))
+	if opts.Frontier {
+		return fmt.Errorf("solve %s: --frontier is not available for a spec with stages yet; the table shows each chain's margins", specName(sp))
 	}
 	pr := newProgress(opts.IO, opts.Quiet, opts.Now)
 	o := search.Options{Top: opts.Top, Combos: opts.Combos, Rates: opts.Rates, Progress: pr.update, Trials: pr.trials}
 	res, err := search.SolveChainCatalog(cmd.Context(), st, sp, o)
 	pr.finish()
-	return writeChainOutcome(opts.IO, opts.Format, "", sp, res, err)
+	if err := writeChainOutcome(opts.IO, opts.Format, "", sp, res, err, opts.Explain); err != nil {
+		return err
+	}
+	if opts.BOM == "" {
+		return nil
+	}
+	rank := max(opts.Explain, 1)
+	if rank > len(res.Designs) {
+		return fmt.Errorf("--bom: the search found %d chain(s), not %d", len(res.Designs), rank)
+	}
+	build, err := specBuild(sp)
+	if err != nil {
+		return err
+	}
+	b, err := priceStages(cmd.Context(), st, res.Designs[rank-1].Designs(), build, opts.Rates)
+	if err != nil {
+		return fmt.Errorf("--bom: chain %d: %w", rank, err)
+	}
+	if err := writeFileAtomic(opts.BOM, opts.Force, func(w io.Writer) error { return writeCSV(w, bomCSVHeader, bomCSVRows(b)) }); err != nil {
+		return err
+	}
+	if !opts.Quiet {
+		fmt.Fprintf(opts.IO.ErrOut, "wrote the purchasing list of chain %d to %s\n", rank, opts.BOM)
+	}
+	return nil
 }
 
 // writeChainOutcome prints a chain search's result in format (the table
 // after banner, when banner is not empty) and returns the search's error:
 // an infeasible chain after its result, any other error before it.
-func writeChainOutcome(ios *IOStreams, format, banner string, sp *spec.Spec, res *search.ChainResult, err error) error {
+func writeChainOutcome(ios *IOStreams, format, banner string, sp *spec.Spec, res *search.ChainResult, err error, explain int) error {
 	infeasible := errors.Is(err, search.ErrInfeasible)
 	if err != nil && !infeasible {
 		return fmt.Errorf("solving %s: %w", specName(sp), err)
@@ -44,11 +70,15 @@ func writeChainOutcome(ios *IOStreams, format, banner string, sp *spec.Spec, res
 	case "csv":
 		werr = writeCSV(ios.Out, chainCSVHeader, chainCSVRows(res))
 	default:
+		if explain > len(res.Designs) && !infeasible {
+			// Not an empty page under the heading: say what there is.
+			return fmt.Errorf("--explain %d: the search found %d chain(s); choose one of them (solve without --explain lists them)", explain, len(res.Designs))
+		}
 		if banner != "" {
 			writeHanging(ios.Out, ios, "", "  ", banner)
 			fmt.Fprintln(ios.Out)
 		}
-		writeChainTable(ios.Out, ios, solveTitle(sp), res)
+		werr = writeChainTable(ios.Out, ios, sp, res, explain)
 	}
 	if werr != nil {
 		return werr
@@ -94,19 +124,61 @@ func chainCSVRows(res *search.ChainResult) [][]string {
 }
 
 // writeChainTable prints each ranked chain: per stage its family, parts
-// and own figures, then the chain's limits at its output.
-func writeChainTable(w io.Writer, ios *IOStreams, title string, res *search.ChainResult) {
-	for _, line := range wrapWords(title, 96) {
+// and own figures, then the chain's limits at its output; then the near
+// misses. With explain > 0 it prints chain explain alone with its full
+// budget (writeChainBudget).
+func writeChainTable(w io.Writer, ios *IOStreams, sp *spec.Spec, res *search.ChainResult, explain int) error {
+	for _, line := range wrapWords(solveTitle(sp), 96) {
 		fmt.Fprintln(w, ios.Bold(escapeText(line, "")))
 	}
 	for i := range res.Designs {
 		d := &res.Designs[i]
+		if explain > 0 && d.Rank != explain {
+			continue
+		}
 		writeChainDesign(w, ios, fmt.Sprintf("Chain %d: %s", d.Rank, chainCostLine(d)), d)
+		if explain > 0 {
+			if err := writeChainBudget(w, ios, sp, d, d.StageBudgets()); err != nil {
+				return err
+			}
+		}
 	}
 	if res.Infeasible != "" {
 		fmt.Fprintf(w, "\nNo chain passes: %s\n", res.Infeasible)
 	}
+	if explain == 0 && len(res.NearMisses) > 0 {
+		title := "Near misses (the closest chains cheaper than chain 1, failing):"
+		if len(res.Designs) == 0 {
+			title = "Near misses (the closest chains, failing):"
+		}
+		fmt.Fprintf(w, "\n%s\n", ios.Bold(title))
+		for i := range res.NearMisses {
+			writeChainNearMiss(w, ios, &res.NearMisses[i])
+		}
+	}
 	writeChainNotes(w, res.Notes)
+	return nil
+}
+
+// writeChainNearMiss prints a failing chain as a ranked one, then what it
+// fails and the change of one stage that makes it pass.
+func writeChainNearMiss(w io.Writer, ios *IOStreams, nm *search.ChainNearMiss) {
+	fmt.Fprintf(w, "\n%s\n", ios.Bold(fmt.Sprintf("%s %.4g per unit, %s %.6g the build; shortfall %.3gx", nm.Currency, nm.UnitCost, nm.Currency, nm.TotalCost, nm.Shortfall)))
+	writeChainStages(w, &nm.ChainDesign)
+	var fails []string
+	for _, f := range nm.Fails {
+		fails = append(fails, f.Text)
+	}
+	for i, line := range wrapWords("fails: "+strings.Join(fails, "; "), 92) {
+		fmt.Fprintf(w, "  %s%s\n", map[bool]string{true: "", false: "  "}[i == 0], line)
+	}
+	fix := "no listed design of either stage passes with the other's"
+	if nm.Fix != nil {
+		fix = fmt.Sprintf("%s (+%s per unit, %s the build)", nm.Fix.Change, formatMoney(nm.Fix.ExtraCost, nm.Currency), formatMoney(nm.Fix.TotalCost, nm.Currency))
+	}
+	for i, line := range wrapWords("passes with: "+fix, 92) {
+		fmt.Fprintf(w, "  %s%s\n", map[bool]string{true: "", false: "  "}[i == 0], escapeText(line, ""))
+	}
 }
 
 // chainCostLine is a chain's cost per unit and for the build, in its
@@ -120,6 +192,20 @@ func chainCostLine(d *search.ChainDesign) string {
 // its value, limit, margin and pass or fail.
 func writeChainDesign(w io.Writer, ios *IOStreams, heading string, d *search.ChainDesign) {
 	fmt.Fprintf(w, "\n%s\n", ios.Bold(heading))
+	writeChainStages(w, d)
+	fmt.Fprintf(w, "  chain    gain %.6g\n", d.Metrics.Gain)
+	for _, l := range d.Limits {
+		mark := "ok  "
+		if !l.Pass {
+			mark = "FAIL"
+		}
+		fmt.Fprintf(w, "    %s %-16s %12s  limit %12s  %s\n", mark, l.Name, budget.FormatFigure(l.Value, l.Unit), budget.FormatFigure(l.Limit, l.Unit), l.MarginText)
+	}
+}
+
+// writeChainStages prints each stage of a chain: its family, gain, cost,
+// parts and own figures, and the parts short of stock.
+func writeChainStages(w io.Writer, d *search.ChainDesign) {
 	for _, s := range d.Stages {
 		var parts []string
 		for _, p := range s.Parts {
@@ -137,13 +223,10 @@ func writeChainDesign(w io.Writer, ios *IOStreams, heading string, d *search.Cha
 			fmt.Fprintf(w, "      %s\n", line)
 		}
 	}
-	fmt.Fprintf(w, "  chain    gain %.6g\n", d.Metrics.Gain)
-	for _, l := range d.Limits {
-		mark := "ok  "
-		if !l.Pass {
-			mark = "FAIL"
+	if len(d.ShortStock) > 0 {
+		for _, line := range wrapWords("short of stock for the build: "+strings.Join(d.ShortStock, ", "), 88) {
+			fmt.Fprintf(w, "  %s\n", escapeText(line, ""))
 		}
-		fmt.Fprintf(w, "    %s %-16s %12s  limit %12s  %s\n", mark, l.Name, budget.FormatFigure(l.Value, l.Unit), budget.FormatFigure(l.Limit, l.Unit), l.MarginText)
 	}
 }
 

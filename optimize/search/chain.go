@@ -20,6 +20,10 @@ import (
 // documented in the README.
 type ChainResult struct {
 	Designs []ChainDesign `json:"designs"`
+	// NearMisses are the closest failing chains the search judged (cheaper
+	// than rank 1 when a chain passes), the closest first, each with the
+	// cheapest change of one stage's design that makes it pass.
+	NearMisses []ChainNearMiss `json:"near_misses,omitempty"`
 	// Infeasible says why no chain passes (empty when one does).
 	Infeasible string     `json:"infeasible,omitempty"`
 	Method     string     `json:"method"`
@@ -66,9 +70,29 @@ type ChainDesign struct {
 	ShortStock []string `json:"short_stock,omitempty"`
 
 	budget *budget.ChainBudget
-	// designs are the stages' designs, first to last.
-	designs []*spec.Design
+	// designs are the stages' designs, first to last, and stageBudgets
+	// their exact budgets under the stages' problems.
+	designs      []*spec.Design
+	stageBudgets []*budget.Result
 }
+
+// ChainNearMiss is a failing chain: the limits it breaks, how far
+// (Shortfall, as a design's near miss), and Fix, the cheapest chain that
+// keeps one stage's design and changes the other's (Kind "stage"; its
+// positions are written STAGE:POSITION), or nil when no listed design of
+// either stage passes with the other.
+type ChainNearMiss struct {
+	ChainDesign
+	Fails     []Failure `json:"fails"`
+	Shortfall float64   `json:"shortfall"`
+	Fix       *Fix      `json:"fix"`
+
+	cs []candidate
+}
+
+// maxChainNearFix bounds the chains one near miss's fix search judges per
+// stage.
+const maxChainNearFix = 5000
 
 // ChainStage is one stage of a ranked chain.
 type ChainStage struct {
@@ -90,6 +114,10 @@ func (d *ChainDesign) Budget() *budget.ChainBudget { return d.budget }
 // Designs returns the chain's stage designs, first to last (nil for a
 // chain given by hand).
 func (d *ChainDesign) Designs() []*spec.Design { return d.designs }
+
+// StageBudgets returns the exact budgets of the chain's stages under the
+// stages' problems (spec.Spec.StageProblem), first to last.
+func (d *ChainDesign) StageBudgets() []*budget.Result { return d.stageBudgets }
 
 // SolveChain finds the lowest-cost chains in snap that meet the chain's
 // limits (Solve for each stage; see solveChain).
@@ -247,6 +275,9 @@ func solveChain(ctx context.Context, s *spec.Spec, opt Options, solveStage stage
 		ranked[i].Rank = i + 1
 	}
 	res.Designs = ranked
+	if res.NearMisses, err = w.nearMisses(ctx); err != nil {
+		return nil, err
+	}
 	res.Notes = append(res.Notes, ChainCostNote)
 	cur := ""
 	if l := stages[0].list; len(l) > 0 {
@@ -507,6 +538,8 @@ type chainWalk struct {
 
 	ranked  []ChainDesign
 	closest *ChainDesign
+	// failing are the closest failing chains judged (near misses).
+	failing []ChainNearMiss
 	// judged marks the pairs (by their designs' keys) already judged.
 	judged map[[2]string]bool
 	// exactTo is the chain cost up to which every pair was judged;
@@ -786,25 +819,15 @@ func (w *chainWalk) judge(ctx context.Context, i, j int) error {
 	a, b := w.stages[0], w.stages[1]
 	w.st.Evaluated++
 	cs := []candidate{a.list[i], b.list[j]}
-	cd, err := chainDesign(w.s, cs)
-	if err != nil {
+	cd, err := w.chainOf(cs)
+	if err != nil || cd == nil {
 		return err
-	}
-	if shared(cs) {
-		w.st.Shared++
-		err := w.pricer.together(cd, cs)
-		if errors.Is(err, cost.ErrShortStock) {
-			w.st.ShortStock++
-			return nil
-		}
-		if err != nil {
-			return err
-		}
 	}
 	if !cd.budget.Pass {
 		if w.closest == nil || bindingMargin(cd) > bindingMargin(w.closest) {
 			w.closest = cd
 		}
+		w.keepFailing(cd, cs)
 		return nil
 	}
 	at := sort.Search(len(w.ranked), func(k int) bool { return chainBefore(cd, &w.ranked[k]) })
@@ -813,6 +836,207 @@ func (w *chainWalk) judge(ctx context.Context, i, j int) error {
 		w.ranked = w.ranked[:w.top]
 	}
 	return nil
+}
+
+// chainOf is the chain of stage designs cs with its budget, priced
+// together where they share a part number; nil when the joint quantity is
+// short of stock under build.stock exclude.
+func (w *chainWalk) chainOf(cs []candidate) (*ChainDesign, error) {
+	cd, err := chainDesign(w.s, cs)
+	if err != nil {
+		return nil, err
+	}
+	if shared(cs) {
+		w.st.Shared++
+		err := w.pricer.together(cd, cs)
+		if errors.Is(err, cost.ErrShortStock) {
+			w.st.ShortStock++
+			return nil, nil
+		}
+		if err != nil {
+			return nil, err
+		}
+	}
+	return cd, nil
+}
+
+// maxChainFailing is how many of the closest failing chains the walk
+// keeps for the near misses.
+const maxChainFailing = 32
+
+// keepFailing keeps failing chain cd of stage designs cs among the
+// closest (by shortfall) when no passing chain is ranked yet or it costs
+// less than the cheapest one.
+func (w *chainWalk) keepFailing(cd *ChainDesign, cs []candidate) {
+	if len(w.ranked) > 0 && cd.TotalCost >= w.ranked[0].TotalCost {
+		return
+	}
+	nm := ChainNearMiss{ChainDesign: *cd, Fails: limitFailures(cd.budget.Limits), Shortfall: exactShortfall(cd.Limits), cs: cs}
+	// A stage that fails its own limits (its share of the chain's, its
+	// hard limits) adds its failures and its shortfall.
+	for k, c := range cs {
+		if c.br.Pass {
+			continue
+		}
+		for _, f := range limitFailures(c.br.Limits) {
+			f.Name, f.Text = fmt.Sprintf("stage %d %s", k+1, f.Name), fmt.Sprintf("stage %d: %s", k+1, f.Text)
+			nm.Fails = append(nm.Fails, f)
+		}
+		nm.Shortfall = math.Min(nm.Shortfall*exactShortfall(c.d.Limits), budget.MaxMargin)
+	}
+	if len(nm.Fails) == 0 {
+		return
+	}
+	at := sort.Search(len(w.failing), func(k int) bool { return w.failing[k].Shortfall > nm.Shortfall })
+	if at >= maxChainFailing {
+		return
+	}
+	w.failing = slices.Insert(w.failing, at, nm)
+	if len(w.failing) > maxChainFailing {
+		w.failing = w.failing[:maxChainFailing]
+	}
+}
+
+// maxChainNearPairs bounds the pairs judged for near misses beyond the
+// walk's (morePairs).
+const maxChainNearPairs = 2000
+
+// morePairs judges, for the near misses, pairs the walk did not: those of
+// stage designs with exact budgets (a design the walk ruled out by a
+// bound has one when its screening floor passed; its budget may fail the
+// stage's own limits) whose summed cost is below rank 1's, cheapest
+// first, up to maxChainNearPairs. The walk judges only pairs that may
+// pass, so a failing chain cheaper than rank 1 is often one of these.
+func (w *chainWalk) morePairs(ctx context.Context) error {
+	lim := math.Inf(1)
+	if len(w.ranked) > 0 {
+		lim = w.ranked[0].TotalCost
+	}
+	own := func(st *stageDesigns) []int {
+		var out []int
+		for i := range st.list {
+			if st.list[i].br != nil {
+				out = append(out, i)
+			}
+		}
+		return out
+	}
+	a, b := w.stages[0], w.stages[1]
+	ia, ib := own(a), own(b)
+	n := 0
+	for _, i := range ia {
+		for _, j := range ib {
+			if a.list[i].d.TotalCost+b.list[j].d.TotalCost >= lim {
+				break
+			}
+			key := [2]string{a.list[i].key, b.list[j].key}
+			if w.judged[key] {
+				continue
+			}
+			if n++; n > maxChainNearPairs {
+				return nil
+			}
+			if n%256 == 0 {
+				if err := ctx.Err(); err != nil {
+					return err
+				}
+			}
+			w.judged[key] = true
+			cs := []candidate{a.list[i], b.list[j]}
+			cd, err := w.chainOf(cs)
+			if err != nil {
+				return err
+			}
+			if cd != nil && !cd.budget.Pass {
+				w.keepFailing(cd, cs)
+			}
+		}
+	}
+	return nil
+}
+
+// nearMisses are the closest failing chains kept (keepFailing) cheaper
+// than rank 1, at most maxNearMisses, each with its fix (chainFix).
+func (w *chainWalk) nearMisses(ctx context.Context) ([]ChainNearMiss, error) {
+	if err := w.morePairs(ctx); err != nil {
+		return nil, err
+	}
+	var out []ChainNearMiss
+	for _, nm := range w.failing {
+		if len(w.ranked) > 0 && nm.TotalCost >= w.ranked[0].TotalCost {
+			continue
+		}
+		// Value variants of one chain (same cost, same failures) show once.
+		if slices.ContainsFunc(out, func(o ChainNearMiss) bool {
+			return o.TotalCost == nm.TotalCost && failText(o.Fails) == failText(nm.Fails) && o.Stages[0].Family == nm.Stages[0].Family && o.Stages[1].Family == nm.Stages[1].Family
+		}) {
+			continue
+		}
+		if len(out) == maxNearMisses {
+			break
+		}
+		if err := w.chainFix(ctx, &nm); err != nil {
+			return nil, err
+		}
+		out = append(out, nm)
+	}
+	return out, nil
+}
+
+// chainFix finds the cheapest passing chain that keeps one stage's design
+// of near miss nm and takes another listed design of the other stage: the
+// designs that may pass with it (live; see prune) in order of cost, up to
+// the first whose own cost reaches the best chain found (a chain costs at
+// least either stage alone, since a line's price never falls as the
+// pieces it buys grow) or maxChainNearFix chains per stage.
+func (w *chainWalk) chainFix(ctx context.Context, nm *ChainNearMiss) error {
+	var best *ChainDesign
+	stage := 0
+	for k, st := range w.stages {
+		tried := 0
+		for _, i := range liveIndexes(st) {
+			c := st.list[i]
+			if c.key == nm.cs[k].key {
+				continue
+			}
+			if (best != nil && c.d.TotalCost >= best.TotalCost) || tried == maxChainNearFix {
+				break
+			}
+			tried++
+			if tried%256 == 0 {
+				if err := ctx.Err(); err != nil {
+					return err
+				}
+			}
+			cs := slices.Clone(nm.cs)
+			cs[k] = c
+			cd, err := w.chainOf(cs)
+			if err != nil {
+				return err
+			}
+			if cd != nil && cd.budget.Pass && (best == nil || chainBefore(cd, best)) {
+				best, stage = cd, k
+			}
+		}
+	}
+	if best == nil {
+		return nil
+	}
+	from, to := stageDesign(&nm.Stages[stage]), stageDesign(&best.Stages[stage])
+	nm.Fix = partFix("stage", from, to, "")
+	nm.Fix.TotalCost, nm.Fix.ExtraCost = best.TotalCost, best.UnitCost-nm.UnitCost
+	return nil
+}
+
+// stageDesign is a chain stage as a design whose positions are written
+// STAGE:POSITION, as a chain's purchasing list writes them.
+func stageDesign(st *ChainStage) *Design {
+	d := &Design{Family: st.Family, TotalCost: st.TotalCost, UnitCost: st.UnitCost}
+	for _, p := range st.Parts {
+		p.Position = fmt.Sprintf("%d:%s", st.Stage, p.Position)
+		d.Parts = append(d.Parts, p)
+	}
+	return d
 }
 
 // shared reports whether two of the stage designs cs use one part number.
@@ -924,6 +1148,7 @@ func chainDesign(s *spec.Spec, cs []candidate) (*ChainDesign, error) {
 	for i, c := range cs {
 		brs[i] = c.br
 		cd.designs = append(cd.designs, c.sd)
+		cd.stageBudgets = append(cd.stageBudgets, c.br)
 		for _, p := range c.d.ShortStock {
 			if !slices.Contains(cd.ShortStock, p) {
 				cd.ShortStock = append(cd.ShortStock, p)

@@ -150,7 +150,7 @@ func chainOracle(t *testing.T, snap *catalog.Snapshot, s *spec.Spec, maxOracle i
 // that could pass.
 func TestChainSearchMatchesOracle(t *testing.T) {
 	const cases = 40
-	feasible, checked, sharing := 0, 0, 0
+	feasible, checked, sharing, nearFixes := 0, 0, 0, 0
 	for seed := uint64(1); seed <= cases; seed++ {
 		if only := os.Getenv("CHAIN_SEED"); only != "" && only != fmt.Sprint(seed) {
 			continue
@@ -205,6 +205,31 @@ func TestChainSearchMatchesOracle(t *testing.T) {
 		if st := got.Designs[0].Stages; st[0].TotalCost > got.Designs[0].TotalCost-st[1].TotalCost+1e-9 {
 			t.Errorf("%s: stage costs do not add up", name)
 		}
+		// A ranked chain's purchasing list comes to its cost.
+		find, _ := spec.SnapshotLookup(snap)
+		build, _ := cost.BuildOf(s.Build)
+		for _, d := range got.Designs {
+			bm, err := cost.StagesBOM(d.Designs(), find, build)
+			if err != nil || math.Abs(bm.Total-d.TotalCost) > 1e-9*d.TotalCost {
+				t.Errorf("%s: chain %d costs %g, its purchasing list %v (%v)", name, d.Rank, d.TotalCost, bm, err)
+			}
+		}
+		if testing.Verbose() {
+			t.Logf("%s: %d near misses", name, len(got.NearMisses))
+		}
+		// Near misses cost less than rank 1 and fail; a fix is a passing
+		// chain, so it costs no less than the oracle's cheapest.
+		for _, nm := range got.NearMisses {
+			if nm.TotalCost >= want[0] || nm.budget.Pass || len(nm.Fails) == 0 || nm.Shortfall <= 1 {
+				t.Errorf("%s: near miss at %g (rank 1 %g) passes %v, fails %v, shortfall %g", name, nm.TotalCost, want[0], nm.budget.Pass, nm.Fails, nm.Shortfall)
+			}
+			if nm.Fix != nil && (nm.Fix.TotalCost < want[0]*(1-1e-9) || len(nm.Fix.Changes) == 0) {
+				t.Errorf("%s: near miss fix %+v costs less than the cheapest passing chain %g", name, nm.Fix, want[0])
+			}
+			if nm.Fix != nil {
+				nearFixes++
+			}
+		}
 	}
 	if checked < cases/2 || feasible < checked/4 {
 		t.Errorf("%d of %d random chains checked, %d feasible; the generator is too strict or too large", checked, cases, feasible)
@@ -214,5 +239,8 @@ func TestChainSearchMatchesOracle(t *testing.T) {
 	if sharing < 3 {
 		t.Errorf("%d of the checked cases have passing chains that share a part number; the generator should make more", sharing)
 	}
-	t.Logf("%d of %d random chains checked, %d feasible, %d with chains sharing a part number", checked, cases, feasible, sharing)
+	if nearFixes == 0 {
+		t.Error("no near miss with a fix among the cases")
+	}
+	t.Logf("%d of %d random chains checked, %d feasible, %d with chains sharing a part number, %d near misses fixed", checked, cases, feasible, sharing, nearFixes)
 }

@@ -30,25 +30,7 @@ func budgetVerifier(ctx context.Context, s *spec.Spec, trials func(done, total i
 		if err != nil {
 			return nil, nil, err
 		}
-		var out []Failure
-		for _, l := range br.Limits {
-			if l.Pass {
-				continue
-			}
-			by := 0.0
-			if l.Limit != 0 {
-				by = l.Value/l.Limit - 1
-			}
-			switch {
-			case l.Unit == "dB":
-				by = l.Limit - l.Value
-			case !l.Max:
-				by = -by
-			}
-			out = append(out, Failure{Name: l.Name, Value: l.Value, Limit: l.Limit, By: by,
-				Text: fmt.Sprintf("%s %s against a limit of %s (%s)", l.Name, limitText(Limit{Value: l.Value, Unit: l.Unit}),
-					limitText(Limit{Value: l.Limit, Unit: l.Unit}), l.MarginText)})
-		}
+		out := limitFailures(br.Limits)
 		if len(out) == 0 && !br.Pass && br.MonteCarlo != nil {
 			mc := br.MonteCarlo
 			out = append(out, Failure{Name: "yield", Value: mc.Yield, Limit: mc.YieldTarget, By: mc.YieldTarget - mc.Yield,
@@ -56,6 +38,31 @@ func budgetVerifier(ctx context.Context, s *spec.Spec, trials func(done, total i
 		}
 		return br, out, nil
 	}
+}
+
+// limitFailures lists the failing limits of an exact budget (a stage's or
+// a chain's), each with how far past its limit.
+func limitFailures(ls []budget.Limit) []Failure {
+	var out []Failure
+	for _, l := range ls {
+		if l.Pass {
+			continue
+		}
+		by := 0.0
+		if l.Limit != 0 {
+			by = l.Value/l.Limit - 1
+		}
+		switch {
+		case l.Unit == "dB":
+			by = l.Limit - l.Value
+		case !l.Max:
+			by = -by
+		}
+		out = append(out, Failure{Name: l.Name, Value: l.Value, Limit: l.Limit, By: by,
+			Text: fmt.Sprintf("%s %s against a limit of %s (%s)", l.Name, limitText(Limit{Value: l.Value, Unit: l.Unit}),
+				limitText(Limit{Value: l.Limit, Unit: l.Unit}), l.MarginText)})
+	}
+	return out
 }
 
 // adopt replaces a design's screening figures by the exact budget's: its
