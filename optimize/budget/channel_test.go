@@ -192,23 +192,7 @@ limits: {total_error: 8LSB}
 // budget with an ideal reference, scaled by |S|/FSR and read against the
 // lowest reference; and the total their sum.
 func TestChannelExampleDesign(t *testing.T) {
-	snap, err := data.DemoSnapshot()
-	if err != nil {
-		t.Fatal(err)
-	}
-	lookup, err := spec.SnapshotLookup(snap)
-	if err != nil {
-		t.Fatal(err)
-	}
-	s := loadExample(t, "adc-channel.yaml")
-	d := loadExampleDesign(t, "adc-channel-design.yaml")
-	if err := d.Resolve(lookup); err != nil {
-		t.Fatal(err)
-	}
-	res, err := Evaluate(s, d)
-	if err != nil {
-		t.Fatal(err)
-	}
+	s, d, res := evaluateExample(t, "adc-channel.yaml", "adc-channel-design.yaml")
 	ch := res.Channel
 	if ch == nil || !res.Pass {
 		t.Fatalf("no channel, or the design fails: %+v", res.Limits)

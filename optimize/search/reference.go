@@ -84,9 +84,11 @@ func refOptions(refs []catalog.Reference, s *spec.Spec, c *cost.Converter) []ref
 // all of them are merged by total cost, so the ranking is the same as one
 // search over the references and the stage's parts together: each
 // reference's own search ranks its cheapest designs, and the cheapest
-// overall are among those. Near misses, the frontier and the diagnosis come
-// from the search of the reference of the cheapest design (or, when
-// nothing passes, of the first reference). Under strict assumptions a
+// overall are among those. The near misses, the cheapest failing designs
+// and the frontier are merged from every reference's search
+// (mergeFailing, frontierOf); the diagnosis when nothing passes comes from
+// the search of the reference whose closest near miss is nearest to
+// passing. Under strict assumptions a
 // reference with an unknown figure is left out.
 func solveReferences(s *spec.Spec, refs []refOption, opt Options, solve func(*spec.Spec) (*Result, error)) (*Result, error) {
 	if s.Assumptions == spec.AssumeStrict {
@@ -120,6 +122,11 @@ func solveReferences(s *spec.Spec, refs []refOption, opt Options, solve func(*sp
 		sd *spec.Design
 	}
 	var all []ranked
+	// near, cheap and front gather every reference's near misses,
+	// cheapest failing designs and frontier, merged below.
+	var front []Design
+	var nears, cheaps []NearMiss
+	nearest := math.Inf(1)
 	var base *Result
 	var baseErr error
 	best := math.Inf(1)
@@ -180,13 +187,27 @@ func solveReferences(s *spec.Spec, refs []refOption, opt Options, solve func(*sp
 		for i := range res.Frontier {
 			withRef(&res.Frontier[i], nil)
 		}
+		nears, cheaps = append(nears, res.NearMisses...), append(cheaps, res.CheapestFailing...)
+		front = append(front, res.Frontier...)
 		res.Notes = append(res.Notes, fmt.Sprintf("reference %s: %s %s, %s, priced %s per stage", ref.part,
 			units.Format(ref.v, "V"), units.FormatPercent(ref.tol), units.FormatPPM(1e6*ref.drift), strconvCost(br.PerUnit, line.Currency)))
-		if base == nil || (len(res.Designs) > 0 && res.Designs[0].TotalCost < best) {
+		// The base result (its diagnosis when nothing passes) is the
+		// reference of the cheapest design, or with none the reference
+		// whose closest near miss is nearest to passing.
+		closest := math.Inf(1)
+		if len(res.NearMisses) > 0 {
+			closest = res.NearMisses[0].Shortfall
+		}
+		switch {
+		case base == nil, len(res.Designs) > 0 && res.Designs[0].TotalCost < best,
+			math.IsInf(best, 1) && len(res.Designs) == 0 && closest < nearest:
 			if len(res.Designs) > 0 {
 				best = res.Designs[0].TotalCost
 			}
 			base, baseErr = res, err
+		}
+		if len(res.Designs) == 0 {
+			nearest = min(nearest, closest)
 		}
 	}
 	if base == nil {
@@ -194,6 +215,14 @@ func solveReferences(s *spec.Spec, refs []refOption, opt Options, solve func(*sp
 	}
 	if len(unusable) > 0 {
 		base.Notes = append(base.Notes, fmt.Sprintf("%d reference(s) of %s left out by the supply: %s", len(unusable), units.Format(s.Reference.V, "V"), strings.Join(unusable, "; ")))
+	}
+	cheapest := math.Inf(1)
+	for _, r := range all {
+		cheapest = min(cheapest, r.d.TotalCost)
+	}
+	mergeFailing(base, nears, cheaps, cheapest, len(refs))
+	if len(front) > 0 {
+		base.Frontier = frontierOf(front)
 	}
 	if len(all) == 0 {
 		return base, baseErr
@@ -222,8 +251,39 @@ func solveReferences(s *spec.Spec, refs []refOption, opt Options, solve func(*sp
 	}
 	base.Notes = append(base.Notes, fmt.Sprintf("reference picked from the catalog's %d reference(s) of %s (%s): each searched with its own figures and priced with the stage, the designs ranked together",
 		len(refs), units.Format(s.Reference.V, "V"), strings.Join(parts, ", ")))
+	// A frontier design among the merged ranking takes its rank there.
+	rankOf := map[string]int{}
+	for _, d := range base.Designs {
+		rankOf[designKey(&d)] = d.Rank
+	}
+	for i := range base.Frontier {
+		base.Frontier[i].Rank = rankOf[designKey(&base.Frontier[i])]
+	}
 	base.spec = s
 	return base, nil
+}
+
+// mergeFailing sets res's near misses and cheapest failing designs from
+// those of every reference's search (nears, cheaps): the near misses
+// cheaper than limit, the cheapest passing design of all references
+// (+Inf when none passes), closest first (by shortfall), at most
+// maxNearMisses; the cheapest failing designs not among them, as many as
+// one search lists on average.
+func mergeFailing(res *Result, nears, cheaps []NearMiss, limit float64, nrefs int) {
+	keep := slices.DeleteFunc(slices.Clone(nears), func(nm NearMiss) bool { return nm.TotalCost >= limit })
+	sort.SliceStable(keep, func(i, j int) bool { return keep[i].Shortfall < keep[j].Shortfall })
+	res.NearMisses = keep[:min(len(keep), maxNearMisses)]
+	listed := map[string]bool{}
+	for i := range res.NearMisses {
+		listed[designKey(&res.NearMisses[i].Design)] = true
+	}
+	n := len(cheaps) / max(nrefs, 1)
+	if len(cheaps) > 0 {
+		n = max(n, 1)
+	}
+	rest := slices.DeleteFunc(slices.Clone(cheaps), func(nm NearMiss) bool { return listed[designKey(&nm.Design)] })
+	sort.SliceStable(rest, func(i, j int) bool { return rest[i].TotalCost < rest[j].TotalCost })
+	res.CheapestFailing = rest[:min(len(rest), n)]
 }
 
 // strconvCost writes a price with its currency.

@@ -5,6 +5,7 @@ import (
 	"math"
 	"path/filepath"
 	"slices"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -34,13 +35,10 @@ func testRefs() []catalog.Reference {
 	}
 }
 
-// TestReferencePicked: with reference.part auto the search's rank 1 is the
-// cheapest, over the catalog's references of the spec's voltage, of the
-// reference's price (one per stage at the build quantity, through
-// cost.Price) plus the cheapest stage that passes with that reference's
-// figures; the design carries the part at position REF, and its exact
-// budget (ExplainN) uses that part's tolerance.
-func TestReferencePicked(t *testing.T) {
+// autoRefExample is the demo catalog with testRefs and the adc-channel
+// example with reference.part auto.
+func autoRefExample(t *testing.T) (*catalog.Snapshot, *spec.Spec) {
+	t.Helper()
 	snap := demoSnapshot(t)
 	snap.References = testRefs()
 	s, err := spec.Load(filepath.Join("..", "..", "data", "examples", "adc-channel.yaml"))
@@ -48,6 +46,17 @@ func TestReferencePicked(t *testing.T) {
 		t.Fatal(err)
 	}
 	s.Reference.Part, s.Reference.Tolerance, s.Reference.Drift = spec.RefAuto, 0, 0
+	return snap, s
+}
+
+// TestReferencePicked: with reference.part auto the search's rank 1 is the
+// cheapest, over the catalog's references of the spec's voltage, of the
+// reference's price (one per stage at the build quantity, through
+// cost.Price) plus the cheapest stage that passes with that reference's
+// figures; the design carries the part at position REF, and its exact
+// budget (ExplainN) uses that part's tolerance.
+func TestReferencePicked(t *testing.T) {
+	snap, s := autoRefExample(t)
 	ctx := context.Background()
 	r, err := Solve(ctx, snap, s, Options{Top: 3})
 	if err != nil {
@@ -227,5 +236,99 @@ func TestReferenceSupply(t *testing.T) {
 	}
 	if !slices.ContainsFunc(r.Notes, func(n string) bool { return strings.Contains(n, "TST-REF-TIGHT needs at least 7 V in") }) {
 		t.Errorf("no note names the reference left out by the supply: %q", r.Notes)
+	}
+}
+
+// TestReferenceNearMissesOverEveryReference: with reference.part auto the
+// near misses are those of every reference's search, not of one: the
+// closest (by shortfall) of all references' near misses cheaper than the
+// merged rank 1, each carrying its own reference at REF. The oracle
+// solves the spec once per reference with that reference's figures and
+// adds its price (cost.Price), as TestReferencePicked does for rank 1.
+func TestReferenceNearMissesOverEveryReference(t *testing.T) {
+	snap, s := autoRefExample(t)
+	ctx := context.Background()
+	r, err := Solve(ctx, snap, s, Options{Top: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := cost.BuildOf(s.Build)
+	if err != nil {
+		t.Fatal(err)
+	}
+	type miss struct {
+		short float64
+		ref   string
+	}
+	var want []miss
+	for _, ref := range testRefs()[:3] {
+		fixed := *s
+		fr := *s.Reference
+		fr.Part, fr.Tolerance, fr.Drift = "", ref.Tolerance, ref.DriftPPM*1e-6
+		fixed.Reference = &fr
+		one, err := Solve(ctx, snap, &fixed, Options{Top: 1})
+		if err != nil && !IsInfeasible(err) {
+			t.Fatal(err)
+		}
+		br, err := cost.Price(b, []cost.Use{{Part: ref.Part, Offer: &ref.Offer, Placements: 1}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, nm := range one.NearMisses {
+			if nm.TotalCost+br.Total < r.Designs[0].TotalCost {
+				want = append(want, miss{nm.Shortfall, ref.Part})
+			}
+		}
+	}
+	slices.SortStableFunc(want, func(a, b miss) int { return cmpCost(a.short, b.short) })
+	want = want[:min(len(want), maxNearMisses)]
+	if len(r.NearMisses) != len(want) {
+		t.Fatalf("%d near misses, the references' searches give %d: %+v", len(r.NearMisses), len(want), want)
+	}
+	for i, nm := range r.NearMisses {
+		ref := ""
+		for _, p := range nm.Parts {
+			if p.Position == "REF" {
+				ref = p.Part
+			}
+		}
+		if math.Abs(nm.Shortfall-want[i].short) > 1e-9*want[i].short || ref != want[i].ref {
+			t.Errorf("near miss %d: shortfall %g with %s, want %g with %s", i+1, nm.Shortfall, ref, want[i].short, want[i].ref)
+		}
+		if nm.TotalCost >= r.Designs[0].TotalCost {
+			t.Errorf("near miss %d costs %g, rank 1 %g", i+1, nm.TotalCost, r.Designs[0].TotalCost)
+		}
+	}
+	t.Logf("near misses from %v", want)
+}
+
+// TestMergeFailing: the merge of the references' near misses keeps those
+// cheaper than the cheapest passing design of any reference, closest
+// first whichever reference they use, and lists as cheapest failing only
+// designs not already near misses, cheapest first.
+func TestMergeFailing(t *testing.T) {
+	nm := func(ref string, cost, short float64) NearMiss {
+		r1 := "X-" + strconv.FormatFloat(cost, 'g', -1, 64)
+		return NearMiss{Design: Design{TotalCost: cost, Parts: []Part{{Position: "R1", Part: r1}, {Position: "REF", Part: ref}}}, Shortfall: short}
+	}
+	nears := []NearMiss{nm("A", 10, 1.5), nm("A", 11, 1.2), nm("B", 12, 1.1), nm("B", 30, 1.01), nm("C", 9, 2), nm("C", 8, 1.3)}
+	cheaps := []NearMiss{nm("A", 5, 4), nm("B", 12, 1.1), nm("C", 6, 3)}
+	res := &Result{}
+	mergeFailing(res, nears, cheaps, 20, 3)
+	var got []string
+	for _, m := range res.NearMisses {
+		got = append(got, m.Parts[1].Part)
+	}
+	// By shortfall: B 1.1, A 1.2, C 1.3 (B at 30 costs more than the
+	// cheapest passing design, 20).
+	if strings.Join(got, " ") != "B A C" || res.NearMisses[0].TotalCost != 12 {
+		t.Errorf("near misses %v, want B A C", got)
+	}
+	if len(res.CheapestFailing) != 1 || res.CheapestFailing[0].TotalCost != 5 {
+		t.Errorf("cheapest failing %+v, want the one at 5", res.CheapestFailing)
+	}
+	mergeFailing(res, nears, nil, math.Inf(1), 3)
+	if len(res.NearMisses) != maxNearMisses || res.NearMisses[0].Shortfall != 1.01 {
+		t.Errorf("with nothing passing, near misses %+v, want the closest of all", res.NearMisses)
 	}
 }
