@@ -39,6 +39,10 @@ type space struct {
 	// gainFrom is, per configuration and open-loop gain, the first option
 	// that meets the gain and drift limits (see evalClass).
 	gainFrom map[aolKey]int32
+	// excluded holds the designs the exact budget failed or could not
+	// run (see solve): no screening passes them any more, so a class
+	// offers its next design instead.
+	excluded map[optKey]bool
 	// Instrumentation amplifier: the second-stage gain of this sub-search,
 	// its choices and the largest voltages across R1/R3 and R2/R4.
 	k2     float64

@@ -32,6 +32,29 @@ func (a *classBest) less(b *classBest) bool {
 	return a.id < b.id
 }
 
+// optKey names one design of the space: a configuration, an op-amp and
+// a value option (cfg -1: the matched amplifier amp, opt -1).
+type optKey struct{ cfg, amp, opt int32 }
+
+func optKeyOf(b *classBest) optKey { return optKey{int32(b.cfg), int32(b.amp), int32(b.opt)} }
+
+// wholeClass as the option of an optKey excludes every design of the
+// class.
+const wholeClass = -2
+
+// exclude takes design k out of the space: no screening passes it.
+func (s *space) exclude(k optKey) {
+	if s.excluded == nil {
+		s.excluded = map[optKey]bool{}
+	}
+	s.excluded[k] = true
+}
+
+// isExcluded reports whether a design is out of the space (exclude).
+func (s *space) isExcluded(cfg, amp, opt int) bool {
+	return s.excluded != nil && s.excluded[optKey{int32(cfg), int32(amp), int32(opt)}]
+}
+
 func (s *space) classID(cfg, amp int) uint64 {
 	if cfg < 0 {
 		return uint64(len(s.cfgs))*uint64(len(s.amps)+1) + uint64(amp)
@@ -50,6 +73,9 @@ func (s *space) classID(cfg, amp int) uint64 {
 // other amplifier of that gain the options before it fail too, and a
 // configuration none of whose options meets them is not evaluated again.
 func (s *space) evalClass(ci, ai int) (classBest, bool) {
+	if s.isExcluded(ci, ai, wholeClass) {
+		return classBest{}, false
+	}
 	c := &s.cfgs[ci]
 	a := &s.amps[ai]
 	var m metrics
@@ -73,7 +99,7 @@ func (s *space) evalClass(ci, ai int) (classBest, bool) {
 		if !known && int32(i) < from && s.passGain(&m) {
 			from = int32(i)
 		}
-		if !s.pass(&m) {
+		if !s.pass(&m) || s.isExcluded(ci, ai, i) {
 			continue
 		}
 		if k := s.tie(c, o, a, &m); best.opt < 0 || k.better(best.key) {
@@ -122,7 +148,7 @@ func (s *space) evalMatchedClass(mi int) classBest {
 	a := &s.matched[mi]
 	b := classBest{id: s.classID(-1, mi), cfg: -1, amp: mi, opt: -1, cost: a.cost}
 	s.evalMatched(a, &b.m)
-	b.pass = s.pass(&b.m)
+	b.pass = s.pass(&b.m) && !s.isExcluded(-1, mi, -1)
 	b.key = s.tie(nil, nil, a, &b.m)
 	return b
 }
@@ -186,11 +212,14 @@ func (s *space) exhaustive(ctx context.Context, n int) ([]classBest, error) {
 		opts := s.options(c)
 		for ai := range s.amps {
 			a := &s.amps[ai]
+			if s.isExcluded(ci, ai, wholeClass) {
+				continue
+			}
 			best := -1
 			var bestKey tieKey
 			for i := range opts {
 				s.evalOpt(c, &opts[i], a, &m)
-				if !s.pass(&m) {
+				if !s.pass(&m) || s.isExcluded(ci, ai, i) {
 					continue
 				}
 				k := s.tie(c, &opts[i], a, &m)

@@ -5,6 +5,7 @@ import (
 	"math"
 	"sort"
 
+	"plumb/catalog"
 	"plumb/optimize/family"
 )
 
@@ -160,43 +161,53 @@ func (s *space) evalLevelShift(c *config, o *option, a *amp, m *metrics) {
 	tol := [5]float64{}
 	all := [5]float64{}
 	drift := [5]float64{}
+	life := [5]float64{}
 	for i := range all {
 		l, c := li, ci
 		tol[i] = ti
 		if fb[i] {
 			l, c, tol[i] = lf, cf, tf
 		}
-		all[i] = (1+tol[i])*(1+l)*(1+c*dT) - 1
+		// The exact budget's resistor, Rnom·(1 + δ + life)·(1 + α·(t - Tref)).
+		all[i] = (1+tol[i]+l)*(1+c*dT) - 1
 		drift[i] = c * dT
+		life[i] = l
 	}
+	// Drift is the slope's change from its own value at the reference
+	// temperature, not from the target: the ratio quantization is no drift.
+	rhoD := p.Gain / sl0
 	refDT := p.RefDrift * dT
 	sSl, sOf := s.lsSensitivities(&v)
+	q := func(sens, e *[5]float64) float64 {
+		t := 0.0
+		for i := range e {
+			t += sens[i] * sens[i] * e[i] * e[i]
+		}
+		return math.Sqrt(t)
+	}
+	m.nomOff = rg0*rho*p.Ref - p.Shift
 	if s.rss {
-		q := func(sens, e *[5]float64) float64 {
-			t := 0.0
-			for i := range e {
-				t += sens[i] * sens[i] * e[i] * e[i]
-			}
-			return math.Sqrt(t)
+		// Tolerance, load life and tempco are independent terms of the
+		// exact RSS budget, each in quadrature.
+		var rssAll, rssMoved [5]float64
+		for i := range rssAll {
+			rssAll[i] = math.Sqrt(tol[i]*tol[i] + life[i]*life[i] + drift[i]*drift[i])
+			rssMoved[i] = math.Hypot(life[i], drift[i])
 		}
 		dr := q(&sSl, &drift)
 		m.drift = dr / dT * 1e6
 		m.gainErr = math.Abs(sys) + q(&sSl, &tol)
-		m.totalErr = math.Abs(sys) + q(&sSl, &all)
+		m.totalErr = math.Abs(sys) + q(&sSl, &rssAll)
 		if p.CalGain {
-			var lifeDrift [5]float64
-			for i := range lifeDrift {
-				lifeDrift[i] = all[i] - tol[i]
-			}
-			m.gainErr, m.totalErr = 0, q(&sSl, &lifeDrift)
+			m.gainErr, m.totalErr = 0, q(&sSl, &rssMoved)
 		}
 		bOff := math.Abs(rg0*rho*p.Ref - p.Shift)
-		resOff := math.Abs(p.Shift) * math.Sqrt(sq(q(&sOf, &all))+sq(p.RefTol)+sq(refDT))
+		resOff := math.Abs(p.Shift) * math.Sqrt(sq(q(&sOf, &rssAll))+sq(p.RefTol)+sq(refDT))
 		m.offset = bOff + resOff
 	} else {
 		e0, _ := s.lsCorners(&v, &tol, rho, 0)
 		eT, offT := s.lsCorners(&v, &all, rho, (1+p.RefTol)*(1+refDT)-1)
-		eD, _ := s.lsCorners(&v, &drift, 1, 0)
+		eD, _ := s.lsCorners(&v, &drift, rhoD, 0)
 		m.gainErr, m.totalErr = e0, eT
 		if dT > 0 {
 			m.drift = eD / dT * 1e6
@@ -206,7 +217,7 @@ func (s *space) evalLevelShift(c *config, o *option, a *amp, m *metrics) {
 			for i := range lifeDrift {
 				lifeDrift[i] = (1+all[i])/(1+tol[i]) - 1
 			}
-			eL, _ := s.lsCorners(&v, &lifeDrift, 1, 0)
+			eL, _ := s.lsCorners(&v, &lifeDrift, rhoD, 0)
 			m.gainErr, m.totalErr = 0, eL
 		}
 		m.offset = offT
@@ -237,6 +248,21 @@ func (s *space) evalLevelShift(c *config, o *option, a *amp, m *metrics) {
 		m.offset += amo.offset
 	}
 	m.offDrift = amo.offDrift
+	if dT > 0 && p.Shift != 0 {
+		// The shift moves with the resistors' tempcos and the reference's
+		// drift: its change from its own value at the reference
+		// temperature (rho scales the nominal share onto the target, so
+		// the ratio rounding counts as offset, not drift), per kelvin.
+		rhoS := p.Shift / (rg0 * p.Ref)
+		var shiftD float64
+		if s.rss {
+			shiftD = math.Abs(p.Shift) * math.Hypot(q(&sOf, &drift), refDT)
+			m.offDrift = math.Hypot(m.offDrift, shiftD/dT)
+		} else {
+			_, shiftD = s.lsCorners(&v, &drift, rhoS, refDT)
+			m.offDrift += shiftD / dT
+		}
+	}
 	m.cmrrDB = noiseFloorDB
 	kt4 := 4 * boltzmann * s.tempK
 	m.noise = ng * math.Sqrt(am.NoiseVHz*am.NoiseVHz+kt4*(rPlus+rMinus)+sq(am.NoiseAHz)*(rPlus*rPlus+rMinus*rMinus))
@@ -360,6 +386,55 @@ func (s *space) levelShiftConfigs() {
 	}
 }
 
+// lsWindows returns the windows of the level shift's two ratios: how far
+// R2 (R2/R1, or Rf/R2 with the reference into the inverting node) and
+// R3/R1 may sit from their targets in a design that can pass. Each is
+// at least the space's window s.w and at most quantWindow. The slope's
+// and the offset's relative errors move with the ratios' relative errors
+// e2, e3 to first order as δg = a2·e2 + a3·e3 and δo = -(a1+a3)·e2 +
+// a3·e3 (lsSensitivities, a the conductance shares, Σa = 1), so e2 =
+// δg - δo and e3 = ((1-a2)·δg + a2·δo)/a3: a ratio may stray further than
+// the gain limit where the two errors cancel in the slope. With the
+// reference into the inverting node, δo = -e2, and R3/R1 is sized for the
+// R2 chosen, so δg = (1-a)·e3 with a = R3/(R1+R3). δg is bounded by the
+// gain error limits, δo by the offset limit (or the channel's room for
+// it) over |Shift|; lsWindowCurvature covers the second-order terms.
+func (s *space) lsWindows() (w2, w3 float64) {
+	p := s.p
+	lg, lo := quantWindow, quantWindow
+	for _, l := range []float64{p.Limits.GainError, p.Limits.TotalGainError} {
+		if l > 0 && !p.CalGain {
+			lg = math.Min(lg, l)
+		}
+	}
+	for _, l := range []float64{p.Limits.OffsetV, p.ResOffsetV} {
+		if l > 0 && !p.CalOffset && p.Shift != 0 {
+			lo = math.Min(lo, l/math.Abs(p.Shift))
+		}
+	}
+	q2, q3 := p.lsRatios()
+	if p.lsInv() {
+		a := q3 / (1 + q3)
+		w2, w3 = lo, lg/(1-a)
+	} else {
+		g1, g2, g3 := 1.0, 1/q2, 1/q3
+		a2, a3 := g2/(g1+g2+g3), g3/(g1+g2+g3)
+		w2, w3 = lg+lo, ((1-a2)*lg+a2*lo)/a3
+	}
+	clamp := func(w float64) float64 {
+		w *= lsWindowCurvature
+		if !(w < quantWindow) {
+			return quantWindow
+		}
+		return math.Max(w, s.w)
+	}
+	return clamp(w2), clamp(w3)
+}
+
+// lsWindowCurvature widens the first-order windows of lsWindows for the
+// curvature of the slope and offset in the ratios.
+const lsWindowCurvature = 1.25
+
 // levelShiftOptions lists the value options of a level-shift
 // configuration: per R1 value, R2 and R3 the values either side of their
 // targets, kept when both ratios are inside the window and every resistor
@@ -383,10 +458,11 @@ func (s *space) levelShiftOptions(c *config) {
 		j   int
 		far bool
 	}
-	near := func(g *group, t float64) []cand {
+	w2, w3 := s.lsWindows()
+	near := func(g *group, t, w float64) []cand {
 		j := sort.SearchFloat64s(g.values, t)
 		out := []cand{{j - 1, false}, {j, false}}
-		lo, hi := sort.SearchFloat64s(g.values, t*(1-s.w)), sort.SearchFloat64s(g.values, t*(1+s.w))
+		lo, hi := sort.SearchFloat64s(g.values, t*(1-w)), sort.SearchFloat64s(g.values, t*(1+w))
 		for x := max(lo-1, 0); x <= min(hi, len(g.values)-1); x++ {
 			if x != j-1 && x != j {
 				out = append(out, cand{x, true})
@@ -403,18 +479,18 @@ func (s *space) levelShiftOptions(c *config) {
 		if inv {
 			base = rfb
 		}
-		for _, cj := range near(g2, q2*base) {
+		for _, cj := range near(g2, q2*base, w2) {
 			j := cj.j
-			if j < 0 || j >= len(g2.values) || math.Abs(g2.values[j]/base/q2-1) > s.w || !s.ratingOK(pw2, mv2, g2.values[j], v2) {
+			if j < 0 || j >= len(g2.values) || math.Abs(g2.values[j]/base/q2-1) > w2 || !s.ratingOK(pw2, mv2, g2.values[j], v2) {
 				continue
 			}
 			q3 := q3
 			if inv {
 				q3 = lsDivider(s.p.Gain / (s.p.lsNoiseGain() + rfb/g2.values[j]))
 			}
-			for _, ck := range near(gi, q3*r1) {
+			for _, ck := range near(gi, q3*r1, w3) {
 				k := ck.j
-				if k < 0 || k >= len(gi.values) || math.Abs(gi.values[k]/r1/q3-1) > s.w || !s.ratingOK(pw, mv, gi.values[k], v3) {
+				if k < 0 || k >= len(gi.values) || math.Abs(gi.values[k]/r1/q3-1) > w3 || !s.ratingOK(pw, mv, gi.values[k], v3) {
 					continue
 				}
 				o := option{rg: int32(i), rf: int32(j), rf2: int32(k), k0: g2.values[j] / r1, rp: gi.values[k] / r1, far: cj.far || ck.far}
@@ -432,10 +508,14 @@ func (s *space) levelShiftOptions(c *config) {
 func (s *space) evalOpt(c *config, o *option, a *amp, m *metrics) {
 	if s.strategy() == family.ShiftNetwork {
 		s.evalLevelShift(c, o, a, m)
-		return
+	} else {
+		var buf grades
+		s.eval(s.optGrades(c, o, &buf), o.k0, o.rp, a, m)
 	}
-	var buf grades
-	s.eval(s.optGrades(c, o, &buf), o.k0, o.rp, a, m)
+	m.lowHead = false
+	if a.a.Type == catalog.OpAmp && s.strategy() != family.TwoStage {
+		m.lowHead = !(s.movedHeadroom(a, m) >= 0)
+	}
 }
 
 // lsDominant names the largest contributor to a level shift's limit from

@@ -36,13 +36,14 @@ func genLevelShiftProblem(r *rand.Rand) Problem {
 
 // genLevelShiftInvProblem makes a random level shift with a negative
 // offset: a unipolar input from 10 % or 25 % of its span up to it onto a
-// window inside [0, Vref] starting near 0 V, so b = lo - m·Vin,min < 0 and
+// window inside [0, Vref] starting 0.1 or 0.25 V above 0 V (nearer, most
+// designs' errors take the output past the amplifier's swing), so b = lo - m·Vin,min < 0 and
 // the reference enters the inverting input.
 func genLevelShiftInvProblem(r *rand.Rand) Problem {
 	p := genLevelShiftProblem(r)
 	in := []float64{2.5, 4.5, 10}[r.IntN(3)]
 	p.InMin, p.InMax = in*[]float64{0.1, 0.25}[r.IntN(2)], in
-	lo, hi := []float64{0.05, 0.1}[r.IntN(2)], p.Ref*[]float64{0.9, 0.5}[r.IntN(2)]
+	lo, hi := []float64{0.1, 0.25}[r.IntN(2)], p.Ref*[]float64{0.9, 0.5}[r.IntN(2)]
 	p.Gain = (hi - lo) / (p.InMax - p.InMin)
 	p.Shift = lo - p.Gain*p.InMin
 	return p

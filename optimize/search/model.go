@@ -21,6 +21,10 @@ type metrics struct {
 	noise    float64 // output noise density, V/√Hz
 	noiseRMS float64 // output noise over π/2 x the closed-loop bandwidth, V
 	bw       float64 // closed-loop bandwidth, Hz
+	// lowHead says the output's errors take it past the amplifier's swing
+	// (space.movedHeadroom); the zero value passes.
+	lowHead bool
+	nomOff  float64 // a level shift's nominal shift less the target's, V (part of offset)
 }
 
 // boltzmann is k in J/K, exact since the 2019 SI.
@@ -331,6 +335,7 @@ func (s *space) pass(m *metrics) bool {
 		withinMax(m.offDrift, l.OffsetDriftVK) &&
 		withinMax(m.noise, l.NoiseDensity) &&
 		withinMax(m.noiseRMS, l.NoiseRMS) &&
+		!m.lowHead &&
 		s.p.Channel.Pass(m.totalErr, m.offset, m.drift, m.offDrift, m.noiseRMS)
 }
 

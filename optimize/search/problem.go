@@ -149,7 +149,11 @@ type Problem struct {
 	// Channel screens the channel's limits at the ADC from the stage's
 	// figures (nil: the spec has none); see budget.ChannelScreen.
 	Channel *budget.ChannelScreen
-	Build   cost.Build
+	// ResOffsetV is the output offset the resistors may add that the
+	// channel's total error leaves room for (0: no such limit); unlike
+	// Limits.OffsetV it holds with a shared reference too.
+	ResOffsetV float64
+	Build      cost.Build
 	// SeriesPairs and ParallelPairs allow two values in series or in
 	// parallel at a feedback position (Options.Combos allows both).
 	SeriesPairs, ParallelPairs bool

@@ -476,35 +476,37 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 	}
 	var top []classBest
 	var st stats
-	for {
-		if exhaustive {
-			st = stats{classes: sp.classCount(), visited: sp.classCount(), evaluated: sp.classCount()}
-			top, err = sp.exhaustive(ctx, keep)
-		} else {
-			top, st, err = sp.branchAndBound(ctx, keep, opt.Progress)
+	classes := func() error {
+		for {
+			var err error
+			if exhaustive {
+				st = stats{classes: sp.classCount(), visited: sp.classCount(), evaluated: sp.classCount()}
+				top, err = sp.exhaustive(ctx, keep)
+			} else {
+				top, st, err = sp.branchAndBound(ctx, keep, opt.Progress)
+			}
+			if err != nil {
+				return fmt.Errorf("search: %w", err)
+			}
+			// Classes of the same grades in other sizes or technologies fold
+			// into one design: where they crowd the list, look further.
+			if len(top) < keep || keep >= maxKeep*opt.Top {
+				return nil
+			}
+			distinct, err := sp.distinctDesigns(top)
+			if err != nil {
+				return err
+			}
+			if distinct >= opt.Top+verifyExtra(opt.Top) || (verify == nil && distinct >= opt.Top) {
+				return nil
+			}
+			keep *= 4
 		}
-		if err != nil {
-			return nil, fmt.Errorf("search: %w", err)
-		}
-		// Classes of the same grades in other sizes or technologies fold
-		// into one design: where they crowd the list, look further.
-		if len(top) < keep || keep >= maxKeep*opt.Top {
-			break
-		}
-		distinct, err := sp.distinctDesigns(top)
-		if err != nil {
-			return nil, err
-		}
-		if distinct >= opt.Top+verifyExtra(opt.Top) || (verify == nil && distinct >= opt.Top) {
-			break
-		}
-		keep *= 4
 	}
-	if opt.Progress != nil {
-		opt.Progress(st.classes, st.classes)
+	if err := classes(); err != nil {
+		return nil, err
 	}
-	res := &Result{Method: string(p.Method), Designs: []Design{}, NearMisses: []NearMiss{},
-		Search: Stats{Classes: st.classes, Visited: st.visited, BoundPruned: st.boundPruned, Evaluated: st.evaluated}}
+	res := &Result{Method: string(p.Method), Designs: []Design{}, NearMisses: []NearMiss{}}
 	if p.hazardous() {
 		res.Cautions = append(res.Cautions, hazardCaution)
 	}
@@ -516,56 +518,111 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 	var rejected []NearMiss
 	var broken unchecked
 	limit := math.Inf(1)
-	folded := map[string]int{} // grade key -> index in res.Designs
 	type fold struct {
 		n        int
 		min, max float64
 		parts    string
 	}
-	folds := map[int]*fold{}
-	for i := range top {
-		if len(res.Designs) >= opt.Top {
+	var folds map[int]*fold
+	// The exact budget has the last word. A design it fails (or cannot
+	// run) leaves the space (exclude), and its class offers its next
+	// design in cost order, which takes its place in the ranking; when
+	// the classes kept run out before Top designs pass, the search runs
+	// again past them. So a spec is called infeasible only when every
+	// design that passes the screening has failed the exact budget, or
+	// the search says it stopped short (maxRejected).
+	budgeted := 0 // designs the exact budget failed or could not run
+	maxOut := maxRejected
+	if opt.quick {
+		maxOut = maxRejectedQuick
+	}
+	passed := map[optKey]*budget.Result{} // designs the exact budget passed, kept over the rounds
+	failedIn := map[uint64]int{}          // per class, its designs the exact budget failed
+	cut := map[uint64]bool{}              // classes whose dearer designs were not tried
+	for {
+		complete := len(top) < keep // every class that passes the screening is in top
+		res.Designs, res.designs = res.Designs[:0], res.designs[:0]
+		limit = math.Inf(1)
+		folded := map[string]int{} // grade key -> index in res.Designs
+		folds = map[int]*fold{}
+		for i := 0; i < len(top); i++ {
+			if len(res.Designs) >= opt.Top {
+				break
+			}
+			d, sd, err := sp.describe(&top[i])
+			if err != nil {
+				return nil, err
+			}
+			if j, ok := folded[gradeKey(&d)]; ok {
+				more := d.UnitCost - res.Designs[j].UnitCost
+				if f := folds[j]; f == nil {
+					folds[j] = &fold{1, more, more, partList(&d)}
+				} else {
+					f.n++
+					f.min, f.max = math.Min(f.min, more), math.Max(f.max, more)
+				}
+				continue
+			}
+			if verify != nil {
+				k := optKeyOf(&top[i])
+				br, fails, err := passed[k], []Failure(nil), error(nil)
+				if br == nil {
+					br, fails, err = verify(sd)
+				}
+				if err == nil {
+					adopt(&d, br)
+				}
+				if err == nil && len(fails) == 0 {
+					passed[k] = br
+				}
+				if err != nil || len(fails) > 0 {
+					budgeted++
+					cls := top[i].id
+					failedIn[cls]++
+					advance := budgeted <= maxOut && failedIn[cls] <= maxClassRejected
+					if !advance && top[i].cfg >= 0 {
+						cut[cls] = true
+					}
+					if err != nil {
+						// One verdict per design: what the exact budget
+						// cannot evaluate is not ranked.
+						broken.add(err)
+					} else {
+						nm := NearMiss{Design: d, Fails: fails, sd: sd, class: top[i], Shortfall: exactShortfall(d.Limits)}
+						nm.Reasons = []string{"passes the search's screening figures, but the exact budget fails it: " + failText(fails)}
+						rejected = append(rejected, nm)
+					}
+					top = sp.replaceFailed(top, i, complete, advance)
+					continue
+				}
+			}
+			if len(res.Designs) == 0 {
+				limit = top[i].cost
+			}
+			d.Rank = len(res.Designs) + 1
+			d.ValueVariants = sp.variants(&top[i])
+			d.Reasons = sp.reasons(&top[i], &d, res.Designs)
+			folded[gradeKey(&d)] = len(res.Designs)
+			res.Designs = append(res.Designs, d)
+			res.designs = append(res.designs, sd)
+		}
+		if complete || len(res.Designs) >= opt.Top || verify == nil || keep >= maxKeep*opt.Top {
 			break
 		}
-		d, sd, err := sp.describe(&top[i])
-		if err != nil {
+		// The classes kept ran out: search again past them, the failed
+		// designs left out. A design budgeted before is not budgeted
+		// again: it is out of the space, or it passed.
+		keep *= 4
+		if err := classes(); err != nil {
 			return nil, err
 		}
-		if j, ok := folded[gradeKey(&d)]; ok {
-			more := d.UnitCost - res.Designs[j].UnitCost
-			if f := folds[j]; f == nil {
-				folds[j] = &fold{1, more, more, partList(&d)}
-			} else {
-				f.n++
-				f.min, f.max = math.Min(f.min, more), math.Max(f.max, more)
-			}
-			continue
-		}
-		if verify != nil {
-			br, fails, err := verify(sd)
-			if err != nil {
-				// One verdict per design: what the exact budget cannot
-				// evaluate is not ranked.
-				broken.add(err)
-				continue
-			}
-			adopt(&d, br)
-			if len(fails) > 0 {
-				nm := NearMiss{Design: d, Fails: fails, sd: sd, class: top[i], Shortfall: exactShortfall(d.Limits)}
-				nm.Reasons = []string{"passes the search's screening figures, but the exact budget fails it: " + failText(fails)}
-				rejected = append(rejected, nm)
-				continue
-			}
-		}
-		if len(res.Designs) == 0 {
-			limit = top[i].cost
-		}
-		d.Rank = len(res.Designs) + 1
-		d.ValueVariants = sp.variants(&top[i])
-		d.Reasons = sp.reasons(&top[i], &d, res.Designs)
-		folded[gradeKey(&d)] = len(res.Designs)
-		res.Designs = append(res.Designs, d)
-		res.designs = append(res.designs, sd)
+	}
+	if opt.Progress != nil {
+		opt.Progress(st.classes, st.classes)
+	}
+	res.Search = Stats{Classes: st.classes, Visited: st.visited, BoundPruned: st.boundPruned, Evaluated: st.evaluated}
+	if len(cut) > 0 {
+		res.Notes = append(res.Notes, fmt.Sprintf("the exact budget failed the cheaper designs of %d class(es) that pass the screening figures; their dearer designs were not tried (at most %d per class, %d in all), so a design cheaper than those listed may pass: check one by hand with plumb check", len(cut), maxClassRejected, maxOut))
 	}
 	// One line per design for the classes folded into it.
 	for j, f := range folds {
@@ -604,7 +661,9 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 			res.Infeasible.Hard, need = hardCauses(parts, &p)
 			res.Infeasible.rails = &need
 		}
-		if len(rejected) > 0 {
+		if len(cut) > 0 {
+			res.Infeasible.Message += "; not proven: the exact budget failed so many designs that pass the screening figures that the dearer designs of some classes were not tried (see the notes)"
+		} else if len(rejected) > 0 {
 			res.Infeasible.Message += "; the designs that pass the screening figures all fail the exact budget (see the near misses)"
 		} else if broken.n > 0 {
 			res.Infeasible.Message += "; the exact budget could not be run on the designs that pass the screening figures (see the notes)"
@@ -612,6 +671,44 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 		return res, ErrInfeasible
 	}
 	return res, nil
+}
+
+// maxRejected bounds the designs of one search the exact budget fails (or
+// cannot run) whose classes still offer their next design, and
+// maxClassRejected those of one class; beyond them a class is dropped
+// with its failed design, and the search says so (see solve).
+// maxRejectedQuick is maxRejected for the re-solves of a diagnosis.
+const (
+	maxRejected      = 120
+	maxRejectedQuick = 24
+	maxClassRejected = 12
+)
+
+// replaceFailed takes top[i], a design the exact budget failed, out of
+// the space and, with advance, puts its class's next design in cost order
+// (evalClass skips excluded designs) into top, in order after i. With
+// complete false, top holds only the cheapest classes, and a next design
+// dearer than its last is left for the search's next round. It returns
+// top.
+func (s *space) replaceFailed(top []classBest, i int, complete, advance bool) []classBest {
+	b := top[i]
+	s.exclude(optKeyOf(&b))
+	if b.cfg < 0 {
+		return top // a matched amplifier has one design
+	}
+	if !advance {
+		s.exclude(optKey{int32(b.cfg), int32(b.amp), wholeClass})
+		return top
+	}
+	nb, ok := s.evalClass(b.cfg, b.amp)
+	if !ok || (!complete && top[len(top)-1].less(&nb)) {
+		return top
+	}
+	j := i + 1 + sort.Search(len(top)-i-1, func(k int) bool { return nb.less(&top[i+1+k]) })
+	top = append(top, classBest{})
+	copy(top[j+1:], top[j:])
+	top[j] = nb
+	return top
 }
 
 // foldExtra is how many classes per ranked design the search keeps at
@@ -713,10 +810,16 @@ func (s *space) reasons(b *classBest, d *Design, above []Design) []string {
 		out = append(out, s.rankLine(&above[len(above)-1], d))
 	}
 	if d.ValueVariants > 1 {
+		// The channel's screen reads below the exact budget by its slack:
+		// its count is of candidates, not of designs that pass.
+		screened := ""
+		if s.p.Channel != nil {
+			screened = " the screening figures"
+		}
 		if n := d.ValueVariants - 1; n == 1 {
-			out = append(out, "1 other choice of values in these grades also passes")
+			out = append(out, "1 other choice of values in these grades also passes"+screened)
 		} else {
-			out = append(out, fmt.Sprintf("%d other choices of values in these grades also pass", n))
+			out = append(out, fmt.Sprintf("%d other choices of values in these grades also pass%s", n, screened))
 		}
 	}
 	if len(d.ShortStock) > 0 {

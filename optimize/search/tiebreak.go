@@ -48,9 +48,10 @@ type tieKey struct {
 	head     float64 // output swing margin 1 + headroom/budget.NearPinV (0: no amplifier)
 }
 
-// numTieMargins holds every screening limit, the input impedance, the
-// output swing headroom and the two ratings.
-const numTieMargins = 14
+// numTieMargins holds every screening limit (the channel's two among
+// them), the input impedance, the output swing headroom and the two
+// ratings.
+const numTieMargins = 16
 
 // The steps of the material tier. A tenth of a dB is the resolution a CMRR
 // or rejection figure is quoted to on a datasheet (common practice), and
@@ -127,6 +128,13 @@ func (s *space) eachMargin(m *metrics, zin, head, power, voltage float64, f func
 	max(m.offDrift, l.OffsetDriftVK)
 	max(m.noise, l.NoiseDensity)
 	max(m.noiseRMS, l.NoiseRMS)
+	if cs := s.p.Channel; cs != nil {
+		// The channel's total error and drift at the ADC, screened.
+		e, d := cs.Totals(m.totalErr, m.offset, m.drift, m.offDrift, m.noiseRMS)
+		le, ld := cs.Limits()
+		max(e, le)
+		max(d, ld)
+	}
 	if l.CMRRdB > 0 {
 		f(math.Pow(10, (m.cmrrDB-l.CMRRdB)/20), true)
 	}
