@@ -76,22 +76,38 @@ func networkPairs(n *catalog.Network) [][2]float64 {
 	return out
 }
 
-// stage2Value is the value a discrete unity-gain second stage uses: the
-// group value nearest the geometric middle of the resistor window, where
-// neither bias-current error and noise (high values) nor loading of the
-// first stage (low values) dominates.
-func (s *space) stage2Value(g *group) int {
-	mid := math.Sqrt(s.p.RMinOhm * s.p.RMaxOhm)
-	best := -1
+// stage2Values lists the values a discrete unity-gain second stage of
+// group g may use: every value the ratings allow at R1..R4 that is cheaper
+// at its four placements than every smaller value they allow. The
+// screening figures grow with the value and the ratings only ease with it
+// (the bias currents through R2 and the noise of R1∥R2 in evalInAmp;
+// v²/R and U = sqrt(P·R), see ratingOK), so a smaller value that costs no
+// more serves at least as well, and a larger catalog can only add values
+// that take the place of dearer ones. The list depends on prices, never on
+// the middle of the window: a value nearer the middle but dearer is never
+// preferred.
+//
+// Not offered: a value that is dearer on its own line but shares a part
+// number with the first stage's Rg or Rf, where the merged line's price
+// breaks or one line item fewer could make it the cheaper design. Offering
+// those multiplies the configurations by the values of a grade (issue 11).
+//
+// The loading of the first stage by R1 and R3 is taken as acceptable
+// anywhere in the spec's resistor window: the window is the engineer's
+// statement of the values the stage may use.
+func (s *space) stage2Values(g *group) []int {
+	best := math.Inf(1)
+	var kept []int
 	for i, v := range g.values {
 		if !s.ratingOK(g.grade.PowerW, g.grade.MaxVoltageV, v, s.v1) || !s.ratingOK(g.grade.PowerW, g.grade.MaxVoltageV, v, s.v2) {
 			continue
 		}
-		if best < 0 || math.Abs(math.Log(v/mid)) < math.Abs(math.Log(g.values[best]/mid)) {
-			best = i
+		if e := g.at(i, 4).ext; !math.IsNaN(e) && e < best {
+			best = e
+			kept = append(kept, i)
 		}
 	}
-	return best
+	return kept
 }
 
 // inampConfigs builds the second-stage choices of gain s.k2 and one
@@ -100,8 +116,8 @@ func (s *space) inampConfigs(parts *Parts, fams map[Family]bool) {
 	p := s.p
 	if fams[variant(s.fam(), buildDiscrete)] && s.k2 == 1 {
 		for gi, g := range s.groups {
-			if vi := s.stage2Value(g); vi >= 0 {
-				gr := g.grade
+			gr := g.grade
+			for _, vi := range s.stage2Values(g) {
 				s.st2 = append(s.st2, stage2{fam: variant(s.fam(), buildDiscrete), grp: gi, vi: int32(vi), net: -1, r1: g.values[vi], r2: g.values[vi],
 					g: discreteGrades(gr.Tolerance, gr.TCR, gr.LoadLife, gr.Tolerance, gr.TCR, gr.LoadLife, s.dT)})
 			}
@@ -149,41 +165,65 @@ func (s *space) inampConfigs(parts *Parts, fams map[Family]bool) {
 }
 
 // inampLB is the least resistor cost of any value option of an in-amp
-// configuration: Rg placed once, Rf twice, a discrete second stage four
-// times, over every way lines of one group could merge into one part
-// number (a merged line is priced at the sum of its placements), plus the
-// network's line. NaN when unpriced.
+// configuration: Rg placed once, Rf twice, a discrete second stage (its
+// own value) four times, over every way lines could merge into one part
+// number (lineElem), plus the network's line. NaN when unpriced.
 func (s *space) inampLB(ga, gb *group, st *stage2) float64 {
 	if st.grp >= 0 {
-		return linesLB(s, []*group{ga, gb, s.groups[st.grp]}, []int{s.perG, s.perF, 4}, 0)
+		return linesLB(s, []lineElem{{ga, -1, s.perG}, {gb, -1, s.perF}, {s.groups[st.grp], int(st.vi), 4}}, 0)
 	}
-	return linesLB(s, []*group{ga, gb}, []int{s.perG, s.perF}, st.netCost)
+	return linesLB(s, []lineElem{{ga, -1, s.perG}, {gb, -1, s.perF}}, st.netCost)
 }
 
-// linesLB is the least cost of lines of groups gs placed ns times each,
-// over every way lines of one group could merge into one part number (a
-// merged line is priced at the sum of its placements), plus extra. NaN
-// when unpriced.
-func linesLB(s *space, gs []*group, ns []int, extra float64) float64 {
+// lineElem is one position of a lower bound on cost: group g placed n
+// times per stage at value index vi (-1: any value of the group).
+type lineElem struct {
+	g     *group
+	vi, n int
+}
+
+// fromAt is the least extended price of value i of g bought for p or more
+// placements (see extFrom); NaN when none can be bought.
+func (g *group) fromAt(i, p int) float64 {
+	m := math.NaN()
+	for q := p; q <= maxPlace; q++ {
+		if e := g.at(i, q).ext; !math.IsNaN(e) && (math.IsNaN(m) || e < m) {
+			m = e
+		}
+	}
+	return m
+}
+
+// linesLB is the least cost of the positions es, over every way positions
+// could merge into one part number (same group, and the same value where
+// both name one; a merged line is priced at the sum of its placements),
+// plus extra. NaN when unpriced.
+func linesLB(s *space, es []lineElem, extra float64) float64 {
 	best := math.NaN()
 	// label[i] is the line of element i: a restricted growth string, so
-	// every partition is visited once; elements share a line only when
-	// they share a group.
-	label := make([]int, len(gs))
+	// every partition is visited once.
+	label := make([]int, len(es))
 	var walk func(i, lines int)
 	walk = func(i, lines int) {
-		if i == len(gs) {
+		if i == len(es) {
 			total, place := 0.0, 0
 			for l := 0; l < lines; l++ {
-				n := 0
+				n, vi := 0, -1
 				var g *group
-				for j := range gs {
+				for j := range es {
 					if label[j] == l {
-						n += ns[j]
-						g = gs[j]
+						n += es[j].n
+						g = es[j].g
+						if es[j].vi >= 0 {
+							vi = es[j].vi
+						}
 					}
 				}
-				total += g.extFrom(n)
+				if vi >= 0 {
+					total += g.fromAt(vi, n)
+				} else {
+					total += g.extFrom(n)
+				}
 				place += n
 			}
 			if c := total + s.assembly(place, lines) + extra; !math.IsNaN(c) && (math.IsNaN(best) || c < best) {
@@ -194,7 +234,7 @@ func linesLB(s *space, gs []*group, ns []int, extra float64) float64 {
 		for l := 0; l <= lines; l++ {
 			ok := true
 			for j := 0; j < i; j++ {
-				if label[j] == l && gs[j] != gs[i] {
+				if label[j] == l && (es[j].g != es[i].g || (es[j].vi >= 0 && es[i].vi >= 0 && es[j].vi != es[i].vi)) {
 					ok = false
 				}
 			}

@@ -379,7 +379,7 @@ func (s *space) levelShiftConfigs() {
 			if s.p.lsInv() {
 				g2 = gf
 			}
-			if c.costLB = linesLB(s, []*group{gi, g2, gi, gf}, []int{1, 1, 1, 2}, 0); !math.IsNaN(c.costLB) {
+			if c.costLB = linesLB(s, []lineElem{{gi, -1, 1}, {g2, -1, 1}, {gi, -1, 1}, {gf, fv, 2}}, 0); !math.IsNaN(c.costLB) {
 				s.cfgs = append(s.cfgs, c)
 			}
 		}

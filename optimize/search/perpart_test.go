@@ -143,25 +143,22 @@ func TestPerPartCatalogFileMatchesMemory(t *testing.T) {
 }
 
 // TestLargerCatalogNeverDearer: adding parts to a catalog can only add
-// values and cheaper parts, so the rank-1 design of the larger catalog should
+// values and cheaper parts, so the rank-1 design of the larger catalog must
 // never cost more than that of the smaller one it contains, and whatever the
-// smaller one can build the larger one should build too. It holds for the
-// single values of difference, non-inverting, inverting and divider stages
-// (offering only the two values either side of the target, as the search
-// did before parts were priced one by one, fails seed 393 there).
+// smaller one can build the larger one must build too. It holds where the
+// search offers value sets that depend on the values alone, or on prices
+// only through a dominance a larger catalog can only strengthen: every
+// single value inside the window, and the in-amp second-stage values that
+// are cheaper than every smaller one (stage2Values). Series and parallel
+// pairs and the level shift's Rg = Rf do not keep it yet (pairGap, lsGap):
+// their cases are skipped with the reason, PLUMB_SUPERSET_GAPS=1 runs them.
 //
-// It does not hold yet where the search picks a value by a rule that a
-// larger catalog can change: series and parallel pairs (the partner values
-// are the ones nearer the target than the best single value and cheaper
-// than those between, so a new value can push a usable pair out: seed 26
-// has a design from the smaller catalog and none from the larger), the
-// in-amp's second stage and the level shift's Rg = Rf (one value per
-// grade, the one nearest the middle of the resistor window: a new, dearer
-// value nearer the middle replaces a cheaper one; in-amp seeds 3, 19, 77,
-// 123, 164, 193, level-shift seeds 117 and 12, 37, 78, 101). Those cases
-// are listed with the gap they show and skipped (PLUMB_SUPERSET_GAPS=1
-// runs them), so that the property is checked as soon as the search offers
-// every value they need.
+// Regression cases, each failing once: single values seed 393 (only the
+// two values either side of the target were offered); in-amp seeds 3, 19,
+// 77, 123, 164, 193 (one second-stage value per grade, the one nearest the
+// middle of the window: 13.0k replaced a cheaper 12.7k); pairs seed 26;
+// level shift seeds 117 and, reference into the inverting node, 12, 37,
+// 78, 101.
 func TestLargerCatalogNeverDearer(t *testing.T) {
 	tests := []struct {
 		name   string
@@ -169,25 +166,48 @@ func TestLargerCatalogNeverDearer(t *testing.T) {
 		combos bool
 		stream uint64
 		cases  uint64
+		least  int    // fewest feasible cases for the property to have teeth
 		gap    string // why the property does not hold yet ("": it does)
 	}{
-		{"single values", genProblem, false, 23, 500, ""},
-		{"series and parallel pairs", genProblem, true, 24, 300, "pairs are chosen relative to the best single value"},
-		{"in-amp and its second stage", genInAmpProblem, false, 25, 200, "one second-stage value per grade, nearest the middle of the window"},
-		{"level shift, reference into the non-inverting node", genLevelShiftProblem, false, 26, 200, "one Rg = Rf value per grade, nearest the middle of the window"},
-		{"level shift, reference into the inverting node", genLevelShiftInvProblem, false, 27, 200, "one Rg = Rf value per grade, nearest the middle of the window"},
+		{"single values", genProblem, false, 23, 500, 100, ""},
+		{"series and parallel pairs", genProblem, true, 24, 300, 60, pairGap},
+		{"in-amp and its second stage", genInAmpProblem, false, 25, 200, 40, ""},
+		// Few level shifts of the generated problems find values for both
+		// their ratios in these catalogs: more cases.
+		{"level shift, reference into the non-inverting node", genLevelShiftProblem, false, 26, 400, 40, lsGap},
+		{"level shift, reference into the inverting node", genLevelShiftInvProblem, false, 27, 200, 40, lsGap},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
 			if tc.gap != "" && os.Getenv("PLUMB_SUPERSET_GAPS") == "" {
 				t.Skipf("known gap (issue 11): %s", tc.gap)
 			}
-			largerNeverDearer(t, tc.gen, tc.combos, tc.stream, tc.cases)
+			largerNeverDearer(t, tc.gen, tc.combos, tc.stream, tc.cases, tc.least)
 		})
 	}
 }
 
-func largerNeverDearer(t *testing.T, gen func(*rand.Rand) Problem, combos bool, stream, cases uint64) {
+// pairGap is why series and parallel pairs do not keep the property yet:
+// the partner values are the ones nearer the target than the best single
+// value and cheaper than those between, so a new value can push a usable
+// pair out (seed 26). Offering every pair inside the window keeps it, but
+// multiplies the options by the values of a decade and a half (the in-amp
+// equivalence test on E96 series then needs gigabytes); a pair's figures
+// depend on its total alone, so no smaller set is safe without pruning
+// by the limits.
+const pairGap = "pairs are chosen relative to the best single value"
+
+// lsGap is why the level shift does not keep the property yet: one Rg = Rf
+// value per grade, the one nearest the middle of the window, so a new,
+// dearer value nearer the middle replaces a cheaper one. Offering every
+// value multiplies the configurations by the values of a grade (the
+// diagnosis's relaxed re-solves then run out of time and memory); the
+// bias-current term Ib·|R+ - R-| is not monotonic in Rg∥Rf, so a Pareto
+// set has to be taken per option (R+ known), not per grade.
+// PLUMB_SUPERSET_GAPS=1 runs these cases.
+const lsGap = "one Rg = Rf value per grade, nearest the middle of the window"
+
+func largerNeverDearer(t *testing.T, gen func(*rand.Rand) Problem, combos bool, stream, cases uint64, least int) {
 	feasible := 0
 	for seed := uint64(1); seed <= cases; seed++ {
 		r := rand.New(rand.NewPCG(seed, stream))
@@ -215,7 +235,7 @@ func largerNeverDearer(t *testing.T, gen func(*rand.Rand) Problem, combos bool, 
 			t.Errorf("seed %d: rank 1 costs %.6f from the larger catalog (%v), %.6f from the smaller one inside it (%v)", seed, b, br.Designs[0].Parts, s, sr.Designs[0].Parts)
 		}
 	}
-	if feasible < int(cases)/5 {
+	if feasible < least {
 		t.Errorf("only %d of %d cases are feasible: the property has no teeth", feasible, cases)
 	}
 	t.Logf("%d of %d cases feasible", feasible, cases)
