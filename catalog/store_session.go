@@ -34,6 +34,9 @@ type UpsertSession struct {
 	u     *upsertRun
 	kinds map[*table]*kindState
 	ended bool
+	// rebuild holds the CREATE INDEX statements of the indexes the session
+	// dropped (deferIndexes), run at Commit.
+	rebuild []string
 }
 
 // kindState is what a session keeps per table between chunks.
@@ -90,7 +93,46 @@ func (s *Store) BeginUpsert(ctx context.Context, opt UpsertOptions) (*UpsertSess
 		tx.Rollback()
 		return nil, fmt.Errorf("catalog: upsert into %s: %w: nothing was written", where, err)
 	}
-	return &UpsertSession{s: s, where: where, u: u, kinds: map[*table]*kindState{}}, nil
+	us := &UpsertSession{s: s, where: where, u: u, kinds: map[*table]*kindState{}}
+	if err := us.deferIndexes(ctx); err != nil {
+		tx.Rollback()
+		return nil, fmt.Errorf("catalog: upsert into %s: %w: nothing was written", where, err)
+	}
+	return us, nil
+}
+
+// deferIndexes drops the secondary indexes (resistor values, part
+// history) of tables that are empty when the session begins, and Commit
+// builds them again inside the same transaction: one index built from the
+// finished table costs less than one grown by a million inserts in random
+// key order, and a rollback restores a dropped index with everything else,
+// so the import stays all or nothing. A table that already holds parts
+// keeps its indexes (rebuilding them for a small import would cost more).
+func (us *UpsertSession) deferIndexes(ctx context.Context) error {
+	var xs []struct {
+		Name  string `db:"name"`
+		Table string `db:"tbl_name"`
+		SQL   string `db:"sql"`
+	}
+	tx := us.u.tx
+	if err := tx.SelectContext(ctx, &xs, `SELECT name, tbl_name, sql FROM sqlite_master
+		WHERE type = 'index' AND sql IS NOT NULL AND tbl_name IN ('resistors', 'part_history') ORDER BY name`); err != nil {
+		return fmt.Errorf("read the indexes: %w", err)
+	}
+	for _, x := range xs {
+		var empty bool
+		if err := tx.GetContext(ctx, &empty, "SELECT NOT EXISTS (SELECT 1 FROM "+x.Table+")"); err != nil {
+			return fmt.Errorf("look at %s: %w", x.Table, err)
+		}
+		if !empty {
+			continue
+		}
+		if _, err := tx.ExecContext(ctx, "DROP INDEX "+x.Name); err != nil {
+			return fmt.Errorf("defer index %s: %w", x.Name, err)
+		}
+		us.rebuild = append(us.rebuild, x.SQL)
+	}
+	return nil
 }
 
 // Add validates b and writes its parts in the session's transaction,
@@ -154,6 +196,12 @@ func (us *UpsertSession) Commit() (err error) {
 	}
 	us.closeStatements()
 	us.ended = true
+	for _, q := range us.rebuild {
+		if _, err := us.u.tx.Exec(q); err != nil {
+			us.u.tx.Rollback()
+			return us.fail(fmt.Errorf("build index: %w", err))
+		}
+	}
 	if err := us.u.tx.Commit(); err != nil {
 		us.u.tx.Rollback()
 		return us.fail(fmt.Errorf("commit: %w", err))

@@ -157,3 +157,80 @@ func BenchmarkUpsertSession100k(b *testing.B) {
 		return us.Commit()
 	})
 }
+
+// TestSessionIndexesRestored: a session into an empty table drops its
+// secondary indexes and builds them again at Commit (deferIndexes); after
+// a commit, a failed chunk, a dry run or a session into a table that
+// already holds parts, the catalog has the same indexes, to the SQL, as a
+// new one, and the value index answers a query.
+func TestSessionIndexesRestored(t *testing.T) {
+	ctx := context.Background()
+	bad := bigBatch(3, "BAD")
+	bad.Resistors[2].Tolerance = -1
+	indexes := func(s *Store) map[string]string {
+		var xs []struct {
+			Name string `db:"name"`
+			SQL  string `db:"sql"`
+		}
+		if err := s.db.SelectContext(ctx, &xs, "SELECT name, sql FROM sqlite_master WHERE type = 'index' AND sql IS NOT NULL"); err != nil {
+			t.Fatal(err)
+		}
+		out := map[string]string{}
+		for _, x := range xs {
+			out[x.Name] = x.SQL
+		}
+		return out
+	}
+	want := indexes(memStore(t))
+	if want["resistors_value"] == "" || want["part_history_part"] == "" {
+		t.Fatalf("a new catalog's indexes %v lack the value or history index", want)
+	}
+	tests := []struct {
+		name   string
+		before *Snapshot
+		chunks []*Snapshot
+		dryRun bool
+		commit bool
+		kept   int
+	}{
+		{"commit into an empty catalog", nil, []*Snapshot{bigBatch(40, "A"), bigBatch(30, "B")}, false, true, 70},
+		{"failed chunk into an empty catalog", nil, []*Snapshot{bigBatch(40, "A"), bad}, false, false, 0},
+		{"dry run into an empty catalog", nil, []*Snapshot{bigBatch(40, "A")}, true, true, 0},
+		{"commit into a catalog with parts", bigBatch(5, "E"), []*Snapshot{bigBatch(40, "A")}, false, true, 45},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			s := memStore(t)
+			if tc.before != nil {
+				mustUpsert(t, s, tc.before, UpsertOptions{Now: testTime})
+			}
+			us, err := s.BeginUpsert(ctx, UpsertOptions{Now: testTime, DryRun: tc.dryRun})
+			if err != nil {
+				t.Fatal(err)
+			}
+			defer us.Rollback()
+			for _, c := range tc.chunks {
+				if _, err = us.Add(ctx, c); err != nil {
+					break
+				}
+			}
+			if tc.commit {
+				if err != nil {
+					t.Fatal(err)
+				}
+				if err := us.Commit(); err != nil {
+					t.Fatal(err)
+				}
+			} else if err == nil {
+				t.Fatal("the bad chunk was taken")
+			}
+			if got := indexes(s); !reflect.DeepEqual(got, want) {
+				t.Errorf("indexes after the session %v, want %v", got, want)
+			}
+			var n int
+			if err := s.db.GetContext(ctx, &n, "SELECT COUNT(*) FROM resistors INDEXED BY resistors_value WHERE value_ohm > 0"); err != nil || n != tc.kept {
+				t.Errorf("%d resistors through the value index (%v), want %d", n, err, tc.kept)
+			}
+		})
+	}
+}
