@@ -8,6 +8,7 @@ import (
 	"strconv"
 	"strings"
 
+	"plumb/catalog"
 	"plumb/optimize/family"
 )
 
@@ -575,6 +576,9 @@ func parseBuild(p *problems, r *rawSpec, s *Spec) {
 	}
 	b.PlacementCost = money("build.placement_cost", r.Build.PlacementCost)
 	b.LineItemCost = money("build.line_item_cost", r.Build.LineItemCost)
+	if b.Currency != "" && !catalog.IsCurrencyCode(b.Currency) {
+		p.add("build.currency", "%q is not an ISO 4217 currency code; write the three capital letters, such as EUR, USD or GBP", b.Currency)
+	}
 	if r.Build.Stock != "" {
 		b.Stock = r.Build.Stock
 		if b.Stock != "exclude" && b.Stock != "flag" {

@@ -333,6 +333,11 @@ func TestParseFieldErrors(t *testing.T) {
 		{"negative reference drift", add("reference: {voltage: 2V, drift: -10ppm/K}\n"),
 			"reference.drift", "must not be negative: a datasheet maximum is a magnitude; write 10ppm/K"},
 		{"negative source impedance", add("source_impedance: -100\n"), "source_impedance", "cannot be negative"},
+		// A build currency is an ISO 4217 code, as the catalog's prices
+		// and currency.rates are (ISO 4217: three capital letters).
+		{"currency as a word", add("build: {currency: EURO}\n"), "build.currency", `"EURO" is not an ISO 4217 currency code; write the three capital letters, such as EUR`},
+		{"currency as a symbol", add("build: {currency: €}\n"), "build.currency", "not an ISO 4217 currency code"},
+		{"currency in lower case", add("build: {currency: eur}\n"), "build.currency", "three capital letters"},
 		// A single temperature is no range (item 4 of the review).
 		{"single temperature", rep("range: -40..85C", "range: 25C"),
 			"temperature.range", `"25C" is a single temperature; a range needs two ends, e.g. -40..85C`},
