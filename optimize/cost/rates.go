@@ -200,6 +200,17 @@ func (c *Converter) Notes() []string {
 	return out
 }
 
+// LeftOut counts the parts left out for want of a rate and names their
+// currencies, sorted.
+func (c *Converter) LeftOut() (n int, currencies []string) {
+	for cur, m := range c.missing {
+		n += m.n
+		currencies = append(currencies, cur)
+	}
+	sort.Strings(currencies)
+	return n, currencies
+}
+
 // Part returns a copy of a catalog part (a lookup's *Resistor, *Network,
 // *Amplifier, *Reference) with its prices in c.To; ok is false when a price is in a
 // currency with no rate. Other values are returned as they are.

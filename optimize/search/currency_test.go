@@ -2,6 +2,7 @@ package search_test
 
 import (
 	"context"
+	"fmt"
 	"io/fs"
 	"strings"
 	"testing"
@@ -88,5 +89,14 @@ func TestSolveConvertsCurrencies(t *testing.T) {
 	notes := strings.Join(res.Notes, "\n")
 	if !strings.Contains(notes, "left out: priced in USD") || !strings.Contains(notes, snap.Amplifiers[0].Part) {
 		t.Errorf("notes do not count and name the parts left out: %s", notes)
+	}
+	// The missing rate leads the diagnosis, before anything found among
+	// the parts that were left.
+	if res.Infeasible == nil {
+		t.Fatalf("no diagnosis: %v", err)
+	}
+	first := res.Infeasible.Lines()[0]
+	if want := fmt.Sprintf("%d part(s) priced in USD were left out, as currency.rates has no rate to EUR", len(snap.Amplifiers)); !strings.HasPrefix(first, search.NoDesign+": "+want) {
+		t.Errorf("diagnosis does not lead with the missing rate:\n%s\nwant it to start %q", first, want)
 	}
 }

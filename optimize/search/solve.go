@@ -98,6 +98,16 @@ func (r *Result) attachConversions(c *cost.Converter) {
 	}
 	r.Conversions = c.Conversions()
 	r.Notes = append(r.Notes, c.Notes()...)
+	if n, curs := c.LeftOut(); n > 0 && r.Infeasible != nil {
+		// Parts the search never saw are the first suspect: say so before
+		// what the diagnosis found among the parts that were left.
+		why := fmt.Sprintf("%d part(s) priced in %s were left out, as currency.rates has no rate to %s: add one (see the notes) and solve again",
+			n, strings.Join(curs, ", "), c.To)
+		if rest := strings.TrimLeft(strings.TrimPrefix(r.Infeasible.Message, ErrInfeasible.Error()), "; "); rest != "" {
+			why += "; among the parts left, " + rest
+		}
+		r.Infeasible.Message = ErrInfeasible.Error() + "; " + why
+	}
 }
 
 // SolveCatalog is Solve reading the catalog file itself: the resistors
