@@ -60,7 +60,8 @@ func addSeeds(f *testing.F, seeds ...string) {
 func FuzzParseResistance(f *testing.F) {
 	addSeeds(f, "4k99", "4.99k", "4K99", "10R", "0R1", "1M", "470", "2.2 MOhm", "10 kΩ",
 		"10 kOhms", "4.99 kohm", "1mΩ", "1m", "1G", "0.05", "50 mΩ", "1,5k", "4x99", "k",
-		"1..", "ten", "%", "4.99.1k", "∞", "-", "1e3", "1,000")
+		"1..", "ten", "%", "4.99.1k", "∞", "-", "1e3", "1,000",
+		"2.2 MEG", "1meg", "4.7 Megohm", "2M2", "4K7", "1R5", "1MEGA")
 	f.Fuzz(func(t *testing.T, in string) {
 		roundTrip(t, in, ParseResistance, FormatOhms, 5.01e-3)
 	})

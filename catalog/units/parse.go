@@ -17,7 +17,7 @@ var kelvinRefusal = []refusal{
 var (
 	resistanceKind = kind{
 		name: qResistance, symbols: ohmSymbols, bare: true,
-		prefixes: pMilli | pKilo | pUpperK | pMega | pGiga,
+		prefixes: pMilli | pKilo | pUpperK | pMega | pGiga | pMeg,
 		needUnit: "Ω, ohm or R", strict: "4.99kΩ, 4k99, 10R or 100 ohm",
 	}
 	fractionKind = kind{

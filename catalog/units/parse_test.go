@@ -98,6 +98,18 @@ func TestParseResistance(t *testing.T) {
 		{name: "milliohm word", in: "1 mohm", want: 1e-3},
 		{name: "milliohm bare prefix", in: "1m", want: 1e-3},
 		{name: "giga", in: "1G", want: 1e9},
+		// SPICE writes mega as MEG in any case, since its M is milli
+		// (ngspice manual, "Scale factors", from memory); the trade's
+		// parts lists copy it. Here M stays mega, and MEG is mega too.
+		{name: "SPICE MEG with a space", in: "2.2 MEG", want: 2.2e6},
+		{name: "SPICE MEG", in: "2.2MEG", want: 2.2e6},
+		{name: "SPICE meg lower case", in: "1meg", want: 1e6},
+		{name: "SPICE Meg with ohm", in: "4.7 Megohm", want: 4.7e6},
+		{name: "SPICE MEG with Ω", in: "1MEGΩ", want: 1e6},
+		{name: "infix upper K 4K7", in: "4K7", want: 4700},
+		{name: "infix M 2M2", in: "2M2", want: 2.2e6},
+		{name: "infix R 1R5", in: "1R5", want: 1.5},
+		{name: "rejects MEGA", in: "1MEGA", err: "unknown unit"},
 		{name: "fraction of an ohm", in: "0.05", want: 0.05},
 		{name: "50 milliohm", in: "50 mΩ", want: 0.05},
 		{name: "decimal comma", in: "1,5k", want: 1500},

@@ -249,6 +249,7 @@ const (
 	pUpperK // "K" as kilo (resistance, frequency; never where K is kelvin)
 	pMega
 	pGiga
+	pMeg // "MEG" as mega in any case, as SPICE decks write it (resistance)
 
 	pGeneral = pFemto | pPico | pNano | pMicro | pMilli | pKilo | pMega | pGiga
 )
@@ -258,6 +259,11 @@ const (
 func readPrefix(r string, set prefixSet) (exp, size int, ok bool) {
 	if r == "" {
 		return 0, 0, false
+	}
+	// Before "M" and "m": "2.2MEG" is mega, never "M" then "EG", and
+	// "2.2 meg" is not milli.
+	if set&pMeg != 0 && len(r) >= 3 && strings.EqualFold(r[:3], "meg") {
+		return 6, 3, true
 	}
 	type pf struct {
 		s   string
