@@ -127,18 +127,36 @@ type diagnoser struct {
 	parts *Parts
 	opt   Options
 	runs  int
+	// unproven is set when a re-solve found no design but stopped short
+	// of its budget caps (Result.unproven), or when a design was seen
+	// that meets what a re-solve called unmet.
+	unproven bool
+	// solve re-solves a variant of the spec (nil: solveOn on parts); a
+	// test puts a re-solve that stops short in its place.
+	solve func(p Problem, s *spec.Spec, opt Options) (*Result, error)
+}
+
+// resolve re-solves a variant s of the spec with options opt.
+func (d *diagnoser) resolve(p Problem, s *spec.Spec, opt Options) (*Result, error) {
+	d.runs++
+	if d.solve != nil {
+		return d.solve(p, s, opt)
+	}
+	return solveOn(d.ctx, d.parts, p, s, opt)
 }
 
 // feasible solves spec s for one design without near misses; it returns
 // the first design (nil: none passes).
 func (d *diagnoser) feasible(s *spec.Spec) (*Result, error) {
-	d.runs++
 	p, err := FromSpec(s)
 	if err != nil {
 		return nil, err
 	}
-	r, err := solveOn(d.ctx, d.parts, p, s, Options{Top: 1, Combos: d.opt.Combos, quick: true})
+	r, err := d.resolve(p, s, Options{Top: 1, Combos: d.opt.Combos, quick: true})
 	if IsInfeasible(err) {
+		if r != nil && r.unproven {
+			d.unproven = true
+		}
 		return nil, nil
 	}
 	if err != nil {
@@ -198,11 +216,57 @@ func (d *diagnoser) relaxFrom(s *spec.Spec, l specLimit, first float64, steps in
 // every other limit kept; when each limit can be met alone, the pairs of
 // limits that cannot be met together and the design closest to both.
 func diagnose(ctx context.Context, parts *Parts, s *spec.Spec, opt Options, res *Result) error {
-	inf := res.Infeasible
-	if inf == nil {
+	d := &diagnoser{ctx: ctx, parts: parts, opt: opt}
+	return d.diagnose(s, res)
+}
+
+// notProven ends the message of a diagnosis that rests on a search which
+// stopped short.
+const notProven = "not proven: the exact budget failed so many designs that pass the screening figures that a search behind this verdict stopped short, so a design may exist (see the notes; check one by hand with plumb check)"
+
+// diagnose is the package's diagnose on d's parts: it words the message,
+// then says when the verdict is not proven.
+func (d *diagnoser) diagnose(s *spec.Spec, res *Result) error {
+	if res.Infeasible == nil {
 		return nil
 	}
-	d := &diagnoser{ctx: ctx, parts: parts, opt: opt}
+	if err := d.limits(s, res); err != nil {
+		return err
+	}
+	if inf := res.Infeasible; (res.unproven || d.unproven) && !strings.Contains(inf.Message, "not proven") {
+		inf.Message += "; " + notProven
+	}
+	return nil
+}
+
+// metBy reports whether a design of res the exact budget ran (a near
+// miss, a cheapest failing design) meets every one of limits ls: proof
+// that they can be met together, whatever a re-solve found.
+func metBy(res *Result, ls ...specLimit) bool {
+	for _, list := range [][]NearMiss{res.NearMisses, res.CheapestFailing} {
+	designs:
+		for i := range list {
+			for _, l := range ls {
+				if lim, ok := findLimit(list[i].Limits, l.name); !ok || !lim.Pass {
+					continue designs
+				}
+			}
+			return true
+		}
+	}
+	return false
+}
+
+// meets reports whether figure v of limit l meets the limit of s.
+func (l specLimit) meets(s *spec.Spec, v float64) bool {
+	lim := *l.field(&s.Limits) * l.scaleOf(s)
+	return v == lim || better(l, v, lim)
+}
+
+// limits finds the limits of s no design meets even alone, else the pairs
+// no design meets together, and the relaxations (see diagnose).
+func (d *diagnoser) limits(s *spec.Spec, res *Result) error {
+	inf := res.Infeasible
 	var set []specLimit
 	for _, l := range specLimits {
 		if *l.field(&s.Limits) != 0 {
@@ -225,6 +289,9 @@ func diagnose(ctx context.Context, parts *Parts, s *spec.Spec, opt Options, res 
 	}
 	var alone []specLimit
 	for _, l := range set {
+		if metBy(res, l) {
+			continue
+		}
 		r, err := d.feasible(onlyLimits(s, l))
 		if err != nil {
 			return err
@@ -234,6 +301,7 @@ func diagnose(ctx context.Context, parts *Parts, s *spec.Spec, opt Options, res 
 		}
 	}
 	inf.Limits = inf.Limits[:0]
+	unmet := alone[:0]
 	for _, l := range alone {
 		il, err := d.limitAlone(s, l)
 		if err != nil {
@@ -242,14 +310,25 @@ func diagnose(ctx context.Context, parts *Parts, s *spec.Spec, opt Options, res 
 		if err := d.nearerBest(s, l, &il, res); err != nil {
 			return err
 		}
+		if il.BestParts != "" && l.meets(s, il.Best) {
+			// A design reaches the limit: the re-solve that found none
+			// stopped short, and the limit can be met alone.
+			d.unproven = true
+			continue
+		}
 		inf.Limits = append(inf.Limits, il)
+		unmet = append(unmet, l)
 	}
+	alone = unmet
 	if len(alone) > 0 {
 		inf.Message = ErrInfeasible.Error() + fmt.Sprintf("; %s cannot be met by any design in the catalog, even alone", nameList(alone))
 		return nil
 	}
 	for i := range set {
 		for j := i + 1; j < len(set); j++ {
+			if metBy(res, set[i], set[j]) {
+				continue
+			}
 			r, err := d.feasible(onlyLimits(s, set[i], set[j]))
 			if err != nil {
 				return err
@@ -791,8 +870,7 @@ func (d *diagnoser) conflict(s *spec.Spec, a, b specLimit) (Conflict, error) {
 	if err != nil {
 		return c, err
 	}
-	d.runs++
-	r, err := solveOn(d.ctx, d.parts, p, two, Options{Top: 1, Combos: d.opt.Combos})
+	r, err := d.resolve(p, two, Options{Top: 1, Combos: d.opt.Combos})
 	if err != nil && !IsInfeasible(err) {
 		return c, err
 	}

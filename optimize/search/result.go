@@ -94,6 +94,10 @@ type Result struct {
 	// cut is set by a search with Options.ceiling when a passing design
 	// may cost more than the ceiling.
 	cut bool
+	// unproven is set when the search dropped classes past its caps on
+	// designs the exact budget fails (maxRejected): "no design" is then
+	// not proven.
+	unproven bool
 }
 
 // Stats count the work of the search.

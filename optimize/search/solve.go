@@ -632,6 +632,7 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 	}
 	res.Search = Stats{Classes: st.classes, Visited: st.visited, BoundPruned: st.boundPruned, Evaluated: st.evaluated}
 	if len(cut) > 0 {
+		res.unproven = true
 		res.Notes = append(res.Notes, fmt.Sprintf("the exact budget failed the cheaper designs of %d class(es) that pass the screening figures; their dearer designs were not tried (at most %d per class, %d in all), so a design cheaper than those listed may pass: check one by hand with plumb check", len(cut), maxClassRejected, maxOut))
 	}
 	// One line per design for the classes folded into it.
