@@ -33,6 +33,7 @@ func (s *space) below(ctx context.Context, ceiling float64, most int, exhaustive
 	complete := true
 	for mi := range s.matched {
 		st.visited++
+		st.evaluated++ // a matched amplifier's one design
 		b := s.evalMatchedClass(mi)
 		switch {
 		case !b.pass:

@@ -348,6 +348,7 @@ func (s *space) branchAndBound(ctx context.Context, n int, progress func(done, t
 	t := topN{n: n}
 	for mi := range s.matched {
 		st.visited++
+		st.evaluated++ // a matched amplifier's one design
 		if b := s.evalMatchedClass(mi); b.pass {
 			t.add(b)
 		}
