@@ -14,8 +14,10 @@ import (
 // headroom for a dB limit, tieStepFrac of the limit for the others): the
 // larger worst rounded margin ranks first, where the worst agree the
 // next-worst decides, and so on. Only where every rounded margin agrees
-// does the fine tier compare the margins themselves (to tieTol, so that
-// rounding in the screening figures does not decide), then the lower
+// does the nominal ratio's quantization |k0/k - 1| decide (the exact
+// ratio first, in steps of tieQuantStep), then the fine tier compare the
+// margins themselves (to tieTol, so that rounding in the screening
+// figures does not decide), then the lower
 // resistor power stress, then the lower voltage stress. A negligible
 // difference on one limit (0.006 dB of CMRR) thus never outweighs a
 // material one on another (a third less gain error).
@@ -44,6 +46,7 @@ type tieKey struct {
 	power    float64
 	voltage  float64
 	quant    float64 // |k0/k - 1| in units of tieQuantStep without a gain-error limit (else 0)
+	ratio    float64 // |k0/k - 1| in units of tieQuantStep where the design sets a ratio (else 0)
 	zin      float64 // input impedance over its limit (0: no limit or no model)
 	head     float64 // output swing margin 1 + headroom/budget.NearPinV (0: no amplifier)
 }
@@ -79,6 +82,12 @@ func (a tieKey) better(b tieKey) bool {
 	}
 	if c := compareMargins(&a.material, &b.material); c != 0 {
 		return c > 0
+	}
+	if a.ratio != b.ratio {
+		// Margins equal for a review: the ratio nearer the gain asked for
+		// (100k/20k for 0.2, not 76.8k/15.4k) leaves the calibration, and
+		// the reader, less to explain.
+		return a.ratio < b.ratio
 	}
 	if c := compareMargins(&a.fine, &b.fine); c != 0 {
 		return c > 0
@@ -260,8 +269,11 @@ func (s *space) tie(c *config, o *option, a *amp, m *metrics) tieKey {
 	if c != nil {
 		k.power, k.voltage = s.stress(c, o)
 		l := &s.p.Limits
-		if s.strategy() != family.ShiftNetwork && s.k > 0 && !s.p.CalGain && l.GainError == 0 && l.TotalGainError == 0 {
-			k.quant = math.Round(math.Abs(o.k0/s.k-1) / tieQuantStep)
+		if s.strategy() != family.ShiftNetwork && s.k > 0 {
+			k.ratio = math.Round(math.Abs(o.k0/s.k-1) / tieQuantStep)
+			if !s.p.CalGain && l.GainError == 0 && l.TotalGainError == 0 {
+				k.quant = k.ratio
+			}
 		}
 		if rg, rf, ok := s.values(c, o); ok && s.p.ZinMinOhm > 0 && s.model() != nil {
 			k.zin = s.model().Zin(rg, rf) / s.p.ZinMinOhm

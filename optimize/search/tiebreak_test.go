@@ -83,6 +83,42 @@ func TestTieDemoExactRatio(t *testing.T) {
 	}
 }
 
+// TestTieRatioAfterMaterialMargins: among equal costs the material
+// margins decide first; where they agree, the ratio nearer the gain asked
+// for wins, before the fine margins and the stresses, with a gain-error
+// limit set or not.
+func TestTieRatioAfterMaterialMargins(t *testing.T) {
+	key := func(margins []float64, ratio, power float64) tieKey {
+		var k tieKey
+		for i := range k.material {
+			k.material[i], k.fine[i] = math.Inf(1), math.Inf(1)
+		}
+		for i, v := range margins {
+			k.material[i], k.fine[i] = materialMargin(v, false), fineMargin(v)
+		}
+		sortMargins(k.material[:len(margins)])
+		sortMargins(k.fine[:len(margins)])
+		k.ratio, k.power = ratio, power
+		return k
+	}
+	cases := []struct {
+		name string
+		a, b tieKey // a must rank first
+	}{
+		{"equal margins: the exact ratio", key([]float64{1.13, 1.2}, 0, 0.1), key([]float64{1.13, 1.2}, 2600, 0.1)},
+		{"a hair of margin does not outweigh the ratio", key([]float64{1.13, 1.2}, 0, 0.1), key([]float64{1.13, 1.2001}, 2600, 0.1)},
+		{"the ratio before the stress", key([]float64{1.5}, 10, 0.3), key([]float64{1.5}, 20, 0.1)},
+		{"a material margin before the ratio", key([]float64{1.13, 1.3}, 2600, 0.1), key([]float64{1.13, 1.2}, 0, 0.1)},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			if !c.a.better(c.b) || c.b.better(c.a) {
+				t.Errorf("a does not rank strictly before b:\na %+v\nb %+v", c.a, c.b)
+			}
+		})
+	}
+}
+
 // TestTieKeyOrdering checks on seeded random margin vectors that better is
 // a strict weak ordering: irreflexive, asymmetric, transitive, with
 // transitive incomparability; and that a stable sort with it gives the same
@@ -109,6 +145,7 @@ func TestTieKeyOrdering(t *testing.T) {
 		k.power = float64(r.IntN(3)) / 10
 		k.voltage = float64(r.IntN(2)) / 10
 		k.quant = float64(r.IntN(2))
+		k.ratio = float64(r.IntN(2))
 		return k
 	}
 	for round := 0; round < 200; round++ {
