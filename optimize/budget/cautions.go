@@ -28,13 +28,18 @@ const (
 	NearPinV = 0.1
 )
 
+// QualifiedPerson is who every caution defers the safety check to, in the
+// one wording the README's "Safety" section and the domain notes (§5) use:
+// a qualified person, under the applicable standards and local codes.
+const QualifiedPerson = "a qualified person"
+
 // hazardText is the caution printed for specs at hazardous voltages: the
 // highest voltage on the input terminals and supplies, which limit it
 // crosses, and the deferral to the standards, local codes and a qualified
 // person (domain notes §5).
 const hazardText = "HAZARDOUS VOLTAGE: the highest voltage on the input terminals and supplies is %.4g V (%s), %s. " +
 	"Creepage, clearance, insulation and every resistor's voltage rating must be checked against the applicable standard " +
-	"(IEC 61010-1 for measurement equipment, IEC 62368-1 for ICT and AV equipment) and local codes by a qualified, licensed person. " +
+	"(IEC 61010-1 for measurement equipment, IEC 62368-1 for ICT and AV equipment) and local codes by " + QualifiedPerson + ". " +
 	"plumb is a selection aid, not a safety approval."
 
 // HazardCaution returns the hazardous-voltage caution for spec s, or ""

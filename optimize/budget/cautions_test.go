@@ -2,6 +2,7 @@ package budget
 
 import (
 	"math"
+	"os"
 	"strings"
 	"testing"
 
@@ -49,7 +50,7 @@ func TestHazardCautionVoltages(t *testing.T) {
 				return
 			}
 			for _, w := range append(c.want, "HAZARDOUS VOLTAGE: the highest voltage on the input terminals and supplies",
-				"IEC 61010-1", "IEC 62368-1", "local codes", "qualified, licensed person", "not a safety approval") {
+				"IEC 61010-1", "IEC 62368-1", "local codes", "by "+QualifiedPerson+".", "not a safety approval") {
 				if !strings.Contains(got, w) {
 					t.Errorf("caution %q\nlacks %q", got, w)
 				}
@@ -198,5 +199,31 @@ func TestOutputHeadroomWithErrors(t *testing.T) {
 	}
 	if res.Pass {
 		t.Error("a stage whose worst-case output passes its swing limit passes")
+	}
+}
+
+// TestSafetyWordingAsReadme: the cautions defer to the same person the
+// README's "Safety" section names (project rule: one wording for users),
+// and no caution in the tree names anyone else.
+func TestSafetyWordingAsReadme(t *testing.T) {
+	raw, err := os.ReadFile("../../README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	readme := string(raw)
+	i := strings.Index(readme, "## Safety")
+	if i < 0 {
+		t.Fatal("README has no Safety section")
+	}
+	section := readme[i:]
+	if j := strings.Index(section[len("## Safety"):], "\n## "); j >= 0 {
+		section = section[:len("## Safety")+j]
+	}
+	section = strings.Join(strings.Fields(section), " ")
+	if !strings.Contains(section, "local codes by "+QualifiedPerson+".") {
+		t.Errorf("README's Safety section does not defer to %q:\n%s", QualifiedPerson, section)
+	}
+	if strings.Contains(hazardText, "licensed") || !strings.Contains(hazardText, "by "+QualifiedPerson+".") {
+		t.Errorf("hazard caution %q does not use the README's wording", hazardText)
 	}
 }

@@ -291,10 +291,10 @@ func Build(ctx context.Context, in Input) (*Report, error) {
 }
 
 // disclaimer is printed at the foot of every report (project rule: defer
-// to the applicable standards and licensed practice).
+// to the applicable standards and to budget.QualifiedPerson).
 const disclaimer = "plumb is a selection aid, not a safety approval. Figures come from catalog data and the models named in the notes; " +
 	"check them against the datasheets. Where voltages are hazardous, creepage, clearance, insulation and ratings must be checked " +
-	"against the applicable standards (IEC 61010-1, IEC 62368-1) and local codes by a qualified, licensed person."
+	"against the applicable standards (IEC 61010-1, IEC 62368-1) and local codes by " + budget.QualifiedPerson + "."
 
 // fixedNotes close the notes of every report.
 var fixedNotes = []string{
@@ -310,7 +310,7 @@ func (r *Report) FixedNotes() []string { return fixedNotes }
 
 // SafetyDeferral closes the safety box of every report that has one.
 const SafetyDeferral = "These cautions do not replace a safety assessment: check the design against the applicable standards " +
-	"(IEC 61010-1, IEC 62368-1) and local codes, with a qualified, licensed person."
+	"(IEC 61010-1, IEC 62368-1) and local codes, with " + budget.QualifiedPerson + "."
 
 // splitCautions moves the cautions about hazardous voltages and about parts
 // near their ratings to the front list, and drops exact repeats (every

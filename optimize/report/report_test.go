@@ -300,8 +300,8 @@ func TestPlotsHaveLimitLines(t *testing.T) {
 
 // TestSafetyCaution: a spec at 100 V common mode (above 60 V DC, the level
 // IEC 61010-1 treats as hazardous in dry locations; from memory) opens the
-// report with a boxed caution deferring to the standards and to qualified,
-// licensed practice; a 5 V spec has none.
+// report with a boxed caution deferring to the standards and to a
+// qualified person; a 5 V spec has none.
 func TestSafetyCaution(t *testing.T) {
 	cases := []struct {
 		name   string
@@ -328,7 +328,7 @@ func TestSafetyCaution(t *testing.T) {
 				t.Error("the safety box comes after the specification; it must come first")
 			}
 			text := strings.Join(c.report.Safety, " ")
-			for _, w := range []string{"IEC 61010-1", "IEC 62368-1", "qualified", "licensed"} {
+			for _, w := range []string{"IEC 61010-1", "IEC 62368-1", budget.QualifiedPerson} {
 				if !strings.Contains(text, w) {
 					t.Errorf("safety caution does not mention %q: %s", w, text)
 				}
@@ -750,7 +750,7 @@ func TestSplitCautions(t *testing.T) {
 	if len(other) != 1 || other[0] != hr {
 		t.Errorf("other %q, want the headroom caution", other)
 	}
-	for _, w := range []string{"IEC 61010-1", "IEC 62368-1", "qualified, licensed"} {
+	for _, w := range []string{"IEC 61010-1", "IEC 62368-1", budget.QualifiedPerson} {
 		if !strings.Contains(SafetyDeferral, w) {
 			t.Errorf("SafetyDeferral does not mention %q", w)
 		}

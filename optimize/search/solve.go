@@ -20,7 +20,7 @@ import (
 // hazardCaution is printed when a spec's voltages reach hazardous levels.
 const hazardCaution = "voltages above 60 V DC (or 30 V rms) are treated as hazardous by IEC 61010-1 and IEC 62368-1: " +
 	"creepage, clearance, insulation and resistor voltage ratings must be checked against the applicable standard " +
-	"and local codes by a qualified, licensed person; this search is a selection aid, not a safety approval"
+	"and local codes by " + budget.QualifiedPerson + "; this search is a selection aid, not a safety approval"
 
 // Solve finds the lowest-cost designs in snap that meet every limit of s
 // under its analysis method. When none does it returns a Result that says
