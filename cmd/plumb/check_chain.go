@@ -60,7 +60,7 @@ func runCheckChain(ctx context.Context, opts *checkOptions, sp *spec.Spec, d *sp
 	if len(d.Unresolved()) > 0 {
 		lookup := func(part string) (catalog.Kind, any, error) { return st.Find(ctx, part) }
 		if err := d.Resolve(lookup); err != nil {
-			return fmt.Errorf("%w: check the part numbers with `plumb catalog list --part PATTERN`", err)
+			return err // each unknown part carries its own hint
 		}
 	}
 	out := &chainCheck{Design: opts.Design, Spec: specName(sp), Method: sp.Analysis.Method}

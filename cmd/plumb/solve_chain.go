@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"strings"
+	"unicode/utf8"
 
 	"github.com/spf13/cobra"
 
@@ -163,7 +164,7 @@ func writeChainTable(w io.Writer, ios *IOStreams, sp *spec.Spec, res *search.Cha
 // writeChainNearMiss prints a failing chain as a ranked one, then what it
 // fails and the change of one stage that makes it pass.
 func writeChainNearMiss(w io.Writer, ios *IOStreams, nm *search.ChainNearMiss) {
-	fmt.Fprintf(w, "\n%s\n", ios.Bold(fmt.Sprintf("%s %.4g per unit, %s %.6g the build; shortfall %.3gx", nm.Currency, nm.UnitCost, nm.Currency, nm.TotalCost, nm.Shortfall)))
+	fmt.Fprintf(w, "\n%s\n", ios.Bold(fmt.Sprintf("%s; shortfall %.3gx", chainCost(nm.UnitCost, nm.TotalCost, nm.Currency), nm.Shortfall)))
 	writeChainStages(w, &nm.ChainDesign)
 	var fails []string
 	for _, f := range nm.Fails {
@@ -174,7 +175,7 @@ func writeChainNearMiss(w io.Writer, ios *IOStreams, nm *search.ChainNearMiss) {
 	}
 	fix := "no listed design of either stage passes with the other's"
 	if nm.Fix != nil {
-		fix = fmt.Sprintf("%s (+%s per unit, %s the build)", nm.Fix.Change, formatMoney(nm.Fix.ExtraCost, nm.Currency), formatMoney(nm.Fix.TotalCost, nm.Currency))
+		fix = fmt.Sprintf("%s (+%s per chain, %s for the build)", nm.Fix.Change, formatMoney(nm.Fix.ExtraCost, nm.Currency), formatMoney(nm.Fix.TotalCost, nm.Currency))
 	}
 	for i, line := range wrapWords("passes with: "+fix, 92) {
 		fmt.Fprintf(w, "  %s%s\n", map[bool]string{true: "", false: "  "}[i == 0], escapeText(line, ""))
@@ -184,7 +185,13 @@ func writeChainNearMiss(w io.Writer, ios *IOStreams, nm *search.ChainNearMiss) {
 // chainCostLine is a chain's cost per unit and for the build, in its
 // currency, and its binding limit.
 func chainCostLine(d *search.ChainDesign) string {
-	return fmt.Sprintf("%s %.4g per unit, %s %.6g the build; binding: %s", d.Currency, d.UnitCost, d.Currency, d.TotalCost, d.Binding)
+	return fmt.Sprintf("%s; binding: %s", chainCost(d.UnitCost, d.TotalCost, d.Currency), d.Binding)
+}
+
+// chainCost words a chain's cost as solve words a stage's: one chain (all
+// its stages, the unit the build counts) and the whole build.
+func chainCost(unit, total float64, currency string) string {
+	return fmt.Sprintf("%s per chain (all stages), %s for the build", formatMoney(unit, currency), formatMoney(total, currency))
 }
 
 // writeChainDesign prints one chain under heading: per stage its family,
@@ -194,12 +201,28 @@ func writeChainDesign(w io.Writer, ios *IOStreams, heading string, d *search.Cha
 	fmt.Fprintf(w, "\n%s\n", ios.Bold(heading))
 	writeChainStages(w, d)
 	fmt.Fprintf(w, "  chain    gain %.6g\n", d.Metrics.Gain)
+	// Columns as wide as their widest entry, so that a long limit name
+	// (amplifier headroom) does not push its row out of line.
+	name, value, limit := 0, 0, 0
+	for _, l := range d.Limits {
+		name = max(name, utf8.RuneCountInString(l.Name))
+		value = max(value, utf8.RuneCountInString(budget.FormatFigure(l.Value, l.Unit)))
+		limit = max(limit, utf8.RuneCountInString(budget.FormatFigure(l.Limit, l.Unit)))
+	}
+	pad := func(s string, n int, right bool) string {
+		fill := strings.Repeat(" ", max(0, n-utf8.RuneCountInString(s)))
+		if right {
+			return fill + s
+		}
+		return s + fill
+	}
 	for _, l := range d.Limits {
 		mark := "ok  "
 		if !l.Pass {
 			mark = "FAIL"
 		}
-		fmt.Fprintf(w, "    %s %-16s %12s  limit %12s  %s\n", mark, l.Name, budget.FormatFigure(l.Value, l.Unit), budget.FormatFigure(l.Limit, l.Unit), l.MarginText)
+		fmt.Fprintf(w, "    %s %s  %s  limit %s  %s\n", mark, pad(l.Name, name, false), pad(budget.FormatFigure(l.Value, l.Unit), value, true),
+			pad(budget.FormatFigure(l.Limit, l.Unit), limit, true), l.MarginText)
 	}
 }
 
@@ -207,12 +230,11 @@ func writeChainDesign(w io.Writer, ios *IOStreams, heading string, d *search.Cha
 // parts and own figures, and the parts short of stock.
 func writeChainStages(w io.Writer, d *search.ChainDesign) {
 	for _, s := range d.Stages {
-		var parts []string
-		for _, p := range s.Parts {
-			parts = append(parts, p.Position+" "+p.Part)
-		}
-		fmt.Fprintf(w, "  stage %d  %s, gain %g, %s %.4g per unit\n", s.Stage, s.Family, s.Gain, d.Currency, s.UnitCost)
-		for _, line := range wrapWords(strings.Join(parts, ", "), 88) {
+		// Positions grouped per part, "R1, R3: PART (grade); U1, U2: PART",
+		// as the search's diagnosis names a design's parts.
+		parts := (&search.Design{Parts: s.Parts}).PartsText()
+		fmt.Fprintf(w, "  stage %d  %s, gain %g, parts %s per chain\n", s.Stage, s.Family, s.Gain, formatMoney(s.UnitCost, d.Currency))
+		for _, line := range wrapWords(parts, 88) {
 			fmt.Fprintf(w, "      %s\n", escapeText(line, ""))
 		}
 		figs := fmt.Sprintf("gain error %s, drift %s, offset %s, CM error %s, CMRR %s, noise %s",

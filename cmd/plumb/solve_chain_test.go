@@ -33,7 +33,7 @@ func TestSolveChainExplainBOM(t *testing.T) {
 	if strings.Contains(out, "Chain 2: ") || strings.Contains(out, "Near misses") {
 		t.Errorf("--explain 1 prints more than chain 1:\n%s", out)
 	}
-	m := regexp.MustCompile(`Chain 1: USD [0-9.]+ per unit, USD ([0-9.]+) the build`).FindStringSubmatch(out)
+	m := regexp.MustCompile(`Chain 1: [0-9.]+ USD per chain \(all stages\), ([0-9.]+) USD for the build`).FindStringSubmatch(out)
 	if m == nil {
 		t.Fatalf("no cost line for chain 1:\n%s", out)
 	}
