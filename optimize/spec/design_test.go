@@ -2,6 +2,7 @@ package spec
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -308,5 +309,32 @@ func TestDesignSignedFiguresAccepted(t *testing.T) {
 	}
 	if _, err := ParseDesign([]byte(matchedDesign), "m.yaml"); err != nil {
 		t.Fatal(err)
+	}
+}
+
+// TestDesignDuplicatePositionLine: a position given twice is reported at
+// the repeat, naming the line of the first, so the two lines the message
+// cites are the two the file holds.
+func TestDesignDuplicatePositionLine(t *testing.T) {
+	cases := []struct {
+		name        string
+		src         string
+		line, first int
+	}{
+		{"block mapping", "name: dup\nfamily: difference\npositions:\n  R1: {part: A}\n  R2: {part: B}\n  R3: {part: A}\n  R2: {part: B}\n  R4: {part: B}\namplifier: {part: U}\n", 7, 5},
+		{"repeat on the next line", "name: dup\nfamily: inverting\npositions:\n  R1: {part: A}\n  R1: {part: B}\n  R2: {part: B}\namplifier: {part: U}\n", 5, 4},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			_, err := ParseDesign([]byte(c.src), "d.yaml")
+			fes := fieldErrors(t, err)
+			if len(fes) != 1 {
+				t.Fatalf("%d errors, want 1: %v", len(fes), err)
+			}
+			fe := fes[0]
+			if want := fmt.Sprintf("given twice (also at line %d)", c.first); fe.Line != c.line || !strings.Contains(fe.Msg, want) {
+				t.Errorf("error %q at line %d, want line %d and %q", fe.Msg, fe.Line, c.line, want)
+			}
+		})
 	}
 }

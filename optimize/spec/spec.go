@@ -585,8 +585,10 @@ func translateYAMLError(p *problems, msg string, types map[string]reflect.Type) 
 	}
 	if m := reDuplicate.FindStringSubmatch(msg); m != nil {
 		key, _ := strconv.Unquote(m[2])
-		if at, ok := p.index.findKey(line(m[1]), key); ok {
-			p.add(at.path, "given twice (also at line %s); keep one", m[3])
+		if at, ok := p.index.findKey(line(m[1]), key); ok && at.key != nil {
+			// At the repeat itself: the path alone would place it at the
+			// first of the two, which the message names as the other.
+			p.addAt(at.path, at.key.Line, at.key.Column, "given twice (also at line %s); keep one", m[3])
 			return
 		}
 	}
