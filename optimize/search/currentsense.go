@@ -10,6 +10,7 @@ import (
 	"strings"
 
 	"plumb/catalog"
+	"plumb/optimize/budget"
 	"plumb/optimize/cost"
 	"plumb/optimize/spec"
 )
@@ -21,8 +22,38 @@ type shunt struct {
 	grade catalog.ResistorGrade
 	offer catalog.Offer // with this part's stock
 	cost  float64       // parts and assembly for the build
-	err   float64       // worst relative error over tolerance, life, temperature and self-heating
-	errT0 float64       // tolerance alone (reference temperature)
+	heat  float64       // self-heating at the largest current, K
+}
+
+// errors are the shunt's share of the gain error over temperature (eT)
+// and at the reference temperature (e0) under p's method: worst case
+// (1+t)(1+L)(1+TCR·(ΔT+heat)) - 1 and t; RSS the root-sum-square of the
+// same terms, as the budget combines independent tolerances (domain notes
+// §4). With gain calibration the tolerance drops out: (1+L)(1+TCR·ΔT) - 1,
+// or its root-sum-square.
+func (sh *shunt) errors(p *Problem) (eT, e0 float64) {
+	g := &sh.grade
+	dT := p.deltaT() + sh.heat
+	e0 = g.Tolerance
+	tol := g.Tolerance
+	if p.CalGain {
+		dT, e0, tol = p.deltaT(), 0, 0
+	}
+	tc := g.TCR * 1e-6 * dT
+	if p.Method == WorstCase {
+		return (1+tol)*(1+g.LoadLife)*(1+tc) - 1, e0
+	}
+	return math.Sqrt(tol*tol + g.LoadLife*g.LoadLife + tc*tc), e0
+}
+
+// combineDrift folds the shunt's tempco into a gain drift in ppm/K: worst
+// case added, RSS in quadrature (as the budget's root-sum-square of the
+// tempcos' sensitivities).
+func combineDrift(method Method, d, tcr float64) float64 {
+	if method == WorstCase {
+		return d + tcr
+	}
+	return math.Hypot(d, tcr)
 }
 
 // shuntCandidates lists the resistors that can be the shunt: inside the
@@ -57,12 +88,9 @@ func shuntCandidates(ctx context.Context, parts *Parts, p *Problem) ([]shunt, er
 			(old.offer.Stock == r.Offer.Stock && old.part < r.Part)))) {
 			return nil
 		}
-		heat := pw * g.ThermalResistance
 		o := r.Offer
 		o.PriceBreaks = append([]catalog.PriceBreak(nil), o.PriceBreaks...)
-		best[k] = shunt{part: r.Part, value: v, grade: *g, offer: o, cost: c,
-			err:   (1+g.Tolerance)*(1+g.LoadLife)*(1+g.TCR*1e-6*(p.deltaT()+heat)) - 1,
-			errT0: g.Tolerance}
+		best[k] = shunt{part: r.Part, value: v, grade: *g, offer: o, cost: c, heat: pw * g.ThermalResistance}
 		return nil
 	}
 	q := catalog.ResistorQuery{MinOhm: sense.MinOhm, MaxOhm: sense.MaxOhm, BelowTolerance: 0.5, Currency: p.Build.Currency,
@@ -87,11 +115,20 @@ func shuntCandidates(ctx context.Context, parts *Parts, p *Problem) ([]shunt, er
 // G/Rs, the shunt voltage as the differential input, the shunt's nodes as
 // the common mode, and the limits less what the shunt takes:
 // (1+L)/(1+e_shunt) - 1 for the gain errors (worst case; RSS: sqrt(L² -
-// e²)) and D - TCR for the drift. ok is false when the shunt alone breaks
-// a limit.
+// e²), e from shunt.errors) and D - TCR for the drift (RSS: sqrt(D² -
+// TCR²)). Under RSS, with the systematic error s ≥ 0 the budget adds
+// linearly, s + sqrt(X² + e²) <= L implies s + X <= sqrt(L² - e²), since
+// s + sqrt((L-s)² - e²) falls with s. ok is false when the shunt alone
+// breaks a limit.
 func senseProblem(p Problem, sh *shunt) (Problem, bool) {
 	q := p
 	q.Circuit = Circuit(p.family().SearchFamily().Name)
+	q.Families = nil // every build of the circuit behind the shunt but an integrated part's
+	for _, b := range q.builds() {
+		if !slices.Contains(q.partBuilds(), b) {
+			q.Families = append(q.Families, b)
+		}
+	}
 	v := sh.value
 	q.Gain = p.Gain / v
 	q.InMin, q.InMax, q.CMMin, q.CMMax = p.family().Search.Sense.Stage(p.InMin, p.InMax, p.CMMin, p.CMMax, v)
@@ -107,17 +144,17 @@ func senseProblem(p Problem, sh *shunt) (Problem, bool) {
 		}
 		return out, out > 0
 	}
-	var ok1, ok2, ok3 bool
-	eT, e0 := sh.err, sh.errT0
-	if p.CalGain {
-		e0 = 0
-		eT = (1+sh.grade.LoadLife)*(1+sh.grade.TCR*1e-6*p.deltaT()) - 1
-	}
+	var ok1, ok2 bool
+	eT, e0 := sh.errors(&p)
 	q.Limits.TotalGainError, ok1 = shrink(p.Limits.TotalGainError, eT)
 	q.Limits.GainError, ok2 = shrink(p.Limits.GainError, e0)
-	ok3 = true
-	if p.Limits.DriftPPM > 0 {
-		q.Limits.DriftPPM = p.Limits.DriftPPM - sh.grade.TCR
+	ok3 := true
+	if d, t := p.Limits.DriftPPM, sh.grade.TCR; d > 0 {
+		if p.Method == WorstCase {
+			q.Limits.DriftPPM = d - t
+		} else {
+			q.Limits.DriftPPM = math.Sqrt(math.Max(d*d-t*t, 0))
+		}
 		ok3 = q.Limits.DriftPPM > 0
 	}
 	return q, ok1 && ok2 && ok3
@@ -132,7 +169,10 @@ func combine(method Method, e, es float64) float64 {
 	return math.Hypot(e, es)
 }
 
-// withShunt adds shunt sh to a design of the difference amplifier behind it.
+// withShunt adds shunt sh to a design of the difference amplifier behind
+// it. A design that carries its exact budget (run on the whole stage,
+// shunt included) keeps its figures; otherwise the shunt's error is
+// folded into the screening figures.
 func withShunt(p *Problem, d Design, sd *spec.Design, sh *shunt) (Design, *spec.Design) {
 	d.Family = string(p.family().Name) + strings.TrimPrefix(d.Family, p.family().SearchFamily().Name)
 	d.TotalCost += sh.cost
@@ -140,22 +180,27 @@ func withShunt(p *Problem, d Design, sd *spec.Design, sh *shunt) (Design, *spec.
 	q, unit, _, _ := buyLine(p, &sh.offer)
 	d.Parts = append([]Part{{Position: p.family().Shunt, Kind: string(catalog.KindResistor), Part: sh.part, Quantity: 1, Bought: q,
 		UnitPrice: unit, ValueOhm: sh.value, Tolerance: sh.grade.Tolerance, TCRppm: sh.grade.TCR}}, d.Parts...)
-	m := d.Metrics
-	eT, e0 := sh.err, sh.errT0
-	if p.CalGain {
-		eT, e0 = (1+sh.grade.LoadLife)*(1+sh.grade.TCR*1e-6*p.deltaT())-1, 0
+	if d.budget == nil {
+		m := d.Metrics
+		eT, e0 := sh.errors(p)
+		m.Gain *= sh.value
+		m.GainError = combine(p.Method, m.GainError, eT)
+		m.GainErrorInitial = combine(p.Method, m.GainErrorInitial, e0)
+		m.DriftPPMPerK = combineDrift(p.Method, m.DriftPPMPerK, sh.grade.TCR)
+		d.Metrics = m
+		s := &space{p: p}
+		d.Limits = s.limitSet(&metrics{gain: m.Gain, gainErr: m.GainErrorInitial, totalErr: m.GainError, drift: m.DriftPPMPerK,
+			cmrrDB: m.CMRRdB, offset: m.OutputOffsetV, offDrift: m.OffsetDriftVPerK, noise: m.NoiseDensity, noiseRMS: m.NoiseRMSV, bw: m.BandwidthHz})
+		if bl, ok := binding(d.Limits); ok {
+			d.Binding = bl.Name
+		}
 	}
-	m.Gain *= sh.value
-	m.GainError = combine(p.Method, m.GainError, eT)
-	m.GainErrorInitial = combine(p.Method, m.GainErrorInitial, e0)
-	m.DriftPPMPerK += sh.grade.TCR
-	d.Metrics = m
-	s := &space{p: p}
-	d.Limits = s.limitSet(&metrics{gain: m.Gain, gainErr: m.GainErrorInitial, totalErr: m.GainError, drift: m.DriftPPMPerK,
-		cmrrDB: m.CMRRdB, offset: m.OutputOffsetV, offDrift: m.OffsetDriftVPerK, noise: m.NoiseDensity, noiseRMS: m.NoiseRMSV, bw: m.BandwidthHz})
-	if bl, ok := binding(d.Limits); ok {
-		d.Binding = bl.Name
-	}
+	return d, shuntDesign(p, sd, sh)
+}
+
+// shuntDesign is spec design sd of the difference amplifier behind shunt
+// sh with the shunt added: the whole stage the exact budget runs on.
+func shuntDesign(p *Problem, sd *spec.Design, sh *shunt) *spec.Design {
 	sd2 := *sd
 	sd2.Family = p.family().Name
 	g := sh.grade
@@ -164,7 +209,7 @@ func withShunt(p *Problem, d Design, sd *spec.Design, sh *shunt) (Design, *spec.
 		sd.Positions...)
 	sortPositions(sd2.Positions)
 	sd2.Name = "current-sense with " + sh.part
-	return d, &sd2
+	return &sd2
 }
 
 // senseReasons rebuilds a current-sense design's reasons on the merged
@@ -202,36 +247,40 @@ func buyLine(p *Problem, o *catalog.Offer) (int, float64, string, error) {
 
 // solveCurrentSense searches every shunt candidate: for each, the
 // difference amplifier behind it is an ordinary difference search with the
-// limits less the shunt's share; the designs of all shunts are merged by
+// limits less the shunt's share, whose designs the exact budget confirms
+// on the whole stage, shunt included (a design it fails leaves the space
+// and its class offers its next); the designs of all shunts are merged by
 // cost. Each sub-search is exact, so the merged top N is too.
 func solveCurrentSense(ctx context.Context, parts *Parts, p Problem, opt Options, verify verifier, exhaustive bool) (*Result, error) {
 	if opt.Top <= 0 {
 		opt.Top = defaultTop
 	}
-	keep := opt.Top
-	if verify != nil {
-		keep += verifyExtra(opt.Top)
-	}
-	var all []subDesign
+	var all, pool []subDesign
 	var near []NearMiss
 	res := &Result{Method: string(p.Method), Designs: []Design{}, NearMisses: []NearMiss{}}
 	shunts, err := shuntCandidates(ctx, parts, &p)
 	if err != nil {
 		return nil, err
 	}
+	failed := 0
 	for i := range shunts {
 		sh := &shunts[i]
 		q, ok := senseProblem(p, sh)
 		if !ok {
 			continue
 		}
-		q.Families = nil // every build of the circuit behind the shunt but an integrated part's
-		for _, b := range q.builds() {
-			if !slices.Contains(q.partBuilds(), b) {
-				q.Families = append(q.Families, b)
-			}
+		if verify != nil {
+			q.loosen(mergedSlack(false, p.Method))
 		}
-		r, err := solve(ctx, parts, q, Options{Top: subTop(keep, opt), Combos: opt.Combos, quick: opt.quick}, nil, exhaustive)
+		so, ok := subOptions(opt, verify, &failed, all, sh.cost)
+		if !ok {
+			continue
+		}
+		var whole verifier
+		if verify != nil {
+			whole = func(sd *spec.Design) (*budget.Result, []Failure, error) { return verify(shuntDesign(&p, sd, sh)) }
+		}
+		r, err := solve(ctx, parts, q, so, whole, exhaustive)
 		if errors.Is(err, ErrProblem) {
 			continue
 		}
@@ -239,22 +288,27 @@ func solveCurrentSense(ctx context.Context, parts *Parts, p Problem, opt Options
 			return nil, err
 		}
 		res.Search.add(r.Search)
+		res.verdict.add(&r.verdict)
 		for j, d := range r.Designs {
 			d2, sd2 := withShunt(&p, d, r.designs[j], sh)
 			all = append(all, subDesign{d2, sd2})
 		}
+		for _, c := range r.pool {
+			d2, sd2 := withShunt(&p, c.d, c.sd, sh)
+			pool = append(pool, subDesign{d2, sd2})
+		}
 		for _, nm := range r.NearMisses {
 			nm.Design, nm.sd = withShunt(&p, nm.Design, nm.sd, sh)
 			if nm.fixSD != nil {
-				_, nm.fixSD = withShunt(&p, Design{Family: nm.Family}, nm.fixSD, sh)
+				nm.fixSD = shuntDesign(&p, nm.fixSD, sh)
 			}
 			near = append(near, nm)
 		}
 	}
-	rejected := rankMerged(res, all, opt.Top, verify, func(d *Design, above []Design) []string { return senseReasons(&p, d, above) })
-	addNear(res, near, rejected, verify, opt.spec)
+	rankMerged(res, all, opt.Top, func(d *Design, above []Design) []string { return senseReasons(&p, d, above) })
+	addNear(res, near, verify, opt.spec)
 	if opt.Frontier && !opt.quick && len(res.Designs) > 0 {
-		mergedFrontier(res, all, verify)
+		mergedFrontier(res, pool, verify)
 	}
 	if p.hazardous() {
 		res.Cautions = append(res.Cautions, hazardCaution)
@@ -264,7 +318,7 @@ func solveCurrentSense(ctx context.Context, parts *Parts, p Problem, opt Options
 		return nil, err
 	}
 	if len(res.Designs) == 0 {
-		res.Infeasible = &Infeasible{Message: ErrInfeasible.Error() + "; no shunt and difference amplifier in the catalog meet every limit together"}
+		res.Infeasible = &Infeasible{Message: ErrInfeasible.Error() + "; no shunt and difference amplifier in the catalog meet every limit together" + res.verdict.infeasibleWhy()}
 		return res, ErrInfeasible
 	}
 	return res, nil

@@ -124,7 +124,7 @@ type aolKey struct {
 // passGain reports whether m meets the limits that depend on the
 // amplifier only through its open-loop gain: the gain errors and drift.
 func (s *space) passGain(m *metrics) bool {
-	l := &s.p.Limits
+	l := s.p.screenLimits()
 	return withinMax(m.gainErr, l.GainError) && withinMax(m.totalErr, l.TotalGainError) && withinMax(m.drift, l.DriftPPM)
 }
 

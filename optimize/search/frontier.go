@@ -66,36 +66,62 @@ func worstMargin(d *Design) float64 {
 // budget when there is one, with the ranked designs, reduced to those no
 // cheaper design matches in margin on every limit.
 func (s *space) addFrontier(ctx context.Context, res *Result, verify verifier) error {
+	cands, err := s.frontierPool(ctx)
+	if err != nil {
+		return err
+	}
+	res.Frontier = frontierFrom(res, cands, verify)
+	return nil
+}
+
+// frontierPool lists the designs of the FrontierPool cheapest passing
+// classes by cost, on the screening figures.
+func (s *space) frontierPool(ctx context.Context) ([]subDesign, error) {
 	top, _, err := s.branchAndBound(ctx, FrontierPool, nil)
 	if err != nil {
-		return fmt.Errorf("search: %w", err)
+		return nil, fmt.Errorf("search: %w", err)
 	}
+	out := make([]subDesign, 0, len(top))
+	for i := range top {
+		d, sd, err := s.describe(&top[i])
+		if err != nil {
+			return nil, err
+		}
+		d.ValueVariants = s.variants(&top[i])
+		out = append(out, subDesign{d, sd})
+	}
+	return out, nil
+}
+
+// frontierFrom is the frontier of the ranked designs of res and of the
+// candidates (by cost), one per set of grades, up to FrontierPool beside
+// the ranked ones, each confirmed by verify unless it carries its exact
+// budget already (nil: taken as it is), marked.
+func frontierFrom(res *Result, cands []subDesign, verify verifier) []Design {
 	pool := append([]Design(nil), res.Designs...)
 	seen := map[string]bool{}
 	for i := range pool {
 		seen[gradeKey(&pool[i])] = true
 	}
-	for i := range top {
-		d, sd, err := s.describe(&top[i])
-		if err != nil {
-			return err
+	for _, c := range cands {
+		if len(pool) >= len(res.Designs)+FrontierPool {
+			break
 		}
-		if seen[gradeKey(&d)] {
+		if seen[gradeKey(&c.d)] {
 			continue
 		}
-		seen[gradeKey(&d)] = true
-		if verify != nil {
-			br, fails, err := verify(sd)
+		seen[gradeKey(&c.d)] = true
+		if verify != nil && c.d.budget == nil {
+			br, fails, err := verify(c.sd)
 			if err != nil || len(fails) > 0 {
 				continue
 			}
-			adopt(&d, br)
+			adopt(&c.d, br)
 		}
-		d.ValueVariants = s.variants(&top[i])
-		pool = append(pool, d)
+		c.d.Rank = 0
+		pool = append(pool, c.d)
 	}
-	res.Frontier = markFrontier(frontierOf(pool))
-	return nil
+	return markFrontier(frontierOf(pool))
 }
 
 // markFrontier adds to each frontier design the line that says why it is
@@ -113,35 +139,11 @@ func markFrontier(f []Design) []Design {
 	return f
 }
 
-// mergedFrontier fills res.Frontier for a search merged from exact
+// mergedFrontier fills res.Frontier for a search merged from
 // sub-searches (the in-amp's second-stage gains, the current sense's
 // shunts): the ranked designs and the cheapest designs of every
-// sub-search, by cost, one per set of grades, up to FrontierPool beside
-// the ranked ones, each confirmed by verify (nil: taken as it is), reduced
-// to the frontier. all is sorted by cost.
-func mergedFrontier(res *Result, all []subDesign, verify verifier) {
-	pool := append([]Design(nil), res.Designs...)
-	seen := map[string]bool{}
-	for i := range pool {
-		seen[gradeKey(&pool[i])] = true
-	}
-	for _, c := range all {
-		if len(pool) >= len(res.Designs)+FrontierPool {
-			break
-		}
-		if seen[gradeKey(&c.d)] {
-			continue
-		}
-		seen[gradeKey(&c.d)] = true
-		if verify != nil {
-			br, fails, err := verify(c.sd)
-			if err != nil || len(fails) > 0 {
-				continue
-			}
-			adopt(&c.d, br)
-		}
-		c.d.Rank = 0
-		pool = append(pool, c.d)
-	}
-	res.Frontier = markFrontier(frontierOf(pool))
+// sub-search's frontier pool (cands), by cost, as frontierFrom takes them.
+func mergedFrontier(res *Result, cands []subDesign, verify verifier) {
+	sort.SliceStable(cands, func(i, j int) bool { return cands[i].d.TotalCost < cands[j].d.TotalCost })
+	res.Frontier = frontierFrom(res, cands, verify)
 }

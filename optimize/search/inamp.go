@@ -398,36 +398,43 @@ type subDesign struct {
 // solveInAmp searches every second-stage gain k2 (unity, and the ratio of
 // each network): for each, a sub-search over the first-stage grades and
 // values at 1 + 2Rf/Rg = G/k2, the second-stage choices of that gain and
-// the op-amps. The sub-searches are exact, so the designs merged by cost
-// are the exact top N; the exact budget then confirms them in order.
+// the op-amps. Each sub-search is exact and confirms its designs with the
+// exact budget (a design the budget fails leaves its space and its class
+// offers its next), so the designs merged by cost are the exact top N.
 func solveInAmp(ctx context.Context, parts *Parts, p Problem, opt Options, verify verifier, exhaustive bool) (*Result, error) {
 	if opt.Top <= 0 {
 		opt.Top = defaultTop
 	}
-	keep := opt.Top
-	if verify != nil {
-		keep += verifyExtra(opt.Top)
-	}
 	res := &Result{Method: string(p.Method), Designs: []Design{}, NearMisses: []NearMiss{}}
-	var all []subDesign
+	var all, pool []subDesign
 	var near []NearMiss
 	var inf *Infeasible
+	failed := 0
 	gains := inampStage2Gains(parts, &p)
 	for _, k2 := range gains {
 		q := p
 		q.k2 = k2
-		r, err := solve(ctx, parts, q, Options{Top: subTop(keep, opt), Combos: opt.Combos, quick: opt.quick, ceiling: opt.ceiling, most: opt.most}, nil, exhaustive)
+		if verify != nil {
+			q.loosen(mergedSlack(true, p.Method))
+		}
+		so, ok := subOptions(opt, verify, &failed, all, 0)
+		if !ok {
+			continue
+		}
+		r, err := solve(ctx, parts, q, so, verify, exhaustive)
 		if err != nil && !errors.Is(err, ErrInfeasible) {
 			return nil, err
 		}
 		res.Search.add(r.Search)
 		res.cut = res.cut || r.cut
+		res.verdict.add(&r.verdict)
 		if k2 == 1 {
 			inf, res.Notes = r.Infeasible, r.Notes
 		}
 		for j, d := range r.Designs {
 			all = append(all, subDesign{d, r.designs[j]})
 		}
+		pool = append(pool, r.pool...)
 		near = append(near, r.NearMisses...)
 	}
 	if opt.Progress != nil {
@@ -449,10 +456,10 @@ func solveInAmp(ctx context.Context, parts *Parts, p Problem, opt Options, verif
 		}
 		return res, nil
 	}
-	rejected := rankMerged(res, all, opt.Top, verify, func(d *Design, above []Design) []string { return mergedReasons(&p, d, above) })
-	addNear(res, near, rejected, verify, opt.spec)
+	rankMerged(res, all, opt.Top, func(d *Design, above []Design) []string { return mergedReasons(&p, d, above) })
+	addNear(res, near, verify, opt.spec)
 	if opt.Frontier && !opt.quick && len(res.Designs) > 0 {
-		mergedFrontier(res, all, verify)
+		mergedFrontier(res, pool, verify)
 	}
 	if p.hazardous() {
 		res.Cautions = append(res.Cautions, hazardCaution)
@@ -466,19 +473,45 @@ func solveInAmp(ctx context.Context, parts *Parts, p Problem, opt Options, verif
 		if inf == nil {
 			res.Infeasible = &Infeasible{Message: ErrInfeasible.Error()}
 		}
-		res.Infeasible.Message += "; no first stage, second stage and op-amp in the catalog meet every limit together"
+		res.Infeasible.Message += "; no first stage, second stage and op-amp in the catalog meet every limit together" + res.verdict.infeasibleWhy()
 		return res, ErrInfeasible
 	}
 	return res, nil
 }
 
-// subTop is how many designs a sub-search of a merged search keeps: keep,
-// or with the frontier asked for, enough to draw it from (FrontierPool).
-func subTop(keep int, opt Options) int {
-	if opt.Frontier && !opt.quick {
-		return max(keep, FrontierPool)
+// subOptions are the options of one sub-search of a merged search run
+// with opt: Top designs, each confirmed by verify inside the sub-search,
+// which shares failed (the designs the exact budget failed so far) with
+// the others. ranked holds the designs the sub-searches before it ranked;
+// once they are Top or more, the sub-search budgets no design dearer than
+// the Top-th of them, less shift (what the merged design adds to the
+// sub-search's cost), and ok is false when that leaves it nothing. A
+// chain's listing (opt.ceiling) takes every design up to the ceiling,
+// unconfirmed; with the frontier asked for, each sub-search also lists
+// the candidates of its frontier.
+func subOptions(opt Options, verify verifier, failed *int, ranked []subDesign, shift float64) (Options, bool) {
+	so := Options{Top: opt.Top, Combos: opt.Combos, quick: opt.quick, Frontier: opt.Frontier}
+	if opt.ceiling > 0 {
+		so.Top, so.Frontier, so.ceiling, so.most = opt.Top+verifyExtra(opt.Top), false, opt.ceiling, opt.most
+		return so, true
 	}
-	return keep
+	so.failed = failed
+	if verify == nil || len(ranked) < opt.Top {
+		return so, true
+	}
+	costs := make([]float64, len(ranked))
+	for i, c := range ranked {
+		costs[i] = c.d.TotalCost
+	}
+	sort.Float64s(costs)
+	so.below = costs[opt.Top-1] - shift
+	if so.below <= 0 {
+		if !opt.Frontier {
+			return so, false
+		}
+		so.below = math.SmallestNonzeroFloat64 // budget nothing, list the frontier's candidates
+	}
+	return so, true
 }
 
 // add sums the work of a sub-search into st.
@@ -490,18 +523,18 @@ func (st *Stats) add(o Stats) {
 }
 
 // addNear appends the sub-searches' near misses cheaper than rank 1, the
-// closest first (least shortfall), up to maxNearMisses besides the rejected
-// designs; with verify, each is confirmed by the exact budget first
-// (nearCheck), and its fix confirmed, with a calibration tried on the
-// spec s (settleFix).
-func addNear(res *Result, near []NearMiss, rejected int, verify verifier, s *spec.Spec) {
+// closest first (least shortfall), up to maxNearMisses; with verify, each
+// is confirmed by the exact budget first (nearCheck; a design the
+// sub-search's budget failed carries its figures already), and its fix
+// confirmed, with a calibration tried on the spec s (settleFix).
+func addNear(res *Result, near []NearMiss, verify verifier, s *spec.Spec) {
 	check := nearCheck{verify: verify, spec: s}
 	var kept []NearMiss
 	for _, nm := range near {
 		if len(kept) >= 2*maxNearMisses || (len(res.Designs) > 0 && nm.TotalCost >= res.Designs[0].TotalCost) {
 			continue
 		}
-		if check.confirm(&nm) {
+		if nm.budget != nil || check.confirm(&nm) {
 			kept = append(kept, nm)
 		}
 	}
@@ -515,48 +548,21 @@ func addNear(res *Result, near []NearMiss, rejected int, verify verifier, s *spe
 	res.Notes = append(res.Notes, check.notes()...)
 }
 
-// rankMerged ranks the designs of exact sub-searches by cost: each is
-// confirmed by verify (nil: taken as it is); one the exact budget fails
-// becomes a near miss and the next takes its rank. reasons rebuilds the
-// reasons on the merged ranking. It returns the number of rejected designs
-// listed among the near misses.
-func rankMerged(res *Result, all []subDesign, top int, verify verifier, reasons func(d *Design, above []Design) []string) int {
+// rankMerged ranks the designs of sub-searches by cost, Top of them. Each
+// sub-search confirmed its designs with the exact budget (solve), so the
+// cheapest of their union are the merged search's; the verdict's notes
+// (designs the budget failed, classes cut) are stated once, summed over
+// the sub-searches. reasons rebuilds the reasons on the merged ranking.
+func rankMerged(res *Result, all []subDesign, top int, reasons func(d *Design, above []Design) []string) {
 	sort.SliceStable(all, func(i, j int) bool { return all[i].d.TotalCost < all[j].d.TotalCost })
-	rejected := 0
-	var broken unchecked
-	for _, c := range all {
-		if len(res.Designs) >= top {
-			break
-		}
-		if verify != nil {
-			br, fails, err := verify(c.sd)
-			if err != nil {
-				broken.add(err)
-				continue
-			}
-			adopt(&c.d, br)
-			if len(fails) > 0 {
-				nm := NearMiss{Design: c.d, Fails: fails, sd: c.sd}
-				nm.Reasons = []string{"passes the search's screening figures, but the exact budget fails it: " + failText(fails)}
-				if rejected < maxNearMisses {
-					res.NearMisses = append(res.NearMisses, nm)
-				}
-				rejected++
-				continue
-			}
-		}
+	for _, c := range all[:min(len(all), top)] {
 		c.d.Rank = len(res.Designs) + 1
 		c.d.Reasons = reasons(&c.d, res.Designs)
 		res.Designs = append(res.Designs, c.d)
 		res.designs = append(res.designs, c.sd)
 	}
-	if rejected > 0 {
-		res.Notes = append(res.Notes, fmt.Sprintf("%d design(s) that pass the screening figures fail the exact budget; they are listed first among the near misses", rejected))
-	}
-	if n := broken.note("design(s) that pass the screening figures are not ranked"); n != "" {
-		res.Notes = append(res.Notes, n)
-	}
-	return min(rejected, maxNearMisses)
+	res.Notes = append(res.Notes, res.verdict.notes()...)
+	res.unproven = res.verdict.cut > 0
 }
 
 // mergedReasons explains a design on a merged ranking: its limits, the

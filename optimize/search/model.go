@@ -326,7 +326,7 @@ func (s *space) evalMatched(a *amp, m *metrics) {
 // resistance driven through zero by an absurd tempco) must not pass, and
 // NaN passes nothing.
 func (s *space) pass(m *metrics) bool {
-	l := &s.p.Limits
+	l := s.p.screenLimits()
 	return withinMax(m.gainErr, l.GainError) &&
 		withinMax(m.totalErr, l.TotalGainError) &&
 		withinMax(m.drift, l.DriftPPM) &&

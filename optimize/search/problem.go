@@ -166,6 +166,10 @@ type Problem struct {
 	// k2 is the second-stage gain R2/R1 of an instrumentation amplifier
 	// (set per sub-search; 0 outside one).
 	k2 float64
+	// screen, when set, are the limits the screening prunes with in place
+	// of Limits: Limits loosened by the slack of a screen that may read
+	// above the exact budget (see loosen).
+	screen *Limits
 	// fam caches the registry entry of Circuit (see family).
 	fam *family.Family
 }
@@ -333,11 +337,12 @@ func (p *Problem) families() []Family {
 // window is the largest ratio quantization a value pair may have.
 func (p *Problem) window() float64 {
 	w := quantWindow
-	if !p.CalGain && p.Limits.GainError > 0 && p.Limits.GainError < w {
-		w = p.Limits.GainError
+	l := p.screenLimits()
+	if !p.CalGain && l.GainError > 0 && l.GainError < w {
+		w = l.GainError
 	}
-	if !p.CalGain && p.Limits.TotalGainError > 0 && p.Limits.TotalGainError < w {
-		w = p.Limits.TotalGainError
+	if !p.CalGain && l.TotalGainError > 0 && l.TotalGainError < w {
+		w = l.TotalGainError
 	}
 	return w
 }

@@ -59,6 +59,15 @@ type Options struct {
 	// most, with ceiling, stops the list past that many designs (then
 	// Result.cut is set).
 	most int
+	// failed, when set, makes the search a sub-search of a merged one
+	// (the in-amp's per second-stage gain, the current sense's per shunt):
+	// it counts the designs the exact budget failed over every
+	// sub-search, so that maxRejected bounds the merged search, and the
+	// merged search states the verdict's notes once (Result.verdict).
+	failed *int
+	// below, when above 0, is the cost past which a sub-search budgets no
+	// design: the merged search already ranks Top designs at or below it.
+	below float64
 }
 
 const defaultTop = 5
@@ -98,6 +107,11 @@ type Result struct {
 	// designs the exact budget fails (maxRejected): "no design" is then
 	// not proven.
 	unproven bool
+	// verdict counts what the exact budget refused on the way.
+	verdict verdict
+	// pool holds a sub-search's candidates for the merged search's
+	// frontier (frontierPool).
+	pool []subDesign
 }
 
 // Stats count the work of the search.

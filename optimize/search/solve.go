@@ -526,7 +526,7 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 		res.Notes = append(res.Notes, "the search screens Monte Carlo specs with root-sum-square figures; run the budget of a design for its yield")
 	}
 	var rejected []NearMiss
-	var broken unchecked
+	v := &res.verdict
 	limit := math.Inf(1)
 	type fold struct {
 		n        int
@@ -541,11 +541,15 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 	// again past them. So a spec is called infeasible only when every
 	// design that passes the screening has failed the exact budget, or
 	// the search says it stopped short (maxRejected).
-	budgeted := 0 // designs the exact budget failed or could not run
-	maxOut := maxRejected
-	if opt.quick {
-		maxOut = maxRejectedQuick
+	budgeted := opt.failed // designs the exact budget failed or could not run
+	if budgeted == nil {
+		budgeted = new(int)
 	}
+	v.maxOut = maxRejected
+	if opt.quick {
+		v.maxOut = maxRejectedQuick
+	}
+	stopped := false                      // the designs left cost more than opt.below
 	passed := map[optKey]*budget.Result{} // designs the exact budget passed, kept over the rounds
 	failedIn := map[uint64]int{}          // per class, its designs the exact budget failed
 	cut := map[uint64]bool{}              // classes whose dearer designs were not tried
@@ -553,6 +557,9 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 		complete := len(top) < keep // every class that passes the screening is in top
 		res.Designs, res.designs = res.Designs[:0], res.designs[:0]
 		limit = math.Inf(1)
+		if opt.below > 0 {
+			limit = opt.below
+		}
 		folded := map[string]int{} // grade key -> index in res.Designs
 		folds = map[int]*fold{}
 		for i := 0; i < len(top); i++ {
@@ -562,6 +569,10 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 			d, sd, err := sp.describe(&top[i])
 			if err != nil {
 				return nil, err
+			}
+			if opt.below > 0 && d.TotalCost > opt.below*(1+1e-12) {
+				stopped = true
+				break
 			}
 			if j, ok := folded[gradeKey(&d)]; ok {
 				more := d.UnitCost - res.Designs[j].UnitCost
@@ -586,21 +597,19 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 					passed[k] = br
 				}
 				if err != nil || len(fails) > 0 {
-					budgeted++
+					*budgeted++
 					cls := top[i].id
 					failedIn[cls]++
-					advance := budgeted <= maxOut && failedIn[cls] <= maxClassRejected
+					advance := *budgeted <= v.maxOut && failedIn[cls] <= maxClassRejected
 					if !advance && top[i].cfg >= 0 {
 						cut[cls] = true
 					}
 					if err != nil {
 						// One verdict per design: what the exact budget
 						// cannot evaluate is not ranked.
-						broken.add(err)
+						v.broken.add(err)
 					} else {
-						nm := NearMiss{Design: d, Fails: fails, sd: sd, class: top[i], Shortfall: exactShortfall(d.Limits)}
-						nm.Reasons = []string{"passes the search's screening figures, but the exact budget fails it: " + failText(fails)}
-						rejected = append(rejected, nm)
+						rejected = append(rejected, rejectedDesign(d, sd, top[i], fails))
 					}
 					top = sp.replaceFailed(top, i, complete, advance)
 					continue
@@ -616,7 +625,7 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 			res.Designs = append(res.Designs, d)
 			res.designs = append(res.designs, sd)
 		}
-		if complete || len(res.Designs) >= opt.Top || verify == nil || keep >= maxKeep*opt.Top {
+		if complete || stopped || len(res.Designs) >= opt.Top || verify == nil || keep >= maxKeep*opt.Top {
 			break
 		}
 		// The classes kept ran out: search again past them, the failed
@@ -631,9 +640,11 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 		opt.Progress(st.classes, st.classes)
 	}
 	res.Search = Stats{Classes: st.classes, Visited: st.visited, BoundPruned: st.boundPruned, Evaluated: st.evaluated}
-	if len(cut) > 0 {
-		res.unproven = true
-		res.Notes = append(res.Notes, fmt.Sprintf("the exact budget failed the cheaper designs of %d class(es) that pass the screening figures; their dearer designs were not tried (at most %d per class, %d in all), so a design cheaper than those listed may pass: check one by hand with plumb check", len(cut), maxClassRejected, maxOut))
+	v.cut, v.rejected = len(cut), len(rejected)
+	res.unproven = v.cut > 0
+	if opt.failed == nil {
+		// A merged search states its sub-searches' verdicts once.
+		res.Notes = append(res.Notes, v.notes()...)
 	}
 	// One line per design for the classes folded into it.
 	for j, f := range folds {
@@ -644,20 +655,31 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 			d.Reasons = append(d.Reasons, fmt.Sprintf("the same grades in %d other sizes, technologies or parts cost %.4g to %.4g more per stage (the cheapest: %s)", f.n, f.min, f.max, f.parts))
 		}
 	}
-	if len(rejected) > 0 {
-		res.Notes = append(res.Notes, fmt.Sprintf("%d design(s) that pass the screening figures fail the exact budget; they are among the near misses", len(rejected)))
-	}
-	if n := broken.note("design(s) that pass the screening figures are not ranked"); n != "" {
-		res.Notes = append(res.Notes, n)
-	}
 	check := nearCheck{verify: verify, spec: opt.spec}
+	if opt.failed != nil {
+		// The merged search confirms the near misses it keeps.
+		check.verify = nil
+	}
 	if !opt.quick {
+		// Near misses are the classes the limits themselves fail, not
+		// only those the screen's slack (Problem.loosen) would.
+		p.screen = nil
+		if opt.failed != nil {
+			// The merged search keeps near misses cheaper than its rank 1,
+			// which is no dearer than this sub-search's.
+			rejected = slices.DeleteFunc(rejected, func(nm NearMiss) bool { return nm.TotalCost >= limit })
+		}
 		if err := sp.addNearMisses(res, rejected, limit, &check); err != nil {
 			return nil, err
 		}
 	}
 	res.Notes = append(res.Notes, check.notes()...)
-	if opt.Frontier && !opt.quick && len(res.Designs) > 0 {
+	if opt.Frontier && !opt.quick && opt.failed != nil {
+		// The merged search draws its frontier from every sub-search's.
+		if res.pool, err = sp.frontierPool(ctx); err != nil {
+			return nil, err
+		}
+	} else if opt.Frontier && !opt.quick && len(res.Designs) > 0 {
 		if err := sp.addFrontier(ctx, res, verify); err != nil {
 			return nil, err
 		}
@@ -672,12 +694,8 @@ func solve(ctx context.Context, parts *Parts, p Problem, opt Options, verify ver
 			res.Infeasible.Hard, need = hardCauses(parts, &p)
 			res.Infeasible.rails = &need
 		}
-		if len(cut) > 0 {
-			res.Infeasible.Message += "; not proven: the exact budget failed so many designs that pass the screening figures that the dearer designs of some classes were not tried (see the notes)"
-		} else if len(rejected) > 0 {
-			res.Infeasible.Message += "; the designs that pass the screening figures all fail the exact budget (see the near misses)"
-		} else if broken.n > 0 {
-			res.Infeasible.Message += "; the exact budget could not be run on the designs that pass the screening figures (see the notes)"
+		if opt.failed == nil {
+			res.Infeasible.Message += v.infeasibleWhy()
 		}
 		return res, ErrInfeasible
 	}
