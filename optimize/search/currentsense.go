@@ -269,7 +269,9 @@ func solveCurrentSense(ctx context.Context, parts *Parts, p Problem, opt Options
 		if !ok {
 			continue
 		}
-		if verify != nil {
+		if verify != nil && opt.ceiling == 0 {
+			// A chain's listing (opt.ceiling) widens its stages' screens
+			// itself.
 			q.loosen(mergedSlack(false, p.Method))
 		}
 		so, ok := subOptions(opt, verify, &failed, all, sh.cost)

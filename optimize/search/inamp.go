@@ -414,7 +414,9 @@ func solveInAmp(ctx context.Context, parts *Parts, p Problem, opt Options, verif
 	for _, k2 := range gains {
 		q := p
 		q.k2 = k2
-		if verify != nil {
+		if verify != nil && opt.ceiling == 0 {
+			// A chain's listing (opt.ceiling) widens its stages' screens
+			// itself.
 			q.loosen(mergedSlack(true, p.Method))
 		}
 		so, ok := subOptions(opt, verify, &failed, all, 0)

@@ -839,10 +839,11 @@ func (s *space) reasons(b *classBest, d *Design, above []Design) []string {
 		out = append(out, s.rankLine(&above[len(above)-1], d))
 	}
 	if d.ValueVariants > 1 {
-		// The channel's screen reads below the exact budget by its slack:
-		// its count is of candidates, not of designs that pass.
+		// The channel's screen, and a loosened one (Problem.loosen), read
+		// below the exact budget by their slack: the count is of
+		// candidates, not of designs that pass.
 		screened := ""
-		if s.p.Channel != nil {
+		if s.p.Channel != nil || s.p.screen != nil {
 			screened = " the screening figures"
 		}
 		if n := d.ValueVariants - 1; n == 1 {
